@@ -1,0 +1,62 @@
+/* lw-cli-json.h — JSON output of the command-line tool, built with json-glib.
+ *
+ * Small builders shared by the commands that print results as JSON: a factored model, the
+ * loop block (crossovers and margins), the closed loop, the step response, and the whole
+ * analysis of a sampled loop.  Each lw_cli_json_add_* function adds one *value* to the
+ * builder, so the caller sets the member name first (or is inside an array).
+ *
+ * Numbers: every double is written with round-trip precision (17 significant digits); a
+ * value that is absent (has_* false) or not finite is written as null.  Units are those of
+ * the core structures: frequencies ω in rad/s, margins in degrees / dB, times in seconds.
+ *
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ */
+#pragma once
+
+#include <stdbool.h>
+
+#include <json-glib/json-glib.h>
+
+#include "lw-analysis.h"
+#include "lw-model.h"
+
+G_BEGIN_DECLS
+
+/* A number, or null when !isfinite (v). */
+void lw_cli_json_add_number (JsonBuilder *b, double v);
+
+/* A number when `has` (and finite), otherwise null. */
+void lw_cli_json_add_optional (JsonBuilder *b, bool has, double v);
+
+/* An array of n numbers (an empty array when n == 0). */
+void lw_cli_json_add_number_array (JsonBuilder *b, const double *v, size_t n);
+
+/* An array of n [re, im] pairs. */
+void lw_cli_json_add_complex_array (JsonBuilder *b, const double complex *v, size_t n);
+
+/* {"gain": leading-coefficient gain, "zeros": [[re, im]…], "poles": [[re, im]…]} */
+void lw_cli_json_add_zpk (JsonBuilder *b, const LwZpk *m);
+
+/* The loop block: every crossover with its margin, then the governing values (null where the
+ * core reports none). Keys: gain_crossovers_rad_s, phase_margins_deg, phase_crossovers_rad_s,
+ * gain_margins_db, phase_margin_deg, gain_crossover_rad_s, gain_margin_db,
+ * phase_crossover_rad_s, delay_margin_s, delay_margin_samples, sensitivity_peak,
+ * sensitivity_peak_rad_s. */
+void lw_cli_json_add_loop (JsonBuilder *b, const LwMargins *m);
+
+/* {"stable": bool, "poles": [[re, im]…]}  (z-plane) */
+void lw_cli_json_add_closed_loop (JsonBuilder *b, const LwEvaluation *ev);
+
+/* {"final_value", "overshoot_pct", "rise_time_s", "settling_time_s", "samples": [y(kT)…]} */
+void lw_cli_json_add_step (JsonBuilder *b, const LwStep *s);
+
+/* The whole analysis object: sample_period_s, plant_z, plant_w, loop, closed_loop, step.
+ * New node; free with json_node_unref. */
+JsonNode *lw_cli_json_evaluation (const LwEvaluation *ev);
+
+/* Pretty-printed JSON text of root, ending in a newline; g_free the result.
+ * json-glib 1.6 appends ".0" to any double it prints without a '.', which turns 1e+20 into
+ * the invalid token "1e+20.0"; this function repairs such tokens so the text is valid JSON. */
+char *lw_cli_json_to_text (JsonNode *root);
+
+G_END_DECLS
