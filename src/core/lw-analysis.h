@@ -1,0 +1,116 @@
+/* lw-analysis.h — the sampled loop analyzed: discretized plant, controller, loop frequency
+ * response, every crossover and margin, closed-loop poles, unity-feedback step response.
+ *
+ * Plan/execute split: an LwSampledPlant is built once per (plant, dead time, period) — the
+ * exact ZOH state space — and reused for every controller evaluated against it.
+ *
+ * The loop is  L(z) = z^−N · C(z) · P(z)   with N the computation delay in whole samples,
+ * C the controller mapped to z and P the zero-order-hold equivalent of the continuous plant
+ * including its input dead time.  Unity negative feedback: e = r − y, u = C e.
+ * Conventions (frequencies, wrapping, which margin governs) are defined in docs/conventions.md.
+ *
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ */
+#pragma once
+
+#include <stdbool.h>
+#include <stddef.h>
+
+#include "lw-error.h"
+#include "lw-model.h"
+
+#ifdef __cplusplus
+extern "C" {
+#endif
+
+typedef struct LwSampledPlant LwSampledPlant;
+
+/* Discretizes plant_s (domain s, proper) with a zero-order hold at period_s > 0 and an input
+ * dead time dead_time_s >= 0 (any real value: whole samples plus a fraction). */
+LwStatus lw_sampled_plant_new (const LwZpk *plant_s, double dead_time_s, double period_s,
+                               LwSampledPlant **out, LwError *err);
+void lw_sampled_plant_free (LwSampledPlant *p);
+
+double lw_sampled_plant_period (const LwSampledPlant *p);
+
+/* Plant in z, factored, for display (zeros from a generalized eigenvalue problem of the state
+ * space; nothing is evaluated through them). Includes the dead time (poles at z = 0), not the
+ * computation delay. New model; caller frees. */
+LwZpk *lw_sampled_plant_zpk (const LwSampledPlant *p);
+
+/* P(e^{jωT}) from the state space (one Hessenberg solve), times the whole-sample dead time. */
+double complex lw_sampled_plant_response (const LwSampledPlant *p, double omega_rad_s);
+
+/* Bilinear map between factored models in z and in w = (2/T)(z−1)/(z+1), factor by factor.
+ * A zero or pole at z = −1 maps to w = ∞ (it drops out, into the gain); the difference in
+ * degree produces roots at w = 2/T (from z) or at z = −1 (from w). New model or NULL. */
+LwZpk *lw_zpk_z_to_w (const LwZpk *mz);
+LwZpk *lw_zpk_w_to_z (const LwZpk *mw);
+
+/* Frequency warping of the bilinear map: ν = (2/T)·tan(ωT/2) and its inverse (rad/s). */
+double lw_warp_omega_to_nu (double omega_rad_s, double period_s);
+double lw_warp_nu_to_omega (double nu_rad_s, double period_s);
+
+typedef struct {
+  int compute_delay;      /* N >= 0, whole samples */
+  size_t n_points;        /* frequency points, >= 16; the grid ends exactly at π/T */
+  size_t n_steps;         /* step-response samples k = 0 … n_steps−1, >= 2 */
+} LwAnalysisOptions;
+
+void lw_analysis_options_init (LwAnalysisOptions *o);   /* N = 1, 2000 points, 500 steps */
+
+typedef struct {
+  /* every gain crossover |L| = 1 (ascending ω, rad/s) and its phase margin, degrees in
+   * (−180, 180] */
+  size_t n_gain_crossovers;
+  double *gain_crossovers_rad_s;
+  double *phase_margins_deg;
+  /* every phase crossover ∠L = −180° (mod 360°) and its gain margin −20·log10|L|, dB */
+  size_t n_phase_crossovers;
+  double *phase_crossovers_rad_s;
+  double *gain_margins_db;
+  /* governing values; has_* false where none exists */
+  bool has_phase_margin;  double phase_margin_deg;  double gain_crossover_rad_s;
+  bool has_gain_margin;   double gain_margin_db;    double phase_crossover_rad_s;
+  bool has_delay_margin;  double delay_margin_s;    double delay_margin_samples;
+  bool has_sensitivity;   double sensitivity_peak;  double sensitivity_peak_rad_s;  /* ratio */
+  bool has_bandwidth;     double bandwidth_rad_s;   /* |T| first below |T(0)|−3 dB */
+} LwMargins;
+
+typedef struct {
+  size_t n;
+  double *samples;        /* y(kT), k = 0 … n−1 */
+  bool has_final;  double final_value;     /* closed-loop DC gain, when stable */
+  bool has_overshoot;  double overshoot_pct;
+  bool has_rise;   double rise_time_s;     /* 10 % → 90 % of final, linear between samples */
+  bool has_settling;  double settling_time_s;  /* enters and stays within ±2 % of final */
+} LwStep;
+
+typedef struct {
+  double period_s;
+  int compute_delay;
+  LwZpk *plant_z;         /* ZOH plant with dead time, without computation delay */
+  LwZpk *plant_w;         /* the same in the w-plane */
+  LwZpk *controller_z;    /* controller in z (without the computation delay) */
+  LwZpk *controller_w;
+  /* loop frequency response on the grid: ω (rad/s), |L| in dB, ∠L in degrees unwrapped */
+  size_t n_points;
+  double *omega_rad_s;
+  double *loop_mag_db;
+  double *loop_phase_deg;
+  LwMargins margins;
+  bool stable;            /* all closed-loop poles strictly inside the unit circle */
+  size_t n_closed_loop_poles;
+  double complex *closed_loop_poles;   /* z-plane */
+  LwStep step;
+} LwEvaluation;
+
+/* Evaluates the loop for a controller given in z (domain z, same period as the plant, proper).
+ * *out is a new evaluation; free with lw_evaluation_free. */
+LwStatus lw_evaluate (const LwSampledPlant *plant, const LwZpk *controller_z,
+                      const LwAnalysisOptions *opts, LwEvaluation **out, LwError *err);
+void lw_evaluation_free (LwEvaluation *ev);
+
+#ifdef __cplusplus
+}
+#endif

@@ -1,0 +1,1003 @@
+/* lw-evaluate.c — the sampled loop analyzed: frequency response on a densified grid, every
+ * crossover refined, margins, sensitivity peak, bandwidth, closed-loop poles, step response.
+ * Conventions: docs/conventions.md.
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ */
+#include "lw-internal.h"
+
+#include <float.h>
+#include <math.h>
+#include <stdlib.h>
+#include <string.h>
+
+#define RAD2DEG (180.0 / LW_PI)
+
+void
+lw_analysis_options_init (LwAnalysisOptions *o)
+{
+  o->compute_delay = 1;
+  o->n_points = 2000;
+  o->n_steps = 500;
+}
+
+/* ---------------------------------------------------------------------------------------- */
+/* The loop as a function of ω                                                               */
+
+typedef struct {
+  const LwSampledPlant *plant;
+  const LwZpk *ctrl;        /* in z */
+  double t;                 /* sample period, s */
+  double omega_n;           /* Nyquist frequency π/T, rad/s */
+  int delay;                /* whole samples: plant dead time + computation delay */
+  /* unwrapped phase of the delay-free part C·P_core on the grid, degrees */
+  const double *grid;
+  const double *core_phase;
+  size_t n;
+} Loop;
+
+static bool
+at_nyquist (const Loop *lp, double w)
+{
+  return fabs (w - lp->omega_n) <= 4.0 * DBL_EPSILON * lp->omega_n;
+}
+
+/* C(z)·P_core(z) at z = e^{jωT}: everything but the whole-sample delays. */
+static double complex
+loop_core (const Loop *lp, double w)
+{
+  bool nyq = at_nyquist (lp, w);
+  double complex z = nyq ? -1.0 : cexp (I * w * lp->t);
+  double complex h = lw_hess_eval (lp->plant->eval, z);
+  const LwZpk *c = lp->ctrl;
+  double complex num = c->gain, den = 1.0;
+  for (size_t i = 0; i < c->n_zeros; i++)
+    num *= z - c->zeros[i];
+  for (size_t i = 0; i < c->n_poles; i++)
+    den *= z - c->poles[i];
+  return h * num / den;
+}
+
+/* The whole-sample delay's phase, degrees (exact, continuous in ω). */
+static double
+delay_phase_deg (const Loop *lp, double w)
+{
+  if (at_nyquist (lp, w))
+    return -180.0 * lp->delay;
+  return -w * lp->t * lp->delay * RAD2DEG;
+}
+
+static double complex
+loop_full (const Loop *lp, double w)
+{
+  double complex h = loop_core (lp, w);
+  if (lp->delay == 0)
+    return h;
+  if (at_nyquist (lp, w))
+    return (lp->delay % 2) ? -h : h;
+  return h * cexp (-I * w * lp->t * lp->delay);
+}
+
+/* Branch of an angle (degrees) nearest to ref. */
+static double
+nearest_branch (double ang, double ref)
+{
+  return ang - 360.0 * round ((ang - ref) / 360.0);
+}
+
+/* Index i with grid[i] <= w <= grid[i+1] (binary search). */
+static size_t
+grid_interval (const Loop *lp, double w)
+{
+  size_t lo = 0, hi = lp->n - 1;
+  while (hi - lo > 1)
+    {
+      size_t mid = (lo + hi) / 2;
+      if (lp->grid[mid] <= w)
+        lo = mid;
+      else
+        hi = mid;
+    }
+  return lo;
+}
+
+/* Unwrapped loop phase (degrees) at any ω inside the grid: the principal value of the core on the
+ * branch nearest to the linear interpolation of its unwrapped grid values, plus the delay. */
+static double
+loop_phase_deg (const Loop *lp, double w, double complex core)
+{
+  size_t i = grid_interval (lp, w);
+  double w0 = lp->grid[i], w1 = lp->grid[i + 1 < lp->n ? i + 1 : i];
+  double p0 = lp->core_phase[i], p1 = lp->core_phase[i + 1 < lp->n ? i + 1 : i];
+  double ref = (w1 > w0) ? p0 + (p1 - p0) * (w - w0) / (w1 - w0) : p0;
+  return nearest_branch (carg (core) * RAD2DEG, ref) + delay_phase_deg (lp, w);
+}
+
+/* ---------------------------------------------------------------------------------------- */
+/* Scalar root finding and maximization                                                      */
+
+typedef double (*ScalarFn) (double x, void *data);
+
+/* Brent's method (R. P. Brent, Algorithms for Minimization without Derivatives, 1973, ch. 4)
+ * for a root of f in [a, b] with f(a)·f(b) <= 0; converges to a few ulps of x. */
+static double
+brent_root (ScalarFn f, void *data, double a, double b, double fa, double fb)
+{
+  if (fa == 0.0)
+    return a;
+  if (fb == 0.0)
+    return b;
+  double c = a, fc = fa, d = b - a, e = d;
+  for (int iter = 0; iter < 200; iter++)
+    {
+      if ((fb > 0) == (fc > 0))
+        {
+          c = a; fc = fa;
+          d = b - a; e = d;
+        }
+      if (fabs (fc) < fabs (fb))
+        {
+          a = b; b = c; c = a;
+          fa = fb; fb = fc; fc = fa;
+        }
+      double tol = 2.0 * DBL_EPSILON * fabs (b);
+      double m = 0.5 * (c - b);
+      if (fabs (m) <= tol || fb == 0.0)
+        return b;
+      if (fabs (e) < tol || fabs (fa) <= fabs (fb))
+        {
+          d = m; e = m;
+        }
+      else
+        {
+          double s = fb / fa, p, q;
+          if (a == c)
+            {
+              p = 2.0 * m * s;
+              q = 1.0 - s;
+            }
+          else
+            {
+              double qq = fa / fc, r = fb / fc;
+              p = s * (2.0 * m * qq * (qq - r) - (b - a) * (r - 1.0));
+              q = (qq - 1.0) * (r - 1.0) * (s - 1.0);
+            }
+          if (p > 0)
+            q = -q;
+          else
+            p = -p;
+          if (2.0 * p < fmin (3.0 * m * q - fabs (tol * q), fabs (e * q)))
+            {
+              e = d;
+              d = p / q;
+            }
+          else
+            {
+              d = m; e = m;
+            }
+        }
+      a = b; fa = fb;
+      b += (fabs (d) > tol) ? d : (m > 0 ? tol : -tol);
+      fb = f (b, data);
+    }
+  return b;
+}
+
+/* Golden-section search for a maximum of f on [a, b], to a relative width of ~1e-10 (a maximum
+ * is flat: its value is then exact to ~1e-20 relative, its location to ~1e-10). */
+static double
+golden_max (ScalarFn f, void *data, double a, double b, double *fmax_out)
+{
+  const double g = 0.6180339887498949;
+  double x1 = b - g * (b - a), x2 = a + g * (b - a);
+  double f1 = f (x1, data), f2 = f (x2, data);
+  for (int iter = 0; iter < 200 && (b - a) > 1e-10 * fabs (b); iter++)
+    {
+      if (f1 < f2)
+        {
+          a = x1; x1 = x2; f1 = f2;
+          x2 = a + g * (b - a);
+          f2 = f (x2, data);
+        }
+      else
+        {
+          b = x2; x2 = x1; f2 = f1;
+          x1 = b - g * (b - a);
+          f1 = f (x1, data);
+        }
+    }
+  if (f1 > f2)
+    {
+      *fmax_out = f1;
+      return x1;
+    }
+  *fmax_out = f2;
+  return x2;
+}
+
+static double
+fn_log_mag (double w, void *data)
+{
+  return log (cabs (loop_core (data, w)));
+}
+
+typedef struct {
+  const Loop *lp;
+  double target;
+} PhaseTarget;
+
+static double
+fn_phase (double w, void *data)
+{
+  const PhaseTarget *pt = data;
+  return loop_phase_deg (pt->lp, w, loop_core (pt->lp, w)) - pt->target;
+}
+
+static double
+fn_sens (double w, void *data)
+{
+  return 1.0 / cabs (1.0 + loop_full (data, w));
+}
+
+static double
+fn_comp_db (double w, void *data)
+{
+  const PhaseTarget *pt = data;
+  double complex l = loop_full (pt->lp, w);
+  return 20.0 * log10 (cabs (l / (1.0 + l))) - pt->target;
+}
+
+/* ---------------------------------------------------------------------------------------- */
+/* Frequency grid                                                                             */
+
+static int
+cmp_double (const void *a, const void *b)
+{
+  double x = *(const double *) a, y = *(const double *) b;
+  return (x > y) - (x < y);
+}
+
+typedef struct {
+  double wn;     /* natural frequency, rad/s */
+  double zeta;   /* damping */
+} Corner;
+
+/* Corners of the continuous plant (s-plane roots) and of the controller (z roots taken to the
+ * s-plane by s = ln(z)/T). Returns the count written (at most cap). */
+static size_t
+collect_corners (const LwZpk *plant_s, const LwZpk *ctrl, double t, Corner *out, size_t cap)
+{
+  size_t k = 0;
+  const double complex *lists[4] = { plant_s->zeros, plant_s->poles, ctrl->zeros, ctrl->poles };
+  size_t counts[4] = { plant_s->n_zeros, plant_s->n_poles, ctrl->n_zeros, ctrl->n_poles };
+  for (int l = 0; l < 4; l++)
+    for (size_t i = 0; i < counts[l] && k < cap; i++)
+      {
+        double complex r = lists[l][i];
+        if (l >= 2)
+          {
+            if (cabs (r) < 1e-300)
+              continue;
+            r = clog (r) / t;
+          }
+        double wn = cabs (r);
+        if (!(wn > 0) || !isfinite (wn))
+          continue;
+        out[k].wn = wn;
+        out[k].zeta = -creal (r) / wn;
+        k++;
+      }
+  return k;
+}
+
+static int
+count_unit_roots (const double complex *r, size_t n)
+{
+  int k = 0;
+  for (size_t i = 0; i < n; i++)
+    k += cabs (r[i] - 1.0) <= 1e-12;
+  return k;
+}
+
+/* Builds the grid: log-spaced from ω_lo to π/T (the end point exact), plus points clustered
+ * around every lightly damped corner (ζ < 0.3) below the Nyquist frequency. */
+static LwStatus
+build_grid (const Loop *lp, const LwZpk *plant_s, int n_int, size_t n_points, double **grid_out,
+            size_t *n_out, LwError *err)
+{
+  double wn_top = lp->omega_n;
+  size_t ncap = plant_s->n_zeros + plant_s->n_poles + lp->ctrl->n_zeros + lp->ctrl->n_poles;
+  Corner *corners = calloc (ncap + 1, sizeof *corners);
+  if (corners == NULL)
+    return lw_error_set (err, LW_ERR_NOMEM, -1, "out of memory for the frequency grid");
+  size_t nc = collect_corners (plant_s, lp->ctrl, lp->t, corners, ncap);
+
+  double wmin_corner = INFINITY;
+  size_t n_res = 0;
+  for (size_t i = 0; i < nc; i++)
+    {
+      if (corners[i].wn < wn_top)
+        wmin_corner = fmin (wmin_corner, corners[i].wn);
+      if (fabs (corners[i].zeta) < 0.3 && corners[i].wn < wn_top)
+        n_res++;
+    }
+  double wlo = isfinite (wmin_corner) ? wmin_corner / 50.0 : wn_top * 1e-4;
+  wlo = fmin (fmax (wlo, wn_top * 1e-6), wn_top * 1e-2);
+  /* With integrators the gain crossover can lie below every corner: lower ω_lo until the
+   * low-frequency asymptote is well above 0 dB there (|L| >= 10). */
+  if (n_int > 0)
+    for (int it = 0; it < 8; it++)
+      {
+        double mag = cabs (loop_core (lp, wlo));
+        if (!(mag < 10.0) || wlo <= wn_top * 1e-12)
+          break;
+        wlo *= fmax (pow (mag / 10.0, 1.0 / n_int) * 0.5, 1e-3);
+        wlo = fmax (wlo, wn_top * 1e-12);
+      }
+
+  size_t per_res = 0;
+  if (n_res > 0)
+    {
+      per_res = n_points / 4 / n_res;
+      if (per_res > 64)
+        per_res = 64;
+      if (per_res < 8)
+        per_res = n_points >= 64 ? 8 : 0;
+    }
+  size_t n_extra = per_res * n_res;
+  if (n_extra > n_points / 2)
+    n_extra = 0, per_res = 0;
+  size_t n_base = n_points - n_extra;
+  double *g = calloc (n_points, sizeof *g);
+  if (g == NULL)
+    {
+      free (corners);
+      return lw_error_set (err, LW_ERR_NOMEM, -1, "out of memory for the frequency grid");
+    }
+  double l0 = log (wlo), l1 = log (wn_top);
+  for (size_t i = 0; i < n_base; i++)
+    g[i] = exp (l0 + (l1 - l0) * (double) i / (double) (n_base - 1));
+  g[0] = wlo;
+  g[n_base - 1] = wn_top;
+  size_t k = n_base;
+  for (size_t i = 0; i < nc && per_res > 0; i++)
+    {
+      if (!(fabs (corners[i].zeta) < 0.3 && corners[i].wn < wn_top))
+        continue;
+      double wn = corners[i].wn, zt = fmax (fabs (corners[i].zeta), 1e-6);
+      for (size_t j = 0; j < per_res && k < n_points; j++)
+        {
+          double tt = -6.0 + 12.0 * ((double) j + 0.5) / (double) per_res;
+          double w = wn * (1.0 + zt * tt);
+          if (w > wlo && w < wn_top)
+            g[k++] = w;
+        }
+    }
+  free (corners);
+  qsort (g, k, sizeof *g, cmp_double);
+  size_t m = 0;
+  for (size_t i = 0; i < k; i++)
+    if (m == 0 || g[i] > g[m - 1])
+      g[m++] = g[i];
+  *grid_out = g;
+  *n_out = m;
+  return LW_OK;
+}
+
+/* ---------------------------------------------------------------------------------------- */
+/* Closed loop                                                                                */
+
+typedef struct {
+  size_t np, nd, nc, n;   /* plant core, delay line, controller, total */
+  double *a;              /* n×n column-major */
+  double *b;              /* n */
+  double *c;              /* n: y = C x + D r */
+  double d;
+} ClosedLoop;
+
+static void
+closed_loop_free (ClosedLoop *cl)
+{
+  free (cl->a);
+  free (cl->b);
+  free (cl->c);
+}
+
+/* Unity negative feedback of  z^-delay · C(z) · P_core(z). State [x_p; q_1…q_D; x_c] where
+ * q_i holds u_c delayed by i samples. */
+static LwStatus
+closed_loop_build (const LwSs *p, const LwSs *c, int delay, ClosedLoop *cl, LwError *err)
+{
+  size_t np = p->n, nc = c->n, nd = (size_t) delay, n = np + nd + nc;
+  memset (cl, 0, sizeof *cl);
+  cl->np = np; cl->nd = nd; cl->nc = nc; cl->n = n;
+  size_t nn = lw_mul_size (n, n);
+  if (n > 0 && nn == 0)
+    return lw_error_set (err, LW_ERR_NOMEM, -1, "closed loop too large");
+  cl->a = calloc (nn + 1, sizeof (double));
+  cl->b = calloc (n + 1, sizeof (double));
+  cl->c = calloc (n + 1, sizeof (double));
+  double *f = calloc (n + 1, sizeof (double));   /* u_c = F x + G r */
+  if (cl->a == NULL || cl->b == NULL || cl->c == NULL || f == NULL)
+    {
+      free (f);
+      closed_loop_free (cl);
+      return lw_error_set (err, LW_ERR_NOMEM, -1, "out of memory for the closed loop");
+    }
+  double gr;
+  size_t iq = np + nd - 1;      /* q_D, valid when nd > 0 */
+  size_t oc = np + nd;          /* controller offset */
+  if (nd > 0)
+    {
+      /* y = Cp x_p + Dp q_D; u_c = Cc x_c + Dc (r − y) */
+      for (size_t j = 0; j < np; j++)
+        {
+          cl->c[j] = p->c[j];
+          f[j] = -c->d * p->c[j];
+        }
+      cl->c[iq] += p->d;
+      f[iq] += -c->d * p->d;
+      for (size_t j = 0; j < nc; j++)
+        f[oc + j] = c->c[j];
+      gr = c->d;
+      cl->d = 0.0;
+    }
+  else
+    {
+      double den = 1.0 + c->d * p->d;
+      if (fabs (den) < 1e-14)
+        {
+          free (f);
+          closed_loop_free (cl);
+          return lw_error_set (err, LW_ERR_INVALID, -1,
+                               "the loop has an algebraic loop with 1 + C·P = 0 at z = ∞; "
+                               "add a computation delay");
+        }
+      for (size_t j = 0; j < np; j++)
+        f[j] = -c->d * p->c[j] / den;
+      for (size_t j = 0; j < nc; j++)
+        f[oc + j] = c->c[j] / den;
+      gr = c->d / den;
+      /* y = Cp x_p + Dp u_c */
+      for (size_t j = 0; j < n; j++)
+        cl->c[j] = p->d * f[j];
+      for (size_t j = 0; j < np; j++)
+        cl->c[j] += p->c[j];
+      cl->d = p->d * gr;
+    }
+  /* x_p+ = Ap x_p + Bp u_d */
+  for (size_t j = 0; j < np; j++)
+    for (size_t i = 0; i < np; i++)
+      cl->a[i + j * n] = p->a[i + j * np];
+  if (nd > 0)
+    for (size_t i = 0; i < np; i++)
+      cl->a[i + iq * n] += p->b[i];
+  else
+    {
+      for (size_t j = 0; j < n; j++)
+        for (size_t i = 0; i < np; i++)
+          cl->a[i + j * n] += p->b[i] * f[j];
+      for (size_t i = 0; i < np; i++)
+        cl->b[i] += p->b[i] * gr;
+    }
+  /* q_1+ = u_c, q_{i+1}+ = q_i */
+  if (nd > 0)
+    {
+      for (size_t j = 0; j < n; j++)
+        cl->a[np + j * n] = f[j];
+      cl->b[np] = gr;
+      for (size_t i = 1; i < nd; i++)
+        cl->a[(np + i) + (np + i - 1) * n] = 1.0;
+    }
+  /* x_c+ = Ac x_c + Bc (r − y) */
+  for (size_t i = 0; i < nc; i++)
+    {
+      for (size_t j = 0; j < nc; j++)
+        cl->a[(oc + i) + (oc + j) * n] = c->a[i + j * nc];
+      for (size_t j = 0; j < n; j++)
+        cl->a[(oc + i) + j * n] -= c->b[i] * cl->c[j];
+      cl->b[oc + i] = c->b[i] * (1.0 - cl->d);
+    }
+  free (f);
+  return LW_OK;
+}
+
+/* Unity-feedback step response, simulated structurally: plant state space, delay line,
+ * controller sections — never through an expanded polynomial. */
+static LwStatus
+simulate_step (const LwSs *p, const LwSs *c, int delay, size_t n_steps, double *y_out,
+               LwError *err)
+{
+  size_t np = p->n, nc = c->n, nd = (size_t) delay;
+  double *xp = calloc (np + 1, sizeof (double)), *xp2 = calloc (np + 1, sizeof (double));
+  double *xc = calloc (nc + 1, sizeof (double)), *xc2 = calloc (nc + 1, sizeof (double));
+  double *line = calloc (nd + 1, sizeof (double));
+  if (xp == NULL || xp2 == NULL || xc == NULL || xc2 == NULL || line == NULL)
+    {
+      free (xp); free (xp2); free (xc); free (xc2); free (line);
+      return lw_error_set (err, LW_ERR_NOMEM, -1, "out of memory for the step response");
+    }
+  const double r = 1.0;
+  double den = 1.0 + c->d * p->d;
+  for (size_t k = 0; k < n_steps; k++)
+    {
+      double cpx = 0.0, ccx = 0.0;
+      for (size_t j = 0; j < np; j++)
+        cpx += p->c[j] * xp[j];
+      for (size_t j = 0; j < nc; j++)
+        ccx += c->c[j] * xc[j];
+      double y, e, uc, ud;
+      if (nd > 0)
+        {
+          ud = line[k % nd];            /* u_c[k − D] */
+          y = cpx + p->d * ud;
+          e = r - y;
+          uc = ccx + c->d * e;
+          line[k % nd] = uc;
+        }
+      else
+        {
+          uc = (ccx + c->d * (r - cpx)) / den;
+          ud = uc;
+          y = cpx + p->d * uc;
+          e = r - y;
+        }
+      y_out[k] = y;
+      /* plant: upper Hessenberg A, row i uses columns i−1 … n−1 */
+      for (size_t i = 0; i < np; i++)
+        {
+          double acc = p->b[i] * ud;
+          for (size_t j = i == 0 ? 0 : i - 1; j < np; j++)
+            acc += p->a[i + j * np] * xp[j];
+          xp2[i] = acc;
+        }
+      for (size_t i = 0; i < nc; i++)
+        {
+          double acc = c->b[i] * e;
+          for (size_t j = 0; j < nc; j++)
+            acc += c->a[i + j * nc] * xc[j];
+          xc2[i] = acc;
+        }
+      double *t = xp; xp = xp2; xp2 = t;
+      t = xc; xc = xc2; xc2 = t;
+    }
+  free (xp); free (xp2); free (xc); free (xc2); free (line);
+  return LW_OK;
+}
+
+/* Step figures from the samples: see docs/conventions.md. */
+static void
+step_figures (LwStep *st, double t)
+{
+  if (!st->has_final || fabs (st->final_value) < 1e-12)
+    return;
+  double yf = st->final_value;
+  size_t n = st->n;
+  double peak = -INFINITY;
+  for (size_t k = 0; k < n; k++)
+    peak = fmax (peak, st->samples[k] / yf);
+  st->has_overshoot = true;
+  st->overshoot_pct = peak > 1.0 ? (peak - 1.0) * 100.0 : 0.0;
+  /* rise 10 % → 90 %, linear interpolation between samples */
+  double t10 = NAN, t90 = NAN;
+  for (size_t k = 0; k < n; k++)
+    {
+      double v = st->samples[k] / yf, vp = k > 0 ? st->samples[k - 1] / yf : 0.0;
+      if (isnan (t10) && v >= 0.1)
+        t10 = k == 0 ? 0.0 : t * ((double) (k - 1) + (0.1 - vp) / (v - vp));
+      if (!isnan (t10) && v >= 0.9)
+        {
+          t90 = k == 0 ? 0.0 : t * ((double) (k - 1) + (0.9 - vp) / (v - vp));
+          break;
+        }
+    }
+  if (!isnan (t10) && !isnan (t90))
+    {
+      st->has_rise = true;
+      st->rise_time_s = t90 - t10;
+    }
+  /* settling: last sample outside ±2 %; the time is where the straight line between it and the
+   * next sample enters the band. Not settled if the last sample is outside. */
+  size_t last = n;
+  for (size_t k = n; k-- > 0;)
+    if (fabs (st->samples[k] / yf - 1.0) > 0.02)
+      {
+        last = k;
+        break;
+      }
+  if (last == n)
+    {
+      st->has_settling = true;
+      st->settling_time_s = 0.0;
+    }
+  else if (last + 1 < n)
+    {
+      double a = st->samples[last] / yf - 1.0, b = st->samples[last + 1] / yf - 1.0;
+      double edge = a > 0 ? 0.02 : -0.02;
+      double frac = (b != a) ? (edge - a) / (b - a) : 0.0;
+      st->has_settling = true;
+      st->settling_time_s = t * ((double) last + fmin (fmax (frac, 0.0), 1.0));
+    }
+}
+
+/* ---------------------------------------------------------------------------------------- */
+/* Margins                                                                                    */
+
+static LwStatus
+find_margins (const Loop *lp, const double *mag_db, LwMargins *mg, LwError *err)
+{
+  size_t n = lp->n;
+  const double *w = lp->grid;
+  size_t cap = 16, ngc = 0, npc = 0;
+  double *gc = malloc (cap * sizeof *gc), *pc = malloc (cap * sizeof *pc);
+  size_t capg = cap, capp = cap;
+  if (gc == NULL || pc == NULL)
+    {
+      free (gc); free (pc);
+      return lw_error_set (err, LW_ERR_NOMEM, -1, "out of memory for the margins");
+    }
+#define PUSH(arr, cnt, capv, val)                                             \
+  do {                                                                        \
+    if ((cnt) == (capv))                                                      \
+      {                                                                       \
+        double *nw = realloc ((arr), 2 * (capv) * sizeof *(arr));             \
+        if (nw == NULL) { free (gc); free (pc);                               \
+          return lw_error_set (err, LW_ERR_NOMEM, -1, "out of memory"); }     \
+        (arr) = nw; (capv) *= 2;                                              \
+      }                                                                       \
+    (arr)[(cnt)++] = (val);                                                   \
+  } while (0)
+
+  /* gain crossovers: sign changes of ln|L| between grid points (a grid value of exactly 0 dB
+   * counts once, at that point) */
+  for (size_t i = 0; i + 1 < n; i++)
+    {
+      double f0 = mag_db[i], f1 = mag_db[i + 1];
+      if (!isfinite (f0) || !isfinite (f1))
+        continue;
+      if (f0 == 0.0)
+        PUSH (gc, ngc, capg, w[i]);
+      else if ((f0 > 0) != (f1 > 0) && f1 != 0.0)
+        {
+          double a = log (10.0) / 20.0;
+          PUSH (gc, ngc, capg, brent_root (fn_log_mag, (void *) lp, w[i], w[i + 1], f0 * a, f1 * a));
+        }
+    }
+  if (n > 0 && mag_db[n - 1] == 0.0)
+    PUSH (gc, ngc, capg, w[n - 1]);
+
+  /* phase crossovers: the unwrapped phase passes an odd multiple of 180° strictly inside an
+   * interval; the Nyquist end point is handled on its own below */
+  double nyq_phase = lp->core_phase[n - 1] + delay_phase_deg (lp, w[n - 1]);
+  for (size_t i = 0; i + 1 < n; i++)
+    {
+      double p0 = lp->core_phase[i] + delay_phase_deg (lp, w[i]);
+      double p1 = lp->core_phase[i + 1] + delay_phase_deg (lp, w[i + 1]);
+      double lo = fmin (p0, p1), hi = fmax (p0, p1);
+      /* odd multiples c = 180 (2m + 1) with lo <= c <= hi */
+      double mlo = ceil ((lo - 180.0) / 360.0), mhi = floor ((hi - 180.0) / 360.0);
+      for (double m = mlo; m <= mhi; m += 1.0)
+        {
+          double c = 180.0 + 360.0 * m;
+          if (i + 2 == n && fabs (p1 - c) <= 1e-9)
+            continue;                        /* at the Nyquist point: below */
+          if (p0 == c && i > 0)
+            continue;                        /* counted at the end of the previous interval */
+          PhaseTarget pt = { lp, c };
+          PUSH (pc, npc, capp, brent_root (fn_phase, &pt, w[i], w[i + 1], p0 - c, p1 - c));
+        }
+    }
+  {
+    double m = round ((nyq_phase - 180.0) / 360.0);
+    if (fabs (nyq_phase - (180.0 + 360.0 * m)) <= 1e-9)
+      PUSH (pc, npc, capp, w[n - 1]);
+  }
+#undef PUSH
+
+  mg->n_gain_crossovers = ngc;
+  mg->gain_crossovers_rad_s = gc;
+  mg->phase_margins_deg = calloc (ngc + 1, sizeof (double));
+  mg->n_phase_crossovers = npc;
+  mg->phase_crossovers_rad_s = pc;
+  mg->gain_margins_db = calloc (npc + 1, sizeof (double));
+  if (mg->phase_margins_deg == NULL || mg->gain_margins_db == NULL)
+    return lw_error_set (err, LW_ERR_NOMEM, -1, "out of memory for the margins");
+
+  /* delay margin: the smallest extra delay that turns some crossover point onto −1; the point
+   * at ω_c must turn clockwise by PM, or by PM + 360° when PM < 0 (lw_evaluate sets 0 when the
+   * closed loop is unstable: no margin left) */
+  double dm = INFINITY;
+  for (size_t i = 0; i < ngc; i++)
+    {
+      double ph = loop_phase_deg (lp, gc[i], loop_core (lp, gc[i]));
+      double pm = 180.0 + ph;
+      pm -= 360.0 * ceil ((pm - 180.0) / 360.0);      /* into (−180, 180] */
+      mg->phase_margins_deg[i] = pm;
+      if (!mg->has_phase_margin || pm < mg->phase_margin_deg)
+        {
+          mg->has_phase_margin = true;
+          mg->phase_margin_deg = pm;
+          mg->gain_crossover_rad_s = gc[i];
+        }
+      double turn = pm >= 0 ? pm : pm + 360.0;
+      dm = fmin (dm, turn / RAD2DEG / gc[i]);
+    }
+  if (ngc > 0)
+    {
+      mg->has_delay_margin = true;
+      mg->delay_margin_s = dm;
+      mg->delay_margin_samples = dm / lp->t;
+    }
+  for (size_t i = 0; i < npc; i++)
+    {
+      double gm = -20.0 * log10 (cabs (loop_core (lp, pc[i])));
+      mg->gain_margins_db[i] = gm;
+      if (!mg->has_gain_margin || fabs (gm) < fabs (mg->gain_margin_db))
+        {
+          mg->has_gain_margin = true;
+          mg->gain_margin_db = gm;
+          mg->phase_crossover_rad_s = pc[i];
+        }
+    }
+
+  /* sensitivity peak: largest |1/(1+L)| on the grid, refined between its neighbours */
+  {
+    size_t imax = 0;
+    double smax = -1.0;
+    for (size_t i = 0; i < n; i++)
+      {
+        double s = fn_sens (w[i], (void *) lp);
+        if (s > smax)
+          {
+            smax = s;
+            imax = i;
+          }
+      }
+    if (smax > 0 && isfinite (smax))
+      {
+        double a = w[imax > 0 ? imax - 1 : 0], b = w[imax + 1 < n ? imax + 1 : n - 1];
+        double fbest;
+        double wbest = golden_max (fn_sens, (void *) lp, a, b, &fbest);
+        if (!(fbest >= smax))
+          {
+            wbest = w[imax];
+            fbest = smax;
+          }
+        mg->has_sensitivity = true;
+        mg->sensitivity_peak = fbest;
+        mg->sensitivity_peak_rad_s = wbest;
+      }
+  }
+  /* bandwidth: first frequency where |T| falls 3 dB below its value at the grid start */
+  {
+    PhaseTarget pt = { lp, 0.0 };
+    double t0 = fn_comp_db (w[0], &pt);
+    if (isfinite (t0))
+      {
+        pt.target = t0 - 3.0;
+        double prev = -3.0 + 3.0;   /* f(w0) − target = 3 > 0 */
+        prev = 3.0;
+        for (size_t i = 1; i < n; i++)
+          {
+            double f = fn_comp_db (w[i], &pt);
+            if (f < 0)
+              {
+                mg->has_bandwidth = true;
+                mg->bandwidth_rad_s = brent_root (fn_comp_db, &pt, w[i - 1], w[i], prev, f);
+                break;
+              }
+            prev = f;
+          }
+      }
+  }
+  return LW_OK;
+}
+
+/* ---------------------------------------------------------------------------------------- */
+
+void
+lw_evaluation_free (LwEvaluation *ev)
+{
+  if (ev == NULL)
+    return;
+  lw_zpk_free (ev->plant_z);
+  lw_zpk_free (ev->plant_w);
+  lw_zpk_free (ev->controller_z);
+  lw_zpk_free (ev->controller_w);
+  free (ev->omega_rad_s);
+  free (ev->loop_mag_db);
+  free (ev->loop_phase_deg);
+  free (ev->margins.gain_crossovers_rad_s);
+  free (ev->margins.phase_margins_deg);
+  free (ev->margins.phase_crossovers_rad_s);
+  free (ev->margins.gain_margins_db);
+  free (ev->closed_loop_poles);
+  free (ev->step.samples);
+  free (ev);
+}
+
+LwStatus
+lw_evaluate (const LwSampledPlant *plant, const LwZpk *controller_z,
+             const LwAnalysisOptions *opts, LwEvaluation **out, LwError *err)
+{
+  *out = NULL;
+  if (plant == NULL || controller_z == NULL || opts == NULL)
+    return lw_error_set (err, LW_ERR_INVALID, -1, "missing plant, controller or options");
+  double t = plant->period_s;
+  if (controller_z->domain != LW_DOMAIN_Z || fabs (controller_z->period_s - t) > 1e-12 * t)
+    return lw_error_set (err, LW_ERR_INVALID, -1,
+                         "the controller must be a model in z with the plant's sample period");
+  if (controller_z->n_zeros > controller_z->n_poles)
+    return lw_error_set (err, LW_ERR_INVALID, -1,
+                         "the controller is improper (more zeros than poles): it would need "
+                         "future samples");
+  if (!lw_zpk_is_finite (controller_z))
+    return lw_error_set (err, LW_ERR_INVALID, -1, "the controller has a non-finite gain or root");
+  if (opts->compute_delay < 0 || opts->compute_delay > 100000)
+    return lw_error_set (err, LW_ERR_INVALID, -1,
+                         "the computation delay must be a whole number of samples from 0 to 100000");
+  if (opts->n_points < 16 || opts->n_points > 10000000)
+    return lw_error_set (err, LW_ERR_INVALID, -1, "the number of frequency points must be 16 … 1e7");
+  if (opts->n_steps < 2 || opts->n_steps > 100000000)
+    return lw_error_set (err, LW_ERR_INVALID, -1, "the number of step samples must be 2 … 1e8");
+  if ((long) plant->whole_delay + opts->compute_delay > 1000000)
+    return lw_error_set (err, LW_ERR_INVALID, -1, "the total delay exceeds a million samples");
+
+  LwEvaluation *ev = calloc (1, sizeof *ev);
+  if (ev == NULL)
+    return lw_error_set (err, LW_ERR_NOMEM, -1, "out of memory");
+  LwStatus st = LW_OK;
+  LwSs *css = NULL;
+  ClosedLoop cl = { 0 };
+  double complex *core = NULL;
+  double *core_phase = NULL;
+
+  ev->period_s = t;
+  ev->compute_delay = opts->compute_delay;
+  ev->plant_z = lw_sampled_plant_zpk (plant);
+  ev->controller_z = lw_zpk_copy (controller_z);
+  if (ev->plant_z == NULL || ev->controller_z == NULL)
+    {
+      st = lw_error_set (err, LW_ERR_NUMERIC, -1, "could not factor the sampled plant");
+      goto fail;
+    }
+  ev->plant_w = lw_zpk_z_to_w (ev->plant_z);
+  ev->controller_w = lw_zpk_z_to_w (ev->controller_z);
+  if (ev->plant_w == NULL || ev->controller_w == NULL)
+    {
+      st = lw_error_set (err, LW_ERR_NOMEM, -1, "out of memory");
+      goto fail;
+    }
+
+  Loop lp = { .plant = plant, .ctrl = ev->controller_z, .t = t, .omega_n = LW_PI / t,
+              .delay = plant->whole_delay + opts->compute_delay };
+  int n_int = plant->n_integrators
+              + count_unit_roots (controller_z->poles, controller_z->n_poles)
+              - count_unit_roots (controller_z->zeros, controller_z->n_zeros);
+
+  /* grid and response */
+  st = build_grid (&lp, plant->plant_s, n_int, opts->n_points, &ev->omega_rad_s, &ev->n_points,
+                   err);
+  if (st != LW_OK)
+    goto fail;
+  size_t n = ev->n_points;
+  ev->loop_mag_db = calloc (n, sizeof (double));
+  ev->loop_phase_deg = calloc (n, sizeof (double));
+  core = calloc (n, sizeof *core);
+  core_phase = calloc (n, sizeof (double));
+  if (ev->loop_mag_db == NULL || ev->loop_phase_deg == NULL || core == NULL || core_phase == NULL)
+    {
+      st = lw_error_set (err, LW_ERR_NOMEM, -1, "out of memory for the frequency response");
+      goto fail;
+    }
+  for (size_t i = 0; i < n; i++)
+    {
+      core[i] = loop_core (&lp, ev->omega_rad_s[i]);
+      ev->loop_mag_db[i] = 20.0 * log10 (cabs (core[i]));
+    }
+  /* unwrap the delay-free part continuously; anchor the first point at the branch nearest the
+   * integrator asymptote −90°·k (or −90°·k − 180° for a negative low-frequency gain) */
+  {
+    double ph = carg (core[0]) * RAD2DEG, expect = -90.0 * n_int;
+    ph = nearest_branch (ph, expect);
+    if (fabs (ph - expect) > 90.0)
+      ph = nearest_branch (ph, expect - 180.0);
+    core_phase[0] = ph;
+    for (size_t i = 1; i < n; i++)
+      core_phase[i] = nearest_branch (carg (core[i]) * RAD2DEG, core_phase[i - 1]);
+    for (size_t i = 0; i < n; i++)
+      ev->loop_phase_deg[i] = core_phase[i] + delay_phase_deg (&lp, ev->omega_rad_s[i]);
+  }
+  lp.grid = ev->omega_rad_s;
+  lp.core_phase = core_phase;
+  lp.n = n;
+  st = find_margins (&lp, ev->loop_mag_db, &ev->margins, err);
+  if (st != LW_OK)
+    goto fail;
+
+  /* closed loop */
+  st = lw_zpk_realize (ev->controller_z, &css, err);
+  if (st != LW_OK)
+    goto fail;
+  st = closed_loop_build (plant->core, css, lp.delay, &cl, err);
+  if (st != LW_OK)
+    goto fail;
+  ev->n_closed_loop_poles = cl.n;
+  ev->closed_loop_poles = calloc (cl.n + 1, sizeof (double complex));
+  if (ev->closed_loop_poles == NULL)
+    {
+      st = lw_error_set (err, LW_ERR_NOMEM, -1, "out of memory");
+      goto fail;
+    }
+  st = lw_eigenvalues (cl.n, cl.a, ev->closed_loop_poles, err);
+  if (st != LW_OK)
+    goto fail;
+  {
+    double rmax = 0.0;
+    for (size_t i = 0; i < cl.n; i++)
+      rmax = fmax (rmax, cabs (ev->closed_loop_poles[i]));
+    ev->stable = rmax < 1.0 - 1e-10;
+  }
+  if (!ev->stable && ev->margins.has_delay_margin)
+    {
+      ev->margins.delay_margin_s = 0.0;
+      ev->margins.delay_margin_samples = 0.0;
+    }
+
+  /* step */
+  ev->step.n = opts->n_steps;
+  ev->step.samples = calloc (opts->n_steps, sizeof (double));
+  if (ev->step.samples == NULL)
+    {
+      st = lw_error_set (err, LW_ERR_NOMEM, -1, "out of memory for the step response");
+      goto fail;
+    }
+  st = simulate_step (plant->core, css, lp.delay, opts->n_steps, ev->step.samples, err);
+  if (st != LW_OK)
+    goto fail;
+  if (ev->stable)
+    {
+      /* final value = C_cl (I − A_cl)⁻¹ B_cl + D_cl */
+      size_t m = cl.n;
+      double *ia = calloc (m * m + 1, sizeof (double)), *x = calloc (m + 1, sizeof (double));
+      if (ia == NULL || x == NULL)
+        {
+          free (ia);
+          free (x);
+          st = lw_error_set (err, LW_ERR_NOMEM, -1, "out of memory");
+          goto fail;
+        }
+      for (size_t i = 0; i < m * m; i++)
+        ia[i] = -cl.a[i];
+      for (size_t i = 0; i < m; i++)
+        {
+          ia[i + i * m] += 1.0;
+          x[i] = cl.b[i];
+        }
+      if (lw_solve (m, ia, x, NULL) == LW_OK)
+        {
+          double yf = cl.d;
+          for (size_t i = 0; i < m; i++)
+            yf += cl.c[i] * x[i];
+          ev->step.has_final = isfinite (yf);
+          ev->step.final_value = yf;
+        }
+      free (ia);
+      free (x);
+    }
+  step_figures (&ev->step, t);
+
+  free (core);
+  free (core_phase);
+  lw_ss_free (css);
+  closed_loop_free (&cl);
+  *out = ev;
+  return LW_OK;
+
+fail:
+  free (core);
+  free (core_phase);
+  lw_ss_free (css);
+  closed_loop_free (&cl);
+  lw_evaluation_free (ev);
+  return st;
+}

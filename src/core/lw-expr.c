@@ -1,0 +1,746 @@
+/* lw-expr.c — recursive-descent parser for rational expressions in one variable.
+ *
+ * A value is kept as   gain · ∏ f_k(x)^e_k   with every f_k a monic real polynomial of degree
+ * >= 1 and e_k a non-zero integer (negative: denominator).  Products, quotients and powers only
+ * combine exponents (a factor whose coefficients are bitwise equal to an existing one is merged);
+ * a sum keeps the factors the two terms share (to the lower exponent) and expands only the rest:
+ *     a + b = ∏ f^min(ea,eb) · [ ga ∏ f^(ea−min) + gb ∏ f^(eb−min) ]
+ * so the denominator of 1/(s+1) + 1/(s+2) stays factored and only the new numerator is expanded.
+ * When the parse finishes each factor is factored by lw_poly_roots and bitwise-equal zero/pole
+ * pairs are cancelled.
+ *
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ */
+#include "lw-expr.h"
+
+#include <errno.h>
+#include <locale.h>
+#include <math.h>
+#include <stdint.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+
+#define NUMBER_MAX_CHARS 64
+#define NESTING_MAX 200
+#define EXPONENT_MAX 999999999L
+
+typedef struct {
+  double *c;      /* deg+1 ascending coefficients, c[deg] == 1 */
+  size_t deg;     /* >= 1 */
+  long exp;       /* != 0 */
+} Factor;
+
+typedef struct {
+  double gain;    /* 0: the value is identically zero (then n == 0) */
+  size_t n;
+  Factor *f;
+} Value;
+
+typedef struct {
+  const char *text;
+  size_t len;
+  size_t pos;
+  char var;
+  int depth;
+  LwError *err;
+} Parser;
+
+/* ---------------------------------------------------------------------------------------- */
+/* Values                                                                                   */
+
+static void
+value_clear (Value *v)
+{
+  for (size_t i = 0; i < v->n; i++)
+    free (v->f[i].c);
+  free (v->f);
+  v->f = NULL;
+  v->n = 0;
+  v->gain = 0.0;
+}
+
+static void
+value_set_zero (Value *v)
+{
+  value_clear (v);
+}
+
+static bool
+poly_equal (const double *a, size_t da, const double *b, size_t db)
+{
+  if (da != db)
+    return false;
+  return memcmp (a, b, (da + 1) * sizeof *a) == 0;
+}
+
+/* Adds f^exp (copying the coefficients) and merges with an equal factor; false on no memory. */
+static bool
+value_add_factor (Value *v, const double *c, size_t deg, long exp)
+{
+  if (exp == 0)
+    return true;
+  for (size_t i = 0; i < v->n; i++) {
+    if (poly_equal (v->f[i].c, v->f[i].deg, c, deg)) {
+      v->f[i].exp += exp;
+      if (v->f[i].exp == 0) {
+        free (v->f[i].c);
+        memmove (v->f + i, v->f + i + 1, (v->n - i - 1) * sizeof *v->f);
+        v->n--;
+      }
+      return true;
+    }
+  }
+  Factor *nf = realloc (v->f, (v->n + 1) * sizeof *nf);
+  if (nf == NULL)
+    return false;
+  v->f = nf;
+  double *cc = malloc ((deg + 1) * sizeof *cc);
+  if (cc == NULL)
+    return false;
+  memcpy (cc, c, (deg + 1) * sizeof *cc);
+  v->f[v->n++] = (Factor){ cc, deg, exp };
+  return true;
+}
+
+static void
+value_degrees (const Value *v, unsigned long long *num, unsigned long long *den)
+{
+  *num = 0;
+  *den = 0;
+  for (size_t i = 0; i < v->n; i++) {
+    unsigned long long d = (unsigned long long) v->f[i].deg;
+    if (v->f[i].exp > 0)
+      *num += d * (unsigned long long) v->f[i].exp;
+    else
+      *den += d * (unsigned long long) (-v->f[i].exp);
+  }
+}
+
+static LwStatus
+nomem (Parser *p)
+{
+  return lw_error_set (p->err, LW_ERR_NOMEM, (int) p->pos, "out of memory while parsing");
+}
+
+/* Checks the degree limit and finiteness after an operation at text position pos.  Outside
+ * parentheses the running value's numerator and denominator are those of the result, so the
+ * message names which one; inside parentheses it names only the degree. */
+static LwStatus
+value_check (Parser *p, const Value *v, size_t pos)
+{
+  unsigned long long nd, dd;
+  value_degrees (v, &nd, &dd);
+  if (nd > LW_MAX_DEGREE || dd > LW_MAX_DEGREE) {
+    bool num = nd > LW_MAX_DEGREE;
+    unsigned long long deg = num ? nd : dd;
+    if (p->depth == 0)
+      return lw_error_set (p->err, LW_ERR_INVALID, (int) pos,
+                           "%s degree %llu exceeds the limit of %d at position %zu",
+                           num ? "numerator" : "denominator", deg, LW_MAX_DEGREE, pos);
+    return lw_error_set (p->err, LW_ERR_INVALID, (int) pos,
+                         "degree %llu exceeds the limit of %d at position %zu", deg,
+                         LW_MAX_DEGREE, pos);
+  }
+  bool finite = isfinite (v->gain);
+  for (size_t i = 0; finite && i < v->n; i++)
+    for (size_t k = 0; k <= v->f[i].deg; k++)
+      if (!isfinite (v->f[i].c[k]))
+        finite = false;
+  if (!finite)
+    return lw_error_set (p->err, LW_ERR_INVALID, (int) pos,
+                         "the value overflows (is not finite) at position %zu", pos);
+  return LW_OK;
+}
+
+/* a ← a · b^sign (sign = +1 or −1).  b is left untouched.  b must not be zero for sign −1. */
+static bool
+value_mul (Value *a, const Value *b, int sign)
+{
+  if (sign > 0)
+    a->gain *= b->gain;
+  else
+    a->gain /= b->gain;
+  if (a->gain == 0.0) {
+    value_set_zero (a);
+    return true;
+  }
+  for (size_t i = 0; i < b->n; i++)
+    if (!value_add_factor (a, b->f[i].c, b->f[i].deg, sign * b->f[i].exp))
+      return false;
+  return true;
+}
+
+/* Ascending polynomial product r ← r · f (r has room; *dr its degree). */
+static void
+poly_mul_into (double *r, size_t *dr, const double *f, size_t df)
+{
+  size_t d = *dr;
+  for (size_t k = d + df + 1; k-- > 0;) {
+    double s = 0.0;
+    size_t jlo = k > d ? k - d : 0;
+    size_t jhi = k < df ? k : df;
+    for (size_t j = jlo; j <= jhi; j++)
+      s += f[j] * r[k - j];
+    r[k] = s;
+  }
+  *dr = d + df;
+}
+
+/* Expands ∏ f_k^(e_k) for the given non-negative exponents into a new array. */
+static double *
+expand (const Value *v, const long *e, size_t *deg_out)
+{
+  size_t deg = 0;
+  for (size_t i = 0; i < v->n; i++)
+    deg += v->f[i].deg * (size_t) e[i];
+  double *r = calloc (deg + 1, sizeof *r);
+  if (r == NULL)
+    return NULL;
+  r[0] = 1.0;
+  size_t d = 0;
+  for (size_t i = 0; i < v->n; i++)
+    for (long k = 0; k < e[i]; k++)
+      poly_mul_into (r, &d, v->f[i].c, v->f[i].deg);
+  *deg_out = d;
+  return r;
+}
+
+/* a ← a + sign·b. */
+static bool
+value_add (Value *a, const Value *b, int sign)
+{
+  if (b->gain == 0.0)
+    return true;
+  if (a->gain == 0.0) {
+    a->gain = sign * b->gain;
+    for (size_t i = 0; i < b->n; i++)
+      if (!value_add_factor (a, b->f[i].c, b->f[i].deg, b->f[i].exp))
+        return false;
+    return true;
+  }
+  /* Union of the factors, with each side's exponent (0 where absent). */
+  Value u = { .gain = 1.0 };
+  bool ok = true;
+  for (size_t i = 0; ok && i < a->n; i++)
+    ok = value_add_factor (&u, a->f[i].c, a->f[i].deg, 1);
+  for (size_t i = 0; ok && i < b->n; i++) {
+    bool found = false;
+    for (size_t j = 0; j < u.n; j++)
+      if (poly_equal (u.f[j].c, u.f[j].deg, b->f[i].c, b->f[i].deg))
+        found = true;
+    if (!found)
+      ok = value_add_factor (&u, b->f[i].c, b->f[i].deg, 1);
+  }
+  long *ea = NULL, *eb = NULL, *em = NULL;
+  double *pa = NULL, *pb = NULL;
+  if (ok) {
+    ea = calloc (u.n + 1, sizeof *ea);
+    eb = calloc (u.n + 1, sizeof *eb);
+    em = calloc (u.n + 1, sizeof *em);
+    ok = ea != NULL && eb != NULL && em != NULL;
+  }
+  if (ok) {
+    for (size_t j = 0; j < u.n; j++) {
+      for (size_t i = 0; i < a->n; i++)
+        if (poly_equal (u.f[j].c, u.f[j].deg, a->f[i].c, a->f[i].deg))
+          ea[j] = a->f[i].exp;
+      for (size_t i = 0; i < b->n; i++)
+        if (poly_equal (u.f[j].c, u.f[j].deg, b->f[i].c, b->f[i].deg))
+          eb[j] = b->f[i].exp;
+      em[j] = ea[j] < eb[j] ? ea[j] : eb[j];
+      ea[j] -= em[j];
+      eb[j] -= em[j];
+    }
+  }
+  size_t da = 0, db = 0;
+  if (ok) {
+    pa = expand (&u, ea, &da);
+    pb = expand (&u, eb, &db);
+    ok = pa != NULL && pb != NULL;
+  }
+  Value r = { .gain = 1.0 };
+  if (ok) {
+    size_t dmax = da > db ? da : db;
+    double *sum = calloc (dmax + 1, sizeof *sum);
+    ok = sum != NULL;
+    if (ok) {
+      for (size_t k = 0; k <= dmax; k++) {
+        double x = k <= da ? a->gain * pa[k] : 0.0;
+        double y = k <= db ? b->gain * pb[k] : 0.0;
+        sum[k] = sign > 0 ? x + y : x - y;
+      }
+      size_t ds = dmax;
+      while (ds > 0 && sum[ds] == 0.0)
+        ds--;
+      if (sum[ds] == 0.0) {
+        r.gain = 0.0;            /* identically zero */
+      } else {
+        double lead = sum[ds];
+        r.gain = lead;
+        if (ds > 0) {
+          for (size_t k = 0; k < ds; k++)
+            sum[k] /= lead;
+          sum[ds] = 1.0;
+        }
+        for (size_t j = 0; ok && j < u.n; j++)
+          ok = value_add_factor (&r, u.f[j].c, u.f[j].deg, em[j]);
+        if (ok && ds > 0)
+          ok = value_add_factor (&r, sum, ds, 1);
+      }
+      free (sum);
+    }
+  }
+  free (ea);
+  free (eb);
+  free (em);
+  free (pa);
+  free (pb);
+  value_clear (&u);
+  if (!ok) {
+    value_clear (&r);
+    return false;
+  }
+  value_clear (a);
+  *a = r;
+  if (a->gain == 0.0)
+    value_set_zero (a);
+  return true;
+}
+
+/* ---------------------------------------------------------------------------------------- */
+/* Lexing helpers                                                                           */
+
+static int
+peek (const Parser *p)
+{
+  return p->pos < p->len ? (unsigned char) p->text[p->pos] : -1;
+}
+
+static void
+skip_ws (Parser *p)
+{
+  while (p->pos < p->len && (p->text[p->pos] == ' ' || p->text[p->pos] == '\t' ||
+                             p->text[p->pos] == '\n' || p->text[p->pos] == '\r'))
+    p->pos++;
+}
+
+static bool
+is_digit (int c)
+{
+  return c >= '0' && c <= '9';
+}
+
+static bool
+is_letter (int c)
+{
+  return (c >= 'a' && c <= 'z') || (c >= 'A' && c <= 'Z');
+}
+
+/* "'x'" for a printable ASCII character, "end of input", or "byte 0xNN". */
+static const char *
+describe (int c, char *buf, size_t size)
+{
+  if (c < 0)
+    snprintf (buf, size, "end of input");
+  else if (c >= 0x20 && c < 0x7f)
+    snprintf (buf, size, "'%c'", c);
+  else
+    snprintf (buf, size, "byte 0x%02x", (unsigned) c);
+  return buf;
+}
+
+/* Converts a validated decimal token (ASCII, '.' as decimal point) without depending on the
+ * C library's current locale: strtod honours LC_NUMERIC, so the '.' is replaced by the
+ * locale's decimal-point string first. */
+static double
+convert_number (const char *tok)
+{
+  char buf[NUMBER_MAX_CHARS * 2 + 16];
+  const char *dp = localeconv ()->decimal_point;
+  if (dp == NULL || dp[0] == '\0')
+    dp = ".";
+  size_t dl = strlen (dp), o = 0;
+  for (const char *t = tok; *t != '\0' && o + dl + 1 < sizeof buf; t++) {
+    if (*t == '.') {
+      memcpy (buf + o, dp, dl);
+      o += dl;
+    } else {
+      buf[o++] = *t;
+    }
+  }
+  buf[o] = '\0';
+  errno = 0;
+  return strtod (buf, NULL);
+}
+
+/* ---------------------------------------------------------------------------------------- */
+/* Grammar                                                                                  */
+
+static LwStatus parse_expr (Parser *p, Value *out);
+
+static LwStatus
+parse_number (Parser *p, Value *out)
+{
+  size_t start = p->pos;
+  while (is_digit (peek (p)))
+    p->pos++;
+  bool had_int = p->pos > start;
+  if (peek (p) == '.') {
+    p->pos++;
+    if (!is_digit (peek (p))) {
+      char d[32];
+      return lw_error_set (p->err, LW_ERR_PARSE, (int) p->pos,
+                           "expected a digit after the decimal point at position %zu, found %s",
+                           p->pos, describe (peek (p), d, sizeof d));
+    }
+    while (is_digit (peek (p)))
+      p->pos++;
+  } else if (!had_int) {
+    char d[32];
+    return lw_error_set (p->err, LW_ERR_PARSE, (int) p->pos,
+                         "expected a number at position %zu, found %s", p->pos,
+                         describe (peek (p), d, sizeof d));
+  }
+  if (peek (p) == 'e' || peek (p) == 'E') {
+    p->pos++;
+    if (peek (p) == '+' || peek (p) == '-')
+      p->pos++;
+    if (!is_digit (peek (p))) {
+      char d[32];
+      return lw_error_set (p->err, LW_ERR_PARSE, (int) p->pos,
+                           "expected the digits of the number's exponent at position %zu, "
+                           "found %s", p->pos, describe (peek (p), d, sizeof d));
+    }
+    while (is_digit (peek (p)))
+      p->pos++;
+  }
+  size_t n = p->pos - start;
+  if (n > NUMBER_MAX_CHARS)
+    return lw_error_set (p->err, LW_ERR_PARSE, (int) start,
+                         "the number at position %zu is too long (%zu characters, at most %d)",
+                         start, n, NUMBER_MAX_CHARS);
+  char tok[NUMBER_MAX_CHARS + 1];
+  memcpy (tok, p->text + start, n);
+  tok[n] = '\0';
+  double v = convert_number (tok);
+  if (!isfinite (v))
+    return lw_error_set (p->err, LW_ERR_INVALID, (int) start,
+                         "the number '%s' at position %zu is out of range (not finite)", tok,
+                         start);
+  value_clear (out);
+  out->gain = v;
+  return LW_OK;
+}
+
+static LwStatus
+parse_primary (Parser *p, Value *out)
+{
+  skip_ws (p);
+  int c = peek (p);
+  char d[32];
+  if (is_digit (c) || c == '.')
+    return parse_number (p, out);
+  if (c == p->var) {
+    p->pos++;
+    value_clear (out);
+    out->gain = 1.0;
+    const double x[2] = { 0.0, 1.0 };
+    if (!value_add_factor (out, x, 1, 1))
+      return nomem (p);
+    return LW_OK;
+  }
+  if (c == '(') {
+    size_t open = p->pos;
+    if (p->depth >= NESTING_MAX)
+      return lw_error_set (p->err, LW_ERR_PARSE, (int) open,
+                           "the expression is nested too deeply at position %zu (more than %d "
+                           "levels)", open, NESTING_MAX);
+    p->pos++;
+    p->depth++;
+    LwStatus st = parse_expr (p, out);
+    p->depth--;
+    if (st != LW_OK)
+      return st;
+    skip_ws (p);
+    if (peek (p) != ')')
+      return lw_error_set (p->err, LW_ERR_PARSE, (int) p->pos,
+                           "expected ')' at position %zu to close '(' at position %zu, found %s",
+                           p->pos, open, describe (peek (p), d, sizeof d));
+    p->pos++;
+    return LW_OK;
+  }
+  if (is_letter (c))
+    return lw_error_set (p->err, LW_ERR_PARSE, (int) p->pos,
+                         "unexpected '%c' at position %zu: the variable here is '%c'", c, p->pos,
+                         p->var);
+  return lw_error_set (p->err, LW_ERR_PARSE, (int) p->pos,
+                       "expected a number, '%c' or '(' at position %zu, found %s", p->var, p->pos,
+                       describe (c, d, sizeof d));
+}
+
+static LwStatus
+parse_power (Parser *p, Value *out)
+{
+  LwStatus st = parse_primary (p, out);
+  if (st != LW_OK)
+    return st;
+  skip_ws (p);
+  if (peek (p) != '^')
+    return LW_OK;
+  size_t caret = p->pos;
+  p->pos++;
+  skip_ws (p);
+  size_t start = p->pos;
+  if (!is_digit (peek (p))) {
+    char d[32];
+    return lw_error_set (p->err, LW_ERR_PARSE, (int) p->pos,
+                         "expected a non-negative integer exponent after '^' at position %zu, "
+                         "found %s", p->pos, describe (peek (p), d, sizeof d));
+  }
+  long k = 0;
+  bool too_big = false;
+  while (is_digit (peek (p))) {
+    if (!too_big) {
+      k = k * 10 + (peek (p) - '0');
+      if (k > EXPONENT_MAX)
+        too_big = true;
+    }
+    p->pos++;
+  }
+  if (peek (p) == '.' || peek (p) == 'e' || peek (p) == 'E')
+    return lw_error_set (p->err, LW_ERR_PARSE, (int) start,
+                         "the exponent at position %zu must be a non-negative integer "
+                         "(digits only)", start);
+  if (too_big)
+    return lw_error_set (p->err, LW_ERR_INVALID, (int) start,
+                         "the exponent at position %zu is too large (at most %ld)", start,
+                         EXPONENT_MAX);
+  if (k == 0) {
+    if (out->gain == 0.0)
+      return lw_error_set (p->err, LW_ERR_INVALID, (int) caret,
+                           "a zero raised to the power 0 at position %zu has no value", caret);
+    value_clear (out);
+    out->gain = 1.0;
+    return LW_OK;
+  }
+  /* Degree limit checked before anything is computed. */
+  unsigned long long nd, dd;
+  value_degrees (out, &nd, &dd);
+  unsigned long long uk = (unsigned long long) k;
+  unsigned long long deg = nd * uk > dd * uk ? nd * uk : dd * uk;
+  if (deg > LW_MAX_DEGREE)
+    return lw_error_set (p->err, LW_ERR_INVALID, (int) caret,
+                         "the power at position %zu raises the degree to %llu, above the "
+                         "limit of %d", caret, deg, LW_MAX_DEGREE);
+  out->gain = pow (out->gain, (double) k);
+  for (size_t i = 0; i < out->n; i++)
+    out->f[i].exp *= k;
+  if (out->gain == 0.0)
+    value_set_zero (out);   /* underflow of a tiny constant */
+  return value_check (p, out, caret);
+}
+
+static LwStatus
+parse_unary (Parser *p, Value *out)
+{
+  skip_ws (p);
+  int c = peek (p);
+  if (c == '-' || c == '+') {
+    size_t at = p->pos;
+    if (p->depth >= NESTING_MAX)
+      return lw_error_set (p->err, LW_ERR_PARSE, (int) at,
+                           "the expression is nested too deeply at position %zu (more than %d "
+                           "levels)", at, NESTING_MAX);
+    p->pos++;
+    p->depth++;
+    LwStatus st = parse_unary (p, out);
+    p->depth--;
+    if (st != LW_OK)
+      return st;
+    if (c == '-')
+      out->gain = -out->gain;
+    return LW_OK;
+  }
+  return parse_power (p, out);
+}
+
+static LwStatus
+parse_term (Parser *p, Value *out)
+{
+  LwStatus st = parse_unary (p, out);
+  if (st != LW_OK)
+    return st;
+  for (;;) {
+    skip_ws (p);
+    int c = peek (p);
+    if (c == '*' || c == '/') {
+      size_t at = p->pos;
+      p->pos++;
+      Value rhs = { 0 };
+      st = parse_unary (p, &rhs);
+      if (st != LW_OK) {
+        value_clear (&rhs);
+        return st;
+      }
+      if (c == '/' && rhs.gain == 0.0) {
+        value_clear (&rhs);
+        return lw_error_set (p->err, LW_ERR_INVALID, (int) at,
+                             "the denominator after '/' at position %zu is identically zero",
+                             at);
+      }
+      bool ok = value_mul (out, &rhs, c == '*' ? 1 : -1);
+      value_clear (&rhs);
+      if (!ok)
+        return nomem (p);
+      st = value_check (p, out, at);
+      if (st != LW_OK)
+        return st;
+      continue;
+    }
+    if (c == p->var || is_digit (c) || c == '.' || c == '(')
+      return lw_error_set (p->err, LW_ERR_PARSE, (int) p->pos,
+                           "expected an operator before '%c' at position %zu (write '*' for "
+                           "multiplication)", c, p->pos);
+    if (is_letter (c))
+      return lw_error_set (p->err, LW_ERR_PARSE, (int) p->pos,
+                           "unexpected '%c' at position %zu: the variable here is '%c'", c,
+                           p->pos, p->var);
+    return LW_OK;
+  }
+}
+
+static LwStatus
+parse_expr (Parser *p, Value *out)
+{
+  LwStatus st = parse_term (p, out);
+  if (st != LW_OK)
+    return st;
+  for (;;) {
+    skip_ws (p);
+    int c = peek (p);
+    if (c != '+' && c != '-')
+      return LW_OK;
+    size_t at = p->pos;
+    p->pos++;
+    Value rhs = { 0 };
+    st = parse_term (p, &rhs);
+    if (st != LW_OK) {
+      value_clear (&rhs);
+      return st;
+    }
+    bool ok = value_add (out, &rhs, c == '+' ? 1 : -1);
+    value_clear (&rhs);
+    if (!ok)
+      return nomem (p);
+    st = value_check (p, out, at);
+    if (st != LW_OK)
+      return st;
+  }
+}
+
+/* ---------------------------------------------------------------------------------------- */
+/* Entry points                                                                             */
+
+static LwStatus
+value_to_zpk (const Value *v, LwDomain domain, double period_s, LwZpk **out, LwError *err)
+{
+  unsigned long long nd, dd;
+  value_degrees (v, &nd, &dd);
+  LwZpk *m = lw_zpk_new (domain, period_s, v->gain, (size_t) nd, (size_t) dd);
+  if (m == NULL)
+    return lw_error_set (err, LW_ERR_NOMEM, -1, "out of memory while building the model");
+  size_t iz = 0, ip = 0;
+  double complex r[LW_MAX_DEGREE];
+  for (size_t i = 0; i < v->n; i++) {
+    const Factor *f = &v->f[i];
+    LwStatus st = lw_poly_roots (f->c, f->deg, r, err);
+    if (st != LW_OK) {
+      lw_zpk_free (m);
+      return st;
+    }
+    long reps = f->exp > 0 ? f->exp : -f->exp;
+    for (long k = 0; k < reps; k++)
+      for (size_t j = 0; j < f->deg; j++) {
+        if (f->exp > 0)
+          m->zeros[iz++] = r[j];
+        else
+          m->poles[ip++] = r[j];
+      }
+  }
+  lw_zpk_canonicalize (m);
+  /* Bitwise-equal pairs only (tolerance 0): nothing is cancelled by closeness. */
+  lw_zpk_cancel (m, 0.0);
+  *out = m;
+  return LW_OK;
+}
+
+LwStatus
+lw_expr_parse (const char *text, LwDomain domain, double period_s, LwZpk **out, LwError *err)
+{
+  lw_error_clear (err);
+  if (out == NULL)
+    return lw_error_set (err, LW_ERR_INVALID, -1, "lw_expr_parse: NULL output");
+  *out = NULL;
+  if (text == NULL)
+    return lw_error_set (err, LW_ERR_INVALID, -1, "lw_expr_parse: NULL text");
+  if (!isfinite (period_s) || period_s < 0.0)
+    return lw_error_set (err, LW_ERR_INVALID, -1,
+                         "sample period %g s is not a finite non-negative number", period_s);
+  size_t len = strlen (text);
+  if (len > INT32_MAX)
+    return lw_error_set (err, LW_ERR_INVALID, -1, "expression text is too long");
+  Parser p = { .text = text, .len = len, .pos = 0, .var = lw_domain_var (domain), .err = err };
+  skip_ws (&p);
+  if (p.pos == p.len)
+    return lw_error_set (err, LW_ERR_PARSE, (int) p.pos, "empty expression at position %zu",
+                         p.pos);
+  Value v = { 0 };
+  LwStatus st = parse_expr (&p, &v);
+  if (st == LW_OK) {
+    skip_ws (&p);
+    if (p.pos < p.len) {
+      int c = peek (&p);
+      char d[32];
+      if (c == ')')
+        st = lw_error_set (err, LW_ERR_PARSE, (int) p.pos,
+                           "unexpected ')' at position %zu: no '(' to close", p.pos);
+      else
+        st = lw_error_set (err, LW_ERR_PARSE, (int) p.pos,
+                           "unexpected %s at position %zu: expected an operator or the end of "
+                           "the expression", describe (c, d, sizeof d), p.pos);
+    }
+  }
+  if (st == LW_OK)
+    st = value_to_zpk (&v, domain, period_s, out, err);
+  value_clear (&v);
+  return st;
+}
+
+LwStatus
+lw_expr_parse_proper (const char *text, LwDomain domain, double period_s, LwZpk **out,
+                      LwError *err)
+{
+  LwZpk *m = NULL;
+  LwStatus st = lw_expr_parse (text, domain, period_s, &m, err);
+  if (st != LW_OK) {
+    if (out != NULL)
+      *out = NULL;
+    return st;
+  }
+  if (m->gain == 0.0) {
+    lw_zpk_free (m);
+    *out = NULL;
+    return lw_error_set (err, LW_ERR_INVALID, 0, "the expression is identically zero");
+  }
+  if (m->n_zeros > m->n_poles) {
+    size_t nz = m->n_zeros, np = m->n_poles;
+    lw_zpk_free (m);
+    *out = NULL;
+    return lw_error_set (err, LW_ERR_INVALID, 0,
+                         "the model is improper: numerator degree %zu exceeds denominator "
+                         "degree %zu", nz, np);
+  }
+  *out = m;
+  return LW_OK;
+}

@@ -1,0 +1,46 @@
+/* lw-expr.h — rational expressions in one variable, typed by the user.
+ *
+ * Grammar (whitespace allowed between tokens):
+ *   expr    := term (('+' | '-') term)*
+ *   term    := unary (('*' | '/') unary)*
+ *   unary   := '-' unary | '+' unary | power
+ *   power   := primary ('^' INTEGER)?          INTEGER: non-negative decimal digits
+ *   primary := NUMBER | VAR | '(' expr ')'
+ *   NUMBER  := digits ['.' digits] [('e'|'E') ['+'|'-'] digits]  (also ".5")
+ *   VAR     := the one variable letter of the domain (s, z or w)
+ * Implicit multiplication is not accepted ("2s" is an error pointing at 's').
+ *
+ * The value is kept factored: products, quotients and integer powers combine factors without
+ * expanding; only a sum expands the polynomials it adds (and is then re-factored by
+ * lw_poly_roots when the parse finishes). Identical zero/pole pairs are cancelled exactly
+ * (bitwise-equal roots only), so (s+1)/(s+1) is 1 but nothing is cancelled by tolerance.
+ *
+ * Errors (LW_ERR_PARSE / LW_ERR_INVALID) carry the 0-based character position and say what was
+ * expected, e.g. "expected ')' to close '(' at 3".  Rejected: non-finite numbers (1e999), a
+ * numerator or denominator degree above LW_MAX_DEGREE, a denominator that is identically zero,
+ * a zero raised to a power that leaves nothing, any other variable letter.
+ *
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ */
+#pragma once
+
+#include "lw-model.h"
+
+#ifdef __cplusplus
+extern "C" {
+#endif
+
+/* Parses `text` as a rational function of the variable of `domain`. On success *out is a new
+ * canonicalized model (caller frees with lw_zpk_free) with the given period_s. Properness is
+ * not checked here; see lw_expr_parse_plant. */
+LwStatus lw_expr_parse (const char *text, LwDomain domain, double period_s, LwZpk **out,
+                        LwError *err);
+
+/* As lw_expr_parse, and also rejects an improper model (more zeros than poles) with
+ * LW_ERR_INVALID at position 0, and a model that is identically zero. */
+LwStatus lw_expr_parse_proper (const char *text, LwDomain domain, double period_s,
+                               LwZpk **out, LwError *err);
+
+#ifdef __cplusplus
+}
+#endif

@@ -1,0 +1,27 @@
+/* lw-internal.h — declarations shared between core/ source files; not public API.
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ */
+#pragma once
+
+#include "lw-analysis.h"
+#include "lw-linalg.h"
+#include "lw-model.h"
+
+/* π to double precision (M_PI is not C11). */
+#define LW_PI 3.14159265358979323846
+
+/* A realization of a proper factored model as a series of real first- and second-order
+ * sections (modal form for complex pairs), in the model's own variable (s or z).
+ * The overall gain sits in the last section. Fails (LW_ERR_INVALID) for improper models. */
+LwStatus lw_zpk_realize (const LwZpk *m, LwSs **out, LwError *err);
+
+struct LwSampledPlant {
+  double period_s;
+  double dead_time_s;
+  int whole_delay;          /* d: whole samples of dead time, as z^-d */
+  double frac_delay_s;      /* θ in [0, T): the fractional part, inside core */
+  LwZpk *plant_s;           /* the continuous model as typed */
+  LwSs *core;               /* ZOH of plant with θ, balanced + Hessenberg; order n or n+1 */
+  LwHessEval *eval;         /* evaluator for core (not thread-safe: one per plant) */
+  int n_integrators;        /* plant poles at s = 0 minus zeros at s = 0 */
+};

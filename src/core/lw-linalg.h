@@ -1,0 +1,68 @@
+/* lw-linalg.h — small dense linear algebra for the core (column-major, LAPACK underneath).
+ *
+ * Internal to core/: not part of the public numerics API, but documented and tested.
+ * Matrices are column-major double arrays: element (i, j) of an n×m matrix is a[i + j·n].
+ *
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ */
+#pragma once
+
+#include <complex.h>
+#include <stddef.h>
+
+#include "lw-error.h"
+
+#ifdef __cplusplus
+extern "C" {
+#endif
+
+/* e^A for an n×n matrix by scaling and squaring with the [13/13] Padé approximant
+ * (Higham, "The scaling and squaring method for the matrix exponential revisited",
+ * SIAM J. Matrix Anal. Appl. 26(4), 2005). a and out may not alias. */
+LwStatus lw_expm (size_t n, const double *a, double *out, LwError *err);
+
+/* c = a·b for n×n column-major matrices (no aliasing). */
+void lw_matmul (size_t n, const double *a, const double *b, double *c);
+
+/* A real state-space system x+ = A x + B u, y = C x + D u (single input, single output). */
+typedef struct {
+  size_t n;
+  double *a;   /* n×n column-major */
+  double *b;   /* n */
+  double *c;   /* n */
+  double d;
+} LwSs;
+
+LwSs *lw_ss_new (size_t n);
+void lw_ss_free (LwSs *s);
+LwSs *lw_ss_copy (const LwSs *s);
+
+/* Balances A by a diagonal similarity (LAPACK dgebal, scaling only) and reduces it to upper
+ * Hessenberg form by an orthogonal similarity (dgehrd/dorghr); B and C are transformed with it,
+ * so the transfer function is unchanged. Entries below the first subdiagonal are set to 0. */
+LwStatus lw_ss_balance_hessenberg (LwSs *s, LwError *err);
+
+/* Workspace for repeated evaluations of an upper-Hessenberg system (plan/execute). */
+typedef struct LwHessEval LwHessEval;
+LwHessEval *lw_hess_eval_new (const LwSs *s);   /* s must already be upper Hessenberg */
+void lw_hess_eval_free (LwHessEval *h);
+/* C (xI − A)^{−1} B + D at a complex point x, by Gaussian elimination with adjacent-row
+ * partial pivoting on the Hessenberg matrix: O(n²). Returns NaN+NaN·i if xI − A is singular. */
+double complex lw_hess_eval (LwHessEval *h, double complex x);
+
+/* Eigenvalues of an n×n real matrix (LAPACK dgeev). ev holds n entries. */
+LwStatus lw_eigenvalues (size_t n, const double *a, double complex *ev, LwError *err);
+
+/* Finite zeros of the SISO system: generalized eigenvalues of the pencil
+ * ([A B; C D], [I 0; 0 0]) (LAPACK dggev). zeros holds at least n entries; *n_zeros is set. */
+LwStatus lw_ss_zeros (const LwSs *s, double complex *zeros, size_t *n_zeros, LwError *err);
+
+/* Solves the n×n system A x = b in place of b (dgesv on a copy of A). */
+LwStatus lw_solve (size_t n, const double *a, double *b, LwError *err);
+
+/* Multiplies sizes with overflow check: returns 0 on overflow. */
+size_t lw_mul_size (size_t a, size_t b);
+
+#ifdef __cplusplus
+}
+#endif

@@ -1,0 +1,461 @@
+/* lw-sampled.c — exact zero-order-hold discretization of a continuous plant with input dead
+ * time, held as a balanced Hessenberg state space.
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ */
+#include "lw-internal.h"
+
+#include <math.h>
+#include <stdlib.h>
+#include <string.h>
+
+/* ---- realization of a factored model as a series of real sections ---- */
+
+typedef struct {
+  int order;                  /* 1 or 2 */
+  double complex p[2];        /* poles (for order 2 either a conjugate pair or two reals) */
+  int nz;                     /* zeros in this section: 0 … order */
+  double complex z[2];
+} Section;
+
+static bool
+is_pair (double complex r)
+{
+  return cimag (r) != 0.0;
+}
+
+/* Builds the section list: complex zero pairs go with complex pole pairs first, then with two
+ * real poles; remaining real zeros fill any section with room. */
+static LwStatus
+make_sections (const LwZpk *m, Section **out, size_t *n_out, LwError *err)
+{
+  size_t np = m->n_poles, nz = m->n_zeros;
+  Section *sec = calloc (np == 0 ? 1 : np, sizeof *sec);
+  double complex *rp = calloc (np + 1, sizeof *rp), *rz = calloc (nz + 1, sizeof *rz);
+  double complex *cz = calloc (nz + 1, sizeof *cz);
+  if (sec == NULL || rp == NULL || rz == NULL || cz == NULL)
+    {
+      free (sec); free (rp); free (rz); free (cz);
+      return lw_error_set (err, LW_ERR_NOMEM, -1, "out of memory while realizing a model");
+    }
+  size_t ns = 0, nrp = 0, nrz = 0, ncz = 0;
+  for (size_t i = 0; i < np; i++)
+    {
+      double complex p = m->poles[i];
+      if (is_pair (p))
+        {
+          if (cimag (p) > 0)
+            {
+              sec[ns].order = 2;
+              sec[ns].p[0] = p;
+              sec[ns].p[1] = conj (p);
+              ns++;
+            }
+        }
+      else
+        rp[nrp++] = p;
+    }
+  for (size_t i = 0; i < nz; i++)
+    {
+      double complex z = m->zeros[i];
+      if (is_pair (z))
+        {
+          if (cimag (z) > 0)
+            cz[ncz++] = z;
+        }
+      else
+        rz[nrz++] = z;
+    }
+  size_t ncomplex = ns;
+  size_t used_rp = 0;
+  for (size_t k = 0; k < ncz; k++)
+    {
+      Section *s;
+      if (k < ncomplex)
+        s = &sec[k];
+      else
+        {
+          if (used_rp + 2 > nrp)
+            {
+              free (sec); free (rp); free (rz); free (cz);
+              return lw_error_set (err, LW_ERR_INVALID, -1,
+                                   "the model is improper (more zeros than poles)");
+            }
+          s = &sec[ns++];
+          s->order = 2;
+          s->p[0] = rp[used_rp++];
+          s->p[1] = rp[used_rp++];
+        }
+      s->nz = 2;
+      s->z[0] = cz[k];
+      s->z[1] = conj (cz[k]);
+    }
+  while (used_rp < nrp)
+    {
+      Section *s = &sec[ns++];
+      s->order = 1;
+      s->p[0] = rp[used_rp++];
+    }
+  size_t used_rz = 0;
+  for (size_t k = 0; k < ns && used_rz < nrz; k++)
+    while (sec[k].nz < sec[k].order && used_rz < nrz)
+      sec[k].z[sec[k].nz++] = rz[used_rz++];
+  free (rp); free (rz); free (cz);
+  if (used_rz < nrz)
+    {
+      free (sec);
+      return lw_error_set (err, LW_ERR_INVALID, -1, "the model is improper (more zeros than poles)");
+    }
+  *out = sec;
+  *n_out = ns;
+  return LW_OK;
+}
+
+/* One section as (A, B, C, D), gain g applied to C and D. */
+static void
+section_ss (const Section *s, double g, double a[4], double b[2], double c[2], double *d)
+{
+  /* numerator coefficients n2 x² + n1 x + n0 (monic in the highest present power) */
+  double n0, n1, n2;
+  if (s->nz == 0)
+    { n2 = 0; n1 = 0; n0 = 1; }
+  else if (s->nz == 1)
+    { n2 = 0; n1 = 1; n0 = -creal (s->z[0]); }
+  else
+    {
+      n2 = 1;
+      n1 = -creal (s->z[0] + s->z[1]);
+      n0 = creal (s->z[0] * s->z[1]);
+    }
+  if (s->order == 1)
+    {
+      double p = creal (s->p[0]);
+      /* (n1 x + n0)/(x − p) = n1 + (n0 + n1 p)/(x − p) */
+      a[0] = p;
+      b[0] = 1.0;
+      c[0] = g * (n0 + n1 * p);
+      *d = g * n1;
+      return;
+    }
+  double b1 = -creal (s->p[0] + s->p[1]);
+  double b0 = creal (s->p[0] * s->p[1]);
+  double r1 = n1 - n2 * b1, r0 = n0 - n2 * b0;
+  *d = g * n2;
+  if (is_pair (s->p[0]))
+    {
+      /* modal form A = [σ ω; −ω σ], B = [0; 1]: C (xI−A)⁻¹ B = (c2 x + c1 ω − c2 σ)/den */
+      double sg = creal (s->p[0]), om = fabs (cimag (s->p[0]));
+      a[0] = sg; a[2] = om;
+      a[1] = -om; a[3] = sg;
+      b[0] = 0.0; b[1] = 1.0;
+      c[1] = g * r1;
+      c[0] = g * (r0 + r1 * sg) / om;
+    }
+  else
+    {
+      /* cascade of two real poles: x1 = u/(x−p1), x2 = x1/(x−p2);
+       * C x = (c1 (x − p2) + c2)/den */
+      double p1 = creal (s->p[0]), p2 = creal (s->p[1]);
+      a[0] = p1; a[2] = 0.0;
+      a[1] = 1.0; a[3] = p2;
+      b[0] = 1.0; b[1] = 0.0;
+      c[0] = g * r1;
+      c[1] = g * (r0 + r1 * p2);
+    }
+}
+
+LwStatus
+lw_zpk_realize (const LwZpk *m, LwSs **out, LwError *err)
+{
+  if (m->n_zeros > m->n_poles)
+    return lw_error_set (err, LW_ERR_INVALID, -1, "the model is improper (more zeros than poles)");
+  Section *sec = NULL;
+  size_t ns = 0;
+  LwStatus st = make_sections (m, &sec, &ns, err);
+  if (st != LW_OK)
+    return st;
+  LwSs *ss = lw_ss_new (m->n_poles);
+  if (ss == NULL)
+    {
+      free (sec);
+      return lw_error_set (err, LW_ERR_NOMEM, -1, "out of memory while realizing a model");
+    }
+  size_t n = m->n_poles;
+  /* Series connection, section by section: x = [x_1; …; x_k], u → sec 1 → … → y.
+   * Keep track of the running output map (C_run, D_run) of the cascade so far. */
+  double *crun = calloc (n + 1, sizeof (double));
+  double drun = 1.0;
+  if (crun == NULL)
+    {
+      free (sec);
+      lw_ss_free (ss);
+      return lw_error_set (err, LW_ERR_NOMEM, -1, "out of memory while realizing a model");
+    }
+  size_t off = 0;
+  for (size_t k = 0; k < ns; k++)
+    {
+      double a[4] = { 0 }, b[2] = { 0 }, c[2] = { 0 }, d = 0;
+      double g = (k + 1 == ns) ? m->gain : 1.0;
+      section_ss (&sec[k], g, a, b, c, &d);
+      size_t o = (size_t) sec[k].order;
+      /* new states driven by the previous output: x_k+ = A_k x_k + B_k (C_run x + D_run u) */
+      for (size_t i = 0; i < o; i++)
+        {
+          for (size_t j = 0; j < o; j++)
+            ss->a[(off + i) + (off + j) * n] = a[i + j * o];
+          for (size_t j = 0; j < off; j++)
+            ss->a[(off + i) + j * n] = b[i] * crun[j];
+          ss->b[off + i] = b[i] * drun;
+        }
+      /* output: y_k = C_k x_k + D_k (C_run x + D_run u) */
+      for (size_t j = 0; j < off; j++)
+        crun[j] *= d;
+      for (size_t i = 0; i < o; i++)
+        crun[off + i] = c[i];
+      drun *= d;
+      off += o;
+    }
+  if (ns == 0)
+    drun = m->gain;
+  memcpy (ss->c, crun, n * sizeof (double));
+  ss->d = drun;
+  free (crun);
+  free (sec);
+  *out = ss;
+  return LW_OK;
+}
+
+/* ---- zero-order hold ---- */
+
+/* e^{M h} for M = [[A, B], [0, 0]] (order n+1): returns Φ(h) (n×n) and Γ(h) (n). */
+static LwStatus
+zoh_blocks (const LwSs *c, double h, double *phi, double *gam, LwError *err)
+{
+  size_t n = c->n, m = n + 1;
+  double *mm = calloc (m * m, sizeof (double)), *em = calloc (m * m, sizeof (double));
+  if (mm == NULL || em == NULL)
+    {
+      free (mm);
+      free (em);
+      return lw_error_set (err, LW_ERR_NOMEM, -1, "out of memory in the discretization");
+    }
+  for (size_t j = 0; j < n; j++)
+    for (size_t i = 0; i < n; i++)
+      mm[i + j * m] = c->a[i + j * n] * h;
+  for (size_t i = 0; i < n; i++)
+    mm[i + n * m] = c->b[i] * h;
+  LwStatus st = lw_expm (m, mm, em, err);
+  if (st == LW_OK)
+    {
+      for (size_t j = 0; j < n; j++)
+        for (size_t i = 0; i < n; i++)
+          phi[i + j * n] = em[i + j * m];
+      for (size_t i = 0; i < n; i++)
+        gam[i] = em[i + n * m];
+    }
+  free (mm);
+  free (em);
+  return st;
+}
+
+LwStatus
+lw_sampled_plant_new (const LwZpk *plant_s, double dead_time_s, double period_s,
+                      LwSampledPlant **out, LwError *err)
+{
+  *out = NULL;
+  if (plant_s == NULL || plant_s->domain != LW_DOMAIN_S)
+    return lw_error_set (err, LW_ERR_INVALID, -1, "the plant must be a model in s");
+  if (!(period_s > 0.0) || !isfinite (period_s))
+    return lw_error_set (err, LW_ERR_INVALID, -1, "the sample period must be a finite number > 0 s");
+  if (!(dead_time_s >= 0.0) || !isfinite (dead_time_s))
+    return lw_error_set (err, LW_ERR_INVALID, -1, "the dead time must be a finite number >= 0 s");
+  if (plant_s->n_zeros > plant_s->n_poles)
+    return lw_error_set (err, LW_ERR_INVALID, -1, "the plant is improper (more zeros than poles)");
+  if (!lw_zpk_is_finite (plant_s))
+    return lw_error_set (err, LW_ERR_INVALID, -1, "the plant has a non-finite gain or root");
+  double ratio = dead_time_s / period_s;
+  if (ratio > 1e6)
+    return lw_error_set (err, LW_ERR_INVALID, -1,
+                         "the dead time is more than a million samples (%.6g samples)", ratio);
+  /* Whole samples plus a fraction; a ratio within 1e-9 of an integer counts as whole so that
+   * e.g. 0.03 s at 0.01 s is exactly 3 samples. */
+  double whole = floor (ratio);
+  double frac = ratio - whole;
+  if (frac > 1.0 - 1e-9)
+    {
+      whole += 1.0;
+      frac = 0.0;
+    }
+  else if (frac < 1e-9)
+    frac = 0.0;
+
+  LwSampledPlant *p = calloc (1, sizeof *p);
+  if (p == NULL)
+    return lw_error_set (err, LW_ERR_NOMEM, -1, "out of memory");
+  p->period_s = period_s;
+  p->dead_time_s = dead_time_s;
+  p->whole_delay = (int) whole;
+  p->frac_delay_s = frac * period_s;
+  p->plant_s = lw_zpk_copy (plant_s);
+  for (size_t i = 0; i < plant_s->n_poles; i++)
+    if (plant_s->poles[i] == 0.0)
+      p->n_integrators++;
+  for (size_t i = 0; i < plant_s->n_zeros; i++)
+    if (plant_s->zeros[i] == 0.0)
+      p->n_integrators--;
+
+  LwSs *cs = NULL;
+  LwStatus st = lw_zpk_realize (plant_s, &cs, err);
+  if (st != LW_OK)
+    {
+      lw_sampled_plant_free (p);
+      return st;
+    }
+  size_t n = cs->n;
+  bool frac_part = p->frac_delay_s > 0.0;
+  size_t nd = n + (frac_part ? 1 : 0);
+  LwSs *ds = lw_ss_new (nd);
+  double *phi1 = calloc (n * n + 1, sizeof (double)), *gam1 = calloc (n + 1, sizeof (double));
+  double *phi2 = calloc (n * n + 1, sizeof (double)), *gam2 = calloc (n + 1, sizeof (double));
+  if (ds == NULL || phi1 == NULL || gam1 == NULL || phi2 == NULL || gam2 == NULL)
+    {
+      st = lw_error_set (err, LW_ERR_NOMEM, -1, "out of memory in the discretization");
+      goto fail;
+    }
+  if (!frac_part)
+    {
+      st = zoh_blocks (cs, period_s, phi1, gam1, err);
+      if (st != LW_OK)
+        goto fail;
+      for (size_t j = 0; j < n; j++)
+        for (size_t i = 0; i < n; i++)
+          ds->a[i + j * nd] = phi1[i + j * n];
+      for (size_t i = 0; i < n; i++)
+        {
+          ds->b[i] = gam1[i];
+          ds->c[i] = cs->c[i];
+        }
+      ds->d = cs->d;
+    }
+  else
+    {
+      /* Input switches at kT + θ: x((k+1)T) = Φ(T) x + Φ(T−θ) Γ(θ) v + Γ(T−θ) u,
+       * v[k] = the input held before the switch (previous sample), y = C x + D v. */
+      double th = p->frac_delay_s;
+      st = zoh_blocks (cs, th, phi1, gam1, err);
+      if (st == LW_OK)
+        st = zoh_blocks (cs, period_s - th, phi2, gam2, err);
+      if (st != LW_OK)
+        goto fail;
+      for (size_t i = 0; i < n; i++)
+        {
+          for (size_t j = 0; j < n; j++)
+            {
+              double acc = 0.0;
+              for (size_t k = 0; k < n; k++)
+                acc += phi2[i + k * n] * phi1[k + j * n];
+              ds->a[i + j * nd] = acc;
+            }
+          double acc = 0.0;
+          for (size_t k = 0; k < n; k++)
+            acc += phi2[i + k * n] * gam1[k];
+          ds->a[i + n * nd] = acc;
+          ds->b[i] = gam2[i];
+          ds->c[i] = cs->c[i];
+        }
+      /* v+ = u */
+      ds->b[n] = 1.0;
+      ds->c[n] = cs->d;
+      ds->d = 0.0;
+    }
+  st = lw_ss_balance_hessenberg (ds, err);
+  if (st != LW_OK)
+    goto fail;
+  p->core = ds;
+  ds = NULL;
+  p->eval = lw_hess_eval_new (p->core);
+  if (p->eval == NULL)
+    {
+      st = lw_error_set (err, LW_ERR_NOMEM, -1, "out of memory");
+      goto fail;
+    }
+  free (phi1); free (gam1); free (phi2); free (gam2);
+  lw_ss_free (cs);
+  *out = p;
+  return LW_OK;
+
+fail:
+  free (phi1); free (gam1); free (phi2); free (gam2);
+  lw_ss_free (cs);
+  lw_ss_free (ds);
+  lw_sampled_plant_free (p);
+  return st;
+}
+
+void
+lw_sampled_plant_free (LwSampledPlant *p)
+{
+  if (p == NULL)
+    return;
+  lw_zpk_free (p->plant_s);
+  lw_ss_free (p->core);
+  lw_hess_eval_free (p->eval);
+  free (p);
+}
+
+double
+lw_sampled_plant_period (const LwSampledPlant *p)
+{
+  return p->period_s;
+}
+
+double complex
+lw_sampled_plant_response (const LwSampledPlant *p, double omega_rad_s)
+{
+  double wt = omega_rad_s * p->period_s;
+  /* At the Nyquist frequency z is exactly −1 (the response of a real system is real there). */
+  bool nyquist = fabs (wt - LW_PI) <= 4.0 * LW_PI * 2.220446049250313e-16;
+  double complex z = nyquist ? -1.0 : cexp (I * wt);
+  double complex h = lw_hess_eval (p->eval, z);
+  if (p->whole_delay > 0)
+    h *= nyquist ? ((p->whole_delay % 2) ? -1.0 : 1.0) : cexp (-I * wt * p->whole_delay);
+  return h;
+}
+
+LwZpk *
+lw_sampled_plant_zpk (const LwSampledPlant *p)
+{
+  const LwSs *s = p->core;
+  size_t n = s->n, d = (size_t) p->whole_delay;
+  double complex *zeros = calloc (n + 1, sizeof *zeros), *poles = calloc (n + 1, sizeof *poles);
+  size_t nz = 0;
+  LwZpk *m = NULL;
+  if (zeros == NULL || poles == NULL)
+    goto out;
+  if (lw_ss_zeros (s, zeros, &nz, NULL) != LW_OK || lw_eigenvalues (n, s->a, poles, NULL) != LW_OK)
+    goto out;
+  m = lw_zpk_new (LW_DOMAIN_Z, p->period_s, 1.0, nz, n + d);
+  if (m == NULL)
+    goto out;
+  memcpy (m->zeros, zeros, nz * sizeof *zeros);
+  memcpy (m->poles, poles, n * sizeof *poles);
+  for (size_t i = 0; i < d; i++)
+    m->poles[n + i] = 0.0;
+  lw_zpk_canonicalize (m);
+  /* Gain for display: match the state-space response at a point well away from every root. */
+  {
+    double rmax = 1.0;
+    for (size_t i = 0; i < m->n_zeros; i++)
+      rmax = fmax (rmax, cabs (m->zeros[i]));
+    for (size_t i = 0; i < m->n_poles; i++)
+      rmax = fmax (rmax, cabs (m->poles[i]));
+    double complex z0 = 2.0 * rmax * cexp (I * 0.3);
+    double complex h = lw_hess_eval (p->eval, z0) * cpow (z0, -(double) d);
+    m->gain = 1.0;
+    double complex unit = lw_zpk_eval (m, z0);
+    m->gain = creal (h / unit);
+  }
+out:
+  free (zeros);
+  free (poles);
+  return m;
+}

@@ -1,0 +1,332 @@
+/* test-evaluate — the sampled loop: step response, margins, every crossover, closed loop.
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ */
+#include <setjmp.h>
+#include <stdarg.h>
+#include <stddef.h>
+#include <stdint.h>
+#include <cmocka.h>
+
+#include <math.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+
+#include "lw-analysis.h"
+#include "lw-expr.h"
+#include "lw-internal.h"
+
+static LwZpk *
+parse (const char *text, LwDomain d, double t)
+{
+  LwZpk *m = NULL;
+  LwError err;
+  if (lw_expr_parse (text, d, t, &m, &err) != LW_OK)
+    fail_msg ("parse of '%s' failed: %s", text, err.message);
+  return m;
+}
+
+static void
+assert_close (double got, double want, double tol, const char *what)
+{
+  if (!(fabs (got - want) <= tol))
+    fail_msg ("%s: got %.17g, want %.17g (tolerance %g)", what, got, want, tol);
+}
+
+/* Evaluates plant (in s) with a controller in w (or z when ctrl_in_z). */
+static LwEvaluation *
+run (const char *plant, double t, double tau, int n_delay, const char *ctrl, bool ctrl_in_z,
+     size_t steps)
+{
+  LwZpk *p = parse (plant, LW_DOMAIN_S, 0);
+  LwZpk *c = parse (ctrl, ctrl_in_z ? LW_DOMAIN_Z : LW_DOMAIN_W, t);
+  LwZpk *cz = ctrl_in_z ? lw_zpk_copy (c) : lw_zpk_w_to_z (c);
+  LwSampledPlant *sp = NULL;
+  LwError err;
+  if (lw_sampled_plant_new (p, tau, t, &sp, &err) != LW_OK)
+    fail_msg ("discretize: %s", err.message);
+  LwAnalysisOptions o;
+  lw_analysis_options_init (&o);
+  o.compute_delay = n_delay;
+  o.n_steps = steps;
+  LwEvaluation *ev = NULL;
+  if (lw_evaluate (sp, cz, &o, &ev, &err) != LW_OK)
+    fail_msg ("evaluate: %s", err.message);
+  lw_sampled_plant_free (sp);
+  lw_zpk_free (p);
+  lw_zpk_free (c);
+  lw_zpk_free (cz);
+  return ev;
+}
+
+/* Unity-feedback step of the ZOH of 1/(s(s+1)), T = 1 s, no computation delay:
+ * 0, 0.3679, 1.0000, 1.3996, 1.3996, 1.1470, 0.8944, 0.8015 (Ogata, Discrete-Time Control
+ * Systems, 2nd ed.; from memory, to 4 decimals) — tolerance 5e-5, half a unit of the 4th
+ * decimal. */
+static void
+test_step_ogata (void **state)
+{
+  (void) state;
+  LwEvaluation *ev = run ("1/(s*(s+1))", 1.0, 0.0, 0, "1", false, 60);
+  const double book[] = { 0, 0.3679, 1.0000, 1.3996, 1.3996, 1.1470, 0.8944, 0.8015 };
+  for (size_t k = 0; k < 8; k++)
+    assert_close (ev->step.samples[k], book[k], 5e-5, "Ogata step sample");
+  /* closed-loop poles: z² − z + 0.6321 = 0 (the characteristic equation of the same example:
+   * (z−1)(z−e⁻¹) + e⁻¹z + 1 − 2e⁻¹ = z² − z + (1 − e⁻¹)); exact, tolerance 1e-13 */
+  assert_true (ev->stable);
+  assert_int_equal (ev->n_closed_loop_poles, 2);
+  double want_re = 0.5, want_im = sqrt ((1 - exp (-1.0)) - 0.25);
+  for (size_t i = 0; i < 2; i++)
+    {
+      assert_close (creal (ev->closed_loop_poles[i]), want_re, 1e-13, "pole re");
+      assert_close (fabs (cimag (ev->closed_loop_poles[i])), want_im, 1e-13, "pole im");
+    }
+  assert_true (ev->step.has_final);
+  assert_close (ev->step.final_value, 1.0, 1e-12, "type-1 loop: final value 1");
+  /* the Nyquist point: L(−1) = e⁻¹(−1 + 0.7183)/((−2)(−1.3679)) < 0, a phase crossover exactly
+   * at π/T with GM = −20 log10 |L(−1)| (exact expression, tolerance 1e-12 dB) */
+  double e1 = exp (-1.0);
+  double lnyq = fabs ((-e1 + (1 - 2 * e1)) / (-2.0 * (-1.0 - e1)));
+  bool found = false;
+  for (size_t i = 0; i < ev->margins.n_phase_crossovers; i++)
+    if (ev->margins.phase_crossovers_rad_s[i] == LW_PI)
+      {
+        found = true;
+        assert_close (ev->margins.gain_margins_db[i], -20 * log10 (lnyq), 1e-12, "GM at Nyquist");
+      }
+  assert_true (found);
+  lw_evaluation_free (ev);
+}
+
+/* Exact second-order phase margin PM(ζ) = atan(2ζ / sqrt(sqrt(1 + 4ζ⁴) − 2ζ²)) at
+ * ν_c = ω_n sqrt(sqrt(1 + 4ζ⁴) − 2ζ²) (Franklin, Powell & Emami-Naeini, Feedback Control of
+ * Dynamic Systems): ζ = 0.5 → 51.83°, ζ = 0.7 → 65.16°. The loop ω_n²/(w(w + 2ζω_n)) is put in
+ * the w-plane (static plant, no computation delay), where L(jν) is exactly that, so PM is exact
+ * and the crossover ω is the unwarped ν. Tolerances: 1e-9° and 1e-12 relative in ω (refined
+ * roots); the book's two decimals to 0.005°. */
+static void
+test_second_order_pm (void **state)
+{
+  (void) state;
+  const double zetas[] = { 0.5, 0.7, 0.2, 1.0 };
+  const double book[] = { 51.83, 65.16, NAN, NAN };
+  const double wn = 10.0, t = 0.01;
+  for (size_t k = 0; k < 4; k++)
+    {
+      double z = zetas[k];
+      char ctrl[128];
+      snprintf (ctrl, sizeof ctrl, "%.17g/(w*(w+%.17g))", wn * wn, 2 * z * wn);
+      LwEvaluation *ev = run ("1", t, 0.0, 0, ctrl, false, 10);
+      double r = sqrt (sqrt (1 + 4 * pow (z, 4)) - 2 * z * z);
+      double pm = atan (2 * z / r) * 180 / LW_PI, nu = wn * r;
+      assert_int_equal (ev->margins.n_gain_crossovers, 1);
+      assert_true (ev->margins.has_phase_margin);
+      assert_close (ev->margins.phase_margin_deg, pm, 1e-9, "PM(zeta)");
+      if (!isnan (book[k]))
+        assert_close (ev->margins.phase_margin_deg, book[k], 0.005, "book PM");
+      assert_close (ev->margins.gain_crossover_rad_s, lw_warp_nu_to_omega (nu, t),
+                    1e-12 * nu, "crossover");
+      /* delay margin = PM(rad)/ω_c by definition (docs/conventions.md) */
+      assert_close (ev->margins.delay_margin_s,
+                    pm * LW_PI / 180 / ev->margins.gain_crossover_rad_s, 1e-12, "delay margin");
+      lw_evaluation_free (ev);
+    }
+}
+
+/* A loop whose resonance lifts |L| above 1 again: three gain crossovers. Each must satisfy
+ * |L| = 1 to 1e-12 (refined, not grid values), ascending and distinct; the sensitivity peak must
+ * be no lower than the largest |1/(1+L)| on an independent dense scan (1e-12 relative), and the
+ * delay margin the minimum over the crossovers of the turn that puts L on −1: PM/ω, or
+ * (PM + 360°)/ω where PM < 0 (docs/conventions.md). */
+static void
+test_every_crossover (void **state)
+{
+  (void) state;
+  const double t = 0.001;
+  /* invented: a stiff axis with a lightly damped mode at 300 rad/s */
+  const char *plant = "2000*90000/(s*(s+50)*(s^2+6*s+90000))";
+  LwEvaluation *ev = run (plant, t, 0.0, 1, "1", false, 10);
+  const LwMargins *m = &ev->margins;
+  assert_int_equal (m->n_gain_crossovers, 3);
+  LwZpk *p = parse (plant, LW_DOMAIN_S, 0);
+  LwSampledPlant *sp = NULL;
+  assert_int_equal (lw_sampled_plant_new (p, 0, t, &sp, NULL), LW_OK);
+  double dm = INFINITY;
+  for (size_t i = 0; i < m->n_gain_crossovers; i++)
+    {
+      double w = m->gain_crossovers_rad_s[i];
+      double complex l = lw_sampled_plant_response (sp, w) * cexp (-I * w * t);
+      assert_close (cabs (l), 1.0, 1e-12, "|L| at a gain crossover");
+      if (i > 0)
+        assert_true (w > m->gain_crossovers_rad_s[i - 1] * (1 + 1e-9));
+      double turn = m->phase_margins_deg[i];
+      turn += turn < 0 ? 360 : 0;
+      dm = fmin (dm, turn * LW_PI / 180 / w);
+      /* PM from the independently computed L, wrapped as documented */
+      double pm = 180 + carg (l) * 180 / LW_PI;
+      pm -= 360 * ceil ((pm - 180) / 360);
+      assert_close (m->phase_margins_deg[i], pm, 1e-9, "PM per crossover");
+    }
+  double smax = 0;
+  for (double w = 0.01; w < LW_PI / t; w *= 1.0002)
+    {
+      double complex l = lw_sampled_plant_response (sp, w) * cexp (-I * w * t);
+      smax = fmax (smax, 1 / cabs (1 + l));
+    }
+  assert_true (m->has_sensitivity);
+  assert_true (m->sensitivity_peak >= smax * (1 - 1e-12));
+  assert_true (m->sensitivity_peak <= smax * 1.01);  /* dense scan steps 2e-4: within 1 % */
+  assert_true (ev->stable);
+  assert_close (m->delay_margin_s, dm, 1e-15, "delay margin = min turn/w");
+  lw_sampled_plant_free (sp);
+  lw_zpk_free (p);
+  lw_evaluation_free (ev);
+}
+
+/* Order 10 with poles clustered near z = 1 (T = 0.01 s, modes 20–80 rad/s) — the standard
+ * benchmark plant — against the order-2 plant it reduces to at low frequency: the gain crossover
+ * count stays 1 (no spurious crossings from cancellation), |L| = 1 there to 1e-12, and every
+ * phase crossover has ∠L = −180° (mod 360) to 1e-9°. Extended-precision agreement is checked by
+ * tests/reference/ref_mpmath.py. */
+static void
+test_high_order_clustered (void **state)
+{
+  (void) state;
+  const double t = 0.01;
+  const char *ctrl = "50*(w+0.2)*(w+2)*(w+4)/(w*(w+20)*(w+40))";
+  const char *p10 = "3*400*1600*3600*6400/(s*(s^2+12*s+400)*(s^2+24*s+1600)*(s^2+36*s+3600)"
+                    "*(s^2+48*s+6400)*(s+3))";
+  LwEvaluation *ev = run (p10, t, 0, 1, ctrl, false, 2000);
+  LwEvaluation *ev2 = run ("3/(s*(s+3))", t, 0, 1, ctrl, false, 2000);
+  assert_int_equal (ev->margins.n_gain_crossovers, 1);
+  assert_int_equal (ev2->margins.n_gain_crossovers, 1);
+  LwZpk *p = parse (p10, LW_DOMAIN_S, 0);
+  LwZpk *cw = parse (ctrl, LW_DOMAIN_W, t), *cz = lw_zpk_w_to_z (cw);
+  LwSampledPlant *sp = NULL;
+  assert_int_equal (lw_sampled_plant_new (p, 0, t, &sp, NULL), LW_OK);
+  double w = ev->margins.gain_crossovers_rad_s[0];
+  double complex l = lw_sampled_plant_response (sp, w) * lw_zpk_eval (cz, cexp (I * w * t))
+                     * cexp (-I * w * t);
+  assert_close (cabs (l), 1.0, 1e-12, "|L| = 1");
+  for (size_t i = 0; i < ev->margins.n_phase_crossovers; i++)
+    {
+      double wp = ev->margins.phase_crossovers_rad_s[i];
+      double complex lp = lw_sampled_plant_response (sp, wp) * lw_zpk_eval (cz, cexp (I * wp * t))
+                          * cexp (-I * wp * t);
+      double ph = carg (lp) * 180 / LW_PI;
+      assert_close (fabs (ph), 180.0, 1e-9, "phase at a phase crossover");
+    }
+  assert_true (ev->stable == (ev->margins.phase_margin_deg > 0));
+  lw_sampled_plant_free (sp);
+  lw_zpk_free (p);
+  lw_zpk_free (cw);
+  lw_zpk_free (cz);
+  lw_evaluation_free (ev);
+  lw_evaluation_free (ev2);
+}
+
+/* Dead time. Whole samples: z^−d exactly, so the gain crossover stays and the phase margin drops
+ * by ω_c·τ (|e^{−jωτ}| = 1; 1e-9°); the closed-loop step stays exactly 0 until sample
+ * N + d + 1 (the ZOH plant is strictly proper: one sample, plus d, plus the computation delay N),
+ * and the closed loop has d more poles. A fraction of a sample is not exactly e^{−jωθ} on the sampled loop: the ZOH's
+ * aliased images turn with θ differently from the baseband term (modified z-transform), so the
+ * same relations hold only to the size of the images, ~1e-5 of the baseband at ωT = 0.07 for this
+ * plant (|G(j2π/T)|/|G(jω_c)| · ωT/2π); tolerances 1e-4 relative and 0.01°. */
+static void
+test_dead_time (void **state)
+{
+  (void) state;
+  const double t = 0.05;
+  LwEvaluation *a = run ("4/(s*(s+2))", t, 0.0, 1, "0.8", false, 80);
+  LwEvaluation *b = run ("4/(s*(s+2))", t, 3 * t, 1, "0.8", false, 80);
+  LwEvaluation *c = run ("4/(s*(s+2))", t, 1.37 * t, 1, "0.8", false, 80);
+  assert_int_equal (a->margins.n_gain_crossovers, 1);
+  double wc = a->margins.gain_crossovers_rad_s[0];
+  assert_close (b->margins.gain_crossovers_rad_s[0], wc, 1e-12 * wc, "same crossover (3T)");
+  assert_close (c->margins.gain_crossovers_rad_s[0], wc, 1e-4 * wc, "about the same crossover (1.37T)");
+  assert_close (b->margins.phase_margin_deg, a->margins.phase_margin_deg - wc * 3 * t * 180 / LW_PI,
+                1e-9, "PM minus w*tau (3T)");
+  assert_close (c->margins.phase_margin_deg,
+                a->margins.phase_margin_deg - wc * 1.37 * t * 180 / LW_PI, 0.01,
+                "PM minus w*tau (1.37T)");
+  for (size_t k = 0; k < 5; k++)
+    assert_true (b->step.samples[k] == 0.0);
+  assert_true (b->step.samples[5] > 0.0);
+  assert_true (a->step.samples[1] == 0.0 && a->step.samples[2] > 0.0);
+  assert_int_equal (b->n_closed_loop_poles, a->n_closed_loop_poles + 3);
+  /* plant_z carries the three whole samples as poles at 0 */
+  assert_int_equal (b->plant_z->n_poles, a->plant_z->n_poles + 3);
+  lw_evaluation_free (a);
+  lw_evaluation_free (b);
+  lw_evaluation_free (c);
+}
+
+/* Step figures on a known second-order response: the closed loop of the w-plane loop
+ * ω_n²/(w(w+2ζω_n)) sampled fast approximates the continuous standard second-order system, whose
+ * overshoot is 100·exp(−πζ/√(1−ζ²)) = 16.30 % at ζ = 0.5 (standard formula, e.g. Ogata, Modern
+ * Control Engineering). The Tustin image of the standard system differs from it by O((ω_n T)²) at
+ * tolerance 0.05 percentage points. */
+static void
+test_step_figures (void **state)
+{
+  (void) state;
+  const double t = 0.001, wn = 10.0, zeta = 0.5;
+  char ctrl[128];
+  snprintf (ctrl, sizeof ctrl, "%.17g/(w*(w+%.17g))", wn * wn, 2 * zeta * wn);
+  LwEvaluation *ev = run ("1", t, 0, 0, ctrl, false, 3000);
+  assert_true (ev->step.has_final);
+  assert_close (ev->step.final_value, 1.0, 1e-12, "final");
+  assert_true (ev->step.has_overshoot);
+  double os = 100 * exp (-LW_PI * zeta / sqrt (1 - zeta * zeta));
+  assert_close (ev->step.overshoot_pct, os, 0.05, "overshoot");
+  /* rise (10–90 %) and 2 % settling of the continuous standard system, from its closed-form step
+   * y(t) = 1 − e^{−ζω_n t}(cos ω_d t + ζ/√(1−ζ²) sin ω_d t) (same textbook), scanned at 1e-5 s.
+   * Tolerance: 2 ms (two samples: interpolation between samples plus the warping) */
+  double wd = wn * sqrt (1 - zeta * zeta), t10 = -1, t90 = -1, ts = 0;
+  for (double tt = 0; tt < 3.0; tt += 1e-5)
+    {
+      double y = 1 - exp (-zeta * wn * tt) * (cos (wd * tt) + zeta / sqrt (1 - zeta * zeta)
+                                                * sin (wd * tt));
+      if (t10 < 0 && y >= 0.1)
+        t10 = tt;
+      if (t90 < 0 && y >= 0.9)
+        t90 = tt;
+      if (fabs (y - 1) > 0.02)
+        ts = tt;
+    }
+  assert_true (ev->step.has_rise);
+  assert_close (ev->step.rise_time_s, t90 - t10, 0.002, "rise");
+  assert_true (ev->step.has_settling);
+  assert_close (ev->step.settling_time_s, ts, 0.002, "settling");
+  lw_evaluation_free (ev);
+}
+
+/* Unstable loop: reported unstable, no final value, margins still found. */
+static void
+test_unstable (void **state)
+{
+  (void) state;
+  LwEvaluation *ev = run ("1/(s*(s+1))", 1.0, 0.0, 0, "5", false, 20);
+  assert_false (ev->stable);
+  assert_false (ev->step.has_final);
+  assert_true (ev->margins.has_phase_margin);
+  assert_true (ev->margins.phase_margin_deg < 0);
+  assert_true (ev->margins.has_delay_margin);
+  assert_close (ev->margins.delay_margin_s, 0.0, 0.0, "no delay margin left");
+  lw_evaluation_free (ev);
+}
+
+int
+main (void)
+{
+  const struct CMUnitTest tests[] = {
+    cmocka_unit_test (test_step_ogata),
+    cmocka_unit_test (test_second_order_pm),
+    cmocka_unit_test (test_every_crossover),
+    cmocka_unit_test (test_high_order_clustered),
+    cmocka_unit_test (test_dead_time),
+    cmocka_unit_test (test_step_figures),
+    cmocka_unit_test (test_unstable),
+  };
+  return cmocka_run_group_tests (tests, NULL, NULL);
+}
