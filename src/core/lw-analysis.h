@@ -38,7 +38,8 @@ double lw_sampled_plant_period (const LwSampledPlant *p);
  * computation delay. New model; caller frees. */
 LwZpk *lw_sampled_plant_zpk (const LwSampledPlant *p);
 
-/* P(e^{jωT}) from the state space (one Hessenberg solve), times the whole-sample dead time. */
+/* P(e^{jωT}) from the state space (one O(n²) back substitution on its real Schur form), times
+ * the whole-sample dead time. */
 double complex lw_sampled_plant_response (const LwSampledPlant *p, double omega_rad_s);
 
 /* Bilinear map between factored models in z and in w = (2/T)(z−1)/(z+1), factor by factor.

@@ -11,6 +11,7 @@
 #include <string.h>
 
 #define RAD2DEG (180.0 / LW_PI)
+#define LW_LN10 2.302585092994045684
 
 void
 lw_analysis_options_init (LwAnalysisOptions *o)
@@ -41,20 +42,43 @@ at_nyquist (const Loop *lp, double w)
   return fabs (w - lp->omega_n) <= 4.0 * DBL_EPSILON * lp->omega_n;
 }
 
+/* Product ∏(z − r_i) in real arithmetic (C99 complex multiply calls a NaN-checking helper). */
+static inline void
+root_product (const double complex *roots, size_t n, double zr, double zi, double *pr, double *pi)
+{
+  double ar = *pr, ai = *pi;
+  for (size_t i = 0; i < n; i++)
+    {
+      double fr = zr - creal (roots[i]), fi = zi - cimag (roots[i]);
+      double t = ar * fr - ai * fi;
+      ai = ar * fi + ai * fr;
+      ar = t;
+    }
+  *pr = ar;
+  *pi = ai;
+}
+
 /* C(z)·P_core(z) at z = e^{jωT}: everything but the whole-sample delays. */
 static double complex
 loop_core (const Loop *lp, double w)
 {
   bool nyq = at_nyquist (lp, w);
-  double complex z = nyq ? -1.0 : cexp (I * w * lp->t);
-  double complex h = lw_hess_eval (lp->plant->eval, z);
+  double zr = -1.0, zi = 0.0;
+  if (!nyq)
+    {
+      zr = cos (w * lp->t);
+      zi = sin (w * lp->t);
+    }
+  double complex h = lw_schur_eval (lp->plant->eval, zr + zi * I);
   const LwZpk *c = lp->ctrl;
-  double complex num = c->gain, den = 1.0;
-  for (size_t i = 0; i < c->n_zeros; i++)
-    num *= z - c->zeros[i];
-  for (size_t i = 0; i < c->n_poles; i++)
-    den *= z - c->poles[i];
-  return h * num / den;
+  double nr = c->gain, ni = 0.0, dr = 1.0, di = 0.0;
+  root_product (c->zeros, c->n_zeros, zr, zi, &nr, &ni);
+  root_product (c->poles, c->n_poles, zr, zi, &dr, &di);
+  /* h · num / den */
+  double den = dr * dr + di * di;
+  double qr = (nr * dr + ni * di) / den, qi = (ni * dr - nr * di) / den;
+  double hr = creal (h), hi = cimag (h);
+  return (hr * qr - hi * qi) + (hr * qi + hi * qr) * I;
 }
 
 /* The whole-sample delay's phase, degrees (exact, continuous in ω). */
@@ -373,11 +397,24 @@ build_grid (const Loop *lp, const LwZpk *plant_s, int n_int, size_t n_points, do
         }
     }
   free (corners);
-  qsort (g, k, sizeof *g, cmp_double);
-  size_t m = 0;
-  for (size_t i = 0; i < k; i++)
-    if (m == 0 || g[i] > g[m - 1])
-      g[m++] = g[i];
+  /* the base grid is sorted; sort the clustered points (few) and merge them in */
+  size_t ne = k - n_base;
+  qsort (g + n_base, ne, sizeof *g, cmp_double);
+  double *merged = malloc ((k == 0 ? 1 : k) * sizeof *merged);
+  if (merged == NULL)
+    {
+      free (g);
+      return lw_error_set (err, LW_ERR_NOMEM, -1, "out of memory for the frequency grid");
+    }
+  size_t ia = 0, ib = n_base, m = 0;
+  while (ia < n_base || ib < k)
+    {
+      double v = (ib >= k || (ia < n_base && g[ia] <= g[ib])) ? g[ia++] : g[ib++];
+      if (m == 0 || v > merged[m - 1])
+        merged[m++] = v;
+    }
+  free (g);
+  g = merged;
   *grid_out = g;
   *n_out = m;
   return LW_OK;
@@ -511,11 +548,20 @@ simulate_step (const LwSs *p, const LwSs *c, int delay, size_t n_steps, double *
   double *xp = calloc (np + 1, sizeof (double)), *xp2 = calloc (np + 1, sizeof (double));
   double *xc = calloc (nc + 1, sizeof (double)), *xc2 = calloc (nc + 1, sizeof (double));
   double *line = calloc (nd + 1, sizeof (double));
-  if (xp == NULL || xp2 == NULL || xc == NULL || xc2 == NULL || line == NULL)
+  /* row-major copies: the inner loops run along rows */
+  double *pa = calloc (np * np + 1, sizeof (double)), *ca = calloc (nc * nc + 1, sizeof (double));
+  if (xp == NULL || xp2 == NULL || xc == NULL || xc2 == NULL || line == NULL || pa == NULL
+      || ca == NULL)
     {
-      free (xp); free (xp2); free (xc); free (xc2); free (line);
+      free (xp); free (xp2); free (xc); free (xc2); free (line); free (pa); free (ca);
       return lw_error_set (err, LW_ERR_NOMEM, -1, "out of memory for the step response");
     }
+  for (size_t i = 0; i < np; i++)
+    for (size_t j = 0; j < np; j++)
+      pa[i * np + j] = p->a[i + j * np];
+  for (size_t i = 0; i < nc; i++)
+    for (size_t j = 0; j < nc; j++)
+      ca[i * nc + j] = c->a[i + j * nc];
   const double r = 1.0;
   double den = 1.0 + c->d * p->d;
   for (size_t k = 0; k < n_steps; k++)
@@ -542,25 +588,27 @@ simulate_step (const LwSs *p, const LwSs *c, int delay, size_t n_steps, double *
           e = r - y;
         }
       y_out[k] = y;
-      /* plant: upper Hessenberg A, row i uses columns i−1 … n−1 */
+      /* plant: quasi-triangular (real Schur) A, row i uses columns i−1 … n−1 */
       for (size_t i = 0; i < np; i++)
         {
           double acc = p->b[i] * ud;
+          const double *row = pa + i * np;
           for (size_t j = i == 0 ? 0 : i - 1; j < np; j++)
-            acc += p->a[i + j * np] * xp[j];
+            acc += row[j] * xp[j];
           xp2[i] = acc;
         }
       for (size_t i = 0; i < nc; i++)
         {
           double acc = c->b[i] * e;
+          const double *row = ca + i * nc;
           for (size_t j = 0; j < nc; j++)
-            acc += c->a[i + j * nc] * xc[j];
+            acc += row[j] * xc[j];
           xc2[i] = acc;
         }
       double *t = xp; xp = xp2; xp2 = t;
       t = xc; xc = xc2; xc2 = t;
     }
-  free (xp); free (xp2); free (xc); free (xc2); free (line);
+  free (xp); free (xp2); free (xc); free (xc2); free (line); free (pa); free (ca);
   return LW_OK;
 }
 
@@ -623,7 +671,8 @@ step_figures (LwStep *st, double t)
 /* Margins                                                                                    */
 
 static LwStatus
-find_margins (const Loop *lp, const double *mag_db, LwMargins *mg, LwError *err)
+find_margins (const Loop *lp, const double *mag_db, const double complex *full, LwMargins *mg,
+              LwError *err)
 {
   size_t n = lp->n;
   const double *w = lp->grid;
@@ -745,7 +794,8 @@ find_margins (const Loop *lp, const double *mag_db, LwMargins *mg, LwError *err)
     double smax = -1.0;
     for (size_t i = 0; i < n; i++)
       {
-        double s = fn_sens (w[i], (void *) lp);
+        double re = 1.0 + creal (full[i]), im = cimag (full[i]);
+        double s = 1.0 / sqrt (re * re + im * im);
         if (s > smax)
           {
             smax = s;
@@ -769,25 +819,25 @@ find_margins (const Loop *lp, const double *mag_db, LwMargins *mg, LwError *err)
   }
   /* bandwidth: first frequency where |T| falls 3 dB below its value at the grid start */
   {
-    PhaseTarget pt = { lp, 0.0 };
-    double t0 = fn_comp_db (w[0], &pt);
-    if (isfinite (t0))
+    /* |T|² = |L|² / |1 + L|², compared against |T(ω_0)|²/2 without logarithms */
+#define T2(l) ((creal (l) * creal (l) + cimag (l) * cimag (l))                                 \
+               / ((1.0 + creal (l)) * (1.0 + creal (l)) + cimag (l) * cimag (l)))
+    double t0 = T2 (full[0]);
+    if (isfinite (t0) && t0 > 0)
       {
-        pt.target = t0 - 3.0;
-        double prev = -3.0 + 3.0;   /* f(w0) − target = 3 > 0 */
-        prev = 3.0;
+        double lim = t0 * pow (10.0, -0.3);
+        PhaseTarget pt = { lp, 10.0 * log10 (t0) - 3.0 };
         for (size_t i = 1; i < n; i++)
-          {
-            double f = fn_comp_db (w[i], &pt);
-            if (f < 0)
-              {
-                mg->has_bandwidth = true;
-                mg->bandwidth_rad_s = brent_root (fn_comp_db, &pt, w[i - 1], w[i], prev, f);
-                break;
-              }
-            prev = f;
-          }
+          if (T2 (full[i]) < lim)
+            {
+              double prev = 10.0 * log10 (T2 (full[i - 1])) - pt.target;
+              double f = 10.0 * log10 (T2 (full[i])) - pt.target;
+              mg->has_bandwidth = true;
+              mg->bandwidth_rad_s = brent_root (fn_comp_db, &pt, w[i - 1], w[i], prev, f);
+              break;
+            }
       }
+#undef T2
   }
   return LW_OK;
 }
@@ -892,7 +942,8 @@ lw_evaluate (const LwSampledPlant *plant, const LwZpk *controller_z,
   for (size_t i = 0; i < n; i++)
     {
       core[i] = loop_core (&lp, ev->omega_rad_s[i]);
-      ev->loop_mag_db[i] = 20.0 * log10 (cabs (core[i]));
+      double re = creal (core[i]), im = cimag (core[i]);
+      ev->loop_mag_db[i] = (10.0 / LW_LN10) * log (re * re + im * im);
     }
   /* unwrap the delay-free part continuously; anchor the first point at the branch nearest the
    * integrator asymptote −90°·k (or −90°·k − 180° for a negative low-frequency gain) */
@@ -910,7 +961,24 @@ lw_evaluate (const LwSampledPlant *plant, const LwZpk *controller_z,
   lp.grid = ev->omega_rad_s;
   lp.core_phase = core_phase;
   lp.n = n;
-  st = find_margins (&lp, ev->loop_mag_db, &ev->margins, err);
+  /* the full loop on the grid, for the sensitivity and bandwidth scans (reuses core[]) */
+  for (size_t i = 0; i < n; i++)
+    {
+      double w = ev->omega_rad_s[i];
+      if (lp.delay != 0)
+        {
+          double c, sn;
+          if (at_nyquist (&lp, w))
+            c = (lp.delay % 2) ? -1.0 : 1.0, sn = 0.0;
+          else if (lp.delay == 1)
+            c = cos (w * t), sn = -sin (w * t);
+          else
+            c = cos (w * t * lp.delay), sn = -sin (w * t * lp.delay);
+          double re = creal (core[i]), im = cimag (core[i]);
+          core[i] = (re * c - im * sn) + (re * sn + im * c) * I;
+        }
+    }
+  st = find_margins (&lp, ev->loop_mag_db, core, &ev->margins, err);
   if (st != LW_OK)
     goto fail;
 

@@ -21,7 +21,7 @@ struct LwSampledPlant {
   int whole_delay;          /* d: whole samples of dead time, as z^-d */
   double frac_delay_s;      /* θ in [0, T): the fractional part, inside core */
   LwZpk *plant_s;           /* the continuous model as typed */
-  LwSs *core;               /* ZOH of plant with θ, balanced + Hessenberg; order n or n+1 */
-  LwHessEval *eval;         /* evaluator for core (not thread-safe: one per plant) */
+  LwSs *core;               /* ZOH of plant with θ, balanced, real Schur form; order n or n+1 */
+  LwSchurEval *eval;        /* evaluator for core (not thread-safe: one per plant) */
   int n_integrators;        /* plant poles at s = 0 minus zeros at s = 0 */
 };

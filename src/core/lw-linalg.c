@@ -274,8 +274,9 @@ struct LwHessEval {
   double *b;
   double *c;
   double d;
-  double complex *m;        /* workspace n×n row-major */
-  double complex *x;        /* workspace n */
+  double *mr, *mi;          /* workspace n×n row-major, real and imaginary parts */
+  double *xr, *xi;          /* workspace n */
+  double *pr_inv, *pi_inv;  /* reciprocals of U's diagonal */
 };
 
 LwHessEval *
@@ -291,9 +292,14 @@ lw_hess_eval_new (const LwSs *s)
   h->a_rows = alloc_doubles (nn);
   h->b = alloc_doubles (n);
   h->c = alloc_doubles (n);
-  h->m = calloc (nn == 0 ? 1 : nn, sizeof (double complex));
-  h->x = calloc (n == 0 ? 1 : n, sizeof (double complex));
-  if (h->a_rows == NULL || h->b == NULL || h->c == NULL || h->m == NULL || h->x == NULL)
+  h->mr = alloc_doubles (nn);
+  h->mi = alloc_doubles (nn);
+  h->xr = alloc_doubles (n);
+  h->xi = alloc_doubles (n);
+  h->pr_inv = alloc_doubles (n);
+  h->pi_inv = alloc_doubles (n);
+  if (h->a_rows == NULL || h->b == NULL || h->c == NULL || h->mr == NULL || h->mi == NULL
+      || h->xr == NULL || h->xi == NULL || h->pr_inv == NULL || h->pi_inv == NULL)
     {
       lw_hess_eval_free (h);
       return NULL;
@@ -314,68 +320,331 @@ lw_hess_eval_free (LwHessEval *h)
   free (h->a_rows);
   free (h->b);
   free (h->c);
-  free (h->m);
-  free (h->x);
+  free (h->mr);
+  free (h->mi);
+  free (h->xr);
+  free (h->xi);
+  free (h->pr_inv);
+  free (h->pi_inv);
   free (h);
 }
 
+/* Written in real arithmetic on split real/imaginary arrays: C99 complex multiply and divide
+ * go through NaN/overflow-checking library calls (__muldc3/__divdc3) that cost more than the
+ * solve itself. The matrix is balanced, so the textbook reciprocal 1/(a+ib) = (a−ib)/(a²+b²)
+ * is safe from overflow. Pivoting compares |re| + |im|, which is all the choice needs.
+ *
+ * Elimination streams the rows of xI − A: at step k one "carried" row (the survivor of the
+ * previous steps, complex) meets row k+1 read straight from A (real but for its diagonal). The
+ * larger pivot of the two becomes row k of U and is stored; the other, with the pivot column
+ * eliminated, is carried on. U then goes through back substitution. */
 double complex
 lw_hess_eval (LwHessEval *h, double complex xpt)
 {
   size_t n = h->n;
   if (n == 0)
     return h->d;
-  double complex *m = h->m, *x = h->x;
+  double *ur = h->mr, *ui = h->mi;          /* U, row-major; row k holds columns k … n−1 */
+  double *xr = h->xr, *xi = h->xi;          /* right-hand side after elimination */
   const double *a = h->a_rows;
-  /* M = xI − A, rows stored from column max(i−1, 0). */
-  for (size_t i = 0; i < n; i++)
+  const double zr = creal (xpt), zi = cimag (xpt);
+  /* carried row, kept in the last row of the workspace (row n−1 of U is written last) */
+  double *cr = ur + (n - 1) * n, *ci = ui + (n - 1) * n;
+  for (size_t j = 0; j < n; j++)
     {
-      size_t j0 = i == 0 ? 0 : i - 1;
-      for (size_t j = j0; j < n; j++)
-        m[i * n + j] = -a[i * n + j];
-      m[i * n + i] += xpt;
-      x[i] = h->b[i];
+      cr[j] = -a[j];
+      ci[j] = 0.0;
     }
-  /* Forward elimination: only row k+1 has an entry below the diagonal of column k. */
+  cr[0] += zr;
+  ci[0] = zi;
+  double cbr = h->b[0], cbi = 0.0;
   for (size_t k = 0; k + 1 < n; k++)
     {
-      double complex *rk = m + k * n, *rk1 = m + (k + 1) * n;
-      if (cabs (rk1[k]) > cabs (rk[k]))
+      const double *an = a + (k + 1) * n;   /* row k+1 of A */
+      double *dr = ur + k * n, *di = ui + k * n;
+      /* new row entries: column j of row k+1 of xI − A */
+      double sr_k = -an[k];                 /* its entry in the pivot column k (real) */
+      double pr = cr[k], pi = ci[k];
+      double nb = h->b[k + 1];
+      if (fabs (sr_k) > fabs (pr) + fabs (pi))
         {
-          for (size_t j = k; j < n; j++)
-            {
-              double complex t = rk[j];
-              rk[j] = rk1[j];
-              rk1[j] = t;
-            }
-          double complex t = x[k];
-          x[k] = x[k + 1];
-          x[k + 1] = t;
-        }
-      if (rk[k] == 0.0)
-        return NAN + NAN * I;
-      double complex f = rk1[k] / rk[k];
-      if (f != 0.0)
-        {
+          /* the fresh row is the pivot: store it as U row k, carry the old one eliminated */
+          double inv = 1.0 / sr_k;
+          double fr = pr * inv, fi = pi * inv;   /* f = carried[k] / fresh[k] (fresh is real) */
+          dr[k] = sr_k;
+          di[k] = 0.0;
+          h->pr_inv[k] = inv;
+          h->pi_inv[k] = 0.0;
           for (size_t j = k + 1; j < n; j++)
-            rk1[j] -= f * rk[j];
-          x[k + 1] -= f * x[k];
+            {
+              double vr = -an[j], vi = 0.0;
+              if (j == k + 1)
+                {
+                  vr += zr;
+                  vi = zi;
+                }
+              double or_ = cr[j], oi = ci[j];
+              dr[j] = vr;
+              di[j] = vi;
+              cr[j] = or_ - (fr * vr - fi * vi);
+              ci[j] = oi - (fr * vi + fi * vr);
+            }
+          xr[k] = nb;
+          xi[k] = 0.0;
+          double obr = cbr, obi = cbi;
+          cbr = obr - fr * nb;
+          cbi = obi - fi * nb;
+        }
+      else
+        {
+          double den = pr * pr + pi * pi;
+          if (den == 0.0)
+            return NAN + NAN * I;
+          double ir = pr / den, ii = -pi / den;  /* 1 / carried[k] */
+          h->pr_inv[k] = ir;
+          h->pi_inv[k] = ii;
+          /* f = fresh[k] / carried[k] */
+          double fr = sr_k * ir, fi = sr_k * ii;
+          dr[k] = pr;
+          di[k] = pi;
+          for (size_t j = k + 1; j < n; j++)
+            {
+              double vr = -an[j], vi = 0.0;
+              if (j == k + 1)
+                {
+                  vr += zr;
+                  vi = zi;
+                }
+              double or_ = cr[j], oi = ci[j];
+              dr[j] = or_;
+              di[j] = oi;
+              cr[j] = vr - (fr * or_ - fi * oi);
+              ci[j] = vi - (fr * oi + fi * or_);
+            }
+          double obr = cbr, obi = cbi;
+          xr[k] = obr;
+          xi[k] = obi;
+          cbr = nb - (fr * obr - fi * obi);
+          cbi = -(fr * obi + fi * obr);
         }
     }
-  /* Back substitution, accumulating C·x on the way. */
-  double complex y = h->d;
+  /* the carried row is U row n−1 (already in place) */
+  xr[n - 1] = cbr;
+  xi[n - 1] = cbi;
+  {
+    double pr = cr[n - 1], pi = ci[n - 1], den = pr * pr + pi * pi;
+    if (den == 0.0)
+      return NAN + NAN * I;
+    h->pr_inv[n - 1] = pr / den;
+    h->pi_inv[n - 1] = -pi / den;
+  }
+  double yr = h->d, yi = 0.0;
   for (size_t ii = n; ii-- > 0;)
     {
-      double complex *ri = m + ii * n;
-      double complex acc = x[ii];
+      const double *rir = ur + ii * n, *rii = ui + ii * n;
+      double accr = xr[ii], acci = xi[ii];
       for (size_t j = ii + 1; j < n; j++)
-        acc -= ri[j] * x[j];
-      if (ri[ii] == 0.0)
-        return NAN + NAN * I;
-      x[ii] = acc / ri[ii];
-      y += h->c[ii] * x[ii];
+        {
+          accr -= rir[j] * xr[j] - rii[j] * xi[j];
+          acci -= rir[j] * xi[j] + rii[j] * xr[j];
+        }
+      double ir = h->pr_inv[ii], ii_ = h->pi_inv[ii];
+      xr[ii] = accr * ir - acci * ii_;
+      xi[ii] = accr * ii_ + acci * ir;
+      yr += h->c[ii] * xr[ii];
+      yi += h->c[ii] * xi[ii];
     }
-  return y;
+  return yr + yi * I;
+}
+
+LwStatus
+lw_ss_balance_schur (LwSs *s, LwError *err)
+{
+  size_t n = s->n;
+  if (n == 0)
+    return LW_OK;
+  lapack_int ilo, ihi, sdim = 0;
+  double *scale = alloc_doubles (n), *wr = alloc_doubles (n), *wi = alloc_doubles (n);
+  double *z = alloc_doubles (n * n), *tmp = alloc_doubles (n);
+  LwStatus st = LW_OK;
+  if (scale == NULL || wr == NULL || wi == NULL || z == NULL || tmp == NULL)
+    {
+      st = lw_error_set (err, LW_ERR_NOMEM, -1, "out of memory while reducing to Schur form");
+      goto out;
+    }
+  lapack_int info = LAPACKE_dgebal (LAPACK_COL_MAJOR, 'S', (lapack_int) n, s->a, (lapack_int) n,
+                                    &ilo, &ihi, scale);
+  if (info != 0)
+    {
+      st = lw_error_set (err, LW_ERR_NUMERIC, -1, "balancing failed (dgebal info %d)", (int) info);
+      goto out;
+    }
+  for (size_t i = 0; i < n; i++)
+    {
+      s->b[i] /= scale[i];
+      s->c[i] *= scale[i];
+    }
+  info = LAPACKE_dgees (LAPACK_COL_MAJOR, 'V', 'N', NULL, (lapack_int) n, s->a, (lapack_int) n,
+                        &sdim, wr, wi, z, (lapack_int) n);
+  if (info != 0)
+    {
+      st = lw_error_set (err, LW_ERR_NUMERIC, -1, "Schur reduction failed (dgees info %d)",
+                         (int) info);
+      goto out;
+    }
+  for (size_t j = 0; j < n; j++)
+    for (size_t i = j + 2; i < n; i++)
+      s->a[i + j * n] = 0.0;
+  for (size_t i = 0; i < n; i++)
+    {
+      double acc = 0.0;
+      for (size_t k = 0; k < n; k++)
+        acc += z[k + i * n] * s->b[k];
+      tmp[i] = acc;
+    }
+  memcpy (s->b, tmp, n * sizeof (double));
+  for (size_t j = 0; j < n; j++)
+    {
+      double acc = 0.0;
+      for (size_t k = 0; k < n; k++)
+        acc += s->c[k] * z[k + j * n];
+      tmp[j] = acc;
+    }
+  memcpy (s->c, tmp, n * sizeof (double));
+out:
+  free (scale); free (wr); free (wi); free (z); free (tmp);
+  return st;
+}
+
+struct LwSchurEval {
+  size_t n;
+  double *t_rows;           /* T row-major */
+  double *b, *c, d;
+  unsigned char *block;     /* block[i] = 2 when rows i, i+1 form a 2×2 block, 1 for 1×1, 0 for the
+                               second row of a 2×2 block */
+  double *xr, *xi;
+};
+
+LwSchurEval *
+lw_schur_eval_new (const LwSs *s)
+{
+  LwSchurEval *h = calloc (1, sizeof *h);
+  if (h == NULL)
+    return NULL;
+  size_t n = s->n;
+  h->n = n;
+  h->d = s->d;
+  h->t_rows = alloc_doubles (n * n);
+  h->b = alloc_doubles (n);
+  h->c = alloc_doubles (n);
+  h->xr = alloc_doubles (n);
+  h->xi = alloc_doubles (n);
+  h->block = calloc (n + 1, 1);
+  if (h->t_rows == NULL || h->b == NULL || h->c == NULL || h->xr == NULL || h->xi == NULL
+      || h->block == NULL)
+    {
+      lw_schur_eval_free (h);
+      return NULL;
+    }
+  for (size_t i = 0; i < n; i++)
+    for (size_t j = 0; j < n; j++)
+      h->t_rows[i * n + j] = s->a[i + j * n];
+  memcpy (h->b, s->b, n * sizeof (double));
+  memcpy (h->c, s->c, n * sizeof (double));
+  for (size_t i = 0; i < n;)
+    {
+      if (i + 1 < n && s->a[(i + 1) + i * n] != 0.0)
+        {
+          h->block[i] = 2;
+          h->block[i + 1] = 0;
+          i += 2;
+        }
+      else
+        h->block[i++] = 1;
+    }
+  return h;
+}
+
+void
+lw_schur_eval_free (LwSchurEval *h)
+{
+  if (h == NULL)
+    return;
+  free (h->t_rows);
+  free (h->b);
+  free (h->c);
+  free (h->xr);
+  free (h->xi);
+  free (h->block);
+  free (h);
+}
+
+double complex
+lw_schur_eval (LwSchurEval *h, double complex xpt)
+{
+  size_t n = h->n;
+  double yr = h->d, yi = 0.0;
+  if (n == 0)
+    return yr;
+  const double zr = creal (xpt), zi = cimag (xpt);
+  const double *t = h->t_rows;
+  double *xr = h->xr, *xi = h->xi;
+  for (size_t ii = n; ii-- > 0;)
+    {
+      if (h->block[ii] == 0)
+        {
+          /* second row of a 2×2 block: solve the pair when its first row comes up */
+          continue;
+        }
+      size_t i = ii;
+      size_t j0 = i + h->block[i];
+      /* r = b_i + Σ_{j ≥ j0} T_ij x_j  (the off-diagonal part of xI − T is −T) */
+      const double *ti = t + i * n;
+      double r1r = h->b[i], r1i = 0.0;
+      for (size_t j = j0; j < n; j++)
+        {
+          r1r += ti[j] * xr[j];
+          r1i += ti[j] * xi[j];
+        }
+      if (h->block[i] == 1)
+        {
+          double pr = zr - ti[i], pi = zi, den = pr * pr + pi * pi;
+          if (den == 0.0)
+            return NAN + NAN * I;
+          xr[i] = (r1r * pr + r1i * pi) / den;
+          xi[i] = (r1i * pr - r1r * pi) / den;
+        }
+      else
+        {
+          const double *tn = t + (i + 1) * n;
+          double r2r = h->b[i + 1], r2i = 0.0;
+          for (size_t j = j0; j < n; j++)
+            {
+              r2r += tn[j] * xr[j];
+              r2i += tn[j] * xi[j];
+            }
+          /* [[x − t11, −t12], [−t21, x − t22]] */
+          double ar = zr - ti[i], ai = zi, dr = zr - tn[i + 1], di = zi;
+          double t12 = ti[i + 1], t21 = tn[i];
+          double detr = ar * dr - ai * di - t12 * t21, deti = ar * di + ai * dr;
+          double den = detr * detr + deti * deti;
+          if (den == 0.0)
+            return NAN + NAN * I;
+          double ir = detr / den, iim = -deti / den;
+          /* x1 = ((x − t22) r1 + t12 r2)/det, x2 = (t21 r1 + (x − t11) r2)/det */
+          double n1r = dr * r1r - di * r1i + t12 * r2r, n1i = dr * r1i + di * r1r + t12 * r2i;
+          double n2r = t21 * r1r + ar * r2r - ai * r2i, n2i = t21 * r1i + ar * r2i + ai * r2r;
+          xr[i] = n1r * ir - n1i * iim;
+          xi[i] = n1r * iim + n1i * ir;
+          xr[i + 1] = n2r * ir - n2i * iim;
+          xi[i + 1] = n2r * iim + n2i * ir;
+          yr += h->c[i + 1] * xr[i + 1];
+          yi += h->c[i + 1] * xi[i + 1];
+        }
+      yr += h->c[i] * xr[i];
+      yi += h->c[i] * xi[i];
+    }
+  return yr + yi * I;
 }
 
 LwStatus

@@ -42,6 +42,19 @@ LwSs *lw_ss_copy (const LwSs *s);
  * so the transfer function is unchanged. Entries below the first subdiagonal are set to 0. */
 LwStatus lw_ss_balance_hessenberg (LwSs *s, LwError *err);
 
+/* Balances A (dgebal, scaling only) and reduces it to real Schur form T = Zᵀ A Z by an
+ * orthogonal similarity (dgees): T is quasi-upper-triangular, 1×1 blocks for real eigenvalues
+ * and 2×2 blocks for complex pairs. B ← Zᵀ B, C ← C Z; entries below the blocks are exactly 0. */
+LwStatus lw_ss_balance_schur (LwSs *s, LwError *err);
+
+/* Workspace for repeated evaluations of a quasi-upper-triangular (real Schur) system. */
+typedef struct LwSchurEval LwSchurEval;
+LwSchurEval *lw_schur_eval_new (const LwSs *s);  /* s must already be in real Schur form */
+void lw_schur_eval_free (LwSchurEval *h);
+/* C (xI − T)^{−1} B + D at a complex point x by block back substitution: about 2n² real
+ * multiply-adds and n divisions. NaN+NaN·i if xI − T is singular. */
+double complex lw_schur_eval (LwSchurEval *h, double complex x);
+
 /* Workspace for repeated evaluations of an upper-Hessenberg system (plan/execute). */
 typedef struct LwHessEval LwHessEval;
 LwHessEval *lw_hess_eval_new (const LwSs *s);   /* s must already be upper Hessenberg */

@@ -1,5 +1,5 @@
 /* lw-sampled.c — exact zero-order-hold discretization of a continuous plant with input dead
- * time, held as a balanced Hessenberg state space.
+ * time, held as a balanced state space in real Schur form.
  * SPDX-License-Identifier: GPL-3.0-or-later
  */
 #include "lw-internal.h"
@@ -367,12 +367,12 @@ lw_sampled_plant_new (const LwZpk *plant_s, double dead_time_s, double period_s,
       ds->c[n] = cs->d;
       ds->d = 0.0;
     }
-  st = lw_ss_balance_hessenberg (ds, err);
+  st = lw_ss_balance_schur (ds, err);
   if (st != LW_OK)
     goto fail;
   p->core = ds;
   ds = NULL;
-  p->eval = lw_hess_eval_new (p->core);
+  p->eval = lw_schur_eval_new (p->core);
   if (p->eval == NULL)
     {
       st = lw_error_set (err, LW_ERR_NOMEM, -1, "out of memory");
@@ -398,7 +398,7 @@ lw_sampled_plant_free (LwSampledPlant *p)
     return;
   lw_zpk_free (p->plant_s);
   lw_ss_free (p->core);
-  lw_hess_eval_free (p->eval);
+  lw_schur_eval_free (p->eval);
   free (p);
 }
 
@@ -415,7 +415,7 @@ lw_sampled_plant_response (const LwSampledPlant *p, double omega_rad_s)
   /* At the Nyquist frequency z is exactly −1 (the response of a real system is real there). */
   bool nyquist = fabs (wt - LW_PI) <= 4.0 * LW_PI * 2.220446049250313e-16;
   double complex z = nyquist ? -1.0 : cexp (I * wt);
-  double complex h = lw_hess_eval (p->eval, z);
+  double complex h = lw_schur_eval (p->eval, z);
   if (p->whole_delay > 0)
     h *= nyquist ? ((p->whole_delay % 2) ? -1.0 : 1.0) : cexp (-I * wt * p->whole_delay);
   return h;
@@ -449,7 +449,7 @@ lw_sampled_plant_zpk (const LwSampledPlant *p)
     for (size_t i = 0; i < m->n_poles; i++)
       rmax = fmax (rmax, cabs (m->poles[i]));
     double complex z0 = 2.0 * rmax * cexp (I * 0.3);
-    double complex h = lw_hess_eval (p->eval, z0) * cpow (z0, -(double) d);
+    double complex h = lw_schur_eval (p->eval, z0) * cpow (z0, -(double) d);
     m->gain = 1.0;
     double complex unit = lw_zpk_eval (m, z0);
     m->gain = creal (h / unit);

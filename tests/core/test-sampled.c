@@ -197,7 +197,8 @@ test_bilinear_map (void **state)
 }
 
 /* Section realization: C(xI−A)⁻¹B + D equals the factored model (1e-13 relative) for a mix of
- * real and complex roots, including a complex zero pair realized over two real poles. */
+ * real and complex roots, including a complex zero pair realized over two real poles — through
+ * both evaluators: Hessenberg elimination and the real Schur back substitution. */
 static void
 test_realize (void **state)
 {
@@ -227,6 +228,15 @@ test_realize (void **state)
           if (!(cabs (got - want) <= 1e-13 * cabs (want)))
             fail_msg ("%s at w=%g: got %g%+gi want %g%+gi", cases[k], w, creal (got), cimag (got),
                       creal (want), cimag (want));
+          LwSs *sc = lw_ss_copy (ss);
+          assert_int_equal (lw_ss_balance_schur (sc, NULL), LW_OK);
+          LwSchurEval *se = lw_schur_eval_new (sc);
+          got = lw_schur_eval (se, s);
+          lw_schur_eval_free (se);
+          lw_ss_free (sc);
+          if (!(cabs (got - want) <= 1e-13 * cabs (want)))
+            fail_msg ("Schur: %s at w=%g: got %g%+gi want %g%+gi", cases[k], w, creal (got),
+                      cimag (got), creal (want), cimag (want));
         }
       lw_ss_free (ss);
       lw_zpk_free (m);
