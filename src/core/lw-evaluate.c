@@ -719,6 +719,8 @@ find_margins (const Loop *lp, const double *mag_db, const double complex *full, 
   double nyq_phase = lp->core_phase[n - 1] + delay_phase_deg (lp, w[n - 1]);
   for (size_t i = 0; i + 1 < n; i++)
     {
+      if (!isfinite (mag_db[i]) || !isfinite (mag_db[i + 1]))
+        continue;
       double p0 = lp->core_phase[i] + delay_phase_deg (lp, w[i]);
       double p1 = lp->core_phase[i + 1] + delay_phase_deg (lp, w[i + 1]);
       double lo = fmin (p0, p1), hi = fmax (p0, p1);
@@ -737,7 +739,7 @@ find_margins (const Loop *lp, const double *mag_db, const double complex *full, 
     }
   {
     double m = round ((nyq_phase - 180.0) / 360.0);
-    if (fabs (nyq_phase - (180.0 + 360.0 * m)) <= 1e-9)
+    if (isfinite (mag_db[n - 1]) && fabs (nyq_phase - (180.0 + 360.0 * m)) <= 1e-9)
       PUSH (pc, npc, capp, w[n - 1]);
   }
 #undef PUSH
@@ -752,8 +754,8 @@ find_margins (const Loop *lp, const double *mag_db, const double complex *full, 
     return lw_error_set (err, LW_ERR_NOMEM, -1, "out of memory for the margins");
 
   /* delay margin: the smallest extra delay that turns some crossover point onto −1; the point
-   * at ω_c must turn clockwise by PM, or by PM + 360° when PM < 0 (lw_evaluate sets 0 when the
-   * closed loop is unstable: no margin left) */
+   * at ω_c must turn clockwise by PM, or by PM + 360° when PM < 0 (lw_evaluate drops it when
+   * the closed loop is unstable) */
   double dm = INFINITY;
   for (size_t i = 0; i < ngc; i++)
     {
@@ -903,7 +905,7 @@ lw_evaluate (const LwSampledPlant *plant, const LwZpk *controller_z,
 
   ev->period_s = t;
   ev->compute_delay = opts->compute_delay;
-  ev->plant_z = lw_sampled_plant_zpk (plant);
+  ev->plant_z = lw_zpk_copy (plant->zpk);
   ev->controller_z = lw_zpk_copy (controller_z);
   if (ev->plant_z == NULL || ev->controller_z == NULL)
     {
@@ -953,8 +955,13 @@ lw_evaluate (const LwSampledPlant *plant, const LwZpk *controller_z,
     if (fabs (ph - expect) > 90.0)
       ph = nearest_branch (ph, expect - 180.0);
     core_phase[0] = ph;
+    /* at a zero of L on the unit circle (e.g. z = −1 from a controller that is strictly proper
+     * in w) the phase is undefined: hold the previous value there; the magnitude is −∞ dB and
+     * no crossover is placed at or next to such a point */
     for (size_t i = 1; i < n; i++)
-      core_phase[i] = nearest_branch (carg (core[i]) * RAD2DEG, core_phase[i - 1]);
+      core_phase[i] = (ev->loop_mag_db[i] > -HUGE_VAL && isfinite (ev->loop_mag_db[i]))
+                        ? nearest_branch (carg (core[i]) * RAD2DEG, core_phase[i - 1])
+                        : core_phase[i - 1];
     for (size_t i = 0; i < n; i++)
       ev->loop_phase_deg[i] = core_phase[i] + delay_phase_deg (&lp, ev->omega_rad_s[i]);
   }
@@ -1005,8 +1012,10 @@ lw_evaluate (const LwSampledPlant *plant, const LwZpk *controller_z,
       rmax = fmax (rmax, cabs (ev->closed_loop_poles[i]));
     ev->stable = rmax < 1.0 - 1e-10;
   }
+  /* a delay margin is the delay that destabilizes a stable loop: none for an unstable one */
   if (!ev->stable && ev->margins.has_delay_margin)
     {
+      ev->margins.has_delay_margin = false;
       ev->margins.delay_margin_s = 0.0;
       ev->margins.delay_margin_samples = 0.0;
     }

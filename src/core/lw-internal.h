@@ -24,4 +24,5 @@ struct LwSampledPlant {
   LwSs *core;               /* ZOH of plant with θ, balanced, real Schur form; order n or n+1 */
   LwSchurEval *eval;        /* evaluator for core (not thread-safe: one per plant) */
   int n_integrators;        /* plant poles at s = 0 minus zeros at s = 0 */
+  LwZpk *zpk;               /* the sampled plant factored, for display (computed once) */
 };

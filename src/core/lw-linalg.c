@@ -3,6 +3,7 @@
 
 #include <lapacke.h>
 #include <math.h>
+#include <stdbool.h>
 #include <stdint.h>
 #include <stdlib.h>
 #include <string.h>
@@ -523,6 +524,7 @@ struct LwSchurEval {
   unsigned char *block;     /* block[i] = 2 when rows i, i+1 form a 2×2 block, 1 for 1×1, 0 for the
                                second row of a 2×2 block */
   double *xr, *xi;
+  double *wr, *wi;          /* second solve, for the derivative */
 };
 
 LwSchurEval *
@@ -540,8 +542,10 @@ lw_schur_eval_new (const LwSs *s)
   h->xr = alloc_doubles (n);
   h->xi = alloc_doubles (n);
   h->block = calloc (n + 1, 1);
+  h->wr = alloc_doubles (n);
+  h->wi = alloc_doubles (n);
   if (h->t_rows == NULL || h->b == NULL || h->c == NULL || h->xr == NULL || h->xi == NULL
-      || h->block == NULL)
+      || h->block == NULL || h->wr == NULL || h->wi == NULL)
     {
       lw_schur_eval_free (h);
       return NULL;
@@ -576,7 +580,68 @@ lw_schur_eval_free (LwSchurEval *h)
   free (h->xr);
   free (h->xi);
   free (h->block);
+  free (h->wr);
+  free (h->wi);
   free (h);
+}
+
+/* Solves (xI − T) v = r by block back substitution; r given as (rr, ri) (ri may be NULL for a
+ * real right-hand side), v written to (vr, vi). Returns false if xI − T is singular. */
+static bool
+schur_solve (const LwSchurEval *h, double zr, double zi, const double *rr, const double *ri,
+             double *vr, double *vi)
+{
+  size_t n = h->n;
+  const double *t = h->t_rows;
+  for (size_t ii = n; ii-- > 0;)
+    {
+      if (h->block[ii] == 0)
+        continue;               /* second row of a 2×2 block: solved with its first row */
+      size_t i = ii;
+      size_t j0 = i + h->block[i];
+      /* s = r_i + Σ_{j ≥ j0} T_ij v_j  (the off-diagonal part of xI − T is −T) */
+      const double *ti = t + i * n;
+      double s1r = rr[i], s1i = ri ? ri[i] : 0.0;
+      for (size_t j = j0; j < n; j++)
+        {
+          s1r += ti[j] * vr[j];
+          s1i += ti[j] * vi[j];
+        }
+      if (h->block[i] == 1)
+        {
+          double pr = zr - ti[i], pi = zi, den = pr * pr + pi * pi;
+          if (den == 0.0)
+            return false;
+          vr[i] = (s1r * pr + s1i * pi) / den;
+          vi[i] = (s1i * pr - s1r * pi) / den;
+        }
+      else
+        {
+          const double *tn = t + (i + 1) * n;
+          double s2r = rr[i + 1], s2i = ri ? ri[i + 1] : 0.0;
+          for (size_t j = j0; j < n; j++)
+            {
+              s2r += tn[j] * vr[j];
+              s2i += tn[j] * vi[j];
+            }
+          /* [[x − t11, −t12], [−t21, x − t22]] */
+          double ar = zr - ti[i], ai = zi, dr = zr - tn[i + 1], di = zi;
+          double t12 = ti[i + 1], t21 = tn[i];
+          double detr = ar * dr - ai * di - t12 * t21, deti = ar * di + ai * dr;
+          double den = detr * detr + deti * deti;
+          if (den == 0.0)
+            return false;
+          double ir = detr / den, iim = -deti / den;
+          /* v1 = ((x − t22) s1 + t12 s2)/det, v2 = (t21 s1 + (x − t11) s2)/det */
+          double n1r = dr * s1r - di * s1i + t12 * s2r, n1i = dr * s1i + di * s1r + t12 * s2i;
+          double n2r = t21 * s1r + ar * s2r - ai * s2i, n2i = t21 * s1i + ar * s2i + ai * s2r;
+          vr[i] = n1r * ir - n1i * iim;
+          vi[i] = n1r * iim + n1i * ir;
+          vr[i + 1] = n2r * ir - n2i * iim;
+          vi[i + 1] = n2r * iim + n2i * ir;
+        }
+    }
+  return true;
 }
 
 double complex
@@ -586,65 +651,36 @@ lw_schur_eval (LwSchurEval *h, double complex xpt)
   double yr = h->d, yi = 0.0;
   if (n == 0)
     return yr;
-  const double zr = creal (xpt), zi = cimag (xpt);
-  const double *t = h->t_rows;
-  double *xr = h->xr, *xi = h->xi;
-  for (size_t ii = n; ii-- > 0;)
+  if (!schur_solve (h, creal (xpt), cimag (xpt), h->b, NULL, h->xr, h->xi))
+    return NAN + NAN * I;
+  for (size_t i = 0; i < n; i++)
     {
-      if (h->block[ii] == 0)
-        {
-          /* second row of a 2×2 block: solve the pair when its first row comes up */
-          continue;
-        }
-      size_t i = ii;
-      size_t j0 = i + h->block[i];
-      /* r = b_i + Σ_{j ≥ j0} T_ij x_j  (the off-diagonal part of xI − T is −T) */
-      const double *ti = t + i * n;
-      double r1r = h->b[i], r1i = 0.0;
-      for (size_t j = j0; j < n; j++)
-        {
-          r1r += ti[j] * xr[j];
-          r1i += ti[j] * xi[j];
-        }
-      if (h->block[i] == 1)
-        {
-          double pr = zr - ti[i], pi = zi, den = pr * pr + pi * pi;
-          if (den == 0.0)
-            return NAN + NAN * I;
-          xr[i] = (r1r * pr + r1i * pi) / den;
-          xi[i] = (r1i * pr - r1r * pi) / den;
-        }
-      else
-        {
-          const double *tn = t + (i + 1) * n;
-          double r2r = h->b[i + 1], r2i = 0.0;
-          for (size_t j = j0; j < n; j++)
-            {
-              r2r += tn[j] * xr[j];
-              r2i += tn[j] * xi[j];
-            }
-          /* [[x − t11, −t12], [−t21, x − t22]] */
-          double ar = zr - ti[i], ai = zi, dr = zr - tn[i + 1], di = zi;
-          double t12 = ti[i + 1], t21 = tn[i];
-          double detr = ar * dr - ai * di - t12 * t21, deti = ar * di + ai * dr;
-          double den = detr * detr + deti * deti;
-          if (den == 0.0)
-            return NAN + NAN * I;
-          double ir = detr / den, iim = -deti / den;
-          /* x1 = ((x − t22) r1 + t12 r2)/det, x2 = (t21 r1 + (x − t11) r2)/det */
-          double n1r = dr * r1r - di * r1i + t12 * r2r, n1i = dr * r1i + di * r1r + t12 * r2i;
-          double n2r = t21 * r1r + ar * r2r - ai * r2i, n2i = t21 * r1i + ar * r2i + ai * r2r;
-          xr[i] = n1r * ir - n1i * iim;
-          xi[i] = n1r * iim + n1i * ir;
-          xr[i + 1] = n2r * ir - n2i * iim;
-          xi[i + 1] = n2r * iim + n2i * ir;
-          yr += h->c[i + 1] * xr[i + 1];
-          yi += h->c[i + 1] * xi[i + 1];
-        }
-      yr += h->c[i] * xr[i];
-      yi += h->c[i] * xi[i];
+      yr += h->c[i] * h->xr[i];
+      yi += h->c[i] * h->xi[i];
     }
   return yr + yi * I;
+}
+
+double complex
+lw_schur_eval_deriv (LwSchurEval *h, double complex xpt, double complex *deriv)
+{
+  size_t n = h->n;
+  *deriv = 0.0;
+  if (n == 0)
+    return h->d;
+  double complex y = lw_schur_eval (h, xpt);
+  double *wr = h->wr, *wi = h->wi;
+  /* d/dx C (xI − T)⁻¹ B = −C (xI − T)⁻² B */
+  if (!schur_solve (h, creal (xpt), cimag (xpt), h->xr, h->xi, wr, wi))
+    return NAN + NAN * I;
+  double dr = 0.0, di = 0.0;
+  for (size_t i = 0; i < n; i++)
+    {
+      dr -= h->c[i] * wr[i];
+      di -= h->c[i] * wi[i];
+    }
+  *deriv = dr + di * I;
+  return y;
 }
 
 LwStatus

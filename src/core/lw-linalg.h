@@ -54,6 +54,8 @@ void lw_schur_eval_free (LwSchurEval *h);
 /* C (xI − T)^{−1} B + D at a complex point x by block back substitution: about 2n² real
  * multiply-adds and n divisions. NaN+NaN·i if xI − T is singular. */
 double complex lw_schur_eval (LwSchurEval *h, double complex x);
+/* The same value, and its derivative d/dx in *deriv (two back substitutions). */
+double complex lw_schur_eval_deriv (LwSchurEval *h, double complex x, double complex *deriv);
 
 /* Workspace for repeated evaluations of an upper-Hessenberg system (plan/execute). */
 typedef struct LwHessEval LwHessEval;

@@ -4,6 +4,7 @@
  */
 #include "lw-internal.h"
 
+#include <float.h>
 #include <math.h>
 #include <stdlib.h>
 #include <string.h>
@@ -257,6 +258,8 @@ zoh_blocks (const LwSs *c, double h, double *phi, double *gam, LwError *err)
   return st;
 }
 
+static LwZpk *sampled_zpk (const LwSampledPlant *p);
+
 LwStatus
 lw_sampled_plant_new (const LwZpk *plant_s, double dead_time_s, double period_s,
                       LwSampledPlant **out, LwError *err)
@@ -378,6 +381,12 @@ lw_sampled_plant_new (const LwZpk *plant_s, double dead_time_s, double period_s,
       st = lw_error_set (err, LW_ERR_NOMEM, -1, "out of memory");
       goto fail;
     }
+  p->zpk = sampled_zpk (p);
+  if (p->zpk == NULL)
+    {
+      st = lw_error_set (err, LW_ERR_NUMERIC, -1, "could not factor the sampled plant");
+      goto fail;
+    }
   free (phi1); free (gam1); free (phi2); free (gam2);
   lw_ss_free (cs);
   *out = p;
@@ -397,6 +406,7 @@ lw_sampled_plant_free (LwSampledPlant *p)
   if (p == NULL)
     return;
   lw_zpk_free (p->plant_s);
+  lw_zpk_free (p->zpk);
   lw_ss_free (p->core);
   lw_schur_eval_free (p->eval);
   free (p);
@@ -424,6 +434,12 @@ lw_sampled_plant_response (const LwSampledPlant *p, double omega_rad_s)
 LwZpk *
 lw_sampled_plant_zpk (const LwSampledPlant *p)
 {
+  return lw_zpk_copy (p->zpk);
+}
+
+static LwZpk *
+sampled_zpk (const LwSampledPlant *p)
+{
   const LwSs *s = p->core;
   size_t n = s->n, d = (size_t) p->whole_delay;
   double complex *zeros = calloc (n + 1, sizeof *zeros), *poles = calloc (n + 1, sizeof *poles);
@@ -436,6 +452,29 @@ lw_sampled_plant_zpk (const LwSampledPlant *p)
   m = lw_zpk_new (LW_DOMAIN_Z, p->period_s, 1.0, nz, n + d);
   if (m == NULL)
     goto out;
+  /* Polish each zero with Newton steps on the state-space response H(z) (exact derivative):
+   * the pencil's zeros carry the conditioning of the pencil, the response is evaluated to
+   * rounding. A step is kept only while it lowers |H|; display only, nothing is evaluated
+   * through these zeros. */
+  for (size_t i = 0; i < nz; i++)
+    {
+      double complex zk = zeros[i], dh;
+      double complex hk = lw_schur_eval_deriv (p->eval, zk, &dh);
+      for (int it = 0; it < 8 && isfinite (cabs (hk)) && dh != 0.0; it++)
+        {
+          double complex step = hk / dh;
+          if (cabs (step) <= 4.0 * DBL_EPSILON * fmax (cabs (zk), 1.0))
+            break;
+          double complex zn = zk - step;
+          if (cimag (zeros[i]) == 0.0)
+            zn = creal (zn);
+          double complex dn, hn = lw_schur_eval_deriv (p->eval, zn, &dn);
+          if (!(cabs (hn) < cabs (hk)))
+            break;
+          zk = zn; hk = hn; dh = dn;
+        }
+      zeros[i] = zk;
+    }
   memcpy (m->zeros, zeros, nz * sizeof *zeros);
   memcpy (m->poles, poles, n * sizeof *poles);
   for (size_t i = 0; i < d; i++)

@@ -301,7 +301,8 @@ test_step_figures (void **state)
   lw_evaluation_free (ev);
 }
 
-/* Unstable loop: reported unstable, no final value, margins still found. */
+/* Unstable loop: reported unstable, no final value and no delay margin (it is the delay that
+ * destabilizes a stable loop), phase margin still found and negative. */
 static void
 test_unstable (void **state)
 {
@@ -311,8 +312,7 @@ test_unstable (void **state)
   assert_false (ev->step.has_final);
   assert_true (ev->margins.has_phase_margin);
   assert_true (ev->margins.phase_margin_deg < 0);
-  assert_true (ev->margins.has_delay_margin);
-  assert_close (ev->margins.delay_margin_s, 0.0, 0.0, "no delay margin left");
+  assert_false (ev->margins.has_delay_margin);
   lw_evaluation_free (ev);
 }
 
