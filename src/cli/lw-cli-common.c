@@ -1,0 +1,363 @@
+/* lw-cli-common.c — shared by every loopwright-cli command; see lw-cli-common.h.
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ */
+#include "config.h"
+
+#include <errno.h>
+#include <math.h>
+#include <stdarg.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+
+#include "lw-cli-common.h"
+#include "lw-expr.h"
+
+void
+lw_cli_bad_input (const char *place, const char *fmt, ...)
+{
+  va_list ap;
+  va_start (ap, fmt);
+  g_autofree char *msg = g_strdup_vprintf (fmt, ap);
+  va_end (ap);
+  if (place != NULL)
+    g_printerr ("%s: %s: %s\n", LW_CLI_PROG, place, msg);
+  else
+    g_printerr ("%s: %s\n", LW_CLI_PROG, msg);
+}
+
+/* ---- numbers ---------------------------------------------------------------------------- */
+
+/* Parses a whole, finite decimal number (locale-independent). Prints the message and returns
+ * false on failure. */
+bool
+lw_cli_parse_double (const char *option, const char *text, double *out)
+{
+  char *end = NULL;
+  errno = 0;
+  double v = g_ascii_strtod (text, &end);
+  if (end == text || *end != '\0')
+    {
+      lw_cli_bad_input (option, "'%s' is not a number", text);
+      return false;
+    }
+  if (!isfinite (v))
+    {
+      lw_cli_bad_input (option, "'%s' is not a finite number", text);
+      return false;
+    }
+  *out = v;
+  return true;
+}
+
+/* Parses a whole decimal integer in [lo, hi]. */
+bool
+lw_cli_parse_integer (const char *option, const char *text, gint64 lo, gint64 hi, gint64 *out)
+{
+  char *end = NULL;
+  errno = 0;
+  gint64 v = g_ascii_strtoll (text, &end, 10);
+  if (end == text || *end != '\0')
+    {
+      lw_cli_bad_input (option, "'%s' is not a whole number", text);
+      return false;
+    }
+  if (errno == ERANGE || v < lo || v > hi)
+    {
+      lw_cli_bad_input (option, "%s is out of range: must be from %" G_GINT64_FORMAT
+                 " to %" G_GINT64_FORMAT, text, lo, hi);
+      return false;
+    }
+  *out = v;
+  return true;
+}
+
+/* ---- expressions ------------------------------------------------------------------------ */
+
+/* Number of characters (UTF-8 code points when the text is valid UTF-8, else bytes) in the
+ * first `byte_pos` bytes of text. */
+static long
+chars_before (const char *text, size_t byte_pos)
+{
+  if (g_utf8_validate (text, (gssize) byte_pos, NULL))
+    return g_utf8_strlen (text, (gssize) byte_pos);
+  return (long) byte_pos;
+}
+
+/* Core messages name 0-based offsets as " at position N" or " at N" (lw-expr.c, lw-expr.h).
+ * The command line speaks of 1-based characters only, so each becomes " at character N+1"
+ * (N is a byte offset into text; characters are counted as UTF-8 code points). Returns true
+ * when the message names the error's own position, so nothing needs to be appended. */
+static bool
+rewrite_positions (const char *msg, const char *text, int position, GString *out)
+{
+  size_t len = strlen (text);
+  bool names_own = false;
+  const char *p = msg;
+  while (*p != '\0')
+    {
+      size_t skip = 0;
+      if (g_str_has_prefix (p, " at position "))
+        skip = strlen (" at position ");
+      else if (g_str_has_prefix (p, " at "))
+        skip = strlen (" at ");
+      if (skip > 0 && g_ascii_isdigit (p[skip]))
+        {
+          char *end = NULL;
+          gint64 n = g_ascii_strtoll (p + skip, &end, 10);
+          if (*end != '.' && !g_ascii_isalnum (*end) && n >= 0 && (guint64) n <= len)
+            {
+              g_string_append_printf (out, " at character %ld",
+                                      chars_before (text, (size_t) n) + 1);
+              names_own = names_own || n == position;
+              p = end;
+              continue;
+            }
+        }
+      g_string_append_c (out, *p++);
+    }
+  return names_own;
+}
+
+/* Reports a failed parse of `text` given to `option`: the message, the 1-based character
+ * position, and the expression with a caret under that position. Returns the exit status. */
+int
+lw_cli_report_expr_error (const char *option, const char *text, const LwError *err)
+{
+  if (err->code == LW_ERR_NOMEM || err->code == LW_ERR_NUMERIC)
+    {
+      lw_cli_bad_input (option, "internal failure while reading the expression: %s", err->message);
+      return LW_EXIT_INTERNAL;
+    }
+  char msg[LW_ERROR_MESSAGE_MAX];
+  g_strlcpy (msg, err->message[0] != '\0' ? err->message : "invalid expression", sizeof msg);
+  size_t len = strlen (text);
+  if (err->position < 0)
+    {
+      lw_cli_bad_input (option, "%s", msg);
+      return LW_EXIT_BAD_INPUT;
+    }
+  size_t pos = (size_t) err->position <= len ? (size_t) err->position : len;
+  long column = chars_before (text, pos);   /* 0-based characters before the position */
+  GString *rewritten = g_string_new (NULL);
+  bool has_own = rewrite_positions (msg, text, err->position, rewritten);
+  bool has_other = strstr (rewritten->str, " at character ") != NULL;
+  if (has_own)
+    lw_cli_bad_input (option, "%s", rewritten->str);
+  else if (has_other)
+    lw_cli_bad_input (option, "%s (error at character %ld)", rewritten->str, column + 1);
+  else
+    lw_cli_bad_input (option, "%s at character %ld", rewritten->str, column + 1);
+  g_string_free (rewritten, TRUE);
+
+  /* The expression on one line (control characters shown as spaces), then the caret. Tabs
+   * are kept in both lines so the caret stays aligned. */
+  GString *shown = g_string_new ("    ");
+  GString *caret = g_string_new ("    ");
+  for (size_t i = 0; i < len; i++)
+    {
+      unsigned char c = (unsigned char) text[i];
+      g_string_append_c (shown, (c < 0x20 && c != '\t') || c == 0x7f ? ' ' : (char) c);
+      /* one caret column per character: skip UTF-8 continuation bytes */
+      if (i < pos && (c & 0xC0) != 0x80)
+        g_string_append_c (caret, c == '\t' ? '\t' : ' ');
+    }
+  g_string_append_c (caret, '^');
+  g_printerr ("%s\n%s\n", shown->str, caret->str);
+  g_string_free (shown, TRUE);
+  g_string_free (caret, TRUE);
+  return LW_EXIT_BAD_INPUT;
+}
+
+/* Exit status for a failed core call outside parsing. */
+int
+lw_cli_report_core_error (const char *place, const LwError *err)
+{
+  if (err->code == LW_ERR_PARSE || err->code == LW_ERR_INVALID)
+    {
+      lw_cli_bad_input (place, "%s", err->message);
+      return LW_EXIT_BAD_INPUT;
+    }
+  lw_cli_bad_input (place, "internal failure: %s", err->message[0] ? err->message : "unknown error");
+  return LW_EXIT_INTERNAL;
+}
+
+char *
+lw_cli_format_zpk (const LwZpk *m)
+{
+  char small[256];
+  size_t need = lw_zpk_format (m, 6, small, sizeof small);
+  if (need < sizeof small)
+    return g_strdup (small);
+  char *big = g_malloc (need + 1);
+  lw_zpk_format (m, 6, big, need + 1);
+  return big;
+}
+
+
+void
+lw_cli_loop_args_clear (LwCliLoopArgs *a)
+{
+  g_free (a->plant);
+  g_free (a->period);
+  g_free (a->compute_delay);
+  g_free (a->dead_time);
+  g_free (a->controller);
+  g_free (a->controller_z);
+  memset (a, 0, sizeof *a);
+}
+
+void
+lw_cli_loop_clear (LwCliLoop *l)
+{
+  lw_sampled_plant_free (l->sampled);
+  lw_zpk_free (l->controller_z);
+  lw_zpk_free (l->controller_w);
+  lw_zpk_free (l->plant_s);
+  memset (l, 0, sizeof *l);
+}
+
+int
+lw_cli_loop_build (const char *cmd, const LwCliLoopArgs *a, LwCliLoop *out)
+{
+  memset (out, 0, sizeof *out);
+  out->compute_delay = 1;
+  if (a->plant == NULL)
+    {
+      lw_cli_bad_input (cmd, "--plant is required (see '" LW_CLI_PROG " %s --help')", cmd);
+      return LW_EXIT_BAD_INPUT;
+    }
+  if (a->period == NULL)
+    {
+      lw_cli_bad_input (cmd, "--period is required (see '" LW_CLI_PROG " %s --help')", cmd);
+      return LW_EXIT_BAD_INPUT;
+    }
+  if (!lw_cli_parse_double ("--period", a->period, &out->period_s))
+    return LW_EXIT_BAD_INPUT;
+  if (!(out->period_s > 0.0))
+    {
+      lw_cli_bad_input ("--period", "must be greater than 0 seconds, got %s", a->period);
+      return LW_EXIT_BAD_INPUT;
+    }
+  gint64 v;
+  if (a->compute_delay != NULL)
+    {
+      if (!lw_cli_parse_integer ("--compute-delay", a->compute_delay, 0, 1000, &v))
+        return LW_EXIT_BAD_INPUT;
+      out->compute_delay = (int) v;
+    }
+  if (a->dead_time != NULL)
+    {
+      if (!lw_cli_parse_double ("--dead-time", a->dead_time, &out->dead_time_s))
+        return LW_EXIT_BAD_INPUT;
+      if (!(out->dead_time_s >= 0.0))
+        {
+          lw_cli_bad_input ("--dead-time", "must be 0 or more seconds, got %s", a->dead_time);
+          return LW_EXIT_BAD_INPUT;
+        }
+      out->dead_time_s += 0.0;   /* -0 becomes +0 */
+    }
+  if (a->controller != NULL && a->controller_z != NULL)
+    {
+      lw_cli_bad_input ("--controller-z", "cannot be combined with --controller; give one of them");
+      return LW_EXIT_BAD_INPUT;
+    }
+
+  int status = LW_EXIT_OK;
+  LwError err;
+  lw_error_clear (&err);
+  double period_s = out->period_s;
+  if (lw_expr_parse_proper (a->plant, LW_DOMAIN_S, 0.0, &out->plant_s, &err) != LW_OK)
+    {
+      status = lw_cli_report_expr_error ("--plant", a->plant, &err);
+      goto fail;
+    }
+
+  if (a->controller_z != NULL)
+    {
+      if (lw_expr_parse_proper (a->controller_z, LW_DOMAIN_Z, period_s, &out->controller_z, &err)
+          != LW_OK)
+        {
+          status = lw_cli_report_expr_error ("--controller-z", a->controller_z, &err);
+          goto fail;
+        }
+    }
+  else
+    {
+      const char *text = a->controller != NULL ? a->controller : "1";
+      if (lw_expr_parse_proper (text, LW_DOMAIN_W, period_s, &out->controller_w, &err) != LW_OK)
+        {
+          status = lw_cli_report_expr_error ("--controller", text, &err);
+          goto fail;
+        }
+      /* A root at w = 2/T maps to z = infinity: refuse it here with a clear message. */
+      double w_edge = 2.0 / period_s;
+      for (size_t i = 0; i < out->controller_w->n_zeros + out->controller_w->n_poles; i++)
+        {
+          double complex r = i < out->controller_w->n_zeros
+                               ? out->controller_w->zeros[i]
+                               : out->controller_w->poles[i - out->controller_w->n_zeros];
+          if (cabs (r - w_edge) <= 1e-12 * w_edge)
+            {
+              lw_cli_bad_input ("--controller", "a %s at w = 2/T = %.6g rad/s has no image in z",
+                         i < out->controller_w->n_zeros ? "zero" : "pole", w_edge);
+              status = LW_EXIT_BAD_INPUT;
+              goto fail;
+            }
+        }
+      out->controller_z = lw_zpk_w_to_z (out->controller_w);
+      if (out->controller_z == NULL)
+        {
+          lw_cli_bad_input ("--controller", "internal failure: cannot map the controller to z");
+          status = LW_EXIT_INTERNAL;
+          goto fail;
+        }
+    }
+
+  if (lw_sampled_plant_new (out->plant_s, out->dead_time_s, period_s, &out->sampled, &err) != LW_OK)
+    {
+      status = lw_cli_report_core_error ("--plant", &err);
+      goto fail;
+    }
+  return LW_EXIT_OK;
+
+fail:
+  lw_cli_loop_clear (out);
+  return status;
+}
+
+int
+lw_cli_run_command (const char *cmd, int argc, char **argv, const GOptionEntry *entries,
+                    const gboolean *help, const char *help_text, int (*run) (void *data),
+                    void *data)
+{
+  /* GOptionContext does the splitting (--opt value, --opt=value); our own help text and our
+   * own number parsing, so every message names its option. */
+  GOptionContext *ctx = g_option_context_new (NULL);
+  g_option_context_set_help_enabled (ctx, FALSE);
+  g_option_context_set_ignore_unknown_options (ctx, FALSE);
+  g_option_context_add_main_entries (ctx, entries, NULL);
+  GError *gerr = NULL;
+  int status;
+  if (!g_option_context_parse (ctx, &argc, &argv, &gerr))
+    {
+      lw_cli_bad_input (cmd, "%s (see '" LW_CLI_PROG " %s --help')", gerr->message, cmd);
+      g_error_free (gerr);
+      status = LW_EXIT_BAD_INPUT;
+    }
+  else if (*help)
+    {
+      fputs (help_text, stdout);
+      status = LW_EXIT_OK;
+    }
+  else if (argc > 1)
+    {
+      lw_cli_bad_input (cmd, "unexpected argument '%s' (see '" LW_CLI_PROG " %s --help')",
+                        argv[1], cmd);
+      status = LW_EXIT_BAD_INPUT;
+    }
+  else
+    status = run (data);
+  g_option_context_free (ctx);
+  return status;
+}
