@@ -475,8 +475,10 @@ sampled_zpk (const LwSampledPlant *p)
         }
       zeros[i] = zk;
     }
-  memcpy (m->zeros, zeros, nz * sizeof *zeros);
-  memcpy (m->poles, poles, n * sizeof *poles);
+  if (nz > 0)
+    memcpy (m->zeros, zeros, nz * sizeof *zeros);
+  if (n > 0)
+    memcpy (m->poles, poles, n * sizeof *poles);
   for (size_t i = 0; i < d; i++)
     m->poles[n + i] = 0.0;
   lw_zpk_canonicalize (m);
