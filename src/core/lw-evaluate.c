@@ -42,14 +42,17 @@ at_nyquist (const Loop *lp, double w)
   return fabs (w - lp->omega_n) <= 4.0 * DBL_EPSILON * lp->omega_n;
 }
 
-/* Product ∏(z − r_i) in real arithmetic (C99 complex multiply calls a NaN-checking helper). */
+/* Product ∏(z − r_i) in real arithmetic (C99 complex multiply calls a NaN-checking helper),
+ * with z = 1 + zm1 + j·zi and each real part formed as zm1 + (1 − Re r_i) (no cancellation near
+ * z = 1). */
 static inline void
-root_product (const double complex *roots, size_t n, double zr, double zi, double *pr, double *pi)
+root_product (const double complex *roots, size_t n, double zm1, double zi, double *pr,
+              double *pi)
 {
   double ar = *pr, ai = *pi;
   for (size_t i = 0; i < n; i++)
     {
-      double fr = zr - creal (roots[i]), fi = zi - cimag (roots[i]);
+      double fr = zm1 + (1.0 - creal (roots[i])), fi = zi - cimag (roots[i]);
       double t = ar * fr - ai * fi;
       ai = ar * fi + ai * fr;
       ar = t;
@@ -69,11 +72,12 @@ loop_core (const Loop *lp, double w)
       zr = cos (w * lp->t);
       zi = sin (w * lp->t);
     }
-  double complex h = lw_schur_eval (lp->plant->eval, zr + zi * I);
+  double complex h = lw_schur_eval_unit (lp->plant->eval, zr, zi);
+  double zm1 = zr > 0.0 ? -(zi * zi) / (1.0 + zr) : zr - 1.0;   /* cos θ − 1 */
   const LwZpk *c = lp->ctrl;
   double nr = c->gain, ni = 0.0, dr = 1.0, di = 0.0;
-  root_product (c->zeros, c->n_zeros, zr, zi, &nr, &ni);
-  root_product (c->poles, c->n_poles, zr, zi, &dr, &di);
+  root_product (c->zeros, c->n_zeros, zm1, zi, &nr, &ni);
+  root_product (c->poles, c->n_poles, zm1, zi, &dr, &di);
   /* h · num / den */
   double den = dr * dr + di * di;
   double qr = (nr * dr + ni * di) / den, qi = (ni * dr - nr * di) / den;

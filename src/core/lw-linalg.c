@@ -525,6 +525,7 @@ struct LwSchurEval {
                                second row of a 2×2 block */
   double *xr, *xi;
   double *wr, *wi;          /* second solve, for the derivative */
+  double *one_minus_diag;   /* 1 − T_ii, exact for T_ii in [0.5, 2] (Sterbenz) */
 };
 
 LwSchurEval *
@@ -544,7 +545,8 @@ lw_schur_eval_new (const LwSs *s)
   h->block = calloc (n + 1, 1);
   h->wr = alloc_doubles (n);
   h->wi = alloc_doubles (n);
-  if (h->t_rows == NULL || h->b == NULL || h->c == NULL || h->xr == NULL || h->xi == NULL
+  h->one_minus_diag = alloc_doubles (n);
+  if (h->one_minus_diag == NULL || h->t_rows == NULL || h->b == NULL || h->c == NULL || h->xr == NULL || h->xi == NULL
       || h->block == NULL || h->wr == NULL || h->wi == NULL)
     {
       lw_schur_eval_free (h);
@@ -555,6 +557,8 @@ lw_schur_eval_new (const LwSs *s)
       h->t_rows[i * n + j] = s->a[i + j * n];
   memcpy (h->b, s->b, n * sizeof (double));
   memcpy (h->c, s->c, n * sizeof (double));
+  for (size_t i = 0; i < n; i++)
+    h->one_minus_diag[i] = 1.0 - s->a[i + i * n];
   for (size_t i = 0; i < n;)
     {
       if (i + 1 < n && s->a[(i + 1) + i * n] != 0.0)
@@ -582,15 +586,20 @@ lw_schur_eval_free (LwSchurEval *h)
   free (h->block);
   free (h->wr);
   free (h->wi);
+  free (h->one_minus_diag);
   free (h);
 }
 
 /* Solves (xI − T) v = r by block back substitution; r given as (rr, ri) (ri may be NULL for a
- * real right-hand side), v written to (vr, vi). Returns false if xI − T is singular. */
+ * real right-hand side), v written to (vr, vi). The point is passed as x = 1 + zm1 + j·zi and each
+ * diagonal term x − t_ii as zm1 + (1 − t_ii), with 1 − t_ii stored exactly: near z = 1 (fast
+ * sampling, poles clustered there) this avoids the cancellation of cos ωT − t_ii. Returns false if
+ * xI − T is singular. */
 static bool
-schur_solve (const LwSchurEval *h, double zr, double zi, const double *rr, const double *ri,
+schur_solve (const LwSchurEval *h, double zm1, double zi, const double *rr, const double *ri,
              double *vr, double *vi)
 {
+  const double *omt = h->one_minus_diag;
   size_t n = h->n;
   const double *t = h->t_rows;
   for (size_t ii = n; ii-- > 0;)
@@ -609,7 +618,7 @@ schur_solve (const LwSchurEval *h, double zr, double zi, const double *rr, const
         }
       if (h->block[i] == 1)
         {
-          double pr = zr - ti[i], pi = zi, den = pr * pr + pi * pi;
+          double pr = zm1 + omt[i], pi = zi, den = pr * pr + pi * pi;
           if (den == 0.0)
             return false;
           vr[i] = (s1r * pr + s1i * pi) / den;
@@ -625,7 +634,7 @@ schur_solve (const LwSchurEval *h, double zr, double zi, const double *rr, const
               s2i += tn[j] * vi[j];
             }
           /* [[x − t11, −t12], [−t21, x − t22]] */
-          double ar = zr - ti[i], ai = zi, dr = zr - tn[i + 1], di = zi;
+          double ar = zm1 + omt[i], ai = zi, dr = zm1 + omt[i + 1], di = zi;
           double t12 = ti[i + 1], t21 = tn[i];
           double detr = ar * dr - ai * di - t12 * t21, deti = ar * di + ai * dr;
           double den = detr * detr + deti * deti;
@@ -651,7 +660,26 @@ lw_schur_eval (LwSchurEval *h, double complex xpt)
   double yr = h->d, yi = 0.0;
   if (n == 0)
     return yr;
-  if (!schur_solve (h, creal (xpt), cimag (xpt), h->b, NULL, h->xr, h->xi))
+  if (!schur_solve (h, creal (xpt) - 1.0, cimag (xpt), h->b, NULL, h->xr, h->xi))
+    return NAN + NAN * I;
+  for (size_t i = 0; i < n; i++)
+    {
+      yr += h->c[i] * h->xr[i];
+      yi += h->c[i] * h->xi[i];
+    }
+  return yr + yi * I;
+}
+
+double complex
+lw_schur_eval_unit (LwSchurEval *h, double cos_wt, double sin_wt)
+{
+  size_t n = h->n;
+  double yr = h->d, yi = 0.0;
+  if (n == 0)
+    return yr;
+  /* cos θ − 1 = −sin²θ / (1 + cos θ) without cancellation when cos θ > 0 */
+  double zm1 = cos_wt > 0.0 ? -(sin_wt * sin_wt) / (1.0 + cos_wt) : cos_wt - 1.0;
+  if (!schur_solve (h, zm1, sin_wt, h->b, NULL, h->xr, h->xi))
     return NAN + NAN * I;
   for (size_t i = 0; i < n; i++)
     {
@@ -671,7 +699,7 @@ lw_schur_eval_deriv (LwSchurEval *h, double complex xpt, double complex *deriv)
   double complex y = lw_schur_eval (h, xpt);
   double *wr = h->wr, *wi = h->wi;
   /* d/dx C (xI − T)⁻¹ B = −C (xI − T)⁻² B */
-  if (!schur_solve (h, creal (xpt), cimag (xpt), h->xr, h->xi, wr, wi))
+  if (!schur_solve (h, creal (xpt) - 1.0, cimag (xpt), h->xr, h->xi, wr, wi))
     return NAN + NAN * I;
   double dr = 0.0, di = 0.0;
   for (size_t i = 0; i < n; i++)

@@ -54,6 +54,9 @@ void lw_schur_eval_free (LwSchurEval *h);
 /* C (xI − T)^{−1} B + D at a complex point x by block back substitution: about 2n² real
  * multiply-adds and n divisions. NaN+NaN·i if xI − T is singular. */
 double complex lw_schur_eval (LwSchurEval *h, double complex x);
+/* The same at x = cos ωT + j sin ωT on the unit circle, given cos and sin: the real part of
+ * x − 1 is formed without cancellation, which keeps full relative accuracy near z = 1. */
+double complex lw_schur_eval_unit (LwSchurEval *h, double cos_wt, double sin_wt);
 /* The same value, and its derivative d/dx in *deriv (two back substitutions). */
 double complex lw_schur_eval_deriv (LwSchurEval *h, double complex x, double complex *deriv);
 

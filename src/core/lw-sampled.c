@@ -424,8 +424,8 @@ lw_sampled_plant_response (const LwSampledPlant *p, double omega_rad_s)
   double wt = omega_rad_s * p->period_s;
   /* At the Nyquist frequency z is exactly −1 (the response of a real system is real there). */
   bool nyquist = fabs (wt - LW_PI) <= 4.0 * LW_PI * 2.220446049250313e-16;
-  double complex z = nyquist ? -1.0 : cexp (I * wt);
-  double complex h = lw_schur_eval (p->eval, z);
+  double complex h = nyquist ? lw_schur_eval_unit (p->eval, -1.0, 0.0)
+                             : lw_schur_eval_unit (p->eval, cos (wt), sin (wt));
   if (p->whole_delay > 0)
     h *= nyquist ? ((p->whole_delay % 2) ? -1.0 : 1.0) : cexp (-I * wt * p->whole_delay);
   return h;
