@@ -106,6 +106,10 @@ typedef struct {
   LwStep step;
 } LwEvaluation;
 
+/* Fills the figures of s (overshoot, rise, settling) from s->samples, s->n, s->has_final and
+ * s->final_value, by the rules lw_evaluate uses (docs/conventions.md); period_s in seconds. */
+void lw_step_figures (LwStep *s, double period_s);
+
 /* Evaluates the loop for a controller given in z (domain z, same period as the plant, proper).
  * *out is a new evaluation; free with lw_evaluation_free. */
 LwStatus lw_evaluate (const LwSampledPlant *plant, const LwZpk *controller_z,

@@ -671,6 +671,14 @@ step_figures (LwStep *st, double t)
     }
 }
 
+void
+lw_step_figures (LwStep *s, double period_s)
+{
+  s->has_overshoot = s->has_rise = s->has_settling = false;
+  s->overshoot_pct = s->rise_time_s = s->settling_time_s = 0.0;
+  step_figures (s, period_s);
+}
+
 /* ---------------------------------------------------------------------------------------- */
 /* Margins                                                                                    */
 
