@@ -150,6 +150,101 @@ lw_cli_json_evaluation (const LwEvaluation *ev)
   return json_builder_get_root (b);
 }
 
+static void
+member_count (JsonBuilder *b, const char *name, size_t v)
+{
+  json_builder_set_member_name (b, name);
+  json_builder_add_int_value (b, (gint64) v);
+}
+
+void
+lw_cli_json_add_indices (JsonBuilder *b, const LwSimIndices *ix)
+{
+  g_assert (ix != NULL);
+  json_builder_begin_object (b);
+  member_number (b, "iae", ix->iae);
+  member_number (b, "ise", ix->ise);
+  member_number (b, "itae", ix->itae);
+  member_number (b, "control_effort", ix->control_effort);
+  json_builder_end_object (b);
+}
+
+void
+lw_cli_json_add_disturbance_response (JsonBuilder *b, const LwSimResponse *r)
+{
+  g_assert (r != NULL);
+  json_builder_begin_object (b);
+  member_numbers (b, "samples", r->y, r->n);
+  member_numbers (b, "actuator", r->u, r->n);
+  member_number (b, "peak", r->peak);
+  member_number (b, "peak_time_s", r->peak_time_s);
+  member_number (b, "last_value", r->n > 0 ? r->y[r->n - 1] : NAN);
+  member_count (b, "saturated_samples", r->n_saturated);
+  member_count (b, "held_samples", r->n_held);
+  member_optional (b, "intersample_ripple", r->has_continuous, r->intersample_ripple);
+  member_optional (b, "continuous_peak", r->has_continuous, r->continuous_peak);
+  json_builder_set_member_name (b, "indices");
+  lw_cli_json_add_indices (b, &r->indices);
+  json_builder_end_object (b);
+}
+
+JsonNode *
+lw_cli_json_analysis (const LwEvaluation *ev, const LwStep *step, const LwSimResponse *ref,
+                      const LwSimResponse *input_step, const LwSimResponse *output_step)
+{
+  g_return_val_if_fail (ev != NULL && step != NULL && ref != NULL && input_step != NULL
+                        && output_step != NULL, NULL);
+  g_autoptr (JsonBuilder) b = json_builder_new ();
+  json_builder_begin_object (b);
+  member_number (b, "sample_period_s", ev->period_s);
+  json_builder_set_member_name (b, "plant_z");
+  lw_cli_json_add_zpk (b, ev->plant_z);
+  json_builder_set_member_name (b, "plant_w");
+  lw_cli_json_add_zpk (b, ev->plant_w);
+  json_builder_set_member_name (b, "loop");
+  lw_cli_json_add_loop (b, &ev->margins);
+  json_builder_set_member_name (b, "closed_loop");
+  lw_cli_json_add_closed_loop (b, ev);
+
+  json_builder_set_member_name (b, "step");
+  json_builder_begin_object (b);
+  member_optional (b, "final_value", step->has_final, step->final_value);
+  member_optional (b, "overshoot_pct", step->has_overshoot, step->overshoot_pct);
+  member_optional (b, "rise_time_s", step->has_rise, step->rise_time_s);
+  member_optional (b, "settling_time_s", step->has_settling, step->settling_time_s);
+  member_numbers (b, "samples", step->samples, step->n);
+  member_numbers (b, "actuator", ref->u, ref->n);
+  member_count (b, "saturated_samples", ref->n_saturated);
+  member_count (b, "held_samples", ref->n_held);
+  json_builder_set_member_name (b, "continuous");
+  if (ref->has_continuous)
+    {
+      json_builder_begin_object (b);
+      member_numbers (b, "t_s", ref->t_fine_s, ref->n_fine);
+      member_numbers (b, "y", ref->y_fine, ref->n_fine);
+      member_number (b, "peak", ref->continuous_peak);
+      member_number (b, "peak_time_s", ref->continuous_peak_time_s);
+      json_builder_end_object (b);
+    }
+  else
+    json_builder_add_null_value (b);
+  member_optional (b, "intersample_ripple", ref->has_continuous, ref->intersample_ripple);
+  json_builder_end_object (b);
+
+  json_builder_set_member_name (b, "disturbance");
+  json_builder_begin_object (b);
+  json_builder_set_member_name (b, "input_step");
+  lw_cli_json_add_disturbance_response (b, input_step);
+  json_builder_set_member_name (b, "output_step");
+  lw_cli_json_add_disturbance_response (b, output_step);
+  json_builder_end_object (b);
+
+  json_builder_set_member_name (b, "indices");
+  lw_cli_json_add_indices (b, &ref->indices);
+  json_builder_end_object (b);
+  return json_builder_get_root (b);
+}
+
 /* Copies text to out, dropping the ".0" that json-glib appends to a number token that has an
  * exponent but no decimal point ("1e+20.0" -> "1e+20"). String literals are copied untouched. */
 static void

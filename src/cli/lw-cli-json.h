@@ -19,6 +19,7 @@
 
 #include "lw-analysis.h"
 #include "lw-model.h"
+#include "lw-simulate.h"
 
 G_BEGIN_DECLS
 
@@ -53,6 +54,24 @@ void lw_cli_json_add_step (JsonBuilder *b, const LwStep *s);
 /* The whole analysis object: sample_period_s, plant_z, plant_w, loop, closed_loop, step.
  * New node; free with json_node_unref. */
 JsonNode *lw_cli_json_evaluation (const LwEvaluation *ev);
+
+/* {"iae", "ise", "itae", "control_effort"}: the indices of one response (lw-simulate.h). */
+void lw_cli_json_add_indices (JsonBuilder *b, const LwSimIndices *ix);
+
+/* One disturbance response: {"samples": [y(kT)…], "actuator": [u(kT)…], "peak",
+ * "peak_time_s", "last_value", "saturated_samples", "held_samples", "intersample_ripple",
+ * "continuous_peak", "indices"} (the continuous keys null without sub-steps). */
+void lw_cli_json_add_disturbance_response (JsonBuilder *b, const LwSimResponse *r);
+
+/* The analysis with time-domain verification (`analyze --json`): the members of
+ * lw_cli_json_evaluation, with `step` the figures of `step` (ev->step, or the limited loop's)
+ * plus "actuator", "saturated_samples", "held_samples", "continuous" {"t_s", "y", "peak",
+ * "peak_time_s"} (null without sub-steps) and "intersample_ripple" from `ref`; then
+ * "disturbance" {"input_step", "output_step"} and "indices" (of the reference step).
+ * New node; free with json_node_unref. */
+JsonNode *lw_cli_json_analysis (const LwEvaluation *ev, const LwStep *step,
+                                const LwSimResponse *ref, const LwSimResponse *input_step,
+                                const LwSimResponse *output_step);
 
 /* Pretty-printed JSON text of root, ending in a newline; g_free the result.
  * json-glib 1.6 appends ".0" to any double it prints without a '.', which turns 1e+20 into

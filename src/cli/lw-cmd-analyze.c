@@ -11,6 +11,7 @@
 #include "lw-cli-commands.h"
 #include "lw-cli-common.h"
 #include "lw-cli-json.h"
+#include "lw-simulate.h"
 
 /* Common practice, no source: 10 to 30 samples per closed-loop rise time. */
 #define SAMPLES_PER_RISE_MIN 10.0
@@ -107,9 +108,8 @@ print_closed_loop (const LwEvaluation *ev)
 }
 
 static void
-print_step (const LwEvaluation *ev)
+print_step (const LwEvaluation *ev, const LwStep *s)
 {
-  const LwStep *s = &ev->step;
   double T = ev->period_s;
   printf ("\nUnit step response, unity feedback (%zu samples, %.6g s)\n", s->n,
           s->n > 0 ? (double) (s->n - 1) * T : 0.0);
@@ -133,7 +133,59 @@ print_step (const LwEvaluation *ev)
 }
 
 static void
-print_report (const LwZpk *plant_s, double dead_time_s, const LwEvaluation *ev)
+print_indices (const LwSimIndices *ix)
+{
+  printf ("    %-22s IAE %.6g, ISE %.6g, ITAE %.6g, effort %.6g\n", "indices", ix->iae, ix->ise,
+          ix->itae, ix->control_effort);
+}
+
+static void
+print_disturbance (const char *title, const LwSimResponse *r)
+{
+  printf ("  %s\n", title);
+  printf ("    %-22s %.6g at %.6g s\n", "peak output", r->peak, r->peak_time_s);
+  printf ("    %-22s %.6g\n", "last sample", r->y[r->n - 1]);
+  if (r->n_saturated > 0)
+    printf ("    %-22s %zu\n", "samples at the limit", r->n_saturated);
+  print_indices (&r->indices);
+}
+
+/* The time-domain verification section (docs/simulation.md). */
+static void
+print_verification (const LwSimOptions *so, const LwSimResponse *ref, const LwSimResponse *din,
+                    const LwSimResponse *dout)
+{
+  printf ("\nTime-domain verification (docs/simulation.md)\n");
+  if (so->has_limits)
+    printf ("  %-24s %.6g to %.6g, %s\n", "actuator limits", so->u_low, so->u_high,
+            so->anti_windup ? "anti-windup by clamping" : "no anti-windup");
+  else
+    printf ("  %-24s none\n", "actuator limits");
+  double umax = 0.0;
+  for (size_t k = 0; k < ref->n; k++)
+    if (fabs (ref->u[k]) > fabs (umax))
+      umax = ref->u[k];
+  printf ("  unit reference step\n");
+  printf ("    %-22s %.6g\n", "peak actuator", umax);
+  if (so->has_limits)
+    printf ("    %-22s %zu (integrators held at %zu)\n", "samples at the limit",
+            ref->n_saturated, ref->n_held);
+  if (ref->has_continuous)
+    {
+      printf ("    %-22s %.6g at %.6g s (sampled peak %.6g)\n", "continuous peak",
+              ref->continuous_peak, ref->continuous_peak_time_s, ref->peak);
+      printf ("    %-22s %.6g (%zu sub-steps per sample)\n", "intersample ripple",
+              ref->intersample_ripple, so->substeps);
+    }
+  print_indices (&ref->indices);
+  print_disturbance ("unit input-disturbance step (at the plant input)", din);
+  print_disturbance ("unit output-disturbance step (at the plant output)", dout);
+}
+
+static void
+print_report (const LwZpk *plant_s, double dead_time_s, const LwEvaluation *ev,
+              const LwStep *step, const LwSimOptions *so, const LwSimResponse *ref,
+              const LwSimResponse *din, const LwSimResponse *dout)
 {
   double T = ev->period_s;
   printf ("Sampled loop: period T = %.6g s (%.6g Hz), computation delay %d sample(s), "
@@ -149,12 +201,13 @@ print_report (const LwZpk *plant_s, double dead_time_s, const LwEvaluation *ev)
 
   print_margins (ev);
   print_closed_loop (ev);
-  print_step (ev);
+  print_step (ev, step);
+  print_verification (so, ref, din, dout);
 
   printf ("\n");
-  if (ev->step.has_rise && ev->step.rise_time_s > 0.0)
+  if (step->has_rise && step->rise_time_s > 0.0)
     {
-      double per_rise = ev->step.rise_time_s / T;
+      double per_rise = step->rise_time_s / T;
       if (per_rise < SAMPLES_PER_RISE_MIN)
         printf ("note: %.3g samples per closed-loop rise time, fewer than the usual 10 to 30 "
                 "(common practice); consider a shorter period\n", per_rise);
@@ -171,7 +224,9 @@ static const char analyze_help[] =
   "Usage: " LW_CLI_PROG " analyze --plant EXPR --period SECONDS [options]\n"
   "\n"
   "Discretizes a continuous plant with a zero-order hold, closes the loop through a\n"
-  "controller and reports crossovers, margins, closed-loop poles and the step response.\n"
+  "controller and reports crossovers, margins, closed-loop poles, the step response and\n"
+  "the time-domain verification: actuator signal, continuous output between samples,\n"
+  "input- and output-disturbance steps and performance indices (docs/simulation.md).\n"
   "\n"
   "Options:\n"
   "  --plant EXPR             plant P(s), a proper rational expression in s (required)\n"
@@ -182,6 +237,11 @@ static const char analyze_help[] =
   "  --controller-z EXPR      controller C(z), proper, in z (instead of --controller)\n"
   "  --points N               frequency points up to pi/T, 16 to 1000000 (default 2000)\n"
   "  --steps N                step-response samples, 2 to 10000000 (default 500)\n"
+  "  --saturation LOW:HIGH    actuator limits on the controller output, LOW < HIGH\n"
+  "  --anti-windup            hold the integrators while the output is limited\n"
+  "                           (clamping; needs --saturation)\n"
+  "  --substeps M             continuous output at M points per sample, 0 to 1000\n"
+  "                           (default 20; 0: none)\n"
   "  --json                   print the results as JSON instead of a report\n"
   "  -h, --help               show this help\n"
   "\n"
@@ -194,9 +254,36 @@ typedef struct
   LwCliLoopArgs loop;
   char *points;
   char *steps;
+  char *saturation;
+  char *substeps;
+  gboolean anti_windup;
   gboolean json;
   gboolean help;
 } AnalyzeArgs;
+
+/* --saturation LOW:HIGH: two finite numbers, LOW < HIGH. */
+static bool
+parse_saturation (const char *text, double *low, double *high)
+{
+  const char *colon = strchr (text, ':');
+  if (colon == NULL)
+    {
+      lw_cli_bad_input ("--saturation", "'%s' is not of the form LOW:HIGH (e.g. 0:1 or -10:10)",
+                        text);
+      return false;
+    }
+  g_autofree char *lo = g_strndup (text, (gsize) (colon - text));
+  if (!lw_cli_parse_double ("--saturation (LOW)", lo, low)
+      || !lw_cli_parse_double ("--saturation (HIGH)", colon + 1, high))
+    return false;
+  if (!(*low < *high))
+    {
+      lw_cli_bad_input ("--saturation", "LOW must be less than HIGH (got %.17g:%.17g)", *low,
+                        *high);
+      return false;
+    }
+  return true;
+}
 
 static int
 analyze_run (void *data)
@@ -211,6 +298,8 @@ analyze_run (void *data)
   opts.compute_delay = lp.compute_delay;
   gint64 v;
   LwEvaluation *ev = NULL;
+  LwSimPlan *plan = NULL;
+  LwSimResponse *sim_ref = NULL, *sim_in = NULL, *sim_out = NULL;
   LwError err;
   lw_error_clear (&err);
   if (a->points != NULL)
@@ -231,22 +320,84 @@ analyze_run (void *data)
         }
       opts.n_steps = (size_t) v;
     }
+  LwSimOptions so;
+  lw_sim_options_init (&so);
+  so.compute_delay = lp.compute_delay;
+  so.n_steps = opts.n_steps;
+  if (a->saturation != NULL)
+    {
+      if (!parse_saturation (a->saturation, &so.u_low, &so.u_high))
+        {
+          status = LW_EXIT_BAD_INPUT;
+          goto out;
+        }
+      so.has_limits = true;
+    }
+  if (a->anti_windup)
+    {
+      if (!so.has_limits)
+        {
+          lw_cli_bad_input ("--anti-windup", "needs --saturation LOW:HIGH (clamping acts only "
+                            "while the controller output is limited)");
+          status = LW_EXIT_BAD_INPUT;
+          goto out;
+        }
+      so.anti_windup = true;
+    }
+  if (a->substeps != NULL)
+    {
+      if (!lw_cli_parse_integer ("--substeps", a->substeps, 0, 1000, &v))
+        {
+          status = LW_EXIT_BAD_INPUT;
+          goto out;
+        }
+      so.substeps = (size_t) v;
+    }
+  if (so.substeps > 0 && (double) (so.n_steps - 1) * (double) so.substeps > 1e7)
+    {
+      lw_cli_bad_input ("--substeps", "%zu sub-steps for %zu samples make more than 1e7 "
+                        "continuous points; use fewer (or 0) with this many --steps",
+                        so.substeps, so.n_steps);
+      status = LW_EXIT_BAD_INPUT;
+      goto out;
+    }
   if (lw_evaluate (lp.sampled, lp.controller_z, &opts, &ev, &err) != LW_OK)
     {
       status = lw_cli_report_core_error ("analyze", &err);
       goto out;
     }
+  if (lw_sim_plan_new (lp.sampled, lp.controller_z, &so, &plan, &err) != LW_OK
+      || lw_sim_run (plan, LW_SIM_REFERENCE_STEP, 1.0, &sim_ref, &err) != LW_OK
+      || lw_sim_run (plan, LW_SIM_INPUT_DISTURBANCE_STEP, 1.0, &sim_in, &err) != LW_OK
+      || lw_sim_run (plan, LW_SIM_OUTPUT_DISTURBANCE_STEP, 1.0, &sim_out, &err) != LW_OK)
+    {
+      status = lw_cli_report_core_error ("analyze", &err);
+      goto out;
+    }
+  /* With limits the step is the limited loop's, its figures measured against the linear
+   * loop's final value (docs/simulation.md); without limits it is lw_evaluate's. */
+  LwStep step = ev->step;
+  if (so.has_limits)
+    {
+      step.samples = sim_ref->y;
+      step.n = sim_ref->n;
+      lw_step_figures (&step, ev->period_s);
+    }
   if (a->json)
     {
-      JsonNode *root = lw_cli_json_evaluation (ev);
+      JsonNode *root = lw_cli_json_analysis (ev, &step, sim_ref, sim_in, sim_out);
       char *text = lw_cli_json_to_text (root);
       fputs (text, stdout);
       g_free (text);
       json_node_unref (root);
     }
   else
-    print_report (lp.plant_s, lp.dead_time_s, ev);
+    print_report (lp.plant_s, lp.dead_time_s, ev, &step, &so, sim_ref, sim_in, sim_out);
 out:
+  lw_sim_response_free (sim_ref);
+  lw_sim_response_free (sim_in);
+  lw_sim_response_free (sim_out);
+  lw_sim_plan_free (plan);
   lw_evaluation_free (ev);
   lw_cli_loop_clear (&lp);
   return status;
@@ -260,6 +411,9 @@ lw_cmd_analyze (int argc, char **argv)
     LW_CLI_LOOP_ENTRIES (&a.loop),
     { "points", 0, 0, G_OPTION_ARG_STRING, &a.points, NULL, NULL },
     { "steps", 0, 0, G_OPTION_ARG_STRING, &a.steps, NULL, NULL },
+    { "saturation", 0, 0, G_OPTION_ARG_STRING, &a.saturation, NULL, NULL },
+    { "anti-windup", 0, 0, G_OPTION_ARG_NONE, &a.anti_windup, NULL, NULL },
+    { "substeps", 0, 0, G_OPTION_ARG_STRING, &a.substeps, NULL, NULL },
     { "json", 0, 0, G_OPTION_ARG_NONE, &a.json, NULL, NULL },
     { "help", 'h', 0, G_OPTION_ARG_NONE, &a.help, NULL, NULL },
     { NULL, 0, 0, 0, NULL, NULL, NULL }
@@ -269,5 +423,7 @@ lw_cmd_analyze (int argc, char **argv)
   lw_cli_loop_args_clear (&a.loop);
   g_free (a.points);
   g_free (a.steps);
+  g_free (a.saturation);
+  g_free (a.substeps);
   return status;
 }

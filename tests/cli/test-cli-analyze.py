@@ -82,6 +82,16 @@ BAD_INPUT = [
     (BASE + ["--steps", "99999999999999999999999"], 2, ["--steps:", "out of range"], None),
     (BASE + ["--dead-time", "-0.001"], 2, ["--dead-time:", "0 or more"], None),
     (BASE + ["--dead-time", "inf"], 2, ["--dead-time:", "not a finite number"], None),
+    # actuator limits, anti-windup, sub-steps (docs/cli.md)
+    (BASE + ["--saturation", "1"], 2, ["--saturation:", "LOW:HIGH"], None),
+    (BASE + ["--saturation", "1:1"], 2, ["--saturation:", "LOW must be less than HIGH"], None),
+    (BASE + ["--saturation", "2:-2"], 2, ["--saturation:", "LOW must be less than HIGH"], None),
+    (BASE + ["--saturation", "x:1"], 2, ["--saturation (LOW):", "'x' is not a number"], None),
+    (BASE + ["--saturation", "0:inf"], 2, ["--saturation (HIGH):", "not a finite number"], None),
+    (BASE + ["--anti-windup"], 2, ["--anti-windup:", "needs --saturation"], None),
+    (BASE + ["--substeps", "-1"], 2, ["--substeps:", "from 0 to 1000"], None),
+    (BASE + ["--substeps", "1001"], 2, ["--substeps:", "from 0 to 1000"], None),
+    (BASE + ["--steps", "1000000", "--substeps", "20"], 2, ["--substeps:", "1e7"], None),
     # combinations and unknowns
     (BASE + ["--controller", "1", "--controller-z", "1"], 2, ["--controller-z:", "--controller"], None),
     (BASE + ["--gain", "2"], 2, ["--gain"], None),
@@ -116,20 +126,35 @@ rc, out, err = run(["analyze", "--plant", P, "--period", "1", "--compute-delay",
 check(rc == 0, f"--json run: exit {rc}, stderr {err!r}")
 doc = json.loads(out)   # raises (test fails) when the text is not valid JSON
 
-TOP = {"sample_period_s", "plant_z", "plant_w", "loop", "closed_loop", "step"}
+TOP = {"sample_period_s", "plant_z", "plant_w", "loop", "closed_loop", "step", "disturbance",
+       "indices"}
 ZPK = {"gain", "zeros", "poles"}
 LOOP = {"gain_crossovers_rad_s", "phase_margins_deg", "phase_crossovers_rad_s",
         "gain_margins_db", "phase_margin_deg", "gain_crossover_rad_s", "gain_margin_db",
         "phase_crossover_rad_s", "delay_margin_s", "delay_margin_samples", "sensitivity_peak",
         "sensitivity_peak_rad_s"}
 CLOSED = {"stable", "poles"}
-STEP = {"final_value", "overshoot_pct", "rise_time_s", "settling_time_s", "samples"}
+STEP = {"final_value", "overshoot_pct", "rise_time_s", "settling_time_s", "samples",
+        "actuator", "saturated_samples", "held_samples", "continuous", "intersample_ripple"}
+CONTINUOUS = {"t_s", "y", "peak", "peak_time_s"}
+DISTURBANCE = {"input_step", "output_step"}
+DIST_RESPONSE = {"samples", "actuator", "peak", "peak_time_s", "last_value", "saturated_samples",
+                 "held_samples", "intersample_ripple", "continuous_peak", "indices"}
+INDICES = {"iae", "ise", "itae", "control_effort"}
 check(set(doc) == TOP, f"top-level keys {sorted(doc)}")
 check(set(doc["plant_z"]) == ZPK, f"plant_z keys {sorted(doc['plant_z'])}")
 check(set(doc["plant_w"]) == ZPK, f"plant_w keys {sorted(doc['plant_w'])}")
 check(set(doc["loop"]) == LOOP, f"loop keys {sorted(doc['loop'])}")
 check(set(doc["closed_loop"]) == CLOSED, f"closed_loop keys {sorted(doc['closed_loop'])}")
 check(set(doc["step"]) == STEP, f"step keys {sorted(doc['step'])}")
+check(set(doc["step"]["continuous"]) == CONTINUOUS,
+      f"step.continuous keys {sorted(doc['step']['continuous'])}")
+check(set(doc["disturbance"]) == DISTURBANCE, f"disturbance keys {sorted(doc['disturbance'])}")
+for part in ("input_step", "output_step"):
+    check(set(doc["disturbance"][part]) == DIST_RESPONSE,
+          f"disturbance.{part} keys {sorted(doc['disturbance'][part])}")
+    check(set(doc["disturbance"][part]["indices"]) == INDICES, f"disturbance.{part}.indices keys")
+check(set(doc["indices"]) == INDICES, f"indices keys {sorted(doc['indices'])}")
 check(doc["sample_period_s"] == T, "sample_period_s")
 
 # Reference: scipy's ZOH discretization of 1/(s^2 + s) at T = 1 s.
@@ -279,12 +304,26 @@ settle = (outside[-1] + 1) * T   # first sample after the last one outside ±2 %
 # tolerance one sample period
 check(near(st["settling_time_s"], settle, T), f"settling time {st['settling_time_s']} vs {settle}")
 
+# Time-domain verification (docs/simulation.md): with C = 1 and N = 0 the actuator signal is
+# the error, u = 1 − y, and the indices are sums over the samples times T; against the dstep
+# reference, 1e-9 (as the samples), relative for the sums of 500 terms.
+u = np.array(st["actuator"], dtype=float)
+check(len(u) == N_STEPS and np.max(np.abs(u - (1.0 - yref))) <= 1e-9, "actuator = error for C = 1")
+e = 1.0 - yref
+ix = doc["indices"]
+for key, ref in (("iae", T * np.sum(np.abs(e))), ("ise", T * np.sum(e ** 2)),
+                 ("itae", T * np.sum(np.arange(N_STEPS) * T * np.abs(e))),
+                 ("control_effort", T * np.sum(e ** 2))):
+    check(near(ix[key], ref, 1e-9 * abs(ref)), f"indices.{key} {ix[key]} vs {ref}")
+check(st["saturated_samples"] == 0 and st["held_samples"] == 0, "no limits, nothing saturated")
+
 # ---- the same run as a text report -----------------------------------------------------------
 rc, out, err = run(["analyze", "--plant", P, "--period", "1", "--compute-delay", "0"])
 check(rc == 0 and err == "", f"text run: exit {rc}, stderr {err!r}")
 for needle in ("Plant", "Controller", "Margins", "phase margin", "delay margin",
                "sensitivity peak", "closed-loop bandwidth", "Closed-loop poles", "stable",
-               "rise time", "settling time"):
+               "rise time", "settling time", "Time-domain verification", "intersample ripple",
+               "input-disturbance step", "output-disturbance step", "IAE"):
     check(needle in out, f"text report lacks {needle!r}")
 lines = out.rstrip("\n").split("\n")
 check(lines[-1] == "caution: simulation is not validation; commission with safe limits.",
