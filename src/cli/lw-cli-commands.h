@@ -7,3 +7,4 @@
 #pragma once
 
 int lw_cmd_analyze (int argc, char **argv);
+int lw_cmd_emit (int argc, char **argv);
