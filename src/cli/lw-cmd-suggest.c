@@ -166,7 +166,7 @@ print_report (const LwLeadDesign *d, double safety, const LwReqCrossover *rise,
             20.0 * log10 (m->sensitivity_peak), m->sensitivity_peak_rad_s);
   printf ("  %-24s %s\n", "closed loop", ev->stable ? "stable" : "UNSTABLE");
   printf ("\ncaution: simulation is not validation; commission with safe limits; follow the "
-          "applicable functional-safety standards and qualified review.\n");
+          "applicable functional-safety standards and qualified review; local codes prevail.\n");
 }
 
 static void
