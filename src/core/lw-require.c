@@ -372,3 +372,18 @@ lw_requirement_evaluate (const LwRequirement *r, const LwAchieved *a)
     }
   return not_available ("unknown requirement");
 }
+
+void
+lw_achieved_set_actuator (LwAchieved *out, const double *u, size_t n)
+{
+  double peak = 0.0;
+  bool finite = n > 0;
+  for (size_t k = 0; k < n; k++)
+    {
+      if (!isfinite (u[k]))
+        finite = false;
+      peak = fmax (peak, fabs (u[k]));
+    }
+  out->has_actuator_peak = finite;
+  out->actuator_peak = finite ? peak : 0.0;
+}

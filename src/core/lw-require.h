@@ -122,6 +122,10 @@ LwStatus lw_loop_low_frequency (const LwZpk *plant_s, const LwZpk *controller_w,
 LwStatus lw_achieved_from_evaluation (const LwEvaluation *ev, const LwZpk *plant_s,
                                       LwAchieved *out, LwError *err);
 
+/* Fills the actuator peak max|u(kT)| of *out from a simulated reference step (lw-simulate.h:
+ * pass its u[] and n), so the peak-actuator requirement can be checked. */
+void lw_achieved_set_actuator (LwAchieved *out, const double *u, size_t n);
+
 /* ---- requirements ---- */
 
 typedef enum {

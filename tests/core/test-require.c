@@ -16,6 +16,7 @@
 #include "lw-analysis.h"
 #include "lw-expr.h"
 #include "lw-require.h"
+#include "lw-simulate.h"
 
 #define PI_ 3.14159265358979323846
 
@@ -238,6 +239,43 @@ test_requirements (void **state)
   assert_int_equal (lw_requirement_check (&r, &err), LW_ERR_INVALID);
 }
 
+/* Peak actuator output from a simulated reference step: P control K = 4 of 1/(s + 1) with one
+ * sample of computation delay. The first applied sample is u[1] = K·e[0] = K·1 (y[0] = 0), and
+ * the error only falls afterwards (both closed-loop poles are real and positive, the step
+ * rises monotonically to 0.8, so 0.2 <= e <= 1), so max|u| = K exactly. */
+static void
+test_actuator_peak (void **state)
+{
+  (void) state;
+  LwZpk *p = NULL, *c = NULL;
+  assert_int_equal (lw_expr_parse ("1/(s+1)", LW_DOMAIN_S, 0, &p, NULL), LW_OK);
+  assert_int_equal (lw_expr_parse ("4", LW_DOMAIN_Z, 0.05, &c, NULL), LW_OK);
+  LwSampledPlant *sp = NULL;
+  assert_int_equal (lw_sampled_plant_new (p, 0.0, 0.05, &sp, NULL), LW_OK);
+  LwSimOptions o;
+  lw_sim_options_init (&o);
+  o.n_steps = 200;
+  LwSimPlan *plan = NULL;
+  assert_int_equal (lw_sim_plan_new (sp, c, &o, &plan, NULL), LW_OK);
+  LwSimResponse *r = NULL;
+  assert_int_equal (lw_sim_run (plan, LW_SIM_REFERENCE_STEP, 1.0, &r, NULL), LW_OK);
+  LwAchieved a;
+  memset (&a, 0, sizeof a);
+  a.stable = true;   /* closed-loop poles 0.65 and 0.30: z² − 0.951 z + 0.195 */
+  lw_achieved_set_actuator (&a, r->u, r->n);
+  assert_true (a.has_actuator_peak);
+  assert_close (a.actuator_peak, 4.0, 1e-15, "max |u|");
+  LwRequirement req = { .kind = LW_REQ_MAX_ACTUATOR, .limit = 3.5 };
+  LwReqResult res = lw_requirement_evaluate (&req, &a);
+  assert_int_equal (res.status, LW_REQ_FAIL);
+  assert_close (res.slack, -0.5, 1e-15, "slack");
+  lw_sim_response_free (r);
+  lw_sim_plan_free (plan);
+  lw_sampled_plant_free (sp);
+  lw_zpk_free (c);
+  lw_zpk_free (p);
+}
+
 int
 main (void)
 {
@@ -246,6 +284,7 @@ main (void)
     cmocka_unit_test (test_rise_and_warping),
     cmocka_unit_test (test_low_frequency),
     cmocka_unit_test (test_requirements),
+    cmocka_unit_test (test_actuator_peak),
   };
   return cmocka_run_group_tests (tests, NULL, NULL);
 }
