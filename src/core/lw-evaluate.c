@@ -887,18 +887,9 @@ lw_evaluate (const LwSampledPlant *plant, const LwZpk *controller_z,
   if (plant == NULL || controller_z == NULL || opts == NULL)
     return lw_error_set (err, LW_ERR_INVALID, -1, "missing plant, controller or options");
   double t = plant->period_s;
-  if (controller_z->domain != LW_DOMAIN_Z || fabs (controller_z->period_s - t) > 1e-12 * t)
-    return lw_error_set (err, LW_ERR_INVALID, -1,
-                         "the controller must be a model in z with the plant's sample period");
-  if (controller_z->n_zeros > controller_z->n_poles)
-    return lw_error_set (err, LW_ERR_INVALID, -1,
-                         "the controller is improper (more zeros than poles): it would need "
-                         "future samples");
-  if (!lw_zpk_is_finite (controller_z))
-    return lw_error_set (err, LW_ERR_INVALID, -1, "the controller has a non-finite gain or root");
-  if (opts->compute_delay < 0 || opts->compute_delay > 100000)
-    return lw_error_set (err, LW_ERR_INVALID, -1,
-                         "the computation delay must be a whole number of samples from 0 to 100000");
+  LwStatus cst = lw_check_loop_controller (plant, controller_z, opts->compute_delay, err);
+  if (cst != LW_OK)
+    return cst;
   if (opts->n_points < 16 || opts->n_points > 10000000)
     return lw_error_set (err, LW_ERR_INVALID, -1, "the number of frequency points must be 16 … 1e7");
   if (opts->n_steps < 2 || opts->n_steps > 100000000)

@@ -15,6 +15,15 @@
  * The overall gain sits in the last section. Fails (LW_ERR_INVALID) for improper models. */
 LwStatus lw_zpk_realize (const LwZpk *m, LwSs **out, LwError *err);
 
+/* e^{[[A, B], [0, 0]]·h} of a continuous realization: Φ(h) = e^{Ah} (n×n, column-major) and
+ * Γ(h) = ∫₀ʰ e^{Aσ} dσ B (n) — the zero-order-hold maps over a hold of h seconds. */
+LwStatus lw_zoh_blocks (const LwSs *c, double h, double *phi, double *gam, LwError *err);
+
+/* Checks a controller for a loop with this plant: domain z, the plant's period, proper, finite;
+ * and the computation delay N in 0 … 100000. */
+LwStatus lw_check_loop_controller (const LwSampledPlant *plant, const LwZpk *controller_z,
+                                   int compute_delay, LwError *err);
+
 struct LwSampledPlant {
   double period_s;
   double dead_time_s;

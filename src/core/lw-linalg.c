@@ -198,56 +198,44 @@ lw_ss_copy (const LwSs *s)
   return c;
 }
 
-LwStatus
-lw_ss_balance_hessenberg (LwSs *s, LwError *err)
+/* A ← D⁻¹ A D by LAPACK dgebal (scaling only), B ← D⁻¹ B, C ← C D. */
+static LwStatus
+balance_scaling (LwSs *s, LwError *err)
 {
   size_t n = s->n;
-  if (n <= 1)
-    return LW_OK;
   lapack_int ilo, ihi;
   double *scale = alloc_doubles (n);
-  double *tau = alloc_doubles (n);
-  double *q = alloc_doubles (n * n);
-  double *tmp = alloc_doubles (n);
-  if (scale == NULL || tau == NULL || q == NULL || tmp == NULL)
-    {
-      free (scale); free (tau); free (q); free (tmp);
-      return lw_error_set (err, LW_ERR_NOMEM, -1, "out of memory while balancing");
-    }
-  LwStatus st = LW_OK;
+  if (scale == NULL)
+    return lw_error_set (err, LW_ERR_NOMEM, -1, "out of memory while balancing");
   lapack_int info = LAPACKE_dgebal (LAPACK_COL_MAJOR, 'S', (lapack_int) n, s->a,
                                     (lapack_int) n, &ilo, &ihi, scale);
   if (info != 0)
     {
-      st = lw_error_set (err, LW_ERR_NUMERIC, -1, "balancing failed (dgebal info %d)", (int) info);
-      goto out;
+      free (scale);
+      return lw_error_set (err, LW_ERR_NUMERIC, -1, "balancing failed (dgebal info %d)",
+                           (int) info);
     }
-  /* A ← D⁻¹ A D was applied by dgebal; apply the same to B (D⁻¹ B) and C (C D). */
   for (size_t i = 0; i < n; i++)
     {
       s->b[i] /= scale[i];
       s->c[i] *= scale[i];
     }
-  info = LAPACKE_dgehrd (LAPACK_COL_MAJOR, (lapack_int) n, 1, (lapack_int) n, s->a,
-                         (lapack_int) n, tau);
-  if (info != 0)
-    {
-      st = lw_error_set (err, LW_ERR_NUMERIC, -1, "Hessenberg reduction failed (dgehrd info %d)",
-                         (int) info);
-      goto out;
-    }
-  memcpy (q, s->a, n * n * sizeof (double));
-  info = LAPACKE_dorghr (LAPACK_COL_MAJOR, (lapack_int) n, 1, (lapack_int) n, q, (lapack_int) n,
-                         tau);
-  if (info != 0)
-    {
-      st = lw_error_set (err, LW_ERR_NUMERIC, -1, "forming Q failed (dorghr info %d)", (int) info);
-      goto out;
-    }
+  free (scale);
+  return LW_OK;
+}
+
+/* After A ← Qᵀ A Q (done by the caller): B ← Qᵀ B, C ← C Q, and the entries below the first
+ * subdiagonal of A set to exactly 0. q is n×n column-major orthogonal. */
+static LwStatus
+apply_orthogonal (LwSs *s, const double *q, LwError *err)
+{
+  size_t n = s->n;
+  double *tmp = alloc_doubles (n);
+  if (tmp == NULL)
+    return lw_error_set (err, LW_ERR_NOMEM, -1, "out of memory in a similarity transform");
   for (size_t j = 0; j < n; j++)
     for (size_t i = j + 2; i < n; i++)
       s->a[i + j * n] = 0.0;
-  /* B ← Qᵀ B, C ← C Q */
   for (size_t i = 0; i < n; i++)
     {
       double acc = 0.0;
@@ -264,8 +252,41 @@ lw_ss_balance_hessenberg (LwSs *s, LwError *err)
       tmp[j] = acc;
     }
   memcpy (s->c, tmp, n * sizeof (double));
-out:
-  free (scale); free (tau); free (q); free (tmp);
+  free (tmp);
+  return LW_OK;
+}
+
+LwStatus
+lw_ss_balance_hessenberg (LwSs *s, LwError *err)
+{
+  size_t n = s->n;
+  if (n <= 1)
+    return LW_OK;
+  LwStatus st = balance_scaling (s, err);
+  if (st != LW_OK)
+    return st;
+  double *tau = alloc_doubles (n), *q = alloc_doubles (n * n);
+  if (tau == NULL || q == NULL)
+    {
+      free (tau);
+      free (q);
+      return lw_error_set (err, LW_ERR_NOMEM, -1, "out of memory in the Hessenberg reduction");
+    }
+  lapack_int info = LAPACKE_dgehrd (LAPACK_COL_MAJOR, (lapack_int) n, 1, (lapack_int) n, s->a,
+                                    (lapack_int) n, tau);
+  if (info == 0)
+    {
+      memcpy (q, s->a, n * n * sizeof (double));
+      info = LAPACKE_dorghr (LAPACK_COL_MAJOR, (lapack_int) n, 1, (lapack_int) n, q,
+                             (lapack_int) n, tau);
+    }
+  if (info != 0)
+    st = lw_error_set (err, LW_ERR_NUMERIC, -1, "Hessenberg reduction failed (LAPACK info %d)",
+                       (int) info);
+  else
+    st = apply_orthogonal (s, q, err);
+  free (tau);
+  free (q);
   return st;
 }
 
@@ -464,56 +485,24 @@ lw_ss_balance_schur (LwSs *s, LwError *err)
   size_t n = s->n;
   if (n == 0)
     return LW_OK;
-  lapack_int ilo, ihi, sdim = 0;
-  double *scale = alloc_doubles (n), *wr = alloc_doubles (n), *wi = alloc_doubles (n);
-  double *z = alloc_doubles (n * n), *tmp = alloc_doubles (n);
-  LwStatus st = LW_OK;
-  if (scale == NULL || wr == NULL || wi == NULL || z == NULL || tmp == NULL)
+  LwStatus st = balance_scaling (s, err);
+  if (st != LW_OK)
+    return st;
+  lapack_int sdim = 0;
+  double *wr = alloc_doubles (n), *wi = alloc_doubles (n), *z = alloc_doubles (n * n);
+  if (wr == NULL || wi == NULL || z == NULL)
     {
-      st = lw_error_set (err, LW_ERR_NOMEM, -1, "out of memory while reducing to Schur form");
-      goto out;
+      free (wr); free (wi); free (z);
+      return lw_error_set (err, LW_ERR_NOMEM, -1, "out of memory while reducing to Schur form");
     }
-  lapack_int info = LAPACKE_dgebal (LAPACK_COL_MAJOR, 'S', (lapack_int) n, s->a, (lapack_int) n,
-                                    &ilo, &ihi, scale);
+  lapack_int info = LAPACKE_dgees (LAPACK_COL_MAJOR, 'V', 'N', NULL, (lapack_int) n, s->a,
+                                   (lapack_int) n, &sdim, wr, wi, z, (lapack_int) n);
   if (info != 0)
-    {
-      st = lw_error_set (err, LW_ERR_NUMERIC, -1, "balancing failed (dgebal info %d)", (int) info);
-      goto out;
-    }
-  for (size_t i = 0; i < n; i++)
-    {
-      s->b[i] /= scale[i];
-      s->c[i] *= scale[i];
-    }
-  info = LAPACKE_dgees (LAPACK_COL_MAJOR, 'V', 'N', NULL, (lapack_int) n, s->a, (lapack_int) n,
-                        &sdim, wr, wi, z, (lapack_int) n);
-  if (info != 0)
-    {
-      st = lw_error_set (err, LW_ERR_NUMERIC, -1, "Schur reduction failed (dgees info %d)",
-                         (int) info);
-      goto out;
-    }
-  for (size_t j = 0; j < n; j++)
-    for (size_t i = j + 2; i < n; i++)
-      s->a[i + j * n] = 0.0;
-  for (size_t i = 0; i < n; i++)
-    {
-      double acc = 0.0;
-      for (size_t k = 0; k < n; k++)
-        acc += z[k + i * n] * s->b[k];
-      tmp[i] = acc;
-    }
-  memcpy (s->b, tmp, n * sizeof (double));
-  for (size_t j = 0; j < n; j++)
-    {
-      double acc = 0.0;
-      for (size_t k = 0; k < n; k++)
-        acc += s->c[k] * z[k + j * n];
-      tmp[j] = acc;
-    }
-  memcpy (s->c, tmp, n * sizeof (double));
-out:
-  free (scale); free (wr); free (wi); free (z); free (tmp);
+    st = lw_error_set (err, LW_ERR_NUMERIC, -1, "Schur reduction failed (dgees info %d)",
+                       (int) info);
+  else
+    st = apply_orthogonal (s, z, err);
+  free (wr); free (wi); free (z);
   return st;
 }
 

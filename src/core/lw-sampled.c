@@ -227,9 +227,8 @@ lw_zpk_realize (const LwZpk *m, LwSs **out, LwError *err)
 
 /* ---- zero-order hold ---- */
 
-/* e^{M h} for M = [[A, B], [0, 0]] (order n+1): returns Φ(h) (n×n) and Γ(h) (n). */
-static LwStatus
-zoh_blocks (const LwSs *c, double h, double *phi, double *gam, LwError *err)
+LwStatus
+lw_zoh_blocks (const LwSs *c, double h, double *phi, double *gam, LwError *err)
 {
   size_t n = c->n, m = n + 1;
   double *mm = calloc (m * m, sizeof (double)), *em = calloc (m * m, sizeof (double));
@@ -326,7 +325,7 @@ lw_sampled_plant_new (const LwZpk *plant_s, double dead_time_s, double period_s,
     }
   if (!frac_part)
     {
-      st = zoh_blocks (cs, period_s, phi1, gam1, err);
+      st = lw_zoh_blocks (cs, period_s, phi1, gam1, err);
       if (st != LW_OK)
         goto fail;
       for (size_t j = 0; j < n; j++)
@@ -344,9 +343,9 @@ lw_sampled_plant_new (const LwZpk *plant_s, double dead_time_s, double period_s,
       /* Input switches at kT + θ: x((k+1)T) = Φ(T) x + Φ(T−θ) Γ(θ) v + Γ(T−θ) u,
        * v[k] = the input held before the switch (previous sample), y = C x + D v. */
       double th = p->frac_delay_s;
-      st = zoh_blocks (cs, th, phi1, gam1, err);
+      st = lw_zoh_blocks (cs, th, phi1, gam1, err);
       if (st == LW_OK)
-        st = zoh_blocks (cs, period_s - th, phi2, gam2, err);
+        st = lw_zoh_blocks (cs, period_s - th, phi2, gam2, err);
       if (st != LW_OK)
         goto fail;
       for (size_t i = 0; i < n; i++)
@@ -499,4 +498,24 @@ out:
   free (zeros);
   free (poles);
   return m;
+}
+
+LwStatus
+lw_check_loop_controller (const LwSampledPlant *plant, const LwZpk *controller_z,
+                          int compute_delay, LwError *err)
+{
+  double t = plant->period_s;
+  if (controller_z->domain != LW_DOMAIN_Z || fabs (controller_z->period_s - t) > 1e-12 * t)
+    return lw_error_set (err, LW_ERR_INVALID, -1,
+                         "the controller must be a model in z with the plant's sample period");
+  if (controller_z->n_zeros > controller_z->n_poles)
+    return lw_error_set (err, LW_ERR_INVALID, -1,
+                         "the controller is improper (more zeros than poles): it would need "
+                         "future samples");
+  if (!lw_zpk_is_finite (controller_z))
+    return lw_error_set (err, LW_ERR_INVALID, -1, "the controller has a non-finite gain or root");
+  if (compute_delay < 0 || compute_delay > 100000)
+    return lw_error_set (err, LW_ERR_INVALID, -1,
+                         "the computation delay must be a whole number of samples from 0 to 100000");
+  return LW_OK;
 }

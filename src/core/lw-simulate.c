@@ -52,37 +52,6 @@ lw_sim_options_init (LwSimOptions *o)
   o->substeps = 20;
 }
 
-/* e^{[[A, B], [0, 0]] h}: Φ(h) (n×n, column-major) and Γ(h) (n). */
-static LwStatus
-hold_maps (const LwSs *c, double h, double *phi, double *gam, LwError *err)
-{
-  size_t n = c->n, m = n + 1;
-  double *mm = calloc (m * m, sizeof (double)), *em = calloc (m * m, sizeof (double));
-  if (mm == NULL || em == NULL)
-    {
-      free (mm);
-      free (em);
-      return lw_error_set (err, LW_ERR_NOMEM, -1, "out of memory in the continuous simulation");
-    }
-  for (size_t j = 0; j < n; j++)
-    for (size_t i = 0; i < n; i++)
-      mm[i + j * m] = c->a[i + j * n] * h;
-  for (size_t i = 0; i < n; i++)
-    mm[i + n * m] = c->b[i] * h;
-  LwStatus st = lw_expm (m, mm, em, err);
-  if (st == LW_OK)
-    {
-      for (size_t j = 0; j < n; j++)
-        for (size_t i = 0; i < n; i++)
-          phi[i + j * n] = em[i + j * m];
-      for (size_t i = 0; i < n; i++)
-        gam[i] = em[i + n * m];
-    }
-  free (mm);
-  free (em);
-  return st;
-}
-
 void
 lw_sim_plan_free (LwSimPlan *p)
 {
@@ -158,17 +127,9 @@ lw_sim_plan_new (const LwSampledPlant *plant, const LwZpk *controller_z,
   if (plant == NULL || controller_z == NULL || opts == NULL)
     return lw_error_set (err, LW_ERR_INVALID, -1, "missing plant, controller or options");
   double t = plant->period_s;
-  if (controller_z->domain != LW_DOMAIN_Z || fabs (controller_z->period_s - t) > 1e-12 * t)
-    return lw_error_set (err, LW_ERR_INVALID, -1,
-                         "the controller must be a model in z with the plant's sample period");
-  if (controller_z->n_zeros > controller_z->n_poles)
-    return lw_error_set (err, LW_ERR_INVALID, -1,
-                         "the controller is improper (more zeros than poles)");
-  if (!lw_zpk_is_finite (controller_z))
-    return lw_error_set (err, LW_ERR_INVALID, -1, "the controller has a non-finite gain or root");
-  if (opts->compute_delay < 0 || opts->compute_delay > 100000)
-    return lw_error_set (err, LW_ERR_INVALID, -1,
-                         "the computation delay must be a whole number of samples from 0 to 100000");
+  LwStatus cst = lw_check_loop_controller (plant, controller_z, opts->compute_delay, err);
+  if (cst != LW_OK)
+    return cst;
   if (opts->n_steps < 2 || opts->n_steps > 100000000)
     return lw_error_set (err, LW_ERR_INVALID, -1, "the number of samples must be 2 … 1e8");
   if (opts->has_limits
@@ -279,7 +240,7 @@ lw_sim_plan_new (const LwSampledPlant *plant, const LwZpk *controller_z,
           goto fail;
         }
       double h = t / (double) opts->substeps;
-      st = hold_maps (cont, h, p->phi_h, p->gam_h, err);
+      st = lw_zoh_blocks (cont, h, p->phi_h, p->gam_h, err);
       if (st != LW_OK)
         goto fail;
       /* the input switches at jT + θ: in sub-step i_sw, after δ1 = θ − i_sw·h; a switch
@@ -298,9 +259,9 @@ lw_sim_plan_new (const LwSampledPlant *plant, const LwZpk *controller_z,
       p->split = d1 > 0.0;
       if (p->split)
         {
-          st = hold_maps (cont, d1, p->phi_1, p->gam_1, err);
+          st = lw_zoh_blocks (cont, d1, p->phi_1, p->gam_1, err);
           if (st == LW_OK)
-            st = hold_maps (cont, h - d1, p->phi_2, p->gam_2, err);
+            st = lw_zoh_blocks (cont, h - d1, p->phi_2, p->gam_2, err);
           if (st != LW_OK)
             goto fail;
         }
