@@ -26,6 +26,7 @@ typedef struct
 
 static const Command commands[] = {
   { "analyze", lw_cmd_analyze, "analyze a sampled loop given on the command line" },
+  { "plot", lw_cmd_plot, "draw a view of a sampled loop into a PNG, SVG or PDF file" },
   { "suggest", lw_cmd_suggest, "propose a crossover gain and lead stages for a phase margin" },
   { "emit", lw_cmd_emit, "write the controller as C code (difference equation or sections)" },
 };

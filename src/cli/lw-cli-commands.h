@@ -7,5 +7,6 @@
 #pragma once
 
 int lw_cmd_analyze (int argc, char **argv);
+int lw_cmd_plot (int argc, char **argv);
 int lw_cmd_suggest (int argc, char **argv);
 int lw_cmd_emit (int argc, char **argv);

@@ -1,0 +1,333 @@
+/* lw-cmd-plot.c — `loopwright-cli plot`: one view of a sampled loop given on the command line,
+ * written as PNG, SVG or PDF by the shared figure renderer (src/plot/).
+ *
+ * The work is split so a design document can feed it later: plot_options_check() turns the
+ * figure options into a PlotSpec, and plot_write() draws any list of evaluated variants with
+ * it; only plot_run() knows that the loop came from inline options.
+ *
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ */
+#include "config.h"
+
+#include <math.h>
+#include <stdio.h>
+#include <string.h>
+
+#include "lw-cli-commands.h"
+#include "lw-cli-common.h"
+#include "lw-figure-data.h"
+#include "lw-plot-export.h"
+#include "lw-plot.h"
+
+static const char plot_help[] =
+  "Usage: " LW_CLI_PROG " plot --plant EXPR --period SECONDS --view VIEW --out FILE [options]\n"
+  "\n"
+  "Draws one view of a sampled loop and writes it as a PNG, SVG or PDF file (by the\n"
+  "extension of FILE).\n"
+  "\n"
+  "Views:\n"
+  "  bode-z       |L| and phase over omega, up to the Nyquist frequency pi/T\n"
+  "  bode-w       |L| and phase over nu in the w-plane, with straight-line asymptotes\n"
+  "  nyquist      L in the complex plane, unit circle, critical point -1\n"
+  "  nichols      |L| in dB over the phase of L\n"
+  "  step         unit step response of the closed loop, samples held\n"
+  "  poles        closed-loop poles and the loop's poles and zeros in z\n"
+  "\n"
+  "Options:\n"
+  "  --plant EXPR             plant P(s), a proper rational expression in s (required)\n"
+  "  --period SECONDS         sample period T in seconds, > 0 (required)\n"
+  "  --compute-delay N        computation delay in whole samples, 0 to 1000 (default 1)\n"
+  "  --dead-time SECONDS      plant input dead time in seconds, >= 0 (default 0)\n"
+  "  --controller EXPR        controller C(w), proper, in the w-plane variable w (default 1)\n"
+  "  --controller-z EXPR      controller C(z), proper, in z (instead of --controller)\n"
+  "  --view VIEW              one of the views above (required)\n"
+  "  --out FILE               FILE.png, FILE.svg or FILE.pdf (required)\n"
+  "  --size WxH               width and height, 16 to 20000 (pixels for PNG, points for\n"
+  "                           SVG and PDF; default 800x600)\n"
+  "  --theme light|dark       colours (default light)\n"
+  "  --title TEXT             a title above the figure\n"
+  "  --name TEXT              legend text of the loop (default \"loop\")\n"
+  "  --target-crossover RAD_S mark a target gain crossover omega (rad/s) on the Bode views\n"
+  "  --min-phase-margin DEG   mark a required phase margin on the Bode and Nichols views\n"
+  "  --pdf-date DATE          creation date written into a PDF, YYYY-MM-DDThh:mm:ss\n"
+  "                           (default: a fixed date, so the same figure gives the same file)\n"
+  "  --points N               frequency points up to pi/T, 16 to 1000000 (default 2000)\n"
+  "  --steps N                step-response samples, 2 to 10000000 (default 500)\n"
+  "  -h, --help               show this help\n"
+  "\n"
+  "Exit status: 0 success, 2 bad input, 1 internal failure or the file could not be written.\n";
+
+typedef struct
+{
+  LwCliLoopArgs loop;
+  char *view, *out, *size, *theme, *title, *name, *target, *min_pm, *pdf_date, *points, *steps;
+  gboolean help;
+} PlotArgs;
+
+/* The figure options, checked. */
+typedef struct
+{
+  LwPlotView view;
+  LwPlotFormat format;
+  const char *out;
+  double width, height;
+  LwPlotTheme theme;
+  const char *title;
+  bool has_target;  double target_rad_s;
+  bool has_min_pm;  double min_pm_deg;
+  const char *pdf_date;
+} PlotSpec;
+
+static bool
+parse_size (const char *text, double *w, double *h)
+{
+  const char *x = strchr (text, 'x');
+  if (x == NULL)
+    {
+      lw_cli_bad_input ("--size", "'%s' is not WIDTHxHEIGHT, e.g. 800x600", text);
+      return false;
+    }
+  g_autofree char *ws = g_strndup (text, (gsize) (x - text));
+  gint64 a, b;
+  if (!lw_cli_parse_integer ("--size (width)", ws, 16, 20000, &a)
+      || !lw_cli_parse_integer ("--size (height)", x + 1, 16, 20000, &b))
+    return false;
+  *w = (double) a;
+  *h = (double) b;
+  return true;
+}
+
+/* A date of the form YYYY-MM-DDThh:mm:ss with an optional zone (Z or ±hh:mm). */
+static bool
+check_pdf_date (const char *text)
+{
+  g_autoptr (GTimeZone) utc = g_time_zone_new_utc ();
+  g_autoptr (GDateTime) dt = g_date_time_new_from_iso8601 (text, utc);
+  if (dt == NULL || strlen (text) < 19)
+    {
+      lw_cli_bad_input ("--pdf-date", "'%s' is not a date YYYY-MM-DDThh:mm:ss", text);
+      return false;
+    }
+  return true;
+}
+
+static int
+plot_options_check (const PlotArgs *a, PlotSpec *s)
+{
+  memset (s, 0, sizeof *s);
+  s->width = 800;
+  s->height = 600;
+  if (a->view == NULL)
+    {
+      lw_cli_bad_input ("--view", "required: bode-z, bode-w, nyquist, nichols, step or poles");
+      return LW_EXIT_BAD_INPUT;
+    }
+  int v = lw_plot_view_from_name (a->view);
+  if (v < 0)
+    {
+      lw_cli_bad_input ("--view", "unknown view '%s' (bode-z, bode-w, nyquist, nichols, step, "
+                        "poles)", a->view);
+      return LW_EXIT_BAD_INPUT;
+    }
+  s->view = (LwPlotView) v;
+  if (a->out == NULL)
+    {
+      lw_cli_bad_input ("--out", "required: a file name ending in .png, .svg or .pdf");
+      return LW_EXIT_BAD_INPUT;
+    }
+  int f = lw_plot_format_from_path (a->out);
+  if (f < 0)
+    {
+      lw_cli_bad_input ("--out", "'%s' does not end in .png, .svg or .pdf", a->out);
+      return LW_EXIT_BAD_INPUT;
+    }
+  s->format = (LwPlotFormat) f;
+  s->out = a->out;
+  if (a->size && !parse_size (a->size, &s->width, &s->height))
+    return LW_EXIT_BAD_INPUT;
+  if (a->theme == NULL || strcmp (a->theme, "light") == 0)
+    s->theme = LW_PLOT_THEME_LIGHT;
+  else if (strcmp (a->theme, "dark") == 0)
+    s->theme = LW_PLOT_THEME_DARK;
+  else
+    {
+      lw_cli_bad_input ("--theme", "unknown theme '%s' (light or dark)", a->theme);
+      return LW_EXIT_BAD_INPUT;
+    }
+  s->title = a->title;
+  if (a->target)
+    {
+      if (!lw_cli_parse_double ("--target-crossover", a->target, &s->target_rad_s))
+        return LW_EXIT_BAD_INPUT;
+      if (!(s->target_rad_s > 0.0))
+        {
+          lw_cli_bad_input ("--target-crossover", "must be > 0 rad/s, not %s", a->target);
+          return LW_EXIT_BAD_INPUT;
+        }
+      s->has_target = true;
+    }
+  if (a->min_pm)
+    {
+      if (!lw_cli_parse_double ("--min-phase-margin", a->min_pm, &s->min_pm_deg))
+        return LW_EXIT_BAD_INPUT;
+      if (!(s->min_pm_deg > 0.0 && s->min_pm_deg < 180.0))
+        {
+          lw_cli_bad_input ("--min-phase-margin", "must be between 0 and 180 degrees, not %s",
+                            a->min_pm);
+          return LW_EXIT_BAD_INPUT;
+        }
+      s->has_min_pm = true;
+    }
+  if (a->pdf_date)
+    {
+      if (!check_pdf_date (a->pdf_date))
+        return LW_EXIT_BAD_INPUT;
+      s->pdf_date = a->pdf_date;
+    }
+  return LW_EXIT_OK;
+}
+
+/* One evaluated variant to draw. */
+typedef struct
+{
+  const char *name;
+  const LwSampledPlant *plant;
+  const LwEvaluation *ev;
+} PlotVariantSource;
+
+/* Draws the variants with the spec and writes the file. */
+static int
+plot_write (const PlotSpec *s, const PlotVariantSource *src, size_t n)
+{
+  if (n == 0 || n > LW_PLOT_MAX_VARIANTS)
+    {
+      lw_cli_bad_input ("plot", "a figure shows 1 to %d variants, not %zu", LW_PLOT_MAX_VARIANTS,
+                        n);
+      return LW_EXIT_BAD_INPUT;
+    }
+  LwFigureVariant fv[LW_PLOT_MAX_VARIANTS];
+  LwPlotVariant pv[LW_PLOT_MAX_VARIANTS];
+  size_t filled = 0;
+  int status = LW_EXIT_OK;
+  LwError err;
+  lw_error_clear (&err);
+  for (; filled < n; filled++)
+    {
+      if (lw_figure_variant_fill (&fv[filled], src[filled].name, src[filled].plant,
+                                  src[filled].ev, &err) != LW_OK)
+        {
+          status = lw_cli_report_core_error ("plot", &err);
+          goto out;
+        }
+      pv[filled] = fv[filled].v;
+    }
+  LwPlotInput in = { 0 };
+  in.view = s->view;
+  in.nyquist_rad_s = G_PI / src[0].ev->period_s;
+  in.title = s->title;
+  in.n_variants = n;
+  in.variants = pv;
+  lw_figure_requirements (&in.req, src[0].ev->period_s, s->has_target, s->target_rad_s,
+                          s->has_min_pm, s->min_pm_deg);
+  char msg[256];
+  LwPlot *plot = lw_plot_new (&in, msg, sizeof msg);
+  if (plot == NULL)
+    {
+      lw_cli_bad_input ("--view", "%s", msg);
+      status = LW_EXIT_BAD_INPUT;
+      goto out;
+    }
+  lw_plot_set_theme (plot, s->theme);
+  LwPlotExportOptions eo = { .pdf_date = s->pdf_date, .pdf_title = s->title,
+                             .pdf_creator = LW_CLI_PROG " " PACKAGE_VERSION };
+  if (!lw_plot_export (plot, s->format, s->out, s->width, s->height, &eo, msg, sizeof msg))
+    {
+      g_printerr ("%s: %s: %s\n", LW_CLI_PROG, s->out, msg);
+      status = LW_EXIT_INTERNAL;
+    }
+  lw_plot_free (plot);
+out:
+  for (size_t i = 0; i < filled; i++)
+    lw_figure_variant_clear (&fv[i]);
+  return status;
+}
+
+static int
+plot_run (void *data)
+{
+  const PlotArgs *a = data;
+  LwCliLoop lp;
+  int status = lw_cli_loop_build ("plot", &a->loop, &lp);
+  if (status != LW_EXIT_OK)
+    return status;
+  PlotSpec spec;
+  LwEvaluation *ev = NULL;
+  LwError err;
+  lw_error_clear (&err);
+  LwAnalysisOptions opts;
+  lw_analysis_options_init (&opts);
+  opts.compute_delay = lp.compute_delay;
+  gint64 v;
+  status = plot_options_check (a, &spec);
+  if (status != LW_EXIT_OK)
+    goto out;
+  if (a->points != NULL)
+    {
+      if (!lw_cli_parse_integer ("--points", a->points, 16, 1000000, &v))
+        {
+          status = LW_EXIT_BAD_INPUT;
+          goto out;
+        }
+      opts.n_points = (size_t) v;
+    }
+  if (a->steps != NULL)
+    {
+      if (!lw_cli_parse_integer ("--steps", a->steps, 2, 10000000, &v))
+        {
+          status = LW_EXIT_BAD_INPUT;
+          goto out;
+        }
+      opts.n_steps = (size_t) v;
+    }
+  if (lw_evaluate (lp.sampled, lp.controller_z, &opts, &ev, &err) != LW_OK)
+    {
+      status = lw_cli_report_core_error ("plot", &err);
+      goto out;
+    }
+  PlotVariantSource src = { a->name ? a->name : "loop", lp.sampled, ev };
+  status = plot_write (&spec, &src, 1);
+out:
+  lw_evaluation_free (ev);
+  lw_cli_loop_clear (&lp);
+  return status;
+}
+
+int
+lw_cmd_plot (int argc, char **argv)
+{
+  PlotArgs a = { 0 };
+  const GOptionEntry entries[] = {
+    LW_CLI_LOOP_ENTRIES (&a.loop),
+    { "view", 0, 0, G_OPTION_ARG_STRING, &a.view, NULL, NULL },
+    { "out", 0, 0, G_OPTION_ARG_FILENAME, &a.out, NULL, NULL },
+    { "size", 0, 0, G_OPTION_ARG_STRING, &a.size, NULL, NULL },
+    { "theme", 0, 0, G_OPTION_ARG_STRING, &a.theme, NULL, NULL },
+    { "title", 0, 0, G_OPTION_ARG_STRING, &a.title, NULL, NULL },
+    { "name", 0, 0, G_OPTION_ARG_STRING, &a.name, NULL, NULL },
+    { "target-crossover", 0, 0, G_OPTION_ARG_STRING, &a.target, NULL, NULL },
+    { "min-phase-margin", 0, 0, G_OPTION_ARG_STRING, &a.min_pm, NULL, NULL },
+    { "pdf-date", 0, 0, G_OPTION_ARG_STRING, &a.pdf_date, NULL, NULL },
+    { "points", 0, 0, G_OPTION_ARG_STRING, &a.points, NULL, NULL },
+    { "steps", 0, 0, G_OPTION_ARG_STRING, &a.steps, NULL, NULL },
+    { "help", 'h', 0, G_OPTION_ARG_NONE, &a.help, NULL, NULL },
+    { NULL, 0, 0, 0, NULL, NULL, NULL }
+  };
+  int status = lw_cli_run_command ("plot", argc, argv, entries, &a.help, plot_help, plot_run,
+                                   &a);
+  lw_cli_loop_args_clear (&a.loop);
+  char **strs[] = { &a.view, &a.out, &a.size, &a.theme, &a.title, &a.name, &a.target,
+                    &a.min_pm, &a.pdf_date, &a.points, &a.steps };
+  for (size_t i = 0; i < G_N_ELEMENTS (strs); i++)
+    g_free (*strs[i]);
+  return status;
+}

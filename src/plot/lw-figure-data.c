@@ -1,0 +1,363 @@
+/* lw-figure-data.c — an evaluation turned into the plain figure structs (lw-figure-data.h).
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ */
+#include "lw-figure-data.h"
+
+#include <complex.h>
+#include <math.h>
+#include <stdlib.h>
+#include <string.h>
+
+#include <glib.h>
+
+#include "lw-response.h"
+
+/* Value of a curve y over ascending x at x0, linear in log10 x between neighbours (for the
+ * position of annotations only; the figures themselves come from the core). */
+static double
+interp_log (const double *x, const double *y, size_t n, double x0)
+{
+  if (n == 0)
+    return NAN;
+  if (x0 <= x[0])
+    return y[0];
+  if (x0 >= x[n - 1])
+    return y[n - 1];
+  size_t lo = 0, hi = n - 1;
+  while (hi - lo > 1)
+    {
+      size_t mid = lo + (hi - lo) / 2;
+      if (x[mid] <= x0)
+        lo = mid;
+      else
+        hi = mid;
+    }
+  double t = (log10 (x0) - log10 (x[lo])) / (log10 (x[hi]) - log10 (x[lo]));
+  return y[lo] + t * (y[hi] - y[lo]);
+}
+
+/* The phase of the curve at a crossover put on the branch of the figure: phase crossovers sit
+ * exactly on an odd multiple of 180°. */
+static void
+fill_crossovers (LwFigureVariant *fv, const LwEvaluation *ev)
+{
+  const LwMargins *m = &ev->margins;
+  size_t n = ev->n_points;
+  fv->z_gc = g_new0 (LwPlotCrossover, m->n_gain_crossovers + 1);
+  fv->w_gc = g_new0 (LwPlotCrossover, m->n_gain_crossovers + 1);
+  fv->z_pc = g_new0 (LwPlotCrossover, m->n_phase_crossovers + 1);
+  fv->w_pc = g_new0 (LwPlotCrossover, m->n_phase_crossovers + 1);
+  for (size_t i = 0; i < m->n_gain_crossovers; i++)
+    {
+      LwPlotCrossover *c = &fv->z_gc[i];
+      c->freq_rad_s = m->gain_crossovers_rad_s[i];
+      c->margin = m->phase_margins_deg[i];
+      c->mag_db = 0.0;
+      double ph = interp_log (ev->omega_rad_s, ev->loop_phase_deg, n, c->freq_rad_s);
+      /* the reference −180° line nearest the curve: ph − PM is an odd multiple of 180° */
+      double ref = 180.0 * (2.0 * round (((ph - c->margin) / 180.0 - 1.0) / 2.0) + 1.0);
+      c->phase_deg = ref + c->margin;
+      c->re = cos (c->phase_deg * G_PI / 180.0);
+      c->im = sin (c->phase_deg * G_PI / 180.0);
+      fv->w_gc[i] = *c;
+      fv->w_gc[i].freq_rad_s = lw_warp_omega_to_nu (c->freq_rad_s, ev->period_s);
+    }
+  for (size_t i = 0; i < m->n_phase_crossovers; i++)
+    {
+      LwPlotCrossover *c = &fv->z_pc[i];
+      c->freq_rad_s = m->phase_crossovers_rad_s[i];
+      c->margin = m->gain_margins_db[i];
+      c->mag_db = -c->margin;
+      double ph = interp_log (ev->omega_rad_s, ev->loop_phase_deg, n, c->freq_rad_s);
+      c->phase_deg = 180.0 * (2.0 * round ((ph / 180.0 - 1.0) / 2.0) + 1.0);
+      c->re = -pow (10.0, c->mag_db / 20.0);
+      c->im = 0.0;
+      fv->w_pc[i] = *c;
+      /* a phase crossover exactly at π/T maps to ν = ∞: leave it out of the w-plane view */
+      fv->w_pc[i].freq_rad_s = lw_warp_omega_to_nu (c->freq_rad_s, ev->period_s);
+    }
+  fv->v.z.gain_crossovers = fv->z_gc;
+  fv->v.z.n_gain_crossovers = m->n_gain_crossovers;
+  fv->v.z.phase_crossovers = fv->z_pc;
+  fv->v.z.n_phase_crossovers = m->n_phase_crossovers;
+  fv->v.w.gain_crossovers = fv->w_gc;
+  fv->v.w.n_gain_crossovers = m->n_gain_crossovers;
+  fv->v.w.phase_crossovers = fv->w_pc;
+  size_t nw = 0;
+  for (size_t i = 0; i < m->n_phase_crossovers; i++)
+    if (isfinite (fv->w_pc[i].freq_rad_s) && fv->w_pc[i].freq_rad_s > 0.0)
+      fv->w_pc[nw++] = fv->w_pc[i];
+  fv->v.w.n_phase_crossovers = nw;
+}
+
+LwZpk *
+lw_figure_loop_w (const LwEvaluation *ev)
+{
+  LwZpk *cp = lw_zpk_mul (ev->controller_w, ev->plant_w);
+  if (cp == NULL || ev->compute_delay <= 0)
+    return cp;
+  /* z^−1 = (1 − wT/2)/(1 + wT/2) = −(w − 2/T)/(w + 2/T) */
+  size_t N = (size_t) ev->compute_delay;
+  LwZpk *d = lw_zpk_new (LW_DOMAIN_W, ev->period_s, (N % 2) ? -1.0 : 1.0, N, N);
+  if (d == NULL)
+    {
+      lw_zpk_free (cp);
+      return NULL;
+    }
+  for (size_t i = 0; i < N; i++)
+    {
+      d->zeros[i] = 2.0 / ev->period_s;
+      d->poles[i] = -2.0 / ev->period_s;
+    }
+  LwZpk *l = lw_zpk_mul (cp, d);
+  lw_zpk_free (cp);
+  lw_zpk_free (d);
+  return l;
+}
+
+double
+lw_figure_w_end_rad_s (const LwZpk *loop_w, double period_s)
+{
+  double top = 2.0 / period_s;
+  for (size_t i = 0; loop_w && i < loop_w->n_zeros + loop_w->n_poles; i++)
+    {
+      double complex r = i < loop_w->n_zeros ? loop_w->zeros[i]
+                                             : loop_w->poles[i - loop_w->n_zeros];
+      double a = cabs (r);
+      if (isfinite (a) && a > top)
+        top = a;
+    }
+  top = fmin (top, 1e4 * 2.0 / period_s);
+  return pow (10.0, ceil (log10 (top) + 1.0 - 1e-9));
+}
+
+static int
+cmp_double (const void *a, const void *b)
+{
+  double x = *(const double *) a, y = *(const double *) b;
+  return (x > y) - (x < y);
+}
+
+static double
+asymptote_db_at (const LwZpk *h, double nu)
+{
+  double db = 20.0 * log10 (fabs (h->gain));
+  for (size_t i = 0; i < h->n_zeros; i++)
+    db += 20.0 * log10 (fmax (cabs (h->zeros[i]), nu));
+  for (size_t i = 0; i < h->n_poles; i++)
+    db -= 20.0 * log10 (fmax (cabs (h->poles[i]), nu));
+  return db;
+}
+
+size_t
+lw_figure_asymptote (const LwZpk *h, double nu_lo, double nu_hi, double *nu, double *db)
+{
+  size_t n = 0;
+  nu[n++] = nu_lo;
+  for (size_t i = 0; i < h->n_zeros + h->n_poles; i++)
+    {
+      double a = cabs (i < h->n_zeros ? h->zeros[i] : h->poles[i - h->n_zeros]);
+      if (a > nu_lo && a < nu_hi)
+        nu[n++] = a;
+    }
+  qsort (nu + 1, n - 1, sizeof (double), cmp_double);
+  /* equal corners (a conjugate pair) are one vertex */
+  size_t m = 1;
+  for (size_t i = 1; i < n; i++)
+    if (nu[i] != nu[m - 1])
+      nu[m++] = nu[i];
+  nu[m++] = nu_hi;
+  for (size_t i = 0; i < m; i++)
+    db[i] = asymptote_db_at (h, nu[i]);
+  return m;
+}
+
+/* The loop over ν: the evaluation's grid below π/T warped to ν, then extra points to the end
+ * of the axis; evaluated at ω = warp⁻¹(ν) from the state space. */
+static LwStatus
+fill_w_curve (LwFigureVariant *fv, const LwSampledPlant *plant, const LwEvaluation *ev,
+              LwError *err)
+{
+  double T = ev->period_s;
+  size_t nz = ev->n_points;
+  while (nz > 0 && !(ev->omega_rad_s[nz - 1] < G_PI / T * (1.0 - 1e-12)))
+    nz--;   /* the Nyquist end point maps to ν = ∞ */
+  if (nz < 2)
+    return lw_error_set (err, LW_ERR_INVALID, -1, "the frequency grid is too short for a figure");
+  LwZpk *lw = lw_figure_loop_w (ev);
+  if (lw == NULL)
+    return lw_error_set (err, LW_ERR_NOMEM, -1, "out of memory for the w-plane loop");
+  double nu_first = lw_warp_omega_to_nu (ev->omega_rad_s[0], T);
+  double nu_last = lw_warp_omega_to_nu (ev->omega_rad_s[nz - 1], T);
+  double nu_end = lw_figure_w_end_rad_s (lw, T);
+  size_t n_extra = nu_end > nu_last * 1.0001 ? LW_FIGURE_W_EXTRA_POINTS : 0;
+  size_t n = nz + n_extra;
+  double *omega = g_new (double, n);
+  fv->w_nu = g_new (double, n);
+  fv->w_mag = g_new (double, n);
+  fv->w_phase = g_new (double, n);
+  double *cm = g_new (double, n), *cph = g_new (double, n);
+  for (size_t i = 0; i < nz; i++)
+    {
+      omega[i] = ev->omega_rad_s[i];
+      fv->w_nu[i] = lw_warp_omega_to_nu (omega[i], T);
+    }
+  for (size_t j = 1; j <= n_extra; j++)
+    {
+      double t = (double) j / (double) n_extra;
+      double nu = pow (10.0, log10 (nu_last) + t * (log10 (nu_end) - log10 (nu_last)));
+      fv->w_nu[nz + j - 1] = nu;
+      omega[nz + j - 1] = lw_warp_nu_to_omega (nu, T);
+    }
+  LwStatus st = lw_sampled_plant_freq_response (plant, omega, n, fv->w_mag, fv->w_phase, err);
+  if (st == LW_OK)
+    st = lw_zpk_freq_response (ev->controller_z, omega, n, cm, cph, err);
+  if (st == LW_OK)
+    {
+      for (size_t i = 0; i < n; i++)
+        {
+          fv->w_mag[i] += cm[i];
+          fv->w_phase[i] += cph[i] - omega[i] * T * ev->compute_delay * 180.0 / G_PI;
+        }
+      /* the same branch as the evaluation's unwrapped phase */
+      double shift = 360.0 * round ((ev->loop_phase_deg[0] - fv->w_phase[0]) / 360.0);
+      for (size_t i = 0; i < n; i++)
+        fv->w_phase[i] += shift;
+      fv->v.w.n = n;
+      fv->v.w.freq_rad_s = fv->w_nu;
+      fv->v.w.mag_db = fv->w_mag;
+      fv->v.w.phase_deg = fv->w_phase;
+      size_t cap = lw->n_zeros + lw->n_poles + 2;
+      fv->asym_nu = g_new (double, cap);
+      fv->asym_db = g_new (double, cap);
+      fv->v.w.n_asymptote = lw_figure_asymptote (lw, nu_first, nu_end, fv->asym_nu, fv->asym_db);
+      fv->v.w.asymptote_freq_rad_s = fv->asym_nu;
+      fv->v.w.asymptote_db = fv->asym_db;
+    }
+  g_free (omega);
+  g_free (cm);
+  g_free (cph);
+  lw_zpk_free (lw);
+  return st;
+}
+
+static void
+split (const double complex *r, size_t n, double **re, double **im, size_t offset, size_t total)
+{
+  if (*re == NULL)
+    {
+      *re = g_new0 (double, total + 1);
+      *im = g_new0 (double, total + 1);
+    }
+  for (size_t i = 0; i < n; i++)
+    {
+      (*re)[offset + i] = creal (r[i]);
+      (*im)[offset + i] = cimag (r[i]);
+    }
+}
+
+static void
+fill_poles (LwFigureVariant *fv, const LwEvaluation *ev)
+{
+  LwPlotPoleData *d = &fv->v.poles;
+  split (ev->closed_loop_poles, ev->n_closed_loop_poles, &fv->cl_re, &fv->cl_im, 0,
+         ev->n_closed_loop_poles);
+  d->n_closed_loop = ev->n_closed_loop_poles;
+  d->cl_re = fv->cl_re;
+  d->cl_im = fv->cl_im;
+  /* loop L(z) = z^−N C(z) P(z): N poles at z = 0 (they start zero-filled) */
+  size_t N = ev->compute_delay > 0 ? (size_t) ev->compute_delay : 0;
+  size_t np = ev->plant_z->n_poles + ev->controller_z->n_poles + N;
+  split (ev->plant_z->poles, ev->plant_z->n_poles, &fv->pole_re, &fv->pole_im, 0, np);
+  split (ev->controller_z->poles, ev->controller_z->n_poles, &fv->pole_re, &fv->pole_im,
+         ev->plant_z->n_poles, np);
+  d->n_loop_poles = np;
+  d->pole_re = fv->pole_re;
+  d->pole_im = fv->pole_im;
+  size_t nz = ev->plant_z->n_zeros + ev->controller_z->n_zeros;
+  split (ev->plant_z->zeros, ev->plant_z->n_zeros, &fv->zero_re, &fv->zero_im, 0, nz);
+  split (ev->controller_z->zeros, ev->controller_z->n_zeros, &fv->zero_re, &fv->zero_im,
+         ev->plant_z->n_zeros, nz);
+  d->n_loop_zeros = nz;
+  d->zero_re = fv->zero_re;
+  d->zero_im = fv->zero_im;
+}
+
+LwStatus
+lw_figure_variant_fill (LwFigureVariant *fv, const char *name, const LwSampledPlant *plant,
+                        const LwEvaluation *ev, LwError *err)
+{
+  memset (fv, 0, sizeof *fv);
+  fv->v.name = name;
+  fv->v.z.n = ev->n_points;
+  fv->v.z.freq_rad_s = ev->omega_rad_s;
+  fv->v.z.mag_db = ev->loop_mag_db;
+  fv->v.z.phase_deg = ev->loop_phase_deg;
+  fill_crossovers (fv, ev);
+
+  fv->ny_re = g_new (double, ev->n_points + 1);
+  fv->ny_im = g_new (double, ev->n_points + 1);
+  for (size_t i = 0; i < ev->n_points; i++)
+    {
+      double r = pow (10.0, ev->loop_mag_db[i] / 20.0), a = ev->loop_phase_deg[i] * G_PI / 180.0;
+      fv->ny_re[i] = r * cos (a);
+      fv->ny_im[i] = r * sin (a);
+    }
+  fv->v.nyquist.n = ev->n_points;
+  fv->v.nyquist.re = fv->ny_re;
+  fv->v.nyquist.im = fv->ny_im;
+
+  fv->v.step.period_s = ev->period_s;
+  fv->v.step.n = ev->step.n;
+  fv->v.step.y = ev->step.samples;
+  fv->v.step.has_final = ev->step.has_final;
+  fv->v.step.final_value = ev->step.final_value;
+
+  fill_poles (fv, ev);
+  LwStatus st = fill_w_curve (fv, plant, ev, err);
+  if (st != LW_OK)
+    lw_figure_variant_clear (fv);
+  return st;
+}
+
+void
+lw_figure_variant_clear (LwFigureVariant *fv)
+{
+  if (fv == NULL)
+    return;
+  g_free (fv->z_gc);
+  g_free (fv->z_pc);
+  g_free (fv->w_gc);
+  g_free (fv->w_pc);
+  g_free (fv->w_nu);
+  g_free (fv->w_mag);
+  g_free (fv->w_phase);
+  g_free (fv->asym_nu);
+  g_free (fv->asym_db);
+  g_free (fv->ny_re);
+  g_free (fv->ny_im);
+  g_free (fv->cl_re);
+  g_free (fv->cl_im);
+  g_free (fv->pole_re);
+  g_free (fv->pole_im);
+  g_free (fv->zero_re);
+  g_free (fv->zero_im);
+  memset (fv, 0, sizeof *fv);
+}
+
+void
+lw_figure_requirements (LwPlotRequirements *r, double period_s, bool has_target_crossover,
+                        double target_crossover_rad_s, bool has_min_phase_margin,
+                        double min_phase_margin_deg)
+{
+  memset (r, 0, sizeof *r);
+  if (has_target_crossover && target_crossover_rad_s > 0.0
+      && target_crossover_rad_s < G_PI / period_s)
+    {
+      r->has_target_crossover = true;
+      r->target_crossover_rad_s = target_crossover_rad_s;
+      r->target_crossover_nu_rad_s = lw_warp_omega_to_nu (target_crossover_rad_s, period_s);
+    }
+  r->has_min_phase_margin = has_min_phase_margin;
+  r->min_phase_margin_deg = min_phase_margin_deg;
+}

@@ -1,0 +1,72 @@
+/* lw-figure-data.h — the adapter between the numerics core and the renderer: fills the plain
+ * structs of lw-plot.h from an LwEvaluation (and the sampled plant, for the w-plane curve).
+ * This is the only file of src/plot/ that includes core headers or computes anything.
+ *
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ */
+#pragma once
+
+#include <stdbool.h>
+#include <stddef.h>
+
+#include "lw-analysis.h"
+#include "lw-error.h"
+#include "lw-model.h"
+#include "lw-plot.h"
+
+#ifdef __cplusplus
+extern "C" {
+#endif
+
+/* One variant ready for lw_plot_new: `v` points into the arrays the adapter owns and into the
+ * evaluation (the z-plane curve and step samples are borrowed: keep the evaluation alive until
+ * lw_plot_new returns). Optional time series (continuous output, actuator signal and limits,
+ * e.g. from lw-simulate.h) can be set into v.step by the caller afterwards; they stay the
+ * caller's. */
+typedef struct {
+  LwPlotVariant v;
+  LwPlotCrossover *z_gc, *z_pc, *w_gc, *w_pc;
+  double *w_nu, *w_mag, *w_phase;
+  double *asym_nu, *asym_db;
+  double *ny_re, *ny_im;
+  double *cl_re, *cl_im, *pole_re, *pole_im, *zero_re, *zero_im;
+} LwFigureVariant;
+
+/* Points of the w-plane curve added beyond the evaluation's grid (toward ν → ∞). */
+#define LW_FIGURE_W_EXTRA_POINTS 400
+
+/* Fills fv for one evaluated loop (name: legend text or NULL, copied by lw_plot_new).
+ * The w-plane curve is evaluated at ν over the evaluation's grid warped to ν plus
+ * LW_FIGURE_W_EXTRA_POINTS points up to lw_figure_w_end_rad_s, from the sampled plant's state
+ * space at ω = (2/T)·atan(νT/2) (never through its computed zeros), the controller in z and
+ * the computation delay. */
+LwStatus lw_figure_variant_fill (LwFigureVariant *fv, const char *name,
+                                 const LwSampledPlant *plant, const LwEvaluation *ev,
+                                 LwError *err);
+void lw_figure_variant_clear (LwFigureVariant *fv);
+
+/* The loop in the w-plane, factored: C(w)·P(w)·((1 − wT/2)/(1 + wT/2))^N — the computation
+ * delay z^−N mapped by the bilinear transform. New model or NULL. */
+LwZpk *lw_figure_loop_w (const LwEvaluation *ev);
+
+/* Where the w-plane axis ends (rad/s): one decade above the larger of 2/T and the largest
+ * finite root magnitude of the loop in w, rounded up to a whole decade, at most 10⁴·2/T. */
+double lw_figure_w_end_rad_s (const LwZpk *loop_w, double period_s);
+
+/* Straight-line asymptote of |H(jν)| for a factored model H in w (or s): each root r breaks
+ * the line at |r| (a root at 0 acts from the start), ±20 dB/decade per zero/pole:
+ *   |H|_asym(ν) = |gain| · Π_zeros max(|z|, ν) / Π_poles max(|p|, ν).
+ * Writes the vertices on [nu_lo, nu_hi] (0 < nu_lo < nu_hi, rad/s): the two ends and every
+ * corner strictly between, ascending, into nu[] and db[] (each with room for
+ * n_zeros + n_poles + 2). Returns the number written. */
+size_t lw_figure_asymptote (const LwZpk *h, double nu_lo, double nu_hi, double *nu, double *db);
+
+/* Requirement marks for the Bode views from the targets (ω in rad/s, degrees, dB); the target
+ * crossover is warped to ν for the w-plane view. */
+void lw_figure_requirements (LwPlotRequirements *r, double period_s, bool has_target_crossover,
+                             double target_crossover_rad_s, bool has_min_phase_margin,
+                             double min_phase_margin_deg);
+
+#ifdef __cplusplus
+}
+#endif

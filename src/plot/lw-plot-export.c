@@ -1,0 +1,125 @@
+/* lw-plot-export.c — PNG, SVG and PDF files of a figure (lw-plot-export.h).
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ */
+#include "lw-plot-export.h"
+
+#include <stdio.h>
+#include <string.h>
+
+#include <cairo-pdf.h>
+#include <cairo-svg.h>
+#include <glib.h>
+
+#define FIXED_PDF_DATE "2000-01-01T00:00:00Z"
+
+int
+lw_plot_format_from_path (const char *path)
+{
+  const char *dot = path ? strrchr (path, '.') : NULL;
+  if (dot == NULL)
+    return -1;
+  if (g_ascii_strcasecmp (dot, ".png") == 0)
+    return LW_PLOT_FORMAT_PNG;
+  if (g_ascii_strcasecmp (dot, ".svg") == 0)
+    return LW_PLOT_FORMAT_SVG;
+  if (g_ascii_strcasecmp (dot, ".pdf") == 0)
+    return LW_PLOT_FORMAT_PDF;
+  return -1;
+}
+
+static cairo_status_t
+append_bytes (void *closure, const unsigned char *data, unsigned int length)
+{
+  g_byte_array_append (closure, data, length);
+  return CAIRO_STATUS_SUCCESS;
+}
+
+static void
+set_err (char *err, size_t size, const char *what, cairo_status_t st)
+{
+  if (err)
+    snprintf (err, size, "%s: %s", what, cairo_status_to_string (st));
+}
+
+bool
+lw_plot_render (LwPlot *p, LwPlotFormat format, double width, double height,
+                const LwPlotExportOptions *opts, unsigned char **out, size_t *out_len,
+                char *err, size_t err_size)
+{
+  g_return_val_if_fail (p != NULL && out != NULL && out_len != NULL, false);
+  if (!(width >= 16 && height >= 16 && width <= 20000 && height <= 20000))
+    {
+      if (err)
+        snprintf (err, err_size, "the size %gx%g is outside 16 to 20000", width, height);
+      return false;
+    }
+  GByteArray *bytes = g_byte_array_new ();
+  cairo_surface_t *s = NULL;
+  switch (format)
+    {
+    case LW_PLOT_FORMAT_PNG:
+      s = cairo_image_surface_create (CAIRO_FORMAT_ARGB32, (int) width, (int) height);
+      break;
+    case LW_PLOT_FORMAT_SVG:
+      s = cairo_svg_surface_create_for_stream (append_bytes, bytes, width, height);
+      cairo_svg_surface_restrict_to_version (s, CAIRO_SVG_VERSION_1_1);
+      break;
+    case LW_PLOT_FORMAT_PDF:
+      s = cairo_pdf_surface_create_for_stream (append_bytes, bytes, width, height);
+      cairo_pdf_surface_set_metadata (s, CAIRO_PDF_METADATA_CREATE_DATE,
+                                      opts && opts->pdf_date ? opts->pdf_date : FIXED_PDF_DATE);
+      if (opts && opts->pdf_title)
+        cairo_pdf_surface_set_metadata (s, CAIRO_PDF_METADATA_TITLE, opts->pdf_title);
+      if (opts && opts->pdf_creator)
+        cairo_pdf_surface_set_metadata (s, CAIRO_PDF_METADATA_CREATOR, opts->pdf_creator);
+      break;
+    default:
+      g_byte_array_unref (bytes);
+      if (err)
+        snprintf (err, err_size, "unknown figure format %d", (int) format);
+      return false;
+    }
+  cairo_status_t st = cairo_surface_status (s);
+  if (st == CAIRO_STATUS_SUCCESS)
+    {
+      cairo_t *cr = cairo_create (s);
+      lw_plot_draw_static (p, cr, width, height);
+      st = cairo_status (cr);
+      cairo_destroy (cr);
+    }
+  if (st == CAIRO_STATUS_SUCCESS && format == LW_PLOT_FORMAT_PNG)
+    st = cairo_surface_write_to_png_stream (s, append_bytes, bytes);
+  cairo_surface_finish (s);
+  if (st == CAIRO_STATUS_SUCCESS)
+    st = cairo_surface_status (s);
+  cairo_surface_destroy (s);
+  if (st != CAIRO_STATUS_SUCCESS)
+    {
+      set_err (err, err_size, "cannot render the figure", st);
+      g_byte_array_unref (bytes);
+      return false;
+    }
+  *out_len = bytes->len;
+  *out = g_byte_array_free (bytes, FALSE);
+  return true;
+}
+
+bool
+lw_plot_export (LwPlot *p, LwPlotFormat format, const char *path, double width, double height,
+                const LwPlotExportOptions *opts, char *err, size_t err_size)
+{
+  unsigned char *data = NULL;
+  size_t len = 0;
+  if (!lw_plot_render (p, format, width, height, opts, &data, &len, err, err_size))
+    return false;
+  GError *gerr = NULL;
+  bool ok = g_file_set_contents (path, (const char *) data, (gssize) len, &gerr);
+  if (!ok)
+    {
+      if (err)
+        snprintf (err, err_size, "%s", gerr->message);
+      g_error_free (gerr);
+    }
+  g_free (data);
+  return ok;
+}

@@ -1,0 +1,54 @@
+/* lw-plot-export.h — a figure written to a PNG, SVG or PDF file.
+ *
+ * The file is rendered in memory and then written by g_file_set_contents (a temporary file
+ * beside the target, renamed over it), so a failed export leaves an older file intact.
+ *
+ * Reproducibility (checked with cairo 1.16, see docs/plot.md): the same figure gives the same
+ * bytes each time. SVG: cairo numbers its ids (glyph0-1, clip1, …) in drawing order and writes
+ * no date. PDF: cairo writes a /CreationDate of the current time unless one is set; we always
+ * set one — the caller's (pdf_date) or, without it, a fixed 2000-01-01T00:00:00Z that means
+ * "not stated" — so a PDF is reproducible unless the caller asks for a date.
+ *
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ */
+#pragma once
+
+#include <stdbool.h>
+#include <stddef.h>
+
+#include "lw-plot.h"
+
+#ifdef __cplusplus
+extern "C" {
+#endif
+
+typedef enum {
+  LW_PLOT_FORMAT_PNG = 0,
+  LW_PLOT_FORMAT_SVG,
+  LW_PLOT_FORMAT_PDF
+} LwPlotFormat;
+
+/* The format named by a path's extension (.png, .svg, .pdf, any case); -1 for another. */
+int lw_plot_format_from_path (const char *path);
+
+typedef struct {
+  const char *pdf_date;     /* PDF creation date, "YYYY-MM-DDThh:mm:ss" with optional zone, or
+                               NULL for the fixed "not stated" date (see top) */
+  const char *pdf_title;    /* PDF title metadata, or NULL */
+  const char *pdf_creator;  /* PDF creator metadata, or NULL */
+} LwPlotExportOptions;
+
+/* Draws the static layer of p at width × height (pixels for PNG, points for SVG and PDF) and
+ * writes it to path. opts may be NULL. false with a one-sentence message in err (may be NULL)
+ * when rendering or writing failed. */
+bool lw_plot_export (LwPlot *p, LwPlotFormat format, const char *path, double width,
+                     double height, const LwPlotExportOptions *opts, char *err, size_t err_size);
+
+/* The same into memory: *out (g_free) and *out_len. */
+bool lw_plot_render (LwPlot *p, LwPlotFormat format, double width, double height,
+                     const LwPlotExportOptions *opts, unsigned char **out, size_t *out_len,
+                     char *err, size_t err_size);
+
+#ifdef __cplusplus
+}
+#endif

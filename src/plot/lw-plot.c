@@ -1,0 +1,1577 @@
+/* lw-plot.c — the figure renderer (lw-plot.h).
+ *
+ * A view is turned once, in lw_plot_new, into panels of primitives (polylines, markers, texts,
+ * bands, circles) whose points are already mapped to [0, 1] by the panel's axes. Drawing scales
+ * them to the panel rectangles; nothing is recomputed when only the size changes.
+ *
+ * Style of our own: colour means a variant (a subset of the Okabe–Ito colour-universal-design
+ * set, see docs/plot.md) and each variant also has its own dash pattern; everything that is a
+ * reference (0 dB, −180°, the unit circle, the Nyquist line, requirement marks) is a neutral
+ * grey of the theme. A margin is drawn as a short thick "gauge" bar from the reference to the
+ * curve at its crossover, with a thin dotted drop line joining the magnitude and phase panels
+ * and a small label ("PM 52.3°", "GM 8.1 dB") on a background plate.
+ *
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ */
+#include "lw-plot.h"
+
+#include <math.h>
+#include <stdio.h>
+#include <string.h>
+
+#include <glib.h>
+#include <pango/pangocairo.h>
+
+#define MAX_PANELS 3
+#define MAX_TICKS 512
+#define GAUGE_WIDTH 3.0
+#define DROP_WIDTH 0.8
+#define THIN_WIDTH 1.0
+#define MAX_LABELLED_CROSSOVERS 3
+/* Nyquist diagram and pole map: points with |L| (or |z|) beyond this are left out of the
+ * automatic range (the curve is clipped, not dropped). Common practice, no source. */
+#define NYQUIST_RANGE_CAP 2.0
+#define POLE_RANGE_CAP 4.0
+/* Magnitude axes show at most this many dB below the highest point of the curves. */
+#define MAG_DEPTH_DB 140.0
+
+/* ---- themes ---------------------------------------------------------------------------- */
+
+typedef struct {
+  double bg[3], text[3], frame[3], grid_major[3], grid_minor[3], ref[3], nyquist[3];
+  double palette[LW_PLOT_MAX_VARIANTS][3];
+} Theme;
+
+#define HEX(h) { ((h) >> 16 & 0xff) / 255.0, ((h) >> 8 & 0xff) / 255.0, ((h) & 0xff) / 255.0 }
+
+/* Palettes: members of the Okabe–Ito set (Okabe and Ito 2008, "Color Universal Design"),
+ * ordered so the first colours stay apart under deuteranopia, protanopia and tritanopia
+ * (checked by tests/plot/test-palette.py with the Machado 2009 simulation); the dark theme
+ * swaps the dark blue for sky blue and vermillion for yellow, which read better on a dark
+ * background. The palette test reads the two lists between "PALETTE_…:" and ":END". */
+static const Theme themes[2] = {
+  { /* light */
+    HEX (0xffffff), HEX (0x1a1a1a), HEX (0x4d4d4d), HEX (0xd2d2d2), HEX (0xececec),
+    HEX (0x7f7f7f), HEX (0x3a3a3a),
+    { /* PALETTE_LIGHT: */ HEX (0x0072b2), HEX (0xd55e00), HEX (0x009e73), HEX (0xcc79a7),
+      HEX (0xe69f00), HEX (0x56b4e9) /* :END */ } },
+  { /* dark */
+    HEX (0x1e1f22), HEX (0xe6e6e6), HEX (0xa0a0a0), HEX (0x3c3e43), HEX (0x2c2e32),
+    HEX (0x8c8f95), HEX (0xcfcfcf),
+    { /* PALETTE_DARK: */ HEX (0x56b4e9), HEX (0xe69f00), HEX (0x009e73), HEX (0xcc79a7),
+      HEX (0xf0e442), HEX (0xd55e00) /* :END */ } },
+};
+
+/* Dash pattern of variant i (user units; empty = solid). */
+static const double dash_patterns[LW_PLOT_MAX_VARIANTS][6] = {
+  { 0 }, { 7, 3 }, { 8, 3, 2, 3 }, { 2, 2.5 }, { 12, 4 }, { 8, 3, 2, 3, 2, 3 },
+};
+static const int dash_lengths[LW_PLOT_MAX_VARIANTS] = { 0, 2, 4, 2, 2, 6 };
+
+void
+lw_plot_variant_colour (LwPlotTheme theme, size_t i, double rgb[3])
+{
+  const Theme *t = &themes[theme == LW_PLOT_THEME_DARK ? 1 : 0];
+  memcpy (rgb, t->palette[i % LW_PLOT_MAX_VARIANTS], 3 * sizeof (double));
+}
+
+/* ---- figure model ---------------------------------------------------------------------- */
+
+typedef enum { COL_VARIANT, COL_TEXT, COL_REF, COL_NYQUIST, COL_FRAME } ColourRole;
+typedef enum { DASH_SOLID, DASH_VARIANT, DASH_DOTTED, DASH_DASHED, DASH_DASHDOT } DashRole;
+typedef enum {
+  PRIM_LINE,      /* polyline u[], v[]; NaN breaks it */
+  PRIM_MARK,      /* markers at each point */
+  PRIM_TEXT,      /* text at (u[0], v[0]) + pixel offset */
+  PRIM_HBAND,     /* band between v[0] and v[1] across the panel */
+  PRIM_CIRCLE,    /* circle centre (u[0], v[0]), radius r_units of the x axis (equal aspect) */
+  PRIM_ARC        /* arc of the circle from angle a0 to a1 (degrees, data space) */
+} PrimKind;
+typedef enum { MARK_CIRCLE, MARK_DISC, MARK_DIAMOND, MARK_CROSS, MARK_PLUS } MarkShape;
+
+typedef struct {
+  PrimKind kind;
+  ColourRole colour;
+  size_t variant;
+  DashRole dash;
+  double width;
+  double alpha;
+  size_t n;
+  double *u, *v;
+  MarkShape shape;
+  double size;
+  char *text;
+  double dx, dy;         /* text offset, user units */
+  double ax, ay;         /* text anchor: 0 left/top, 0.5 centre, 1 right/bottom */
+  bool plate;            /* background plate behind the text */
+  double r_units, a0, a1;
+} Prim;
+
+typedef struct {
+  LwPlotAxis x, y;
+  const char *x_label, *y_label;   /* static strings */
+  const char *x_name, *x_unit, *y_name, *y_unit;
+  bool x_tick_labels;
+  bool equal_aspect;
+  GPtrArray *prims;
+  double rx, ry, rw, rh;            /* plot area of the last layout */
+} Panel;
+
+struct LwPlot {
+  LwPlotView view;
+  LwPlotTheme theme;
+  char *title;
+  size_t n_variants;
+  char *names[LW_PLOT_MAX_VARIANTS];
+  size_t n_panels;
+  Panel panels[MAX_PANELS];
+  double width, height;
+  int legend_rows;
+  bool laid_out;
+};
+
+static void
+prim_free (gpointer data)
+{
+  Prim *p = data;
+  g_free (p->u);
+  g_free (p->v);
+  g_free (p->text);
+  g_free (p);
+}
+
+static Prim *
+prim_add (Panel *pn, PrimKind kind, size_t n)
+{
+  Prim *p = g_new0 (Prim, 1);
+  p->kind = kind;
+  p->n = n;
+  p->u = g_new0 (double, n > 0 ? n : 1);
+  p->v = g_new0 (double, n > 0 ? n : 1);
+  p->alpha = 1.0;
+  p->width = THIN_WIDTH;
+  p->colour = COL_REF;
+  p->dash = DASH_SOLID;
+  g_ptr_array_add (pn->prims, p);
+  return p;
+}
+
+static double
+mx (const Panel *pn, double x)
+{
+  return lw_plot_axis_map (&pn->x, x);
+}
+
+static double
+my (const Panel *pn, double y)
+{
+  return lw_plot_axis_map (&pn->y, y);
+}
+
+/* A polyline of data points (x[i], y[i]); non-finite values break it. */
+static Prim *
+add_line (Panel *pn, size_t n, const double *x, const double *y)
+{
+  Prim *p = prim_add (pn, PRIM_LINE, n);
+  for (size_t i = 0; i < n; i++)
+    {
+      p->u[i] = isfinite (x[i]) ? mx (pn, x[i]) : NAN;
+      p->v[i] = isfinite (y[i]) ? my (pn, y[i]) : NAN;
+    }
+  return p;
+}
+
+static Prim *
+add_segment (Panel *pn, double x0, double y0, double x1, double y1)
+{
+  double x[2] = { x0, x1 }, y[2] = { y0, y1 };
+  return add_line (pn, 2, x, y);
+}
+
+static Prim *
+add_vline (Panel *pn, double x)
+{
+  Prim *p = prim_add (pn, PRIM_LINE, 2);
+  p->u[0] = p->u[1] = mx (pn, x);
+  p->v[0] = 0.0;
+  p->v[1] = 1.0;
+  return p;
+}
+
+static Prim *
+add_hline (Panel *pn, double y)
+{
+  Prim *p = prim_add (pn, PRIM_LINE, 2);
+  p->u[0] = 0.0;
+  p->u[1] = 1.0;
+  p->v[0] = p->v[1] = my (pn, y);
+  return p;
+}
+
+static Prim *
+add_mark (Panel *pn, double x, double y, MarkShape shape, double size)
+{
+  Prim *p = prim_add (pn, PRIM_MARK, 1);
+  p->u[0] = mx (pn, x);
+  p->v[0] = my (pn, y);
+  p->shape = shape;
+  p->size = size;
+  return p;
+}
+
+/* Text at data (x, y), or at mapped (u, v) when x, y are NaN and u, v given. */
+static Prim *
+add_text_uv (Panel *pn, double u, double v, const char *text, double dx, double dy, double ax,
+             double ay)
+{
+  Prim *p = prim_add (pn, PRIM_TEXT, 1);
+  p->u[0] = u;
+  p->v[0] = v;
+  p->text = g_strdup (text);
+  p->dx = dx;
+  p->dy = dy;
+  p->ax = ax;
+  p->ay = ay;
+  p->colour = COL_TEXT;
+  return p;
+}
+
+static Prim *
+add_text (Panel *pn, double x, double y, const char *text, double dx, double dy, double ax,
+          double ay)
+{
+  return add_text_uv (pn, mx (pn, x), my (pn, y), text, dx, dy, ax, ay);
+}
+
+static Prim *
+style_variant (Prim *p, size_t variant, double width)
+{
+  p->colour = COL_VARIANT;
+  p->variant = variant;
+  p->width = width;
+  return p;
+}
+
+static void
+panel_init (Panel *pn)
+{
+  memset (pn, 0, sizeof *pn);
+  pn->prims = g_ptr_array_new_with_free_func (prim_free);
+  pn->x_tick_labels = true;
+}
+
+/* ---- ranges ---------------------------------------------------------------------------- */
+
+typedef struct {
+  double lo, hi;
+  bool any;
+} Extent;
+
+static void
+extent_add (Extent *e, double v)
+{
+  if (!isfinite (v))
+    return;
+  if (!e->any)
+    {
+      e->lo = e->hi = v;
+      e->any = true;
+      return;
+    }
+  e->lo = fmin (e->lo, v);
+  e->hi = fmax (e->hi, v);
+}
+
+/* The largest 1, 2 or 5 × 10^k not above v > 0: where a frequency axis starts. */
+static double
+floor_125 (double v)
+{
+  double d = pow (10.0, floor (log10 (v) + 1e-12));
+  static const double m[] = { 5, 2, 1 };
+  for (int i = 0; i < 3; i++)
+    if (m[i] * d <= v * (1.0 + 1e-12))
+      return m[i] * d;
+  return d;
+}
+
+/* Equal-aspect panels: widen the narrower range about its centre so the figure fills a plot
+ * area of aspect EQUAL_ASPECT (width / height), the usual landscape shape. */
+#define EQUAL_ASPECT 1.3
+static void
+widen_to_aspect (Extent *ex, Extent *ey)
+{
+  double w = ex->hi - ex->lo, h = ey->hi - ey->lo;
+  if (w < EQUAL_ASPECT * h)
+    {
+      double c = 0.5 * (ex->lo + ex->hi);
+      ex->lo = c - 0.5 * EQUAL_ASPECT * h;
+      ex->hi = c + 0.5 * EQUAL_ASPECT * h;
+    }
+  else
+    {
+      double c = 0.5 * (ey->lo + ey->hi);
+      ey->lo = c - 0.5 * w / EQUAL_ASPECT;
+      ey->hi = c + 0.5 * w / EQUAL_ASPECT;
+    }
+}
+
+static void
+axis_from_extent (LwPlotAxis *a, LwPlotScale scale, LwPlotTickStyle style, Extent e,
+                  int target_majors)
+{
+  double lo, hi;
+  lw_plot_nice_range (scale, style, e.lo, e.hi, target_majors, &lo, &hi);
+  lw_plot_axis_init (a, scale, style, lo, hi);
+}
+
+/* ---- Bode ------------------------------------------------------------------------------ */
+
+static void
+format_margin (char *buf, size_t size, const char *what, double value, const char *unit)
+{
+  char num[32];
+  snprintf (num, sizeof num, "%.1f", fabs (value));
+  snprintf (buf, size, "%s %s%s%s", what, value < 0 ? "\u2212" : "", num, unit);
+}
+
+/* Odd multiples of 180° inside the axis: the −180° reference lines. */
+static void
+add_phase_references (Panel *pn, const LwPlotAxis *a, bool vertical)
+{
+  for (int k = (int) floor ((a->lo - 180.0) / 360.0); k <= (int) ceil ((a->hi + 180.0) / 360.0);
+       k++)
+    {
+      double v = 180.0 + 360.0 * k;
+      if (v < a->lo || v > a->hi)
+        continue;
+      Prim *p = vertical ? add_vline (pn, v) : add_hline (pn, v);
+      p->colour = COL_REF;
+      p->width = 1.2;
+    }
+}
+
+static void
+build_bode (LwPlot *pl, const LwPlotInput *in, bool w_plane)
+{
+  Panel *mag = &pl->panels[0], *ph = &pl->panels[1];
+  pl->n_panels = 2;
+  Extent ex = { 0 }, em = { 0 }, ep = { 0 };
+  for (size_t v = 0; v < in->n_variants; v++)
+    {
+      const LwPlotFreqCurve *c = w_plane ? &in->variants[v].w : &in->variants[v].z;
+      for (size_t i = 0; i < c->n; i++)
+        if (c->freq_rad_s[i] > 0.0)
+          extent_add (&ex, c->freq_rad_s[i]);
+    }
+  for (size_t v = 0; v < in->n_variants; v++)
+    {
+      const LwPlotFreqCurve *c = w_plane ? &in->variants[v].w : &in->variants[v].z;
+      for (size_t i = 0; i < c->n; i++)
+        {
+          extent_add (&em, c->mag_db[i]);
+          extent_add (&ep, c->phase_deg[i]);
+        }
+    }
+  /* the magnitude axis keeps 0 dB in view and at most MAG_DEPTH_DB below the top */
+  extent_add (&em, 10.0);
+  extent_add (&em, -10.0);
+  if (em.lo < em.hi - MAG_DEPTH_DB)
+    em.lo = em.hi - MAG_DEPTH_DB;
+  extent_add (&ep, -180.0);
+
+  axis_from_extent (&mag->x, LW_PLOT_SCALE_LOG, LW_PLOT_TICKS_PLAIN, ex, 6);
+  if (ex.any && ex.lo > 0.0)
+    mag->x.lo = floor_125 (ex.lo);   /* start at the data, on a 1-2-5 value */
+  if (!w_plane && in->nyquist_rad_s > mag->x.lo)
+    mag->x.hi = in->nyquist_rad_s;   /* the z-plane axis ends at π/T exactly */
+  axis_from_extent (&mag->y, LW_PLOT_SCALE_LINEAR, LW_PLOT_TICKS_PLAIN, em, 6);
+  ph->x = mag->x;
+  axis_from_extent (&ph->y, LW_PLOT_SCALE_LINEAR, LW_PLOT_TICKS_DEGREES, ep, 6);
+
+  const char *fname = w_plane ? "\u03bd" : "\u03c9";
+  mag->x_tick_labels = false;
+  mag->x_name = ph->x_name = fname;
+  mag->x_unit = ph->x_unit = "rad/s";
+  ph->x_label = w_plane ? "\u03bd (rad/s), w-plane" : "\u03c9 (rad/s)";
+  mag->y_label = "|L| (dB)";
+  mag->y_name = "|L|";
+  mag->y_unit = "dB";
+  ph->y_label = "\u2220L (\u00b0)";
+  ph->y_name = "\u2220L";
+  ph->y_unit = "\u00b0";
+
+  /* references */
+  Prim *p = add_hline (mag, 0.0);
+  p->width = 1.2;
+  add_phase_references (ph, &ph->y, false);
+
+  /* requirement marks */
+  const LwPlotRequirements *rq = &in->req;
+  if (rq->has_min_phase_margin)
+    for (int k = -8; k <= 8; k++)
+      {
+        double ref = 180.0 + 360.0 * k;
+        double top = ref + rq->min_phase_margin_deg;
+        if (ref < ph->y.lo || ref > ph->y.hi)
+          continue;
+        Prim *b = prim_add (ph, PRIM_HBAND, 2);
+        b->v[0] = my (ph, ref);
+        b->v[1] = my (ph, fmin (top, ph->y.hi));
+        b->alpha = 0.10;
+        b->colour = COL_TEXT;
+        Prim *l = add_hline (ph, top);
+        l->dash = DASH_DOTTED;
+        char buf[64];
+        snprintf (buf, sizeof buf, "required PM \u2265 %.0f\u00b0", rq->min_phase_margin_deg);
+        add_text_uv (ph, 0.0, my (ph, top), buf, 4, -2, 0.0, 1.0)->colour = COL_REF;
+      }
+  double target = w_plane ? rq->target_crossover_nu_rad_s : rq->target_crossover_rad_s;
+  if (rq->has_target_crossover && target >= mag->x.lo && target <= mag->x.hi)
+    {
+      for (int k = 0; k < 2; k++)
+        {
+          Prim *l = add_vline (&pl->panels[k], target);
+          l->dash = DASH_DASHED;
+          l->width = 1.2;
+        }
+      add_mark (mag, target, NAN, MARK_DIAMOND, 7)->v[0] = 1.0;
+      char buf[64];
+      snprintf (buf, sizeof buf, "target crossover %.3g rad/s", target);
+      add_text_uv (mag, mx (mag, target), 1.0, buf, 5, 3, 0.0, 0.0)->colour = COL_REF;
+    }
+  if (!w_plane)
+    {
+      for (int k = 0; k < 2; k++)
+        {
+          Prim *l = add_vline (&pl->panels[k], mag->x.hi);
+          l->colour = COL_NYQUIST;
+          l->width = 2.0;
+          l->dash = DASH_DASHDOT;
+        }
+      char buf[64];
+      snprintf (buf, sizeof buf, "Nyquist \u03c0/T = %.4g rad/s", in->nyquist_rad_s);
+      Prim *t = add_text_uv (mag, 1.0, 1.0, buf, -5, 3, 1.0, 0.0);
+      t->plate = true;
+    }
+
+  /* curves, asymptotes */
+  for (size_t v = 0; v < in->n_variants; v++)
+    {
+      const LwPlotFreqCurve *c = w_plane ? &in->variants[v].w : &in->variants[v].z;
+      if (c->n_asymptote >= 2)
+        {
+          Prim *a = add_line (mag, c->n_asymptote, c->asymptote_freq_rad_s, c->asymptote_db);
+          style_variant (a, v, THIN_WIDTH);
+          a->dash = DASH_DASHED;
+          a->alpha = 0.8;
+        }
+      Prim *pm = add_line (mag, c->n, c->freq_rad_s, c->mag_db);
+      style_variant (pm, v, LW_PLOT_CURVE_WIDTH);
+      pm->dash = DASH_VARIANT;
+      Prim *pc = add_line (ph, c->n, c->freq_rad_s, c->phase_deg);
+      style_variant (pc, v, LW_PLOT_CURVE_WIDTH);
+      pc->dash = DASH_VARIANT;
+    }
+
+  /* margin annotations: drop line, gauge bar, label on a plate */
+  for (size_t v = 0; v < in->n_variants; v++)
+    {
+      const LwPlotFreqCurve *c = w_plane ? &in->variants[v].w : &in->variants[v].z;
+      double stack = 13.0 * (double) v;
+      for (size_t i = 0; i < c->n_gain_crossovers; i++)
+        {
+          const LwPlotCrossover *x = &c->gain_crossovers[i];
+          double f = x->freq_rad_s, ref = x->phase_deg - x->margin;
+          style_variant (add_segment (mag, f, 0.0, f, mag->y.lo), v, DROP_WIDTH)->dash =
+            DASH_DOTTED;
+          style_variant (add_segment (ph, f, ph->y.hi, f, x->phase_deg), v, DROP_WIDTH)->dash =
+            DASH_DOTTED;
+          style_variant (add_segment (ph, f, ref, f, x->phase_deg), v, GAUGE_WIDTH);
+          style_variant (add_mark (mag, f, 0.0, MARK_CIRCLE, 7), v, 1.3);
+          style_variant (add_mark (ph, f, x->phase_deg, MARK_DISC, 5), v, 1.0);
+          if (i < MAX_LABELLED_CROSSOVERS)
+            {
+              char buf[48];
+              format_margin (buf, sizeof buf, "PM", x->margin, "\u00b0");
+              Prim *t = add_text (ph, f, 0.5 * (ref + x->phase_deg), buf, 6, stack, 0.0, 0.5);
+              t->plate = true;
+              t->colour = COL_VARIANT;
+              t->variant = v;
+            }
+        }
+      for (size_t i = 0; i < c->n_phase_crossovers; i++)
+        {
+          const LwPlotCrossover *x = &c->phase_crossovers[i];
+          double f = x->freq_rad_s;
+          style_variant (add_segment (ph, f, x->phase_deg, f, ph->y.hi), v, DROP_WIDTH)->dash =
+            DASH_DOTTED;
+          style_variant (add_segment (mag, f, mag->y.lo, f, x->mag_db), v, DROP_WIDTH)->dash =
+            DASH_DOTTED;
+          style_variant (add_segment (mag, f, x->mag_db, f, 0.0), v, GAUGE_WIDTH);
+          style_variant (add_mark (ph, f, x->phase_deg, MARK_DIAMOND, 7), v, 1.3);
+          if (i < MAX_LABELLED_CROSSOVERS)
+            {
+              char buf[48];
+              format_margin (buf, sizeof buf, "GM", x->margin, " dB");
+              Prim *t = add_text (mag, f, 0.5 * x->mag_db, buf, 6, stack, 0.0, 0.5);
+              t->plate = true;
+              t->colour = COL_VARIANT;
+              t->variant = v;
+            }
+        }
+    }
+}
+
+/* ---- Nyquist --------------------------------------------------------------------------- */
+
+static void
+build_nyquist (LwPlot *pl, const LwPlotInput *in)
+{
+  Panel *pn = &pl->panels[0];
+  pl->n_panels = 1;
+  pn->equal_aspect = true;
+  Extent ex = { 0 }, ey = { 0 };
+  extent_add (&ex, -1.5);
+  extent_add (&ex, 1.0);
+  extent_add (&ey, -1.2);
+  extent_add (&ey, 1.2);
+  for (size_t v = 0; v < in->n_variants; v++)
+    {
+      const LwPlotComplexCurve *c = &in->variants[v].nyquist;
+      for (size_t i = 0; i < c->n; i++)
+        if (hypot (c->re[i], c->im[i]) <= NYQUIST_RANGE_CAP)
+          {
+            extent_add (&ex, c->re[i]);
+            extent_add (&ey, c->im[i]);
+            extent_add (&ey, -c->im[i]);
+          }
+    }
+  widen_to_aspect (&ex, &ey);
+  axis_from_extent (&pn->x, LW_PLOT_SCALE_LINEAR, LW_PLOT_TICKS_PLAIN, ex, 6);
+  axis_from_extent (&pn->y, LW_PLOT_SCALE_LINEAR, LW_PLOT_TICKS_PLAIN, ey, 6);
+  pn->x_label = "Re L";
+  pn->y_label = "Im L";
+  pn->x_name = "Re";
+  pn->y_name = "Im";
+  pn->x_unit = pn->y_unit = "";
+
+  add_hline (pn, 0.0);
+  add_vline (pn, 0.0);
+  Prim *uc = prim_add (pn, PRIM_CIRCLE, 1);
+  uc->u[0] = mx (pn, 0.0);
+  uc->v[0] = my (pn, 0.0);
+  uc->r_units = 1.0;
+  uc->dash = DASH_DASHED;
+  uc->width = 1.2;
+  add_text (pn, 0.7071, 0.7071, "|L| = 1", 4, -2, 0.0, 1.0)->colour = COL_REF;
+
+  for (size_t v = 0; v < in->n_variants; v++)
+    {
+      const LwPlotComplexCurve *c = &in->variants[v].nyquist;
+      double *mirror = g_new (double, c->n > 0 ? c->n : 1);
+      for (size_t i = 0; i < c->n; i++)
+        mirror[i] = -c->im[i];
+      Prim *m = add_line (pn, c->n, c->re, mirror);
+      style_variant (m, v, THIN_WIDTH);
+      m->alpha = 0.45;
+      m->dash = DASH_VARIANT;
+      g_free (mirror);
+      Prim *l = add_line (pn, c->n, c->re, c->im);
+      style_variant (l, v, LW_PLOT_CURVE_WIDTH);
+      l->dash = DASH_VARIANT;
+
+      const LwPlotFreqCurve *z = &in->variants[v].z;
+      double stack = 13.0 * (double) v;
+      for (size_t i = 0; i < z->n_gain_crossovers; i++)
+        {
+          const LwPlotCrossover *x = &z->gain_crossovers[i];
+          /* angle of the crossover point, in (−180°, 180°]; the arc turns by −PM to −1 */
+          double a0 = fmod (x->phase_deg, 360.0);
+          if (a0 > 180.0)
+            a0 -= 360.0;
+          if (a0 <= -180.0)
+            a0 += 360.0;
+          Prim *arc = prim_add (pn, PRIM_ARC, 1);
+          arc->u[0] = mx (pn, 0.0);
+          arc->v[0] = my (pn, 0.0);
+          arc->r_units = 1.0;
+          arc->a0 = a0;
+          arc->a1 = a0 - x->margin;
+          style_variant (arc, v, GAUGE_WIDTH);
+          style_variant (add_mark (pn, x->re, x->im, MARK_DISC, 5), v, 1.0);
+          if (i < MAX_LABELLED_CROSSOVERS)
+            {
+              char buf[48];
+              format_margin (buf, sizeof buf, "PM", x->margin, "\u00b0");
+              double am = (a0 - 0.5 * x->margin) * G_PI / 180.0;
+              Prim *t = add_text (pn, 1.12 * cos (am), 1.12 * sin (am), buf, 0, stack,
+                                  cos (am) < 0 ? 1.0 : 0.0, 0.5);
+              t->plate = true;
+              t->colour = COL_VARIANT;
+              t->variant = v;
+            }
+        }
+      for (size_t i = 0; i < z->n_phase_crossovers; i++)
+        {
+          const LwPlotCrossover *x = &z->phase_crossovers[i];
+          style_variant (add_mark (pn, x->re, x->im, MARK_DIAMOND, 7), v, 1.3);
+          if (i < MAX_LABELLED_CROSSOVERS)
+            {
+              char buf[48];
+              format_margin (buf, sizeof buf, "GM", x->margin, " dB");
+              Prim *t = add_text (pn, x->re, x->im, buf, 0, 8 + stack, 0.5, 0.0);
+              t->plate = true;
+              t->colour = COL_VARIANT;
+              t->variant = v;
+            }
+        }
+    }
+  Prim *cp = add_mark (pn, -1.0, 0.0, MARK_PLUS, 11);
+  cp->colour = COL_TEXT;
+  cp->width = 2.0;
+  add_text (pn, -1.0, 0.0, "\u22121", -4, 4, 1.0, 0.0);
+}
+
+/* ---- Nichols --------------------------------------------------------------------------- */
+
+static void
+build_nichols (LwPlot *pl, const LwPlotInput *in)
+{
+  Panel *pn = &pl->panels[0];
+  pl->n_panels = 1;
+  Extent ex = { 0 }, ey = { 0 };
+  for (size_t v = 0; v < in->n_variants; v++)
+    {
+      const LwPlotFreqCurve *c = &in->variants[v].z;
+      for (size_t i = 0; i < c->n; i++)
+        {
+          extent_add (&ex, c->phase_deg[i]);
+          extent_add (&ey, c->mag_db[i]);
+        }
+    }
+  extent_add (&ex, -180.0);
+  extent_add (&ey, 10.0);
+  extent_add (&ey, -10.0);
+  if (ey.lo < ey.hi - MAG_DEPTH_DB)
+    ey.lo = ey.hi - MAG_DEPTH_DB;
+  axis_from_extent (&pn->x, LW_PLOT_SCALE_LINEAR, LW_PLOT_TICKS_DEGREES, ex, 7);
+  axis_from_extent (&pn->y, LW_PLOT_SCALE_LINEAR, LW_PLOT_TICKS_PLAIN, ey, 7);
+  pn->x_label = "\u2220L (\u00b0)";
+  pn->y_label = "|L| (dB)";
+  pn->x_name = "\u2220L";
+  pn->x_unit = "\u00b0";
+  pn->y_name = "|L|";
+  pn->y_unit = "dB";
+
+  add_hline (pn, 0.0)->width = 1.2;
+  add_phase_references (pn, &pn->x, true);
+  if (in->req.has_min_phase_margin)
+    for (int k = -8; k <= 8; k++)
+      {
+        double ref = 180.0 + 360.0 * k, lim = ref + in->req.min_phase_margin_deg;
+        if (ref < pn->x.lo || ref > pn->x.hi)
+          continue;
+        Prim *l = add_vline (pn, lim);
+        l->dash = DASH_DOTTED;
+        char buf[64];
+        snprintf (buf, sizeof buf, "required PM \u2265 %.0f\u00b0", in->req.min_phase_margin_deg);
+        add_text_uv (pn, mx (pn, lim), 1.0, buf, 4, 3, 0.0, 0.0)->colour = COL_REF;
+      }
+  for (size_t v = 0; v < in->n_variants; v++)
+    {
+      const LwPlotFreqCurve *c = &in->variants[v].z;
+      Prim *l = add_line (pn, c->n, c->phase_deg, c->mag_db);
+      style_variant (l, v, LW_PLOT_CURVE_WIDTH);
+      l->dash = DASH_VARIANT;
+      double stack = 13.0 * (double) v;
+      for (size_t i = 0; i < c->n_gain_crossovers; i++)
+        {
+          const LwPlotCrossover *x = &c->gain_crossovers[i];
+          style_variant (add_segment (pn, x->phase_deg - x->margin, 0.0, x->phase_deg, 0.0), v,
+                         GAUGE_WIDTH);
+          style_variant (add_mark (pn, x->phase_deg, 0.0, MARK_DISC, 5), v, 1.0);
+          if (i < MAX_LABELLED_CROSSOVERS)
+            {
+              char buf[48];
+              format_margin (buf, sizeof buf, "PM", x->margin, "\u00b0");
+              Prim *t = add_text (pn, x->phase_deg - 0.5 * x->margin, 0.0, buf, 0, -6 - stack,
+                                  0.5, 1.0);
+              t->plate = true;
+              t->colour = COL_VARIANT;
+              t->variant = v;
+            }
+        }
+      for (size_t i = 0; i < c->n_phase_crossovers; i++)
+        {
+          const LwPlotCrossover *x = &c->phase_crossovers[i];
+          style_variant (add_segment (pn, x->phase_deg, x->mag_db, x->phase_deg, 0.0), v,
+                         GAUGE_WIDTH);
+          style_variant (add_mark (pn, x->phase_deg, x->mag_db, MARK_DIAMOND, 7), v, 1.3);
+          if (i < MAX_LABELLED_CROSSOVERS)
+            {
+              char buf[48];
+              format_margin (buf, sizeof buf, "GM", x->margin, " dB");
+              Prim *t = add_text (pn, x->phase_deg, 0.5 * x->mag_db, buf, 6, stack, 0.0, 0.5);
+              t->plate = true;
+              t->colour = COL_VARIANT;
+              t->variant = v;
+            }
+        }
+    }
+  for (int k = -8; k <= 8; k++)
+    {
+      double ref = 180.0 + 360.0 * k;
+      if (ref < pn->x.lo || ref > pn->x.hi)
+        continue;
+      Prim *cp = add_mark (pn, ref, 0.0, MARK_PLUS, 11);
+      cp->colour = COL_TEXT;
+      cp->width = 2.0;
+    }
+}
+
+/* ---- step ------------------------------------------------------------------------------ */
+
+/* Staircase of samples s[k] held over [kT, (k+1)T), k = 0 … n−1, ending at (n−1)T. */
+static Prim *
+add_staircase (Panel *pn, size_t n, const double *s, double T)
+{
+  size_t m = 2 * n - 1;
+  double *x = g_new (double, m), *y = g_new (double, m);
+  for (size_t k = 0; k < n; k++)
+    {
+      x[2 * k] = (double) k * T;
+      y[2 * k] = s[k];
+      if (k + 1 < n)
+        {
+          x[2 * k + 1] = (double) (k + 1) * T;
+          y[2 * k + 1] = s[k];
+        }
+    }
+  Prim *p = add_line (pn, m, x, y);
+  g_free (x);
+  g_free (y);
+  return p;
+}
+
+static void
+build_step (LwPlot *pl, const LwPlotInput *in)
+{
+  Panel *out = &pl->panels[0], *act = &pl->panels[1];
+  bool any_u = false;
+  Extent et = { 0 }, ey = { 0 }, eu = { 0 };
+  extent_add (&et, 0.0);
+  extent_add (&ey, 0.0);
+  extent_add (&eu, 0.0);
+  for (size_t v = 0; v < in->n_variants; v++)
+    {
+      const LwPlotStepData *s = &in->variants[v].step;
+      if (s->n >= 2)
+        extent_add (&et, (double) (s->n - 1) * s->period_s);
+      for (size_t k = 0; k < s->n; k++)
+        extent_add (&ey, s->y[k]);
+      for (size_t j = 0; j < s->n_fine && s->y_fine; j++)
+        extent_add (&ey, s->y_fine[j]);
+      if (s->has_final)
+        extent_add (&ey, s->final_value);
+      if (s->u)
+        {
+          any_u = true;
+          for (size_t k = 0; k < s->n; k++)
+            extent_add (&eu, s->u[k]);
+          if (s->has_limits)
+            {
+              extent_add (&eu, s->u_low);
+              extent_add (&eu, s->u_high);
+            }
+        }
+    }
+  pl->n_panels = any_u ? 2 : 1;
+  /* headroom so the final value and the peak are not on the frame */
+  ey.hi += 0.06 * (ey.hi - ey.lo);
+  eu.hi += 0.06 * (eu.hi - eu.lo);
+  eu.lo -= 0.06 * (eu.hi - eu.lo);
+  double t_end = et.hi;
+  axis_from_extent (&out->x, LW_PLOT_SCALE_LINEAR, LW_PLOT_TICKS_PLAIN, et, 8);
+  if (t_end > 0.0)
+    out->x.hi = t_end;   /* the axis ends at the last sample */
+  axis_from_extent (&out->y, LW_PLOT_SCALE_LINEAR, LW_PLOT_TICKS_PLAIN, ey, 6);
+  out->x_label = "t (s)";
+  out->y_label = "y (units of r)";
+  out->x_name = "t";
+  out->x_unit = "s";
+  out->y_name = "y";
+  out->y_unit = "";
+  if (any_u)
+    {
+      out->x_tick_labels = false;
+      act->x = out->x;
+      axis_from_extent (&act->y, LW_PLOT_SCALE_LINEAR, LW_PLOT_TICKS_PLAIN, eu, 5);
+      act->x_label = "t (s)";
+      act->y_label = "u (actuator)";
+      act->x_name = "t";
+      act->x_unit = "s";
+      act->y_name = "u";
+      act->y_unit = "";
+      add_hline (act, 0.0);
+    }
+  add_hline (out, 0.0);
+  for (size_t v = 0; v < in->n_variants; v++)
+    {
+      const LwPlotStepData *s = &in->variants[v].step;
+      if (s->has_final)
+        {
+          Prim *f = add_hline (out, s->final_value);
+          f->dash = DASH_DASHED;
+        }
+      if (s->n_fine >= 2 && s->t_fine_s && s->y_fine)
+        {
+          Prim *c = add_line (out, s->n_fine, s->t_fine_s, s->y_fine);
+          style_variant (c, v, THIN_WIDTH);
+          c->alpha = 0.7;
+        }
+      if (s->n >= 2)
+        {
+          Prim *st = add_staircase (out, s->n, s->y, s->period_s);
+          style_variant (st, v, LW_PLOT_CURVE_WIDTH);
+          st->dash = DASH_VARIANT;
+          if (s->n <= 120)
+            for (size_t k = 0; k < s->n; k++)
+              style_variant (add_mark (out, (double) k * s->period_s, s->y[k], MARK_DISC, 3.5),
+                             v, 1.0);
+        }
+      if (any_u && s->u && s->n >= 2)
+        {
+          Prim *st = add_staircase (act, s->n, s->u, s->period_s);
+          style_variant (st, v, LW_PLOT_CURVE_WIDTH);
+          st->dash = DASH_VARIANT;
+          if (s->has_limits)
+            {
+              add_hline (act, s->u_high)->dash = DASH_DOTTED;
+              add_hline (act, s->u_low)->dash = DASH_DOTTED;
+              add_text (act, act->x.hi, s->u_high, "u max", -4, -2, 1.0, 1.0)->colour = COL_REF;
+              add_text (act, act->x.hi, s->u_low, "u min", -4, 2, 1.0, 0.0)->colour = COL_REF;
+            }
+        }
+    }
+}
+
+/* ---- pole-zero map --------------------------------------------------------------------- */
+
+static void
+build_poles (LwPlot *pl, const LwPlotInput *in)
+{
+  Panel *pn = &pl->panels[0];
+  pl->n_panels = 1;
+  pn->equal_aspect = true;
+  Extent ex = { 0 }, ey = { 0 };
+  extent_add (&ex, -1.2);
+  extent_add (&ex, 1.2);
+  extent_add (&ey, -1.2);
+  extent_add (&ey, 1.2);
+  for (size_t v = 0; v < in->n_variants; v++)
+    {
+      const LwPlotPoleData *d = &in->variants[v].poles;
+      const double *re[3] = { d->cl_re, d->pole_re, d->zero_re };
+      const double *im[3] = { d->cl_im, d->pole_im, d->zero_im };
+      size_t n[3] = { d->n_closed_loop, d->n_loop_poles, d->n_loop_zeros };
+      for (int s = 0; s < 3; s++)
+        for (size_t i = 0; i < n[s]; i++)
+          if (hypot (re[s][i], im[s][i]) <= POLE_RANGE_CAP)
+            {
+              extent_add (&ex, re[s][i]);
+              extent_add (&ey, im[s][i]);
+            }
+    }
+  widen_to_aspect (&ex, &ey);
+  axis_from_extent (&pn->x, LW_PLOT_SCALE_LINEAR, LW_PLOT_TICKS_PLAIN, ex, 6);
+  axis_from_extent (&pn->y, LW_PLOT_SCALE_LINEAR, LW_PLOT_TICKS_PLAIN, ey, 6);
+  pn->x_label = "Re z";
+  pn->y_label = "Im z";
+  pn->x_name = "Re";
+  pn->y_name = "Im";
+  pn->x_unit = pn->y_unit = "";
+  add_hline (pn, 0.0);
+  add_vline (pn, 0.0);
+  Prim *uc = prim_add (pn, PRIM_CIRCLE, 1);
+  uc->u[0] = mx (pn, 0.0);
+  uc->v[0] = my (pn, 0.0);
+  uc->r_units = 1.0;
+  uc->width = 1.4;
+  add_text (pn, 0.7071, 0.7071, "|z| = 1", 4, -2, 0.0, 1.0)->colour = COL_REF;
+
+  for (size_t v = 0; v < in->n_variants; v++)
+    {
+      const LwPlotPoleData *d = &in->variants[v].poles;
+      for (size_t i = 0; i < d->n_loop_zeros; i++)
+        style_variant (add_mark (pn, d->zero_re[i], d->zero_im[i], MARK_CIRCLE, 8), v, 1.2);
+      for (size_t i = 0; i < d->n_loop_poles; i++)
+        style_variant (add_mark (pn, d->pole_re[i], d->pole_im[i], MARK_CROSS, 8), v, 1.2);
+      for (size_t i = 0; i < d->n_closed_loop; i++)
+        style_variant (add_mark (pn, d->cl_re[i], d->cl_im[i], MARK_DIAMOND, 9), v, 1.5)
+          ->shape = MARK_DIAMOND;
+    }
+  /* key of the marker shapes, bottom left inside the plot area */
+  static const struct { MarkShape s; const char *t; } key[3] = {
+    { MARK_DIAMOND, "closed-loop pole" }, { MARK_CROSS, "loop pole" },
+    { MARK_CIRCLE, "loop zero" } };
+  for (int k = 0; k < 3; k++)
+    {
+      Prim *m = prim_add (pn, PRIM_MARK, 1);
+      m->u[0] = 0.0;
+      m->v[0] = 0.0;
+      m->dx = 12;
+      m->dy = -12 - 15.0 * (2 - k);
+      m->shape = key[k].s;
+      m->size = 8;
+      m->colour = COL_TEXT;
+      m->width = 1.2;
+      add_text_uv (pn, 0.0, 0.0, key[k].t, 22, -12 - 15.0 * (2 - k), 0.0, 0.5)->plate = true;
+    }
+}
+
+/* ---- construction ---------------------------------------------------------------------- */
+
+static const char *const view_names[] = { "bode-z", "bode-w", "nyquist", "nichols", "step",
+                                          "poles" };
+
+const char *
+lw_plot_view_name (LwPlotView v)
+{
+  return (unsigned) v < G_N_ELEMENTS (view_names) ? view_names[v] : "?";
+}
+
+int
+lw_plot_view_from_name (const char *name)
+{
+  for (size_t i = 0; name && i < G_N_ELEMENTS (view_names); i++)
+    if (strcmp (name, view_names[i]) == 0)
+      return (int) i;
+  return -1;
+}
+
+static bool
+has_data (const LwPlotInput *in)
+{
+  for (size_t v = 0; v < in->n_variants; v++)
+    {
+      const LwPlotVariant *x = &in->variants[v];
+      switch (in->view)
+        {
+        case LW_PLOT_VIEW_BODE_Z:
+        case LW_PLOT_VIEW_NICHOLS:
+          if (x->z.n >= 2)
+            return true;
+          break;
+        case LW_PLOT_VIEW_BODE_W:
+          if (x->w.n >= 2)
+            return true;
+          break;
+        case LW_PLOT_VIEW_NYQUIST:
+          if (x->nyquist.n >= 2)
+            return true;
+          break;
+        case LW_PLOT_VIEW_STEP:
+          if (x->step.n >= 2 && x->step.period_s > 0.0)
+            return true;
+          break;
+        case LW_PLOT_VIEW_POLES:
+          if (x->poles.n_closed_loop + x->poles.n_loop_poles + x->poles.n_loop_zeros > 0)
+            return true;
+          break;
+        }
+    }
+  return false;
+}
+
+LwPlot *
+lw_plot_new (const LwPlotInput *in, char *err_msg, size_t err_size)
+{
+  g_return_val_if_fail (in != NULL, NULL);
+  if (in->n_variants == 0 || in->n_variants > LW_PLOT_MAX_VARIANTS || in->variants == NULL)
+    {
+      if (err_msg)
+        snprintf (err_msg, err_size, "a figure takes 1 to %d variants, not %zu",
+                  LW_PLOT_MAX_VARIANTS, in->n_variants);
+      return NULL;
+    }
+  if ((unsigned) in->view >= G_N_ELEMENTS (view_names) || !has_data (in))
+    {
+      if (err_msg)
+        snprintf (err_msg, err_size, "nothing to draw for the view '%s'",
+                  lw_plot_view_name (in->view));
+      return NULL;
+    }
+  if (in->view == LW_PLOT_VIEW_BODE_Z && !(in->nyquist_rad_s > 0.0))
+    {
+      if (err_msg)
+        snprintf (err_msg, err_size, "the Bode view in z needs the Nyquist frequency");
+      return NULL;
+    }
+  LwPlot *pl = g_new0 (LwPlot, 1);
+  pl->view = in->view;
+  pl->title = g_strdup (in->title);
+  pl->n_variants = in->n_variants;
+  for (size_t v = 0; v < in->n_variants; v++)
+    pl->names[v] = g_strdup (in->variants[v].name);
+  for (size_t k = 0; k < MAX_PANELS; k++)
+    panel_init (&pl->panels[k]);
+  switch (in->view)
+    {
+    case LW_PLOT_VIEW_BODE_Z: build_bode (pl, in, false); break;
+    case LW_PLOT_VIEW_BODE_W: build_bode (pl, in, true); break;
+    case LW_PLOT_VIEW_NYQUIST: build_nyquist (pl, in); break;
+    case LW_PLOT_VIEW_NICHOLS: build_nichols (pl, in); break;
+    case LW_PLOT_VIEW_STEP: build_step (pl, in); break;
+    case LW_PLOT_VIEW_POLES: build_poles (pl, in); break;
+    }
+  return pl;
+}
+
+void
+lw_plot_free (LwPlot *p)
+{
+  if (p == NULL)
+    return;
+  for (size_t k = 0; k < MAX_PANELS; k++)
+    g_ptr_array_unref (p->panels[k].prims);
+  for (size_t v = 0; v < p->n_variants; v++)
+    g_free (p->names[v]);
+  g_free (p->title);
+  g_free (p);
+}
+
+void
+lw_plot_set_theme (LwPlot *p, LwPlotTheme theme)
+{
+  g_return_if_fail (p != NULL);
+  p->theme = theme == LW_PLOT_THEME_DARK ? LW_PLOT_THEME_DARK : LW_PLOT_THEME_LIGHT;
+}
+
+/* ---- layout ---------------------------------------------------------------------------- */
+
+void
+lw_plot_layout (LwPlot *p, double width, double height)
+{
+  g_return_if_fail (p != NULL);
+  p->width = width;
+  p->height = height;
+  double left = LW_PLOT_MARGIN_LEFT, right = width - LW_PLOT_MARGIN_RIGHT;
+  size_t named = 0;
+  for (size_t v = 0; v < p->n_variants; v++)
+    named += p->names[v] != NULL;
+  long slots = (long) floor ((right - left) / LW_PLOT_LEGEND_SLOT);
+  if (slots < 1)
+    slots = 1;
+  p->legend_rows = (p->title ? 1 : 0) + (int) ((named + (size_t) slots - 1) / (size_t) slots);
+  double top = LW_PLOT_MARGIN_TOP + LW_PLOT_LEGEND_ROW * p->legend_rows;
+  double bottom = height - LW_PLOT_MARGIN_BOTTOM;
+  double gap = LW_PLOT_PANEL_GAP;
+  double ph = (bottom - top - gap * (double) (p->n_panels - 1)) / (double) p->n_panels;
+  for (size_t k = 0; k < p->n_panels; k++)
+    {
+      Panel *pn = &p->panels[k];
+      pn->rx = left;
+      pn->rw = fmax (right - left, 1.0);
+      pn->ry = top + (double) k * (ph + gap);
+      pn->rh = fmax (ph, 1.0);
+      if (pn->equal_aspect)
+        {
+          double sx = pn->rw / (pn->x.hi - pn->x.lo), sy = pn->rh / (pn->y.hi - pn->y.lo);
+          double s = fmin (sx, sy);
+          double w = s * (pn->x.hi - pn->x.lo), h = s * (pn->y.hi - pn->y.lo);
+          pn->rx += 0.5 * (pn->rw - w);
+          pn->ry += 0.5 * (pn->rh - h);
+          pn->rw = w;
+          pn->rh = h;
+        }
+    }
+  p->laid_out = true;
+}
+
+/* ---- drawing --------------------------------------------------------------------------- */
+
+static const Theme *
+theme_of (const LwPlot *p)
+{
+  return &themes[p->theme == LW_PLOT_THEME_DARK ? 1 : 0];
+}
+
+static void
+set_rgb (cairo_t *cr, const double c[3], double alpha)
+{
+  cairo_set_source_rgba (cr, c[0], c[1], c[2], alpha);
+}
+
+static const double *
+colour_of (const LwPlot *p, ColourRole role, size_t variant)
+{
+  const Theme *t = theme_of (p);
+  switch (role)
+    {
+    case COL_VARIANT: return t->palette[variant % LW_PLOT_MAX_VARIANTS];
+    case COL_TEXT: return t->text;
+    case COL_REF: return t->ref;
+    case COL_NYQUIST: return t->nyquist;
+    case COL_FRAME: return t->frame;
+    }
+  return t->text;
+}
+
+static void
+set_dash (cairo_t *cr, DashRole d, size_t variant)
+{
+  static const double dotted[] = { 1.5, 2.5 }, dashed[] = { 5, 3 }, dashdot[] = { 9, 3, 2, 3 };
+  switch (d)
+    {
+    case DASH_SOLID: cairo_set_dash (cr, NULL, 0, 0); break;
+    case DASH_VARIANT:
+      cairo_set_dash (cr, dash_patterns[variant % LW_PLOT_MAX_VARIANTS],
+                      dash_lengths[variant % LW_PLOT_MAX_VARIANTS], 0);
+      break;
+    case DASH_DOTTED: cairo_set_dash (cr, dotted, 2, 0); break;
+    case DASH_DASHED: cairo_set_dash (cr, dashed, 2, 0); break;
+    case DASH_DASHDOT: cairo_set_dash (cr, dashdot, 4, 0); break;
+    }
+}
+
+static double
+px_of (const Panel *pn, double u)
+{
+  return pn->rx + u * pn->rw;
+}
+
+static double
+py_of (const Panel *pn, double v)
+{
+  return pn->ry + (1.0 - v) * pn->rh;
+}
+
+typedef enum { FONT_TICK, FONT_LABEL, FONT_NOTE, FONT_TITLE } FontRole;
+
+static PangoLayout *
+text_layout (cairo_t *cr, const char *text, FontRole role)
+{
+  PangoLayout *lay = pango_cairo_create_layout (cr);
+  /* metrics unhinted: the same text has the same extent on screen, PNG, SVG and PDF */
+  cairo_font_options_t *fo = cairo_font_options_create ();
+  cairo_font_options_set_hint_metrics (fo, CAIRO_HINT_METRICS_OFF);
+  cairo_font_options_set_hint_style (fo, CAIRO_HINT_STYLE_NONE);
+  pango_cairo_context_set_font_options (pango_layout_get_context (lay), fo);
+  pango_layout_context_changed (lay);
+  cairo_font_options_destroy (fo);
+  PangoFontDescription *fd = pango_font_description_from_string ("Sans");
+  static const double sizes[] = { 10.5, 11.5, 10.0, 12.5 };
+  pango_font_description_set_absolute_size (fd, sizes[role] * PANGO_SCALE);
+  if (role == FONT_TITLE)
+    pango_font_description_set_weight (fd, PANGO_WEIGHT_BOLD);
+  pango_layout_set_font_description (lay, fd);
+  pango_font_description_free (fd);
+  pango_layout_set_text (lay, text, -1);
+  return lay;
+}
+
+/* Draws text with its anchor point (ax, ay in [0, 1] of its extent) at (x, y). */
+static void
+draw_text (cairo_t *cr, const char *text, FontRole role, double x, double y, double ax,
+           double ay, const double colour[3], const double *plate, double angle)
+{
+  PangoLayout *lay = text_layout (cr, text, role);
+  int w, h;
+  pango_layout_get_size (lay, &w, &h);
+  double tw = (double) w / PANGO_SCALE, th = (double) h / PANGO_SCALE;
+  cairo_save (cr);
+  cairo_translate (cr, x, y);
+  cairo_rotate (cr, angle);
+  cairo_translate (cr, -ax * tw, -ay * th);
+  if (plate)
+    {
+      set_rgb (cr, plate, 0.85);
+      cairo_rectangle (cr, -2, 0, tw + 4, th);
+      cairo_fill (cr);
+    }
+  set_rgb (cr, colour, 1.0);
+  cairo_move_to (cr, 0, 0);
+  pango_cairo_show_layout (cr, lay);
+  cairo_restore (cr);
+  g_object_unref (lay);
+}
+
+static void
+draw_marker (cairo_t *cr, MarkShape shape, double x, double y, double size)
+{
+  double r = 0.5 * size;
+  cairo_new_path (cr);
+  switch (shape)
+    {
+    case MARK_CIRCLE:
+      cairo_arc (cr, x, y, r, 0, 2 * G_PI);
+      cairo_stroke (cr);
+      break;
+    case MARK_DISC:
+      cairo_arc (cr, x, y, r, 0, 2 * G_PI);
+      cairo_fill (cr);
+      break;
+    case MARK_DIAMOND:
+      cairo_move_to (cr, x, y - r);
+      cairo_line_to (cr, x + r, y);
+      cairo_line_to (cr, x, y + r);
+      cairo_line_to (cr, x - r, y);
+      cairo_close_path (cr);
+      cairo_fill_preserve (cr);
+      cairo_stroke (cr);
+      break;
+    case MARK_CROSS:
+      cairo_move_to (cr, x - r, y - r);
+      cairo_line_to (cr, x + r, y + r);
+      cairo_move_to (cr, x - r, y + r);
+      cairo_line_to (cr, x + r, y - r);
+      cairo_stroke (cr);
+      break;
+    case MARK_PLUS:
+      cairo_move_to (cr, x - r, y);
+      cairo_line_to (cr, x + r, y);
+      cairo_move_to (cr, x, y - r);
+      cairo_line_to (cr, x, y + r);
+      cairo_stroke (cr);
+      break;
+    }
+}
+
+static void
+draw_prim (const LwPlot *p, const Panel *pn, cairo_t *cr, const Prim *q)
+{
+  const Theme *t = theme_of (p);
+  const double *c = colour_of (p, q->colour, q->variant);
+  cairo_save (cr);
+  set_rgb (cr, c, q->alpha);
+  cairo_set_line_width (cr, q->width);
+  set_dash (cr, q->dash, q->variant);
+  cairo_set_line_join (cr, CAIRO_LINE_JOIN_ROUND);
+  switch (q->kind)
+    {
+    case PRIM_LINE:
+      {
+        bool pen = false;
+        cairo_new_path (cr);
+        for (size_t i = 0; i < q->n; i++)
+          {
+            if (!isfinite (q->u[i]) || !isfinite (q->v[i]))
+              {
+                pen = false;
+                continue;
+              }
+            double x = px_of (pn, q->u[i]), y = py_of (pn, q->v[i]);
+            if (pen)
+              cairo_line_to (cr, x, y);
+            else
+              cairo_move_to (cr, x, y);
+            pen = true;
+          }
+        cairo_stroke (cr);
+        break;
+      }
+    case PRIM_MARK:
+      if (isfinite (q->u[0]) && isfinite (q->v[0]))
+        draw_marker (cr, q->shape, px_of (pn, q->u[0]) + q->dx, py_of (pn, q->v[0]) + q->dy,
+                     q->size);
+      break;
+    case PRIM_TEXT:
+      if (isfinite (q->u[0]) && isfinite (q->v[0]))
+        draw_text (cr, q->text, FONT_NOTE, px_of (pn, q->u[0]) + q->dx,
+                   py_of (pn, q->v[0]) + q->dy, q->ax, q->ay, c, q->plate ? t->bg : NULL, 0);
+      break;
+    case PRIM_HBAND:
+      {
+        double y0 = py_of (pn, q->v[0]), y1 = py_of (pn, q->v[1]);
+        cairo_rectangle (cr, pn->rx, fmin (y0, y1), pn->rw, fabs (y1 - y0));
+        cairo_fill (cr);
+        break;
+      }
+    case PRIM_CIRCLE:
+    case PRIM_ARC:
+      {
+        double r = q->r_units * pn->rw / (pn->x.hi - pn->x.lo);
+        double x = px_of (pn, q->u[0]), y = py_of (pn, q->v[0]);
+        cairo_new_path (cr);
+        if (q->kind == PRIM_CIRCLE)
+          cairo_arc (cr, x, y, r, 0, 2 * G_PI);
+        else if (q->a1 <= q->a0)   /* clockwise in data space: increasing pixel angle */
+          cairo_arc (cr, x, y, r, -q->a0 * G_PI / 180.0, -q->a1 * G_PI / 180.0);
+        else
+          cairo_arc_negative (cr, x, y, r, -q->a0 * G_PI / 180.0, -q->a1 * G_PI / 180.0);
+        cairo_stroke (cr);
+        break;
+      }
+    }
+  cairo_restore (cr);
+}
+
+static int
+max_labels_for (double length, double per_label)
+{
+  int n = (int) floor (length / per_label);
+  return n < 2 ? 2 : n;
+}
+
+static void
+draw_grid (const LwPlot *p, const Panel *pn, cairo_t *cr)
+{
+  const Theme *t = theme_of (p);
+  LwPlotTick ticks[MAX_TICKS];
+  /* vertical grid lines and x tick labels */
+  size_t n = lw_plot_axis_ticks (&pn->x, max_labels_for (pn->rw, 64.0), ticks, MAX_TICKS);
+  for (int pass = 0; pass < 2; pass++)
+    for (size_t i = 0; i < n; i++)
+      {
+        if (ticks[i].major != (pass == 1))
+          continue;
+        double x = px_of (pn, lw_plot_axis_map (&pn->x, ticks[i].value));
+        set_rgb (cr, ticks[i].major ? t->grid_major : t->grid_minor, 1.0);
+        cairo_set_line_width (cr, ticks[i].major ? 0.9 : 0.6);
+        cairo_move_to (cr, x, pn->ry);
+        cairo_line_to (cr, x, pn->ry + pn->rh);
+        cairo_stroke (cr);
+      }
+  n = lw_plot_axis_ticks (&pn->y, max_labels_for (pn->rh, 30.0), ticks, MAX_TICKS);
+  for (int pass = 0; pass < 2; pass++)
+    for (size_t i = 0; i < n; i++)
+      {
+        if (ticks[i].major != (pass == 1))
+          continue;
+        double y = py_of (pn, lw_plot_axis_map (&pn->y, ticks[i].value));
+        set_rgb (cr, ticks[i].major ? t->grid_major : t->grid_minor, 1.0);
+        cairo_set_line_width (cr, ticks[i].major ? 0.9 : 0.6);
+        cairo_move_to (cr, pn->rx, y);
+        cairo_line_to (cr, pn->rx + pn->rw, y);
+        cairo_stroke (cr);
+      }
+}
+
+static void
+draw_legend (const LwPlot *p, cairo_t *cr)
+{
+  const Theme *t = theme_of (p);
+  double y = LW_PLOT_MARGIN_TOP + 0.5 * LW_PLOT_LEGEND_ROW;
+  double left = LW_PLOT_MARGIN_LEFT;
+  if (p->title)
+    {
+      draw_text (cr, p->title, FONT_TITLE, left, y, 0.0, 0.5, t->text, NULL, 0);
+      y += LW_PLOT_LEGEND_ROW;
+    }
+  long slots = (long) floor ((p->width - LW_PLOT_MARGIN_LEFT - LW_PLOT_MARGIN_RIGHT) /
+                             LW_PLOT_LEGEND_SLOT);
+  if (slots < 1)
+    slots = 1;
+  long k = 0;
+  for (size_t v = 0; v < p->n_variants; v++)
+    {
+      if (p->names[v] == NULL)
+        continue;
+      double x = left + LW_PLOT_LEGEND_SLOT * (double) (k % slots);
+      double yy = y + LW_PLOT_LEGEND_ROW * (double) (k / slots);
+      cairo_save (cr);
+      set_rgb (cr, t->palette[v], 1.0);
+      cairo_set_line_width (cr, LW_PLOT_CURVE_WIDTH);
+      set_dash (cr, DASH_VARIANT, v);
+      cairo_move_to (cr, x, yy);
+      cairo_line_to (cr, x + 28, yy);
+      cairo_stroke (cr);
+      cairo_restore (cr);
+      draw_text (cr, p->names[v], FONT_LABEL, x + 34, yy, 0.0, 0.5, t->text, NULL, 0);
+      k++;
+    }
+}
+
+void
+lw_plot_draw_static (LwPlot *p, cairo_t *cr, double width, double height)
+{
+  g_return_if_fail (p != NULL && cr != NULL);
+  lw_plot_layout (p, width, height);
+  const Theme *t = theme_of (p);
+  cairo_save (cr);
+  set_rgb (cr, t->bg, 1.0);
+  cairo_rectangle (cr, 0, 0, width, height);
+  cairo_fill (cr);
+  cairo_set_line_cap (cr, CAIRO_LINE_CAP_BUTT);
+  for (size_t k = 0; k < p->n_panels; k++)
+    {
+      const Panel *pn = &p->panels[k];
+      cairo_save (cr);
+      cairo_rectangle (cr, pn->rx, pn->ry, pn->rw, pn->rh);
+      cairo_clip (cr);
+      draw_grid (p, pn, cr);
+      cairo_restore (cr);
+      /* tick labels outside the clip */
+      cairo_save (cr);
+      {
+        LwPlotTick ticks[MAX_TICKS];
+        size_t n;
+        if (pn->x_tick_labels)
+          {
+            n = lw_plot_axis_ticks (&pn->x, max_labels_for (pn->rw, 64.0), ticks, MAX_TICKS);
+            for (size_t i = 0; i < n; i++)
+              if (ticks[i].labelled)
+                draw_text (cr, ticks[i].label, FONT_TICK,
+                           px_of (pn, lw_plot_axis_map (&pn->x, ticks[i].value)),
+                           pn->ry + pn->rh + 4, 0.5, 0.0, t->text, NULL, 0);
+          }
+        n = lw_plot_axis_ticks (&pn->y, max_labels_for (pn->rh, 30.0), ticks, MAX_TICKS);
+        for (size_t i = 0; i < n; i++)
+          if (ticks[i].labelled)
+            draw_text (cr, ticks[i].label, FONT_TICK, pn->rx - 6,
+                       py_of (pn, lw_plot_axis_map (&pn->y, ticks[i].value)), 1.0, 0.5,
+                       t->text, NULL, 0);
+      }
+      if (pn->y_label)
+        draw_text (cr, pn->y_label, FONT_LABEL, pn->rx - 62, pn->ry + 0.5 * pn->rh, 0.5, 0.5,
+                   t->text, NULL, -G_PI / 2);
+      if (pn->x_label && pn->x_tick_labels)
+        draw_text (cr, pn->x_label, FONT_LABEL, pn->rx + 0.5 * pn->rw, pn->ry + pn->rh + 22,
+                   0.5, 0.0, t->text, NULL, 0);
+      cairo_restore (cr);
+
+      cairo_save (cr);
+      cairo_rectangle (cr, pn->rx, pn->ry, pn->rw, pn->rh);
+      cairo_clip (cr);
+      for (guint i = 0; i < pn->prims->len; i++)
+        {
+          const Prim *q = pn->prims->pdata[i];
+          if (q->kind != PRIM_TEXT && !(q->kind == PRIM_MARK && (q->dx != 0 || q->dy != 0)))
+            draw_prim (p, pn, cr, q);
+        }
+      cairo_restore (cr);
+      /* frame, then texts and keys (not clipped, so labels near an edge stay whole) */
+      set_rgb (cr, t->frame, 1.0);
+      cairo_set_line_width (cr, 1.0);
+      cairo_set_dash (cr, NULL, 0, 0);
+      cairo_rectangle (cr, pn->rx, pn->ry, pn->rw, pn->rh);
+      cairo_stroke (cr);
+      for (guint i = 0; i < pn->prims->len; i++)
+        {
+          const Prim *q = pn->prims->pdata[i];
+          if (q->kind == PRIM_TEXT || (q->kind == PRIM_MARK && (q->dx != 0 || q->dy != 0)))
+            draw_prim (p, pn, cr, q);
+        }
+      /* the Nyquist line sits on the right edge of the frame: draw it again over the frame */
+      for (guint i = 0; i < pn->prims->len; i++)
+        {
+          const Prim *q = pn->prims->pdata[i];
+          if (q->kind == PRIM_LINE && q->colour == COL_NYQUIST)
+            draw_prim (p, pn, cr, q);
+        }
+    }
+  draw_legend (p, cr);
+  cairo_restore (cr);
+}
+
+/* ---- overlay and hit tests ------------------------------------------------------------- */
+
+size_t
+lw_plot_n_panels (const LwPlot *p)
+{
+  return p ? p->n_panels : 0;
+}
+
+const LwPlotAxis *
+lw_plot_panel_x_axis (const LwPlot *p, size_t panel)
+{
+  return p && panel < p->n_panels ? &p->panels[panel].x : NULL;
+}
+
+const LwPlotAxis *
+lw_plot_panel_y_axis (const LwPlot *p, size_t panel)
+{
+  return p && panel < p->n_panels ? &p->panels[panel].y : NULL;
+}
+
+bool
+lw_plot_panel_rect (const LwPlot *p, size_t panel, double *x, double *y, double *w, double *h)
+{
+  if (!p || panel >= p->n_panels || !p->laid_out)
+    return false;
+  const Panel *pn = &p->panels[panel];
+  *x = pn->rx;
+  *y = pn->ry;
+  *w = pn->rw;
+  *h = pn->rh;
+  return true;
+}
+
+bool
+lw_plot_value_at_pixel (const LwPlot *p, double px, double py, size_t *panel, double *x,
+                        double *y)
+{
+  if (!p || !p->laid_out)
+    return false;
+  for (size_t k = 0; k < p->n_panels; k++)
+    {
+      const Panel *pn = &p->panels[k];
+      if (px < pn->rx || px > pn->rx + pn->rw || py < pn->ry || py > pn->ry + pn->rh)
+        continue;
+      *panel = k;
+      *x = lw_plot_axis_unmap (&pn->x, (px - pn->rx) / pn->rw);
+      *y = lw_plot_axis_unmap (&pn->y, 1.0 - (py - pn->ry) / pn->rh);
+      return true;
+    }
+  return false;
+}
+
+bool
+lw_plot_pixel_of_value (const LwPlot *p, size_t panel, double x, double y, double *px,
+                        double *py)
+{
+  if (!p || !p->laid_out || panel >= p->n_panels)
+    return false;
+  const Panel *pn = &p->panels[panel];
+  double u = lw_plot_axis_map (&pn->x, x), v = lw_plot_axis_map (&pn->y, y);
+  if (!isfinite (u) || !isfinite (v))
+    return false;
+  *px = px_of (pn, u);
+  *py = py_of (pn, v);
+  return true;
+}
+
+void
+lw_plot_draw_overlay (LwPlot *p, cairo_t *cr, const LwPlotOverlay *ov)
+{
+  g_return_if_fail (p != NULL && cr != NULL && ov != NULL);
+  if (!p->laid_out)
+    return;
+  const Theme *t = theme_of (p);
+  cairo_save (cr);
+  for (size_t i = 0; i < ov->n_handles; i++)
+    {
+      const LwPlotHandle *h = &ov->handles[i];
+      double x, y;
+      if (!lw_plot_pixel_of_value (p, (size_t) h->panel, h->x, h->y, &x, &y))
+        continue;
+      cairo_new_path (cr);
+      cairo_arc (cr, x, y, h->active ? 7.0 : 5.5, 0, 2 * G_PI);
+      set_rgb (cr, t->bg, 1.0);
+      cairo_fill_preserve (cr);
+      set_rgb (cr, t->text, 1.0);
+      cairo_set_line_width (cr, h->active ? 2.0 : 1.3);
+      cairo_stroke (cr);
+    }
+  size_t k;
+  double vx, vy;
+  if (ov->has_hover && lw_plot_value_at_pixel (p, ov->hover_x, ov->hover_y, &k, &vx, &vy))
+    {
+      const Panel *pn = &p->panels[k];
+      set_rgb (cr, t->ref, 0.8);
+      cairo_set_line_width (cr, 0.8);
+      cairo_move_to (cr, ov->hover_x, pn->ry);
+      cairo_line_to (cr, ov->hover_x, pn->ry + pn->rh);
+      cairo_move_to (cr, pn->rx, ov->hover_y);
+      cairo_line_to (cr, pn->rx + pn->rw, ov->hover_y);
+      cairo_stroke (cr);
+      char buf[128];
+      snprintf (buf, sizeof buf, "%s %.4g %s   %s %.4g %s", pn->x_name ? pn->x_name : "x", vx,
+                pn->x_unit ? pn->x_unit : "", pn->y_name ? pn->y_name : "y", vy,
+                pn->y_unit ? pn->y_unit : "");
+      bool right_half = ov->hover_x > pn->rx + 0.5 * pn->rw;
+      draw_text (cr, buf, FONT_NOTE, ov->hover_x + (right_half ? -8 : 8), ov->hover_y - 6,
+                 right_half ? 1.0 : 0.0, 1.0, t->text, t->bg, 0);
+    }
+  cairo_restore (cr);
+}

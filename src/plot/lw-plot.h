@@ -1,0 +1,206 @@
+/* lw-plot.h — the figure renderer: draws one view of one or more evaluated variants of a design
+ * into any cairo_t (a window, a PNG, SVG or PDF surface). Shared by the CLI and the window, so a
+ * figure exported from either is the same figure.
+ *
+ * No numerics here: the caller fills the plain structs below with evaluated curves and figures
+ * (lw-figure-data.h does it from a core evaluation). Every array is borrowed only during
+ * lw_plot_new, which maps it once through the axes and keeps the mapped values (u, v in [0, 1]);
+ * drawing only scales them to the panel rectangles of the current size.
+ *
+ * For a window: lw_plot_draw_static draws the static layer (frame, grid, curves, annotations,
+ * legend) — cache it in a surface or render node and redraw it when the data or the size
+ * change; lw_plot_draw_overlay draws hover read-outs and drag handles on top, cheaply, every
+ * frame. lw_plot_value_at_pixel / lw_plot_pixel_of_value translate between pointer positions
+ * and axis values using the layout of the last draw (or of lw_plot_layout).
+ *
+ * Layout rule (user units of the cairo_t, pixels for PNG): every panel's plot area is
+ *   x from LW_PLOT_MARGIN_LEFT to width − LW_PLOT_MARGIN_RIGHT,
+ *   y from LW_PLOT_MARGIN_TOP + LW_PLOT_LEGEND_ROW · rows to height − LW_PLOT_MARGIN_BOTTOM,
+ * with rows = (title ? 1 : 0) + ⌈named variants / slots⌉ and slots = max(1, ⌊(width −
+ * LW_PLOT_MARGIN_LEFT − LW_PLOT_MARGIN_RIGHT) / LW_PLOT_LEGEND_SLOT⌋) legend entries per row,
+ * split into stacked panels of equal height with LW_PLOT_PANEL_GAP between them (first panel
+ * on top). A panel with equal aspect (Nyquist, pole-zero map) is shrunk about its centre so one
+ * unit has the same length on both axes. Inside a panel,
+ *   pixel x = left + u · width,   pixel y = top + (1 − v) · height.
+ *
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ */
+#pragma once
+
+#include <stdbool.h>
+#include <stddef.h>
+
+#include <cairo.h>
+
+#include "lw-plot-axis.h"
+
+#ifdef __cplusplus
+extern "C" {
+#endif
+
+#define LW_PLOT_MARGIN_LEFT 78.0
+#define LW_PLOT_MARGIN_RIGHT 24.0
+#define LW_PLOT_MARGIN_TOP 14.0
+#define LW_PLOT_MARGIN_BOTTOM 48.0
+#define LW_PLOT_LEGEND_ROW 20.0
+#define LW_PLOT_PANEL_GAP 18.0
+#define LW_PLOT_LEGEND_SLOT 170.0
+/* Line width of every curve of a variant (and its legend sample): no other stroke uses it, so
+ * exported SVG curves can be told apart from grid and annotations. */
+#define LW_PLOT_CURVE_WIDTH 1.75
+
+typedef enum {
+  LW_PLOT_VIEW_BODE_Z = 0,    /* |L|, ∠L over ω up to the Nyquist frequency */
+  LW_PLOT_VIEW_BODE_W,        /* |L|, ∠L over ν (w-plane), with straight-line asymptotes */
+  LW_PLOT_VIEW_NYQUIST,       /* Im L over Re L, unit circle, critical point −1 */
+  LW_PLOT_VIEW_NICHOLS,       /* |L| (dB) over ∠L (°) */
+  LW_PLOT_VIEW_STEP,          /* output samples as a staircase; optional actuator panel */
+  LW_PLOT_VIEW_POLES          /* pole-zero map in z with the unit circle */
+} LwPlotView;
+
+typedef enum {
+  LW_PLOT_THEME_LIGHT = 0,
+  LW_PLOT_THEME_DARK = 1
+} LwPlotTheme;
+
+/* Name of a view as the CLI spells it ("bode-z", …) and back; -1 when unknown. */
+const char *lw_plot_view_name (LwPlotView v);
+int lw_plot_view_from_name (const char *name);
+
+/* A crossover of the loop with its margin, and the point of L there (for annotations). */
+typedef struct {
+  double freq_rad_s;       /* ω (Bode in z) or ν (w-plane), rad/s */
+  double margin;           /* phase margin in degrees, or gain margin in dB */
+  double mag_db;           /* |L| there, dB */
+  double phase_deg;        /* ∠L there, degrees, on the branch of the curve */
+  double re, im;           /* L there */
+} LwPlotCrossover;
+
+/* A loop frequency response over one frequency axis (ascending freq, > 0). */
+typedef struct {
+  size_t n;
+  const double *freq_rad_s;
+  const double *mag_db;
+  const double *phase_deg;
+  size_t n_gain_crossovers;
+  const LwPlotCrossover *gain_crossovers;    /* margin = phase margin, degrees */
+  size_t n_phase_crossovers;
+  const LwPlotCrossover *phase_crossovers;   /* margin = gain margin, dB */
+  /* straight-line asymptote of |L| (w-plane): vertices, drawn joined (may be 0) */
+  size_t n_asymptote;
+  const double *asymptote_freq_rad_s;
+  const double *asymptote_db;
+} LwPlotFreqCurve;
+
+/* L along ascending ω, for the Nyquist diagram (the mirror for negative ω is drawn too). */
+typedef struct {
+  size_t n;
+  const double *re;
+  const double *im;
+} LwPlotComplexCurve;
+
+/* Time responses; every optional series may be absent (n or pointer 0). */
+typedef struct {
+  double period_s;
+  size_t n;                  /* samples y(kT), k = 0 … n−1, drawn held over [kT, (k+1)T) */
+  const double *y;
+  bool has_final;  double final_value;     /* drawn as a reference level */
+  size_t n_fine;             /* continuous output between samples (optional) */
+  const double *t_fine_s;
+  const double *y_fine;
+  const double *u;           /* actuator signal u(kT), n samples (optional, NULL) */
+  bool has_limits;  double u_low, u_high;
+} LwPlotStepData;
+
+typedef struct {
+  size_t n_closed_loop;  const double *cl_re;  const double *cl_im;
+  size_t n_loop_poles;   const double *pole_re; const double *pole_im;   /* open loop L(z) */
+  size_t n_loop_zeros;   const double *zero_re; const double *zero_im;
+} LwPlotPoleData;
+
+/* One variant of the design: what each view needs (a view ignores the rest). */
+typedef struct {
+  const char *name;            /* legend text (UTF-8); NULL: no legend entry */
+  LwPlotFreqCurve z;           /* over ω, ending at the Nyquist frequency */
+  LwPlotFreqCurve w;           /* over ν */
+  LwPlotComplexCurve nyquist;
+  LwPlotStepData step;
+  LwPlotPoleData poles;
+} LwPlotVariant;
+
+/* Requirement marks, drawn where they apply. */
+typedef struct {
+  bool has_target_crossover;
+  double target_crossover_rad_s;     /* ω (Bode in z) */
+  double target_crossover_nu_rad_s;  /* the same warped to ν (w-plane) */
+  bool has_min_phase_margin;
+  double min_phase_margin_deg;
+  bool has_min_gain_margin;
+  double min_gain_margin_db;
+} LwPlotRequirements;
+
+typedef struct {
+  LwPlotView view;
+  double nyquist_rad_s;        /* π/T, where the Bode-in-z axis ends */
+  const char *title;           /* optional, drawn top left (UTF-8) */
+  size_t n_variants;           /* 1 … LW_PLOT_MAX_VARIANTS */
+  const LwPlotVariant *variants;
+  LwPlotRequirements req;
+} LwPlotInput;
+
+#define LW_PLOT_MAX_VARIANTS 6
+
+typedef struct LwPlot LwPlot;
+
+/* Builds the figure: chooses axis ranges, maps every series once. NULL with a message in
+ * err_msg (one sentence, may be NULL) when the input has nothing to draw for the view. */
+LwPlot *lw_plot_new (const LwPlotInput *in, char *err_msg, size_t err_size);
+void lw_plot_free (LwPlot *p);
+
+void lw_plot_set_theme (LwPlot *p, LwPlotTheme theme);
+
+/* Computes panel rectangles for a width × height figure (user units). Called by the draws. */
+void lw_plot_layout (LwPlot *p, double width, double height);
+
+/* Static layer: background, panels, grid, curves, annotations, legend. */
+void lw_plot_draw_static (LwPlot *p, cairo_t *cr, double width, double height);
+
+typedef struct {
+  int panel;                   /* panel index */
+  double x, y;                 /* axis values */
+  bool active;                 /* being dragged / hovered */
+} LwPlotHandle;
+
+typedef struct {
+  bool has_hover;
+  double hover_x, hover_y;     /* pointer, user units */
+  size_t n_handles;
+  const LwPlotHandle *handles;
+} LwPlotOverlay;
+
+/* Overlay layer on top of the static layer (last layout): crosshair with a read-out of the
+ * axis values under the pointer, and drag handles. */
+void lw_plot_draw_overlay (LwPlot *p, cairo_t *cr, const LwPlotOverlay *ov);
+
+size_t lw_plot_n_panels (const LwPlot *p);
+/* Axes of a panel (NULL when out of range). */
+const LwPlotAxis *lw_plot_panel_x_axis (const LwPlot *p, size_t panel);
+const LwPlotAxis *lw_plot_panel_y_axis (const LwPlot *p, size_t panel);
+/* Plot area of a panel in the last layout. */
+bool lw_plot_panel_rect (const LwPlot *p, size_t panel, double *x, double *y, double *w,
+                         double *h);
+
+/* Panel under a pixel and the axis values there; false outside every plot area. */
+bool lw_plot_value_at_pixel (const LwPlot *p, double px, double py, size_t *panel, double *x,
+                             double *y);
+/* Pixel of axis values in a panel; false for a bad panel or a value not on the axis
+ * (e.g. <= 0 on a log axis). The pixel may lie outside the plot area. */
+bool lw_plot_pixel_of_value (const LwPlot *p, size_t panel, double x, double y, double *px,
+                             double *py);
+
+/* Colour of variant i (0-based, modulo the palette) in a theme, components in [0, 1]. */
+void lw_plot_variant_colour (LwPlotTheme theme, size_t i, double rgb[3]);
+
+#ifdef __cplusplus
+}
+#endif
