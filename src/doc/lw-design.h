@@ -1,0 +1,184 @@
+/* lw-design.h — the design document: what an engineer keeps of one controller design, and its
+ * file form (.lwd, an XML vocabulary of our own, docs/file-format.md).
+ *
+ * A design holds its title, author and notes; the plant as the expression in s the user typed
+ * (kept as text, parsed on load only to report errors) and its input dead time; the sampling
+ * (period, hold, computation delay in whole samples); the requirements; one or more variants,
+ * each with a name, notes and its ordered compensator stages (lw-stage.h) with their on/off
+ * state; which variant is active; and optional view settings (frequency range, visible views).
+ *
+ * Loading (lw_design_load_file, lw_design_load_data) is hardened: no network, no DTD (any
+ * DOCTYPE is refused, so no entity can be declared or expanded), at most LW_DESIGN_MAX_BYTES
+ * bytes, LW_DESIGN_MAX_DEPTH levels of elements, LW_DESIGN_MAX_ELEMENTS elements and
+ * LW_DESIGN_MAX_STAGES stages per variant.  The root element's namespace and `version` are
+ * checked first (a newer version is refused with its own message), then the RELAX NG schema
+ * (data/loopwright-design.rng, compiled into the program), then every value.  Every error
+ * message starts with "NAME:LINE: " (NAME as given by the caller) and names the element and
+ * the attribute and what was expected.
+ *
+ * Saving (lw_design_to_text, lw_design_save_file) writes the canonical form: fixed element and
+ * attribute order, one element per line, two-space indentation, numbers in the shortest text
+ * that reads back to the same double (locale-independent), so saving the same design twice
+ * gives the same bytes.  lw_design_save_file writes a temporary file in the target's
+ * directory, flushes and syncs it, then renames it over the target: a failed save leaves the
+ * old file as it was.
+ *
+ * Errors are GErrors in LW_DESIGN_ERROR.  Strings in the structures are UTF-8, owned by the
+ * structure (g_malloc'd), NULL where optional and absent.
+ *
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ */
+#pragma once
+
+#include <stdbool.h>
+#include <stddef.h>
+
+#include <glib.h>
+
+#include "lw-require.h"
+#include "lw-stage.h"
+
+G_BEGIN_DECLS
+
+#define LW_DESIGN_NAMESPACE "urn:loopwright:design"
+#define LW_DESIGN_VERSION 1                      /* the version this program writes and reads */
+#define LW_DESIGN_EXTENSION ".lwd"
+
+#define LW_DESIGN_MAX_BYTES (8u * 1024u * 1024u) /* 8 MiB */
+#define LW_DESIGN_MAX_DEPTH 16                   /* nesting of elements; the vocabulary uses 4 */
+#define LW_DESIGN_MAX_ELEMENTS 100000
+#define LW_DESIGN_MAX_STAGES 1000                /* per variant */
+#define LW_DESIGN_MAX_VARIANTS 100
+#define LW_DESIGN_MAX_REQUIREMENTS 1000
+#define LW_DESIGN_MAX_COMPUTE_DELAY 1000         /* samples, as loopwright-cli --compute-delay */
+
+#define LW_DESIGN_ERROR (lw_design_error_quark ())
+GQuark lw_design_error_quark (void);
+
+typedef enum
+{
+  LW_DESIGN_ERROR_IO,         /* the file cannot be read or written */
+  LW_DESIGN_ERROR_LIMIT,      /* a size, depth or count limit */
+  LW_DESIGN_ERROR_REFUSED,    /* a construct refused for safety: DOCTYPE, entity */
+  LW_DESIGN_ERROR_XML,        /* not well-formed XML */
+  LW_DESIGN_ERROR_FORMAT,     /* not a design document (root element, namespace) */
+  LW_DESIGN_ERROR_VERSION,    /* a newer (or unknown) version of the format */
+  LW_DESIGN_ERROR_SCHEMA,     /* does not match the schema */
+  LW_DESIGN_ERROR_VALUE       /* a value out of its range, a bad plant expression, ... */
+} LwDesignError;
+
+typedef enum
+{
+  LW_HOLD_ZERO_ORDER = 0      /* "zero-order" */
+} LwHold;
+
+/* Views a design may ask to show (bit flags). */
+typedef enum
+{
+  LW_VIEW_BODE_Z = 1u << 0,   /* "bode-z" */
+  LW_VIEW_BODE_W = 1u << 1,   /* "bode-w" */
+  LW_VIEW_NYQUIST = 1u << 2,  /* "nyquist" */
+  LW_VIEW_NICHOLS = 1u << 3,  /* "nichols" */
+  LW_VIEW_STEP = 1u << 4,     /* "step" */
+  LW_VIEW_POLES = 1u << 5     /* "poles" */
+} LwViewFlags;
+#define LW_VIEW_COUNT 6
+
+/* Name of a single view flag ("bode-z", ...); NULL when not exactly one known flag. */
+const char *lw_view_name (unsigned flag);
+
+typedef struct
+{
+  char *name;                 /* optional label; NULL: shown by its kind */
+  LwRequirement req;          /* limits in the units of lw_req_kind_unit */
+} LwDesignRequirement;
+
+typedef struct
+{
+  char *name;                 /* non-empty, unique within the design */
+  char *notes;                /* optional */
+  size_t n_stages;
+  LwStage *stages;            /* n_stages, in order (the compensator is their product) */
+} LwDesignVariant;
+
+typedef struct
+{
+  char *title;                /* required, may be empty */
+  char *author;               /* optional */
+  char *notes;                /* optional */
+  char *plant;                /* P(s) as typed: a proper rational expression in s (lw-expr.h) */
+  double dead_time_s;         /* plant input dead time, >= 0, s */
+  double period_s;            /* sample period T, > 0, s */
+  LwHold hold;
+  int compute_delay;          /* computation delay N, whole samples, 0 … 1000 */
+  size_t n_requirements;
+  LwDesignRequirement *requirements;
+  size_t n_variants;          /* >= 1 in a valid design */
+  LwDesignVariant *variants;
+  size_t active;              /* index of the active variant, < n_variants */
+  /* optional view settings */
+  bool has_range;
+  double range_from_rad_s;    /* frequency range of the views, ω in rad/s, 0 < from < to */
+  double range_to_rad_s;
+  unsigned views;             /* LwViewFlags; 0: not given */
+} LwDesign;
+
+/* A new design: title "", the plant text copied, dead time 0, period_s, zero-order hold,
+ * computation delay 1, no requirements, one variant named "initial" with no stages. */
+LwDesign *lw_design_new (const char *plant, double period_s);
+void lw_design_free (LwDesign *d);
+LwDesign *lw_design_copy (const LwDesign *d);
+G_DEFINE_AUTOPTR_CLEANUP_FUNC (LwDesign, lw_design_free)
+
+/* True when every field is equal (numbers compared with ==, strings byte for byte, absent
+ * strings equal only to absent ones). */
+bool lw_design_equal (const LwDesign *a, const LwDesign *b);
+
+/* Replaces a string field: g_free (*field), then a copy of value (NULL stays NULL). */
+void lw_design_set_string (char **field, const char *value);
+
+/* Appends a variant (name copied, no stages) / a stage to variant v / a requirement; returns
+ * a pointer to the new element, valid until the next append to the same array. */
+LwDesignVariant *lw_design_add_variant (LwDesign *d, const char *name);
+LwStage *lw_design_variant_add_stage (LwDesignVariant *v, const LwStage *s);
+LwDesignRequirement *lw_design_add_requirement (LwDesign *d, const char *name,
+                                                const LwRequirement *r);
+
+/* Index of the variant called name, or -1. */
+gssize lw_design_find_variant (const LwDesign *d, const char *name);
+
+/* Checks everything a loaded design must satisfy (the value rules of docs/file-format.md):
+ * plant expression proper, T > 0, dead time >= 0, delay in range, every stage and requirement
+ * valid, variant names non-empty and unique, active in range, view range, strings valid UTF-8
+ * without characters XML cannot hold.  Used before saving. */
+gboolean lw_design_validate (const LwDesign *d, GError **error);
+
+/* NULL when s is valid UTF-8 holding only characters XML 1.0 allows (so it can be saved),
+ * else a sentence saying what is wrong (a static string). */
+const char *lw_design_text_problem (const char *s);
+
+/* Loads a document. name is used in messages (the path as the user gave it). */
+LwDesign *lw_design_load_file (const char *path, GError **error);
+LwDesign *lw_design_load_data (const char *data, size_t len, const char *name,
+                               GError **error);
+
+/* The canonical text of a validated design (NUL-terminated; *len_out, if not NULL, gets its
+ * length). NULL with an error when lw_design_validate fails. g_free the result. */
+char *lw_design_to_text (const LwDesign *d, size_t *len_out, GError **error);
+
+/* Writes the canonical text atomically to path (see the top of this file). The new file gets
+ * the old file's permission bits, or 0666 less the umask when there was none. */
+gboolean lw_design_save_file (const LwDesign *d, const char *path, GError **error);
+
+/* Shortest decimal text (at most 17 significant digits, '.' as the separator whatever the
+ * locale) that g_ascii_strtod reads back to exactly v; v must be finite. buf needs room for
+ * G_ASCII_DTOSTR_BUF_SIZE bytes. Returns buf. */
+char *lw_design_format_number (double v, char *buf);
+
+/* The element name of a requirement kind in the file ("phase-margin", ...); NULL if unknown. */
+const char *lw_design_requirement_element (LwReqKind kind);
+
+/* The name shown for a requirement: its label, else the element name. */
+const char *lw_design_requirement_title (const LwDesignRequirement *r);
+
+G_END_DECLS
