@@ -1,0 +1,182 @@
+/* lw-compensator-panel.c — the compensator's stages.
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ */
+#include "config.h"
+
+#include <string.h>
+
+#include <glib/gi18n.h>
+
+#include "lw-compensator-panel.h"
+#include "lw-gui-util.h"
+#include "lw-stage-row.h"
+
+struct _LwCompensatorPanel
+{
+  GtkWidget parent_instance;
+
+  GtkMenuButton *add_button;
+  GtkListBox *stage_list;
+  GtkLabel *error_label;
+  GtkLabel *controller_w_label;
+  GtkLabel *controller_z_label;
+
+  LwDesignModel *model;
+  /* where new stages go: the w-plane frequency ν (rad/s) of the last gain crossover, or a
+   * tenth of 2/T when there is none */
+  double place_nu_rad_s;
+};
+
+G_DEFINE_FINAL_TYPE (LwCompensatorPanel, lw_compensator_panel, GTK_TYPE_WIDGET)
+
+static void
+rebuild_rows (LwCompensatorPanel *self)
+{
+  GtkWidget *child;
+  while ((child = gtk_widget_get_first_child (GTK_WIDGET (self->stage_list))) != NULL)
+    gtk_list_box_remove (self->stage_list, child);
+
+  guint n = lw_design_model_get_n_stages (self->model);
+  for (guint i = 0; i < n; i++)
+    gtk_list_box_append (self->stage_list, GTK_WIDGET (lw_stage_row_new (self->model, i)));
+  if (n == 0)
+    {
+      GtkWidget *empty = gtk_label_new (_("No stages: the compensator is 1. Add one with "
+                                          "Add Stage."));
+      gtk_label_set_wrap (GTK_LABEL (empty), TRUE);
+      gtk_widget_add_css_class (empty, "dim-label");
+      gtk_widget_set_margin_top (empty, 12);
+      gtk_widget_set_margin_bottom (empty, 12);
+      gtk_list_box_append (self->stage_list, empty);
+    }
+}
+
+void
+lw_compensator_panel_set_model (LwCompensatorPanel *self, LwDesignModel *model)
+{
+  g_return_if_fail (LW_IS_COMPENSATOR_PANEL (self));
+  g_return_if_fail (LW_IS_DESIGN_MODEL (model));
+
+  if (self->model != NULL)
+    g_signal_handlers_disconnect_by_data (self->model, self);
+  g_set_object (&self->model, model);
+  self->place_nu_rad_s = 0.1 * 2.0 / lw_design_model_get_period_s (model);
+  g_signal_connect_swapped (model, "stages-changed", G_CALLBACK (rebuild_rows), self);
+  rebuild_rows (self);
+}
+
+static void
+show_model_line (GtkLabel *label, const char *prefix, const LwZpk *m)
+{
+  if (m == NULL)
+    {
+      gtk_label_set_text (label, "");
+      return;
+    }
+  g_autofree char *text = lw_gui_format_zpk (m);
+  g_autofree char *line = g_strdup_printf ("%s = %s", prefix, text);
+  gtk_label_set_text (label, line);
+}
+
+void
+lw_compensator_panel_show_eval (LwCompensatorPanel *self, LwLoopEval *eval)
+{
+  g_return_if_fail (LW_IS_COMPENSATOR_PANEL (self));
+  g_return_if_fail (eval != NULL);
+
+  gboolean failed = eval->failure == LW_LOOP_FAILED_COMPENSATOR;
+  gtk_label_set_text (self->error_label, failed ? eval->error.message : "");
+  gtk_widget_set_visible (GTK_WIDGET (self->error_label), failed);
+
+  show_model_line (self->controller_w_label, _("C(w)"), eval->controller_w);
+  show_model_line (self->controller_z_label, _("C(z)"),
+                   eval->ev != NULL ? eval->ev->controller_z : NULL);
+
+  if (eval->ev != NULL && eval->ev->margins.has_phase_margin)
+    self->place_nu_rad_s = lw_warp_omega_to_nu (eval->ev->margins.gain_crossover_rad_s,
+                                                eval->ev->period_s);
+}
+
+void
+lw_compensator_panel_popup_add_menu (LwCompensatorPanel *self)
+{
+  g_return_if_fail (LW_IS_COMPENSATOR_PANEL (self));
+  gtk_menu_button_popup (self->add_button);
+}
+
+/* A new stage of `kind` placed around ν (rad/s): corners at or near ν, moderate strengths
+ * (placement choices of this window, not design rules). */
+static LwStage
+new_stage (LwStageKind kind, double nu)
+{
+  switch (kind)
+    {
+    case LW_STAGE_GAIN: return lw_stage_gain (1.0);
+    case LW_STAGE_INTEGRATOR: return lw_stage_integrator (1);
+    case LW_STAGE_REAL_ZERO: return lw_stage_real_zero (nu);
+    case LW_STAGE_REAL_POLE: return lw_stage_real_pole (5.0 * nu);
+    case LW_STAGE_LEAD: return lw_stage_lead_centred (nu, 30.0);
+    case LW_STAGE_LAG: return lw_stage_lag_centred (0.1 * nu, 10.0);
+    case LW_STAGE_PI: return lw_stage_pi (1.0, 0.1 * nu);
+    case LW_STAGE_PID: return lw_stage_pid (1.0, 10.0 / nu, 0.5 / nu, 10.0);
+    case LW_STAGE_NOTCH: return lw_stage_notch (3.0 * nu, 20.0, nu);
+    case LW_STAGE_ZERO_PAIR: return lw_stage_zero_pair (nu, 0.7);
+    case LW_STAGE_POLE_PAIR: return lw_stage_pole_pair (5.0 * nu, 0.7);
+    }
+  g_assert_not_reached ();
+}
+
+static void
+add_stage_activated (GtkWidget *widget, const char *action, GVariant *param)
+{
+  LwCompensatorPanel *self = LW_COMPENSATOR_PANEL (widget);
+  const char *name = g_variant_get_string (param, NULL);
+
+  for (int k = LW_STAGE_GAIN; k <= LW_STAGE_POLE_PAIR; k++)
+    if (g_strcmp0 (lw_stage_kind_name ((LwStageKind) k), name) == 0)
+      {
+        LwStage s = new_stage ((LwStageKind) k, self->place_nu_rad_s);
+        lw_design_model_append_stage (self->model, &s);
+        return;
+      }
+  g_warning ("compensator.add-stage: unknown stage kind “%s”", name);
+}
+
+static void
+lw_compensator_panel_dispose (GObject *object)
+{
+  LwCompensatorPanel *self = LW_COMPENSATOR_PANEL (object);
+
+  if (self->model != NULL)
+    g_signal_handlers_disconnect_by_data (self->model, self);
+  g_clear_object (&self->model);
+  gtk_widget_dispose_template (GTK_WIDGET (self), LW_TYPE_COMPENSATOR_PANEL);
+  GtkWidget *child;
+  while ((child = gtk_widget_get_first_child (GTK_WIDGET (self))) != NULL)
+    gtk_widget_unparent (child);
+  G_OBJECT_CLASS (lw_compensator_panel_parent_class)->dispose (object);
+}
+
+static void
+lw_compensator_panel_class_init (LwCompensatorPanelClass *klass)
+{
+  GtkWidgetClass *widget_class = GTK_WIDGET_CLASS (klass);
+
+  G_OBJECT_CLASS (klass)->dispose = lw_compensator_panel_dispose;
+  gtk_widget_class_set_template_from_resource (
+    widget_class, "/org/loopwright/Designer/ui/lw-compensator-panel.ui");
+  gtk_widget_class_bind_template_child (widget_class, LwCompensatorPanel, add_button);
+  gtk_widget_class_bind_template_child (widget_class, LwCompensatorPanel, stage_list);
+  gtk_widget_class_bind_template_child (widget_class, LwCompensatorPanel, error_label);
+  gtk_widget_class_bind_template_child (widget_class, LwCompensatorPanel, controller_w_label);
+  gtk_widget_class_bind_template_child (widget_class, LwCompensatorPanel, controller_z_label);
+  gtk_widget_class_install_action (widget_class, "compensator.add-stage", "s",
+                                   add_stage_activated);
+  gtk_widget_class_set_layout_manager_type (widget_class, GTK_TYPE_BIN_LAYOUT);
+}
+
+static void
+lw_compensator_panel_init (LwCompensatorPanel *self)
+{
+  gtk_widget_init_template (GTK_WIDGET (self));
+}

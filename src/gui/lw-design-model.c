@@ -1,0 +1,373 @@
+/* lw-design-model.c — the design the window edits, and its evaluation through core/.
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ */
+#include "config.h"
+
+#include <math.h>
+
+#include "lw-design-model.h"
+#include "lw-expr.h"
+
+struct _LwDesignModel
+{
+  GObject parent_instance;
+
+  char *plant_text;
+  double dead_time_s;
+  double period_s;
+  int compute_delay;
+  GArray *stages;               /* of LwStage */
+  GArray *requirements;         /* of LwRequirement */
+
+  /* the sampled plant of the last evaluation, and what it was built from */
+  LwSampledPlant *sampled;
+  char *sampled_plant_text;
+  double sampled_dead_time_s;
+  double sampled_period_s;
+};
+
+G_DEFINE_FINAL_TYPE (LwDesignModel, lw_design_model, G_TYPE_OBJECT)
+
+enum
+{
+  SIGNAL_CHANGED,
+  SIGNAL_STAGES_CHANGED,
+  SIGNAL_REQUIREMENTS_CHANGED,
+  N_SIGNALS
+};
+static guint signals[N_SIGNALS];
+
+static void
+lw_design_model_finalize (GObject *object)
+{
+  LwDesignModel *self = LW_DESIGN_MODEL (object);
+
+  g_free (self->plant_text);
+  g_array_unref (self->stages);
+  g_array_unref (self->requirements);
+  g_clear_pointer (&self->sampled, lw_sampled_plant_free);
+  g_free (self->sampled_plant_text);
+  G_OBJECT_CLASS (lw_design_model_parent_class)->finalize (object);
+}
+
+static void
+lw_design_model_class_init (LwDesignModelClass *klass)
+{
+  GObjectClass *object_class = G_OBJECT_CLASS (klass);
+
+  object_class->finalize = lw_design_model_finalize;
+
+  /* Any edit: the evaluation and every view are out of date. */
+  signals[SIGNAL_CHANGED] = g_signal_new ("changed", G_TYPE_FROM_CLASS (klass),
+                                          G_SIGNAL_RUN_LAST, 0, NULL, NULL, NULL,
+                                          G_TYPE_NONE, 0);
+  /* Stages added, removed or reordered (emitted before "changed"). */
+  signals[SIGNAL_STAGES_CHANGED] = g_signal_new ("stages-changed", G_TYPE_FROM_CLASS (klass),
+                                                 G_SIGNAL_RUN_LAST, 0, NULL, NULL, NULL,
+                                                 G_TYPE_NONE, 0);
+  /* A requirement added (emitted before "changed"). */
+  signals[SIGNAL_REQUIREMENTS_CHANGED] =
+    g_signal_new ("requirements-changed", G_TYPE_FROM_CLASS (klass), G_SIGNAL_RUN_LAST, 0, NULL,
+                  NULL, NULL, G_TYPE_NONE, 0);
+}
+
+static void
+lw_design_model_init (LwDesignModel *self)
+{
+  self->plant_text = g_strdup ("1/s");
+  self->period_s = 0.01;
+  self->compute_delay = 1;
+  self->stages = g_array_new (FALSE, TRUE, sizeof (LwStage));
+  self->requirements = g_array_new (FALSE, TRUE, sizeof (LwRequirement));
+}
+
+LwDesignModel *
+lw_design_model_new_example (void)
+{
+  LwDesignModel *self = g_object_new (LW_TYPE_DESIGN_MODEL, NULL);
+  LwStage gain = lw_stage_gain (2.5);
+  LwStage lead = lw_stage_lead (10.0, 80.0);
+
+  g_free (self->plant_text);
+  self->plant_text = g_strdup ("180/(s*(s+12))");
+  self->period_s = 0.002;
+  self->dead_time_s = 0.0;
+  self->compute_delay = 1;
+  g_array_append_val (self->stages, gain);
+  g_array_append_val (self->stages, lead);
+  const LwRequirement reqs[] = {
+    { .kind = LW_REQ_MIN_PHASE_MARGIN, .limit = 45.0 },
+    { .kind = LW_REQ_MIN_GAIN_MARGIN, .limit = 6.0 },
+    { .kind = LW_REQ_MAX_SENSITIVITY, .limit = 2.0 },
+    { .kind = LW_REQ_MAX_OVERSHOOT, .limit = 25.0 },
+  };
+  g_array_append_vals (self->requirements, reqs, G_N_ELEMENTS (reqs));
+  return self;
+}
+
+static void
+emit_changed (LwDesignModel *self)
+{
+  g_signal_emit (self, signals[SIGNAL_CHANGED], 0);
+}
+
+const char *
+lw_design_model_get_plant_text (LwDesignModel *self)
+{
+  g_return_val_if_fail (LW_IS_DESIGN_MODEL (self), NULL);
+  return self->plant_text;
+}
+
+void
+lw_design_model_set_plant_text (LwDesignModel *self, const char *text)
+{
+  g_return_if_fail (LW_IS_DESIGN_MODEL (self));
+  g_return_if_fail (text != NULL);
+  if (g_strcmp0 (self->plant_text, text) == 0)
+    return;
+  g_free (self->plant_text);
+  self->plant_text = g_strdup (text);
+  emit_changed (self);
+}
+
+double
+lw_design_model_get_dead_time_s (LwDesignModel *self)
+{
+  g_return_val_if_fail (LW_IS_DESIGN_MODEL (self), NAN);
+  return self->dead_time_s;
+}
+
+void
+lw_design_model_set_dead_time_s (LwDesignModel *self, double dead_time_s)
+{
+  g_return_if_fail (LW_IS_DESIGN_MODEL (self));
+  if (self->dead_time_s == dead_time_s)
+    return;
+  self->dead_time_s = dead_time_s;
+  emit_changed (self);
+}
+
+double
+lw_design_model_get_period_s (LwDesignModel *self)
+{
+  g_return_val_if_fail (LW_IS_DESIGN_MODEL (self), NAN);
+  return self->period_s;
+}
+
+void
+lw_design_model_set_period_s (LwDesignModel *self, double period_s)
+{
+  g_return_if_fail (LW_IS_DESIGN_MODEL (self));
+  if (self->period_s == period_s)
+    return;
+  self->period_s = period_s;
+  emit_changed (self);
+}
+
+int
+lw_design_model_get_compute_delay (LwDesignModel *self)
+{
+  g_return_val_if_fail (LW_IS_DESIGN_MODEL (self), 0);
+  return self->compute_delay;
+}
+
+void
+lw_design_model_set_compute_delay (LwDesignModel *self, int samples)
+{
+  g_return_if_fail (LW_IS_DESIGN_MODEL (self));
+  g_return_if_fail (samples >= 0);
+  if (self->compute_delay == samples)
+    return;
+  self->compute_delay = samples;
+  emit_changed (self);
+}
+
+guint
+lw_design_model_get_n_stages (LwDesignModel *self)
+{
+  g_return_val_if_fail (LW_IS_DESIGN_MODEL (self), 0);
+  return self->stages->len;
+}
+
+const LwStage *
+lw_design_model_get_stage (LwDesignModel *self, guint i)
+{
+  g_return_val_if_fail (LW_IS_DESIGN_MODEL (self), NULL);
+  g_return_val_if_fail (i < self->stages->len, NULL);
+  return &g_array_index (self->stages, LwStage, i);
+}
+
+void
+lw_design_model_set_stage (LwDesignModel *self, guint i, const LwStage *stage)
+{
+  g_return_if_fail (LW_IS_DESIGN_MODEL (self));
+  g_return_if_fail (i < self->stages->len);
+  g_return_if_fail (stage != NULL);
+  g_array_index (self->stages, LwStage, i) = *stage;
+  emit_changed (self);
+}
+
+void
+lw_design_model_append_stage (LwDesignModel *self, const LwStage *stage)
+{
+  g_return_if_fail (LW_IS_DESIGN_MODEL (self));
+  g_return_if_fail (stage != NULL);
+  g_array_append_val (self->stages, *stage);
+  g_signal_emit (self, signals[SIGNAL_STAGES_CHANGED], 0);
+  emit_changed (self);
+}
+
+void
+lw_design_model_remove_stage (LwDesignModel *self, guint i)
+{
+  g_return_if_fail (LW_IS_DESIGN_MODEL (self));
+  g_return_if_fail (i < self->stages->len);
+  g_array_remove_index (self->stages, i);
+  g_signal_emit (self, signals[SIGNAL_STAGES_CHANGED], 0);
+  emit_changed (self);
+}
+
+void
+lw_design_model_move_stage (LwDesignModel *self, guint i, int delta)
+{
+  g_return_if_fail (LW_IS_DESIGN_MODEL (self));
+  g_return_if_fail (delta == -1 || delta == 1);
+  if (i >= self->stages->len || (delta < 0 && i == 0) || (delta > 0 && i + 1 >= self->stages->len))
+    return;
+  guint j = delta < 0 ? i - 1 : i + 1;
+  LwStage tmp = g_array_index (self->stages, LwStage, i);
+  g_array_index (self->stages, LwStage, i) = g_array_index (self->stages, LwStage, j);
+  g_array_index (self->stages, LwStage, j) = tmp;
+  g_signal_emit (self, signals[SIGNAL_STAGES_CHANGED], 0);
+  emit_changed (self);
+}
+
+guint
+lw_design_model_get_n_requirements (LwDesignModel *self)
+{
+  g_return_val_if_fail (LW_IS_DESIGN_MODEL (self), 0);
+  return self->requirements->len;
+}
+
+const LwRequirement *
+lw_design_model_get_requirement (LwDesignModel *self, guint i)
+{
+  g_return_val_if_fail (LW_IS_DESIGN_MODEL (self), NULL);
+  g_return_val_if_fail (i < self->requirements->len, NULL);
+  return &g_array_index (self->requirements, LwRequirement, i);
+}
+
+void
+lw_design_model_set_requirement (LwDesignModel *self, guint i, const LwRequirement *r)
+{
+  g_return_if_fail (LW_IS_DESIGN_MODEL (self));
+  g_return_if_fail (i < self->requirements->len);
+  g_return_if_fail (r != NULL);
+  g_array_index (self->requirements, LwRequirement, i) = *r;
+  emit_changed (self);
+}
+
+void
+lw_design_model_append_requirement (LwDesignModel *self, const LwRequirement *r)
+{
+  g_return_if_fail (LW_IS_DESIGN_MODEL (self));
+  g_return_if_fail (r != NULL);
+  g_array_append_val (self->requirements, *r);
+  g_signal_emit (self, signals[SIGNAL_REQUIREMENTS_CHANGED], 0);
+  emit_changed (self);
+}
+
+/* ---- evaluation --------------------------------------------------------------------------- */
+
+static void
+design_eval_clear (LwLoopEval *e)
+{
+  g_clear_pointer (&e->plant_s, lw_zpk_free);
+  g_clear_pointer (&e->controller_w, lw_zpk_free);
+  g_clear_pointer (&e->ev, lw_evaluation_free);
+}
+
+LwLoopEval *
+lw_loop_eval_ref (LwLoopEval *e)
+{
+  return g_rc_box_acquire (e);
+}
+
+void
+lw_loop_eval_unref (LwLoopEval *e)
+{
+  g_rc_box_release_full (e, (GDestroyNotify) design_eval_clear);
+}
+
+static LwLoopEval *
+fail (LwLoopEval *e, LwLoopFailure failure)
+{
+  e->failure = failure;
+  g_clear_pointer (&e->ev, lw_evaluation_free);
+  return e;
+}
+
+/* The sampled plant for the current plant, dead time and period: kept from the last call when
+ * none of them changed (the plan/execute split of lw-analysis.h). */
+static LwSampledPlant *
+sampled_plant (LwDesignModel *self, const LwZpk *plant_s, LwError *err)
+{
+  if (self->sampled != NULL && g_strcmp0 (self->sampled_plant_text, self->plant_text) == 0
+      && self->sampled_dead_time_s == self->dead_time_s
+      && self->sampled_period_s == self->period_s)
+    return self->sampled;
+
+  g_clear_pointer (&self->sampled, lw_sampled_plant_free);
+  g_clear_pointer (&self->sampled_plant_text, g_free);
+  if (lw_sampled_plant_new (plant_s, self->dead_time_s, self->period_s, &self->sampled, err)
+      != LW_OK)
+    return NULL;
+  self->sampled_plant_text = g_strdup (self->plant_text);
+  self->sampled_dead_time_s = self->dead_time_s;
+  self->sampled_period_s = self->period_s;
+  return self->sampled;
+}
+
+LwLoopEval *
+lw_design_model_evaluate (LwDesignModel *self)
+{
+  g_return_val_if_fail (LW_IS_DESIGN_MODEL (self), NULL);
+
+  LwLoopEval *e = g_rc_box_new0 (LwLoopEval);
+  lw_error_clear (&e->error);
+
+  if (lw_expr_parse_proper (self->plant_text, LW_DOMAIN_S, 0.0, &e->plant_s, &e->error)
+      != LW_OK)
+    return fail (e, LW_LOOP_FAILED_PLANT);
+
+  LwSampledPlant *plant = sampled_plant (self, e->plant_s, &e->error);
+  if (plant == NULL)
+    return fail (e, LW_LOOP_FAILED_SAMPLING);
+
+  LwZpk *controller_z = NULL;
+  const LwStage *stages = (const LwStage *) (void *) self->stages->data;
+  if (lw_compensator_w (stages, self->stages->len, self->period_s, &e->controller_w, &e->error)
+        != LW_OK
+      || lw_compensator_z (stages, self->stages->len, self->period_s, &controller_z, &e->error)
+           != LW_OK)
+    return fail (e, LW_LOOP_FAILED_COMPENSATOR);
+
+  LwAnalysisOptions opts;
+  lw_analysis_options_init (&opts);
+  opts.compute_delay = self->compute_delay;
+  LwStatus st = lw_evaluate (plant, controller_z, &opts, &e->ev, &e->error);
+  lw_zpk_free (controller_z);
+  if (st != LW_OK)
+    return fail (e, LW_LOOP_FAILED_LOOP);
+  e->sampled = plant;
+
+  /* Achieved figures for the requirements; a failure here leaves them out, not the loop. */
+  LwError req_err;
+  e->has_achieved = lw_achieved_from_evaluation (e->ev, e->plant_s, &e->achieved, &req_err)
+                    == LW_OK;
+  if (!e->has_achieved)
+    g_debug ("no achieved figures: %s", req_err.message);
+
+  e->failure = LW_LOOP_OK;
+  return e;
+}

@@ -1,0 +1,236 @@
+/* lw-plant-panel.c — plant and sampling.
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ */
+#include "config.h"
+
+#include <string.h>
+
+#include <glib/gi18n.h>
+
+#include "lw-gui-util.h"
+#include "lw-plant-panel.h"
+
+/* Common practice, no source: 10 to 30 samples per closed-loop rise time (as loopwright-cli
+ * analyze). */
+#define SAMPLES_PER_RISE_MIN 10.0
+#define SAMPLES_PER_RISE_MAX 30.0
+
+struct _LwPlantPanel
+{
+  GtkWidget parent_instance;
+
+  GtkEntry *plant_entry;
+  GtkSpinButton *dead_time_spin;
+  GtkSpinButton *period_spin;
+  GtkSpinButton *delay_spin;
+  GtkLabel *plant_z_label;
+  GtkLabel *plant_w_label;
+  GtkLabel *sampling_note;
+
+  LwDesignModel *model;
+  gboolean filling;             /* showing the model: do not write back */
+};
+
+G_DEFINE_FINAL_TYPE (LwPlantPanel, lw_plant_panel, GTK_TYPE_WIDGET)
+
+static void
+plant_entry_changed (LwPlantPanel *self, GtkEditable *editable)
+{
+  if (self->filling || self->model == NULL)
+    return;
+  lw_design_model_set_plant_text (self->model, gtk_editable_get_text (editable));
+}
+
+static void
+sampling_changed (LwPlantPanel *self, GtkSpinButton *spin)
+{
+  if (self->filling || self->model == NULL)
+    return;
+  if (spin == self->dead_time_spin)
+    lw_design_model_set_dead_time_s (self->model, gtk_spin_button_get_value (spin));
+  else if (spin == self->period_spin)
+    lw_design_model_set_period_s (self->model, gtk_spin_button_get_value (spin));
+  else if (spin == self->delay_spin)
+    lw_design_model_set_compute_delay (self->model, gtk_spin_button_get_value_as_int (spin));
+}
+
+void
+lw_plant_panel_set_model (LwPlantPanel *self, LwDesignModel *model)
+{
+  g_return_if_fail (LW_IS_PLANT_PANEL (self));
+  g_return_if_fail (LW_IS_DESIGN_MODEL (model));
+
+  g_set_object (&self->model, model);
+  self->filling = TRUE;
+  gtk_editable_set_text (GTK_EDITABLE (self->plant_entry),
+                         lw_design_model_get_plant_text (model));
+  gtk_spin_button_set_value (self->dead_time_spin, lw_design_model_get_dead_time_s (model));
+  gtk_spin_button_set_value (self->period_spin, lw_design_model_get_period_s (model));
+  gtk_spin_button_set_value (self->delay_spin, lw_design_model_get_compute_delay (model));
+  self->filling = FALSE;
+}
+
+GtkWidget *
+lw_plant_panel_get_entry (LwPlantPanel *self)
+{
+  g_return_val_if_fail (LW_IS_PLANT_PANEL (self), NULL);
+  return GTK_WIDGET (self->plant_entry);
+}
+
+static void
+clear_plant_error (LwPlantPanel *self)
+{
+  gtk_entry_set_icon_from_icon_name (self->plant_entry, GTK_ENTRY_ICON_SECONDARY, NULL);
+  gtk_entry_set_icon_tooltip_text (self->plant_entry, GTK_ENTRY_ICON_SECONDARY, NULL);
+  gtk_entry_set_attributes (self->plant_entry, NULL);
+  gtk_widget_remove_css_class (GTK_WIDGET (self->plant_entry), "error");
+}
+
+/* Marks the error in the plant entry: an error icon whose tooltip names the character (1-based,
+ * as the CLI reports it), and that character underlined. The core's position counts bytes of
+ * the text, which equal characters up to the first non-ASCII one, where parsing stops. */
+static void
+mark_plant_error (LwPlantPanel *self, const LwError *err)
+{
+  const char *text = gtk_editable_get_text (GTK_EDITABLE (self->plant_entry));
+  size_t len = strlen (text);
+  g_autofree char *tip = NULL;
+
+  gtk_widget_add_css_class (GTK_WIDGET (self->plant_entry), "error");
+  gtk_entry_set_attributes (self->plant_entry, NULL);
+  if (err->position >= 0 && (size_t) err->position < len)
+    {
+      const char *at = text + err->position;
+      const char *next = g_utf8_find_next_char (at, text + len);
+      size_t end = next != NULL ? (size_t) (next - text) : len;
+      g_autofree char *ch = g_strndup (at, end - (size_t) err->position);
+      long column = g_utf8_pointer_to_offset (text, at) + 1;
+
+      /* TRANSLATORS: %ld is the 1-based character position, %s the character, then the
+       * parser's message */
+      tip = g_strdup_printf (_("Character %ld (“%s”): %s"), column, ch, err->message);
+
+      PangoAttrList *attrs = pango_attr_list_new ();
+      PangoAttribute *u = pango_attr_underline_new (PANGO_UNDERLINE_ERROR);
+      u->start_index = (guint) err->position;
+      u->end_index = (guint) end;
+      pango_attr_list_insert (attrs, u);
+      PangoAttribute *w = pango_attr_weight_new (PANGO_WEIGHT_BOLD);
+      w->start_index = (guint) err->position;
+      w->end_index = (guint) end;
+      pango_attr_list_insert (attrs, w);
+      gtk_entry_set_attributes (self->plant_entry, attrs);
+      pango_attr_list_unref (attrs);
+    }
+  else if (err->position >= 0)
+    tip = g_strdup_printf (_("At the end of the expression: %s"), err->message);
+  else
+    tip = g_strdup (err->message);
+
+  gtk_entry_set_icon_from_icon_name (self->plant_entry, GTK_ENTRY_ICON_SECONDARY,
+                                     "dialog-error-symbolic");
+  gtk_entry_set_icon_tooltip_text (self->plant_entry, GTK_ENTRY_ICON_SECONDARY, tip);
+}
+
+static void
+show_model_line (GtkLabel *label, const char *prefix, const LwZpk *m)
+{
+  if (m == NULL)
+    {
+      gtk_label_set_text (label, "");
+      return;
+    }
+  g_autofree char *text = lw_gui_format_zpk (m);
+  g_autofree char *line = g_strdup_printf ("%s = %s", prefix, text);
+  gtk_label_set_text (label, line);
+}
+
+static void
+show_sampling_note (LwPlantPanel *self, const LwEvaluation *ev)
+{
+  g_autofree char *text = NULL;
+
+  if (ev != NULL && ev->step.has_rise && ev->period_s > 0)
+    {
+      double per_rise = ev->step.rise_time_s / ev->period_s;
+      if (per_rise < SAMPLES_PER_RISE_MIN)
+        text = g_strdup_printf (_("%.3g samples per closed-loop rise time (%.3g s), fewer than "
+                                  "the usual 10 to 30: consider a shorter period."),
+                                per_rise, ev->step.rise_time_s);
+      else if (per_rise > SAMPLES_PER_RISE_MAX)
+        text = g_strdup_printf (_("%.3g samples per closed-loop rise time (%.3g s), more than "
+                                  "the usual 10 to 30: a longer period would do."),
+                                per_rise, ev->step.rise_time_s);
+    }
+  gtk_label_set_text (self->sampling_note, text != NULL ? text : "");
+  gtk_widget_set_visible (GTK_WIDGET (self->sampling_note), text != NULL);
+}
+
+void
+lw_plant_panel_show_eval (LwPlantPanel *self, LwLoopEval *eval)
+{
+  g_return_if_fail (LW_IS_PLANT_PANEL (self));
+  g_return_if_fail (eval != NULL);
+
+  if (eval->failure == LW_LOOP_FAILED_PLANT)
+    mark_plant_error (self, &eval->error);
+  else
+    clear_plant_error (self);
+
+  if (eval->failure == LW_LOOP_FAILED_SAMPLING)
+    {
+      gtk_widget_add_css_class (GTK_WIDGET (self->period_spin), "error");
+      gtk_widget_set_tooltip_text (GTK_WIDGET (self->period_spin), eval->error.message);
+    }
+  else
+    {
+      gtk_widget_remove_css_class (GTK_WIDGET (self->period_spin), "error");
+      gtk_widget_set_tooltip_text (GTK_WIDGET (self->period_spin), NULL);
+    }
+
+  const LwEvaluation *ev = eval->ev;
+  /* TRANSLATORS: the discretized plant in z, as factors */
+  show_model_line (self->plant_z_label, _("P(z)"), ev != NULL ? ev->plant_z : NULL);
+  /* TRANSLATORS: the discretized plant in the w-plane, as factors */
+  show_model_line (self->plant_w_label, _("P(w)"), ev != NULL ? ev->plant_w : NULL);
+  show_sampling_note (self, ev);
+}
+
+static void
+lw_plant_panel_dispose (GObject *object)
+{
+  LwPlantPanel *self = LW_PLANT_PANEL (object);
+
+  g_clear_object (&self->model);
+  gtk_widget_dispose_template (GTK_WIDGET (self), LW_TYPE_PLANT_PANEL);
+  GtkWidget *child;
+  while ((child = gtk_widget_get_first_child (GTK_WIDGET (self))) != NULL)
+    gtk_widget_unparent (child);
+  G_OBJECT_CLASS (lw_plant_panel_parent_class)->dispose (object);
+}
+
+static void
+lw_plant_panel_class_init (LwPlantPanelClass *klass)
+{
+  GtkWidgetClass *widget_class = GTK_WIDGET_CLASS (klass);
+
+  G_OBJECT_CLASS (klass)->dispose = lw_plant_panel_dispose;
+  gtk_widget_class_set_template_from_resource (widget_class,
+                                               "/org/loopwright/Designer/ui/lw-plant-panel.ui");
+  gtk_widget_class_bind_template_child (widget_class, LwPlantPanel, plant_entry);
+  gtk_widget_class_bind_template_child (widget_class, LwPlantPanel, dead_time_spin);
+  gtk_widget_class_bind_template_child (widget_class, LwPlantPanel, period_spin);
+  gtk_widget_class_bind_template_child (widget_class, LwPlantPanel, delay_spin);
+  gtk_widget_class_bind_template_child (widget_class, LwPlantPanel, plant_z_label);
+  gtk_widget_class_bind_template_child (widget_class, LwPlantPanel, plant_w_label);
+  gtk_widget_class_bind_template_child (widget_class, LwPlantPanel, sampling_note);
+  gtk_widget_class_bind_template_callback (widget_class, plant_entry_changed);
+  gtk_widget_class_bind_template_callback (widget_class, sampling_changed);
+  gtk_widget_class_set_layout_manager_type (widget_class, GTK_TYPE_BIN_LAYOUT);
+}
+
+static void
+lw_plant_panel_init (LwPlantPanel *self)
+{
+  gtk_widget_init_template (GTK_WIDGET (self));
+}

@@ -1,0 +1,395 @@
+/* lw-requirements-panel.c — requirements and loop figures.
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ */
+#include "config.h"
+
+#include <math.h>
+
+#include <glib/gi18n.h>
+
+#include "lw-requirements-panel.h"
+
+struct _LwRequirementsPanel
+{
+  GtkWidget parent_instance;
+
+  GtkGrid *req_grid;
+  GtkGrid *figure_grid;
+
+  LwDesignModel *model;
+  GPtrArray *achieved_labels;   /* per requirement */
+  GPtrArray *result_labels;
+  GtkLabel *figure_values[16];
+  gboolean filling;
+};
+
+G_DEFINE_FINAL_TYPE (LwRequirementsPanel, lw_requirements_panel, GTK_TYPE_WIDGET)
+
+static const char *
+req_title (LwReqKind kind)
+{
+  switch (kind)
+    {
+    case LW_REQ_MIN_PHASE_MARGIN: return _("Phase margin ≥");
+    case LW_REQ_MIN_GAIN_MARGIN: return _("Gain margin ≥");
+    case LW_REQ_MAX_SENSITIVITY: return _("Sensitivity peak ≤");
+    case LW_REQ_CROSSOVER_RANGE: return _("Crossover within");
+    case LW_REQ_MAX_STEP_ERROR: return _("Step error ≤");
+    case LW_REQ_MAX_RAMP_ERROR: return _("Ramp error ≤");
+    case LW_REQ_MAX_OVERSHOOT: return _("Overshoot ≤");
+    case LW_REQ_MAX_RISE_TIME: return _("Rise time ≤");
+    case LW_REQ_MAX_SETTLING_TIME: return _("Settling time ≤");
+    case LW_REQ_MAX_ACTUATOR: return _("Actuator peak ≤");
+    }
+  return "?";
+}
+
+/* A new requirement's limits: figures commonly asked of a servo loop (common practice, no
+ * source); the engineer edits them. */
+static LwRequirement
+new_requirement (LwReqKind kind)
+{
+  LwRequirement r = { .kind = kind, .limit = 1.0, .limit_hi = 0.0 };
+  switch (kind)
+    {
+    case LW_REQ_MIN_PHASE_MARGIN: r.limit = 45.0; break;
+    case LW_REQ_MIN_GAIN_MARGIN: r.limit = 6.0; break;
+    case LW_REQ_MAX_SENSITIVITY: r.limit = 2.0; break;
+    case LW_REQ_CROSSOVER_RANGE: r.limit = 10.0; r.limit_hi = 100.0; break;
+    case LW_REQ_MAX_STEP_ERROR: r.limit = 0.01; break;
+    case LW_REQ_MAX_RAMP_ERROR: r.limit = 0.1; break;
+    case LW_REQ_MAX_OVERSHOOT: r.limit = 20.0; break;
+    case LW_REQ_MAX_RISE_TIME: r.limit = 0.1; break;
+    case LW_REQ_MAX_SETTLING_TIME: r.limit = 0.5; break;
+    case LW_REQ_MAX_ACTUATOR: r.limit = 10.0; break;
+    }
+  return r;
+}
+
+static void
+target_changed (GtkSpinButton *spin, LwRequirementsPanel *self)
+{
+  if (self->filling)
+    return;
+  guint i = GPOINTER_TO_UINT (g_object_get_data (G_OBJECT (spin), "lw-req-index"));
+  gboolean hi = g_object_get_data (G_OBJECT (spin), "lw-req-hi") != NULL;
+  LwRequirement r = *lw_design_model_get_requirement (self->model, i);
+  if (hi)
+    r.limit_hi = gtk_spin_button_get_value (spin);
+  else
+    r.limit = gtk_spin_button_get_value (spin);
+  lw_design_model_set_requirement (self->model, i, &r);
+}
+
+static GtkWidget *
+target_spin (LwRequirementsPanel *self, guint i, double value, gboolean hi)
+{
+  GtkAdjustment *adj = gtk_adjustment_new (value, -1e9, 1e9, 0.1, 1.0, 0.0);
+  GtkWidget *spin = gtk_spin_button_new (adj, 0.0, 3);
+  gtk_spin_button_set_numeric (GTK_SPIN_BUTTON (spin), TRUE);
+  gtk_editable_set_width_chars (GTK_EDITABLE (spin), 7);
+  g_object_set_data (G_OBJECT (spin), "lw-req-index", GUINT_TO_POINTER (i));
+  if (hi)
+    g_object_set_data (G_OBJECT (spin), "lw-req-hi", GINT_TO_POINTER (1));
+  g_signal_connect (spin, "value-changed", G_CALLBACK (target_changed), self);
+  return spin;
+}
+
+static GtkWidget *
+cell (const char *text, float xalign, const char *css)
+{
+  GtkWidget *l = gtk_label_new (text);
+  gtk_label_set_xalign (GTK_LABEL (l), xalign);
+  if (css != NULL)
+    gtk_widget_add_css_class (l, css);
+  return l;
+}
+
+static void
+clear_grid (GtkGrid *grid)
+{
+  GtkWidget *child;
+  while ((child = gtk_widget_get_first_child (GTK_WIDGET (grid))) != NULL)
+    gtk_grid_remove (grid, child);
+}
+
+static void
+rebuild_requirements (LwRequirementsPanel *self)
+{
+  clear_grid (self->req_grid);
+  g_ptr_array_set_size (self->achieved_labels, 0);
+  g_ptr_array_set_size (self->result_labels, 0);
+
+  gtk_grid_attach (self->req_grid, cell (_("Requirement"), 0, "dim-label"), 0, 0, 1, 1);
+  gtk_grid_attach (self->req_grid, cell (_("Target"), 0, "dim-label"), 1, 0, 1, 1);
+  gtk_grid_attach (self->req_grid, cell (_("Achieved"), 1, "dim-label"), 3, 0, 1, 1);
+  gtk_grid_attach (self->req_grid, cell (_("Result"), 0, "dim-label"), 4, 0, 1, 1);
+
+  self->filling = TRUE;
+  guint n = lw_design_model_get_n_requirements (self->model);
+  for (guint i = 0; i < n; i++)
+    {
+      const LwRequirement *r = lw_design_model_get_requirement (self->model, i);
+      int row = (int) i + 1;
+      gtk_grid_attach (self->req_grid, cell (req_title (r->kind), 0, NULL), 0, row, 1, 1);
+      GtkWidget *targets = gtk_box_new (GTK_ORIENTATION_HORIZONTAL, 4);
+      gtk_box_append (GTK_BOX (targets), target_spin (self, i, r->limit, FALSE));
+      if (r->kind == LW_REQ_CROSSOVER_RANGE)
+        {
+          gtk_box_append (GTK_BOX (targets), cell ("…", 0, NULL));
+          gtk_box_append (GTK_BOX (targets), target_spin (self, i, r->limit_hi, TRUE));
+        }
+      gtk_grid_attach (self->req_grid, targets, 1, row, 1, 1);
+      gtk_grid_attach (self->req_grid, cell (lw_req_kind_unit (r->kind), 0, "dim-label"), 2,
+                       row, 1, 1);
+      GtkWidget *achieved = cell ("—", 1, "numeric");
+      GtkWidget *result = cell ("—", 0, NULL);
+      gtk_grid_attach (self->req_grid, achieved, 3, row, 1, 1);
+      gtk_grid_attach (self->req_grid, result, 4, row, 1, 1);
+      g_ptr_array_add (self->achieved_labels, achieved);
+      g_ptr_array_add (self->result_labels, result);
+    }
+  self->filling = FALSE;
+}
+
+static void
+show_requirements (LwRequirementsPanel *self, LwLoopEval *eval)
+{
+  guint n = self->achieved_labels->len;
+  for (guint i = 0; i < n && i < lw_design_model_get_n_requirements (self->model); i++)
+    {
+      GtkLabel *achieved = g_ptr_array_index (self->achieved_labels, i);
+      GtkWidget *result = g_ptr_array_index (self->result_labels, i);
+      const LwRequirement *r = lw_design_model_get_requirement (self->model, i);
+      const char *verdict = "—";
+      const char *tip = NULL;
+      g_autofree char *value = NULL;
+      LwError err;
+
+      gtk_widget_remove_css_class (result, "success");
+      gtk_widget_remove_css_class (result, "error");
+      if (lw_requirement_check (r, &err) != LW_OK)
+        {
+          verdict = _("invalid target");
+          tip = err.message;
+          gtk_widget_add_css_class (result, "error");
+        }
+      else if (eval != NULL && eval->has_achieved)
+        {
+          LwReqResult res = lw_requirement_evaluate (r, &eval->achieved);
+          if (isfinite (res.achieved))
+            value = g_strdup_printf ("%.4g", res.achieved);
+          else if (isinf (res.achieved))
+            value = g_strdup ("∞");
+          tip = res.note;
+          switch (res.status)
+            {
+            case LW_REQ_PASS:
+              verdict = _("pass");
+              gtk_widget_add_css_class (result, "success");
+              break;
+            case LW_REQ_FAIL:
+              verdict = _("fail");
+              gtk_widget_add_css_class (result, "error");
+              break;
+            case LW_REQ_NOT_AVAILABLE:
+              verdict = _("not available");
+              break;
+            }
+        }
+      gtk_label_set_text (achieved, value != NULL ? value : "—");
+      gtk_label_set_text (GTK_LABEL (result), verdict);
+      gtk_widget_set_tooltip_text (result, tip);
+    }
+}
+
+/* ---- loop figures ---------------------------------------------------------------------- */
+
+enum
+{
+  FIG_STABLE,
+  FIG_PHASE_MARGIN,
+  FIG_GAIN_MARGIN,
+  FIG_DELAY_MARGIN,
+  FIG_CROSSOVERS,
+  FIG_SENSITIVITY,
+  FIG_BANDWIDTH,
+  FIG_OVERSHOOT,
+  FIG_RISE,
+  FIG_SETTLING,
+  N_FIGURES
+};
+
+static void
+build_figures (LwRequirementsPanel *self)
+{
+  const char *titles[N_FIGURES] = {
+    [FIG_STABLE] = _("Closed loop"),
+    [FIG_PHASE_MARGIN] = _("Phase margin"),
+    [FIG_GAIN_MARGIN] = _("Gain margin"),
+    [FIG_DELAY_MARGIN] = _("Delay margin"),
+    [FIG_CROSSOVERS] = _("Gain crossovers"),
+    [FIG_SENSITIVITY] = _("Sensitivity peak"),
+    [FIG_BANDWIDTH] = _("Bandwidth (−3 dB)"),
+    [FIG_OVERSHOOT] = _("Step overshoot"),
+    [FIG_RISE] = _("Rise time (10–90 %)"),
+    [FIG_SETTLING] = _("Settling time (2 %)"),
+  };
+  G_STATIC_ASSERT (N_FIGURES <= G_N_ELEMENTS (((LwRequirementsPanel *) 0)->figure_values));
+  for (int i = 0; i < N_FIGURES; i++)
+    {
+      gtk_grid_attach (self->figure_grid, cell (titles[i], 0, "dim-label"), 0, i, 1, 1);
+      GtkWidget *v = cell ("—", 0, NULL);
+      gtk_label_set_selectable (GTK_LABEL (v), TRUE);
+      gtk_grid_attach (self->figure_grid, v, 1, i, 1, 1);
+      self->figure_values[i] = GTK_LABEL (v);
+    }
+}
+
+static void
+set_figure (LwRequirementsPanel *self, int i, char *text)
+{
+  gtk_label_set_text (self->figure_values[i], text != NULL ? text : "—");
+  g_free (text);
+}
+
+static void
+show_figures (LwRequirementsPanel *self, LwLoopEval *eval)
+{
+  const LwEvaluation *ev = eval->ev;
+  if (ev == NULL)
+    {
+      for (int i = 0; i < N_FIGURES; i++)
+        set_figure (self, i, NULL);
+      set_figure (self, FIG_STABLE, g_strdup (_("not evaluated (see the message above)")));
+      return;
+    }
+  const LwMargins *m = &ev->margins;
+
+  set_figure (self, FIG_STABLE, g_strdup (ev->stable ? _("stable")
+                                                     : _("NOT stable (a pole on or outside "
+                                                         "the unit circle)")));
+  set_figure (self, FIG_PHASE_MARGIN,
+              m->has_phase_margin
+                ? g_strdup_printf (_("%.4g° at %.4g rad/s"), m->phase_margin_deg,
+                                   m->gain_crossover_rad_s)
+                : g_strdup (_("none (no gain crossover)")));
+  set_figure (self, FIG_GAIN_MARGIN,
+              m->has_gain_margin
+                ? g_strdup_printf (_("%.4g dB at %.4g rad/s"), m->gain_margin_db,
+                                   m->phase_crossover_rad_s)
+                : g_strdup (_("none (no phase crossover)")));
+  set_figure (self, FIG_DELAY_MARGIN,
+              m->has_delay_margin
+                ? g_strdup_printf (_("%.4g s (%.3g samples)"), m->delay_margin_s,
+                                   m->delay_margin_samples)
+                : NULL);
+  g_autoptr (GString) xs = g_string_new (NULL);
+  for (size_t i = 0; i < m->n_gain_crossovers; i++)
+    g_string_append_printf (xs, "%s%.4g", i > 0 ? ", " : "", m->gain_crossovers_rad_s[i]);
+  set_figure (self, FIG_CROSSOVERS,
+              m->n_gain_crossovers > 0 ? g_strdup_printf (_("%s rad/s"), xs->str)
+                                       : g_strdup (_("none")));
+  set_figure (self, FIG_SENSITIVITY,
+              m->has_sensitivity
+                ? g_strdup_printf (_("%.4g (%.3g dB) at %.4g rad/s"), m->sensitivity_peak,
+                                   20.0 * log10 (m->sensitivity_peak), m->sensitivity_peak_rad_s)
+                : NULL);
+  set_figure (self, FIG_BANDWIDTH,
+              m->has_bandwidth ? g_strdup_printf (_("%.4g rad/s"), m->bandwidth_rad_s) : NULL);
+  const LwStep *st = &ev->step;
+  set_figure (self, FIG_OVERSHOOT,
+              st->has_overshoot ? g_strdup_printf ("%.3g %%", st->overshoot_pct) : NULL);
+  set_figure (self, FIG_RISE,
+              st->has_rise ? g_strdup_printf (_("%.4g s"), st->rise_time_s) : NULL);
+  set_figure (self, FIG_SETTLING,
+              st->has_settling ? g_strdup_printf (_("%.4g s"), st->settling_time_s) : NULL);
+}
+
+/* ---- public ---------------------------------------------------------------------------- */
+
+static void
+requirements_changed (LwRequirementsPanel *self)
+{
+  rebuild_requirements (self);
+}
+
+void
+lw_requirements_panel_set_model (LwRequirementsPanel *self, LwDesignModel *model)
+{
+  g_return_if_fail (LW_IS_REQUIREMENTS_PANEL (self));
+  g_return_if_fail (LW_IS_DESIGN_MODEL (model));
+
+  if (self->model != NULL)
+    g_signal_handlers_disconnect_by_data (self->model, self);
+  g_set_object (&self->model, model);
+  g_signal_connect_swapped (model, "requirements-changed", G_CALLBACK (requirements_changed),
+                            self);
+  rebuild_requirements (self);
+}
+
+void
+lw_requirements_panel_show_eval (LwRequirementsPanel *self, LwLoopEval *eval)
+{
+  g_return_if_fail (LW_IS_REQUIREMENTS_PANEL (self));
+  g_return_if_fail (eval != NULL);
+
+  show_requirements (self, eval);
+  show_figures (self, eval);
+}
+
+static void
+add_activated (GtkWidget *widget, const char *action, GVariant *param)
+{
+  LwRequirementsPanel *self = LW_REQUIREMENTS_PANEL (widget);
+  const char *name = g_variant_get_string (param, NULL);
+
+  for (int k = LW_REQ_MIN_PHASE_MARGIN; k <= LW_REQ_MAX_ACTUATOR; k++)
+    if (g_strcmp0 (lw_req_kind_name ((LwReqKind) k), name) == 0)
+      {
+        LwRequirement r = new_requirement ((LwReqKind) k);
+        lw_design_model_append_requirement (self->model, &r);
+        return;
+      }
+  g_warning ("requirements.add: unknown requirement kind “%s”", name);
+}
+
+static void
+lw_requirements_panel_dispose (GObject *object)
+{
+  LwRequirementsPanel *self = LW_REQUIREMENTS_PANEL (object);
+
+  if (self->model != NULL)
+    g_signal_handlers_disconnect_by_data (self->model, self);
+  g_clear_object (&self->model);
+  g_clear_pointer (&self->achieved_labels, g_ptr_array_unref);
+  g_clear_pointer (&self->result_labels, g_ptr_array_unref);
+  gtk_widget_dispose_template (GTK_WIDGET (self), LW_TYPE_REQUIREMENTS_PANEL);
+  GtkWidget *child;
+  while ((child = gtk_widget_get_first_child (GTK_WIDGET (self))) != NULL)
+    gtk_widget_unparent (child);
+  G_OBJECT_CLASS (lw_requirements_panel_parent_class)->dispose (object);
+}
+
+static void
+lw_requirements_panel_class_init (LwRequirementsPanelClass *klass)
+{
+  GtkWidgetClass *widget_class = GTK_WIDGET_CLASS (klass);
+
+  G_OBJECT_CLASS (klass)->dispose = lw_requirements_panel_dispose;
+  gtk_widget_class_set_template_from_resource (
+    widget_class, "/org/loopwright/Designer/ui/lw-requirements-panel.ui");
+  gtk_widget_class_bind_template_child (widget_class, LwRequirementsPanel, req_grid);
+  gtk_widget_class_bind_template_child (widget_class, LwRequirementsPanel, figure_grid);
+  gtk_widget_class_install_action (widget_class, "requirements.add", "s", add_activated);
+  gtk_widget_class_set_layout_manager_type (widget_class, GTK_TYPE_BIN_LAYOUT);
+}
+
+static void
+lw_requirements_panel_init (LwRequirementsPanel *self)
+{
+  gtk_widget_init_template (GTK_WIDGET (self));
+  self->achieved_labels = g_ptr_array_new ();
+  self->result_labels = g_ptr_array_new ();
+  build_figures (self);
+}
