@@ -57,6 +57,11 @@ def inner(app, schema_dir, artefacts):
                GSETTINGS_SCHEMA_DIR=schema_dir, GSETTINGS_BACKEND='memory', LANGUAGE='C',
                LC_ALL='C.UTF-8')
     env.pop('DBUS_SESSION_BUS_ADDRESS', None)
+    # Under the sanitizer build: leaks of system libraries' caches are suppressed (lsan.supp).
+    supp = os.path.join(os.path.dirname(os.path.abspath(__file__)), 'lsan.supp')
+    env['LSAN_OPTIONS'] = ':'.join(filter(None, [os.environ.get('LSAN_OPTIONS'),
+                                                 'suppressions=' + supp,
+                                                 'print_suppressions=0']))
     log = open(os.path.join(artefacts, 'loopwright.log'), 'w')
     proc = subprocess.Popen([app], env=env, stdout=log, stderr=subprocess.STDOUT)
     try:
