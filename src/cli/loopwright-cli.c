@@ -25,7 +25,10 @@ typedef struct
 } Command;
 
 static const Command commands[] = {
-  { "analyze", lw_cmd_analyze, "analyze a sampled loop given on the command line" },
+  { "analyze", lw_cmd_analyze, "analyze a sampled loop given on the command line or in a design" },
+  { "check", lw_cmd_check, "check a design document against its requirements (exit 3: not met)" },
+  { "new", lw_cmd_new, "write a fresh design document for a plant and a period" },
+  { "tidy", lw_cmd_tidy, "rewrite a design document in its canonical form" },
   { "plot", lw_cmd_plot, "draw a view of a sampled loop into a PNG, SVG or PDF file" },
   { "suggest", lw_cmd_suggest, "propose a crossover gain and lead stages for a phase margin" },
   { "emit", lw_cmd_emit, "write the controller as C code (difference equation or sections)" },

@@ -7,6 +7,9 @@
 #pragma once
 
 int lw_cmd_analyze (int argc, char **argv);
+int lw_cmd_check (int argc, char **argv);
+int lw_cmd_new (int argc, char **argv);
+int lw_cmd_tidy (int argc, char **argv);
 int lw_cmd_plot (int argc, char **argv);
 int lw_cmd_suggest (int argc, char **argv);
 int lw_cmd_emit (int argc, char **argv);

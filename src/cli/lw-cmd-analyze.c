@@ -10,6 +10,7 @@
 
 #include "lw-cli-commands.h"
 #include "lw-cli-common.h"
+#include "lw-cli-doc.h"
 #include "lw-cli-json.h"
 #include "lw-simulate.h"
 
@@ -222,13 +223,19 @@ print_report (const LwZpk *plant_s, double dead_time_s, const LwEvaluation *ev,
 
 static const char analyze_help[] =
   "Usage: " LW_CLI_PROG " analyze --plant EXPR --period SECONDS [options]\n"
+  "       " LW_CLI_PROG " analyze FILE.lwd [--variant NAME] [options]\n"
   "\n"
   "Discretizes a continuous plant with a zero-order hold, closes the loop through a\n"
   "controller and reports crossovers, margins, closed-loop poles, the step response and\n"
   "the time-domain verification: actuator signal, continuous output between samples,\n"
   "input- and output-disturbance steps and performance indices (docs/simulation.md).\n"
   "\n"
+  "Given a design document (FILE.lwd), the plant, sampling and controller (the stages of\n"
+  "the active variant, or of --variant NAME) come from it, and its requirements are\n"
+  "checked too; the loop options below are then not accepted.\n"
+  "\n"
   "Options:\n"
+  "  --variant NAME           the variant of FILE.lwd to analyze (default: the active one)\n"
   "  --plant EXPR             plant P(s), a proper rational expression in s (required)\n"
   "  --period SECONDS         sample period T in seconds, > 0 (required)\n"
   "  --compute-delay N        computation delay in whole samples, 0 to 1000 (default 1)\n"
@@ -252,6 +259,8 @@ static const char analyze_help[] =
 typedef struct
 {
   LwCliLoopArgs loop;
+  char **files;                /* FILE.lwd, when given */
+  char *variant;
   char *points;
   char *steps;
   char *saturation;
@@ -285,12 +294,64 @@ parse_saturation (const char *text, double *low, double *high)
   return true;
 }
 
+/* The loop from a design document (a->files[0]) or from the loop options. */
+static int
+analyze_loop (const AnalyzeArgs *a, LwCliLoop *lp, LwDesign **design)
+{
+  *design = NULL;
+  if (a->files == NULL || a->files[0] == NULL)
+    {
+      if (a->variant != NULL)
+        {
+          lw_cli_bad_input ("--variant", "needs a design document (FILE.lwd) to pick from");
+          return LW_EXIT_BAD_INPUT;
+        }
+      return lw_cli_loop_build ("analyze", &a->loop, lp);
+    }
+  memset (lp, 0, sizeof *lp);
+  if (a->files[1] != NULL)
+    {
+      lw_cli_bad_input ("analyze", "unexpected argument '%s': one design document at a time",
+                        a->files[1]);
+      return LW_EXIT_BAD_INPUT;
+    }
+  const char *given[] = { a->loop.plant, a->loop.period, a->loop.compute_delay,
+                          a->loop.dead_time, a->loop.controller, a->loop.controller_z };
+  const char *names[] = { "--plant", "--period", "--compute-delay", "--dead-time",
+                          "--controller", "--controller-z" };
+  for (size_t i = 0; i < G_N_ELEMENTS (given); i++)
+    if (given[i] != NULL)
+      {
+        lw_cli_bad_input ("analyze", "unexpected argument '%s' (see '" LW_CLI_PROG " analyze "
+                          "--help'): a design document cannot be combined with %s",
+                          a->files[0], names[i]);
+        return LW_EXIT_BAD_INPUT;
+      }
+  int status = lw_cli_doc_load (a->files[0], design);
+  size_t index = 0;
+  if (status == LW_EXIT_OK)
+    status = lw_cli_doc_variant (*design, "--variant", a->variant, &index);
+  if (status == LW_EXIT_OK)
+    status = lw_cli_doc_loop_build (a->files[0], *design, index, lp);
+  if (status != LW_EXIT_OK)
+    {
+      lw_design_free (*design);
+      *design = NULL;
+      return status;
+    }
+  /* Remember the variant for the report: the design's active index is set to it. */
+  (*design)->active = index;
+  return LW_EXIT_OK;
+}
+
 static int
 analyze_run (void *data)
 {
   const AnalyzeArgs *a = data;
   LwCliLoop lp;
-  int status = lw_cli_loop_build ("analyze", &a->loop, &lp);
+  LwDesign *design = NULL;
+  LwReqResult *req = NULL;
+  int status = analyze_loop (a, &lp, &design);
   if (status != LW_EXIT_OK)
     return status;
   LwAnalysisOptions opts;
@@ -383,16 +444,44 @@ analyze_run (void *data)
       step.n = sim_ref->n;
       lw_step_figures (&step, ev->period_s);
     }
+  if (design != NULL)
+    {
+      req = g_new0 (LwReqResult, design->n_requirements + 1);
+      if (lw_cli_doc_requirements (design, ev, lp.plant_s, sim_ref, req) < 0)
+        {
+          status = LW_EXIT_INTERNAL;
+          goto out;
+        }
+    }
   if (a->json)
     {
       JsonNode *root = lw_cli_json_analysis (ev, &step, sim_ref, sim_in, sim_out);
+      if (design != NULL)
+        {
+          /* the document's requirements, as "requirements": [...] */
+          JsonBuilder *b = json_builder_new ();
+          lw_cli_doc_json_requirements (b, design, req);
+          json_object_set_member (json_node_get_object (root), "requirements",
+                                  json_builder_get_root (b));
+          g_object_unref (b);
+        }
       char *text = lw_cli_json_to_text (root);
       fputs (text, stdout);
       g_free (text);
       json_node_unref (root);
     }
   else
-    print_report (lp.plant_s, lp.dead_time_s, ev, &step, &so, sim_ref, sim_in, sim_out);
+    {
+      if (design != NULL)
+        printf ("Design '%s' (%s), variant '%s'\n\n", design->title, a->files[0],
+                design->variants[design->active].name);
+      print_report (lp.plant_s, lp.dead_time_s, ev, &step, &so, sim_ref, sim_in, sim_out);
+      if (design != NULL)
+        {
+          printf ("\nRequirements of the design\n");
+          lw_cli_doc_print_requirements (design, req);
+        }
+    }
 out:
   lw_sim_response_free (sim_ref);
   lw_sim_response_free (sim_in);
@@ -400,6 +489,8 @@ out:
   lw_sim_plan_free (plan);
   lw_evaluation_free (ev);
   lw_cli_loop_clear (&lp);
+  g_free (req);
+  lw_design_free (design);
   return status;
 }
 
@@ -416,11 +507,15 @@ lw_cmd_analyze (int argc, char **argv)
     { "substeps", 0, 0, G_OPTION_ARG_STRING, &a.substeps, NULL, NULL },
     { "json", 0, 0, G_OPTION_ARG_NONE, &a.json, NULL, NULL },
     { "help", 'h', 0, G_OPTION_ARG_NONE, &a.help, NULL, NULL },
+    { "variant", 0, 0, G_OPTION_ARG_STRING, &a.variant, NULL, NULL },
+    { G_OPTION_REMAINING, 0, 0, G_OPTION_ARG_FILENAME_ARRAY, &a.files, NULL, NULL },
     { NULL, 0, 0, 0, NULL, NULL, NULL }
   };
   int status = lw_cli_run_command ("analyze", argc, argv, entries, &a.help, analyze_help,
                                    analyze_run, &a);
   lw_cli_loop_args_clear (&a.loop);
+  g_strfreev (a.files);
+  g_free (a.variant);
   g_free (a.points);
   g_free (a.steps);
   g_free (a.saturation);

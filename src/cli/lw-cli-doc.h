@@ -1,0 +1,56 @@
+/* lw-cli-doc.h — what the loopwright-cli commands over design documents share: loading a
+ * document with its message, picking a variant, building the sampled loop of a variant (the
+ * same LwCliLoop the loop options build), and evaluating and printing its requirements.
+ *
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ */
+#pragma once
+
+#include <stdbool.h>
+
+#include <glib.h>
+#include <json-glib/json-glib.h>
+
+#include "lw-cli-common.h"
+#include "lw-design.h"
+#include "lw-require.h"
+#include "lw-simulate.h"
+
+G_BEGIN_DECLS
+
+/* Exit status of `check` when a requirement is not met, and of `tidy --check` when a file is
+ * not canonical (docs/cli.md). */
+#define LW_EXIT_CHECK_FAILED 3
+
+/* Loads path; on failure prints "loopwright-cli: MESSAGE" (the message names the file and the
+ * line) and returns LW_EXIT_BAD_INPUT. */
+int lw_cli_doc_load (const char *path, LwDesign **out);
+
+/* The variant called name (the active one when name is NULL); prints a message naming
+ * `option` and the variants there are, and returns LW_EXIT_BAD_INPUT, when there is none. */
+int lw_cli_doc_variant (const LwDesign *d, const char *option, const char *name, size_t *index);
+
+/* The sampled loop of variant `index`: the plant parsed, the compensator of the stages mapped
+ * to z, the computation delay and dead time of the design. `place` names the file in
+ * messages. Returns LW_EXIT_OK or the exit status after printing the message. */
+int lw_cli_doc_loop_build (const char *place, const LwDesign *d, size_t index, LwCliLoop *out);
+
+/* Evaluates every requirement of d (out: room for d->n_requirements). The actuator peak is
+ * max |u| of sim_ref (the unit reference step) when sim_ref is not NULL, else not available.
+ * Returns the number that do not pass (failed or not available), or -1 after printing a
+ * message when the figures could not be computed. */
+int lw_cli_doc_requirements (const LwDesign *d, const LwEvaluation *ev, const LwZpk *plant_s,
+                             const LwSimResponse *sim_ref, LwReqResult *out);
+
+/* A JSON array value: one object per requirement with name, kind, unit, target (a number, or
+ * [low, high] for a range), achieved (null when not available), slack, pass (bool) and status
+ * ("pass", "fail", "not-available"). */
+void lw_cli_doc_json_requirements (JsonBuilder *b, const LwDesign *d, const LwReqResult *res);
+
+/* The requirements as a table on stdout (indented two spaces). */
+void lw_cli_doc_print_requirements (const LwDesign *d, const LwReqResult *res);
+
+/* "at least 45 deg", "from 20 to 60 rad/s" …; g_free the result. */
+char *lw_cli_doc_target_text (const LwRequirement *r);
+
+G_END_DECLS

@@ -1,0 +1,160 @@
+/* lw-cmd-check.c — `loopwright-cli check`: a design document's requirements, as a table, with
+ * an exit status a CI job can gate on (docs/cli.md).
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ */
+#include "config.h"
+
+#include <stdio.h>
+#include <string.h>
+
+#include "lw-cli-commands.h"
+#include "lw-cli-common.h"
+#include "lw-cli-doc.h"
+
+static const char check_help[] =
+  "Usage: " LW_CLI_PROG " check FILE.lwd [--variant NAME | --all-variants]\n"
+  "\n"
+  "Evaluates the sampled loop of a design document and checks it against the requirements\n"
+  "the document states: a table of target, achieved value and result per requirement.\n"
+  "\n"
+  "Options:\n"
+  "  --variant NAME           check this variant (default: the document's active variant)\n"
+  "  --all-variants           check every variant in the document\n"
+  "  -h, --help               show this help\n"
+  "\n"
+  "The actuator peak is max |u| of the unit reference step without limits.\n"
+  "Exit status: 0 every requirement passes, 3 a requirement fails (or cannot be evaluated),\n"
+  "2 bad input or a bad document, 1 internal failure.\n";
+
+typedef struct
+{
+  char **files;
+  char *variant;
+  gboolean all;
+  gboolean help;
+} CheckArgs;
+
+/* Checks one variant; returns LW_EXIT_OK, LW_EXIT_CHECK_FAILED or an error status. */
+static int
+check_variant (const char *path, const LwDesign *d, size_t index)
+{
+  const LwDesignVariant *v = &d->variants[index];
+  LwCliLoop lp;
+  int status = lw_cli_doc_loop_build (path, d, index, &lp);
+  if (status != LW_EXIT_OK)
+    return status;
+  LwAnalysisOptions opts;
+  lw_analysis_options_init (&opts);
+  opts.compute_delay = lp.compute_delay;
+  LwSimOptions so;
+  lw_sim_options_init (&so);
+  so.compute_delay = lp.compute_delay;
+  so.n_steps = opts.n_steps;
+  so.substeps = 0;
+  LwEvaluation *ev = NULL;
+  LwSimPlan *plan = NULL;
+  LwSimResponse *ref = NULL;
+  LwReqResult *res = g_new0 (LwReqResult, d->n_requirements + 1);
+  LwError err;
+  lw_error_clear (&err);
+  g_autofree char *place = g_strdup_printf ("%s: variant '%s'", path, v->name);
+  if (lw_evaluate (lp.sampled, lp.controller_z, &opts, &ev, &err) != LW_OK
+      || lw_sim_plan_new (lp.sampled, lp.controller_z, &so, &plan, &err) != LW_OK
+      || lw_sim_run (plan, LW_SIM_REFERENCE_STEP, 1.0, &ref, &err) != LW_OK)
+    {
+      status = lw_cli_report_core_error (place, &err);
+      goto out;
+    }
+  int failing = lw_cli_doc_requirements (d, ev, lp.plant_s, ref, res);
+  if (failing < 0)
+    {
+      status = LW_EXIT_INTERNAL;
+      goto out;
+    }
+  printf ("\nVariant '%s'%s: %zu stage(s), loop %s\n", v->name,
+          index == d->active ? " (active)" : "", v->n_stages,
+          ev->stable ? "stable" : "UNSTABLE");
+  lw_cli_doc_print_requirements (d, res);
+  if (d->n_requirements > 0)
+    printf ("  %zu of %zu requirement(s) pass\n", d->n_requirements - (size_t) failing,
+            d->n_requirements);
+  status = failing > 0 ? LW_EXIT_CHECK_FAILED : LW_EXIT_OK;
+out:
+  g_free (res);
+  lw_sim_response_free (ref);
+  lw_sim_plan_free (plan);
+  lw_evaluation_free (ev);
+  lw_cli_loop_clear (&lp);
+  return status;
+}
+
+static int
+check_run (void *data)
+{
+  const CheckArgs *a = data;
+  if (a->files == NULL || a->files[0] == NULL)
+    {
+      lw_cli_bad_input ("check", "a design document is required (see '" LW_CLI_PROG
+                        " check --help')");
+      return LW_EXIT_BAD_INPUT;
+    }
+  if (a->files[1] != NULL)
+    {
+      lw_cli_bad_input ("check", "unexpected argument '%s': one design document at a time",
+                        a->files[1]);
+      return LW_EXIT_BAD_INPUT;
+    }
+  if (a->all && a->variant != NULL)
+    {
+      lw_cli_bad_input ("--all-variants", "cannot be combined with --variant; give one of them");
+      return LW_EXIT_BAD_INPUT;
+    }
+  const char *path = a->files[0];
+  g_autoptr (LwDesign) d = NULL;
+  int status = lw_cli_doc_load (path, &d);
+  if (status != LW_EXIT_OK)
+    return status;
+  size_t first = 0, last = 0;
+  if (a->all)
+    last = d->n_variants - 1;
+  else
+    {
+      status = lw_cli_doc_variant (d, "--variant", a->variant, &first);
+      if (status != LW_EXIT_OK)
+        return status;
+      last = first;
+    }
+  printf ("Design '%s' (%s): plant %s, T = %.6g s, computation delay %d, dead time %.6g s\n",
+          d->title, path, d->plant, d->period_s, d->compute_delay, d->dead_time_s);
+  int worst = LW_EXIT_OK;
+  for (size_t i = first; i <= last; i++)
+    {
+      int s = check_variant (path, d, i);
+      if (s == LW_EXIT_CHECK_FAILED && worst == LW_EXIT_OK)
+        worst = s;
+      else if (s != LW_EXIT_OK && s != LW_EXIT_CHECK_FAILED)
+        return s;
+    }
+  printf ("\n%s\n", worst == LW_EXIT_OK ? "result: every requirement passes"
+                                        : "result: a requirement is not met");
+  printf ("caution: simulation is not validation; commission with safe limits.\n");
+  return worst;
+}
+
+int
+lw_cmd_check (int argc, char **argv)
+{
+  CheckArgs a = { 0 };
+  const GOptionEntry entries[] = {
+    { "variant", 0, 0, G_OPTION_ARG_STRING, &a.variant, NULL, NULL },
+    { "all-variants", 0, 0, G_OPTION_ARG_NONE, &a.all, NULL, NULL },
+    { "help", 'h', 0, G_OPTION_ARG_NONE, &a.help, NULL, NULL },
+    { G_OPTION_REMAINING, 0, 0, G_OPTION_ARG_FILENAME_ARRAY, &a.files, NULL, NULL },
+    { NULL, 0, 0, 0, NULL, NULL, NULL }
+  };
+  int status = lw_cli_run_command ("check", argc, argv, entries, &a.help, check_help,
+                                   check_run, &a);
+  g_strfreev (a.files);
+  g_free (a.variant);
+  return status;
+}

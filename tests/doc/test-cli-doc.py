@@ -1,0 +1,180 @@
+#!/usr/bin/python3
+"""The loopwright-cli commands over design documents, spawned as users run them.
+
+Usage: test-cli-doc.py PATH-TO-loopwright-cli SOURCE-ROOT
+
+1. check: exit 0 when every requirement passes, 3 when one fails, 2 for a bad document or bad
+   options; the table names each requirement.
+2. analyze FILE --json: the keys of the inline analysis plus `requirements`; each requirement's
+   `achieved` is the figure the same JSON reports elsewhere, and `pass` agrees with comparing
+   achieved and target here; a document written by `new` gives exactly the inline numbers.
+3. new and tidy: fresh documents load and are canonical; tidy normalizes a hand-edited file
+   back to the canonical bytes; --check says whether a file is canonical.
+"""
+
+import json
+import math
+import os
+import shutil
+import subprocess
+import sys
+import tempfile
+
+CLI = sys.argv[1]
+ROOT = sys.argv[2]
+EX = os.path.join(ROOT, "data", "examples")
+HOSTILE = os.path.join(ROOT, "tests", "doc", "hostile")
+failures = []
+
+
+def run(args, cwd=None):
+    p = subprocess.run([CLI] + args, capture_output=True, text=True, timeout=120, cwd=cwd)
+    return p.returncode, p.stdout, p.stderr
+
+
+def check(cond, what):
+    if not cond:
+        failures.append(what)
+        print("FAIL:", what)
+
+
+def ex(name):
+    return os.path.join(EX, name)
+
+
+# ---- 1. check exit codes ----------------------------------------------------------------
+for name in ("camera-slider.lwd", "kiln.lwd", "pump-pressure.lwd"):
+    rc, out, err = run(["check", ex(name)])
+    check(rc == 0, f"check {name}: exit {rc}, expected 0 (stderr: {err})")
+    check("result: every requirement passes" in out, f"check {name}: no passing summary")
+    check("phase-margin" in out, f"check {name}: table lacks phase-margin")
+
+rc, out, err = run(["check", ex("camera-slider.lwd"), "--variant", "no notch"])
+check(rc == 3, f"check camera-slider 'no notch': exit {rc}, expected 3")
+check("FAIL" in out and "a requirement is not met" in out, "check 'no notch': no FAIL in table")
+rc, out, err = run(["check", ex("camera-slider.lwd"), "--all-variants"])
+check(rc == 3, f"check camera-slider --all-variants: exit {rc}, expected 3")
+check("Variant 'notched'" in out and "Variant 'no notch'" in out, "--all-variants: both shown")
+rc, out, err = run(["check", ex("pump-pressure.lwd"), "--all-variants"])
+check(rc == 0, f"check pump-pressure --all-variants: exit {rc}, expected 0")
+
+BAD = [
+    (["check"], ["a design document is required"]),
+    (["check", ex("kiln.lwd"), ex("kiln.lwd")], ["unexpected argument"]),
+    (["check", ex("kiln.lwd"), "--variant", "nope"], ["--variant", "no variant 'nope'", "'pi'"]),
+    (["check", ex("kiln.lwd"), "--variant", "pi", "--all-variants"], ["--all-variants"]),
+    (["check", os.path.join(HOSTILE, "non-numeric.lwd")],
+     ["non-numeric.lwd:8:", "'zero_rad_s'", "got 'abc'"]),
+    (["check", os.path.join(HOSTILE, "entity-bomb.lwd")], ["entity-bomb.lwd:2:", "DOCTYPE"]),
+    (["check", os.path.join(HOSTILE, "newer-version.lwd")], ["newer than this program reads"]),
+    (["check", "/nonexistent/x.lwd"], ["/nonexistent/x.lwd: cannot open"]),
+    (["analyze", ex("kiln.lwd"), "--plant", "1/(s+1)"],
+     ["unexpected argument", "cannot be combined with --plant"]),
+    (["analyze", "--plant", "1/(s+1)", "--period", "1", "--variant", "a"], ["--variant"]),
+    (["analyze", ex("kiln.lwd"), "--variant", "nope"], ["no variant 'nope'"]),
+    (["tidy"], ["a design document is required"]),
+    (["tidy", ex("kiln.lwd"), "--check", "--out", "x.lwd"], ["--check"]),
+    (["tidy", os.path.join(HOSTILE, "truncated.lwd")], ["truncated.lwd:5:"]),
+    (["new", "--period", "1"], ["--plant is required"]),
+    (["new", "--plant", "1/(s+1)", "--period", "0"], ["--period", "greater than 0"]),
+]
+for args, needles in BAD:
+    rc, out, err = run(args)
+    check(rc == 2, f"{args}: exit {rc}, expected 2 (stderr: {err.strip()})")
+    for n in needles:
+        check(n in err, f"{args}: stderr lacks {n!r}: {err.strip()}")
+
+# an expression error from `new` points at the character, as the inline options do
+rc, out, err = run(["new", "--plant", "1/(2s+1)", "--period", "1"])
+check(rc == 2 and "--plant:" in err and "at character 5" in err, f"new bad plant: {err}")
+
+# ---- 2. analyze FILE --json ---------------------------------------------------------------
+rc, out, err = run(["analyze", "--plant", "1/(s*(s+1))", "--period", "1", "--json"])
+check(rc == 0, "inline analyze")
+inline_keys = set(json.loads(out))
+
+for name in ("camera-slider.lwd", "kiln.lwd", "pump-pressure.lwd"):
+    rc, out, err = run(["analyze", ex(name), "--json"])
+    check(rc == 0, f"analyze {name} --json: exit {rc}: {err}")
+    j = json.loads(out)
+    check(set(j) == inline_keys | {"requirements"},
+          f"analyze {name}: keys {sorted(set(j))} != inline keys + requirements")
+    loop, step = j["loop"], j["step"]
+    # which JSON figure each requirement reports as achieved (same evaluation, so equal to
+    # the last bit: a tolerance of 0)
+    figure = {"phase-margin": loop["phase_margin_deg"], "gain-margin": loop["gain_margin_db"],
+              "sensitivity-peak": loop["sensitivity_peak"],
+              "crossover": loop["gain_crossover_rad_s"],
+              "overshoot": step["overshoot_pct"], "settling-time": step["settling_time_s"],
+              "rise-time": step["rise_time_s"]}
+    for r in j["requirements"]:
+        for key in ("name", "kind", "unit", "target", "achieved", "slack", "pass", "status"):
+            check(key in r, f"{name}: requirement lacks {key}")
+        kind, a, t = r["kind"], r["achieved"], r["target"]
+        if kind in figure:
+            check(a == figure[kind], f"{name}: {kind} achieved {a} != JSON figure {figure[kind]}")
+        # pass recomputed here from achieved and target
+        if kind in ("phase-margin", "gain-margin"):
+            want = a is not None and a >= t
+        elif kind == "crossover":
+            want = a is not None and t[0] <= a <= t[1]
+        else:
+            want = a is not None and a <= t
+        check(r["pass"] == want, f"{name}: {kind} pass {r['pass']}, recomputed {want}")
+    check(all(r["pass"] for r in j["requirements"]), f"{name}: active variant must pass")
+
+# the kiln's dead time is 3.75 samples: the document and the inline options agree exactly
+with tempfile.TemporaryDirectory() as tmp:
+    doc = os.path.join(tmp, "fresh.lwd")
+    plant, period = "2.5/((600*s+1)*(60*s+1))", "10"
+    rc, out, err = run(["new", "--plant", plant, "--period", period, "--dead-time", "37.5",
+                        "--compute-delay", "2", "--title", "fresh", "--out", doc])
+    check(rc == 0 and os.path.exists(doc), f"new --out: {rc} {err}")
+    rc, out_doc, err = run(["analyze", doc, "--json"])
+    rc2, out_inline, err2 = run(["analyze", "--plant", plant, "--period", period,
+                                 "--dead-time", "37.5", "--compute-delay", "2", "--json"])
+    check(rc == 0 and rc2 == 0, "analyze fresh doc / inline")
+    jd, ji = json.loads(out_doc), json.loads(out_inline)
+    check(jd.pop("requirements") == [], "fresh doc has no requirements")
+    check(jd == ji, "analyze of a `new` document differs from the inline analysis")
+    rc, out, err = run(["check", doc])
+    check(rc == 0 and "states no requirements" in out, f"check fresh doc: {rc}")
+
+    # ---- 3. new and tidy ------------------------------------------------------------------
+    rc, text, err = run(["new", "--plant", "1/(s+1)", "--period", "0.01"])
+    check(rc == 0 and text.startswith("<?xml"), "new to stdout")
+    stdout_doc = os.path.join(tmp, "stdout.lwd")
+    with open(stdout_doc, "w") as f:
+        f.write(text)
+    rc, out, err = run(["tidy", stdout_doc, "--check"])
+    check(rc == 0, f"new's output is canonical: tidy --check exit {rc}")
+
+    # a hand-edited copy: comments, other indentation, attributes reordered, spare zeros
+    src = ex("kiln.lwd")
+    with open(src) as f:
+        canonical = f.read()
+    messy = (canonical.replace('<sampling period_s="10" hold="zero-order" compute_delay_samples="1"/>',
+                               "<!-- edited by hand -->\n<sampling  compute_delay_samples='1'\n"
+                               "   hold='zero-order' period_s='10.000'/>")
+             .replace("  <requirements>", "\n\n\t<requirements>")
+             .replace('gain="1.29"', 'gain="1.2900e0"'))
+    hand = os.path.join(tmp, "hand.lwd")
+    with open(hand, "w") as f:
+        f.write(messy)
+    rc, out, err = run(["tidy", hand, "--check"])
+    check(rc == 3 and "not in canonical form" in out, f"tidy --check on a messy file: {rc}")
+    rc, out, err = run(["tidy", hand, "--out", "-"])
+    check(rc == 0 and out == canonical, "tidy --out - gives the canonical text")
+    tidied = os.path.join(tmp, "tidied.lwd")
+    rc, out, err = run(["tidy", hand, "--out", tidied])
+    check(rc == 0 and open(tidied).read() == canonical, "tidy --out FILE")
+    check(open(hand).read() == messy, "tidy --out leaves the input alone")
+    rc, out, err = run(["tidy", hand])
+    check(rc == 0 and open(hand).read() == canonical, "tidy rewrites in place")
+    leftovers = [n for n in os.listdir(tmp) if n.startswith(".")]
+    check(leftovers == [], f"temporary files left: {leftovers}")
+
+if failures:
+    print(f"{len(failures)} failure(s)")
+    sys.exit(1)
+print("all passed")
