@@ -65,19 +65,6 @@ lw_compensator_panel_set_model (LwCompensatorPanel *self, LwDesignModel *model)
   rebuild_rows (self);
 }
 
-static void
-show_model_line (GtkLabel *label, const char *prefix, const LwZpk *m)
-{
-  if (m == NULL)
-    {
-      gtk_label_set_text (label, "");
-      return;
-    }
-  g_autofree char *text = lw_gui_format_zpk (m);
-  g_autofree char *line = g_strdup_printf ("%s = %s", prefix, text);
-  gtk_label_set_text (label, line);
-}
-
 void
 lw_compensator_panel_show_eval (LwCompensatorPanel *self, LwLoopEval *eval)
 {
@@ -88,8 +75,8 @@ lw_compensator_panel_show_eval (LwCompensatorPanel *self, LwLoopEval *eval)
   gtk_label_set_text (self->error_label, failed ? eval->error.message : "");
   gtk_widget_set_visible (GTK_WIDGET (self->error_label), failed);
 
-  show_model_line (self->controller_w_label, _("C(w)"), eval->controller_w);
-  show_model_line (self->controller_z_label, _("C(z)"),
+  lw_gui_label_show_model (self->controller_w_label, _("C(w)"), eval->controller_w);
+  lw_gui_label_show_model (self->controller_z_label, _("C(z)"),
                    eval->ev != NULL ? eval->ev->controller_z : NULL);
 
   if (eval->ev != NULL && eval->ev->margins.has_phase_margin)

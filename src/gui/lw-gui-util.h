@@ -1,15 +1,15 @@
-/* lw-gui-util.h — small helpers the panels share (text of models and numbers for display).
+/* lw-gui-util.h — small helpers the panels share (text of models for display).
  * SPDX-License-Identifier: GPL-3.0-or-later
  */
 #pragma once
 
-#include <glib.h>
+#include <gtk/gtk.h>
 
 #include "lw-model.h"
 
 G_BEGIN_DECLS
 
-/* Factored text of a model with 6 significant digits (lw_zpk_format); g_free the result. */
-char *lw_gui_format_zpk (const LwZpk *m);
+/* Shows "PREFIX = factored text" (lw_zpk_format, 6 significant digits) in label, or empties it when m is NULL. */
+void lw_gui_label_show_model (GtkLabel *label, const char *prefix, const LwZpk *m);
 
 G_END_DECLS

@@ -133,19 +133,6 @@ mark_plant_error (LwPlantPanel *self, const LwError *err)
 }
 
 static void
-show_model_line (GtkLabel *label, const char *prefix, const LwZpk *m)
-{
-  if (m == NULL)
-    {
-      gtk_label_set_text (label, "");
-      return;
-    }
-  g_autofree char *text = lw_gui_format_zpk (m);
-  g_autofree char *line = g_strdup_printf ("%s = %s", prefix, text);
-  gtk_label_set_text (label, line);
-}
-
-static void
 show_sampling_note (LwPlantPanel *self, const LwEvaluation *ev)
 {
   g_autofree char *text = NULL;
@@ -190,9 +177,9 @@ lw_plant_panel_show_eval (LwPlantPanel *self, LwLoopEval *eval)
 
   const LwEvaluation *ev = eval->ev;
   /* TRANSLATORS: the discretized plant in z, as factors */
-  show_model_line (self->plant_z_label, _("P(z)"), ev != NULL ? ev->plant_z : NULL);
+  lw_gui_label_show_model (self->plant_z_label, _("P(z)"), ev != NULL ? ev->plant_z : NULL);
   /* TRANSLATORS: the discretized plant in the w-plane, as factors */
-  show_model_line (self->plant_w_label, _("P(w)"), ev != NULL ? ev->plant_w : NULL);
+  lw_gui_label_show_model (self->plant_w_label, _("P(w)"), ev != NULL ? ev->plant_w : NULL);
   show_sampling_note (self, ev);
 }
 
