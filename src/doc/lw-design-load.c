@@ -1037,6 +1037,44 @@ load_doc (Reader *r, xmlDocPtr doc)
   return NULL;
 }
 
+/* Design documents are UTF-8. A UTF-16 or UTF-32 byte-order mark, or an XML declaration
+ * naming another encoding, is refused here: libxml2 would otherwise convert the input, and
+ * its conversion errors bypass the parser's error handler (they would be printed). Returns
+ * NULL when fine, else the encoding found (static or in buf). */
+static const char *
+foreign_encoding (const char *data, size_t len, char *buf, size_t size)
+{
+  const unsigned char *u = (const unsigned char *) data;
+  if (len >= 2 && ((u[0] == 0xFE && u[1] == 0xFF) || (u[0] == 0xFF && u[1] == 0xFE)))
+    return "UTF-16 or UTF-32 (byte-order mark)";
+  if (len >= 4 && u[0] == 0 && u[1] == 0 && u[2] == 0xFE && u[3] == 0xFF)
+    return "UTF-32 (byte-order mark)";
+  if (len >= 2 && (u[0] == 0 || u[1] == 0))
+    return "UTF-16 or UTF-32 (zero bytes)";
+  size_t skip = len >= 3 && u[0] == 0xEF && u[1] == 0xBB && u[2] == 0xBF ? 3 : 0;
+  if (len - skip < 5 || memcmp (data + skip, "<?xml", 5) != 0)
+    return NULL;
+  const char *end = memchr (data + skip, '>', len - skip);
+  size_t decl_len = end != NULL ? (size_t) (end - data) : len;
+  g_autofree char *decl = g_strndup (data + skip, decl_len - skip);
+  const char *enc = strstr (decl, "encoding");
+  if (enc == NULL)
+    return NULL;
+  enc += strlen ("encoding");
+  while (*enc == ' ' || *enc == '\t' || *enc == '\r' || *enc == '\n' || *enc == '=')
+    enc++;
+  if (*enc != '"' && *enc != '\'')
+    return NULL;   /* malformed: the parser says so */
+  char quote = *enc++;
+  const char *close = strchr (enc, quote);
+  if (close == NULL)
+    return NULL;
+  g_strlcpy (buf, enc, MIN (size, (size_t) (close - enc) + 1));
+  if (g_ascii_strcasecmp (buf, "UTF-8") == 0 || g_ascii_strcasecmp (buf, "UTF8") == 0)
+    return NULL;
+  return buf;
+}
+
 LwDesign *
 lw_design_load_data (const char *data, size_t len, const char *name, GError **error)
 {
@@ -1054,6 +1092,15 @@ lw_design_load_data (const char *data, size_t len, const char *name, GError **er
     {
       g_set_error (error, LW_DESIGN_ERROR, LW_DESIGN_ERROR_XML, "%s: the document is empty",
                    name);
+      return NULL;
+    }
+
+  char enc_buf[64];
+  const char *foreign = foreign_encoding (data, len, enc_buf, sizeof enc_buf);
+  if (foreign != NULL)
+    {
+      g_set_error (error, LW_DESIGN_ERROR, LW_DESIGN_ERROR_FORMAT,
+                   "%s:1: design documents are UTF-8; this one is in '%s'", name, foreign);
       return NULL;
     }
 
@@ -1077,7 +1124,7 @@ lw_design_load_data (const char *data, size_t len, const char *name, GError **er
   /* No XML_PARSE_NOENT (entities are not substituted), no DTD loading or validation, no
    * network; BIG_LINES so line numbers past 65535 are right. */
   int options = XML_PARSE_NONET | XML_PARSE_NOCDATA | XML_PARSE_BIG_LINES | XML_PARSE_NOWARNING;
-  xmlDocPtr doc = xmlCtxtReadMemory (ctxt, data, (int) len, name, NULL, options);
+  xmlDocPtr doc = xmlCtxtReadMemory (ctxt, data, (int) len, name, "UTF-8", options);
 
   Reader r = { .name = name, .error = NULL, .line = 0 };
   LwDesign *d = NULL;
