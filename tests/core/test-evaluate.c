@@ -7,6 +7,8 @@
 #include <stdint.h>
 #include <cmocka.h>
 
+#include "lw-test.h"
+
 #include <math.h>
 #include <stdio.h>
 #include <stdlib.h>
@@ -15,23 +17,6 @@
 #include "lw-analysis.h"
 #include "lw-expr.h"
 #include "lw-internal.h"
-
-static LwZpk *
-parse (const char *text, LwDomain d, double t)
-{
-  LwZpk *m = NULL;
-  LwError err;
-  if (lw_expr_parse (text, d, t, &m, &err) != LW_OK)
-    fail_msg ("parse of '%s' failed: %s", text, err.message);
-  return m;
-}
-
-static void
-assert_close (double got, double want, double tol, const char *what)
-{
-  if (!(fabs (got - want) <= tol))
-    fail_msg ("%s: got %.17g, want %.17g (tolerance %g)", what, got, want, tol);
-}
 
 /* Evaluates plant (in s) with a controller in w (or z when ctrl_in_z). */
 static LwEvaluation *

@@ -8,6 +8,8 @@
 #include <stdint.h>
 #include <cmocka.h>
 
+#include "lw-test.h"
+
 #include <complex.h>
 #include <math.h>
 #include <stdio.h>
@@ -19,13 +21,6 @@
 #include "lw-simulate.h"
 
 #define PI_ 3.14159265358979323846
-
-static void
-assert_close (double got, double want, double tol, const char *what)
-{
-  if (!(fabs (got - want) <= tol))
-    fail_msg ("%s: got %.17g, want %.17g (tolerance %g)", what, got, want, tol);
-}
 
 /* Crossover of ω_n²/(jω(jω + 2ζω_n)) relative to ω_n, by bisection on |L| = 1 written out
  * here (independent of the closed form in the core). */

@@ -7,29 +7,14 @@
 #include <stdint.h>
 #include <cmocka.h>
 
+#include "lw-test.h"
+
 #include <math.h>
 #include <stdlib.h>
 
 #include "lw-expr.h"
 #include "lw-internal.h"
 #include "lw-response.h"
-
-static LwZpk *
-parse (const char *text, LwDomain d, double t)
-{
-  LwZpk *m = NULL;
-  LwError err;
-  if (lw_expr_parse (text, d, t, &m, &err) != LW_OK)
-    fail_msg ("parse of '%s' failed: %s", text, err.message);
-  return m;
-}
-
-static void
-assert_close (double got, double want, double tol, const char *what)
-{
-  if (!(fabs (got - want) <= tol))
-    fail_msg ("%s: got %.17g, want %.17g (tolerance %g)", what, got, want, tol);
-}
 
 /* 1/(s+1) at ω = 1 rad/s: |H| = 1/√2 → −10·log10(2) = −3.0103 dB, ∠H = −45° (closed form).
  * Tolerance 1e-13: a handful of roundings. */

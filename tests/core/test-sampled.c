@@ -7,6 +7,8 @@
 #include <stdint.h>
 #include <cmocka.h>
 
+#include "lw-test.h"
+
 #include <math.h>
 #include <stdlib.h>
 #include <string.h>
@@ -15,24 +17,6 @@
 #include "lw-expr.h"
 #include "lw-internal.h"
 #include "lw-linalg.h"
-
-static LwZpk *
-parse (const char *text, LwDomain d, double t)
-{
-  LwZpk *m = NULL;
-  LwError err;
-  LwStatus st = lw_expr_parse (text, d, t, &m, &err);
-  if (st != LW_OK)
-    fail_msg ("parse of '%s' failed: %s", text, err.message);
-  return m;
-}
-
-static void
-assert_close (double got, double want, double tol, const char *what)
-{
-  if (!(fabs (got - want) <= tol))
-    fail_msg ("%s: got %.17g, want %.17g (tolerance %g)", what, got, want, tol);
-}
 
 /* e^{At} for A = [0 1; −1 0] is the rotation [cos t, sin t; −sin t, cos t] (closed form).
  * Tolerance 1e-15·(1 + t): Padé [13/13] with scaling and squaring is accurate to a few ulps

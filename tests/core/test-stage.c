@@ -7,6 +7,8 @@
 #include <stdint.h>
 #include <cmocka.h>
 
+#include "lw-test.h"
+
 #include <complex.h>
 #include <math.h>
 #include <stdio.h>
@@ -19,13 +21,6 @@
 #define PI_ 3.14159265358979323846
 #define DEG (180.0 / PI_)
 #define T_ 0.001
-
-static void
-assert_close (double got, double want, double tol, const char *what)
-{
-  if (!(fabs (got - want) <= tol))
-    fail_msg ("%s: got %.17g, want %.17g (tolerance %g)", what, got, want, tol);
-}
 
 static LwZpk *
 zpk_of (const LwStage *s)
