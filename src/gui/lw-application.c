@@ -11,6 +11,7 @@
 #include "config.h"
 
 #include <glib/gi18n.h>
+#include <glib/gstdio.h>
 
 #include "lw-application.h"
 #include "lw-window.h"
@@ -21,6 +22,10 @@ struct _LwApplication
 
   GSettings *settings;
   GDBusProxy *portal;
+
+  guint bench_frames;           /* > 0: benchmark mode */
+  char *bench_path;
+  gboolean offered_autosave;
 };
 
 G_DEFINE_FINAL_TYPE (LwApplication, lw_application, GTK_TYPE_APPLICATION)
@@ -106,6 +111,107 @@ follow_system_style (LwApplication *self)
                               | G_DBUS_PROXY_FLAGS_DO_NOT_AUTO_START,
                             NULL, PORTAL_NAME, PORTAL_PATH, PORTAL_SETTINGS, NULL,
                             portal_proxy_ready, g_object_ref (self));
+}
+
+/* ---- autosave ------------------------------------------------------------------------------ */
+
+char *
+lw_autosave_path (void)
+{
+  return g_build_filename (g_get_user_state_dir (), "loopwright", "autosave.lwd", NULL);
+}
+
+char *
+lw_autosave_source_path (void)
+{
+  return g_build_filename (g_get_user_state_dir (), "loopwright", "autosave.source", NULL);
+}
+
+static void
+autosave_response (GtkDialog *dialog, int response, gpointer user_data)
+{
+  LwWindow *win = LW_WINDOW (user_data);
+  g_autofree char *path = lw_autosave_path ();
+  g_autofree char *source_path = lw_autosave_source_path ();
+  gtk_window_destroy (GTK_WINDOW (dialog));
+  if (response == GTK_RESPONSE_ACCEPT)
+    {
+      g_autofree char *uri = NULL;
+      g_file_get_contents (source_path, &uri, NULL, NULL);
+      g_autoptr (GFile) source = uri != NULL && uri[0] != '\0' ? g_file_new_for_uri (uri) : NULL;
+      if (!lw_window_is_pristine (win))
+        {
+          GtkApplication *app = gtk_window_get_application (GTK_WINDOW (win));
+          win = lw_window_new (LW_APPLICATION (app));
+          gtk_window_present (GTK_WINDOW (win));
+        }
+      lw_window_restore_autosave (win, path, source);
+    }
+  else if (response == GTK_RESPONSE_REJECT)
+    {
+      g_unlink (path);
+      g_unlink (source_path);
+    }
+  g_object_unref (user_data);
+}
+
+/* Once per run: when an autosave is newer than the last save of the file it came from (or
+ * that work was never saved), offer to restore it, saying when it was written. */
+static void
+offer_autosave (LwApplication *self, LwWindow *win)
+{
+  if (self->offered_autosave || self->bench_frames > 0)
+    return;
+  self->offered_autosave = TRUE;
+
+  g_autofree char *path = lw_autosave_path ();
+  g_autofree char *source_path = lw_autosave_source_path ();
+  GStatBuf st;
+  if (g_stat (path, &st) != 0)
+    return;
+  g_autofree char *uri = NULL;
+  g_file_get_contents (source_path, &uri, NULL, NULL);
+  g_autofree char *source_name = NULL;
+  if (uri != NULL && uri[0] != '\0')
+    {
+      g_autoptr (GFile) source = g_file_new_for_uri (uri);
+      GStatBuf sst;
+      const char *sp = g_file_peek_path (source);
+      if (sp != NULL && g_stat (sp, &sst) == 0 && sst.st_mtime > st.st_mtime)
+        return;   /* saved since: the autosave is older than the clean save */
+      source_name = g_file_get_parse_name (source);
+    }
+  g_autoptr (GDateTime) when = g_date_time_new_from_unix_local (st.st_mtime);
+  g_autofree char *when_text = g_date_time_format (when, "%x %X");
+  GtkWidget *d = gtk_message_dialog_new (GTK_WINDOW (win), GTK_DIALOG_MODAL
+                                           | GTK_DIALOG_DESTROY_WITH_PARENT,
+                                         GTK_MESSAGE_QUESTION, GTK_BUTTONS_NONE, "%s",
+                                         _("Restore unsaved work?"));
+  if (source_name != NULL)
+    gtk_message_dialog_format_secondary_text (GTK_MESSAGE_DIALOG (d),
+                                              _("Unsaved changes to “%s” were autosaved on %s "
+                                                "and not saved since."), source_name,
+                                              when_text);
+  else
+    gtk_message_dialog_format_secondary_text (GTK_MESSAGE_DIALOG (d),
+                                              _("A design that was never saved was autosaved "
+                                                "on %s."), when_text);
+  gtk_window_set_title (GTK_WINDOW (d), _("Restore unsaved work?"));
+  gtk_dialog_add_buttons (GTK_DIALOG (d), _("_Discard"), GTK_RESPONSE_REJECT, _("_Later"),
+                          GTK_RESPONSE_CANCEL, _("_Restore"), GTK_RESPONSE_ACCEPT, NULL);
+  gtk_dialog_set_default_response (GTK_DIALOG (d), GTK_RESPONSE_ACCEPT);
+  g_signal_connect (d, "response", G_CALLBACK (autosave_response), g_object_ref (win));
+  gtk_window_present (GTK_WINDOW (d));
+}
+
+void
+lw_application_set_bench_drag (LwApplication *self, guint n_frames, const char *path)
+{
+  g_return_if_fail (LW_IS_APPLICATION (self));
+  self->bench_frames = n_frames;
+  g_free (self->bench_path);
+  self->bench_path = g_strdup (path);
+  g_application_set_flags (G_APPLICATION (self), G_APPLICATION_NON_UNIQUE);
 }
 
 /* ---- actions ------------------------------------------------------------------------------- */
@@ -203,10 +309,45 @@ lw_application_startup (GApplication *app)
 static void
 lw_application_activate (GApplication *app)
 {
+  LwApplication *self = LW_APPLICATION (app);
   GtkWindow *win = gtk_application_get_active_window (GTK_APPLICATION (app));
   if (win == NULL)
-    win = GTK_WINDOW (lw_window_new (LW_APPLICATION (app)));
+    win = GTK_WINDOW (lw_window_new (self));
   gtk_window_present (win);
+  if (self->bench_frames > 0)
+    {
+      g_autoptr (GFile) file = g_file_new_for_commandline_arg (self->bench_path);
+      if (!lw_window_open_file (LW_WINDOW (win), file))
+        {
+          g_printerr ("loopwright: --bench-drag: could not open %s\n", self->bench_path);
+          g_application_quit (app);
+          return;
+        }
+      lw_window_start_bench_drag (LW_WINDOW (win), self->bench_frames);
+      return;
+    }
+  offer_autosave (self, LW_WINDOW (win));
+}
+
+/* loopwright FILE…: each file in a window (the active one while it is untouched). */
+static void
+lw_application_open (GApplication *app, GFile **files, int n_files, const char *hint)
+{
+  LwApplication *self = LW_APPLICATION (app);
+  LwWindow *first = NULL;
+  for (int i = 0; i < n_files; i++)
+    {
+      GtkWindow *active = gtk_application_get_active_window (GTK_APPLICATION (app));
+      LwWindow *win = active != NULL && LW_IS_WINDOW (active)
+                        && lw_window_is_pristine (LW_WINDOW (active))
+                        ? LW_WINDOW (active) : lw_window_new (self);
+      gtk_window_present (GTK_WINDOW (win));
+      lw_window_open_file (win, files[i]);
+      if (first == NULL)
+        first = win;
+    }
+  if (first != NULL)
+    offer_autosave (self, first);
 }
 
 static void
@@ -216,6 +357,7 @@ lw_application_dispose (GObject *object)
 
   g_clear_object (&self->settings);
   g_clear_object (&self->portal);
+  g_clear_pointer (&self->bench_path, g_free);
   G_OBJECT_CLASS (lw_application_parent_class)->dispose (object);
 }
 
@@ -225,6 +367,7 @@ lw_application_class_init (LwApplicationClass *klass)
   G_OBJECT_CLASS (klass)->dispose = lw_application_dispose;
   G_APPLICATION_CLASS (klass)->startup = lw_application_startup;
   G_APPLICATION_CLASS (klass)->activate = lw_application_activate;
+  G_APPLICATION_CLASS (klass)->open = lw_application_open;
 }
 
 static void
@@ -237,7 +380,7 @@ lw_application_new (void)
 {
   return g_object_new (LW_TYPE_APPLICATION,
                        "application-id", LW_APP_ID,
-                       "flags", G_APPLICATION_DEFAULT_FLAGS,
+                       "flags", G_APPLICATION_HANDLES_OPEN,
                        "resource-base-path", "/org/loopwright/Designer",
                        NULL);
 }

@@ -19,6 +19,16 @@ LwApplication *lw_application_new (void);
  * remembered between runs. */
 GSettings *lw_application_get_settings (LwApplication *self);
 
+/* Benchmark mode (loopwright --bench-drag N FILE): the application opens FILE in one window,
+ * runs lw_window_start_bench_drag (N) and quits; no autosave offer. */
+void lw_application_set_bench_drag (LwApplication *self, guint n_frames, const char *path);
+
+/* Where windows autosave unsaved work: g_get_user_state_dir ()/loopwright/autosave.lwd (the
+ * most recent autosave of any window), and beside it autosave.source holding the URI of the
+ * file that work came from (empty for a design never saved). */
+char *lw_autosave_path (void);
+char *lw_autosave_source_path (void);
+
 /* Shows the About dialog over parent (may be NULL). */
 void lw_application_show_about (LwApplication *self, GtkWindow *parent);
 

@@ -4,6 +4,7 @@
 #include "config.h"
 
 #include <math.h>
+#include <string.h>
 
 #include "lw-design-model.h"
 #include "lw-expr.h"
@@ -12,12 +13,7 @@ struct _LwDesignModel
 {
   GObject parent_instance;
 
-  char *plant_text;
-  double dead_time_s;
-  double period_s;
-  int compute_delay;
-  GArray *stages;               /* of LwStage */
-  GArray *requirements;         /* of LwRequirement */
+  LwDesign *doc;                /* the document being edited (owned) */
 
   /* the sampled plant of the last evaluation, and what it was built from */
   LwSampledPlant *sampled;
@@ -33,6 +29,7 @@ enum
   SIGNAL_CHANGED,
   SIGNAL_STAGES_CHANGED,
   SIGNAL_REQUIREMENTS_CHANGED,
+  SIGNAL_REPLACED,
   N_SIGNALS
 };
 static guint signals[N_SIGNALS];
@@ -42,9 +39,7 @@ lw_design_model_finalize (GObject *object)
 {
   LwDesignModel *self = LW_DESIGN_MODEL (object);
 
-  g_free (self->plant_text);
-  g_array_unref (self->stages);
-  g_array_unref (self->requirements);
+  g_clear_pointer (&self->doc, lw_design_free);
   g_clear_pointer (&self->sampled, lw_sampled_plant_free);
   g_free (self->sampled_plant_text);
   G_OBJECT_CLASS (lw_design_model_parent_class)->finalize (object);
@@ -69,40 +64,83 @@ lw_design_model_class_init (LwDesignModelClass *klass)
   signals[SIGNAL_REQUIREMENTS_CHANGED] =
     g_signal_new ("requirements-changed", G_TYPE_FROM_CLASS (klass), G_SIGNAL_RUN_LAST, 0, NULL,
                   NULL, NULL, G_TYPE_NONE, 0);
+  /* The whole document replaced (open, undo, redo): every field may differ. Emitted first,
+   * then "stages-changed", "requirements-changed" and "changed". */
+  signals[SIGNAL_REPLACED] = g_signal_new ("replaced", G_TYPE_FROM_CLASS (klass),
+                                           G_SIGNAL_RUN_LAST, 0, NULL, NULL, NULL,
+                                           G_TYPE_NONE, 0);
 }
 
 static void
 lw_design_model_init (LwDesignModel *self)
 {
-  self->plant_text = g_strdup ("1/s");
-  self->period_s = 0.01;
-  self->compute_delay = 1;
-  self->stages = g_array_new (FALSE, TRUE, sizeof (LwStage));
-  self->requirements = g_array_new (FALSE, TRUE, sizeof (LwRequirement));
 }
 
 LwDesignModel *
-lw_design_model_new_example (void)
+lw_design_model_new (LwDesign *design)
 {
+  g_return_val_if_fail (design != NULL, NULL);
+  g_return_val_if_fail (design->n_variants >= 1 && design->active < design->n_variants, NULL);
+
   LwDesignModel *self = g_object_new (LW_TYPE_DESIGN_MODEL, NULL);
+  self->doc = design;
+  return self;
+}
+
+LwDesign *
+lw_design_model_example_design (void)
+{
+  LwDesign *d = lw_design_new ("180/(s*(s+12))", 0.002);
   LwStage gain = lw_stage_gain (2.5);
   LwStage lead = lw_stage_lead (10.0, 80.0);
 
-  g_free (self->plant_text);
-  self->plant_text = g_strdup ("180/(s*(s+12))");
-  self->period_s = 0.002;
-  self->dead_time_s = 0.0;
-  self->compute_delay = 1;
-  g_array_append_val (self->stages, gain);
-  g_array_append_val (self->stages, lead);
+  d->dead_time_s = 0.0;
+  d->compute_delay = 1;
+  lw_design_variant_add_stage (&d->variants[0], &gain);
+  lw_design_variant_add_stage (&d->variants[0], &lead);
   const LwRequirement reqs[] = {
     { .kind = LW_REQ_MIN_PHASE_MARGIN, .limit = 45.0 },
     { .kind = LW_REQ_MIN_GAIN_MARGIN, .limit = 6.0 },
     { .kind = LW_REQ_MAX_SENSITIVITY, .limit = 2.0 },
     { .kind = LW_REQ_MAX_OVERSHOOT, .limit = 25.0 },
   };
-  g_array_append_vals (self->requirements, reqs, G_N_ELEMENTS (reqs));
-  return self;
+  for (size_t i = 0; i < G_N_ELEMENTS (reqs); i++)
+    lw_design_add_requirement (d, NULL, &reqs[i]);
+  return d;
+}
+
+LwDesignModel *
+lw_design_model_new_example (void)
+{
+  return lw_design_model_new (lw_design_model_example_design ());
+}
+
+const LwDesign *
+lw_design_model_get_design (LwDesignModel *self)
+{
+  g_return_val_if_fail (LW_IS_DESIGN_MODEL (self), NULL);
+  return self->doc;
+}
+
+void
+lw_design_model_replace (LwDesignModel *self, LwDesign *design)
+{
+  g_return_if_fail (LW_IS_DESIGN_MODEL (self));
+  g_return_if_fail (design != NULL);
+  g_return_if_fail (design->n_variants >= 1 && design->active < design->n_variants);
+
+  lw_design_free (self->doc);
+  self->doc = design;
+  g_signal_emit (self, signals[SIGNAL_REPLACED], 0);
+  g_signal_emit (self, signals[SIGNAL_STAGES_CHANGED], 0);
+  g_signal_emit (self, signals[SIGNAL_REQUIREMENTS_CHANGED], 0);
+  g_signal_emit (self, signals[SIGNAL_CHANGED], 0);
+}
+
+static LwDesignVariant *
+active_variant (LwDesignModel *self)
+{
+  return &self->doc->variants[self->doc->active];
 }
 
 static void
@@ -115,7 +153,7 @@ const char *
 lw_design_model_get_plant_text (LwDesignModel *self)
 {
   g_return_val_if_fail (LW_IS_DESIGN_MODEL (self), NULL);
-  return self->plant_text;
+  return self->doc->plant;
 }
 
 void
@@ -123,10 +161,9 @@ lw_design_model_set_plant_text (LwDesignModel *self, const char *text)
 {
   g_return_if_fail (LW_IS_DESIGN_MODEL (self));
   g_return_if_fail (text != NULL);
-  if (g_strcmp0 (self->plant_text, text) == 0)
+  if (g_strcmp0 (self->doc->plant, text) == 0)
     return;
-  g_free (self->plant_text);
-  self->plant_text = g_strdup (text);
+  lw_design_set_string (&self->doc->plant, text);
   emit_changed (self);
 }
 
@@ -134,16 +171,16 @@ double
 lw_design_model_get_dead_time_s (LwDesignModel *self)
 {
   g_return_val_if_fail (LW_IS_DESIGN_MODEL (self), NAN);
-  return self->dead_time_s;
+  return self->doc->dead_time_s;
 }
 
 void
 lw_design_model_set_dead_time_s (LwDesignModel *self, double dead_time_s)
 {
   g_return_if_fail (LW_IS_DESIGN_MODEL (self));
-  if (self->dead_time_s == dead_time_s)
+  if (self->doc->dead_time_s == dead_time_s)
     return;
-  self->dead_time_s = dead_time_s;
+  self->doc->dead_time_s = dead_time_s;
   emit_changed (self);
 }
 
@@ -151,16 +188,16 @@ double
 lw_design_model_get_period_s (LwDesignModel *self)
 {
   g_return_val_if_fail (LW_IS_DESIGN_MODEL (self), NAN);
-  return self->period_s;
+  return self->doc->period_s;
 }
 
 void
 lw_design_model_set_period_s (LwDesignModel *self, double period_s)
 {
   g_return_if_fail (LW_IS_DESIGN_MODEL (self));
-  if (self->period_s == period_s)
+  if (self->doc->period_s == period_s)
     return;
-  self->period_s = period_s;
+  self->doc->period_s = period_s;
   emit_changed (self);
 }
 
@@ -168,7 +205,7 @@ int
 lw_design_model_get_compute_delay (LwDesignModel *self)
 {
   g_return_val_if_fail (LW_IS_DESIGN_MODEL (self), 0);
-  return self->compute_delay;
+  return self->doc->compute_delay;
 }
 
 void
@@ -176,9 +213,9 @@ lw_design_model_set_compute_delay (LwDesignModel *self, int samples)
 {
   g_return_if_fail (LW_IS_DESIGN_MODEL (self));
   g_return_if_fail (samples >= 0);
-  if (self->compute_delay == samples)
+  if (self->doc->compute_delay == samples)
     return;
-  self->compute_delay = samples;
+  self->doc->compute_delay = samples;
   emit_changed (self);
 }
 
@@ -186,24 +223,27 @@ guint
 lw_design_model_get_n_stages (LwDesignModel *self)
 {
   g_return_val_if_fail (LW_IS_DESIGN_MODEL (self), 0);
-  return self->stages->len;
+  return (guint) active_variant (self)->n_stages;
 }
 
 const LwStage *
 lw_design_model_get_stage (LwDesignModel *self, guint i)
 {
   g_return_val_if_fail (LW_IS_DESIGN_MODEL (self), NULL);
-  g_return_val_if_fail (i < self->stages->len, NULL);
-  return &g_array_index (self->stages, LwStage, i);
+  g_return_val_if_fail (i < active_variant (self)->n_stages, NULL);
+  return &active_variant (self)->stages[i];
 }
 
 void
 lw_design_model_set_stage (LwDesignModel *self, guint i, const LwStage *stage)
 {
   g_return_if_fail (LW_IS_DESIGN_MODEL (self));
-  g_return_if_fail (i < self->stages->len);
+  g_return_if_fail (i < active_variant (self)->n_stages);
   g_return_if_fail (stage != NULL);
-  g_array_index (self->stages, LwStage, i) = *stage;
+  LwStage *s = &active_variant (self)->stages[i];
+  if (memcmp (s, stage, sizeof *s) == 0)
+    return;
+  *s = *stage;
   emit_changed (self);
 }
 
@@ -212,7 +252,7 @@ lw_design_model_append_stage (LwDesignModel *self, const LwStage *stage)
 {
   g_return_if_fail (LW_IS_DESIGN_MODEL (self));
   g_return_if_fail (stage != NULL);
-  g_array_append_val (self->stages, *stage);
+  lw_design_variant_add_stage (active_variant (self), stage);
   g_signal_emit (self, signals[SIGNAL_STAGES_CHANGED], 0);
   emit_changed (self);
 }
@@ -221,8 +261,10 @@ void
 lw_design_model_remove_stage (LwDesignModel *self, guint i)
 {
   g_return_if_fail (LW_IS_DESIGN_MODEL (self));
-  g_return_if_fail (i < self->stages->len);
-  g_array_remove_index (self->stages, i);
+  LwDesignVariant *v = active_variant (self);
+  g_return_if_fail (i < v->n_stages);
+  memmove (&v->stages[i], &v->stages[i + 1], (v->n_stages - i - 1) * sizeof *v->stages);
+  v->n_stages--;
   g_signal_emit (self, signals[SIGNAL_STAGES_CHANGED], 0);
   emit_changed (self);
 }
@@ -232,12 +274,13 @@ lw_design_model_move_stage (LwDesignModel *self, guint i, int delta)
 {
   g_return_if_fail (LW_IS_DESIGN_MODEL (self));
   g_return_if_fail (delta == -1 || delta == 1);
-  if (i >= self->stages->len || (delta < 0 && i == 0) || (delta > 0 && i + 1 >= self->stages->len))
+  LwDesignVariant *v = active_variant (self);
+  if (i >= v->n_stages || (delta < 0 && i == 0) || (delta > 0 && i + 1 >= v->n_stages))
     return;
   guint j = delta < 0 ? i - 1 : i + 1;
-  LwStage tmp = g_array_index (self->stages, LwStage, i);
-  g_array_index (self->stages, LwStage, i) = g_array_index (self->stages, LwStage, j);
-  g_array_index (self->stages, LwStage, j) = tmp;
+  LwStage tmp = v->stages[i];
+  v->stages[i] = v->stages[j];
+  v->stages[j] = tmp;
   g_signal_emit (self, signals[SIGNAL_STAGES_CHANGED], 0);
   emit_changed (self);
 }
@@ -246,24 +289,27 @@ guint
 lw_design_model_get_n_requirements (LwDesignModel *self)
 {
   g_return_val_if_fail (LW_IS_DESIGN_MODEL (self), 0);
-  return self->requirements->len;
+  return (guint) self->doc->n_requirements;
 }
 
 const LwRequirement *
 lw_design_model_get_requirement (LwDesignModel *self, guint i)
 {
   g_return_val_if_fail (LW_IS_DESIGN_MODEL (self), NULL);
-  g_return_val_if_fail (i < self->requirements->len, NULL);
-  return &g_array_index (self->requirements, LwRequirement, i);
+  g_return_val_if_fail (i < self->doc->n_requirements, NULL);
+  return &self->doc->requirements[i].req;
 }
 
 void
 lw_design_model_set_requirement (LwDesignModel *self, guint i, const LwRequirement *r)
 {
   g_return_if_fail (LW_IS_DESIGN_MODEL (self));
-  g_return_if_fail (i < self->requirements->len);
+  g_return_if_fail (i < self->doc->n_requirements);
   g_return_if_fail (r != NULL);
-  g_array_index (self->requirements, LwRequirement, i) = *r;
+  LwRequirement *t = &self->doc->requirements[i].req;
+  if (memcmp (t, r, sizeof *t) == 0)
+    return;
+  *t = *r;
   emit_changed (self);
 }
 
@@ -272,7 +318,7 @@ lw_design_model_append_requirement (LwDesignModel *self, const LwRequirement *r)
 {
   g_return_if_fail (LW_IS_DESIGN_MODEL (self));
   g_return_if_fail (r != NULL);
-  g_array_append_val (self->requirements, *r);
+  lw_design_add_requirement (self->doc, NULL, r);
   g_signal_emit (self, signals[SIGNAL_REQUIREMENTS_CHANGED], 0);
   emit_changed (self);
 }
@@ -312,19 +358,20 @@ fail (LwLoopEval *e, LwLoopFailure failure)
 static LwSampledPlant *
 sampled_plant (LwDesignModel *self, const LwZpk *plant_s, LwError *err)
 {
-  if (self->sampled != NULL && g_strcmp0 (self->sampled_plant_text, self->plant_text) == 0
-      && self->sampled_dead_time_s == self->dead_time_s
-      && self->sampled_period_s == self->period_s)
+  const LwDesign *d = self->doc;
+  if (self->sampled != NULL && g_strcmp0 (self->sampled_plant_text, d->plant) == 0
+      && self->sampled_dead_time_s == d->dead_time_s
+      && self->sampled_period_s == d->period_s)
     return self->sampled;
 
   g_clear_pointer (&self->sampled, lw_sampled_plant_free);
   g_clear_pointer (&self->sampled_plant_text, g_free);
-  if (lw_sampled_plant_new (plant_s, self->dead_time_s, self->period_s, &self->sampled, err)
+  if (lw_sampled_plant_new (plant_s, d->dead_time_s, d->period_s, &self->sampled, err)
       != LW_OK)
     return NULL;
-  self->sampled_plant_text = g_strdup (self->plant_text);
-  self->sampled_dead_time_s = self->dead_time_s;
-  self->sampled_period_s = self->period_s;
+  self->sampled_plant_text = g_strdup (d->plant);
+  self->sampled_dead_time_s = d->dead_time_s;
+  self->sampled_period_s = d->period_s;
   return self->sampled;
 }
 
@@ -336,7 +383,9 @@ lw_design_model_evaluate (LwDesignModel *self)
   LwLoopEval *e = g_rc_box_new0 (LwLoopEval);
   lw_error_clear (&e->error);
 
-  if (lw_expr_parse_proper (self->plant_text, LW_DOMAIN_S, 0.0, &e->plant_s, &e->error)
+  const LwDesign *d = self->doc;
+  const LwDesignVariant *v = &d->variants[d->active];
+  if (lw_expr_parse_proper (d->plant, LW_DOMAIN_S, 0.0, &e->plant_s, &e->error)
       != LW_OK)
     return fail (e, LW_LOOP_FAILED_PLANT);
 
@@ -345,16 +394,15 @@ lw_design_model_evaluate (LwDesignModel *self)
     return fail (e, LW_LOOP_FAILED_SAMPLING);
 
   LwZpk *controller_z = NULL;
-  const LwStage *stages = (const LwStage *) (void *) self->stages->data;
-  if (lw_compensator_w (stages, self->stages->len, self->period_s, &e->controller_w, &e->error)
+  if (lw_compensator_w (v->stages, v->n_stages, d->period_s, &e->controller_w, &e->error)
         != LW_OK
-      || lw_compensator_z (stages, self->stages->len, self->period_s, &controller_z, &e->error)
+      || lw_compensator_z (v->stages, v->n_stages, d->period_s, &controller_z, &e->error)
            != LW_OK)
     return fail (e, LW_LOOP_FAILED_COMPENSATOR);
 
   LwAnalysisOptions opts;
   lw_analysis_options_init (&opts);
-  opts.compute_delay = self->compute_delay;
+  opts.compute_delay = d->compute_delay;
   LwStatus st = lw_evaluate (plant, controller_z, &opts, &e->ev, &e->error);
   lw_zpk_free (controller_z);
   if (st != LW_OK)

@@ -7,8 +7,11 @@
  * edit → design model → evaluation (lw_design_model_evaluate, which asks core/ for everything)
  * → views.
  *
- * This is the window's working state; the design document of src/doc/ (its LwDesign, with
- * variants and requirements) will be loaded into it and saved from it.
+ * The model is backed by a design document (LwDesign of src/doc/): every getter reads the
+ * document and every setter writes into it, so what is edited is what is saved.  The stages
+ * shown and edited are those of the document's active variant; other variants, the title,
+ * notes and view settings are kept as loaded.  lw_design_model_replace swaps in a whole
+ * document (open, undo, redo) and emits "replaced" so every panel shows it afresh.
  *
  * SPDX-License-Identifier: GPL-3.0-or-later
  */
@@ -17,6 +20,7 @@
 #include <glib-object.h>
 
 #include "lw-analysis.h"
+#include "lw-design.h"
 #include "lw-error.h"
 #include "lw-model.h"
 #include "lw-require.h"
@@ -26,6 +30,21 @@ G_BEGIN_DECLS
 
 #define LW_TYPE_DESIGN_MODEL (lw_design_model_get_type ())
 G_DECLARE_FINAL_TYPE (LwDesignModel, lw_design_model, LW, DESIGN_MODEL, GObject)
+
+/* A model editing design (taken: freed with the model). design has at least one variant and
+ * a valid active index. */
+LwDesignModel *lw_design_model_new (LwDesign *design);
+
+/* The document as it stands (owned by the model; valid until the next replace). Copy it
+ * (lw_design_copy) to keep a snapshot. */
+const LwDesign *lw_design_model_get_design (LwDesignModel *self);
+
+/* Replaces the document by design (taken). Emits "replaced", "stages-changed",
+ * "requirements-changed" and "changed", in that order. */
+void lw_design_model_replace (LwDesignModel *self, LwDesign *design);
+
+/* The starting design of a new window, as a document (see lw_design_model_new_example). */
+LwDesign *lw_design_model_example_design (void);
 
 /* The camera-slider axis of data/examples/camera-slider.args (invented numbers): plant
  * 180/(s (s + 12)), T = 2 ms, one sample of delay, and the compensator 20 (w + 10)/(w + 80)
@@ -45,6 +64,7 @@ void lw_design_model_set_compute_delay (LwDesignModel *self, int samples);
 guint lw_design_model_get_n_stages (LwDesignModel *self);
 /* The i-th stage (i < n); the pointer is valid until the next edit. */
 const LwStage *lw_design_model_get_stage (LwDesignModel *self, guint i);
+/* Nothing (no "changed") when stage equals the stored one byte for byte. */
 void lw_design_model_set_stage (LwDesignModel *self, guint i, const LwStage *stage);
 void lw_design_model_append_stage (LwDesignModel *self, const LwStage *stage);
 void lw_design_model_remove_stage (LwDesignModel *self, guint i);

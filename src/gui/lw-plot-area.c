@@ -75,8 +75,84 @@ lw_plot_area_get_layout (LwPlotArea *self)
   return self->layout;
 }
 
+/* |L| in dB at frequency f on a curve (ascending frequencies), linear in log f between grid
+ * points, the end value beyond the ends: where a handle sits on the drawn curve. */
+static double
+curve_db_at (const LwPlotFreqCurve *c, double f)
+{
+  if (c->n == 0)
+    return 0.0;
+  if (f <= c->freq_rad_s[0])
+    return c->mag_db[0];
+  if (f >= c->freq_rad_s[c->n - 1])
+    return c->mag_db[c->n - 1];
+  size_t lo = 0, hi = c->n - 1;
+  while (hi - lo > 1)
+    {
+      size_t mid = (lo + hi) / 2;
+      if (c->freq_rad_s[mid] <= f)
+        lo = mid;
+      else
+        hi = mid;
+    }
+  double t = log (f / c->freq_rad_s[lo]) / log (c->freq_rad_s[hi] / c->freq_rad_s[lo]);
+  return c->mag_db[lo] + t * (c->mag_db[hi] - c->mag_db[lo]);
+}
+
+static void
+set_handles (LwPlotArea *self, LwLoopEval *eval, const LwFigureVariant *fv,
+             const LwStage *stages, guint n_stages, double gain_pin_nu, int sel_stage,
+             int sel_corner)
+{
+  double period_s = eval->ev->period_s;
+  double gain_nu = gain_pin_nu;
+  if (!(gain_nu > 0))
+    gain_nu = eval->ev->margins.has_phase_margin
+                ? lw_warp_omega_to_nu (eval->ev->margins.gain_crossover_rad_s, period_s)
+                : (fv->v.w.n > 0 ? fv->v.w.freq_rad_s[fv->v.w.n / 2] : 1.0);
+
+  for (guint k = 0; k < N_VIEWS; k++)
+    {
+      LwPlotView view = area_views[k];
+      if (view != LW_PLOT_VIEW_BODE_W && view != LW_PLOT_VIEW_BODE_Z)
+        continue;
+      gboolean in_w = view == LW_PLOT_VIEW_BODE_W;
+      const LwPlotFreqCurve *curve = in_w ? &fv->v.w : &fv->v.z;
+      g_autoptr (GArray) hs = g_array_new (FALSE, FALSE, sizeof (LwPaneHandle));
+      for (guint i = 0; i < n_stages; i++)
+        {
+          const LwStage *st = &stages[i];
+          if (!st->enabled)
+            continue;
+          if (st->kind == LW_STAGE_GAIN)
+            {
+              double f = in_w ? gain_nu : lw_warp_nu_to_omega (gain_nu, period_s);
+              LwPaneHandle h = { .stage = i, .corner = -1, .x = f, .y = curve_db_at (curve, f) };
+              g_array_append_val (hs, h);
+              continue;
+            }
+          size_t nc = lw_stage_corner_count (st);
+          for (size_t c = 0; c < nc; c++)
+            {
+              double nu;
+              LwHandleKind kind;
+              if (lw_stage_corner_get (st, c, &nu, &kind, NULL) != LW_OK)
+                continue;
+              double f = in_w ? nu : lw_warp_nu_to_omega (nu, period_s);
+              LwPaneHandle h = { .stage = i, .corner = (int) c, .x = f,
+                                 .y = curve_db_at (curve, f) };
+              g_array_append_val (hs, h);
+            }
+        }
+      lw_plot_pane_set_handles (self->panes[k], (const LwPaneHandle *) (void *) hs->data,
+                                hs->len, sel_stage, sel_corner);
+    }
+}
+
 void
-lw_plot_area_show_eval (LwPlotArea *self, LwLoopEval *eval, const LwPlotRequirements *req)
+lw_plot_area_show_eval (LwPlotArea *self, LwLoopEval *eval, const LwPlotRequirements *req,
+                        const LwStage *stages, guint n_stages, double gain_pin_nu_rad_s,
+                        int sel_stage, int sel_corner)
 {
   g_return_if_fail (LW_IS_PLOT_AREA (self));
   g_return_if_fail (eval != NULL);
@@ -85,7 +161,10 @@ lw_plot_area_show_eval (LwPlotArea *self, LwLoopEval *eval, const LwPlotRequirem
     {
       g_autofree char *msg = g_strdup_printf (_("No loop to draw: %s"), eval->error.message);
       for (guint i = 0; i < N_VIEWS; i++)
-        lw_plot_pane_set_plot (self->panes[i], NULL, msg);
+        {
+          lw_plot_pane_set_plot (self->panes[i], NULL, msg);
+          lw_plot_pane_set_handles (self->panes[i], NULL, 0, -1, -1);
+        }
       return;
     }
 
@@ -96,7 +175,10 @@ lw_plot_area_show_eval (LwPlotArea *self, LwLoopEval *eval, const LwPlotRequirem
       g_autofree char *msg = g_strdup_printf (_("No loop to draw: %s"), err.message);
       lw_figure_variant_clear (&fv);
       for (guint i = 0; i < N_VIEWS; i++)
-        lw_plot_pane_set_plot (self->panes[i], NULL, msg);
+        {
+          lw_plot_pane_set_plot (self->panes[i], NULL, msg);
+          lw_plot_pane_set_handles (self->panes[i], NULL, 0, -1, -1);
+        }
       return;
     }
 
@@ -115,7 +197,51 @@ lw_plot_area_show_eval (LwPlotArea *self, LwLoopEval *eval, const LwPlotRequirem
       LwPlot *plot = lw_plot_new (&in, msg, sizeof msg);
       lw_plot_pane_set_plot (self->panes[i], plot, plot == NULL ? msg : NULL);
     }
+  set_handles (self, eval, &fv, stages, n_stages, gain_pin_nu_rad_s, sel_stage, sel_corner);
   lw_figure_variant_clear (&fv);
+}
+
+LwPlotPane *
+lw_plot_area_get_pane (LwPlotArea *self, LwPlotView view)
+{
+  g_return_val_if_fail (LW_IS_PLOT_AREA (self), NULL);
+  for (guint i = 0; i < N_VIEWS; i++)
+    if (area_views[i] == view)
+      return self->panes[i];
+  return NULL;
+}
+
+LwPlot *
+lw_plot_area_build_plot (LwLoopEval *eval, const LwPlotRequirements *req, LwPlotView view,
+                         const char *title, const char *variant_name, char *err,
+                         size_t err_size)
+{
+  g_return_val_if_fail (eval != NULL, NULL);
+  if (eval->ev == NULL)
+    {
+      g_snprintf (err, err_size, "%s", eval->error.message);
+      return NULL;
+    }
+  LwFigureVariant fv;
+  LwError e;
+  if (lw_figure_variant_fill (&fv, variant_name, eval->sampled, eval->ev, &e) != LW_OK)
+    {
+      g_snprintf (err, err_size, "%s", e.message);
+      lw_figure_variant_clear (&fv);
+      return NULL;
+    }
+  LwPlotInput in = {
+    .view = view,
+    .nyquist_rad_s = G_PI / eval->ev->period_s,
+    .title = title,
+    .n_variants = 1,
+    .variants = &fv.v,
+  };
+  if (req != NULL)
+    in.req = *req;
+  LwPlot *plot = lw_plot_new (&in, err, err_size);
+  lw_figure_variant_clear (&fv);
+  return plot;
 }
 
 void

@@ -11,6 +11,7 @@
 
 #include "lw-design-model.h"
 #include "lw-plot.h"
+#include "lw-plot-pane.h"
 
 G_BEGIN_DECLS
 
@@ -28,8 +29,23 @@ void lw_plot_area_set_layout (LwPlotArea *self, LwPlotLayout layout);
 LwPlotLayout lw_plot_area_get_layout (LwPlotArea *self);
 
 /* Builds every view's figure from eval (eval->sampled must still be valid) with the marks of
- * req (may be NULL). */
-void lw_plot_area_show_eval (LwPlotArea *self, LwLoopEval *eval, const LwPlotRequirements *req);
+ * req (may be NULL), and the drag handles of stages[0 … n_stages−1] (the stages eval was made
+ * from) on the two Bode views: each enabled stage's corners at their frequency ν (w-plane)
+ * or ω = (2/T)·atan(νT/2) (z), on the magnitude curve; each enabled gain stage at
+ * gain_pin_nu_rad_s when it is > 0, else at the gain crossover, on the curve.  The handle of
+ * (sel_stage, sel_corner) is drawn active (sel_stage −1: none). */
+void lw_plot_area_show_eval (LwPlotArea *self, LwLoopEval *eval, const LwPlotRequirements *req,
+                             const LwStage *stages, guint n_stages, double gain_pin_nu_rad_s,
+                             int sel_stage, int sel_corner);
+
+/* The pane of a view shown by the area (NULL when the area does not show it). */
+LwPlotPane *lw_plot_area_get_pane (LwPlotArea *self, LwPlotView view);
+
+/* A figure of one view of eval, as the CLI's plot builds it (no title unless given, the loop
+ * named by variant_name), for export. NULL with a message in err. */
+LwPlot *lw_plot_area_build_plot (LwLoopEval *eval, const LwPlotRequirements *req,
+                                 LwPlotView view, const char *title, const char *variant_name,
+                                 char *err, size_t err_size);
 
 void lw_plot_area_set_theme (LwPlotArea *self, LwPlotTheme theme);
 

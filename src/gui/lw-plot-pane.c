@@ -3,6 +3,9 @@
  */
 #include "config.h"
 
+#include <math.h>
+#include <stdio.h>
+
 #include <glib/gi18n.h>
 
 #include "lw-plot-pane.h"
@@ -22,9 +25,28 @@ struct _LwPlotPane
 
   gboolean has_hover;
   double hover_x, hover_y;
+
+  GArray *handles;              /* of LwPaneHandle */
+  int sel_stage, sel_corner;
+  int dragging;                 /* handle index under drag, or −1 */
+  double drag_start_x, drag_start_y;
+  char *drag_label;
+  GtkGesture *drag;
+
+  gboolean debug_handles;
+  char *debug_last;
 };
 
 G_DEFINE_FINAL_TYPE (LwPlotPane, lw_plot_pane, GTK_TYPE_DRAWING_AREA)
+
+enum
+{
+  SIGNAL_DRAG_BEGIN,
+  SIGNAL_DRAG_UPDATE,
+  SIGNAL_DRAG_END,
+  N_SIGNALS
+};
+static guint signals[N_SIGNALS];
 
 static void
 invalidate_cache (LwPlotPane *self)
@@ -50,6 +72,77 @@ draw_message (LwPlotPane *self, cairo_t *cr, int width, int height)
   pango_cairo_show_layout (cr, layout);
 }
 
+/* The drag value beside the pointer, on a plate of the theme's background. */
+static void
+draw_drag_label (LwPlotPane *self, cairo_t *cr, int width)
+{
+  g_autoptr (PangoLayout) layout =
+    gtk_widget_create_pango_layout (GTK_WIDGET (self), self->drag_label);
+  int tw, th;
+  pango_layout_get_pixel_size (layout, &tw, &th);
+  double x = self->hover_x + 14, y = self->hover_y - th - 10;
+  if (x + tw + 8 > width)
+    x = self->hover_x - tw - 22;
+  if (y < 2)
+    y = self->hover_y + 14;
+  gboolean dark = self->theme == LW_PLOT_THEME_DARK;
+  cairo_rectangle (cr, x - 4, y - 2, tw + 8, th + 4);
+  cairo_set_source_rgba (cr, dark ? 0.1 : 1.0, dark ? 0.1 : 1.0, dark ? 0.12 : 1.0, 0.92);
+  cairo_fill_preserve (cr);
+  cairo_set_source_rgb (cr, 0.5, 0.5, 0.5);
+  cairo_set_line_width (cr, 1.0);
+  cairo_stroke (cr);
+  cairo_set_source_rgb (cr, dark ? 0.92 : 0.08, dark ? 0.92 : 0.08, dark ? 0.92 : 0.08);
+  cairo_move_to (cr, x, y);
+  pango_cairo_show_layout (cr, layout);
+}
+
+/* LW_DEBUG_HANDLES: handle pixels in window-surface coordinates, printed when they change. */
+static void
+debug_print_handles (LwPlotPane *self)
+{
+  GtkNative *native = gtk_widget_get_native (GTK_WIDGET (self));
+  if (native == NULL || self->plot == NULL)
+    return;
+  double tx = 0, ty = 0, ox = 0, oy = 0;
+  gtk_native_get_surface_transform (native, &tx, &ty);
+  G_GNUC_BEGIN_IGNORE_DEPRECATIONS
+  if (!gtk_widget_translate_coordinates (GTK_WIDGET (self), GTK_WIDGET (native), 0, 0, &ox,
+                                         &oy))
+    return;
+  G_GNUC_END_IGNORE_DEPRECATIONS
+  ox += tx;
+  oy += ty;
+
+  g_autoptr (GString) s = g_string_new (NULL);
+  const char *name = lw_plot_view_name (self->view);
+  double px, py, pw, ph;
+  const LwPlotAxis *xa = lw_plot_panel_x_axis (self->plot, 0);
+  const LwPlotAxis *ya = lw_plot_panel_y_axis (self->plot, 0);
+  if (xa != NULL && ya != NULL && lw_plot_panel_rect (self->plot, 0, &px, &py, &pw, &ph))
+    g_string_append_printf (s, "LW-PANEL view=%s left=%.3f top=%.3f width=%.3f height=%.3f "
+                            "xlo=%.17g xhi=%.17g ylo=%.17g yhi=%.17g\n",
+                            name, ox + px, oy + py, pw, ph, lw_plot_axis_unmap (xa, 0.0),
+                            lw_plot_axis_unmap (xa, 1.0), lw_plot_axis_unmap (ya, 0.0),
+                            lw_plot_axis_unmap (ya, 1.0));
+  for (guint i = 0; i < self->handles->len; i++)
+    {
+      const LwPaneHandle *h = &g_array_index (self->handles, LwPaneHandle, i);
+      double hx, hy;
+      if (!lw_plot_pixel_of_value (self->plot, 0, h->x, h->y, &hx, &hy))
+        continue;
+      g_string_append_printf (s, "LW-HANDLE view=%s stage=%u corner=%d x=%.17g y=%.17g "
+                              "sx=%.3f sy=%.3f\n", name, h->stage, h->corner, h->x, h->y,
+                              ox + hx, oy + hy);
+    }
+  if (g_strcmp0 (s->str, self->debug_last) == 0)
+    return;
+  g_free (self->debug_last);
+  self->debug_last = g_strdup (s->str);
+  fputs (s->str, stdout);
+  fflush (stdout);
+}
+
 static void
 draw (GtkDrawingArea *area, cairo_t *cr, int width, int height, gpointer user_data)
 {
@@ -66,7 +159,7 @@ draw (GtkDrawingArea *area, cairo_t *cr, int width, int height, gpointer user_da
       || self->cache_scale != scale)
     {
       g_clear_pointer (&self->cache, cairo_surface_destroy);
-      self->cache = cairo_image_surface_create (CAIRO_FORMAT_ARGB32, width * scale,
+      self->cache = cairo_image_surface_create (CAIRO_FORMAT_RGB24, width * scale,
                                                 height * scale);
       cairo_surface_set_device_scale (self->cache, scale, scale);
       cairo_t *c = cairo_create (self->cache);
@@ -80,9 +173,24 @@ draw (GtkDrawingArea *area, cairo_t *cr, int width, int height, gpointer user_da
   cairo_paint (cr);
 
   /* lw_plot_draw_overlay uses the layout of the last draw, which was for this size. */
-  LwPlotOverlay ov = { .has_hover = self->has_hover, .hover_x = self->hover_x,
-                       .hover_y = self->hover_y };
+  LwPlotHandle ph[64];
+  guint n = MIN (self->handles->len, G_N_ELEMENTS (ph));
+  for (guint i = 0; i < n; i++)
+    {
+      const LwPaneHandle *h = &g_array_index (self->handles, LwPaneHandle, i);
+      ph[i] = (LwPlotHandle) { .panel = 0, .x = h->x, .y = h->y,
+                               .active = (self->dragging >= 0 && (guint) self->dragging == i)
+                                         || ((int) h->stage == self->sel_stage
+                                             && h->corner == self->sel_corner) };
+    }
+  LwPlotOverlay ov = { .has_hover = self->has_hover && self->dragging < 0,
+                       .hover_x = self->hover_x, .hover_y = self->hover_y,
+                       .n_handles = n, .handles = ph };
   lw_plot_draw_overlay (self->plot, cr, &ov);
+  if (self->dragging >= 0 && self->drag_label != NULL)
+    draw_drag_label (self, cr, width);
+  if (self->debug_handles)
+    debug_print_handles (self);
 }
 
 static void
@@ -101,6 +209,95 @@ leave (GtkEventControllerMotion *c, LwPlotPane *self)
   gtk_widget_queue_draw (GTK_WIDGET (self));
 }
 
+/* The handle nearest to (x, y) within the grab distance, or −1. */
+static int
+handle_at (LwPlotPane *self, double x, double y)
+{
+  int best = -1;
+  double best_d = LW_PLOT_PANE_GRAB_PX;
+  if (self->plot == NULL)
+    return -1;
+  for (guint i = 0; i < self->handles->len; i++)
+    {
+      const LwPaneHandle *h = &g_array_index (self->handles, LwPaneHandle, i);
+      double hx, hy;
+      if (!lw_plot_pixel_of_value (self->plot, 0, h->x, h->y, &hx, &hy))
+        continue;
+      double d = hypot (hx - x, hy - y);
+      if (d <= best_d)
+        best_d = d, best = (int) i;
+    }
+  return best;
+}
+
+/* Axis values of the magnitude panel at a pixel, also outside the plot area. */
+static gboolean
+values_at (LwPlotPane *self, double px, double py, double *x, double *y)
+{
+  double left, top, w, h;
+  const LwPlotAxis *xa = lw_plot_panel_x_axis (self->plot, 0);
+  const LwPlotAxis *ya = lw_plot_panel_y_axis (self->plot, 0);
+  if (xa == NULL || ya == NULL || !lw_plot_panel_rect (self->plot, 0, &left, &top, &w, &h)
+      || w <= 0 || h <= 0)
+    return FALSE;
+  *x = lw_plot_axis_unmap (xa, (px - left) / w);
+  *y = lw_plot_axis_unmap (ya, 1.0 - (py - top) / h);
+  return isfinite (*x) && isfinite (*y);
+}
+
+static void
+drag_begin (GtkGestureDrag *g, double x, double y, LwPlotPane *self)
+{
+  int i = handle_at (self, x, y);
+  if (i < 0)
+    {
+      gtk_gesture_set_state (GTK_GESTURE (g), GTK_EVENT_SEQUENCE_DENIED);
+      return;
+    }
+  double vx, vy;
+  if (!values_at (self, x, y, &vx, &vy))
+    {
+      gtk_gesture_set_state (GTK_GESTURE (g), GTK_EVENT_SEQUENCE_DENIED);
+      return;
+    }
+  gtk_gesture_set_state (GTK_GESTURE (g), GTK_EVENT_SEQUENCE_CLAIMED);
+  gtk_widget_grab_focus (GTK_WIDGET (self));
+  self->dragging = i;
+  self->drag_start_x = x;
+  self->drag_start_y = y;
+  g_signal_emit (self, signals[SIGNAL_DRAG_BEGIN], 0, (guint) i, vx, vy);
+}
+
+static void
+drag_update (GtkGestureDrag *g, double dx, double dy, LwPlotPane *self)
+{
+  if (self->dragging < 0 || self->plot == NULL)
+    return;
+  double px = self->drag_start_x + dx, py = self->drag_start_y + dy;
+  self->has_hover = TRUE;
+  self->hover_x = px;
+  self->hover_y = py;
+  double x, y;
+  if (values_at (self, px, py, &x, &y))
+    {
+      GdkModifierType mods =
+        gtk_event_controller_get_current_event_state (GTK_EVENT_CONTROLLER (g));
+      g_signal_emit (self, signals[SIGNAL_DRAG_UPDATE], 0, (guint) self->dragging, x, y,
+                     (guint) mods);
+    }
+  gtk_widget_queue_draw (GTK_WIDGET (self));
+}
+
+static void
+drag_end (GtkGestureDrag *g, double dx, double dy, LwPlotPane *self)
+{
+  if (self->dragging < 0)
+    return;
+  self->dragging = -1;
+  g_signal_emit (self, signals[SIGNAL_DRAG_END], 0);
+  gtk_widget_queue_draw (GTK_WIDGET (self));
+}
+
 static void
 lw_plot_pane_finalize (GObject *object)
 {
@@ -109,6 +306,9 @@ lw_plot_pane_finalize (GObject *object)
   g_clear_pointer (&self->plot, lw_plot_free);
   g_clear_pointer (&self->cache, cairo_surface_destroy);
   g_free (self->message);
+  g_array_unref (self->handles);
+  g_free (self->drag_label);
+  g_free (self->debug_last);
   G_OBJECT_CLASS (lw_plot_pane_parent_class)->finalize (object);
 }
 
@@ -117,6 +317,20 @@ lw_plot_pane_class_init (LwPlotPaneClass *klass)
 {
   G_OBJECT_CLASS (klass)->finalize = lw_plot_pane_finalize;
   gtk_widget_class_set_css_name (GTK_WIDGET_CLASS (klass), "plotpane");
+
+  /* (guint handle, double x, double y_db): the axis values where the button went down */
+  signals[SIGNAL_DRAG_BEGIN] = g_signal_new ("handle-drag-begin", G_TYPE_FROM_CLASS (klass),
+                                             G_SIGNAL_RUN_LAST, 0, NULL, NULL, NULL,
+                                             G_TYPE_NONE, 3, G_TYPE_UINT, G_TYPE_DOUBLE,
+                                             G_TYPE_DOUBLE);
+  /* (guint handle, double x, double y_db, guint GdkModifierType) */
+  signals[SIGNAL_DRAG_UPDATE] = g_signal_new ("handle-drag-update", G_TYPE_FROM_CLASS (klass),
+                                              G_SIGNAL_RUN_LAST, 0, NULL, NULL, NULL,
+                                              G_TYPE_NONE, 4, G_TYPE_UINT, G_TYPE_DOUBLE,
+                                              G_TYPE_DOUBLE, G_TYPE_UINT);
+  signals[SIGNAL_DRAG_END] = g_signal_new ("handle-drag-end", G_TYPE_FROM_CLASS (klass),
+                                           G_SIGNAL_RUN_LAST, 0, NULL, NULL, NULL,
+                                           G_TYPE_NONE, 0);
 }
 
 static void
@@ -125,13 +339,25 @@ lw_plot_pane_init (LwPlotPane *self)
   gtk_drawing_area_set_draw_func (GTK_DRAWING_AREA (self), draw, NULL, NULL);
   gtk_widget_set_hexpand (GTK_WIDGET (self), TRUE);
   gtk_widget_set_vexpand (GTK_WIDGET (self), TRUE);
+  gtk_widget_set_focusable (GTK_WIDGET (self), TRUE);
   gtk_drawing_area_set_content_width (GTK_DRAWING_AREA (self), 320);
   gtk_drawing_area_set_content_height (GTK_DRAWING_AREA (self), 240);
+  self->handles = g_array_new (FALSE, FALSE, sizeof (LwPaneHandle));
+  self->sel_stage = -1;
+  self->dragging = -1;
+  self->debug_handles = g_strcmp0 (g_getenv ("LW_DEBUG_HANDLES"), "1") == 0;
 
   GtkEventController *m = gtk_event_controller_motion_new ();
   g_signal_connect (m, "motion", G_CALLBACK (motion), self);
   g_signal_connect (m, "leave", G_CALLBACK (leave), self);
   gtk_widget_add_controller (GTK_WIDGET (self), m);
+
+  self->drag = gtk_gesture_drag_new ();
+  gtk_gesture_single_set_button (GTK_GESTURE_SINGLE (self->drag), GDK_BUTTON_PRIMARY);
+  g_signal_connect (self->drag, "drag-begin", G_CALLBACK (drag_begin), self);
+  g_signal_connect (self->drag, "drag-update", G_CALLBACK (drag_update), self);
+  g_signal_connect (self->drag, "drag-end", G_CALLBACK (drag_end), self);
+  gtk_widget_add_controller (GTK_WIDGET (self), GTK_EVENT_CONTROLLER (self->drag));
 }
 
 LwPlotPane *
@@ -163,6 +389,13 @@ lw_plot_pane_set_plot (LwPlotPane *self, LwPlot *plot, const char *message)
   invalidate_cache (self);
 }
 
+LwPlot *
+lw_plot_pane_get_plot (LwPlotPane *self)
+{
+  g_return_val_if_fail (LW_IS_PLOT_PANE (self), NULL);
+  return self->plot;
+}
+
 void
 lw_plot_pane_set_theme (LwPlotPane *self, LwPlotTheme theme)
 {
@@ -173,4 +406,54 @@ lw_plot_pane_set_theme (LwPlotPane *self, LwPlotTheme theme)
   if (self->plot != NULL)
     lw_plot_set_theme (self->plot, theme);
   invalidate_cache (self);
+}
+
+void
+lw_plot_pane_set_handles (LwPlotPane *self, const LwPaneHandle *handles, guint n,
+                          int sel_stage, int sel_corner)
+{
+  g_return_if_fail (LW_IS_PLOT_PANE (self));
+  g_return_if_fail (n == 0 || handles != NULL);
+  g_array_set_size (self->handles, 0);
+  g_array_append_vals (self->handles, handles, n);
+  self->sel_stage = sel_stage;
+  self->sel_corner = sel_corner;
+  if (self->dragging >= 0 && (guint) self->dragging >= n)
+    self->dragging = -1;
+  gtk_widget_queue_draw (GTK_WIDGET (self));
+}
+
+guint
+lw_plot_pane_get_n_handles (LwPlotPane *self)
+{
+  g_return_val_if_fail (LW_IS_PLOT_PANE (self), 0);
+  return self->handles->len;
+}
+
+const LwPaneHandle *
+lw_plot_pane_get_handle (LwPlotPane *self, guint i)
+{
+  g_return_val_if_fail (LW_IS_PLOT_PANE (self), NULL);
+  g_return_val_if_fail (i < self->handles->len, NULL);
+  return &g_array_index (self->handles, LwPaneHandle, i);
+}
+
+void
+lw_plot_pane_set_drag_label (LwPlotPane *self, const char *text)
+{
+  g_return_if_fail (LW_IS_PLOT_PANE (self));
+  g_free (self->drag_label);
+  self->drag_label = g_strdup (text);
+  gtk_widget_queue_draw (GTK_WIDGET (self));
+}
+
+void
+lw_plot_pane_cancel_drag (LwPlotPane *self)
+{
+  g_return_if_fail (LW_IS_PLOT_PANE (self));
+  if (self->dragging < 0)
+    return;
+  self->dragging = -1;
+  gtk_event_controller_reset (GTK_EVENT_CONTROLLER (self->drag));
+  gtk_widget_queue_draw (GTK_WIDGET (self));
 }

@@ -22,6 +22,7 @@ struct _LwStageRow
   LwDesignModel *model;
   guint index;
   gboolean filling;
+  GPtrArray *spins;             /* the spin button of each stored parameter, in order */
 };
 
 G_DEFINE_FINAL_TYPE (LwStageRow, lw_stage_row, GTK_TYPE_LIST_BOX_ROW)
@@ -206,6 +207,7 @@ fill (LwStageRow *self)
                                       label, NULL, -1);
       g_object_set_data (G_OBJECT (spin), "lw-param-index", GUINT_TO_POINTER ((guint) row));
       g_signal_connect (spin, "value-changed", G_CALLBACK (param_changed), self);
+      g_ptr_array_add (self->spins, spin);
       GtkWidget *unit = gtk_label_new (params[i].unit);
       gtk_label_set_xalign (GTK_LABEL (unit), 0.0);
       gtk_widget_add_css_class (unit, "dim-label");
@@ -221,6 +223,33 @@ fill (LwStageRow *self)
   gtk_widget_action_set_enabled (GTK_WIDGET (self), "stage.move-up", self->index > 0);
   gtk_widget_action_set_enabled (GTK_WIDGET (self), "stage.move-down",
                                  self->index + 1 < n_stages);
+  self->filling = FALSE;
+}
+
+/* The model changed (a drag, a key press, another row): show the stage's values as they are
+ * now, without writing them back. */
+static void
+refresh (LwStageRow *self)
+{
+  if (self->index >= lw_design_model_get_n_stages (self->model))
+    return;
+  const LwStage *s = lw_design_model_get_stage (self->model, self->index);
+  LwStageParam params[LW_STAGE_MAX_PARAMS];
+  size_t n = lw_stage_params (s, params);
+  guint k = 0;
+
+  self->filling = TRUE;
+  for (size_t i = 0; i < n && k < self->spins->len; i++)
+    {
+      if (params[i].derived)
+        continue;
+      GtkSpinButton *spin = g_ptr_array_index (self->spins, k++);
+      if (gtk_spin_button_get_value (spin) != params[i].value)
+        gtk_spin_button_set_value (spin, params[i].value);
+    }
+  if (gtk_switch_get_active (self->enabled_switch) != s->enabled)
+    gtk_switch_set_active (self->enabled_switch, s->enabled);
+  show_derived (self, s);
   self->filling = FALSE;
 }
 
@@ -253,7 +282,10 @@ lw_stage_row_dispose (GObject *object)
 {
   LwStageRow *self = LW_STAGE_ROW (object);
 
+  if (self->model != NULL)
+    g_signal_handlers_disconnect_by_data (self->model, self);
   g_clear_object (&self->model);
+  g_clear_pointer (&self->spins, g_ptr_array_unref);
   gtk_widget_dispose_template (GTK_WIDGET (self), LW_TYPE_STAGE_ROW);
   G_OBJECT_CLASS (lw_stage_row_parent_class)->dispose (object);
 }
@@ -287,6 +319,7 @@ static void
 lw_stage_row_init (LwStageRow *self)
 {
   gtk_widget_init_template (GTK_WIDGET (self));
+  self->spins = g_ptr_array_new ();
 }
 
 LwStageRow *
@@ -299,5 +332,6 @@ lw_stage_row_new (LwDesignModel *model, guint index)
   self->model = g_object_ref (model);
   self->index = index;
   fill (self);
+  g_signal_connect_swapped (model, "changed", G_CALLBACK (refresh), self);
   return self;
 }

@@ -1,5 +1,9 @@
 /* lw-window.h — the designer window: the panels on the left (plant and sampling, compensator,
- * requirements), the plot area on the right, all showing one design model.
+ * requirements), the plot area on the right, all showing one design document.
+ *
+ * The window owns the document's life: its file (open, save, save as, recent files, drag and
+ * drop), its unsaved state (shown in the title, asked about on close, autosaved), its undo
+ * history (snapshots of the whole document), and the drag handles on the Bode views.
  *
  * SPDX-License-Identifier: GPL-3.0-or-later
  */
@@ -14,7 +18,26 @@ G_BEGIN_DECLS
 #define LW_TYPE_WINDOW (lw_window_get_type ())
 G_DECLARE_FINAL_TYPE (LwWindow, lw_window, LW, WINDOW, GtkApplicationWindow)
 
-/* A window on the bundled example design (lw_design_model_new_example). */
+/* A window on a new, unsaved design (lw_design_model_example_design). */
 LwWindow *lw_window_new (LwApplication *app);
+
+/* Opens file in this window. On failure a dialog shows the loader's message (NAME:LINE: …)
+ * and the design on show stays as it was. Returns whether it was opened. */
+gboolean lw_window_open_file (LwWindow *self, GFile *file);
+
+/* Whether the window shows an untouched new design (no file, no edit): then opening a file
+ * replaces it instead of opening another window. */
+gboolean lw_window_is_pristine (LwWindow *self);
+
+/* Shows an autosaved document (path) as unsaved work; source (may be NULL) is the file it
+ * came from, which becomes the window's file. */
+gboolean lw_window_restore_autosave (LwWindow *self, const char *path, GFile *source);
+
+/* Benchmark: once the window is shown, drags the first corner of the first stage that has one
+ * through n_frames frames on the frame clock, then prints one line
+ *   drag frames: N, paint median X ms, p95 Y ms; whole frame median A ms, p95 B ms
+ * (paint: before-paint to after-paint of the GdkFrameClock; whole frame: the start of the
+ * update phase to after-paint) and quits the application. */
+void lw_window_start_bench_drag (LwWindow *self, guint n_frames);
 
 G_END_DECLS

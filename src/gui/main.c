@@ -4,6 +4,9 @@
 #include "config.h"
 
 #include <locale.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
 
 #include <glib/gi18n.h>
 
@@ -18,5 +21,20 @@ main (int argc, char **argv)
   textdomain (GETTEXT_PACKAGE);
 
   g_autoptr (LwApplication) app = lw_application_new ();
+
+  /* loopwright --bench-drag N FILE: the frame-budget benchmark (lw_window_start_bench_drag) */
+  if (argc >= 2 && strcmp (argv[1], "--bench-drag") == 0)
+    {
+      char *end = NULL;
+      unsigned long n = argc == 4 ? strtoul (argv[2], &end, 10) : 0;
+      if (argc != 4 || end == argv[2] || *end != '\0' || n == 0 || n > 100000)
+        {
+          fprintf (stderr, "loopwright: --bench-drag: expected --bench-drag N FILE with N a "
+                           "whole number from 1 to 100000\n");
+          return 2;
+        }
+      lw_application_set_bench_drag (app, (guint) n, argv[3]);
+      return g_application_run (G_APPLICATION (app), 1, argv);
+    }
   return g_application_run (G_APPLICATION (app), argc, argv);
 }

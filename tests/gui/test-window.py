@@ -71,14 +71,14 @@ def inner(app, schema_dir, artefacts):
             if proc.poll() is not None:
                 fail('loopwright exited early with status %d (see loopwright.log)'
                      % proc.returncode)
-            out = run('xdotool', 'search', '--onlyvisible', '--name', '^Loopwright$',
+            out = run('xdotool', 'search', '--onlyvisible', '--name', ' — Loopwright$',
                       check=False)
             if out:
                 wid = out.split()[0]
             else:
                 time.sleep(0.25)
         if wid is None:
-            fail('no window named Loopwright within 30 s')
+            fail('no window titled “… — Loopwright” within 30 s')
         time.sleep(2.0)   # let the first frame be drawn
 
         screen = os.path.join(artefacts, 'screen.png')

@@ -1,0 +1,276 @@
+#!/usr/bin/python3
+"""Editing in a real window (Xvfb): open an example design, drag the lead's zero corner on the
+w-plane Bode view with the pointer, save, and check through the saved document and
+`loopwright-cli analyze --json` that the corner moved by the ratio the pointer's travel means on
+the log axis and that the margins shown are those of the saved design; undo and check the
+document is restored byte for byte; open a broken document and check the error is shown and
+nothing is lost.
+
+Usage: test-edit.py LOOPWRIGHT LOOPWRIGHT_CLI SCHEMA_DIR EXAMPLE ARTEFACT_DIR
+Re-runs itself under `xvfb-run -a` (exit 77, skipped, when xvfb-run or xdotool is missing).
+The window prints its handle positions with LW_DEBUG_HANDLES=1 (src/gui/lw-plot-pane.h).
+Screenshots stay in ARTEFACT_DIR: edit-before.png, edit-dragged.png, edit-broken.png.
+"""
+import json
+import math
+import os
+import re
+import shutil
+import subprocess
+import sys
+import tempfile
+import time
+import xml.etree.ElementTree as ET
+
+SCREEN = '1600x1000x24'
+NS = '{urn:loopwright:design}'
+TARGET_RATIO = 2.5    # about how far the drag moves the zero (it must stay below the pole)
+
+
+def fail(msg):
+    print('FAIL: ' + msg, file=sys.stderr)
+    sys.exit(1)
+
+
+def run(*cmd, check=True):
+    return subprocess.run(cmd, check=check, capture_output=True, text=True).stdout.strip()
+
+
+def outer(argv):
+    for tool in ('xvfb-run', 'xdotool', 'import'):
+        if shutil.which(tool) is None:
+            print(tool + ' not found: skipped')
+            sys.exit(77)
+    env = dict(os.environ, LW_TEST_EDIT_INNER='1')
+    r = subprocess.run(['xvfb-run', '-a', '-s', '-screen 0 ' + SCREEN, sys.executable,
+                        os.path.abspath(__file__)] + argv, env=env)
+    sys.exit(r.returncode)
+
+
+def wait_for(pred, what, timeout=15.0):
+    deadline = time.monotonic() + timeout
+    while time.monotonic() < deadline:
+        v = pred()
+        if v:
+            return v
+        time.sleep(0.1)
+    fail('timed out waiting for ' + what)
+
+
+def find_window(name):
+    out = run('xdotool', 'search', '--onlyvisible', '--name', name, check=False)
+    return out.split()[0] if out else None
+
+
+def key(wid, keys):
+    run('xdotool', 'windowfocus', '--sync', wid, check=False)
+    run('xdotool', 'key', '--clearmodifiers', keys)
+
+
+def lead_corners(path):
+    root = ET.parse(path).getroot()
+    active = root.find(NS + 'variants').get('active')
+    for v in root.find(NS + 'variants'):
+        if v.get('name') == active:
+            lead = v.find(NS + 'lead')
+            return float(lead.get('zero_rad_s')), float(lead.get('pole_rad_s'))
+    fail('no lead in the active variant of ' + path)
+
+
+def analyze(cli, path):
+    return json.loads(run(cli, 'analyze', path, '--json'))['loop']
+
+
+class Log:
+    """The window's stdout: handle positions and the margins it shows."""
+
+    def __init__(self, path):
+        self.path = path
+
+    def lines(self):
+        with open(self.path, encoding='utf-8', errors='replace') as f:
+            return f.read().splitlines()
+
+    def last(self, prefix, **match):
+        for line in reversed(self.lines()):
+            if not line.startswith(prefix):
+                continue
+            fields = dict(kv.split('=', 1) for kv in line.split()[1:])
+            if all(fields.get(k) == str(v) for k, v in match.items()):
+                return fields
+        return None
+
+    def count(self, prefix):
+        return sum(1 for line in self.lines() if line.startswith(prefix))
+
+
+def saved_after(wid, path, keys='ctrl+s'):
+    before = os.stat(path).st_mtime_ns if os.path.exists(path) else 0
+    key(wid, keys)
+    wait_for(lambda: os.path.exists(path) and os.stat(path).st_mtime_ns != before,
+             'the document to be saved (' + keys + ')')
+    time.sleep(0.2)
+    with open(path, 'rb') as f:
+        return f.read()
+
+
+def inner(app, cli, schema_dir, example, artefacts):
+    os.makedirs(artefacts, exist_ok=True)
+    tmp = tempfile.mkdtemp(prefix='lw-test-edit-')
+    design = os.path.join(tmp, 'design.lwd')
+    shutil.copyfile(example, design)
+    os.utime(design, (time.time() + 5, time.time() + 5))   # newer than any autosave here
+    env = dict(os.environ, GTK_A11Y='none', GSK_RENDERER='cairo', GDK_DEBUG='gl-disable',
+               GSETTINGS_SCHEMA_DIR=schema_dir, GSETTINGS_BACKEND='memory', LANGUAGE='C',
+               LC_ALL='C.UTF-8', LW_DEBUG_HANDLES='1', XDG_STATE_HOME=os.path.join(tmp, 'state'),
+               XDG_DATA_HOME=os.path.join(tmp, 'data'), HOME=tmp)
+    env.pop('DBUS_SESSION_BUS_ADDRESS', None)
+    supp = os.path.join(os.path.dirname(os.path.abspath(__file__)), 'lsan.supp')
+    env['LSAN_OPTIONS'] = ':'.join(filter(None, [os.environ.get('LSAN_OPTIONS'),
+                                                 'suppressions=' + supp,
+                                                 'print_suppressions=0']))
+    log_path = os.path.join(artefacts, 'edit.log')
+    log_file = open(log_path, 'w')
+    log = Log(log_path)
+    proc = subprocess.Popen([app, design], env=env, stdout=log_file, stderr=subprocess.STDOUT)
+    try:
+        wid = wait_for(lambda: proc.poll() is None and find_window('^design.lwd — Loopwright$')
+                       or (proc.poll() is not None and fail('loopwright exited early (%d)'
+                                                            % proc.returncode)),
+                       'the window on design.lwd', 30)
+        wait_for(lambda: log.last('LW-HANDLE', view='bode-w', stage=1, corner=0),
+                 'the handles of the w-plane Bode view')
+        time.sleep(1.0)
+        run('import', '-window', 'root', os.path.join(artefacts, 'edit-before.png'))
+
+        # The canonical form of the document as opened, and its analysis.
+        doc_a = saved_after(wid, design)
+        z0, p0 = lead_corners(design)
+        loop0 = analyze(cli, design)
+
+        # Window position on the screen (no window manager: the X window is where GTK put it).
+        geo = run('xdotool', 'getwindowgeometry', wid)
+        m = re.search(r'Position: (-?\d+),(-?\d+)', geo)
+        wx, wy = int(m.group(1)), int(m.group(2))
+        panel = log.last('LW-PANEL', view='bode-w')
+        h = log.last('LW-HANDLE', view='bode-w', stage=1, corner=0)
+        hx, hy = wx + round(float(h['sx'])), wy + round(float(h['sy']))
+        print('lead zero handle at %d,%d (ν = %s rad/s)' % (hx, hy, h['x']))
+        # Pointer travel to the right, whole pixels, for about TARGET_RATIO on the log axis.
+        decades_px = float(panel['width']) / math.log(float(panel['xhi']) / float(panel['xlo']))
+        drag_px = max(5, round(decades_px * math.log(TARGET_RATIO)))
+
+        run('xdotool', 'mousemove', '--sync', str(hx), str(hy))
+        time.sleep(0.2)
+        run('xdotool', 'mousedown', '1')
+        for i in range(1, 11):
+            run('xdotool', 'mousemove', '--sync', str(hx + drag_px * i // 10), str(hy))
+            time.sleep(0.05)
+        time.sleep(0.3)
+        run('import', '-window', 'root', os.path.join(artefacts, 'edit-dragged.png'))
+        run('xdotool', 'mouseup', '1')
+        time.sleep(0.5)
+
+        doc_b = saved_after(wid, design)
+        z1, p1 = lead_corners(design)
+        # The log axis maps x pixels to ln ν linearly: ν ratio = (xhi/xlo)^(Δpx / width).
+        # Δpx is exact (whole pointer pixels); tolerance 0.2 %: the only other error is the
+        # pointer position's conversion in floating point, far below that.
+        expected = math.exp(drag_px / float(panel['width'])
+                            * math.log(float(panel['xhi']) / float(panel['xlo'])))
+        ratio = z1 / z0
+        print('lead zero %.6g -> %.6g rad/s: ratio %.6f, expected %.6f' % (z0, z1, ratio,
+                                                                          expected))
+        if abs(ratio / expected - 1) > 2e-3:
+            fail('the zero moved by %.6f, expected %.6f' % (ratio, expected))
+        if p1 != p0:
+            fail('a plain drag moved the pole too (%g -> %g)' % (p0, p1))
+
+        # Margins: the saved design's analysis differs from the original's, and the window
+        # shows the saved design's figures (same core, same options: equal to 1e-9 relative,
+        # the rounding of %.17g text both ways).
+        loop1 = analyze(cli, design)
+        shown = wait_for(lambda: log.last('LW-SHOWN'), 'the margins shown')
+        pm_shown = float(shown['phase_margin_deg'])
+        print('phase margin %.4f° -> %.4f° (shown %.4f°)' % (loop0['phase_margin_deg'],
+                                                               loop1['phase_margin_deg'],
+                                                               pm_shown))
+        if abs(loop1['phase_margin_deg'] - loop0['phase_margin_deg']) < 0.1:
+            fail('the drag did not change the phase margin')
+        if abs(pm_shown - loop1['phase_margin_deg']) > 1e-9 * abs(loop1['phase_margin_deg']):
+            fail('the window shows a phase margin of %.12g°, the saved design has %.12g°'
+                 % (pm_shown, loop1['phase_margin_deg']))
+        if abs(float(shown['gain_margin_db']) - loop1['gain_margin_db']) > 1e-9 * abs(
+                loop1['gain_margin_db']):
+            fail('the gain margin shown differs from the saved design\'s')
+
+        # Undo restores the document byte for byte.
+        key(wid, 'ctrl+z')
+        time.sleep(0.5)
+        doc_c = saved_after(wid, design)
+        if doc_c != doc_a:
+            fail('after undo the saved document differs from the one before the drag')
+        if doc_b == doc_a:
+            fail('the drag did not change the document')
+
+        # A broken document: the error names the file and line, and nothing is lost.
+        broken = os.path.join(tmp, 'broken.lwd')
+        with open(design, encoding='utf-8') as f:
+            lines = f.read().splitlines(True)
+        bad_line = next(i for i, l in enumerate(lines) if '<lead ' in l)
+        lines[bad_line] = re.sub(r'zero_rad_s="[^"]*"', 'zero_rad_s="fast"', lines[bad_line])
+        with open(broken, 'w', encoding='utf-8') as f:
+            f.writelines(lines)
+        key(wid, 'ctrl+o')
+        chooser = wait_for(lambda: find_window('^Open Design$'), 'the file chooser')
+        key(chooser, 'ctrl+l')
+        time.sleep(0.3)
+        run('xdotool', 'type', '--delay', '20', broken)
+        time.sleep(0.3)
+        run('xdotool', 'key', 'Return')
+        dialog = wait_for(lambda: find_window('^Could not open'), 'the error dialog')
+        time.sleep(0.5)
+        run('import', '-window', 'root', os.path.join(artefacts, 'edit-broken.png'))
+        where = 'broken.lwd:%d:' % (bad_line + 1)
+        if not any(where in l for l in log.lines()):
+            fail('the error does not name %s (see edit.log)' % where)
+        key(dialog, 'Return')
+        wait_for(lambda: not find_window('^Could not open'), 'the error dialog to close')
+        if not find_window('^design.lwd — Loopwright$'):
+            fail('the window no longer shows design.lwd after the failed open')
+        others = run('xdotool', 'search', '--onlyvisible', '--name', ' — Loopwright$',
+                     check=False).split()
+        if len(others) != 1:
+            fail('%d windows after the failed open, expected the one there was' % len(others))
+        doc_d = saved_after(wid, design)
+        if doc_d != doc_a:
+            fail('the design changed after a failed open')
+
+        key(wid, 'ctrl+q')
+        try:
+            status = proc.wait(timeout=15)
+        except subprocess.TimeoutExpired:
+            fail('loopwright did not quit within 15 s of Ctrl+Q')
+        if status != 0:
+            fail('loopwright exited with status %d' % status)
+    finally:
+        if proc.poll() is None:
+            proc.kill()
+            proc.wait()
+        log_file.close()
+        shutil.rmtree(tmp, ignore_errors=True)
+    print('ok: drag moved the lead zero by the expected ratio, margins follow, undo exact, '
+          'broken document refused without loss')
+
+
+def main():
+    if len(sys.argv) != 6:
+        print(__doc__, file=sys.stderr)
+        sys.exit(2)
+    if os.environ.get('LW_TEST_EDIT_INNER') != '1':
+        outer(sys.argv[1:])
+    inner(*sys.argv[1:])
+
+
+if __name__ == '__main__':
+    main()
