@@ -12,6 +12,25 @@
 #include "lw-expr.h"
 
 int
+lw_cli_doc_one_file (const char *cmd, char **files, const char **path)
+{
+  if (files == NULL || files[0] == NULL)
+    {
+      lw_cli_bad_input (cmd, "a design document is required (see '" LW_CLI_PROG " %s --help')",
+                        cmd);
+      return LW_EXIT_BAD_INPUT;
+    }
+  if (files[1] != NULL)
+    {
+      lw_cli_bad_input (cmd, "unexpected argument '%s': one design document at a time",
+                        files[1]);
+      return LW_EXIT_BAD_INPUT;
+    }
+  *path = files[0];
+  return LW_EXIT_OK;
+}
+
+int
 lw_cli_doc_load (const char *path, LwDesign **out)
 {
   GError *error = NULL;

@@ -22,6 +22,11 @@ G_BEGIN_DECLS
  * not canonical (docs/cli.md). */
 #define LW_EXIT_CHECK_FAILED 3
 
+/* The one design document among the remaining arguments of command `cmd` (files, from
+ * G_OPTION_REMAINING; may be NULL): *path on success, else a message and LW_EXIT_BAD_INPUT
+ * (none given, or more than one). */
+int lw_cli_doc_one_file (const char *cmd, char **files, const char **path);
+
 /* Loads path; on failure prints "loopwright-cli: MESSAGE" (the message names the file and the
  * line) and returns LW_EXIT_BAD_INPUT. */
 int lw_cli_doc_load (const char *path, LwDesign **out);

@@ -92,24 +92,14 @@ static int
 check_run (void *data)
 {
   const CheckArgs *a = data;
-  if (a->files == NULL || a->files[0] == NULL)
-    {
-      lw_cli_bad_input ("check", "a design document is required (see '" LW_CLI_PROG
-                        " check --help')");
-      return LW_EXIT_BAD_INPUT;
-    }
-  if (a->files[1] != NULL)
-    {
-      lw_cli_bad_input ("check", "unexpected argument '%s': one design document at a time",
-                        a->files[1]);
-      return LW_EXIT_BAD_INPUT;
-    }
+  const char *path = NULL;
+  if (lw_cli_doc_one_file ("check", a->files, &path) != LW_EXIT_OK)
+    return LW_EXIT_BAD_INPUT;
   if (a->all && a->variant != NULL)
     {
       lw_cli_bad_input ("--all-variants", "cannot be combined with --variant; give one of them");
       return LW_EXIT_BAD_INPUT;
     }
-  const char *path = a->files[0];
   g_autoptr (LwDesign) d = NULL;
   int status = lw_cli_doc_load (path, &d);
   if (status != LW_EXIT_OK)

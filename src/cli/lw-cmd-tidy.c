@@ -40,24 +40,14 @@ static int
 tidy_run (void *data)
 {
   const TidyArgs *a = data;
-  if (a->files == NULL || a->files[0] == NULL)
-    {
-      lw_cli_bad_input ("tidy", "a design document is required (see '" LW_CLI_PROG
-                        " tidy --help')");
-      return LW_EXIT_BAD_INPUT;
-    }
-  if (a->files[1] != NULL)
-    {
-      lw_cli_bad_input ("tidy", "unexpected argument '%s': one design document at a time",
-                        a->files[1]);
-      return LW_EXIT_BAD_INPUT;
-    }
+  const char *path = NULL;
+  if (lw_cli_doc_one_file ("tidy", a->files, &path) != LW_EXIT_OK)
+    return LW_EXIT_BAD_INPUT;
   if (a->check && a->out != NULL)
     {
       lw_cli_bad_input ("--check", "cannot be combined with --out; --check writes nothing");
       return LW_EXIT_BAD_INPUT;
     }
-  const char *path = a->files[0];
   g_autoptr (LwDesign) d = NULL;
   int status = lw_cli_doc_load (path, &d);
   if (status != LW_EXIT_OK)

@@ -200,7 +200,18 @@ next_element (Reader *r, const xmlNode *parent, const xmlNode *n)
   for (; n != NULL; n = n->next)
     {
       if (n->type == XML_ELEMENT_NODE)
-        return n;
+        {
+          const char *href = n->ns != NULL ? (const char *) n->ns->href : NULL;
+          if (href == NULL || strcmp (href, LW_DESIGN_NAMESPACE) != 0)
+            {
+              fail (r, n, LW_DESIGN_ERROR_SCHEMA, ": is in %s%s%s; every element of a design "
+                    "document is in the namespace '%s'", href != NULL ? "the namespace '" : "no "
+                    "namespace", href != NULL ? href : "", href != NULL ? "'" : "",
+                    LW_DESIGN_NAMESPACE);
+              return NULL;
+            }
+          return n;
+        }
       if ((n->type == XML_TEXT_NODE || n->type == XML_CDATA_SECTION_NODE)
           && !is_blank (n->content))
         {
