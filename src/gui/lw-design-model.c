@@ -378,7 +378,14 @@ sampled_plant (LwDesignModel *self, const LwZpk *plant_s, LwError *err)
 LwLoopEval *
 lw_design_model_evaluate (LwDesignModel *self)
 {
+  return lw_design_model_evaluate_points (self, 0);
+}
+
+LwLoopEval *
+lw_design_model_evaluate_points (LwDesignModel *self, size_t n_points)
+{
   g_return_val_if_fail (LW_IS_DESIGN_MODEL (self), NULL);
+  g_return_val_if_fail (n_points == 0 || n_points >= 16, NULL);
 
   LwLoopEval *e = g_rc_box_new0 (LwLoopEval);
   lw_error_clear (&e->error);
@@ -403,6 +410,8 @@ lw_design_model_evaluate (LwDesignModel *self)
   LwAnalysisOptions opts;
   lw_analysis_options_init (&opts);
   opts.compute_delay = d->compute_delay;
+  if (n_points > 0)
+    opts.n_points = n_points;
   LwStatus st = lw_evaluate (plant, controller_z, &opts, &e->ev, &e->error);
   lw_zpk_free (controller_z);
   if (st != LW_OK)

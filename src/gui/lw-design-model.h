@@ -107,6 +107,11 @@ typedef struct
  * while plant, dead time and period are unchanged, so a compensator edit costs one loop
  * evaluation. Never NULL. */
 LwLoopEval *lw_design_model_evaluate (LwDesignModel *self);
+/* The same on a grid of n_points frequency points up to π/T (>= 16) instead of the default
+ * 2000 of lw_analysis_options_init: the window's draft evaluation during a drag, with about
+ * as many points as the plots have pixels across. Crossovers and margins are refined to full
+ * precision either way; only the drawn curves are coarser. */
+LwLoopEval *lw_design_model_evaluate_points (LwDesignModel *self, size_t n_points);
 LwLoopEval *lw_loop_eval_ref (LwLoopEval *e);
 void lw_loop_eval_unref (LwLoopEval *e);
 G_DEFINE_AUTOPTR_CLEANUP_FUNC (LwLoopEval, lw_loop_eval_unref)

@@ -35,9 +35,9 @@ gboolean lw_window_restore_autosave (LwWindow *self, const char *path, GFile *so
 
 /* Benchmark: once the window is shown, drags the first corner of the first stage that has one
  * through n_frames frames on the frame clock, then prints one line
- *   drag frames: N, paint median X ms, p95 Y ms; whole frame median A ms, p95 B ms
- * (paint: before-paint to after-paint of the GdkFrameClock; whole frame: the start of the
- * update phase to after-paint) and quits the application. */
+ *   drag frames: N, paint median X ms, p95 Y ms
+ * and quits the application.  Paint: "before-paint" to "after-paint" of the GdkFrameClock,
+ * which spans the update phase (the drag step and the evaluation), layout and paint. */
 void lw_window_start_bench_drag (LwWindow *self, guint n_frames);
 
 G_END_DECLS
