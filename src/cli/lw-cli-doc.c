@@ -247,3 +247,60 @@ lw_cli_doc_print_requirements (const LwDesign *d, const LwReqResult *res)
       printf ("\n");
     }
 }
+
+int
+lw_cli_doc_refuse_loop_options (const char *cmd, const char *file, const LwCliLoopArgs *a)
+{
+  const char *given[] = { a->plant, a->period, a->compute_delay, a->dead_time, a->controller,
+                          a->controller_z };
+  const char *names[] = { "--plant", "--period", "--compute-delay", "--dead-time",
+                          "--controller", "--controller-z" };
+  for (size_t i = 0; i < G_N_ELEMENTS (given); i++)
+    if (given[i] != NULL)
+      {
+        lw_cli_bad_input (cmd, "unexpected argument '%s' (see '" LW_CLI_PROG " %s --help'): a "
+                          "design document cannot be combined with %s", file, cmd, names[i]);
+        return LW_EXIT_BAD_INPUT;
+      }
+  return LW_EXIT_OK;
+}
+
+int
+lw_cli_doc_select (const LwDesign *d, const char *name, bool all, const char *all_option,
+                   size_t **indices, size_t *n)
+{
+  *indices = NULL;
+  *n = 0;
+  if (all && name != NULL)
+    {
+      lw_cli_bad_input (all_option, "cannot be combined with --variant; give one of them");
+      return LW_EXIT_BAD_INPUT;
+    }
+  if (all)
+    {
+      *indices = g_new (size_t, d->n_variants);
+      for (size_t i = 0; i < d->n_variants; i++)
+        (*indices)[i] = i;
+      *n = d->n_variants;
+      return LW_EXIT_OK;
+    }
+  size_t index;
+  int status = lw_cli_doc_variant (d, "--variant", name, &index);
+  if (status != LW_EXIT_OK)
+    return status;
+  *indices = g_new (size_t, 1);
+  (*indices)[0] = index;
+  *n = 1;
+  return LW_EXIT_OK;
+}
+
+void
+lw_cli_doc_loop_args (const LwDesign *d, LwCliLoopArgs *out)
+{
+  char buf[G_ASCII_DTOSTR_BUF_SIZE];
+  memset (out, 0, sizeof *out);
+  out->plant = g_strdup (d->plant);
+  out->period = g_strdup (lw_design_format_number (d->period_s, buf));
+  out->dead_time = g_strdup (lw_design_format_number (d->dead_time_s, buf));
+  out->compute_delay = g_strdup_printf ("%d", d->compute_delay);
+}

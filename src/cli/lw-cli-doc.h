@@ -58,4 +58,22 @@ void lw_cli_doc_print_requirements (const LwDesign *d, const LwReqResult *res);
 /* "at least 45 deg", "from 20 to 60 rad/s" …; g_free the result. */
 char *lw_cli_doc_target_text (const LwRequirement *r);
 
+/* With a design document (file) the loop options are refused: prints "unexpected argument
+ * FILE … cannot be combined with --OPTION" naming the first one given and returns
+ * LW_EXIT_BAD_INPUT; LW_EXIT_OK when none is given. */
+int lw_cli_doc_refuse_loop_options (const char *cmd, const char *file, const LwCliLoopArgs *a);
+
+/* The variants a command works on: --variant NAME (one), --all-variants (every one, in the
+ * document's order) or, with neither, the active one. `all_option` names the option in the
+ * message when both are given. *indices is new (g_free), *n >= 1. Returns LW_EXIT_OK or
+ * LW_EXIT_BAD_INPUT after printing the message. */
+int lw_cli_doc_select (const LwDesign *d, const char *name, bool all, const char *all_option,
+                       size_t **indices, size_t *n);
+
+/* The loop options as text that lw_cli_loop_build reads back to the very loop of the
+ * document (numbers in their shortest round-trip form), for commands that rebuild a loop with
+ * another controller. Strings are new; free with lw_cli_loop_args_clear. */
+void lw_cli_doc_loop_args (const LwDesign *d, LwCliLoopArgs *out);
+G_DEFINE_AUTO_CLEANUP_CLEAR_FUNC (LwCliLoopArgs, lw_cli_loop_args_clear)
+
 G_END_DECLS

@@ -223,7 +223,7 @@ print_report (const LwZpk *plant_s, double dead_time_s, const LwEvaluation *ev,
 
 static const char analyze_help[] =
   "Usage: " LW_CLI_PROG " analyze --plant EXPR --period SECONDS [options]\n"
-  "       " LW_CLI_PROG " analyze FILE.lwd [--variant NAME] [options]\n"
+  "       " LW_CLI_PROG " analyze FILE.lwd [--variant NAME | --all-variants] [options]\n"
   "\n"
   "Discretizes a continuous plant with a zero-order hold, closes the loop through a\n"
   "controller and reports crossovers, margins, closed-loop poles, the step response and\n"
@@ -236,6 +236,8 @@ static const char analyze_help[] =
   "\n"
   "Options:\n"
   "  --variant NAME           the variant of FILE.lwd to analyze (default: the active one)\n"
+  "  --all-variants           analyze every variant of FILE.lwd in turn; with --json one\n"
+  "                           object {\"variants\": [...]}, each entry with its \"name\"\n"
   "  --plant EXPR             plant P(s), a proper rational expression in s (required)\n"
   "  --period SECONDS         sample period T in seconds, > 0 (required)\n"
   "  --compute-delay N        computation delay in whole samples, 0 to 1000 (default 1)\n"
@@ -266,6 +268,7 @@ typedef struct
   char *saturation;
   char *substeps;
   gboolean anti_windup;
+  gboolean all;
   gboolean json;
   gboolean help;
 } AnalyzeArgs;
@@ -294,145 +297,95 @@ parse_saturation (const char *text, double *low, double *high)
   return true;
 }
 
-/* The loop from a design document (a->files[0]) or from the loop options. */
-static int
-analyze_loop (const AnalyzeArgs *a, LwCliLoop *lp, LwDesign **design)
+/* The checked options of the run, shared by every variant. */
+typedef struct
 {
-  *design = NULL;
-  if (a->files == NULL || a->files[0] == NULL)
-    {
-      if (a->variant != NULL)
-        {
-          lw_cli_bad_input ("--variant", "needs a design document (FILE.lwd) to pick from");
-          return LW_EXIT_BAD_INPUT;
-        }
-      return lw_cli_loop_build ("analyze", &a->loop, lp);
-    }
-  memset (lp, 0, sizeof *lp);
-  if (a->files[1] != NULL)
-    {
-      lw_cli_bad_input ("analyze", "unexpected argument '%s': one design document at a time",
-                        a->files[1]);
-      return LW_EXIT_BAD_INPUT;
-    }
-  const char *given[] = { a->loop.plant, a->loop.period, a->loop.compute_delay,
-                          a->loop.dead_time, a->loop.controller, a->loop.controller_z };
-  const char *names[] = { "--plant", "--period", "--compute-delay", "--dead-time",
-                          "--controller", "--controller-z" };
-  for (size_t i = 0; i < G_N_ELEMENTS (given); i++)
-    if (given[i] != NULL)
-      {
-        lw_cli_bad_input ("analyze", "unexpected argument '%s' (see '" LW_CLI_PROG " analyze "
-                          "--help'): a design document cannot be combined with %s",
-                          a->files[0], names[i]);
-        return LW_EXIT_BAD_INPUT;
-      }
-  int status = lw_cli_doc_load (a->files[0], design);
-  size_t index = 0;
-  if (status == LW_EXIT_OK)
-    status = lw_cli_doc_variant (*design, "--variant", a->variant, &index);
-  if (status == LW_EXIT_OK)
-    status = lw_cli_doc_loop_build (a->files[0], *design, index, lp);
-  if (status != LW_EXIT_OK)
-    {
-      lw_design_free (*design);
-      *design = NULL;
-      return status;
-    }
-  /* Remember the variant for the report: the design's active index is set to it. */
-  (*design)->active = index;
-  return LW_EXIT_OK;
-}
+  LwAnalysisOptions opts;
+  LwSimOptions so;
+} AnalyzeSpec;
 
 static int
-analyze_run (void *data)
+analyze_spec (const AnalyzeArgs *a, AnalyzeSpec *sp)
 {
-  const AnalyzeArgs *a = data;
-  LwCliLoop lp;
-  LwDesign *design = NULL;
-  LwReqResult *req = NULL;
-  int status = analyze_loop (a, &lp, &design);
-  if (status != LW_EXIT_OK)
-    return status;
-  LwAnalysisOptions opts;
-  lw_analysis_options_init (&opts);
-  opts.compute_delay = lp.compute_delay;
   gint64 v;
-  LwEvaluation *ev = NULL;
-  LwSimPlan *plan = NULL;
-  LwSimResponse *sim_ref = NULL, *sim_in = NULL, *sim_out = NULL;
-  LwError err;
-  lw_error_clear (&err);
+  lw_analysis_options_init (&sp->opts);
+  lw_sim_options_init (&sp->so);
   if (a->points != NULL)
     {
       if (!lw_cli_parse_integer ("--points", a->points, 16, 1000000, &v))
-        {
-          status = LW_EXIT_BAD_INPUT;
-          goto out;
-        }
-      opts.n_points = (size_t) v;
+        return LW_EXIT_BAD_INPUT;
+      sp->opts.n_points = (size_t) v;
     }
   if (a->steps != NULL)
     {
       if (!lw_cli_parse_integer ("--steps", a->steps, 2, 10000000, &v))
-        {
-          status = LW_EXIT_BAD_INPUT;
-          goto out;
-        }
-      opts.n_steps = (size_t) v;
+        return LW_EXIT_BAD_INPUT;
+      sp->opts.n_steps = (size_t) v;
     }
-  LwSimOptions so;
-  lw_sim_options_init (&so);
-  so.compute_delay = lp.compute_delay;
-  so.n_steps = opts.n_steps;
+  sp->so.n_steps = sp->opts.n_steps;
   if (a->saturation != NULL)
     {
-      if (!parse_saturation (a->saturation, &so.u_low, &so.u_high))
-        {
-          status = LW_EXIT_BAD_INPUT;
-          goto out;
-        }
-      so.has_limits = true;
+      if (!parse_saturation (a->saturation, &sp->so.u_low, &sp->so.u_high))
+        return LW_EXIT_BAD_INPUT;
+      sp->so.has_limits = true;
     }
   if (a->anti_windup)
     {
-      if (!so.has_limits)
+      if (!sp->so.has_limits)
         {
           lw_cli_bad_input ("--anti-windup", "needs --saturation LOW:HIGH (clamping acts only "
                             "while the controller output is limited)");
-          status = LW_EXIT_BAD_INPUT;
-          goto out;
+          return LW_EXIT_BAD_INPUT;
         }
-      so.anti_windup = true;
+      sp->so.anti_windup = true;
     }
   if (a->substeps != NULL)
     {
       if (!lw_cli_parse_integer ("--substeps", a->substeps, 0, 1000, &v))
-        {
-          status = LW_EXIT_BAD_INPUT;
-          goto out;
-        }
-      so.substeps = (size_t) v;
+        return LW_EXIT_BAD_INPUT;
+      sp->so.substeps = (size_t) v;
     }
-  if (so.substeps > 0 && (double) (so.n_steps - 1) * (double) so.substeps > 1e7)
+  if (sp->so.substeps > 0 && (double) (sp->so.n_steps - 1) * (double) sp->so.substeps > 1e7)
     {
       lw_cli_bad_input ("--substeps", "%zu sub-steps for %zu samples make more than 1e7 "
                         "continuous points; use fewer (or 0) with this many --steps",
-                        so.substeps, so.n_steps);
-      status = LW_EXIT_BAD_INPUT;
-      goto out;
+                        sp->so.substeps, sp->so.n_steps);
+      return LW_EXIT_BAD_INPUT;
     }
-  if (lw_evaluate (lp.sampled, lp.controller_z, &opts, &ev, &err) != LW_OK)
+  return LW_EXIT_OK;
+}
+
+/* Analyzes one loop: prints the text report, or (json) returns the JSON object in *json.
+ * design/index: the document and variant the loop is from (design NULL: inline options). */
+static int
+analyze_loop_run (const AnalyzeArgs *a, const AnalyzeSpec *spec, const LwCliLoop *lp,
+                  const LwDesign *design, size_t index, JsonNode **json)
+{
+  LwAnalysisOptions opts = spec->opts;
+  LwSimOptions so = spec->so;
+  opts.compute_delay = lp->compute_delay;
+  so.compute_delay = lp->compute_delay;
+  int status = LW_EXIT_OK;
+  LwEvaluation *ev = NULL;
+  LwSimPlan *plan = NULL;
+  LwSimResponse *sim_ref = NULL, *sim_in = NULL, *sim_out = NULL;
+  LwReqResult *req = NULL;
+  LwError err;
+  lw_error_clear (&err);
+  g_autofree char *place = design != NULL
+    ? g_strdup_printf ("%s: variant '%s'", a->files[0], design->variants[index].name)
+    : g_strdup ("analyze");
+  if (lw_evaluate (lp->sampled, lp->controller_z, &opts, &ev, &err) != LW_OK)
     {
-      status = lw_cli_report_core_error ("analyze", &err);
+      status = lw_cli_report_core_error (place, &err);
       goto out;
     }
-  if (lw_sim_plan_new (lp.sampled, lp.controller_z, &so, &plan, &err) != LW_OK
+  if (lw_sim_plan_new (lp->sampled, lp->controller_z, &so, &plan, &err) != LW_OK
       || lw_sim_run (plan, LW_SIM_REFERENCE_STEP, 1.0, &sim_ref, &err) != LW_OK
       || lw_sim_run (plan, LW_SIM_INPUT_DISTURBANCE_STEP, 1.0, &sim_in, &err) != LW_OK
       || lw_sim_run (plan, LW_SIM_OUTPUT_DISTURBANCE_STEP, 1.0, &sim_out, &err) != LW_OK)
     {
-      status = lw_cli_report_core_error ("analyze", &err);
+      status = lw_cli_report_core_error (place, &err);
       goto out;
     }
   /* With limits the step is the limited loop's, its figures measured against the linear
@@ -447,7 +400,7 @@ analyze_run (void *data)
   if (design != NULL)
     {
       req = g_new0 (LwReqResult, design->n_requirements + 1);
-      if (lw_cli_doc_requirements (design, ev, lp.plant_s, sim_ref, req) < 0)
+      if (lw_cli_doc_requirements (design, ev, lp->plant_s, sim_ref, req) < 0)
         {
           status = LW_EXIT_INTERNAL;
           goto out;
@@ -465,17 +418,14 @@ analyze_run (void *data)
                                   json_builder_get_root (b));
           g_object_unref (b);
         }
-      char *text = lw_cli_json_to_text (root);
-      fputs (text, stdout);
-      g_free (text);
-      json_node_unref (root);
+      *json = root;
     }
   else
     {
       if (design != NULL)
         printf ("Design '%s' (%s), variant '%s'\n\n", design->title, a->files[0],
-                design->variants[design->active].name);
-      print_report (lp.plant_s, lp.dead_time_s, ev, &step, &so, sim_ref, sim_in, sim_out);
+                design->variants[index].name);
+      print_report (lp->plant_s, lp->dead_time_s, ev, &step, &so, sim_ref, sim_in, sim_out);
       if (design != NULL)
         {
           printf ("\nRequirements of the design\n");
@@ -488,9 +438,112 @@ out:
   lw_sim_response_free (sim_out);
   lw_sim_plan_free (plan);
   lw_evaluation_free (ev);
-  lw_cli_loop_clear (&lp);
   g_free (req);
-  lw_design_free (design);
+  return status;
+}
+
+static void
+print_json (JsonNode *root)
+{
+  char *text = lw_cli_json_to_text (root);
+  fputs (text, stdout);
+  g_free (text);
+}
+
+static int
+analyze_run (void *data)
+{
+  const AnalyzeArgs *a = data;
+  AnalyzeSpec spec;
+  LwCliLoop lp;
+  if (a->files == NULL || a->files[0] == NULL)
+    {
+      if (a->variant != NULL || a->all)
+        {
+          lw_cli_bad_input (a->all ? "--all-variants" : "--variant",
+                            "needs a design document (FILE.lwd) to pick from");
+          return LW_EXIT_BAD_INPUT;
+        }
+      int status = lw_cli_loop_build ("analyze", &a->loop, &lp);
+      if (status != LW_EXIT_OK)
+        return status;
+      status = analyze_spec (a, &spec);
+      JsonNode *root = NULL;
+      if (status == LW_EXIT_OK)
+        status = analyze_loop_run (a, &spec, &lp, NULL, 0, &root);
+      if (root != NULL)
+        {
+          print_json (root);
+          json_node_unref (root);
+        }
+      lw_cli_loop_clear (&lp);
+      return status;
+    }
+
+  if (a->files[1] != NULL)
+    {
+      lw_cli_bad_input ("analyze", "unexpected argument '%s': one design document at a time",
+                        a->files[1]);
+      return LW_EXIT_BAD_INPUT;
+    }
+  int status = lw_cli_doc_refuse_loop_options ("analyze", a->files[0], &a->loop);
+  if (status != LW_EXIT_OK)
+    return status;
+  g_autoptr (LwDesign) design = NULL;
+  status = lw_cli_doc_load (a->files[0], &design);
+  if (status != LW_EXIT_OK)
+    return status;
+  g_autofree size_t *which = NULL;
+  size_t n = 0;
+  status = lw_cli_doc_select (design, a->variant, a->all, "--all-variants", &which, &n);
+  if (status != LW_EXIT_OK)
+    return status;
+  status = analyze_spec (a, &spec);
+  if (status != LW_EXIT_OK)
+    return status;
+  JsonBuilder *b = NULL;
+  if (a->json && a->all)
+    {
+      b = json_builder_new ();
+      json_builder_begin_object (b);
+      json_builder_set_member_name (b, "variants");
+      json_builder_begin_array (b);
+    }
+  for (size_t k = 0; k < n && status == LW_EXIT_OK; k++)
+    {
+      status = lw_cli_doc_loop_build (a->files[0], design, which[k], &lp);
+      if (status != LW_EXIT_OK)
+        break;
+      if (!a->json && k > 0)
+        printf ("\n\n");
+      JsonNode *root = NULL;
+      status = analyze_loop_run (a, &spec, &lp, design, which[k], &root);
+      lw_cli_loop_clear (&lp);
+      if (root == NULL)
+        continue;
+      if (b != NULL)
+        {
+          /* each entry: the analyze keys plus the variant's name */
+          json_object_set_string_member (json_node_get_object (root), "name",
+                                         design->variants[which[k]].name);
+          json_builder_add_value (b, root);
+        }
+      else
+        {
+          print_json (root);
+          json_node_unref (root);
+        }
+    }
+  if (b != NULL)
+    {
+      json_builder_end_array (b);
+      json_builder_end_object (b);
+      JsonNode *all = json_builder_get_root (b);
+      if (status == LW_EXIT_OK)
+        print_json (all);
+      json_node_unref (all);
+      g_object_unref (b);
+    }
   return status;
 }
 
@@ -508,6 +561,7 @@ lw_cmd_analyze (int argc, char **argv)
     { "json", 0, 0, G_OPTION_ARG_NONE, &a.json, NULL, NULL },
     { "help", 'h', 0, G_OPTION_ARG_NONE, &a.help, NULL, NULL },
     { "variant", 0, 0, G_OPTION_ARG_STRING, &a.variant, NULL, NULL },
+    { "all-variants", 0, 0, G_OPTION_ARG_NONE, &a.all, NULL, NULL },
     { G_OPTION_REMAINING, 0, 0, G_OPTION_ARG_FILENAME_ARRAY, &a.files, NULL, NULL },
     { NULL, 0, 0, 0, NULL, NULL, NULL }
   };

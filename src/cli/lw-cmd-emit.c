@@ -11,6 +11,7 @@
 
 #include "lw-cli-commands.h"
 #include "lw-cli-common.h"
+#include "lw-cli-doc.h"
 #include "lw-cli-json.h"
 #include "lw-emit-c.h"
 #include "lw-implement.h"
@@ -18,6 +19,12 @@
 static const char emit_help[] =
   "Usage: " LW_CLI_PROG " emit --plant EXPR --period SECONDS --controller EXPR\n"
   "       --form difference|sections --out DIR [options]\n"
+  "       " LW_CLI_PROG " emit FILE.lwd [--variant NAME] --form difference|sections --out DIR\n"
+  "       [options]\n"
+  "\n"
+  "Given a design document (FILE.lwd), the loop and the controller (the stages of the\n"
+  "active variant, or of --variant NAME) come from it; the loop options are then not\n"
+  "accepted.\n"
   "\n"
   "Writes the controller as C99 code: DIR/<prefix>controller.h and DIR/<prefix>controller.c,\n"
   "with a state struct, an init and a step function, the design's figures and a self-test.\n"
@@ -31,6 +38,7 @@ static const char emit_help[] =
   "  --dead-time SECONDS      plant input dead time in seconds, >= 0 (default 0)\n"
   "  --controller EXPR        controller C(w), proper, in the w-plane variable w (default 1)\n"
   "  --controller-z EXPR      controller C(z), proper, in z (instead of --controller)\n"
+  "  --variant NAME           the variant of FILE.lwd (default: the active one)\n"
   "  --lang c                 language of the code (only c; the default)\n"
   "  --form FORM              difference (one difference equation) or sections (cascaded\n"
   "                           second-order sections) (required)\n"
@@ -53,9 +61,46 @@ typedef struct
   char *fixed;
   char *prefix;
   char *out;
+  char **files;
+  char *variant;
   gboolean json;
   gboolean help;
 } EmitArgs;
+
+/* The loop from a design document (a->files) or from the loop options; *ctl_place names the
+ * controller in messages (g_free). */
+static int
+emit_loop (const EmitArgs *a, LwCliLoop *lp, char **ctl_place)
+{
+  memset (lp, 0, sizeof *lp);
+  *ctl_place = NULL;
+  if (a->files == NULL || a->files[0] == NULL)
+    {
+      if (a->variant != NULL)
+        {
+          lw_cli_bad_input ("--variant", "needs a design document (FILE.lwd) to pick from");
+          return LW_EXIT_BAD_INPUT;
+        }
+      *ctl_place = g_strdup (a->loop.controller_z != NULL ? "--controller-z" : "--controller");
+      return lw_cli_loop_build ("emit", &a->loop, lp);
+    }
+  const char *path = NULL;
+  int status = lw_cli_doc_one_file ("emit", a->files, &path);
+  if (status == LW_EXIT_OK)
+    status = lw_cli_doc_refuse_loop_options ("emit", path, &a->loop);
+  if (status != LW_EXIT_OK)
+    return status;
+  g_autoptr (LwDesign) d = NULL;
+  size_t index = 0;
+  status = lw_cli_doc_load (path, &d);
+  if (status == LW_EXIT_OK)
+    status = lw_cli_doc_variant (d, "--variant", a->variant, &index);
+  if (status == LW_EXIT_OK)
+    status = lw_cli_doc_loop_build (path, d, index, lp);
+  if (status == LW_EXIT_OK)
+    *ctl_place = g_strdup_printf ("%s: variant '%s'", path, d->variants[index].name);
+  return status;
+}
 
 /* ---- warnings --------------------------------------------------------------------------- */
 
@@ -427,7 +472,8 @@ emit_run (void *data)
     }
 
   LwCliLoop lp;
-  int status = lw_cli_loop_build ("emit", &a->loop, &lp);
+  g_autofree char *ctl_opt = NULL;
+  int status = emit_loop (a, &lp, &ctl_opt);
   if (status != LW_EXIT_OK)
     return status;
 
@@ -440,7 +486,6 @@ emit_run (void *data)
   lw_text_init (&hdr);
   lw_text_init (&src);
   char *hpath = NULL, *cpath = NULL;
-  const char *ctl_opt = a->loop.controller_z != NULL ? "--controller-z" : "--controller";
 
   if (lw_diffeq_from_zpk (lp.controller_z, &de, &err) != LW_OK
       || lw_sos_from_zpk (lp.controller_z, &sos, &err) != LW_OK)
@@ -545,7 +590,9 @@ lw_cmd_emit (int argc, char **argv)
     { "prefix", 0, 0, G_OPTION_ARG_STRING, &a.prefix, NULL, NULL },
     { "out", 0, 0, G_OPTION_ARG_STRING, &a.out, NULL, NULL },
     { "json", 0, 0, G_OPTION_ARG_NONE, &a.json, NULL, NULL },
+    { "variant", 0, 0, G_OPTION_ARG_STRING, &a.variant, NULL, NULL },
     { "help", 'h', 0, G_OPTION_ARG_NONE, &a.help, NULL, NULL },
+    { G_OPTION_REMAINING, 0, 0, G_OPTION_ARG_FILENAME_ARRAY, &a.files, NULL, NULL },
     { NULL, 0, 0, 0, NULL, NULL, NULL }
   };
   int status = lw_cli_run_command ("emit", argc, argv, entries, &a.help, emit_help, emit_run,
@@ -556,5 +603,7 @@ lw_cmd_emit (int argc, char **argv)
   g_free (a.fixed);
   g_free (a.prefix);
   g_free (a.out);
+  g_strfreev (a.files);
+  g_free (a.variant);
   return status;
 }

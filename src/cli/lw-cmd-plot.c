@@ -1,9 +1,9 @@
 /* lw-cmd-plot.c — `loopwright-cli plot`: one view of a sampled loop given on the command line,
  * written as PNG, SVG or PDF by the shared figure renderer (src/plot/).
  *
- * The work is split so a design document can feed it later: plot_options_check() turns the
- * figure options into a PlotSpec, and plot_write() draws any list of evaluated variants with
- * it; only plot_run() knows that the loop came from inline options.
+ * plot_options_check() turns the figure options into a PlotSpec, and plot_write() draws any
+ * list of evaluated variants with it; plot_run() builds them from the inline loop options or
+ * from the variants of a design document (several overlaid, each in its colour and dash).
  *
  * SPDX-License-Identifier: GPL-3.0-or-later
  */
@@ -15,15 +15,23 @@
 
 #include "lw-cli-commands.h"
 #include "lw-cli-common.h"
+#include "lw-cli-doc.h"
 #include "lw-figure-data.h"
 #include "lw-plot-export.h"
 #include "lw-plot.h"
 
 static const char plot_help[] =
   "Usage: " LW_CLI_PROG " plot --plant EXPR --period SECONDS --view VIEW --out FILE [options]\n"
+  "       " LW_CLI_PROG " plot FILE.lwd [--variant NAME | --all-variants] --view VIEW\n"
+  "       --out FILE [options]\n"
   "\n"
   "Draws one view of a sampled loop and writes it as a PNG, SVG or PDF file (by the\n"
   "extension of FILE).\n"
+  "\n"
+  "Given a design document (FILE.lwd), the loop comes from it: the active variant, or\n"
+  "--variant NAME, or with --all-variants every variant overlaid (at most 6), each named\n"
+  "in the legend; the document's phase-margin requirement is marked unless\n"
+  "--min-phase-margin is given. The loop options and --name are then not accepted.\n"
   "\n"
   "Views:\n"
   "  bode-z       |L| and phase over omega, up to the Nyquist frequency pi/T\n"
@@ -40,6 +48,8 @@ static const char plot_help[] =
   "  --dead-time SECONDS      plant input dead time in seconds, >= 0 (default 0)\n"
   "  --controller EXPR        controller C(w), proper, in the w-plane variable w (default 1)\n"
   "  --controller-z EXPR      controller C(z), proper, in z (instead of --controller)\n"
+  "  --variant NAME           the variant of FILE.lwd to draw (default: the active one)\n"
+  "  --all-variants           every variant of FILE.lwd, overlaid\n"
   "  --view VIEW              one of the views above (required)\n"
   "  --out FILE               FILE.png, FILE.svg or FILE.pdf (required)\n"
   "  --size WxH               width and height, 16 to 20000 (pixels for PNG, points for\n"
@@ -61,6 +71,9 @@ typedef struct
 {
   LwCliLoopArgs loop;
   char *view, *out, *size, *theme, *title, *name, *target, *min_pm, *pdf_date, *points, *steps;
+  char **files;
+  char *variant;
+  gboolean all;
   gboolean help;
 } PlotArgs;
 
@@ -252,10 +265,121 @@ out:
   return status;
 }
 
+/* --points and --steps into opts. */
+static int
+plot_analysis_options (const PlotArgs *a, LwAnalysisOptions *opts)
+{
+  gint64 v;
+  lw_analysis_options_init (opts);
+  if (a->points != NULL)
+    {
+      if (!lw_cli_parse_integer ("--points", a->points, 16, 1000000, &v))
+        return LW_EXIT_BAD_INPUT;
+      opts->n_points = (size_t) v;
+    }
+  if (a->steps != NULL)
+    {
+      if (!lw_cli_parse_integer ("--steps", a->steps, 2, 10000000, &v))
+        return LW_EXIT_BAD_INPUT;
+      opts->n_steps = (size_t) v;
+    }
+  return LW_EXIT_OK;
+}
+
+/* The variants of a design document, overlaid. */
+static int
+plot_run_document (const PlotArgs *a)
+{
+  const char *path = NULL;
+  int status = lw_cli_doc_one_file ("plot", a->files, &path);
+  if (status != LW_EXIT_OK)
+    return status;
+  status = lw_cli_doc_refuse_loop_options ("plot", path, &a->loop);
+  if (status != LW_EXIT_OK)
+    return status;
+  if (a->name != NULL)
+    {
+      lw_cli_bad_input ("--name", "not with a design document: the legend shows the variants' "
+                        "names");
+      return LW_EXIT_BAD_INPUT;
+    }
+  g_autoptr (LwDesign) d = NULL;
+  status = lw_cli_doc_load (path, &d);
+  if (status != LW_EXIT_OK)
+    return status;
+  g_autofree size_t *which = NULL;
+  size_t n = 0;
+  status = lw_cli_doc_select (d, a->variant, a->all, "--all-variants", &which, &n);
+  if (status != LW_EXIT_OK)
+    return status;
+  if (n > LW_PLOT_MAX_VARIANTS)
+    {
+      lw_cli_bad_input ("--all-variants", "the design has %zu variants; a figure overlays at "
+                        "most %d (pick one with --variant)", n, LW_PLOT_MAX_VARIANTS);
+      return LW_EXIT_BAD_INPUT;
+    }
+  PlotSpec spec;
+  status = plot_options_check (a, &spec);
+  if (status != LW_EXIT_OK)
+    return status;
+  if (!spec.has_min_pm)
+    for (size_t i = 0; i < d->n_requirements; i++)
+      if (d->requirements[i].req.kind == LW_REQ_MIN_PHASE_MARGIN)
+        {
+          spec.has_min_pm = true;
+          spec.min_pm_deg = fmax (spec.min_pm_deg, d->requirements[i].req.limit);
+        }
+  LwAnalysisOptions opts;
+  status = plot_analysis_options (a, &opts);
+  if (status != LW_EXIT_OK)
+    return status;
+
+  LwCliLoop lp[LW_PLOT_MAX_VARIANTS];
+  LwEvaluation *ev[LW_PLOT_MAX_VARIANTS] = { NULL };
+  PlotVariantSource src[LW_PLOT_MAX_VARIANTS] = { { 0 } };
+  size_t built = 0;
+  LwError err;
+  lw_error_clear (&err);
+  for (; built < n; built++)
+    {
+      status = lw_cli_doc_loop_build (path, d, which[built], &lp[built]);
+      if (status != LW_EXIT_OK)
+        goto out;
+      opts.compute_delay = lp[built].compute_delay;
+      if (lw_evaluate (lp[built].sampled, lp[built].controller_z, &opts, &ev[built], &err)
+          != LW_OK)
+        {
+          g_autofree char *place = g_strdup_printf ("%s: variant '%s'", path,
+                                                    d->variants[which[built]].name);
+          status = lw_cli_report_core_error (place, &err);
+          built++;
+          goto out;
+        }
+      src[built] = (PlotVariantSource) { d->variants[which[built]].name, lp[built].sampled,
+                                         ev[built] };
+    }
+  status = plot_write (&spec, src, n);
+out:
+  for (size_t i = 0; i < built; i++)
+    {
+      lw_evaluation_free (ev[i]);
+      lw_cli_loop_clear (&lp[i]);
+    }
+  return status;
+}
+
 static int
 plot_run (void *data)
 {
   const PlotArgs *a = data;
+  if (a->files != NULL && a->files[0] != NULL)
+    return plot_run_document (a);
+  if (a->variant != NULL || a->all)
+    {
+      lw_cli_bad_input (a->all ? "--all-variants" : "--variant",
+                        "needs a design document (FILE.lwd) to pick from");
+      return LW_EXIT_BAD_INPUT;
+    }
   LwCliLoop lp;
   int status = lw_cli_loop_build ("plot", &a->loop, &lp);
   if (status != LW_EXIT_OK)
@@ -265,30 +389,13 @@ plot_run (void *data)
   LwError err;
   lw_error_clear (&err);
   LwAnalysisOptions opts;
-  lw_analysis_options_init (&opts);
-  opts.compute_delay = lp.compute_delay;
-  gint64 v;
   status = plot_options_check (a, &spec);
   if (status != LW_EXIT_OK)
     goto out;
-  if (a->points != NULL)
-    {
-      if (!lw_cli_parse_integer ("--points", a->points, 16, 1000000, &v))
-        {
-          status = LW_EXIT_BAD_INPUT;
-          goto out;
-        }
-      opts.n_points = (size_t) v;
-    }
-  if (a->steps != NULL)
-    {
-      if (!lw_cli_parse_integer ("--steps", a->steps, 2, 10000000, &v))
-        {
-          status = LW_EXIT_BAD_INPUT;
-          goto out;
-        }
-      opts.n_steps = (size_t) v;
-    }
+  status = plot_analysis_options (a, &opts);
+  if (status != LW_EXIT_OK)
+    goto out;
+  opts.compute_delay = lp.compute_delay;
   if (lw_evaluate (lp.sampled, lp.controller_z, &opts, &ev, &err) != LW_OK)
     {
       status = lw_cli_report_core_error ("plot", &err);
@@ -319,7 +426,10 @@ lw_cmd_plot (int argc, char **argv)
     { "pdf-date", 0, 0, G_OPTION_ARG_STRING, &a.pdf_date, NULL, NULL },
     { "points", 0, 0, G_OPTION_ARG_STRING, &a.points, NULL, NULL },
     { "steps", 0, 0, G_OPTION_ARG_STRING, &a.steps, NULL, NULL },
+    { "variant", 0, 0, G_OPTION_ARG_STRING, &a.variant, NULL, NULL },
+    { "all-variants", 0, 0, G_OPTION_ARG_NONE, &a.all, NULL, NULL },
     { "help", 'h', 0, G_OPTION_ARG_NONE, &a.help, NULL, NULL },
+    { G_OPTION_REMAINING, 0, 0, G_OPTION_ARG_FILENAME_ARRAY, &a.files, NULL, NULL },
     { NULL, 0, 0, 0, NULL, NULL, NULL }
   };
   int status = lw_cli_run_command ("plot", argc, argv, entries, &a.help, plot_help, plot_run,
@@ -329,5 +439,7 @@ lw_cmd_plot (int argc, char **argv)
                     &a.min_pm, &a.pdf_date, &a.points, &a.steps };
   for (size_t i = 0; i < G_N_ELEMENTS (strs); i++)
     g_free (*strs[i]);
+  g_strfreev (a.files);
+  g_free (a.variant);
   return status;
 }

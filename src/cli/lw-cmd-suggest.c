@@ -10,6 +10,7 @@
 
 #include "lw-cli-commands.h"
 #include "lw-cli-common.h"
+#include "lw-cli-doc.h"
 #include "lw-cli-json.h"
 #include "lw-require.h"
 #include "lw-stage.h"
@@ -246,6 +247,12 @@ print_json (const LwLeadDesign *d, double safety, const LwZpk *cw, const char *e
 static const char suggest_help[] =
   "Usage: " LW_CLI_PROG " suggest --plant EXPR --period SECONDS --phase-margin DEG\n"
   "       (--crossover RAD_S | --rise-time SECONDS) [options]\n"
+  "       " LW_CLI_PROG " suggest FILE.lwd --phase-margin DEG (--crossover RAD_S |\n"
+  "       --rise-time SECONDS) [options]\n"
+  "\n"
+  "Given a design document (FILE.lwd), the plant, dead time, period and computation delay\n"
+  "come from it (its stages are not used: the controller is what is proposed); the loop\n"
+  "options are then not accepted.\n"
   "\n"
   "Proposes a crossover gain and lead stages, designed in the w-plane, that give the loop\n"
   "the phase margin asked at the crossover asked, and reports the margins they reach.\n"
@@ -270,6 +277,7 @@ static const char suggest_help[] =
 typedef struct
 {
   LwCliLoopArgs loop;
+  char **files;
   char *phase_margin;
   char *crossover;
   char *rise_time;
@@ -278,12 +286,44 @@ typedef struct
   gboolean help;
 } SuggestArgs;
 
+/* The loop options of the run: as given, or (with a design document) the document's loop
+ * written as those options, so the proposal and its read-back below use one path. */
+static int
+suggest_loop_args (const SuggestArgs *a, LwCliLoopArgs *out)
+{
+  memset (out, 0, sizeof *out);
+  if (a->files == NULL || a->files[0] == NULL)
+    {
+      out->plant = g_strdup (a->loop.plant);
+      out->period = g_strdup (a->loop.period);
+      out->compute_delay = g_strdup (a->loop.compute_delay);
+      out->dead_time = g_strdup (a->loop.dead_time);
+      return LW_EXIT_OK;
+    }
+  const char *path = NULL;
+  int status = lw_cli_doc_one_file ("suggest", a->files, &path);
+  if (status == LW_EXIT_OK)
+    status = lw_cli_doc_refuse_loop_options ("suggest", path, &a->loop);
+  if (status != LW_EXIT_OK)
+    return status;
+  g_autoptr (LwDesign) d = NULL;
+  status = lw_cli_doc_load (path, &d);
+  if (status != LW_EXIT_OK)
+    return status;
+  lw_cli_doc_loop_args (d, out);
+  return LW_EXIT_OK;
+}
+
 static int
 suggest_run (void *data)
 {
   const SuggestArgs *a = data;
+  g_auto (LwCliLoopArgs) loop_args = { 0 };
+  int status = suggest_loop_args (a, &loop_args);
+  if (status != LW_EXIT_OK)
+    return status;
   LwCliLoop lp;
-  int status = lw_cli_loop_build ("suggest", &a->loop, &lp);
+  status = lw_cli_loop_build ("suggest", &loop_args, &lp);
   if (status != LW_EXIT_OK)
     return status;
   double T = lp.period_s, pm = NAN, omega_c = NAN, safety = 5.0;
@@ -385,7 +425,7 @@ suggest_run (void *data)
   /* the margins as analyze reports them: the same controller, read back from its text, so
    * what is printed is what was evaluated */
   {
-    LwCliLoopArgs back = a->loop;
+    LwCliLoopArgs back = loop_args;
     back.controller = expr;
     back.controller_z = NULL;
     LwCliLoop lb;
@@ -431,6 +471,7 @@ lw_cmd_suggest (int argc, char **argv)
     { "safety", 0, 0, G_OPTION_ARG_STRING, &a.safety, NULL, NULL },
     { "json", 0, 0, G_OPTION_ARG_NONE, &a.json, NULL, NULL },
     { "help", 'h', 0, G_OPTION_ARG_NONE, &a.help, NULL, NULL },
+    { G_OPTION_REMAINING, 0, 0, G_OPTION_ARG_FILENAME_ARRAY, &a.files, NULL, NULL },
     { NULL, 0, 0, 0, NULL, NULL, NULL }
   };
   int status = lw_cli_run_command ("suggest", argc, argv, entries, &a.help, suggest_help,
@@ -440,5 +481,6 @@ lw_cmd_suggest (int argc, char **argv)
   g_free (a.crossover);
   g_free (a.rise_time);
   g_free (a.safety);
+  g_strfreev (a.files);
   return status;
 }
