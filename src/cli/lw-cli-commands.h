@@ -13,3 +13,4 @@ int lw_cmd_tidy (int argc, char **argv);
 int lw_cmd_plot (int argc, char **argv);
 int lw_cmd_suggest (int argc, char **argv);
 int lw_cmd_emit (int argc, char **argv);
+int lw_cmd_report (int argc, char **argv);
