@@ -105,6 +105,7 @@ typedef struct {
   double ax, ay;         /* text anchor: 0 left/top, 0.5 centre, 1 right/bottom */
   bool plate;            /* background plate behind the text */
   double r_units, a0, a1;
+  long owner;            /* the variant the primitive belongs to (its layer), or −1 */
 } Prim;
 
 typedef struct {
@@ -115,6 +116,10 @@ typedef struct {
   bool equal_aspect;
   GPtrArray *prims;
   double rx, ry, rw, rh;            /* plot area of the last layout */
+  /* the visible part of the x axis (zoom and pan, lw_plot_set_x_view): u in [wu0, wu1] is
+   * drawn across the plot area, and xv is the axis of that part (ticks, read-outs) */
+  double wu0, wu1;
+  LwPlotAxis xv;
 } Panel;
 
 struct LwPlot {
@@ -128,6 +133,7 @@ struct LwPlot {
   double width, height;
   int legend_rows;
   bool laid_out;
+  bool decimate;                    /* lw_plot_set_decimate */
 };
 
 static void
@@ -152,6 +158,7 @@ prim_add (Panel *pn, PrimKind kind, size_t n)
   p->width = THIN_WIDTH;
   p->colour = COL_REF;
   p->dash = DASH_SOLID;
+  p->owner = -1;
   g_ptr_array_add (pn->prims, p);
   return p;
 }
@@ -248,6 +255,7 @@ style_variant (Prim *p, size_t variant, double width)
 {
   p->colour = COL_VARIANT;
   p->variant = variant;
+  p->owner = (long) variant;
   p->width = width;
   return p;
 }
@@ -324,6 +332,21 @@ axis_from_extent (LwPlotAxis *a, LwPlotScale scale, LwPlotTickStyle style, Exten
   lw_plot_axis_init (a, scale, style, lo, hi);
 }
 
+/* Takes the axes of in->axes_of when it shows the same view with as many panels (a figure
+ * rebuilt during a drag keeps its frame, so what does not move stays where it was). */
+static void
+keep_axes (LwPlot *pl, const LwPlotInput *in)
+{
+  const LwPlot *o = in->axes_of;
+  if (o == NULL || o->view != in->view || o->n_panels != pl->n_panels)
+    return;
+  for (size_t k = 0; k < pl->n_panels; k++)
+    {
+      pl->panels[k].x = o->panels[k].x;
+      pl->panels[k].y = o->panels[k].y;
+    }
+}
+
 /* ---- Bode ------------------------------------------------------------------------------ */
 
 static void
@@ -387,6 +410,7 @@ build_bode (LwPlot *pl, const LwPlotInput *in, bool w_plane)
   axis_from_extent (&mag->y, LW_PLOT_SCALE_LINEAR, LW_PLOT_TICKS_PLAIN, em, 6);
   ph->x = mag->x;
   axis_from_extent (&ph->y, LW_PLOT_SCALE_LINEAR, LW_PLOT_TICKS_DEGREES, ep, 6);
+  keep_axes (pl, in);
 
   const char *fname = w_plane ? "\u03bd" : "\u03c9";
   mag->x_tick_labels = false;
@@ -497,6 +521,7 @@ build_bode (LwPlot *pl, const LwPlotInput *in, bool w_plane)
               t->plate = true;
               t->colour = COL_VARIANT;
               t->variant = v;
+              t->owner = (long) v;
             }
         }
       for (size_t i = 0; i < c->n_phase_crossovers; i++)
@@ -517,6 +542,7 @@ build_bode (LwPlot *pl, const LwPlotInput *in, bool w_plane)
               t->plate = true;
               t->colour = COL_VARIANT;
               t->variant = v;
+              t->owner = (long) v;
             }
         }
     }
@@ -549,6 +575,7 @@ build_nyquist (LwPlot *pl, const LwPlotInput *in)
   widen_to_aspect (&ex, &ey);
   axis_from_extent (&pn->x, LW_PLOT_SCALE_LINEAR, LW_PLOT_TICKS_PLAIN, ex, 6);
   axis_from_extent (&pn->y, LW_PLOT_SCALE_LINEAR, LW_PLOT_TICKS_PLAIN, ey, 6);
+  keep_axes (pl, in);
   pn->x_label = "Re L";
   pn->y_label = "Im L";
   pn->x_name = "Re";
@@ -609,6 +636,7 @@ build_nyquist (LwPlot *pl, const LwPlotInput *in)
               t->plate = true;
               t->colour = COL_VARIANT;
               t->variant = v;
+              t->owner = (long) v;
             }
         }
       for (size_t i = 0; i < z->n_phase_crossovers; i++)
@@ -623,6 +651,7 @@ build_nyquist (LwPlot *pl, const LwPlotInput *in)
               t->plate = true;
               t->colour = COL_VARIANT;
               t->variant = v;
+              t->owner = (long) v;
             }
         }
     }
@@ -656,6 +685,7 @@ build_nichols (LwPlot *pl, const LwPlotInput *in)
     ey.lo = ey.hi - MAG_DEPTH_DB;
   axis_from_extent (&pn->x, LW_PLOT_SCALE_LINEAR, LW_PLOT_TICKS_DEGREES, ex, 7);
   axis_from_extent (&pn->y, LW_PLOT_SCALE_LINEAR, LW_PLOT_TICKS_PLAIN, ey, 7);
+  keep_axes (pl, in);
   pn->x_label = "\u2220L (\u00b0)";
   pn->y_label = "|L| (dB)";
   pn->x_name = "\u2220L";
@@ -699,6 +729,7 @@ build_nichols (LwPlot *pl, const LwPlotInput *in)
               t->plate = true;
               t->colour = COL_VARIANT;
               t->variant = v;
+              t->owner = (long) v;
             }
         }
       for (size_t i = 0; i < c->n_phase_crossovers; i++)
@@ -715,6 +746,7 @@ build_nichols (LwPlot *pl, const LwPlotInput *in)
               t->plate = true;
               t->colour = COL_VARIANT;
               t->variant = v;
+              t->owner = (long) v;
             }
         }
     }
@@ -812,8 +844,10 @@ build_step (LwPlot *pl, const LwPlotInput *in)
       act->x_unit = "s";
       act->y_name = "u";
       act->y_unit = "";
-      add_hline (act, 0.0);
     }
+  keep_axes (pl, in);
+  if (any_u)
+    add_hline (act, 0.0);
   add_hline (out, 0.0);
   for (size_t v = 0; v < in->n_variants; v++)
     {
@@ -822,6 +856,7 @@ build_step (LwPlot *pl, const LwPlotInput *in)
         {
           Prim *f = add_hline (out, s->final_value);
           f->dash = DASH_DASHED;
+          f->owner = (long) v;
         }
       if (s->n_fine >= 2 && s->t_fine_s && s->y_fine)
         {
@@ -846,10 +881,14 @@ build_step (LwPlot *pl, const LwPlotInput *in)
           st->dash = DASH_VARIANT;
           if (s->has_limits)
             {
-              add_hline (act, s->u_high)->dash = DASH_DOTTED;
-              add_hline (act, s->u_low)->dash = DASH_DOTTED;
-              add_text (act, act->x.hi, s->u_high, "u max", -4, -2, 1.0, 1.0)->colour = COL_REF;
-              add_text (act, act->x.hi, s->u_low, "u min", -4, 2, 1.0, 0.0)->colour = COL_REF;
+              Prim *lim[4] = {
+                add_hline (act, s->u_high), add_hline (act, s->u_low),
+                add_text (act, act->x.hi, s->u_high, "u max", -4, -2, 1.0, 1.0),
+                add_text (act, act->x.hi, s->u_low, "u min", -4, 2, 1.0, 0.0) };
+              lim[0]->dash = lim[1]->dash = DASH_DOTTED;
+              lim[2]->colour = lim[3]->colour = COL_REF;
+              for (int k = 0; k < 4; k++)
+                lim[k]->owner = (long) v;
             }
         }
     }
@@ -885,6 +924,7 @@ build_poles (LwPlot *pl, const LwPlotInput *in)
   widen_to_aspect (&ex, &ey);
   axis_from_extent (&pn->x, LW_PLOT_SCALE_LINEAR, LW_PLOT_TICKS_PLAIN, ex, 6);
   axis_from_extent (&pn->y, LW_PLOT_SCALE_LINEAR, LW_PLOT_TICKS_PLAIN, ey, 6);
+  keep_axes (pl, in);
   pn->x_label = "Re z";
   pn->y_label = "Im z";
   pn->x_name = "Re";
@@ -1024,6 +1064,12 @@ lw_plot_new (const LwPlotInput *in, char *err_msg, size_t err_size)
     case LW_PLOT_VIEW_STEP: build_step (pl, in); break;
     case LW_PLOT_VIEW_POLES: build_poles (pl, in); break;
     }
+  for (size_t k = 0; k < MAX_PANELS; k++)
+    {
+      pl->panels[k].xv = pl->panels[k].x;
+      pl->panels[k].wu0 = 0.0;
+      pl->panels[k].wu1 = 1.0;
+    }
   return pl;
 }
 
@@ -1137,7 +1183,7 @@ set_dash (cairo_t *cr, DashRole d, size_t variant)
 static double
 px_of (const Panel *pn, double u)
 {
-  return pn->rx + u * pn->rw;
+  return pn->rx + (u - pn->wu0) / (pn->wu1 - pn->wu0) * pn->rw;
 }
 
 static double
@@ -1237,6 +1283,70 @@ draw_marker (cairo_t *cr, MarkShape shape, double x, double y, double size)
     }
 }
 
+/* A polyline with at most four vertices per pixel column (the first, lowest, highest and last
+ * point of each run of consecutive points in one column, in their order along the curve), so
+ * a curve of thousands of points costs about as much as the plot is wide; what is drawn stays
+ * within the column of what the full polyline would cover. NaN breaks the line. */
+static void
+draw_polyline_decimated (const Panel *pn, cairo_t *cr, const Prim *q)
+{
+  bool pen = false, open = false;
+  double col = 0;
+  size_t idx[4];
+  double xs[4], ys[4];   /* first, min, max, last of the run */
+  cairo_new_path (cr);
+  for (size_t i = 0; i <= q->n; i++)
+    {
+      bool ok = i < q->n && isfinite (q->u[i]) && isfinite (q->v[i]);
+      double x = ok ? px_of (pn, q->u[i]) : 0, y = ok ? py_of (pn, q->v[i]) : 0;
+      double c = ok ? floor (x) : 0;
+      if (open && (!ok || c != col))
+        {
+          /* flush the run: its extreme points in the order they came */
+          size_t order[4] = { 0, 1, 2, 3 };
+          for (int a = 1; a < 4; a++)
+            for (int b = a; b > 0 && idx[order[b]] < idx[order[b - 1]]; b--)
+              {
+                size_t t = order[b];
+                order[b] = order[b - 1];
+                order[b - 1] = t;
+              }
+          size_t last = (size_t) -1;
+          for (int k = 0; k < 4; k++)
+            {
+              size_t j = order[k];
+              if (idx[j] == last)
+                continue;
+              last = idx[j];
+              if (pen)
+                cairo_line_to (cr, xs[j], ys[j]);
+              else
+                cairo_move_to (cr, xs[j], ys[j]);
+              pen = true;
+            }
+          open = false;
+        }
+      if (!ok)
+        {
+          pen = false;
+          continue;
+        }
+      if (!open)
+        {
+          open = true;
+          col = c;
+          for (int k = 0; k < 4; k++)
+            idx[k] = i, xs[k] = x, ys[k] = y;
+          continue;
+        }
+      if (y < ys[1])
+        idx[1] = i, xs[1] = x, ys[1] = y;
+      if (y > ys[2])
+        idx[2] = i, xs[2] = x, ys[2] = y;
+      idx[3] = i, xs[3] = x, ys[3] = y;
+    }
+}
+
 static void
 draw_prim (const LwPlot *p, const Panel *pn, cairo_t *cr, const Prim *q)
 {
@@ -1250,26 +1360,29 @@ draw_prim (const LwPlot *p, const Panel *pn, cairo_t *cr, const Prim *q)
   switch (q->kind)
     {
     case PRIM_LINE:
-      {
-        bool pen = false;
-        cairo_new_path (cr);
-        for (size_t i = 0; i < q->n; i++)
-          {
-            if (!isfinite (q->u[i]) || !isfinite (q->v[i]))
-              {
-                pen = false;
-                continue;
-              }
-            double x = px_of (pn, q->u[i]), y = py_of (pn, q->v[i]);
-            if (pen)
-              cairo_line_to (cr, x, y);
-            else
-              cairo_move_to (cr, x, y);
-            pen = true;
-          }
-        cairo_stroke (cr);
-        break;
-      }
+      if (p->decimate)
+        draw_polyline_decimated (pn, cr, q);
+      else
+        {
+          bool pen = false;
+          cairo_new_path (cr);
+          for (size_t i = 0; i < q->n; i++)
+            {
+              if (!isfinite (q->u[i]) || !isfinite (q->v[i]))
+                {
+                  pen = false;
+                  continue;
+                }
+              double x = px_of (pn, q->u[i]), y = py_of (pn, q->v[i]);
+              if (pen)
+                cairo_line_to (cr, x, y);
+              else
+                cairo_move_to (cr, x, y);
+              pen = true;
+            }
+        }
+      cairo_stroke (cr);
+      break;
     case PRIM_MARK:
       if (isfinite (q->u[0]) && isfinite (q->v[0]))
         draw_marker (cr, q->shape, px_of (pn, q->u[0]) + q->dx, py_of (pn, q->v[0]) + q->dy,
@@ -1319,7 +1432,7 @@ draw_grid (const LwPlot *p, const Panel *pn, cairo_t *cr)
   const Theme *t = theme_of (p);
   LwPlotTick ticks[MAX_TICKS];
   /* vertical grid lines and x tick labels */
-  size_t n = lw_plot_axis_ticks (&pn->x, max_labels_for (pn->rw, 64.0), ticks, MAX_TICKS);
+  size_t n = lw_plot_axis_ticks (&pn->xv, max_labels_for (pn->rw, 64.0), ticks, MAX_TICKS);
   for (int pass = 0; pass < 2; pass++)
     for (size_t i = 0; i < n; i++)
       {
@@ -1382,17 +1495,54 @@ draw_legend (const LwPlot *p, cairo_t *cr)
     }
 }
 
-void
-lw_plot_draw_static (LwPlot *p, cairo_t *cr, double width, double height)
+/* Which primitives a layer holds: everything, everything but variant `v`'s, or only its. */
+typedef enum { LAYER_ALL, LAYER_BASE, LAYER_VARIANT } Layer;
+
+static bool
+prim_in_layer (const Prim *q, Layer layer, size_t v)
 {
-  g_return_if_fail (p != NULL && cr != NULL);
+  bool own = q->owner >= 0 && (size_t) q->owner == v;
+  return layer == LAYER_ALL || (layer == LAYER_BASE ? !own : own);
+}
+
+static void
+draw_layer (LwPlot *p, cairo_t *cr, double width, double height, Layer layer, size_t var)
+{
   lw_plot_layout (p, width, height);
   const Theme *t = theme_of (p);
   cairo_save (cr);
+  cairo_set_line_cap (cr, CAIRO_LINE_CAP_BUTT);
+  if (layer == LAYER_VARIANT)
+    {
+      /* only the variant's curves and annotations, over a base layer already drawn */
+      for (size_t k = 0; k < p->n_panels; k++)
+        {
+          const Panel *pn = &p->panels[k];
+          cairo_save (cr);
+          cairo_rectangle (cr, pn->rx, pn->ry, pn->rw, pn->rh);
+          cairo_clip (cr);
+          for (guint i = 0; i < pn->prims->len; i++)
+            {
+              const Prim *q = pn->prims->pdata[i];
+              if (prim_in_layer (q, layer, var) && q->kind != PRIM_TEXT
+                  && !(q->kind == PRIM_MARK && (q->dx != 0 || q->dy != 0)))
+                draw_prim (p, pn, cr, q);
+            }
+          cairo_restore (cr);
+          for (guint i = 0; i < pn->prims->len; i++)
+            {
+              const Prim *q = pn->prims->pdata[i];
+              if (prim_in_layer (q, layer, var)
+                  && (q->kind == PRIM_TEXT || (q->kind == PRIM_MARK && (q->dx != 0 || q->dy != 0))))
+                draw_prim (p, pn, cr, q);
+            }
+        }
+      cairo_restore (cr);
+      return;
+    }
   set_rgb (cr, t->bg, 1.0);
   cairo_rectangle (cr, 0, 0, width, height);
   cairo_fill (cr);
-  cairo_set_line_cap (cr, CAIRO_LINE_CAP_BUTT);
   for (size_t k = 0; k < p->n_panels; k++)
     {
       const Panel *pn = &p->panels[k];
@@ -1408,7 +1558,7 @@ lw_plot_draw_static (LwPlot *p, cairo_t *cr, double width, double height)
         size_t n;
         if (pn->x_tick_labels)
           {
-            n = lw_plot_axis_ticks (&pn->x, max_labels_for (pn->rw, 64.0), ticks, MAX_TICKS);
+            n = lw_plot_axis_ticks (&pn->xv, max_labels_for (pn->rw, 64.0), ticks, MAX_TICKS);
             for (size_t i = 0; i < n; i++)
               if (ticks[i].labelled)
                 draw_text (cr, ticks[i].label, FONT_TICK,
@@ -1436,7 +1586,8 @@ lw_plot_draw_static (LwPlot *p, cairo_t *cr, double width, double height)
       for (guint i = 0; i < pn->prims->len; i++)
         {
           const Prim *q = pn->prims->pdata[i];
-          if (q->kind != PRIM_TEXT && !(q->kind == PRIM_MARK && (q->dx != 0 || q->dy != 0)))
+          if (prim_in_layer (q, layer, var) && q->kind != PRIM_TEXT
+              && !(q->kind == PRIM_MARK && (q->dx != 0 || q->dy != 0)))
             draw_prim (p, pn, cr, q);
         }
       cairo_restore (cr);
@@ -1449,7 +1600,8 @@ lw_plot_draw_static (LwPlot *p, cairo_t *cr, double width, double height)
       for (guint i = 0; i < pn->prims->len; i++)
         {
           const Prim *q = pn->prims->pdata[i];
-          if (q->kind == PRIM_TEXT || (q->kind == PRIM_MARK && (q->dx != 0 || q->dy != 0)))
+          if (prim_in_layer (q, layer, var)
+              && (q->kind == PRIM_TEXT || (q->kind == PRIM_MARK && (q->dx != 0 || q->dy != 0))))
             draw_prim (p, pn, cr, q);
         }
       /* the Nyquist line sits on the right edge of the frame: draw it again over the frame */
@@ -1464,6 +1616,135 @@ lw_plot_draw_static (LwPlot *p, cairo_t *cr, double width, double height)
   cairo_restore (cr);
 }
 
+void
+lw_plot_draw_static (LwPlot *p, cairo_t *cr, double width, double height)
+{
+  g_return_if_fail (p != NULL && cr != NULL);
+  draw_layer (p, cr, width, height, LAYER_ALL, 0);
+}
+
+void
+lw_plot_draw_base (LwPlot *p, cairo_t *cr, double width, double height, size_t variant)
+{
+  g_return_if_fail (p != NULL && cr != NULL);
+  draw_layer (p, cr, width, height, LAYER_BASE, variant);
+}
+
+void
+lw_plot_draw_variant (LwPlot *p, cairo_t *cr, double width, double height, size_t variant)
+{
+  g_return_if_fail (p != NULL && cr != NULL);
+  draw_layer (p, cr, width, height, LAYER_VARIANT, variant);
+}
+
+static bool
+prim_equal (const Prim *a, const Prim *b)
+{
+  return a->kind == b->kind && a->colour == b->colour && a->variant == b->variant
+         && a->owner == b->owner
+         && a->dash == b->dash && a->width == b->width && a->alpha == b->alpha && a->n == b->n
+         && a->shape == b->shape && a->size == b->size && a->dx == b->dx && a->dy == b->dy
+         && a->ax == b->ax && a->ay == b->ay && a->plate == b->plate
+         && a->r_units == b->r_units && a->a0 == b->a0 && a->a1 == b->a1
+         && g_strcmp0 (a->text, b->text) == 0
+         && (a->n == 0 || (memcmp (a->u, b->u, a->n * sizeof *a->u) == 0
+                           && memcmp (a->v, b->v, a->n * sizeof *a->v) == 0));
+}
+
+static bool
+axis_equal (const LwPlotAxis *a, const LwPlotAxis *b)
+{
+  return a->scale == b->scale && a->style == b->style && a->lo == b->lo && a->hi == b->hi;
+}
+
+bool
+lw_plot_base_equal (const LwPlot *a, const LwPlot *b, size_t variant)
+{
+  if (a == NULL || b == NULL || a->view != b->view || a->theme != b->theme
+      || a->n_variants != b->n_variants || a->n_panels != b->n_panels
+      || g_strcmp0 (a->title, b->title) != 0)
+    return false;
+  for (size_t v = 0; v < a->n_variants; v++)
+    if (g_strcmp0 (a->names[v], b->names[v]) != 0)
+      return false;
+  for (size_t k = 0; k < a->n_panels; k++)
+    {
+      const Panel *pa = &a->panels[k], *pb = &b->panels[k];
+      if (!axis_equal (&pa->x, &pb->x) || !axis_equal (&pa->y, &pb->y)
+          || !axis_equal (&pa->xv, &pb->xv) || pa->wu0 != pb->wu0 || pa->wu1 != pb->wu1)
+        return false;
+      guint i = 0, j = 0;
+      for (;;)
+        {
+          while (i < pa->prims->len && !prim_in_layer (pa->prims->pdata[i], LAYER_BASE, variant))
+            i++;
+          while (j < pb->prims->len && !prim_in_layer (pb->prims->pdata[j], LAYER_BASE, variant))
+            j++;
+          if (i == pa->prims->len || j == pb->prims->len)
+            {
+              if (i != pa->prims->len || j != pb->prims->len)
+                return false;
+              break;
+            }
+          if (!prim_equal (pa->prims->pdata[i], pb->prims->pdata[j]))
+            return false;
+          i++, j++;
+        }
+    }
+  return true;
+}
+
+void
+lw_plot_set_decimate (LwPlot *p, bool decimate)
+{
+  g_return_if_fail (p != NULL);
+  p->decimate = decimate;
+}
+
+static bool
+has_frequency_axis (const LwPlot *p)
+{
+  return p->view == LW_PLOT_VIEW_BODE_Z || p->view == LW_PLOT_VIEW_BODE_W;
+}
+
+bool
+lw_plot_set_x_view (LwPlot *p, double lo, double hi)
+{
+  g_return_val_if_fail (p != NULL, false);
+  if (!has_frequency_axis (p) || !(lo > 0.0) || !(hi > lo) || !isfinite (hi))
+    return false;
+  for (size_t k = 0; k < p->n_panels; k++)
+    {
+      Panel *pn = &p->panels[k];
+      LwPlotAxis xv;
+      if (!lw_plot_axis_init (&xv, pn->x.scale, pn->x.style, lo, hi))
+        return false;
+      pn->xv = xv;
+      pn->wu0 = lw_plot_axis_map (&pn->x, lo);
+      pn->wu1 = lw_plot_axis_map (&pn->x, hi);
+    }
+  return true;
+}
+
+bool
+lw_plot_get_x_view (const LwPlot *p, double *lo, double *hi)
+{
+  g_return_val_if_fail (p != NULL, false);
+  if (!has_frequency_axis (p) || p->n_panels == 0)
+    return false;
+  *lo = p->panels[0].xv.lo;
+  *hi = p->panels[0].xv.hi;
+  return true;
+}
+
+void
+lw_plot_full_x_range (const LwPlot *p, double *lo, double *hi)
+{
+  g_return_if_fail (p != NULL);
+  *lo = p->n_panels > 0 ? p->panels[0].x.lo : 0.0;
+  *hi = p->n_panels > 0 ? p->panels[0].x.hi : 1.0;
+}
+
 /* ---- overlay and hit tests ------------------------------------------------------------- */
 
 size_t
@@ -1475,7 +1756,7 @@ lw_plot_n_panels (const LwPlot *p)
 const LwPlotAxis *
 lw_plot_panel_x_axis (const LwPlot *p, size_t panel)
 {
-  return p && panel < p->n_panels ? &p->panels[panel].x : NULL;
+  return p && panel < p->n_panels ? &p->panels[panel].xv : NULL;
 }
 
 const LwPlotAxis *
@@ -1509,7 +1790,7 @@ lw_plot_value_at_pixel (const LwPlot *p, double px, double py, size_t *panel, do
       if (px < pn->rx || px > pn->rx + pn->rw || py < pn->ry || py > pn->ry + pn->rh)
         continue;
       *panel = k;
-      *x = lw_plot_axis_unmap (&pn->x, (px - pn->rx) / pn->rw);
+      *x = lw_plot_axis_unmap (&pn->x, pn->wu0 + (px - pn->rx) / pn->rw * (pn->wu1 - pn->wu0));
       *y = lw_plot_axis_unmap (&pn->y, 1.0 - (py - pn->ry) / pn->rh);
       return true;
     }

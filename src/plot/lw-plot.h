@@ -139,6 +139,8 @@ typedef struct {
   double min_gain_margin_db;
 } LwPlotRequirements;
 
+typedef struct LwPlot LwPlot;
+
 typedef struct {
   LwPlotView view;
   double nyquist_rad_s;        /* π/T, where the Bode-in-z axis ends */
@@ -146,11 +148,14 @@ typedef struct {
   size_t n_variants;           /* 1 … LW_PLOT_MAX_VARIANTS */
   const LwPlotVariant *variants;
   LwPlotRequirements req;
+  /* optional: a figure of the same view whose axes (every panel's x and y) are taken instead
+   * of ranges chosen from the data, when it has as many panels — a figure rebuilt during a
+   * drag keeps its frame, so its grid and the other variants' curves stay in place */
+  const LwPlot *axes_of;
 } LwPlotInput;
 
 #define LW_PLOT_MAX_VARIANTS 6
 
-typedef struct LwPlot LwPlot;
 
 /* Builds the figure: chooses axis ranges, maps every series once. NULL with a message in
  * err_msg (one sentence, may be NULL) when the input has nothing to draw for the view. */
@@ -164,6 +169,34 @@ void lw_plot_layout (LwPlot *p, double width, double height);
 
 /* Static layer: background, panels, grid, curves, annotations, legend. */
 void lw_plot_draw_static (LwPlot *p, cairo_t *cr, double width, double height);
+
+/* The static layer split in two, for a window where one variant moves (the one dragged):
+ * lw_plot_draw_base draws everything but the curves, marks and labels in the colour of
+ * `variant` (background, frame, grid, tick labels, references, legend, every other variant);
+ * lw_plot_draw_variant draws only those, on top of a base drawn at the same size. Cache the
+ * base and redraw it only when lw_plot_base_equal says it changed. */
+void lw_plot_draw_base (LwPlot *p, cairo_t *cr, double width, double height, size_t variant);
+void lw_plot_draw_variant (LwPlot *p, cairo_t *cr, double width, double height,
+                           size_t variant);
+
+/* True when a and b draw the same base layer for `variant` (lw_plot_draw_base): same view,
+ * theme, title, legend, axes and visible range, and equal primitives apart from the
+ * variant's own, compared value for value (false when either is NULL). */
+bool lw_plot_base_equal (const LwPlot *a, const LwPlot *b, size_t variant);
+
+/* Draw polylines with at most four vertices per pixel column (first, lowest, highest and last
+ * point of each column's run), for screens; off by default, so exported files keep every
+ * point. */
+void lw_plot_set_decimate (LwPlot *p, bool decimate);
+
+/* Zoom and pan of the frequency axis (Bode views only; false for others or a bad range):
+ * the panels show ν or ω from lo to hi (rad/s, 0 < lo < hi; may reach beyond the data), with
+ * ticks, read-outs and hit tests on that range; lw_plot_panel_x_axis returns the visible axis.
+ * lw_plot_get_x_view gives the visible range, lw_plot_full_x_range the range lw_plot_new
+ * chose. */
+bool lw_plot_set_x_view (LwPlot *p, double lo, double hi);
+bool lw_plot_get_x_view (const LwPlot *p, double *lo, double *hi);
+void lw_plot_full_x_range (const LwPlot *p, double *lo, double *hi);
 
 typedef struct {
   int panel;                   /* panel index */
