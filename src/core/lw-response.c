@@ -23,6 +23,23 @@ lw_log_grid (double lo, double hi, size_t n, double *out, LwError *err)
   return LW_OK;
 }
 
+/* Angle (degrees) of the factor f = e^{jθ} − r, continuous in θ on (0, π]: the principal angle
+ * of e^{jθ} − r alone wraps at ±180° whenever the circle passes "behind" a complex root, so it is
+ * split into a part that is continuous by construction and one that stays within ±90°:
+ *   |r| <= 1:  ∠f = θ + ∠(1 − r e^{−jθ}),          Re(1 − r e^{−jθ}) >= 1 − |r| >= 0;
+ *   |r| > 1:   ∠f = ∠(−r) + ∠(1 − e^{jθ}/r),       Re(1 − e^{jθ}/r) >= 1 − 1/|r| > 0. */
+static double
+z_factor_angle_deg (double complex f, double complex r, double c, double s, double th)
+{
+  if (cabs (r) <= 1.0)
+    {
+      double re = creal (f) * c + cimag (f) * s, im = cimag (f) * c - creal (f) * s;  /* f e^{−jθ} */
+      return (th + atan2 (im, re)) * RAD2DEG;
+    }
+  double complex minus_r = -creal (r) + (-cimag (r) + 0.0) * I;   /* no −0 imaginary part */
+  return (carg (minus_r) + carg (-f / r)) * RAD2DEG;
+}
+
 LwStatus
 lw_zpk_freq_response (const LwZpk *m, const double *freq, size_t n, double *mag_db,
                       double *phase_deg, LwError *err)
@@ -38,20 +55,24 @@ lw_zpk_freq_response (const LwZpk *m, const double *freq, size_t n, double *mag_
        * with x − 1 = −2 sin²(θ/2) + j sin θ and x + 1 = 2 cos²(θ/2) + j sin θ: no cancellation
        * near z = 1 or z = −1 */
       double xm1r = 0.0, xp1r = 0.0, xi = freq[i], xr = 0.0;
+      double th = 0.0, cth = 1.0, sth = 0.0;
       bool z = m->domain == LW_DOMAIN_Z;
       if (z)
         {
-          double th = freq[i] * m->period_s;
+          th = freq[i] * m->period_s;
           if (fabs (th - LW_PI) <= 1e-15 * LW_PI)
-            xm1r = -2.0, xp1r = 0.0, xi = 0.0;
+            xm1r = -2.0, xp1r = 0.0, xi = 0.0, th = LW_PI, cth = -1.0, sth = 0.0;
           else
             {
               double sh = sin (th / 2.0), ch = cos (th / 2.0);
               xm1r = -2.0 * sh * sh;
               xp1r = 2.0 * ch * ch;
               xi = sin (th);
+              cth = cos (th);
+              sth = xi;
             }
         }
+#define ANGLE(f, r) (z ? z_factor_angle_deg ((f), (r), cth, sth, th) : carg (f) * RAD2DEG)
 #define FACTOR(r)                                                                        \
   (z ? (creal (r) >= 0.0 ? xm1r + (1.0 - creal (r)) : xp1r - (1.0 + creal (r)))          \
            + (xi - cimag (r)) * I                                                        \
@@ -61,15 +82,16 @@ lw_zpk_freq_response (const LwZpk *m, const double *freq, size_t n, double *mag_
         {
           double complex f = FACTOR (m->zeros[k]);
           db += 20.0 * log10 (cabs (f));
-          ph += carg (f) * RAD2DEG;
+          ph += ANGLE (f, m->zeros[k]);
         }
       for (size_t k = 0; k < m->n_poles; k++)
         {
           double complex f = FACTOR (m->poles[k]);
           db -= 20.0 * log10 (cabs (f));
-          ph -= carg (f) * RAD2DEG;
+          ph -= ANGLE (f, m->poles[k]);
         }
 #undef FACTOR
+#undef ANGLE
       if (mag_db != NULL)
         mag_db[i] = db;
       if (phase_deg != NULL)

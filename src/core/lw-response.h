@@ -23,8 +23,10 @@ LwStatus lw_log_grid (double lo, double hi, size_t n, double *out, LwError *err)
  *   s-domain: at s = jω (freq = ω, rad/s);   w-plane: at w = jν (freq = ν, rad/s);
  *   z-domain: at z = e^{jωT} (freq = ω, rad/s, up to π/T).
  * mag_db[i] = 20·log10|H|; phase_deg[i] = ∠gain + Σ∠(x − zᵢ) − Σ∠(x − pᵢ), each factor's angle
- * taken in (−180°, 180°], so the phase is continuous along the axis wherever it is defined (a
- * root exactly on the axis makes a genuine jump of ±180° there); a negative gain counts −180°.
+ * continuous along the axis by construction (in s and w the principal angle of jω − r; in z,
+ * where the principal angle of e^{jθ} − r wraps, θ + ∠(1 − r e^{−jθ}) for |r| <= 1 and
+ * ∠(−r) + ∠(1 − e^{jθ}/r) for |r| > 1), so the phase is continuous wherever it is defined (a
+ * root exactly on the axis or circle makes a genuine jump there); a negative gain counts −180°.
  * Either output may be NULL. */
 LwStatus lw_zpk_freq_response (const LwZpk *m, const double *freq, size_t n, double *mag_db,
                                double *phase_deg, LwError *err);

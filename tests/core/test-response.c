@@ -77,6 +77,35 @@ test_continuity (void **state)
   lw_zpk_free (m);
 }
 
+/* The same in z, where the principal angle of e^{jθ} − r wraps for complex roots: a controller with
+ * complex zeros and poles inside and outside the unit circle (invented), against an independent
+ * unwrap of arg H(e^{jθ}) along a 50× denser grid from the same first value. Tolerance 1e-9°. */
+static void
+test_continuity_z (void **state)
+{
+  (void) state;
+  const double t = 0.002;
+  LwZpk *m = parse ("20*(z^2-1.835*z+0.9927)*(z+0.5)*(z^2-3*z+4)"
+                    "/((z-0.8)*(z^2-1.651*z+0.7933)*(z^2+1.2*z+0.61)*(z-1))",
+                    LW_DOMAIN_Z, t);
+  enum { N = 400, D = 50 };
+  double w[N], ph[N];
+  assert_int_equal (lw_log_grid (0.1, LW_PI / t * 0.999, N, w, NULL), LW_OK);
+  assert_int_equal (lw_zpk_freq_response (m, w, N, NULL, ph, NULL), LW_OK);
+  double prev = ph[0];
+  for (int i = 1; i < N; i++)
+    {
+      for (int k = 1; k <= D; k++)
+        {
+          double x = w[i - 1] * pow (w[i] / w[i - 1], (double) k / D);
+          double a = carg (lw_zpk_eval (m, cexp (I * x * t))) * 180 / LW_PI;
+          prev = a - 360 * round ((a - prev) / 360);
+        }
+      assert_close (ph[i], prev, 1e-9, "unwrapped phase in z");
+    }
+  lw_zpk_free (m);
+}
+
 /* The sampled plant's unwrapped phase against the factor-sum phase of its exact z-domain form:
  * ZOH of 1/(s(s+1)) at T = 1 s is (e⁻¹ z + 1 − 2e⁻¹)/((z − 1)(z − e⁻¹)) (Ogata, Discrete-Time
  * Control Systems; see test-sampled.c), with 2 whole samples of dead time added as z⁻². Tolerance
@@ -120,6 +149,7 @@ main (void)
     cmocka_unit_test (test_first_order),
     cmocka_unit_test (test_z_domain),
     cmocka_unit_test (test_continuity),
+    cmocka_unit_test (test_continuity_z),
     cmocka_unit_test (test_sampled_plant),
   };
   return cmocka_run_group_tests (tests, NULL, NULL);
