@@ -20,6 +20,14 @@ struct _LwCompensatorPanel
   GtkLabel *error_label;
   GtkLabel *controller_w_label;
   GtkLabel *controller_z_label;
+  GtkDropDown *variant_dropdown;
+  GtkMenuButton *variant_button;
+  GtkEntry *name_entry;
+  GtkButton *rename_button;
+  GtkLabel *name_problem;
+  GtkBox *compare_box;
+  gboolean updating;            /* the variant widgets are being filled from the model */
+  GPtrArray *compared;          /* names of the variants compared (shown as checked) */
 
   LwDesignModel *model;
   /* where new stages go: the w-plane frequency ν (rad/s) of the last gain crossover, or a
@@ -51,6 +59,104 @@ rebuild_rows (LwCompensatorPanel *self)
     }
 }
 
+/* ---- variants ---------------------------------------------------------------------------- */
+
+static gboolean
+is_compared (LwCompensatorPanel *self, const char *name)
+{
+  for (guint i = 0; i < self->compared->len; i++)
+    if (g_strcmp0 (self->compared->pdata[i], name) == 0)
+      return TRUE;
+  return FALSE;
+}
+
+static void
+compare_toggled (GtkCheckButton *b, LwCompensatorPanel *self)
+{
+  if (self->updating)
+    return;
+  const char *name = g_object_get_data (G_OBJECT (b), "lw-variant");
+  gtk_widget_activate_action (GTK_WIDGET (self), "window.variant-compare", "(sb)", name,
+                              gtk_check_button_get_active (b));
+}
+
+static void
+rebuild_variants (LwCompensatorPanel *self)
+{
+  if (self->model == NULL)
+    return;
+  self->updating = TRUE;
+  guint n = lw_design_model_get_n_variants (self->model);
+  guint active = lw_design_model_get_active (self->model);
+  g_autoptr (GtkStringList) list = gtk_string_list_new (NULL);
+  for (guint i = 0; i < n; i++)
+    gtk_string_list_append (list, lw_design_model_get_variant_name (self->model, i));
+  gtk_drop_down_set_model (self->variant_dropdown, G_LIST_MODEL (list));
+  gtk_drop_down_set_selected (self->variant_dropdown, active);
+  gtk_editable_set_text (GTK_EDITABLE (self->name_entry),
+                         lw_design_model_get_variant_name (self->model, active));
+  gtk_widget_set_visible (GTK_WIDGET (self->name_problem), FALSE);
+
+  GtkWidget *c;
+  while ((c = gtk_widget_get_first_child (GTK_WIDGET (self->compare_box))) != NULL)
+    gtk_box_remove (self->compare_box, c);
+  for (guint i = 0; i < n; i++)
+    {
+      const char *name = lw_design_model_get_variant_name (self->model, i);
+      GtkWidget *b = gtk_check_button_new_with_label (name);
+      g_object_set_data_full (G_OBJECT (b), "lw-variant", g_strdup (name), g_free);
+      gtk_check_button_set_active (GTK_CHECK_BUTTON (b), i == active || is_compared (self, name));
+      /* the active variant is always shown */
+      gtk_widget_set_sensitive (b, i != active);
+      g_signal_connect (b, "toggled", G_CALLBACK (compare_toggled), self);
+      gtk_box_append (self->compare_box, b);
+    }
+  self->updating = FALSE;
+}
+
+void
+lw_compensator_panel_set_compared (LwCompensatorPanel *self, const char *const *names,
+                                   guint n)
+{
+  g_return_if_fail (LW_IS_COMPENSATOR_PANEL (self));
+  g_ptr_array_set_size (self->compared, 0);
+  for (guint i = 0; i < n; i++)
+    g_ptr_array_add (self->compared, g_strdup (names[i]));
+  rebuild_variants (self);
+}
+
+static void
+variant_selected (GtkDropDown *dd, GParamSpec *pspec, LwCompensatorPanel *self)
+{
+  guint i = gtk_drop_down_get_selected (dd);
+  if (self->updating || self->model == NULL || i == GTK_INVALID_LIST_POSITION
+      || i == lw_design_model_get_active (self->model))
+    return;
+  gtk_widget_activate_action (GTK_WIDGET (self), "window.variant-switch", "u", i);
+}
+
+static void
+rename_clicked (LwCompensatorPanel *self)
+{
+  if (self->model == NULL)
+    return;
+  const char *name = gtk_editable_get_text (GTK_EDITABLE (self->name_entry));
+  const char *problem =
+    lw_design_model_variant_name_problem (self->model, lw_design_model_get_active (self->model),
+                                          name);
+  gtk_label_set_text (self->name_problem, problem != NULL ? problem : "");
+  gtk_widget_set_visible (GTK_WIDGET (self->name_problem), problem != NULL);
+  if (problem == NULL)
+    gtk_widget_activate_action (GTK_WIDGET (self), "window.variant-rename", "s", name);
+}
+
+void
+lw_compensator_panel_popup_variants (LwCompensatorPanel *self)
+{
+  g_return_if_fail (LW_IS_COMPENSATOR_PANEL (self));
+  gtk_menu_button_popup (self->variant_button);
+}
+
 void
 lw_compensator_panel_set_model (LwCompensatorPanel *self, LwDesignModel *model)
 {
@@ -62,7 +168,9 @@ lw_compensator_panel_set_model (LwCompensatorPanel *self, LwDesignModel *model)
   g_set_object (&self->model, model);
   self->place_nu_rad_s = 0.1 * 2.0 / lw_design_model_get_period_s (model);
   g_signal_connect_swapped (model, "stages-changed", G_CALLBACK (rebuild_rows), self);
+  g_signal_connect_swapped (model, "variants-changed", G_CALLBACK (rebuild_variants), self);
   rebuild_rows (self);
+  rebuild_variants (self);
 }
 
 void
@@ -137,6 +245,7 @@ lw_compensator_panel_dispose (GObject *object)
   if (self->model != NULL)
     g_signal_handlers_disconnect_by_data (self->model, self);
   g_clear_object (&self->model);
+  g_clear_pointer (&self->compared, g_ptr_array_unref);
   gtk_widget_dispose_template (GTK_WIDGET (self), LW_TYPE_COMPENSATOR_PANEL);
   GtkWidget *child;
   while ((child = gtk_widget_get_first_child (GTK_WIDGET (self))) != NULL)
@@ -157,6 +266,12 @@ lw_compensator_panel_class_init (LwCompensatorPanelClass *klass)
   gtk_widget_class_bind_template_child (widget_class, LwCompensatorPanel, error_label);
   gtk_widget_class_bind_template_child (widget_class, LwCompensatorPanel, controller_w_label);
   gtk_widget_class_bind_template_child (widget_class, LwCompensatorPanel, controller_z_label);
+  gtk_widget_class_bind_template_child (widget_class, LwCompensatorPanel, variant_dropdown);
+  gtk_widget_class_bind_template_child (widget_class, LwCompensatorPanel, variant_button);
+  gtk_widget_class_bind_template_child (widget_class, LwCompensatorPanel, name_entry);
+  gtk_widget_class_bind_template_child (widget_class, LwCompensatorPanel, rename_button);
+  gtk_widget_class_bind_template_child (widget_class, LwCompensatorPanel, name_problem);
+  gtk_widget_class_bind_template_child (widget_class, LwCompensatorPanel, compare_box);
   gtk_widget_class_install_action (widget_class, "compensator.add-stage", "s",
                                    add_stage_activated);
   gtk_widget_class_set_layout_manager_type (widget_class, GTK_TYPE_BIN_LAYOUT);
@@ -166,4 +281,9 @@ static void
 lw_compensator_panel_init (LwCompensatorPanel *self)
 {
   gtk_widget_init_template (GTK_WIDGET (self));
+  self->compared = g_ptr_array_new_with_free_func (g_free);
+  g_signal_connect (self->variant_dropdown, "notify::selected", G_CALLBACK (variant_selected),
+                    self);
+  g_signal_connect_swapped (self->rename_button, "clicked", G_CALLBACK (rename_clicked), self);
+  g_signal_connect_swapped (self->name_entry, "activate", G_CALLBACK (rename_clicked), self);
 }

@@ -20,6 +20,14 @@ void lw_compensator_panel_set_model (LwCompensatorPanel *self, LwDesignModel *mo
 /* Shows an evaluation: the compensator's error or its models in w and z; new stages are
  * placed around its gain crossover. */
 void lw_compensator_panel_show_eval (LwCompensatorPanel *self, LwLoopEval *eval);
+/* Variants: a drop-down switches the active one (action window.variant-switch, u); the
+ * Variants popover renames it (window.variant-rename, s), makes a copy or an empty one,
+ * deletes and reorders it (window.variant-copy, -new, -delete, -up, -down), chooses the
+ * variants compared with it (check boxes, window.variant-compare (sb): name, shown) and the
+ * split view (window.split). The window tells the panel which variants are compared. */
+void lw_compensator_panel_set_compared (LwCompensatorPanel *self, const char *const *names,
+                                        guint n);
+void lw_compensator_panel_popup_variants (LwCompensatorPanel *self);
 /* Opens the add-stage menu. */
 void lw_compensator_panel_popup_add_menu (LwCompensatorPanel *self);
 

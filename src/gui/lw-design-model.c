@@ -6,8 +6,11 @@
 #include <math.h>
 #include <string.h>
 
+#include <glib/gi18n.h>
+
 #include "lw-design-model.h"
 #include "lw-expr.h"
+#include "lw-simulate.h"
 
 struct _LwDesignModel
 {
@@ -30,6 +33,7 @@ enum
   SIGNAL_STAGES_CHANGED,
   SIGNAL_REQUIREMENTS_CHANGED,
   SIGNAL_REPLACED,
+  SIGNAL_VARIANTS_CHANGED,
   N_SIGNALS
 };
 static guint signals[N_SIGNALS];
@@ -69,6 +73,11 @@ lw_design_model_class_init (LwDesignModelClass *klass)
   signals[SIGNAL_REPLACED] = g_signal_new ("replaced", G_TYPE_FROM_CLASS (klass),
                                            G_SIGNAL_RUN_LAST, 0, NULL, NULL, NULL,
                                            G_TYPE_NONE, 0);
+  /* Variants added, removed, renamed, reordered or switched (emitted before
+   * "stages-changed" and "changed"). */
+  signals[SIGNAL_VARIANTS_CHANGED] =
+    g_signal_new ("variants-changed", G_TYPE_FROM_CLASS (klass), G_SIGNAL_RUN_LAST, 0, NULL,
+                  NULL, NULL, G_TYPE_NONE, 0);
 }
 
 static void
@@ -132,6 +141,7 @@ lw_design_model_replace (LwDesignModel *self, LwDesign *design)
   lw_design_free (self->doc);
   self->doc = design;
   g_signal_emit (self, signals[SIGNAL_REPLACED], 0);
+  g_signal_emit (self, signals[SIGNAL_VARIANTS_CHANGED], 0);
   g_signal_emit (self, signals[SIGNAL_STAGES_CHANGED], 0);
   g_signal_emit (self, signals[SIGNAL_REQUIREMENTS_CHANGED], 0);
   g_signal_emit (self, signals[SIGNAL_CHANGED], 0);
@@ -323,6 +333,154 @@ lw_design_model_append_requirement (LwDesignModel *self, const LwRequirement *r)
   emit_changed (self);
 }
 
+/* ---- variants ------------------------------------------------------------------------------ */
+
+static void
+emit_variants_changed (LwDesignModel *self, gboolean stages_too)
+{
+  g_signal_emit (self, signals[SIGNAL_VARIANTS_CHANGED], 0);
+  if (stages_too)
+    g_signal_emit (self, signals[SIGNAL_STAGES_CHANGED], 0);
+  emit_changed (self);
+}
+
+guint
+lw_design_model_get_n_variants (LwDesignModel *self)
+{
+  g_return_val_if_fail (LW_IS_DESIGN_MODEL (self), 0);
+  return (guint) self->doc->n_variants;
+}
+
+guint
+lw_design_model_get_active (LwDesignModel *self)
+{
+  g_return_val_if_fail (LW_IS_DESIGN_MODEL (self), 0);
+  return (guint) self->doc->active;
+}
+
+const char *
+lw_design_model_get_variant_name (LwDesignModel *self, guint i)
+{
+  g_return_val_if_fail (LW_IS_DESIGN_MODEL (self), NULL);
+  g_return_val_if_fail (i < self->doc->n_variants, NULL);
+  return self->doc->variants[i].name;
+}
+
+void
+lw_design_model_set_active (LwDesignModel *self, guint i)
+{
+  g_return_if_fail (LW_IS_DESIGN_MODEL (self));
+  g_return_if_fail (i < self->doc->n_variants);
+  if (self->doc->active == i)
+    return;
+  self->doc->active = i;
+  emit_variants_changed (self, TRUE);
+}
+
+char *
+lw_design_model_unused_variant_name (LwDesignModel *self, const char *base)
+{
+  g_return_val_if_fail (LW_IS_DESIGN_MODEL (self), NULL);
+  g_return_val_if_fail (base != NULL && base[0] != '\0', NULL);
+  if (lw_design_find_variant (self->doc, base) < 0)
+    return g_strdup (base);
+  for (guint k = 2;; k++)
+    {
+      char *name = g_strdup_printf ("%s %u", base, k);
+      if (lw_design_find_variant (self->doc, name) < 0)
+        return name;
+      g_free (name);
+    }
+}
+
+const char *
+lw_design_model_variant_name_problem (LwDesignModel *self, guint i, const char *name)
+{
+  g_return_val_if_fail (LW_IS_DESIGN_MODEL (self), NULL);
+  if (name == NULL || name[0] == '\0')
+    return _("A variant needs a name.");
+  if (lw_design_text_problem (name) != NULL)
+    return lw_design_text_problem (name);
+  gssize j = lw_design_find_variant (self->doc, name);
+  if (j >= 0 && (guint) j != i)
+    return _("Another variant has this name.");
+  return NULL;
+}
+
+gboolean
+lw_design_model_add_variant (LwDesignModel *self, const char *name, gboolean copy_active)
+{
+  g_return_val_if_fail (LW_IS_DESIGN_MODEL (self), FALSE);
+  if (lw_design_model_variant_name_problem (self, G_MAXUINT, name) != NULL
+      || self->doc->n_variants >= LW_DESIGN_MAX_VARIANTS)
+    return FALSE;
+  size_t from = self->doc->active;
+  LwDesignVariant *v = lw_design_add_variant (self->doc, name);
+  if (copy_active)
+    {
+      const LwDesignVariant *src = &self->doc->variants[from];
+      lw_design_set_string (&v->notes, src->notes);
+      for (size_t k = 0; k < src->n_stages; k++)
+        lw_design_variant_add_stage (v, &src->stages[k]);
+    }
+  self->doc->active = self->doc->n_variants - 1;
+  emit_variants_changed (self, TRUE);
+  return TRUE;
+}
+
+gboolean
+lw_design_model_rename_variant (LwDesignModel *self, guint i, const char *name)
+{
+  g_return_val_if_fail (LW_IS_DESIGN_MODEL (self), FALSE);
+  g_return_val_if_fail (i < self->doc->n_variants, FALSE);
+  if (lw_design_model_variant_name_problem (self, i, name) != NULL)
+    return FALSE;
+  if (g_strcmp0 (self->doc->variants[i].name, name) == 0)
+    return TRUE;
+  lw_design_set_string (&self->doc->variants[i].name, name);
+  emit_variants_changed (self, FALSE);
+  return TRUE;
+}
+
+gboolean
+lw_design_model_remove_variant (LwDesignModel *self, guint i)
+{
+  g_return_val_if_fail (LW_IS_DESIGN_MODEL (self), FALSE);
+  LwDesign *d = self->doc;
+  if (i >= d->n_variants || d->n_variants <= 1)
+    return FALSE;
+  LwDesignVariant *v = &d->variants[i];
+  g_free (v->name);
+  g_free (v->notes);
+  g_free (v->stages);
+  memmove (&d->variants[i], &d->variants[i + 1], (d->n_variants - i - 1) * sizeof *v);
+  d->n_variants--;
+  gboolean was_active = d->active == i;
+  if (d->active > i || d->active >= d->n_variants)
+    d->active--;
+  emit_variants_changed (self, was_active);
+  return TRUE;
+}
+
+void
+lw_design_model_move_variant (LwDesignModel *self, guint i, int delta)
+{
+  g_return_if_fail (LW_IS_DESIGN_MODEL (self));
+  g_return_if_fail (delta == -1 || delta == 1);
+  LwDesign *d = self->doc;
+  if (i >= d->n_variants || (delta < 0 && i == 0) || (delta > 0 && i + 1 >= d->n_variants))
+    return;
+  guint j = delta < 0 ? i - 1 : i + 1;
+  LwDesignVariant tmp = d->variants[i];
+  d->variants[i] = d->variants[j];
+  d->variants[j] = tmp;
+  if (d->active == i)
+    d->active = j;
+  else if (d->active == j)
+    d->active = i;
+  emit_variants_changed (self, FALSE);
+}
+
 /* ---- evaluation --------------------------------------------------------------------------- */
 
 static void
@@ -385,13 +543,21 @@ LwLoopEval *
 lw_design_model_evaluate_points (LwDesignModel *self, size_t n_points)
 {
   g_return_val_if_fail (LW_IS_DESIGN_MODEL (self), NULL);
+  return lw_design_model_evaluate_variant (self, (guint) self->doc->active, n_points);
+}
+
+LwLoopEval *
+lw_design_model_evaluate_variant (LwDesignModel *self, guint variant, size_t n_points)
+{
+  g_return_val_if_fail (LW_IS_DESIGN_MODEL (self), NULL);
   g_return_val_if_fail (n_points == 0 || n_points >= 16, NULL);
+  g_return_val_if_fail (variant < self->doc->n_variants, NULL);
 
   LwLoopEval *e = g_rc_box_new0 (LwLoopEval);
   lw_error_clear (&e->error);
 
   const LwDesign *d = self->doc;
-  const LwDesignVariant *v = &d->variants[d->active];
+  const LwDesignVariant *v = &d->variants[variant];
   if (lw_expr_parse_proper (d->plant, LW_DOMAIN_S, 0.0, &e->plant_s, &e->error)
       != LW_OK)
     return fail (e, LW_LOOP_FAILED_PLANT);
@@ -413,10 +579,37 @@ lw_design_model_evaluate_points (LwDesignModel *self, size_t n_points)
   if (n_points > 0)
     opts.n_points = n_points;
   LwStatus st = lw_evaluate (plant, controller_z, &opts, &e->ev, &e->error);
-  lw_zpk_free (controller_z);
   if (st != LW_OK)
-    return fail (e, LW_LOOP_FAILED_LOOP);
+    {
+      lw_zpk_free (controller_z);
+      return fail (e, LW_LOOP_FAILED_LOOP);
+    }
   e->sampled = plant;
+
+  /* the simulated reference step (no limits, no continuous output): performance indices and
+   * the peak actuator output; a failure leaves them out, not the loop */
+  LwSimOptions so;
+  lw_sim_options_init (&so);
+  so.compute_delay = d->compute_delay;
+  so.n_steps = opts.n_steps;
+  so.substeps = 0;
+  LwSimPlan *plan = NULL;
+  LwSimResponse *sim = NULL;
+  LwError sim_err;
+  if (lw_sim_plan_new (plant, controller_z, &so, &plan, &sim_err) == LW_OK
+      && lw_sim_run (plan, LW_SIM_REFERENCE_STEP, 1.0, &sim, &sim_err) == LW_OK)
+    {
+      e->has_sim = TRUE;
+      e->indices = sim->indices;
+      e->actuator_peak = 0.0;
+      for (size_t k = 0; k < sim->n; k++)
+        e->actuator_peak = fmax (e->actuator_peak, fabs (sim->u[k]));
+    }
+  else
+    g_debug ("no simulated step: %s", sim_err.message);
+  lw_sim_response_free (sim);
+  lw_sim_plan_free (plan);
+  lw_zpk_free (controller_z);
 
   /* Achieved figures for the requirements; a failure here leaves them out, not the loop. */
   LwError req_err;
@@ -424,6 +617,11 @@ lw_design_model_evaluate_points (LwDesignModel *self, size_t n_points)
                     == LW_OK;
   if (!e->has_achieved)
     g_debug ("no achieved figures: %s", req_err.message);
+  else if (e->has_sim)
+    {
+      e->achieved.has_actuator_peak = true;
+      e->achieved.actuator_peak = e->actuator_peak;
+    }
 
   e->failure = LW_LOOP_OK;
   return e;

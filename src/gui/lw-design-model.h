@@ -24,6 +24,7 @@
 #include "lw-error.h"
 #include "lw-model.h"
 #include "lw-require.h"
+#include "lw-simulate.h"
 #include "lw-stage.h"
 
 G_BEGIN_DECLS
@@ -78,6 +79,31 @@ const LwRequirement *lw_design_model_get_requirement (LwDesignModel *self, guint
 void lw_design_model_set_requirement (LwDesignModel *self, guint i, const LwRequirement *r);
 void lw_design_model_append_requirement (LwDesignModel *self, const LwRequirement *r);
 
+/* Variants: the document holds one or more, each with its own stages; the plant and the
+ * sampling are shared. Every getter and setter of stages above works on the active one.
+ * Each change emits "variants-changed", then ("stages-changed" when the active variant's
+ * stages are others now) "changed". */
+guint lw_design_model_get_n_variants (LwDesignModel *self);
+guint lw_design_model_get_active (LwDesignModel *self);
+const char *lw_design_model_get_variant_name (LwDesignModel *self, guint i);
+void lw_design_model_set_active (LwDesignModel *self, guint i);
+/* NULL when name can be the name of variant i (G_MAXUINT: a new one), else a sentence
+ * saying why not (empty, not storable, taken by another variant). */
+const char *lw_design_model_variant_name_problem (LwDesignModel *self, guint i,
+                                                  const char *name);
+/* base, or "base 2", "base 3" … : the first name no variant has (g_free it). */
+char *lw_design_model_unused_variant_name (LwDesignModel *self, const char *base);
+/* Appends a variant (no stages, or a copy of the active one's stages and notes) and makes it
+ * active; FALSE (nothing changed) for a bad name or too many variants. */
+gboolean lw_design_model_add_variant (LwDesignModel *self, const char *name,
+                                      gboolean copy_active);
+gboolean lw_design_model_rename_variant (LwDesignModel *self, guint i, const char *name);
+/* Removes variant i; FALSE for the last one left. The active index follows its variant, or
+ * moves to the neighbour when the active one goes. */
+gboolean lw_design_model_remove_variant (LwDesignModel *self, guint i);
+/* Swaps variant i with its neighbour i + delta (−1 or +1); nothing when out of range. */
+void lw_design_model_move_variant (LwDesignModel *self, guint i, int delta);
+
 /* Which part of the design an evaluation failed on. */
 typedef enum
 {
@@ -100,7 +126,12 @@ typedef struct
    * model's next evaluation (for the figure adapter, which needs it once per evaluation) */
   const LwSampledPlant *sampled;
   gboolean has_achieved;          /* achieved figures, when ev is set */
-  LwAchieved achieved;
+  LwAchieved achieved;            /* with the actuator peak of the simulated step */
+  /* the simulated reference step of amplitude 1 (lw-simulate.h, no limits), when ev is set
+   * and the simulation ran */
+  gboolean has_sim;
+  LwSimIndices indices;           /* IAE, ISE, ITAE, control effort */
+  double actuator_peak;           /* max |u(kT)|, actuator units per unit of reference */
 } LwLoopEval;
 
 /* Evaluates the design now, on the calling thread. The sampled plant is kept between calls
@@ -112,6 +143,10 @@ LwLoopEval *lw_design_model_evaluate (LwDesignModel *self);
  * as many points as the plots have pixels across. Crossovers and margins are refined to full
  * precision either way; only the drawn curves are coarser. */
 LwLoopEval *lw_design_model_evaluate_points (LwDesignModel *self, size_t n_points);
+/* The same for variant `variant` of the document (not necessarily the active one): plant,
+ * sampling and delay are shared by every variant, the stages are the variant's. */
+LwLoopEval *lw_design_model_evaluate_variant (LwDesignModel *self, guint variant,
+                                              size_t n_points);
 LwLoopEval *lw_loop_eval_ref (LwLoopEval *e);
 void lw_loop_eval_unref (LwLoopEval *e);
 G_DEFINE_AUTOPTR_CLEANUP_FUNC (LwLoopEval, lw_loop_eval_unref)

@@ -28,3 +28,11 @@ lw_gui_label_show_model (GtkLabel *label, const char *prefix, const LwZpk *m)
   g_autofree char *line = g_strdup_printf ("%s = %s", prefix, text);
   gtk_label_set_text (label, line);
 }
+
+void
+lw_gui_set_tooltip (GtkWidget *widget, const char *text)
+{
+  g_return_if_fail (GTK_IS_WIDGET (widget));
+  if (g_strcmp0 (gtk_widget_get_tooltip_text (widget), text) != 0)
+    gtk_widget_set_tooltip_text (widget, text);
+}

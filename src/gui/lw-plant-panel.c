@@ -167,12 +167,12 @@ lw_plant_panel_show_eval (LwPlantPanel *self, LwLoopEval *eval)
   if (eval->failure == LW_LOOP_FAILED_SAMPLING)
     {
       gtk_widget_add_css_class (GTK_WIDGET (self->period_spin), "error");
-      gtk_widget_set_tooltip_text (GTK_WIDGET (self->period_spin), eval->error.message);
+      lw_gui_set_tooltip (GTK_WIDGET (self->period_spin), eval->error.message);
     }
   else
     {
       gtk_widget_remove_css_class (GTK_WIDGET (self->period_spin), "error");
-      gtk_widget_set_tooltip_text (GTK_WIDGET (self->period_spin), NULL);
+      lw_gui_set_tooltip (GTK_WIDGET (self->period_spin), NULL);
     }
 
   const LwEvaluation *ev = eval->ev;

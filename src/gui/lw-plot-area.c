@@ -4,6 +4,7 @@
 #include "config.h"
 
 #include <math.h>
+#include <stdio.h>
 
 #include <glib/gi18n.h>
 
@@ -16,13 +17,34 @@ static const LwPlotView area_views[] = {
 };
 #define N_VIEWS G_N_ELEMENTS (area_views)
 
+/* Views of the split view, each shown twice: the active variant left, the other right. */
+static const LwPlotView split_views[] = {
+  LW_PLOT_VIEW_BODE_Z, LW_PLOT_VIEW_BODE_W, LW_PLOT_VIEW_STEP,
+};
+#define N_SPLIT G_N_ELEMENTS (split_views)
+
+/* A variant's figure data, kept while the same evaluation is shown: a reference variant's
+ * curves are filled once, not again each frame of a drag. */
+typedef struct
+{
+  LwLoopEval *eval;             /* a reference */
+  LwFigureVariant fv;
+  char *name;
+  gboolean used;
+} FigureEntry;
+
 struct _LwPlotArea
 {
   GtkWidget parent_instance;
 
   GtkGrid *grid;
   LwPlotPane *panes[N_VIEWS];
+  LwPlotPane *split_panes[N_SPLIT];   /* the right column of the split view */
   LwPlotLayout layout;
+  gboolean split;
+  GPtrArray *figures;                 /* of FigureEntry *, each on its own (stable address) */
+  gboolean debug;                     /* LW_DEBUG_HANDLES=1: print the series shown */
+  gboolean linking;
 };
 
 G_DEFINE_FINAL_TYPE (LwPlotArea, lw_plot_area, GTK_TYPE_WIDGET)
@@ -43,19 +65,68 @@ view_title (LwPlotView v)
 }
 
 static void
+detach (LwPlotArea *self, GtkWidget *p)
+{
+  if (gtk_widget_get_parent (p) != NULL)
+    gtk_grid_remove (self->grid, p);
+}
+
+static int
+split_row (LwPlotView v)
+{
+  for (guint k = 0; k < N_SPLIT; k++)
+    if (split_views[k] == v)
+      return (int) k;
+  return -1;
+}
+
+static void
 arrange (LwPlotArea *self)
 {
   for (guint i = 0; i < N_VIEWS; i++)
+    g_object_ref (self->panes[i]), detach (self, GTK_WIDGET (self->panes[i]));
+  for (guint k = 0; k < N_SPLIT; k++)
+    g_object_ref (self->split_panes[k]), detach (self, GTK_WIDGET (self->split_panes[k]));
+  for (guint i = 0; i < N_VIEWS; i++)
     {
       GtkWidget *p = GTK_WIDGET (self->panes[i]);
-      g_object_ref (p);
-      if (gtk_widget_get_parent (p) != NULL)
-        gtk_grid_remove (self->grid, p);
-      int col = self->layout == LW_PLOT_LAYOUT_GRID ? (int) (i % 2) : 0;
-      int row = self->layout == LW_PLOT_LAYOUT_GRID ? (int) (i / 2) : (int) i;
-      gtk_grid_attach (self->grid, p, col, row, 1, 1);
+      if (self->split)
+        {
+          int row = split_row (area_views[i]);
+          if (row >= 0)
+            gtk_grid_attach (self->grid, p, 0, row, 1, 1);
+        }
+      else
+        {
+          int col = self->layout == LW_PLOT_LAYOUT_GRID ? (int) (i % 2) : 0;
+          int row = self->layout == LW_PLOT_LAYOUT_GRID ? (int) (i / 2) : (int) i;
+          gtk_grid_attach (self->grid, p, col, row, 1, 1);
+        }
       g_object_unref (p);
     }
+  for (guint k = 0; k < N_SPLIT; k++)
+    {
+      if (self->split)
+        gtk_grid_attach (self->grid, GTK_WIDGET (self->split_panes[k]), 1, (int) k, 1, 1);
+      g_object_unref (self->split_panes[k]);
+    }
+}
+
+void
+lw_plot_area_set_split (LwPlotArea *self, gboolean split)
+{
+  g_return_if_fail (LW_IS_PLOT_AREA (self));
+  if (self->split == split)
+    return;
+  self->split = split;
+  arrange (self);
+}
+
+gboolean
+lw_plot_area_get_split (LwPlotArea *self)
+{
+  g_return_val_if_fail (LW_IS_PLOT_AREA (self), FALSE);
+  return self->split;
 }
 
 void
@@ -149,56 +220,223 @@ set_handles (LwPlotArea *self, LwLoopEval *eval, const LwFigureVariant *fv,
     }
 }
 
+static void
+show_message (LwPlotArea *self, const char *msg)
+{
+  for (guint i = 0; i < N_VIEWS; i++)
+    {
+      lw_plot_pane_set_plot (self->panes[i], NULL, msg);
+      lw_plot_pane_set_handles (self->panes[i], NULL, 0, -1, -1);
+    }
+  for (guint k = 0; k < N_SPLIT; k++)
+    lw_plot_pane_set_plot (self->split_panes[k], NULL, msg);
+}
+
+static void
+figure_entry_free (gpointer data)
+{
+  FigureEntry *e = data;
+  lw_figure_variant_clear (&e->fv);
+  g_clear_pointer (&e->eval, lw_loop_eval_unref);
+  g_clear_pointer (&e->name, g_free);
+  g_free (e);
+}
+
+/* The figure data of eval named name: the kept one when this evaluation was shown last time,
+ * else filled now (eval->sampled must be valid then). NULL with a message in err. */
+static const LwFigureVariant *
+figure_for (LwPlotArea *self, LwLoopEval *eval, const char *name, LwError *err)
+{
+  for (guint i = 0; i < self->figures->len; i++)
+    {
+      FigureEntry *e = self->figures->pdata[i];
+      if (e->eval == eval && g_strcmp0 (e->name, name) == 0)
+        {
+          e->used = TRUE;
+          return &e->fv;
+        }
+    }
+  FigureEntry *e = g_new0 (FigureEntry, 1);
+  e->eval = lw_loop_eval_ref (eval);
+  e->name = g_strdup (name);
+  e->used = TRUE;
+  if (lw_figure_variant_fill (&e->fv, NULL, eval->sampled, eval->ev, err) != LW_OK)
+    {
+      figure_entry_free (e);
+      return NULL;
+    }
+  e->fv.v.name = e->name;
+  g_ptr_array_add (self->figures, e);
+  return &e->fv;
+}
+
+static void
+drop_unused_figures (LwPlotArea *self)
+{
+  for (guint i = self->figures->len; i-- > 0;)
+    {
+      FigureEntry *e = self->figures->pdata[i];
+      if (!e->used)
+        g_ptr_array_remove_index (self->figures, i);
+      else
+        e->used = FALSE;
+    }
+}
+
+/* The figure of one view of the given variants; axes_of: keep that figure's axes. */
+static LwPlot *
+build_view (LwPlotView view, const LwPlotVariant *vars, guint n, double nyquist_rad_s,
+            const LwPlotRequirements *req, const LwPlot *axes_of, char *msg, size_t msg_size)
+{
+  LwPlotInput in = {
+    .view = view,
+    .nyquist_rad_s = nyquist_rad_s,
+    .title = view_title (view),
+    .n_variants = n,
+    .variants = vars,
+    .axes_of = axes_of,
+  };
+  if (req != NULL)
+    in.req = *req;
+  return lw_plot_new (&in, msg, msg_size);
+}
+
+void
+lw_plot_area_show_variants (LwPlotArea *self, const LwAreaVariant *vs, guint n, guint active,
+                            const LwPlotRequirements *req, const LwStage *stages,
+                            guint n_stages, double gain_pin_nu_rad_s, int sel_stage,
+                            int sel_corner, gboolean keep_axes)
+{
+  g_return_if_fail (LW_IS_PLOT_AREA (self));
+  g_return_if_fail (n >= 1 && active < n && vs != NULL);
+
+  LwLoopEval *eval = vs[active].eval;
+  if (eval->ev == NULL)
+    {
+      g_autofree char *msg = g_strdup_printf (_("No loop to draw: %s"), eval->error.message);
+      show_message (self, msg);
+      return;
+    }
+
+  /* the variants drawn: the active one and every other that evaluates, at most the
+   * renderer's limit; the active one keeps its place (its colour) in the list */
+  LwPlotVariant vars[LW_PLOT_MAX_VARIANTS];
+  guint nv = 0, moving = 0;
+  const LwFigureVariant *active_fv = NULL;
+  const LwPlotVariant *other = NULL;
+  for (guint i = 0; i < n && nv < LW_PLOT_MAX_VARIANTS; i++)
+    {
+      if (vs[i].eval == NULL || vs[i].eval->ev == NULL)
+        continue;
+      LwError err;
+      const LwFigureVariant *fv = figure_for (self, vs[i].eval, vs[i].name, &err);
+      if (fv == NULL)
+        {
+          if (i != active)
+            continue;
+          g_autofree char *msg = g_strdup_printf (_("No loop to draw: %s"), err.message);
+          show_message (self, msg);
+          drop_unused_figures (self);
+          return;
+        }
+      if (i == active)
+        {
+          active_fv = fv;
+          moving = nv;
+        }
+      else if (other == NULL)
+        other = &fv->v;
+      vars[nv++] = fv->v;
+    }
+  g_assert (active_fv != NULL);
+  double nyq = G_PI / eval->ev->period_s;
+
+  for (guint i = 0; i < N_VIEWS; i++)
+    {
+      char msg[256] = "";
+      LwPlotPane *pane = self->panes[i];
+      gboolean split_row_view = self->split && split_row (area_views[i]) >= 0;
+      /* the split view's left column shows the active variant alone */
+      const LwPlotVariant *pv = split_row_view ? &active_fv->v : vars;
+      guint pn = split_row_view ? 1 : nv;
+      LwPlot *plot = build_view (area_views[i], pv, pn, nyq, req,
+                                 keep_axes ? lw_plot_pane_get_plot (pane) : NULL, msg,
+                                 sizeof msg);
+      lw_plot_pane_set_plot_moving (pane, plot, plot == NULL ? msg : NULL,
+                                    split_row_view ? 0 : (int) moving);
+      if (self->debug)
+        {
+          printf ("LW-SERIES view=%s variants=%u moving=%u\n",
+                  lw_plot_view_name (area_views[i]), pn, split_row_view ? 0 : moving);
+          fflush (stdout);
+        }
+    }
+  for (guint k = 0; k < N_SPLIT && self->split; k++)
+    {
+      char msg[256] = "";
+      LwPlotPane *left = lw_plot_area_get_pane (self, split_views[k]);
+      LwPlot *plot = NULL;
+      if (other != NULL)
+        /* the same axes as the left column, so the two can be read side by side */
+        plot = build_view (split_views[k], other, 1, nyq, req, lw_plot_pane_get_plot (left), msg,
+                           sizeof msg);
+      else
+        g_snprintf (msg, sizeof msg, "%s", _("Choose a second variant to compare for the split view."));
+      /* a reference: its whole figure is static */
+      lw_plot_pane_set_plot_moving (self->split_panes[k], plot, plot == NULL ? msg : NULL, -1);
+      double lo, hi;
+      if (plot != NULL && lw_plot_pane_get_x_view (left, &lo, &hi))
+        lw_plot_pane_set_x_view (self->split_panes[k], lo, hi);
+    }
+  set_handles (self, eval, active_fv, stages, n_stages, gain_pin_nu_rad_s, sel_stage,
+               sel_corner);
+  drop_unused_figures (self);
+}
+
 void
 lw_plot_area_show_eval (LwPlotArea *self, LwLoopEval *eval, const LwPlotRequirements *req,
                         const LwStage *stages, guint n_stages, double gain_pin_nu_rad_s,
                         int sel_stage, int sel_corner)
 {
-  g_return_if_fail (LW_IS_PLOT_AREA (self));
   g_return_if_fail (eval != NULL);
+  LwAreaVariant v = { .eval = eval, .name = NULL };
+  lw_plot_area_show_variants (self, &v, 1, 0, req, stages, n_stages, gain_pin_nu_rad_s,
+                              sel_stage, sel_corner, FALSE);
+}
 
-  if (eval->ev == NULL)
-    {
-      g_autofree char *msg = g_strdup_printf (_("No loop to draw: %s"), eval->error.message);
-      for (guint i = 0; i < N_VIEWS; i++)
-        {
-          lw_plot_pane_set_plot (self->panes[i], NULL, msg);
-          lw_plot_pane_set_handles (self->panes[i], NULL, 0, -1, -1);
-        }
-      return;
-    }
-
-  LwFigureVariant fv;
-  LwError err;
-  if (lw_figure_variant_fill (&fv, NULL, eval->sampled, eval->ev, &err) != LW_OK)
-    {
-      g_autofree char *msg = g_strdup_printf (_("No loop to draw: %s"), err.message);
-      lw_figure_variant_clear (&fv);
-      for (guint i = 0; i < N_VIEWS; i++)
-        {
-          lw_plot_pane_set_plot (self->panes[i], NULL, msg);
-          lw_plot_pane_set_handles (self->panes[i], NULL, 0, -1, -1);
-        }
-      return;
-    }
-
+/* Zoom and pan: every Bode pane of the same view follows the one the user moved. */
+static void
+pane_view_changed (LwPlotPane *pane, double lo, double hi, LwPlotArea *self)
+{
+  if (self->linking)
+    return;
+  self->linking = TRUE;
+  LwPlotView v = lw_plot_pane_get_view (pane);
   for (guint i = 0; i < N_VIEWS; i++)
-    {
-      LwPlotInput in = {
-        .view = area_views[i],
-        .nyquist_rad_s = G_PI / eval->ev->period_s,
-        .title = view_title (area_views[i]),
-        .n_variants = 1,
-        .variants = &fv.v,
-      };
-      if (req != NULL)
-        in.req = *req;
-      char msg[256] = "";
-      LwPlot *plot = lw_plot_new (&in, msg, sizeof msg);
-      lw_plot_pane_set_plot (self->panes[i], plot, plot == NULL ? msg : NULL);
-    }
-  set_handles (self, eval, &fv, stages, n_stages, gain_pin_nu_rad_s, sel_stage, sel_corner);
-  lw_figure_variant_clear (&fv);
+    if (self->panes[i] != pane && area_views[i] == v)
+      lw_plot_pane_set_x_view (self->panes[i], lo, hi);
+  for (guint k = 0; k < N_SPLIT; k++)
+    if (self->split_panes[k] != pane && split_views[k] == v)
+      lw_plot_pane_set_x_view (self->split_panes[k], lo, hi);
+  self->linking = FALSE;
+}
+
+void
+lw_plot_area_reset_view (LwPlotArea *self)
+{
+  g_return_if_fail (LW_IS_PLOT_AREA (self));
+  for (guint i = 0; i < N_VIEWS; i++)
+    lw_plot_pane_reset_view (self->panes[i]);
+  for (guint k = 0; k < N_SPLIT; k++)
+    lw_plot_pane_reset_view (self->split_panes[k]);
+}
+
+LwPlotPane *
+lw_plot_area_get_split_pane (LwPlotArea *self, LwPlotView view)
+{
+  g_return_val_if_fail (LW_IS_PLOT_AREA (self), NULL);
+  int k = split_row (view);
+  return k >= 0 ? self->split_panes[k] : NULL;
 }
 
 LwPlotPane *
@@ -250,6 +488,8 @@ lw_plot_area_set_theme (LwPlotArea *self, LwPlotTheme theme)
   g_return_if_fail (LW_IS_PLOT_AREA (self));
   for (guint i = 0; i < N_VIEWS; i++)
     lw_plot_pane_set_theme (self->panes[i], theme);
+  for (guint k = 0; k < N_SPLIT; k++)
+    lw_plot_pane_set_theme (self->split_panes[k], theme);
 }
 
 static void
@@ -262,6 +502,12 @@ lw_plot_area_dispose (GObject *object)
       gtk_widget_unparent (GTK_WIDGET (self->grid));
       self->grid = NULL;
     }
+  /* the area's own references (see init), after the grid let go of its children */
+  for (guint k = 0; k < N_SPLIT; k++)
+    g_clear_object (&self->split_panes[k]);
+  for (guint i = 0; i < N_VIEWS; i++)
+    g_clear_object (&self->panes[i]);
+  g_clear_pointer (&self->figures, g_ptr_array_unref);
   G_OBJECT_CLASS (lw_plot_area_parent_class)->dispose (object);
 }
 
@@ -282,8 +528,20 @@ lw_plot_area_init (LwPlotArea *self)
   gtk_grid_set_row_spacing (self->grid, 4);
   gtk_grid_set_column_spacing (self->grid, 4);
   gtk_widget_set_parent (GTK_WIDGET (self->grid), GTK_WIDGET (self));
+  self->figures = g_ptr_array_new_with_free_func (figure_entry_free);
+  self->debug = g_strcmp0 (g_getenv ("LW_DEBUG_HANDLES"), "1") == 0;
+  /* every pane is held by the area too, so the ones off the grid (split view) live on */
   for (guint i = 0; i < N_VIEWS; i++)
-    self->panes[i] = lw_plot_pane_new (area_views[i]);
+    {
+      self->panes[i] = g_object_ref_sink (lw_plot_pane_new (area_views[i]));
+      g_signal_connect (self->panes[i], "x-view-changed", G_CALLBACK (pane_view_changed), self);
+    }
+  for (guint k = 0; k < N_SPLIT; k++)
+    {
+      self->split_panes[k] = g_object_ref_sink (lw_plot_pane_new (split_views[k]));
+      g_signal_connect (self->split_panes[k], "x-view-changed", G_CALLBACK (pane_view_changed),
+                        self);
+    }
   self->layout = LW_PLOT_LAYOUT_GRID;
   arrange (self);
 }

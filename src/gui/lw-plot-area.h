@@ -38,6 +38,40 @@ void lw_plot_area_show_eval (LwPlotArea *self, LwLoopEval *eval, const LwPlotReq
                              const LwStage *stages, guint n_stages, double gain_pin_nu_rad_s,
                              int sel_stage, int sel_corner);
 
+/* One variant to show: its evaluation (eval->sampled valid when the area has not shown this
+ * evaluation before) and its legend name (NULL: none). */
+typedef struct
+{
+  LwLoopEval *eval;
+  const char *name;
+} LwAreaVariant;
+
+/* Shows several variants overlaid in every view (compare), in the order given (which sets
+ * their colours and dashes), with the handles of the active one vs[active] (its stages as in
+ * lw_plot_area_show_eval). A variant whose evaluation failed is left out; the figure data of
+ * an evaluation shown before is kept, not filled again (so references cost nothing during a
+ * drag). Each pane draws the active variant over a cached layer of everything else, redrawn
+ * only when that changed. keep_axes: keep every pane's axes (during a drag). In the split
+ * view the left column shows the active variant alone and the right one the first other
+ * variant, with the same axes. With LW_DEBUG_HANDLES=1 prints one line per view,
+ * "LW-SERIES view=NAME variants=N moving=I". */
+void lw_plot_area_show_variants (LwPlotArea *self, const LwAreaVariant *vs, guint n,
+                                 guint active, const LwPlotRequirements *req,
+                                 const LwStage *stages, guint n_stages,
+                                 double gain_pin_nu_rad_s, int sel_stage, int sel_corner,
+                                 gboolean keep_axes);
+
+/* Split view: Bode in z, Bode in w and the step response of the active variant (left) and of
+ * the first other variant shown (right), with linked frequency axes. */
+void lw_plot_area_set_split (LwPlotArea *self, gboolean split);
+gboolean lw_plot_area_get_split (LwPlotArea *self);
+/* The right-column pane of a view in the split view (NULL: that view is not split). */
+LwPlotPane *lw_plot_area_get_split_pane (LwPlotArea *self, LwPlotView view);
+
+/* Every pane back to its figure's own frequency range (zoom and pan are linked: every Bode
+ * pane of a view follows the one the user zoomed or panned). */
+void lw_plot_area_reset_view (LwPlotArea *self);
+
 /* The pane of a view shown by the area (NULL when the area does not show it). */
 LwPlotPane *lw_plot_area_get_pane (LwPlotArea *self, LwPlotView view);
 

@@ -19,9 +19,20 @@ struct _LwPlotPane
   LwPlot *plot;
   char *message;
 
-  /* the static layer, at device resolution, valid for cache_width × cache_height */
+  /* the static layer (or, with a moving variant, the base layer without it), at device
+   * resolution, valid for cache_width × cache_height */
   cairo_surface_t *cache;
   int cache_width, cache_height, cache_scale;
+  int moving;                   /* variant drawn per frame over the cached base, or −1 */
+
+  /* zoom and pan of the frequency axis (Bode views), kept across figures */
+  gboolean has_view;
+  double view_lo, view_hi;
+  gboolean panning;
+  double pan_lo, pan_hi, pan_start_x;
+  GtkGesture *pan;
+
+  guint64 n_base_draws;         /* LW_DEBUG_HANDLES: how often the base layer was drawn */
 
   gboolean has_hover;
   double hover_x, hover_y;
@@ -44,9 +55,17 @@ enum
   SIGNAL_DRAG_BEGIN,
   SIGNAL_DRAG_UPDATE,
   SIGNAL_DRAG_END,
+  SIGNAL_VIEW_CHANGED,
   N_SIGNALS
 };
 static guint signals[N_SIGNALS];
+
+static void pan_begin_at (LwPlotPane *self, double x);
+static void pan_to (LwPlotPane *self, double x);
+static gboolean scrolled (GtkEventControllerScroll *c, double dx, double dy, LwPlotPane *self);
+static void pan_gesture_begin (GtkGestureDrag *g, double x, double y, LwPlotPane *self);
+static void pan_gesture_update (GtkGestureDrag *g, double dx, double dy, LwPlotPane *self);
+static void pan_gesture_end (GtkGestureDrag *g, double dx, double dy, LwPlotPane *self);
 
 static void
 invalidate_cache (LwPlotPane *self)
@@ -163,14 +182,20 @@ draw (GtkDrawingArea *area, cairo_t *cr, int width, int height, gpointer user_da
                                                 height * scale);
       cairo_surface_set_device_scale (self->cache, scale, scale);
       cairo_t *c = cairo_create (self->cache);
-      lw_plot_draw_static (self->plot, c, width, height);
+      if (self->moving >= 0)
+        lw_plot_draw_base (self->plot, c, width, height, (size_t) self->moving);
+      else
+        lw_plot_draw_static (self->plot, c, width, height);
       cairo_destroy (c);
       self->cache_width = width;
       self->cache_height = height;
       self->cache_scale = scale;
+      self->n_base_draws++;
     }
   cairo_set_source_surface (cr, self->cache, 0, 0);
   cairo_paint (cr);
+  if (self->moving >= 0)
+    lw_plot_draw_variant (self->plot, cr, width, height, (size_t) self->moving);
 
   /* lw_plot_draw_overlay uses the layout of the last draw, which was for this size. */
   LwPlotHandle ph[64];
@@ -248,6 +273,15 @@ values_at (LwPlotPane *self, double px, double py, double *x, double *y)
 static void
 drag_begin (GtkGestureDrag *g, double x, double y, LwPlotPane *self)
 {
+  GdkModifierType mods =
+    gtk_event_controller_get_current_event_state (GTK_EVENT_CONTROLLER (g));
+  if ((mods & GDK_CONTROL_MASK) && (self->view == LW_PLOT_VIEW_BODE_W
+                                    || self->view == LW_PLOT_VIEW_BODE_Z))
+    {
+      gtk_gesture_set_state (GTK_GESTURE (g), GTK_EVENT_SEQUENCE_CLAIMED);
+      pan_begin_at (self, x);
+      return;
+    }
   int i = handle_at (self, x, y);
   if (i < 0)
     {
@@ -271,6 +305,11 @@ drag_begin (GtkGestureDrag *g, double x, double y, LwPlotPane *self)
 static void
 drag_update (GtkGestureDrag *g, double dx, double dy, LwPlotPane *self)
 {
+  if (self->panning)
+    {
+      pan_to (self, self->pan_start_x + dx);
+      return;
+    }
   if (self->dragging < 0 || self->plot == NULL)
     return;
   double px = self->drag_start_x + dx, py = self->drag_start_y + dy;
@@ -291,6 +330,7 @@ drag_update (GtkGestureDrag *g, double dx, double dy, LwPlotPane *self)
 static void
 drag_end (GtkGestureDrag *g, double dx, double dy, LwPlotPane *self)
 {
+  self->panning = FALSE;
   if (self->dragging < 0)
     return;
   self->dragging = -1;
@@ -331,6 +371,11 @@ lw_plot_pane_class_init (LwPlotPaneClass *klass)
   signals[SIGNAL_DRAG_END] = g_signal_new ("handle-drag-end", G_TYPE_FROM_CLASS (klass),
                                            G_SIGNAL_RUN_LAST, 0, NULL, NULL, NULL,
                                            G_TYPE_NONE, 0);
+  /* (double lo, double hi): the visible frequency range (rad/s), zoomed or panned by the
+   * user */
+  signals[SIGNAL_VIEW_CHANGED] = g_signal_new ("x-view-changed", G_TYPE_FROM_CLASS (klass),
+                                               G_SIGNAL_RUN_LAST, 0, NULL, NULL, NULL,
+                                               G_TYPE_NONE, 2, G_TYPE_DOUBLE, G_TYPE_DOUBLE);
 }
 
 static void
@@ -358,6 +403,19 @@ lw_plot_pane_init (LwPlotPane *self)
   g_signal_connect (self->drag, "drag-update", G_CALLBACK (drag_update), self);
   g_signal_connect (self->drag, "drag-end", G_CALLBACK (drag_end), self);
   gtk_widget_add_controller (GTK_WIDGET (self), GTK_EVENT_CONTROLLER (self->drag));
+
+  GtkEventController *sc = gtk_event_controller_scroll_new (GTK_EVENT_CONTROLLER_SCROLL_VERTICAL
+                                                            | GTK_EVENT_CONTROLLER_SCROLL_DISCRETE);
+  g_signal_connect (sc, "scroll", G_CALLBACK (scrolled), self);
+  gtk_widget_add_controller (GTK_WIDGET (self), sc);
+
+  self->pan = gtk_gesture_drag_new ();
+  gtk_gesture_single_set_button (GTK_GESTURE_SINGLE (self->pan), GDK_BUTTON_MIDDLE);
+  g_signal_connect (self->pan, "drag-begin", G_CALLBACK (pan_gesture_begin), self);
+  g_signal_connect (self->pan, "drag-update", G_CALLBACK (pan_gesture_update), self);
+  g_signal_connect (self->pan, "drag-end", G_CALLBACK (pan_gesture_end), self);
+  gtk_widget_add_controller (GTK_WIDGET (self), GTK_EVENT_CONTROLLER (self->pan));
+  self->moving = -1;
 }
 
 LwPlotPane *
@@ -378,15 +436,164 @@ lw_plot_pane_get_view (LwPlotPane *self)
 void
 lw_plot_pane_set_plot (LwPlotPane *self, LwPlot *plot, const char *message)
 {
+  lw_plot_pane_set_plot_moving (self, plot, message, -1);
+}
+
+void
+lw_plot_pane_set_plot_moving (LwPlotPane *self, LwPlot *plot, const char *message, int moving)
+{
   g_return_if_fail (LW_IS_PLOT_PANE (self));
 
+  if (plot != NULL)
+    {
+      lw_plot_set_theme (plot, self->theme);
+      lw_plot_set_decimate (plot, true);
+      if (self->has_view && !lw_plot_set_x_view (plot, self->view_lo, self->view_hi))
+        self->has_view = FALSE;
+    }
+  /* the cached base stays when only the moving variant differs */
+  gboolean keep = plot != NULL && self->plot != NULL && self->cache != NULL && moving >= 0
+                  && moving == self->moving
+                  && lw_plot_base_equal (self->plot, plot, (size_t) moving);
   g_clear_pointer (&self->plot, lw_plot_free);
   self->plot = plot;
-  if (plot != NULL)
-    lw_plot_set_theme (plot, self->theme);
+  self->moving = moving;
   g_free (self->message);
   self->message = g_strdup (message);
+  if (keep)
+    gtk_widget_queue_draw (GTK_WIDGET (self));
+  else
+    invalidate_cache (self);
+}
+
+guint64
+lw_plot_pane_get_n_base_draws (LwPlotPane *self)
+{
+  g_return_val_if_fail (LW_IS_PLOT_PANE (self), 0);
+  return self->n_base_draws;
+}
+
+/* ---- zoom and pan ---------------------------------------------------------------------- */
+
+static void
+apply_view (LwPlotPane *self, double lo, double hi, gboolean notify)
+{
+  if (self->plot == NULL || !lw_plot_set_x_view (self->plot, lo, hi))
+    return;
+  self->has_view = TRUE;
+  self->view_lo = lo;
+  self->view_hi = hi;
   invalidate_cache (self);
+  if (notify)
+    g_signal_emit (self, signals[SIGNAL_VIEW_CHANGED], 0, lo, hi);
+}
+
+void
+lw_plot_pane_set_x_view (LwPlotPane *self, double lo, double hi)
+{
+  g_return_if_fail (LW_IS_PLOT_PANE (self));
+  apply_view (self, lo, hi, FALSE);
+}
+
+void
+lw_plot_pane_reset_view (LwPlotPane *self)
+{
+  g_return_if_fail (LW_IS_PLOT_PANE (self));
+  if (!self->has_view)
+    return;
+  self->has_view = FALSE;
+  if (self->plot != NULL)
+    {
+      double lo, hi;
+      lw_plot_full_x_range (self->plot, &lo, &hi);
+      lw_plot_set_x_view (self->plot, lo, hi);
+    }
+  invalidate_cache (self);
+}
+
+gboolean
+lw_plot_pane_get_x_view (LwPlotPane *self, double *lo, double *hi)
+{
+  g_return_val_if_fail (LW_IS_PLOT_PANE (self), FALSE);
+  return self->plot != NULL && lw_plot_get_x_view (self->plot, lo, hi);
+}
+
+/* Pixel x → log10 of the frequency under it, on the visible axis of the magnitude panel. */
+static gboolean
+pixel_log_f (LwPlotPane *self, double px, double *log_f, double *left, double *width)
+{
+  double top, h, lo, hi;
+  if (self->plot == NULL || !lw_plot_panel_rect (self->plot, 0, left, &top, width, &h)
+      || *width <= 0 || !lw_plot_get_x_view (self->plot, &lo, &hi))
+    return FALSE;
+  double t = (px - *left) / *width;
+  *log_f = log10 (lo) + t * (log10 (hi) - log10 (lo));
+  return TRUE;
+}
+
+static gboolean
+scrolled (GtkEventControllerScroll *c, double dx, double dy, LwPlotPane *self)
+{
+  double lf, left, width, lo, hi;
+  if (dy == 0 || !self->has_hover || !pixel_log_f (self, self->hover_x, &lf, &left, &width)
+      || !lw_plot_get_x_view (self->plot, &lo, &hi))
+    return FALSE;
+  /* zoom about the frequency under the pointer: 1.25× per scroll step */
+  double k = pow (1.25, dy);
+  double a = log10 (lo), b = log10 (hi);
+  double na = lf + (a - lf) * k, nb = lf + (b - lf) * k;
+  if (nb - na < 0.05 || nb - na > 12)
+    return TRUE;
+  apply_view (self, pow (10.0, na), pow (10.0, nb), TRUE);
+  return TRUE;
+}
+
+static void
+pan_begin_at (LwPlotPane *self, double x)
+{
+  double lo, hi;
+  if (self->plot == NULL || !lw_plot_get_x_view (self->plot, &lo, &hi))
+    return;
+  self->panning = TRUE;
+  self->pan_lo = lo;
+  self->pan_hi = hi;
+  self->pan_start_x = x;
+}
+
+static void
+pan_to (LwPlotPane *self, double x)
+{
+  double left, top, w, h;
+  if (!self->panning || !lw_plot_panel_rect (self->plot, 0, &left, &top, &w, &h) || w <= 0)
+    return;
+  double decades = log10 (self->pan_hi / self->pan_lo);
+  double shift = -(x - self->pan_start_x) / w * decades;
+  double f = pow (10.0, shift);
+  apply_view (self, self->pan_lo * f, self->pan_hi * f, TRUE);
+}
+
+static void
+pan_gesture_begin (GtkGestureDrag *g, double x, double y, LwPlotPane *self)
+{
+  if (self->view != LW_PLOT_VIEW_BODE_W && self->view != LW_PLOT_VIEW_BODE_Z)
+    {
+      gtk_gesture_set_state (GTK_GESTURE (g), GTK_EVENT_SEQUENCE_DENIED);
+      return;
+    }
+  gtk_gesture_set_state (GTK_GESTURE (g), GTK_EVENT_SEQUENCE_CLAIMED);
+  pan_begin_at (self, x);
+}
+
+static void
+pan_gesture_update (GtkGestureDrag *g, double dx, double dy, LwPlotPane *self)
+{
+  pan_to (self, self->pan_start_x + dx);
+}
+
+static void
+pan_gesture_end (GtkGestureDrag *g, double dx, double dy, LwPlotPane *self)
+{
+  self->panning = FALSE;
 }
 
 LwPlot *

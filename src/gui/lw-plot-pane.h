@@ -45,6 +45,23 @@ LwPlotView lw_plot_pane_get_view (LwPlotPane *self);
 
 /* Takes the figure (may be NULL: then `message` is shown instead, may be NULL). */
 void lw_plot_pane_set_plot (LwPlotPane *self, LwPlot *plot, const char *message);
+/* The same, with variant `moving` of the figure (−1: none) drawn each frame over a cached
+ * base layer of everything else (lw_plot_draw_base): the base is redrawn only when
+ * lw_plot_base_equal says the new figure's differs from the last one's. */
+void lw_plot_pane_set_plot_moving (LwPlotPane *self, LwPlot *plot, const char *message,
+                                   int moving);
+/* How many times the cached static or base layer has been drawn (for tests and the
+ * benchmark). */
+guint64 lw_plot_pane_get_n_base_draws (LwPlotPane *self);
+
+/* Zoom and pan of the frequency axis (Bode views): scrolling zooms by 1.25× per step about
+ * the frequency under the pointer; dragging with the middle button, or with Ctrl and the
+ * primary button, pans. Each user change emits "x-view-changed" (double lo, double hi, rad/s).
+ * The range is kept for later figures; set_x_view sets it without the signal (linked panes),
+ * reset_view returns to the figure's own range. */
+void lw_plot_pane_set_x_view (LwPlotPane *self, double lo, double hi);
+void lw_plot_pane_reset_view (LwPlotPane *self);
+gboolean lw_plot_pane_get_x_view (LwPlotPane *self, double *lo, double *hi);
 void lw_plot_pane_set_theme (LwPlotPane *self, LwPlotTheme theme);
 
 /* Replaces the handles (copied); the one of (sel_stage, sel_corner) is drawn active

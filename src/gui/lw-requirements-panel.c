@@ -7,6 +7,7 @@
 
 #include <glib/gi18n.h>
 
+#include "lw-gui-util.h"
 #include "lw-requirements-panel.h"
 
 struct _LwRequirementsPanel
@@ -199,7 +200,7 @@ show_requirements (LwRequirementsPanel *self, LwLoopEval *eval)
         }
       gtk_label_set_text (achieved, value != NULL ? value : "—");
       gtk_label_set_text (GTK_LABEL (result), verdict);
-      gtk_widget_set_tooltip_text (result, tip);
+      lw_gui_set_tooltip (result, tip);
     }
 }
 

@@ -34,6 +34,7 @@
 #include <glib/gi18n.h>
 #include <glib/gstdio.h>
 
+#include "lw-compare-table.h"
 #include "lw-compensator-panel.h"
 #include "lw-design-model.h"
 #include "lw-design.h"
@@ -59,7 +60,13 @@ struct _LwWindow
   LwCompensatorPanel *compensator_panel;
   LwRequirementsPanel *requirements_panel;
   LwPlotArea *plot_area;
+  LwCompareTable *compare_table;
   GMenu *recent_menu;
+
+  /* variants shown beside the active one (names; the active one is always shown) */
+  GPtrArray *compared;
+  gboolean split;
+  GHashTable *ref_evals;        /* variant name → RefEval: references, evaluated once */
 
   LwDesignModel *model;
   LwLoopEval *eval;             /* the evaluation on show */
@@ -107,6 +114,7 @@ enum
 {
   PROP_0,
   PROP_ONE_COLUMN,
+  PROP_SPLIT,
   N_PROPS
 };
 static GParamSpec *props[N_PROPS];
@@ -147,6 +155,46 @@ plot_requirements (LwWindow *self, LwPlotRequirements *req)
   req->min_gain_margin_db = gm;
 }
 
+/* A reference variant's evaluation, kept while what it was evaluated from is unchanged. */
+typedef struct
+{
+  GBytes *key;
+  LwLoopEval *eval;
+} RefEval;
+
+static void
+ref_eval_free (gpointer data)
+{
+  RefEval *r = data;
+  g_bytes_unref (r->key);
+  lw_loop_eval_unref (r->eval);
+  g_free (r);
+}
+
+/* What the evaluation of variant i depends on: the shared plant and sampling, its stages. */
+static GBytes *
+variant_key (const LwDesign *d, guint i)
+{
+  GByteArray *b = g_byte_array_new ();
+  const LwDesignVariant *v = &d->variants[i];
+  g_byte_array_append (b, (const guint8 *) d->plant, (guint) strlen (d->plant) + 1);
+  g_byte_array_append (b, (const guint8 *) &d->dead_time_s, sizeof d->dead_time_s);
+  g_byte_array_append (b, (const guint8 *) &d->period_s, sizeof d->period_s);
+  g_byte_array_append (b, (const guint8 *) &d->compute_delay, sizeof d->compute_delay);
+  if (v->n_stages > 0)
+    g_byte_array_append (b, (const guint8 *) v->stages, (guint) (v->n_stages * sizeof *v->stages));
+  return g_byte_array_free_to_bytes (b);
+}
+
+static gboolean
+is_compared (LwWindow *self, const char *name)
+{
+  for (guint i = 0; i < self->compared->len; i++)
+    if (g_strcmp0 (self->compared->pdata[i], name) == 0)
+      return TRUE;
+  return FALSE;
+}
+
 static void
 show_handles_and_plots (LwWindow *self)
 {
@@ -154,8 +202,58 @@ show_handles_and_plots (LwWindow *self)
   plot_requirements (self, &req);
   const LwDesign *d = lw_design_model_get_design (self->model);
   const LwDesignVariant *v = &d->variants[d->active];
-  lw_plot_area_show_eval (self->plot_area, self->eval, &req, v->stages, (guint) v->n_stages,
-                          self->gain_pin_nu, self->sel_stage, self->sel_corner);
+
+  /* the variants shown, in document order: the active one and those compared with it */
+  LwAreaVariant vs[LW_PLOT_MAX_VARIANTS];
+  const char *names[LW_PLOT_MAX_VARIANTS];
+  LwLoopEval *evals[LW_PLOT_MAX_VARIANTS];
+  guint n = 0, active = 0;
+  GHashTable *kept = g_hash_table_new_full (g_str_hash, g_str_equal, g_free, ref_eval_free);
+  for (guint i = 0; i < d->n_variants && n < LW_PLOT_MAX_VARIANTS; i++)
+    {
+      const char *name = d->variants[i].name;
+      LwLoopEval *e = NULL;
+      if (i == d->active)
+        {
+          active = n;
+          e = self->eval;
+        }
+      else if (is_compared (self, name))
+        {
+          g_autoptr (GBytes) key = variant_key (d, i);
+          RefEval *r = NULL;
+          char *old_key = NULL;
+          if (g_hash_table_steal_extended (self->ref_evals, name, (gpointer *) &old_key,
+                                           (gpointer *) &r))
+            g_free (old_key);
+          if (r == NULL || !g_bytes_equal (r->key, key))
+            {
+              if (r != NULL)
+                ref_eval_free (r);
+              r = g_new0 (RefEval, 1);
+              r->key = g_bytes_ref (key);
+              r->eval = lw_design_model_evaluate_variant (self->model, i, 0);
+            }
+          g_hash_table_insert (kept, g_strdup (name), r);
+          e = r->eval;
+        }
+      else
+        continue;
+      vs[n] = (LwAreaVariant) { .eval = e, .name = name };
+      names[n] = name;
+      evals[n] = e;
+      n++;
+    }
+  g_hash_table_unref (self->ref_evals);
+  self->ref_evals = kept;
+  if (n == 1)
+    vs[0].name = NULL;   /* one variant: no legend */
+
+  lw_plot_area_show_variants (self->plot_area, vs, n, active, &req, v->stages,
+                              (guint) v->n_stages, self->gain_pin_nu, self->sel_stage,
+                              self->sel_corner, self->dragging);
+  lw_compare_table_show (self->compare_table, names, evals, n, active, d->requirements,
+                         (guint) d->n_requirements);
 }
 
 /* Evaluates the design and shows the result everywhere. Synchronous: a loop evaluation takes
@@ -366,6 +464,198 @@ set_model (LwWindow *self, LwDesignModel *model)
   g_signal_connect_swapped (model, "changed", G_CALLBACK (model_changed), self);
   g_signal_connect_swapped (model, "replaced", G_CALLBACK (model_replaced), self);
   reevaluate (self);
+}
+
+/* ---- variants ------------------------------------------------------------------------------ */
+
+static void
+refresh_compared (LwWindow *self)
+{
+  lw_compensator_panel_set_compared (self->compensator_panel,
+                                     (const char *const *) self->compared->pdata,
+                                     self->compared->len);
+}
+
+static void
+set_compared (LwWindow *self, const char *name, gboolean shown)
+{
+  for (guint i = 0; i < self->compared->len; i++)
+    if (g_strcmp0 (self->compared->pdata[i], name) == 0)
+      {
+        if (shown)
+          return;
+        g_ptr_array_remove_index (self->compared, i);
+        return;
+      }
+  if (shown)
+    g_ptr_array_add (self->compared, g_strdup (name));
+}
+
+/* Before and after each variant action: it is one undo step of its own. */
+static gboolean
+variant_action_begin (LwWindow *self)
+{
+  if (self->dragging)
+    return FALSE;
+  commit_now (self);
+  self->sel_stage = -1;
+  return TRUE;
+}
+
+static void
+variant_action_end (LwWindow *self)
+{
+  commit_now (self);
+  refresh_compared (self);
+  update_undo_actions (self);
+}
+
+static void
+variant_add (LwWindow *self, gboolean copy)
+{
+  if (!variant_action_begin (self))
+    return;
+  guint active = lw_design_model_get_active (self->model);
+  g_autofree char *from = g_strdup (lw_design_model_get_variant_name (self->model, active));
+  g_autofree char *base = copy ? g_strdup_printf (_("%s copy"), from) : g_strdup (_("variant"));
+  g_autofree char *name = lw_design_model_unused_variant_name (self->model, base);
+  if (lw_design_model_add_variant (self->model, name, copy) && copy)
+    set_compared (self, from, TRUE);   /* the original stays in view as the reference */
+  variant_action_end (self);
+}
+
+static void
+variant_copy_activated (GtkWidget *widget, const char *action, GVariant *param)
+{
+  variant_add (LW_WINDOW (widget), TRUE);
+}
+
+static void
+variant_new_activated (GtkWidget *widget, const char *action, GVariant *param)
+{
+  variant_add (LW_WINDOW (widget), FALSE);
+}
+
+static void
+variant_delete_activated (GtkWidget *widget, const char *action, GVariant *param)
+{
+  LwWindow *self = LW_WINDOW (widget);
+  if (!variant_action_begin (self))
+    return;
+  guint active = lw_design_model_get_active (self->model);
+  g_autofree char *name = g_strdup (lw_design_model_get_variant_name (self->model, active));
+  if (lw_design_model_remove_variant (self->model, active))
+    set_compared (self, name, FALSE);
+  variant_action_end (self);
+}
+
+static void
+variant_move (LwWindow *self, int delta)
+{
+  if (!variant_action_begin (self))
+    return;
+  lw_design_model_move_variant (self->model, lw_design_model_get_active (self->model), delta);
+  variant_action_end (self);
+}
+
+static void
+variant_up_activated (GtkWidget *widget, const char *action, GVariant *param)
+{
+  variant_move (LW_WINDOW (widget), -1);
+}
+
+static void
+variant_down_activated (GtkWidget *widget, const char *action, GVariant *param)
+{
+  variant_move (LW_WINDOW (widget), +1);
+}
+
+static void
+variant_rename_activated (GtkWidget *widget, const char *action, GVariant *param)
+{
+  LwWindow *self = LW_WINDOW (widget);
+  if (!variant_action_begin (self))
+    return;
+  lw_design_model_rename_variant (self->model, lw_design_model_get_active (self->model),
+                                  g_variant_get_string (param, NULL));
+  variant_action_end (self);
+}
+
+static void
+variant_switch_to (LwWindow *self, guint i)
+{
+  if (i >= lw_design_model_get_n_variants (self->model) || !variant_action_begin (self))
+    return;
+  lw_design_model_set_active (self->model, i);
+  variant_action_end (self);
+}
+
+static void
+variant_switch_activated (GtkWidget *widget, const char *action, GVariant *param)
+{
+  variant_switch_to (LW_WINDOW (widget), g_variant_get_uint32 (param));
+}
+
+static void
+variant_step (LwWindow *self, int delta)
+{
+  guint n = lw_design_model_get_n_variants (self->model);
+  guint a = lw_design_model_get_active (self->model);
+  variant_switch_to (self, (a + n + (guint) (delta + (int) n)) % n);
+}
+
+static void
+variant_next_activated (GtkWidget *widget, const char *action, GVariant *param)
+{
+  variant_step (LW_WINDOW (widget), +1);
+}
+
+static void
+variant_previous_activated (GtkWidget *widget, const char *action, GVariant *param)
+{
+  variant_step (LW_WINDOW (widget), -1);
+}
+
+/* Which variants are compared is a choice of the window, not of the document: no undo step. */
+static void
+variant_compare_activated (GtkWidget *widget, const char *action, GVariant *param)
+{
+  LwWindow *self = LW_WINDOW (widget);
+  const char *name = NULL;
+  gboolean shown = FALSE;
+  g_variant_get (param, "(&sb)", &name, &shown);
+  set_compared (self, name, shown);
+  refresh_compared (self);
+  show_handles_and_plots (self);
+}
+
+static void
+compare_all_activated (GtkWidget *widget, const char *action, GVariant *param)
+{
+  LwWindow *self = LW_WINDOW (widget);
+  const LwDesign *d = lw_design_model_get_design (self->model);
+  gboolean all = TRUE;
+  for (size_t i = 0; i < d->n_variants; i++)
+    if (i != d->active && !is_compared (self, d->variants[i].name))
+      all = FALSE;
+  g_ptr_array_set_size (self->compared, 0);
+  for (size_t i = 0; !all && i < d->n_variants; i++)
+    if (i != d->active)
+      g_ptr_array_add (self->compared, g_strdup (d->variants[i].name));
+  refresh_compared (self);
+  show_handles_and_plots (self);
+}
+
+static void
+variants_menu_activated (GtkWidget *widget, const char *action, GVariant *param)
+{
+  lw_compensator_panel_popup_variants (LW_WINDOW (widget)->compensator_panel);
+}
+
+static void
+reset_view_activated (GtkWidget *widget, const char *action, GVariant *param)
+{
+  lw_plot_area_reset_view (LW_WINDOW (widget)->plot_area);
 }
 
 /* ---- dialogs ------------------------------------------------------------------------------- */
@@ -1163,6 +1453,17 @@ bench_after_paint (GdkFrameClock *clock, LwWindow *self)
   printf ("drag frames: %u, paint median %.2f ms, p95 %.2f ms\n", self->bench_frames,
           percentile (self->bench_paint, 50), percentile (self->bench_paint, 95));
   fflush (stdout);
+  /* how often each pane drew its cached layer, over the whole run (to stderr: the figure line
+   * above stays the only output) */
+  static const LwPlotView views[] = { LW_PLOT_VIEW_BODE_Z, LW_PLOT_VIEW_BODE_W,
+                                      LW_PLOT_VIEW_STEP, LW_PLOT_VIEW_NYQUIST };
+  for (guint i = 0; i < G_N_ELEMENTS (views); i++)
+    {
+      LwPlotPane *pane = lw_plot_area_get_pane (self->plot_area, views[i]);
+      if (pane != NULL)
+        g_printerr ("bench-drag: %s pane drew its cached layer %" G_GUINT64_FORMAT " times\n",
+                    lw_plot_view_name (views[i]), lw_plot_pane_get_n_base_draws (pane));
+    }
   g_signal_handler_disconnect (clock, self->before_paint_id);
   g_signal_handler_disconnect (clock, self->after_paint_id);
   self->before_paint_id = self->after_paint_id = 0;
@@ -1227,6 +1528,15 @@ lw_window_start_bench_drag (LwWindow *self, guint n_frames)
   g_return_if_fail (n_frames > 0);
   self->bench_frames = n_frames;
   self->bench_done = 0;
+  /* every variant of the document shown (compare), the first corner of the active one
+   * dragged */
+  const LwDesign *d = lw_design_model_get_design (self->model);
+  g_ptr_array_set_size (self->compared, 0);
+  for (size_t i = 0; i < d->n_variants; i++)
+    if (i != d->active)
+      g_ptr_array_add (self->compared, g_strdup (d->variants[i].name));
+  refresh_compared (self);
+  show_handles_and_plots (self);
   g_array_set_size (self->bench_paint, 0);
   gtk_window_set_default_size (GTK_WINDOW (self), 1600, 1000);
   self->bench_tick = gtk_widget_add_tick_callback (GTK_WIDGET (self), bench_tick, NULL, NULL);
@@ -1277,6 +1587,9 @@ lw_window_get_property (GObject *object, guint id, GValue *value, GParamSpec *ps
     case PROP_ONE_COLUMN:
       g_value_set_boolean (value, self->one_column);
       break;
+    case PROP_SPLIT:
+      g_value_set_boolean (value, self->split);
+      break;
     default:
       G_OBJECT_WARN_INVALID_PROPERTY_ID (object, id, pspec);
     }
@@ -1301,6 +1614,18 @@ lw_window_set_property (GObject *object, guint id, const GValue *value, GParamSp
         if (settings != NULL)
           g_settings_set_enum (settings, "layout", v ? LW_PLOT_LAYOUT_COLUMN
                                                      : LW_PLOT_LAYOUT_GRID);
+        g_object_notify_by_pspec (object, pspec);
+      }
+      break;
+    case PROP_SPLIT:
+      {
+        gboolean v = g_value_get_boolean (value);
+        if (v == self->split)
+          break;
+        self->split = v;
+        lw_plot_area_set_split (self->plot_area, v);
+        if (self->eval != NULL)
+          show_handles_and_plots (self);
         g_object_notify_by_pspec (object, pspec);
       }
       break;
@@ -1352,6 +1677,8 @@ lw_window_dispose (GObject *object)
   g_clear_pointer (&self->undo, g_ptr_array_unref);
   g_clear_pointer (&self->redo, g_ptr_array_unref);
   g_clear_pointer (&self->bench_paint, g_array_unref);
+  g_clear_pointer (&self->compared, g_ptr_array_unref);
+  g_clear_pointer (&self->ref_evals, g_hash_table_unref);
   gtk_widget_dispose_template (GTK_WIDGET (self), LW_TYPE_WINDOW);
   G_OBJECT_CLASS (lw_window_parent_class)->dispose (object);
 }
@@ -1370,18 +1697,23 @@ lw_window_class_init (LwWindowClass *klass)
   props[PROP_ONE_COLUMN] =
     g_param_spec_boolean ("one-column", NULL, NULL, FALSE,
                           G_PARAM_READWRITE | G_PARAM_EXPLICIT_NOTIFY | G_PARAM_STATIC_STRINGS);
+  props[PROP_SPLIT] =
+    g_param_spec_boolean ("split", NULL, NULL, FALSE,
+                          G_PARAM_READWRITE | G_PARAM_EXPLICIT_NOTIFY | G_PARAM_STATIC_STRINGS);
   g_object_class_install_properties (object_class, N_PROPS, props);
 
   g_type_ensure (LW_TYPE_PLANT_PANEL);
   g_type_ensure (LW_TYPE_COMPENSATOR_PANEL);
   g_type_ensure (LW_TYPE_REQUIREMENTS_PANEL);
   g_type_ensure (LW_TYPE_PLOT_AREA);
+  g_type_ensure (LW_TYPE_COMPARE_TABLE);
   gtk_widget_class_set_template_from_resource (widget_class,
                                                "/org/loopwright/Designer/ui/lw-window.ui");
   gtk_widget_class_bind_template_child (widget_class, LwWindow, plant_panel);
   gtk_widget_class_bind_template_child (widget_class, LwWindow, compensator_panel);
   gtk_widget_class_bind_template_child (widget_class, LwWindow, requirements_panel);
   gtk_widget_class_bind_template_child (widget_class, LwWindow, plot_area);
+  gtk_widget_class_bind_template_child (widget_class, LwWindow, compare_table);
   gtk_widget_class_bind_template_child (widget_class, LwWindow, recent_menu);
 
   gtk_widget_class_install_action (widget_class, "window.focus-plant", NULL,
@@ -1400,6 +1732,48 @@ lw_window_class_init (LwWindowClass *klass)
   gtk_widget_class_install_action (widget_class, "window.previous-handle", NULL,
                                    previous_handle_activated);
   gtk_widget_class_install_property_action (widget_class, "window.one-column", "one-column");
+  gtk_widget_class_install_property_action (widget_class, "window.split", "split");
+  gtk_widget_class_install_action (widget_class, "window.variant-copy", NULL,
+                                   variant_copy_activated);
+  gtk_widget_class_install_action (widget_class, "window.variant-new", NULL,
+                                   variant_new_activated);
+  gtk_widget_class_install_action (widget_class, "window.variant-delete", NULL,
+                                   variant_delete_activated);
+  gtk_widget_class_install_action (widget_class, "window.variant-up", NULL, variant_up_activated);
+  gtk_widget_class_install_action (widget_class, "window.variant-down", NULL,
+                                   variant_down_activated);
+  gtk_widget_class_install_action (widget_class, "window.variant-rename", "s",
+                                   variant_rename_activated);
+  gtk_widget_class_install_action (widget_class, "window.variant-switch", "u",
+                                   variant_switch_activated);
+  gtk_widget_class_install_action (widget_class, "window.variant-next", NULL,
+                                   variant_next_activated);
+  gtk_widget_class_install_action (widget_class, "window.variant-previous", NULL,
+                                   variant_previous_activated);
+  gtk_widget_class_install_action (widget_class, "window.variant-compare", "(sb)",
+                                   variant_compare_activated);
+  gtk_widget_class_install_action (widget_class, "window.compare-all", NULL,
+                                   compare_all_activated);
+  gtk_widget_class_install_action (widget_class, "window.variants", NULL,
+                                   variants_menu_activated);
+  gtk_widget_class_install_action (widget_class, "window.reset-view", NULL,
+                                   reset_view_activated);
+  gtk_widget_class_add_binding_action (widget_class, GDK_KEY_n, GDK_CONTROL_MASK | GDK_SHIFT_MASK,
+                                       "window.variant-copy", NULL);
+  gtk_widget_class_add_binding_action (widget_class, GDK_KEY_N, GDK_CONTROL_MASK | GDK_SHIFT_MASK,
+                                       "window.variant-copy", NULL);
+  gtk_widget_class_add_binding_action (widget_class, GDK_KEY_Page_Down, GDK_CONTROL_MASK,
+                                       "window.variant-next", NULL);
+  gtk_widget_class_add_binding_action (widget_class, GDK_KEY_Page_Up, GDK_CONTROL_MASK,
+                                       "window.variant-previous", NULL);
+  gtk_widget_class_add_binding_action (widget_class, GDK_KEY_k, GDK_CONTROL_MASK | GDK_SHIFT_MASK,
+                                       "window.compare-all", NULL);
+  gtk_widget_class_add_binding_action (widget_class, GDK_KEY_K, GDK_CONTROL_MASK | GDK_SHIFT_MASK,
+                                       "window.compare-all", NULL);
+  gtk_widget_class_add_binding_action (widget_class, GDK_KEY_F8, 0, "window.split", NULL);
+  gtk_widget_class_add_binding_action (widget_class, GDK_KEY_F6, 0, "window.variants", NULL);
+  gtk_widget_class_add_binding_action (widget_class, GDK_KEY_0, GDK_CONTROL_MASK,
+                                       "window.reset-view", NULL);
   gtk_widget_class_add_binding_action (widget_class, GDK_KEY_l, GDK_CONTROL_MASK,
                                        "window.focus-plant", NULL);
   gtk_widget_class_add_binding_action (widget_class, GDK_KEY_a, GDK_CONTROL_MASK | GDK_SHIFT_MASK,
@@ -1433,6 +1807,8 @@ lw_window_init (LwWindow *self)
   self->undo = g_ptr_array_new_with_free_func ((GDestroyNotify) lw_design_free);
   self->redo = g_ptr_array_new_with_free_func ((GDestroyNotify) lw_design_free);
   self->bench_paint = g_array_new (FALSE, FALSE, sizeof (double));
+  self->compared = g_ptr_array_new_with_free_func (g_free);
+  self->ref_evals = g_hash_table_new_full (g_str_hash, g_str_equal, g_free, ref_eval_free);
   self->sel_stage = -1;
   self->debug = g_strcmp0 (g_getenv ("LW_DEBUG_HANDLES"), "1") == 0;
   g_signal_connect_swapped (gtk_settings_get_default (), "notify::gtk-application-prefer-dark-theme",

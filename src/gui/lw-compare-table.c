@@ -1,0 +1,266 @@
+/* lw-compare-table.c — the variants side by side.
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ */
+#include "config.h"
+
+#include <math.h>
+#include <stdio.h>
+
+#include <glib/gi18n.h>
+
+#include "lw-compare-table.h"
+#include "lw-gui-util.h"
+
+struct _LwCompareTable
+{
+  GtkWidget parent_instance;
+
+  GtkGrid *grid;
+  char *shape;                  /* what the cells were made for: names, active, requirements */
+  gboolean debug;
+  char *debug_last;
+};
+
+G_DEFINE_FINAL_TYPE (LwCompareTable, lw_compare_table, GTK_TYPE_WIDGET)
+
+typedef enum { BETTER_HIGHER, BETTER_LOWER } Better;
+
+typedef struct
+{
+  const char *key;             /* for the debug print */
+  const char *label;           /* translatable */
+  const char *unit;
+  Better better;
+} Row;
+
+enum
+{
+  ROW_PM, ROW_GM, ROW_WC, ROW_DM, ROW_MS, ROW_OS, ROW_RISE, ROW_SETTLE, ROW_IAE, ROW_ISE,
+  ROW_ITAE, ROW_EFFORT, ROW_UPEAK, N_ROWS
+};
+
+static const Row rows[N_ROWS] = {
+  { "phase-margin", N_("Phase margin"), "°", BETTER_HIGHER },
+  { "gain-margin", N_("Gain margin"), "dB", BETTER_HIGHER },
+  { "crossover", N_("Crossover ω"), "rad/s", BETTER_HIGHER },
+  { "delay-margin", N_("Delay margin"), "s", BETTER_HIGHER },
+  { "sensitivity-peak", N_("Sensitivity peak Ms"), "", BETTER_LOWER },
+  { "overshoot", N_("Overshoot"), "%", BETTER_LOWER },
+  { "rise-time", N_("Rise time"), "s", BETTER_LOWER },
+  { "settling-time", N_("Settling time"), "s", BETTER_LOWER },
+  { "iae", N_("IAE"), "s", BETTER_LOWER },
+  { "ise", N_("ISE"), "s", BETTER_LOWER },
+  { "itae", N_("ITAE"), "s²", BETTER_LOWER },
+  { "control-effort", N_("Control effort"), "s", BETTER_LOWER },
+  { "actuator-peak", N_("Peak actuator output"), "", BETTER_LOWER },
+};
+
+/* The figure of a row for an evaluation; NaN when it has none. */
+static double
+row_value (int row, const LwLoopEval *e)
+{
+  if (e == NULL || e->ev == NULL)
+    return NAN;
+  const LwMargins *m = &e->ev->margins;
+  const LwStep *s = &e->ev->step;
+  switch (row)
+    {
+    case ROW_PM: return m->has_phase_margin ? m->phase_margin_deg : NAN;
+    case ROW_GM: return m->has_gain_margin ? m->gain_margin_db : NAN;
+    case ROW_WC: return m->has_phase_margin ? m->gain_crossover_rad_s : NAN;
+    case ROW_DM: return m->has_delay_margin ? m->delay_margin_s : NAN;
+    case ROW_MS: return m->has_sensitivity ? m->sensitivity_peak : NAN;
+    case ROW_OS: return s->has_overshoot ? s->overshoot_pct : NAN;
+    case ROW_RISE: return s->has_rise ? s->rise_time_s : NAN;
+    case ROW_SETTLE: return s->has_settling ? s->settling_time_s : NAN;
+    case ROW_IAE: return e->has_sim ? e->indices.iae : NAN;
+    case ROW_ISE: return e->has_sim ? e->indices.ise : NAN;
+    case ROW_ITAE: return e->has_sim ? e->indices.itae : NAN;
+    case ROW_EFFORT: return e->has_sim ? e->indices.control_effort : NAN;
+    case ROW_UPEAK: return e->has_sim ? e->actuator_peak : NAN;
+    }
+  return NAN;
+}
+
+static void
+clear (LwCompareTable *self)
+{
+  GtkWidget *c;
+  while ((c = gtk_widget_get_first_child (GTK_WIDGET (self->grid))) != NULL)
+    gtk_grid_remove (self->grid, c);
+}
+
+/* The label at (col, row), made when the grid has none there yet (the cells are kept while
+ * the table's shape stays, so a drag only changes texts). */
+static GtkWidget *
+put (LwCompareTable *self, int col, int row, const char *markup, float xalign, gboolean dim)
+{
+  GtkWidget *l = gtk_grid_get_child_at (self->grid, col, row);
+  if (l == NULL)
+    {
+      l = gtk_label_new (NULL);
+      gtk_label_set_xalign (GTK_LABEL (l), xalign);
+      if (dim)
+        gtk_widget_add_css_class (l, "dim-label");
+      gtk_grid_attach (self->grid, l, col, row, 1, 1);
+    }
+  if (g_strcmp0 (gtk_label_get_label (GTK_LABEL (l)), markup) != 0)
+    gtk_label_set_markup (GTK_LABEL (l), markup);
+  return l;
+}
+
+void
+lw_compare_table_show (LwCompareTable *self, const char *const *names,
+                       LwLoopEval *const *evals, guint n, guint active,
+                       const LwDesignRequirement *reqs, guint n_req)
+{
+  g_return_if_fail (LW_IS_COMPARE_TABLE (self));
+  g_return_if_fail (n == 0 || (names != NULL && evals != NULL && active < n));
+  gtk_widget_set_visible (GTK_WIDGET (self), n >= 2);
+  if (n < 2)
+    {
+      clear (self);
+      g_clear_pointer (&self->shape, g_free);
+      return;
+    }
+  g_autoptr (GString) shape = g_string_new (NULL);
+  g_string_append_printf (shape, "%u %u %u", n, active, n_req);
+  for (guint j = 0; j < n; j++)
+    g_string_append_printf (shape, "\x1f%s", names[j]);
+  for (guint i = 0; i < n_req; i++)
+    g_string_append_printf (shape, "\x1e%s", lw_design_requirement_title (&reqs[i]));
+  if (g_strcmp0 (shape->str, self->shape) != 0)
+    {
+      clear (self);
+      g_free (self->shape);
+      self->shape = g_strdup (shape->str);
+    }
+
+  g_autoptr (GString) dbg = g_string_new (NULL);
+  put (self, 0, 0, _("<b>Compared</b>"), 0, FALSE);
+  for (guint j = 0; j < n; j++)
+    {
+      g_autofree char *esc = g_markup_escape_text (names[j], -1);
+      g_autofree char *head = j == active
+                                ? g_strdup_printf (_("<b>%s</b> (active)"), esc)
+                                : g_strdup_printf ("<b>%s</b>", esc);
+      put (self, (int) j + 1, 0, head, 1, FALSE);
+    }
+
+  int r = 1;
+  for (int row = 0; row < N_ROWS; row++, r++)
+    {
+      double vals[LW_DESIGN_MAX_VARIANTS];
+      int best = -1;
+      for (guint j = 0; j < n && j < LW_DESIGN_MAX_VARIANTS; j++)
+        {
+          vals[j] = row_value (row, evals[j]);
+          if (!isnan (vals[j])
+              && (best < 0 || (rows[row].better == BETTER_HIGHER ? vals[j] > vals[best]
+                                                                  : vals[j] < vals[best])))
+            best = (int) j;
+        }
+      g_autofree char *label = rows[row].unit[0] != '\0'
+                                 ? g_strdup_printf ("%s (%s)", _(rows[row].label),
+                                                    rows[row].unit)
+                                 : g_strdup (_(rows[row].label));
+      put (self, 0, r, label, 0, FALSE);
+      g_string_append_printf (dbg, "LW-METRIC row=%s active=%u best=%d values=", rows[row].key,
+                              active, best);
+      for (guint j = 0; j < n && j < LW_DESIGN_MAX_VARIANTS; j++)
+        {
+          g_string_append_printf (dbg, "%s%.9g", j > 0 ? "," : "", vals[j]);
+          g_autofree char *text = NULL;
+          if (isnan (vals[j]))
+            text = g_strdup ("—");
+          else if (j == active || isnan (vals[active]))
+            text = g_strdup_printf ("%.4g", vals[j]);
+          else
+            /* TRANSLATORS: a value and its difference to the active variant's */
+            text = g_strdup_printf (_("%.4g (Δ %+.3g)"), vals[j], vals[j] - vals[active]);
+          g_autofree char *markup = (int) j == best
+                                      ? g_strdup_printf ("<b>★ %s</b>", text)
+                                      : g_strdup (text);
+          GtkWidget *c = put (self, (int) j + 1, r, markup, 1, FALSE);
+          const char *tip = (int) j != best ? NULL
+                            : rows[row].better == BETTER_HIGHER
+                                ? _("The highest of the variants compared")
+                                : _("The lowest of the variants compared");
+          lw_gui_set_tooltip (c, tip);
+        }
+      g_string_append_c (dbg, '\n');
+    }
+
+  for (guint i = 0; i < n_req; i++, r++)
+    {
+      const LwDesignRequirement *q = &reqs[i];
+      g_autofree char *title = g_markup_escape_text (lw_design_requirement_title (q), -1);
+      put (self, 0, r, title, 0, TRUE);
+      if (lw_requirement_check (&q->req, NULL) != LW_OK)
+        continue;
+      g_string_append_printf (dbg, "LW-METRIC row=req-%u results=", i);
+      for (guint j = 0; j < n; j++)
+        {
+          const char *t = "—";
+          const char *d = "n/a";
+          if (evals[j] != NULL && evals[j]->has_achieved)
+            {
+              LwReqResult res = lw_requirement_evaluate (&q->req, &evals[j]->achieved);
+              if (res.status == LW_REQ_PASS)
+                t = _("pass"), d = "pass";
+              else if (res.status == LW_REQ_FAIL)
+                t = _("<b>fail</b>"), d = "fail";
+            }
+          g_string_append_printf (dbg, "%s%s", j > 0 ? "," : "", d);
+          put (self, (int) j + 1, r, t, 1, FALSE);
+        }
+      g_string_append_c (dbg, '\n');
+    }
+
+  if (self->debug && g_strcmp0 (dbg->str, self->debug_last) != 0)
+    {
+      g_free (self->debug_last);
+      self->debug_last = g_strdup (dbg->str);
+      fputs (dbg->str, stdout);
+      fflush (stdout);
+    }
+}
+
+static void
+lw_compare_table_dispose (GObject *object)
+{
+  LwCompareTable *self = LW_COMPARE_TABLE (object);
+  if (self->grid != NULL)
+    {
+      gtk_widget_unparent (GTK_WIDGET (self->grid));
+      self->grid = NULL;
+    }
+  g_clear_pointer (&self->debug_last, g_free);
+  g_clear_pointer (&self->shape, g_free);
+  G_OBJECT_CLASS (lw_compare_table_parent_class)->dispose (object);
+}
+
+static void
+lw_compare_table_class_init (LwCompareTableClass *klass)
+{
+  G_OBJECT_CLASS (klass)->dispose = lw_compare_table_dispose;
+  gtk_widget_class_set_layout_manager_type (GTK_WIDGET_CLASS (klass), GTK_TYPE_BIN_LAYOUT);
+  gtk_widget_class_set_css_name (GTK_WIDGET_CLASS (klass), "comparetable");
+}
+
+static void
+lw_compare_table_init (LwCompareTable *self)
+{
+  self->grid = GTK_GRID (gtk_grid_new ());
+  gtk_grid_set_row_spacing (self->grid, 3);
+  gtk_grid_set_column_spacing (self->grid, 12);
+  gtk_widget_set_parent (GTK_WIDGET (self->grid), GTK_WIDGET (self));
+  gtk_widget_set_visible (GTK_WIDGET (self), FALSE);
+  self->debug = g_strcmp0 (g_getenv ("LW_DEBUG_HANDLES"), "1") == 0;
+}
+
+LwCompareTable *
+lw_compare_table_new (void)
+{
+  return g_object_new (LW_TYPE_COMPARE_TABLE, NULL);
+}

@@ -1,0 +1,32 @@
+/* lw-compare-table.h — the variants side by side: one column per variant compared, one row
+ * per figure (margins, crossover, delay margin, sensitivity peak, step figures, performance
+ * indices of the simulated reference step, peak actuator output) and one row per
+ * requirement with its pass or fail.  In each figure's row the better value is marked (★:
+ * the larger margin, the smaller peak, overshoot, time, index or actuator output, the higher
+ * crossover) and every other variant's value carries its difference to the active one's.
+ *
+ * With LW_DEBUG_HANDLES=1 the table prints each row it shows, once per change, as
+ *   LW-METRIC row=KEY active=V values=V1,V2,…   (values in column order, NaN when none).
+ *
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ */
+#pragma once
+
+#include <gtk/gtk.h>
+
+#include "lw-design-model.h"
+
+G_BEGIN_DECLS
+
+#define LW_TYPE_COMPARE_TABLE (lw_compare_table_get_type ())
+G_DECLARE_FINAL_TYPE (LwCompareTable, lw_compare_table, LW, COMPARE_TABLE, GtkWidget)
+
+LwCompareTable *lw_compare_table_new (void);
+
+/* Shows n variants (names[i], evals[i]; an evaluation may have failed) with the active one
+ * at index active, and the design's requirements (n_req, labels and limits). */
+void lw_compare_table_show (LwCompareTable *self, const char *const *names,
+                            LwLoopEval *const *evals, guint n, guint active,
+                            const LwDesignRequirement *reqs, guint n_req);
+
+G_END_DECLS

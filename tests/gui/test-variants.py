@@ -1,0 +1,257 @@
+#!/usr/bin/python3
+"""Variants in a real window (Xvfb): open an example with two variants, make a copy of the
+active one (Ctrl+Shift+N), drag the copy's lead zero on the w-plane Bode view, save, and check
+through the saved document that the reference variant's XML is byte for byte what it was
+while the copy's lead moved; compare every variant (Ctrl+Shift+K) and check, in a screenshot, that the plots carry the colour of
+each variant shown and not the colour of one more (palette of src/plot/lw-plot.c, light
+theme), and that the window reports three series per view and a metrics table with three
+columns; undo twice (the drag, then the copy: one step each) and redo.
+
+Usage: test-variants.py LOOPWRIGHT SCHEMA_DIR EXAMPLE ARTEFACT_DIR
+Re-runs itself under `xvfb-run -a` (exit 77, skipped, when xvfb-run, xdotool, import or
+convert is missing). Screenshots stay in ARTEFACT_DIR: variants-copy-dragged.png,
+variants-compare.png; the window's output in variants.log.
+"""
+import os
+import re
+import shutil
+import subprocess
+import sys
+import tempfile
+import time
+
+import numpy as np
+
+SCREEN = '1600x1000x24'
+# The first four variant colours of the light theme (PALETTE_LIGHT in src/plot/lw-plot.c).
+PALETTE = [(0x00, 0x72, 0xb2), (0xd5, 0x5e, 0x00), (0x00, 0x9e, 0x73), (0xcc, 0x79, 0xa7)]
+# A curve 1.75 px wide has a full-colour core along its whole length, hundreds of pixels in
+# four views; antialiased edges and the legend's short sample lines are far fewer. Threshold
+# and tolerance are choices of this test (no source): ±6 per channel accepts the core's
+# rounding, 150 pixels is well above what the legend sample and labels alone give.
+COLOUR_TOL = 6
+MIN_PIXELS = 150
+
+
+def fail(msg):
+    print('FAIL: ' + msg, file=sys.stderr)
+    sys.exit(1)
+
+
+def run(*cmd, check=True):
+    return subprocess.run(cmd, check=check, capture_output=True, text=True).stdout.strip()
+
+
+def outer(argv):
+    for tool in ('xvfb-run', 'xdotool', 'import', 'convert'):
+        if shutil.which(tool) is None:
+            print(tool + ' not found: skipped')
+            sys.exit(77)
+    env = dict(os.environ, LW_TEST_VARIANTS_INNER='1')
+    r = subprocess.run(['xvfb-run', '-a', '-s', '-screen 0 ' + SCREEN, sys.executable,
+                        os.path.abspath(__file__)] + argv, env=env)
+    sys.exit(r.returncode)
+
+
+def wait_for(pred, what, timeout=15.0):
+    deadline = time.monotonic() + timeout
+    while time.monotonic() < deadline:
+        v = pred()
+        if v:
+            return v
+        time.sleep(0.1)
+    fail('timed out waiting for ' + what)
+
+
+def find_window(name):
+    out = run('xdotool', 'search', '--onlyvisible', '--name', name, check=False)
+    return out.split()[0] if out else None
+
+
+def key(wid, keys):
+    run('xdotool', 'windowfocus', '--sync', wid, check=False)
+    run('xdotool', 'key', '--clearmodifiers', keys)
+
+
+class Log:
+    def __init__(self, path):
+        self.path = path
+
+    def lines(self):
+        with open(self.path, encoding='utf-8', errors='replace') as f:
+            return f.read().splitlines()
+
+    def last(self, prefix, **match):
+        for line in reversed(self.lines()):
+            if not line.startswith(prefix):
+                continue
+            fields = dict(kv.split('=', 1) for kv in line.split()[1:] if '=' in kv)
+            if all(fields.get(k) == str(v) for k, v in match.items()):
+                return fields
+        return None
+
+
+def saved_after(wid, path):
+    before = os.stat(path).st_mtime_ns
+    key(wid, 'ctrl+s')
+    wait_for(lambda: os.stat(path).st_mtime_ns != before, 'the document to be saved')
+    time.sleep(0.2)
+    with open(path, 'rb') as f:
+        return f.read()
+
+
+def variant_xml(doc, name):
+    """The bytes of <variant name="NAME"> … </variant> in a saved (canonical) document."""
+    m = re.search(rb'<variant name="' + re.escape(name.encode()) + rb'">.*?</variant>', doc,
+                  re.S)
+    if m is None:
+        fail('no variant "%s" in the saved document' % name)
+    return m.group(0)
+
+
+def lead_zero(xml):
+    return float(re.search(rb'<lead [^>]*zero_rad_s="([^"]+)"', xml).group(1))
+
+
+def colour_counts(png):
+    out = subprocess.run(['convert', png, '-depth', '8', 'rgb:-'], check=True,
+                         capture_output=True).stdout
+    img = np.frombuffer(out, dtype=np.uint8).reshape(-1, 3).astype(int)
+    return [int(np.sum(np.all(np.abs(img - np.array(c)) <= COLOUR_TOL, axis=1)))
+            for c in PALETTE]
+
+
+def inner(app, schema_dir, example, artefacts):
+    os.makedirs(artefacts, exist_ok=True)
+    tmp = tempfile.mkdtemp(prefix='lw-test-variants-')
+    design = os.path.join(tmp, 'design.lwd')
+    shutil.copyfile(example, design)
+    os.utime(design, (time.time() + 5, time.time() + 5))
+    env = dict(os.environ, GTK_A11Y='none', GSK_RENDERER='cairo', GDK_DEBUG='gl-disable',
+               GSETTINGS_SCHEMA_DIR=schema_dir, GSETTINGS_BACKEND='memory', LANGUAGE='C',
+               LC_ALL='C.UTF-8', LW_DEBUG_HANDLES='1', XDG_STATE_HOME=os.path.join(tmp, 'state'),
+               XDG_DATA_HOME=os.path.join(tmp, 'data'), HOME=tmp)
+    env.pop('DBUS_SESSION_BUS_ADDRESS', None)
+    supp = os.path.join(os.path.dirname(os.path.abspath(__file__)), 'lsan.supp')
+    env['LSAN_OPTIONS'] = ':'.join(filter(None, [os.environ.get('LSAN_OPTIONS'),
+                                                 'suppressions=' + supp,
+                                                 'print_suppressions=0']))
+    log_path = os.path.join(artefacts, 'variants.log')
+    log_file = open(log_path, 'w')
+    log = Log(log_path)
+    proc = subprocess.Popen([app, design], env=env, stdout=log_file, stderr=subprocess.STDOUT)
+    try:
+        wid = wait_for(lambda: proc.poll() is None and find_window('design.lwd — Loopwright$')
+                       or (proc.poll() is not None and fail('loopwright exited early (%d)'
+                                                            % proc.returncode)),
+                       'the window on design.lwd', 30)
+        wait_for(lambda: log.last('LW-HANDLE', view='bode-w', stage=1, corner=0),
+                 'the handles of the w-plane Bode view')
+        time.sleep(0.5)
+        doc0 = saved_after(wid, design)
+        ref0 = variant_xml(doc0, 'notched')
+
+        # A copy of the active variant: active now, the original compared with it.
+        key(wid, 'ctrl+shift+n')
+        wait_for(lambda: log.last('LW-SERIES', view='bode-w', variants=2),
+                 'two variants in the w-plane Bode view after the copy')
+        time.sleep(0.5)
+        doc_a = saved_after(wid, design)
+        if b'active="notched copy"' not in doc_a:
+            fail('the copy is not the active variant in the saved document')
+        copy_a = variant_xml(doc_a, 'notched copy')
+        if copy_a.replace(b'notched copy', b'notched') != ref0:
+            fail('the copy\'s stages differ from the original\'s')
+
+        # Drag the copy's lead zero to the right.
+        geo = run('xdotool', 'getwindowgeometry', wid)
+        m = re.search(r'Position: (-?\d+),(-?\d+)', geo)
+        wx, wy = int(m.group(1)), int(m.group(2))
+        h = log.last('LW-HANDLE', view='bode-w', stage=1, corner=0)
+        hx, hy = wx + round(float(h['sx'])), wy + round(float(h['sy']))
+        run('xdotool', 'mousemove', '--sync', str(hx), str(hy))
+        time.sleep(0.2)
+        run('xdotool', 'mousedown', '1')
+        for i in range(1, 11):
+            run('xdotool', 'mousemove', '--sync', str(hx + 4 * i), str(hy))
+            time.sleep(0.05)
+        time.sleep(0.3)
+        run('import', '-window', 'root', os.path.join(artefacts, 'variants-copy-dragged.png'))
+        run('xdotool', 'mouseup', '1')
+        time.sleep(0.5)
+        doc_b = saved_after(wid, design)
+
+        # The reference did not change, byte for byte; the copy's lead zero moved right.
+        if variant_xml(doc_b, 'notched') != ref0:
+            fail('the reference variant changed during a drag in the copy')
+        z_a, z_b = lead_zero(copy_a), lead_zero(variant_xml(doc_b, 'notched copy'))
+        print('copy\'s lead zero %.6g -> %.6g rad/s' % (z_a, z_b))
+        # 40 px to the right on an axis of a few hundred px per decade: well over 5 %.
+        if not z_b > 1.05 * z_a:
+            fail('the drag did not move the copy\'s lead zero up (%g -> %g)' % (z_a, z_b))
+
+        # Compare every variant: three series per view, three colours, not a fourth (the
+        # copy differs from its original now, so each curve shows).
+        key(wid, 'ctrl+shift+k')
+        for view in ('bode-z', 'bode-w', 'step', 'nyquist'):
+            wait_for(lambda: log.last('LW-SERIES', view=view, variants=3),
+                     'three variants in the %s view' % view)
+        wait_for(lambda: log.last('LW-METRIC', row='phase-margin'), 'the metrics table')
+        pm = log.last('LW-METRIC', row='phase-margin')
+        if len(pm['values'].split(',')) != 3:
+            fail('the metrics table has %s, not three columns' % pm['values'])
+        time.sleep(0.8)
+        shot = os.path.join(artefacts, 'variants-compare.png')
+        run('import', '-window', 'root', shot)
+        counts = colour_counts(shot)
+        print('pixels of the variant colours: %s' % counts)
+        for i in range(3):
+            if counts[i] < MIN_PIXELS:
+                fail('variant %d\'s colour has %d pixels, expected at least %d'
+                     % (i, counts[i], MIN_PIXELS))
+        if counts[3] >= MIN_PIXELS:
+            fail('a fourth variant colour shows (%d pixels) with three variants'
+                 % counts[3])
+
+        # Undo: the drag, then the copy, each one step (comparing is not a document change).
+        key(wid, 'ctrl+z')
+        time.sleep(0.4)
+        if saved_after(wid, design) != doc_a:
+            fail('one undo after the drag does not give the document after the copy')
+        key(wid, 'ctrl+z')
+        time.sleep(0.4)
+        if saved_after(wid, design) != doc0:
+            fail('a second undo does not give the document before the copy')
+        key(wid, 'ctrl+shift+z')
+        time.sleep(0.4)
+        if saved_after(wid, design) != doc_a:
+            fail('redo does not bring the copy back')
+
+        key(wid, 'ctrl+q')
+        try:
+            status = proc.wait(timeout=15)
+        except subprocess.TimeoutExpired:
+            fail('loopwright did not quit within 15 s of Ctrl+Q')
+        if status != 0:
+            fail('loopwright exited with status %d' % status)
+    finally:
+        if proc.poll() is None:
+            proc.kill()
+            proc.wait()
+        log_file.close()
+        shutil.rmtree(tmp, ignore_errors=True)
+    print('ok: a copied variant edits alone, the reference stays byte for byte, undo is one '
+          'step per action, compare draws every variant')
+
+
+def main():
+    if len(sys.argv) != 5:
+        print(__doc__, file=sys.stderr)
+        sys.exit(2)
+    if os.environ.get('LW_TEST_VARIANTS_INNER') != '1':
+        outer(sys.argv[1:])
+    inner(*sys.argv[1:])
+
+
+if __name__ == '__main__':
+    main()
