@@ -72,7 +72,7 @@ lw_cli_doc_loop_build (const char *place, const LwDesign *d, size_t index, LwCli
   memset (out, 0, sizeof *out);
   g_return_val_if_fail (index < d->n_variants, LW_EXIT_INTERNAL);
   const LwDesignVariant *v = &d->variants[index];
-  out->period_s = d->period_s;
+  out->period_s = lw_design_variant_period_s (d, index);   /* its own, or the design's */
   out->dead_time_s = d->dead_time_s;
   out->compute_delay = d->compute_delay;
   LwError err;
@@ -85,8 +85,8 @@ lw_cli_doc_loop_build (const char *place, const LwDesign *d, size_t index, LwCli
       status = lw_cli_report_core_error (where, &err);
       goto fail;
     }
-  if (lw_compensator_w (v->stages, v->n_stages, d->period_s, &out->controller_w, &err) != LW_OK
-      || lw_compensator_z (v->stages, v->n_stages, d->period_s, &out->controller_z, &err)
+  if (lw_compensator_w (v->stages, v->n_stages, out->period_s, &out->controller_w, &err) != LW_OK
+      || lw_compensator_z (v->stages, v->n_stages, out->period_s, &out->controller_z, &err)
            != LW_OK)
     {
       g_autofree char *where = g_strdup_printf ("%s: variant '%s'", place, v->name);
@@ -300,7 +300,8 @@ lw_cli_doc_loop_args (const LwDesign *d, LwCliLoopArgs *out)
   char buf[G_ASCII_DTOSTR_BUF_SIZE];
   memset (out, 0, sizeof *out);
   out->plant = g_strdup (d->plant);
-  out->period = g_strdup (lw_design_format_number (d->period_s, buf));
+  out->period = g_strdup (lw_design_format_number (lw_design_variant_period_s (d, d->active),
+                                                   buf));
   out->dead_time = g_strdup (lw_design_format_number (d->dead_time_s, buf));
   out->compute_delay = g_strdup_printf ("%d", d->compute_delay);
 }

@@ -36,7 +36,8 @@ int lw_cli_doc_load (const char *path, LwDesign **out);
 int lw_cli_doc_variant (const LwDesign *d, const char *option, const char *name, size_t *index);
 
 /* The sampled loop of variant `index`: the plant parsed, the compensator of the stages mapped
- * to z, the computation delay and dead time of the design. `place` names the file in
+ * to z at the variant's sample period (lw_design_variant_period_s: its override, else the
+ * design's), the computation delay and dead time of the design. `place` names the file in
  * messages. Returns LW_EXIT_OK or the exit status after printing the message. */
 int lw_cli_doc_loop_build (const char *place, const LwDesign *d, size_t index, LwCliLoop *out);
 
@@ -71,7 +72,7 @@ int lw_cli_doc_select (const LwDesign *d, const char *name, bool all, const char
                        size_t **indices, size_t *n);
 
 /* The loop options as text that lw_cli_loop_build reads back to the very loop of the
- * document (numbers in their shortest round-trip form), for commands that rebuild a loop with
+ * document (the period of the active variant) (numbers in their shortest round-trip form), for commands that rebuild a loop with
  * another controller. Strings are new; free with lw_cli_loop_args_clear. */
 void lw_cli_doc_loop_args (const LwDesign *d, LwCliLoopArgs *out);
 G_DEFINE_AUTO_CLEANUP_CLEAR_FUNC (LwCliLoopArgs, lw_cli_loop_args_clear)

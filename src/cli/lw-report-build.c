@@ -289,6 +289,11 @@ section_variant (LwReport *r, const LwDesign *d, const RVar *rv, size_t k)
   heading (r, 2, id, title);
   if (v->notes != NULL && v->notes[0] != '\0')
     para (r, "%s", v->notes);
+  if (v->has_period)
+    para (r, "This variant is sampled at its own period T = %.6g s (%.6g Hz, Nyquist frequency "
+          "π/T = %.6g rad/s) instead of the design's %.6g s; the computation delay of %d "
+          "sample(s) is then %.6g s.", v->period_s, 1.0 / v->period_s, G_PI / v->period_s,
+          d->period_s, d->compute_delay, d->compute_delay * v->period_s);
 
   heading (r, 3, NULL, "Stages");
   if (v->n_stages == 0)
@@ -476,7 +481,7 @@ section_variant (LwReport *r, const LwDesign *d, const RVar *rv, size_t k)
     table_end (&t);
     para (r, "Unit steps over %zu samples (%.6g s), without actuator limits; indices are "
           "T·Σ|e|, T·Σe², T·Σ(kT)|e| and T·Σu² (docs/simulation.md).", rv->ref->n,
-          (double) (rv->ref->n - 1) * d->period_s);
+          (double) (rv->ref->n - 1) * rv->lp.period_s);
   }
 }
 

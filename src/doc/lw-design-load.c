@@ -594,11 +594,16 @@ read_stage (Reader *r, const xmlNode *e, const LwDesignVariant *v, size_t index,
 static bool
 read_variant (Reader *r, const xmlNode *e, LwDesign *d)
 {
-  static const char *const allowed[] = { "name", NULL };
+  static const char *const allowed[] = { "name", "period_s", NULL };
   if (!check_attributes (r, e, "", allowed))
     return false;
   g_autofree char *name = NULL;
   if (!text_attr (r, e, "", "name", true, &name))
+    return false;
+  double period_s = 0.0;
+  bool has_period = false;
+  g_autofree char *where = g_strdup_printf (" '%s'", name);
+  if (!number_attr (r, e, where, "period_s", LW_NUM_POSITIVE, false, &period_s, &has_period))
     return false;
   if (name[0] == '\0')
     return fail (r, e, LW_DESIGN_ERROR_VALUE, ": attribute 'name' must not be empty");
@@ -609,6 +614,8 @@ read_variant (Reader *r, const xmlNode *e, LwDesign *d)
     return fail (r, e, LW_DESIGN_ERROR_LIMIT, ": more than %d variants",
                  LW_DESIGN_MAX_VARIANTS);
   LwDesignVariant *v = lw_design_add_variant (d, name);
+  v->has_period = has_period;
+  v->period_s = has_period ? period_s : 0.0;
   const xmlNode *c = next_element (r, e, e->children);
   if (r->error != NULL)
     return false;

@@ -237,6 +237,8 @@ lw_design_copy (const LwDesign *d)
       const LwDesignVariant *v = &d->variants[i];
       c->variants[i].name = g_strdup (v->name);
       c->variants[i].notes = g_strdup (v->notes);
+      c->variants[i].has_period = v->has_period;
+      c->variants[i].period_s = v->period_s;
       c->variants[i].n_stages = v->n_stages;
       c->variants[i].stages = g_memdup2 (v->stages, v->n_stages * sizeof *v->stages);
     }
@@ -272,6 +274,14 @@ lw_design_add_requirement (LwDesign *d, const char *name, const LwRequirement *r
   q->name = g_strdup (name);
   q->req = *r;
   return q;
+}
+
+double
+lw_design_variant_period_s (const LwDesign *d, size_t index)
+{
+  g_return_val_if_fail (d != NULL && index < d->n_variants, NAN);
+  const LwDesignVariant *v = &d->variants[index];
+  return v->has_period ? v->period_s : d->period_s;
 }
 
 gssize
@@ -342,6 +352,7 @@ lw_design_equal (const LwDesign *a, const LwDesign *b)
     {
       const LwDesignVariant *x = &a->variants[i], *y = &b->variants[i];
       if (!str_equal (x->name, y->name) || !str_equal (x->notes, y->notes)
+          || x->has_period != y->has_period || (x->has_period && x->period_s != y->period_s)
           || x->n_stages != y->n_stages)
         return false;
       for (size_t j = 0; j < x->n_stages; j++)
@@ -479,6 +490,13 @@ lw_design_validate (const LwDesign *d, GError **error)
                          "two variants are named '%s'", v->name);
             return FALSE;
           }
+      if (v->has_period && !lw_doc_rule_ok (LW_NUM_POSITIVE, v->period_s))
+        {
+          g_set_error (error, LW_DESIGN_ERROR, LW_DESIGN_ERROR_VALUE,
+                       "variant '%s': the sample period must be a finite number > 0 s, got %g",
+                       v->name, v->period_s);
+          return FALSE;
+        }
       if (v->n_stages > LW_DESIGN_MAX_STAGES)
         {
           g_set_error (error, LW_DESIGN_ERROR, LW_DESIGN_ERROR_LIMIT,
@@ -671,6 +689,8 @@ lw_design_to_text (const LwDesign *d, size_t *len_out, GError **error)
       indent (o, 2);
       g_string_append (o, "<variant");
       attr_text (o, "name", v->name);
+      if (v->has_period)
+        attr_number (o, "period_s", v->period_s);
       if (v->notes == NULL && v->n_stages == 0)
         {
           g_string_append (o, "/>\n");

@@ -4,7 +4,7 @@
  * A design holds its title, author and notes; the plant as the expression in s the user typed
  * (kept as text, parsed on load only to report errors) and its input dead time; the sampling
  * (period, hold, computation delay in whole samples); the requirements; one or more variants,
- * each with a name, notes and its ordered compensator stages (lw-stage.h) with their on/off
+ * each with a name, notes, an optional sample period of its own (to compare loop rates) and its ordered compensator stages (lw-stage.h) with their on/off
  * state; which variant is active; and optional view settings (frequency range, visible views).
  *
  * Loading (lw_design_load_file, lw_design_load_data) is hardened: no network, no DTD (any
@@ -97,6 +97,8 @@ typedef struct
 {
   char *name;                 /* non-empty, unique within the design */
   char *notes;                /* optional */
+  bool has_period;            /* the variant overrides the design's sample period */
+  double period_s;            /* its sample period T, > 0, s (when has_period) */
   size_t n_stages;
   LwStage *stages;            /* n_stages, in order (the compensator is their product) */
 } LwDesignVariant;
@@ -143,6 +145,10 @@ LwDesignVariant *lw_design_add_variant (LwDesign *d, const char *name);
 LwStage *lw_design_variant_add_stage (LwDesignVariant *v, const LwStage *s);
 LwDesignRequirement *lw_design_add_requirement (LwDesign *d, const char *name,
                                                 const LwRequirement *r);
+
+/* The sample period T (s) of variant `index`: its own when it overrides the design's, else
+ * d->period_s. Every loop built from a document uses this. */
+double lw_design_variant_period_s (const LwDesign *d, size_t index);
 
 /* Index of the variant called name, or -1. */
 gssize lw_design_find_variant (const LwDesign *d, const char *name);

@@ -123,6 +123,71 @@ for name in ("camera-slider.lwd", "kiln.lwd", "pump-pressure.lwd"):
         check(r["pass"] == want, f"{name}: {kind} pass {r['pass']}, recomputed {want}")
     check(all(r["pass"] for r in j["requirements"]), f"{name}: active variant must pass")
 
+# a variant with its own sample period: analyze --variant uses it, and gives the numbers of
+# the inline analysis at that period (a gain and a lead stage, so the stage mapping to z at
+# the override period is checked too)
+def rel_close(a, b, tol):
+    """Equal to tol relative (or both equal as JSON values: null, strings, lists, dicts)."""
+    if isinstance(a, dict) and isinstance(b, dict):
+        return a.keys() == b.keys() and all(rel_close(a[k], b[k], tol) for k in a)
+    if isinstance(a, list) and isinstance(b, list):
+        return len(a) == len(b) and all(rel_close(x, y, tol) for x, y in zip(a, b))
+    if isinstance(a, (int, float)) and isinstance(b, (int, float)) and not isinstance(a, bool):
+        return a == b or abs(a - b) <= tol * max(abs(a), abs(b))
+    return a == b
+
+
+with tempfile.TemporaryDirectory() as tmp:
+    doc = os.path.join(tmp, "rates.lwd")
+    with open(doc, "w") as f:
+        f.write("""<?xml version="1.0" encoding="UTF-8"?>
+<design xmlns="urn:loopwright:design" version="1">
+  <title>two loop rates</title>
+  <plant dead_time_s="0.013">4/(s*(0.5*s+1))</plant>
+  <sampling period_s="0.05" hold="zero-order" compute_delay_samples="1"/>
+  <variants active="slow">
+    <variant name="slow">
+      <gain ratio="0.5"/>
+      <lead zero_rad_s="2" pole_rad_s="8"/>
+    </variant>
+    <variant name="fast" period_s="0.02">
+      <gain ratio="0.5"/>
+      <lead zero_rad_s="2" pole_rad_s="8"/>
+    </variant>
+  </variants>
+</design>
+""")
+    margins = {}
+    for name, period in (("fast", "0.02"), ("slow", "0.05")):
+        rc, out_doc, err = run(["analyze", doc, "--variant", name, "--json"])
+        rc2, out_inline, err2 = run(["analyze", "--plant", "4/(s*(0.5*s+1))", "--period", period,
+                                     "--dead-time", "0.013", "--compute-delay", "1",
+                                     "--controller", "0.5*(1+w/2)/(1+w/8)", "--json"])
+        check(rc == 0 and rc2 == 0, f"analyze variant {name} / inline: {err} {err2}")
+        if rc == 0 and rc2 == 0:
+            jd, ji = json.loads(out_doc), json.loads(out_inline)
+            check(jd.get("sample_period_s") == float(period),
+                  f"variant {name}: sample_period_s {jd.get('sample_period_s')} != {period}")
+            jd.pop("requirements", None)
+            # 1e-12 relative: the two build the same loop through the same code; the inline
+            # controller is parsed from text, which could differ by a few ulps in the factored
+            # gain (corners 2 and 8 make the gain 0.5·8/2 exact, so in practice they are equal)
+            check(rel_close(jd, ji, 1e-12), f"variant {name}: analyze differs from inline")
+            margins[name] = jd["loop"]["phase_margin_deg"]
+    # the override matters: less delay at the faster rate, more phase margin (the two differ
+    # by several degrees; common practice, no source: T/2 + N·T of delay costs ω_c·(1.5T) rad)
+    check(margins.get("fast", 0) > margins.get("slow", 1e9) + 1.0,
+          f"phase margins fast/slow {margins}")
+    # every command over documents takes the variant's period
+    rc, out, err = run(["check", doc, "--variant", "fast"])
+    check(rc == 0, f"check --variant fast: {rc} {err}")
+    rc, out_all, err = run(["analyze", doc, "--all-variants", "--json"])
+    if rc == 0:
+        periods = [v["sample_period_s"] for v in json.loads(out_all)["variants"]]
+        check(periods == [0.05, 0.02], f"--all-variants periods {periods}")
+    else:
+        check(False, f"analyze --all-variants: {rc} {err}")
+
 # the kiln's dead time is 3.75 samples: the document and the inline options agree exactly
 with tempfile.TemporaryDirectory() as tmp:
     doc = os.path.join(tmp, "fresh.lwd")
