@@ -18,6 +18,7 @@ struct _LwPlotPane
   LwPlotTheme theme;
   LwPlot *plot;
   char *message;
+  LwPlotTextCache *text_cache;  /* layouts of the figures' texts, kept across figures */
 
   /* the static layer (or, with a moving variant, the base layer without it), at device
    * resolution, valid for cache_width × cache_height */
@@ -344,6 +345,7 @@ lw_plot_pane_finalize (GObject *object)
   LwPlotPane *self = LW_PLOT_PANE (object);
 
   g_clear_pointer (&self->plot, lw_plot_free);
+  g_clear_pointer (&self->text_cache, lw_plot_text_cache_free);
   g_clear_pointer (&self->cache, cairo_surface_destroy);
   g_free (self->message);
   g_array_unref (self->handles);
@@ -388,6 +390,7 @@ lw_plot_pane_init (LwPlotPane *self)
   gtk_drawing_area_set_content_width (GTK_DRAWING_AREA (self), 320);
   gtk_drawing_area_set_content_height (GTK_DRAWING_AREA (self), 240);
   self->handles = g_array_new (FALSE, FALSE, sizeof (LwPaneHandle));
+  self->text_cache = lw_plot_text_cache_new ();
   self->sel_stage = -1;
   self->dragging = -1;
   self->debug_handles = g_strcmp0 (g_getenv ("LW_DEBUG_HANDLES"), "1") == 0;
@@ -448,6 +451,7 @@ lw_plot_pane_set_plot_moving (LwPlotPane *self, LwPlot *plot, const char *messag
     {
       lw_plot_set_theme (plot, self->theme);
       lw_plot_set_decimate (plot, true);
+      lw_plot_set_text_cache (plot, self->text_cache);
       if (self->has_view && !lw_plot_set_x_view (plot, self->view_lo, self->view_hi))
         self->has_view = FALSE;
     }

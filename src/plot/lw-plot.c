@@ -134,6 +134,7 @@ struct LwPlot {
   int legend_rows;
   bool laid_out;
   bool decimate;                    /* lw_plot_set_decimate */
+  LwPlotTextCache *text_cache;      /* borrowed (lw_plot_set_text_cache), or NULL */
 };
 
 static void
@@ -1194,17 +1195,21 @@ py_of (const Panel *pn, double v)
 
 typedef enum { FONT_TICK, FONT_LABEL, FONT_NOTE, FONT_TITLE } FontRole;
 
-static PangoLayout *
-text_layout (cairo_t *cr, const char *text, FontRole role)
+/* Font options of every text: metrics unhinted, so the same text has the same extent on
+ * screen, PNG, SVG and PDF. */
+static void
+set_text_font_options (PangoContext *ctx)
 {
-  PangoLayout *lay = pango_cairo_create_layout (cr);
-  /* metrics unhinted: the same text has the same extent on screen, PNG, SVG and PDF */
   cairo_font_options_t *fo = cairo_font_options_create ();
   cairo_font_options_set_hint_metrics (fo, CAIRO_HINT_METRICS_OFF);
   cairo_font_options_set_hint_style (fo, CAIRO_HINT_STYLE_NONE);
-  pango_cairo_context_set_font_options (pango_layout_get_context (lay), fo);
-  pango_layout_context_changed (lay);
+  pango_cairo_context_set_font_options (ctx, fo);
   cairo_font_options_destroy (fo);
+}
+
+static void
+set_text_font (PangoLayout *lay, FontRole role)
+{
   PangoFontDescription *fd = pango_font_description_from_string ("Sans");
   static const double sizes[] = { 10.5, 11.5, 10.0, 12.5 };
   pango_font_description_set_absolute_size (fd, sizes[role] * PANGO_SCALE);
@@ -1212,16 +1217,103 @@ text_layout (cairo_t *cr, const char *text, FontRole role)
     pango_font_description_set_weight (fd, PANGO_WEIGHT_BOLD);
   pango_layout_set_font_description (lay, fd);
   pango_font_description_free (fd);
-  pango_layout_set_text (lay, text, -1);
-  return lay;
+}
+
+/* ---- text layout cache ------------------------------------------------------------------ */
+
+/* Two generations of layouts keyed by font role and text: a lookup moves a layout found in
+ * the old generation to the current one, and when the current one is full it becomes the
+ * old one (the one before is dropped), so texts used in the last frames stay while texts
+ * of values that changed (margins during a drag) age out. */
+#define TEXT_CACHE_GENERATION 256
+
+struct LwPlotTextCache {
+  PangoContext *ctx;        /* made from the first cairo_t drawn on, updated from each */
+  GHashTable *cur, *old;    /* "role\x1ftext" → PangoLayout (owned) */
+};
+
+LwPlotTextCache *
+lw_plot_text_cache_new (void)
+{
+  LwPlotTextCache *c = g_new0 (LwPlotTextCache, 1);
+  c->cur = g_hash_table_new_full (g_str_hash, g_str_equal, g_free, g_object_unref);
+  c->old = g_hash_table_new_full (g_str_hash, g_str_equal, g_free, g_object_unref);
+  return c;
+}
+
+void
+lw_plot_text_cache_free (LwPlotTextCache *c)
+{
+  if (c == NULL)
+    return;
+  g_hash_table_unref (c->cur);
+  g_hash_table_unref (c->old);
+  g_clear_object (&c->ctx);
+  g_free (c);
+}
+
+void
+lw_plot_set_text_cache (LwPlot *p, LwPlotTextCache *cache)
+{
+  g_return_if_fail (p != NULL);
+  p->text_cache = cache;
+}
+
+/* A new reference to a layout of text in role for cr: from the cache when one is given (the
+ * context follows cr's transformation and surface font options, as pango_cairo_create_layout
+ * would set them), else made afresh. */
+static PangoLayout *
+text_layout (LwPlotTextCache *c, cairo_t *cr, const char *text, FontRole role)
+{
+  if (c == NULL)
+    {
+      PangoLayout *lay = pango_cairo_create_layout (cr);
+      set_text_font_options (pango_layout_get_context (lay));
+      pango_layout_context_changed (lay);
+      set_text_font (lay, role);
+      pango_layout_set_text (lay, text, -1);
+      return lay;
+    }
+  if (c->ctx == NULL)
+    {
+      c->ctx = pango_cairo_create_context (cr);
+      set_text_font_options (c->ctx);
+    }
+  else
+    pango_cairo_update_context (cr, c->ctx);
+  char *key = g_strdup_printf ("%d\x1f%s", (int) role, text);
+  PangoLayout *lay = g_hash_table_lookup (c->cur, key);
+  if (lay != NULL)
+    {
+      g_free (key);
+      return g_object_ref (lay);
+    }
+  char *old_key = NULL;
+  if (g_hash_table_steal_extended (c->old, key, (gpointer *) &old_key, (gpointer *) &lay))
+    g_free (old_key);
+  else
+    {
+      lay = pango_layout_new (c->ctx);
+      set_text_font (lay, role);
+      pango_layout_set_text (lay, text, -1);
+    }
+  if (g_hash_table_size (c->cur) >= TEXT_CACHE_GENERATION)
+    {
+      g_hash_table_unref (c->old);
+      c->old = c->cur;
+      c->cur = g_hash_table_new_full (g_str_hash, g_str_equal, g_free, g_object_unref);
+    }
+  g_hash_table_insert (c->cur, key, lay);
+  return g_object_ref (lay);
 }
 
 /* Draws text with its anchor point (ax, ay in [0, 1] of its extent) at (x, y). */
 static void
-draw_text (cairo_t *cr, const char *text, FontRole role, double x, double y, double ax,
-           double ay, const double colour[3], const double *plate, double angle)
+draw_text (LwPlotTextCache *tc, cairo_t *cr, const char *text, FontRole role, double x,
+           double y, double ax, double ay, const double colour[3], const double *plate,
+           double angle)
 {
-  PangoLayout *lay = text_layout (cr, text, role);
+  PangoLayout *lay = text_layout (tc, cr, text, role);
   int w, h;
   pango_layout_get_size (lay, &w, &h);
   double tw = (double) w / PANGO_SCALE, th = (double) h / PANGO_SCALE;
@@ -1390,7 +1482,7 @@ draw_prim (const LwPlot *p, const Panel *pn, cairo_t *cr, const Prim *q)
       break;
     case PRIM_TEXT:
       if (isfinite (q->u[0]) && isfinite (q->v[0]))
-        draw_text (cr, q->text, FONT_NOTE, px_of (pn, q->u[0]) + q->dx,
+        draw_text (p->text_cache, cr, q->text, FONT_NOTE, px_of (pn, q->u[0]) + q->dx,
                    py_of (pn, q->v[0]) + q->dy, q->ax, q->ay, c, q->plate ? t->bg : NULL, 0);
       break;
     case PRIM_HBAND:
@@ -1468,7 +1560,7 @@ draw_legend (const LwPlot *p, cairo_t *cr)
   double left = LW_PLOT_MARGIN_LEFT;
   if (p->title)
     {
-      draw_text (cr, p->title, FONT_TITLE, left, y, 0.0, 0.5, t->text, NULL, 0);
+      draw_text (p->text_cache, cr, p->title, FONT_TITLE, left, y, 0.0, 0.5, t->text, NULL, 0);
       y += LW_PLOT_LEGEND_ROW;
     }
   long slots = (long) floor ((p->width - LW_PLOT_MARGIN_LEFT - LW_PLOT_MARGIN_RIGHT) /
@@ -1490,7 +1582,8 @@ draw_legend (const LwPlot *p, cairo_t *cr)
       cairo_line_to (cr, x + 28, yy);
       cairo_stroke (cr);
       cairo_restore (cr);
-      draw_text (cr, p->names[v], FONT_LABEL, x + 34, yy, 0.0, 0.5, t->text, NULL, 0);
+      draw_text (p->text_cache, cr, p->names[v], FONT_LABEL, x + 34, yy, 0.0, 0.5, t->text,
+                 NULL, 0);
       k++;
     }
 }
@@ -1561,22 +1654,24 @@ draw_layer (LwPlot *p, cairo_t *cr, double width, double height, Layer layer, si
             n = lw_plot_axis_ticks (&pn->xv, max_labels_for (pn->rw, 64.0), ticks, MAX_TICKS);
             for (size_t i = 0; i < n; i++)
               if (ticks[i].labelled)
-                draw_text (cr, ticks[i].label, FONT_TICK,
+                draw_text (p->text_cache, cr, ticks[i].label, FONT_TICK,
                            px_of (pn, lw_plot_axis_map (&pn->x, ticks[i].value)),
                            pn->ry + pn->rh + 4, 0.5, 0.0, t->text, NULL, 0);
           }
         n = lw_plot_axis_ticks (&pn->y, max_labels_for (pn->rh, 30.0), ticks, MAX_TICKS);
         for (size_t i = 0; i < n; i++)
           if (ticks[i].labelled)
-            draw_text (cr, ticks[i].label, FONT_TICK, pn->rx - 6,
+            draw_text (p->text_cache, cr, ticks[i].label, FONT_TICK, pn->rx - 6,
                        py_of (pn, lw_plot_axis_map (&pn->y, ticks[i].value)), 1.0, 0.5,
                        t->text, NULL, 0);
       }
       if (pn->y_label)
-        draw_text (cr, pn->y_label, FONT_LABEL, pn->rx - 62, pn->ry + 0.5 * pn->rh, 0.5, 0.5,
+        draw_text (p->text_cache, cr, pn->y_label, FONT_LABEL, pn->rx - 62,
+                   pn->ry + 0.5 * pn->rh, 0.5, 0.5,
                    t->text, NULL, -G_PI / 2);
       if (pn->x_label && pn->x_tick_labels)
-        draw_text (cr, pn->x_label, FONT_LABEL, pn->rx + 0.5 * pn->rw, pn->ry + pn->rh + 22,
+        draw_text (p->text_cache, cr, pn->x_label, FONT_LABEL, pn->rx + 0.5 * pn->rw,
+                   pn->ry + pn->rh + 22,
                    0.5, 0.0, t->text, NULL, 0);
       cairo_restore (cr);
 
@@ -1851,7 +1946,8 @@ lw_plot_draw_overlay (LwPlot *p, cairo_t *cr, const LwPlotOverlay *ov)
                 pn->x_unit ? pn->x_unit : "", pn->y_name ? pn->y_name : "y", vy,
                 pn->y_unit ? pn->y_unit : "");
       bool right_half = ov->hover_x > pn->rx + 0.5 * pn->rw;
-      draw_text (cr, buf, FONT_NOTE, ov->hover_x + (right_half ? -8 : 8), ov->hover_y - 6,
+      draw_text (p->text_cache, cr, buf, FONT_NOTE, ov->hover_x + (right_half ? -8 : 8),
+                 ov->hover_y - 6,
                  right_half ? 1.0 : 0.0, 1.0, t->text, t->bg, 0);
     }
   cairo_restore (cr);

@@ -184,6 +184,17 @@ void lw_plot_draw_variant (LwPlot *p, cairo_t *cr, double width, double height,
  * variant's own, compared value for value (false when either is NULL). */
 bool lw_plot_base_equal (const LwPlot *a, const LwPlot *b, size_t variant);
 
+/* Text layouts kept across figures, for a window that rebuilds its figure every frame of a
+ * drag: a cache owned by the caller and lent to each figure with lw_plot_set_text_cache
+ * (NULL: none, every text laid out afresh, as for files). A text drawn again in the same font
+ * role reuses its layout; the cache holds the layouts of the last few hundred distinct texts.
+ * Use one cache per widget (its texts are laid out for the cairo_t drawn on). */
+typedef struct LwPlotTextCache LwPlotTextCache;
+LwPlotTextCache *lw_plot_text_cache_new (void);
+void lw_plot_text_cache_free (LwPlotTextCache *cache);
+/* cache is borrowed: it must outlive the figure's draws */
+void lw_plot_set_text_cache (LwPlot *p, LwPlotTextCache *cache);
+
 /* Draw polylines with at most four vertices per pixel column (first, lowest, highest and last
  * point of each column's run), for screens; off by default, so exported files keep every
  * point. */
