@@ -25,6 +25,8 @@ struct _LwCompensatorPanel
   GtkEntry *name_entry;
   GtkButton *rename_button;
   GtkLabel *name_problem;
+  GtkCheckButton *period_check;
+  GtkSpinButton *period_spin;
   GtkBox *compare_box;
   gboolean updating;            /* the variant widgets are being filled from the model */
   GPtrArray *compared;          /* names of the variants compared (shown as checked) */
@@ -96,6 +98,11 @@ rebuild_variants (LwCompensatorPanel *self)
   gtk_editable_set_text (GTK_EDITABLE (self->name_entry),
                          lw_design_model_get_variant_name (self->model, active));
   gtk_widget_set_visible (GTK_WIDGET (self->name_problem), FALSE);
+  gboolean own = FALSE;
+  double period_s = lw_design_model_get_variant_period_s (self->model, active, &own);
+  gtk_check_button_set_active (self->period_check, own);
+  gtk_spin_button_set_value (self->period_spin, period_s);
+  gtk_widget_set_sensitive (GTK_WIDGET (self->period_spin), own);
 
   GtkWidget *c;
   while ((c = gtk_widget_get_first_child (GTK_WIDGET (self->compare_box))) != NULL)
@@ -133,6 +140,19 @@ variant_selected (GtkDropDown *dd, GParamSpec *pspec, LwCompensatorPanel *self)
       || i == lw_design_model_get_active (self->model))
     return;
   gtk_widget_activate_action (GTK_WIDGET (self), "window.variant-switch", "u", i);
+}
+
+/* The check button or the spin of the variant's own period: one window action (one undo
+ * step) with the state of both. */
+static void
+period_edited (LwCompensatorPanel *self)
+{
+  if (self->updating || self->model == NULL)
+    return;
+  gboolean own = gtk_check_button_get_active (self->period_check);
+  gtk_widget_set_sensitive (GTK_WIDGET (self->period_spin), own);
+  gtk_widget_activate_action (GTK_WIDGET (self), "window.variant-period", "(bd)", own,
+                              gtk_spin_button_get_value (self->period_spin));
 }
 
 static void
@@ -272,6 +292,8 @@ lw_compensator_panel_class_init (LwCompensatorPanelClass *klass)
   gtk_widget_class_bind_template_child (widget_class, LwCompensatorPanel, rename_button);
   gtk_widget_class_bind_template_child (widget_class, LwCompensatorPanel, name_problem);
   gtk_widget_class_bind_template_child (widget_class, LwCompensatorPanel, compare_box);
+  gtk_widget_class_bind_template_child (widget_class, LwCompensatorPanel, period_check);
+  gtk_widget_class_bind_template_child (widget_class, LwCompensatorPanel, period_spin);
   gtk_widget_class_install_action (widget_class, "compensator.add-stage", "s",
                                    add_stage_activated);
   gtk_widget_class_set_layout_manager_type (widget_class, GTK_TYPE_BIN_LAYOUT);
@@ -286,4 +308,7 @@ lw_compensator_panel_init (LwCompensatorPanel *self)
                     self);
   g_signal_connect_swapped (self->rename_button, "clicked", G_CALLBACK (rename_clicked), self);
   g_signal_connect_swapped (self->name_entry, "activate", G_CALLBACK (rename_clicked), self);
+  g_signal_connect_swapped (self->period_check, "toggled", G_CALLBACK (period_edited), self);
+  g_signal_connect_swapped (self->period_spin, "value-changed", G_CALLBACK (period_edited),
+                            self);
 }

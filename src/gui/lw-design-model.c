@@ -18,12 +18,25 @@ struct _LwDesignModel
 
   LwDesign *doc;                /* the document being edited (owned) */
 
-  /* the sampled plant of the last evaluation, and what it was built from */
-  LwSampledPlant *sampled;
+  /* the sampled plants of the last evaluations, one per sample period (variants may have
+   * their own), and the plant and dead time they were built from */
+  GArray *sampled;              /* of SampledEntry */
   char *sampled_plant_text;
   double sampled_dead_time_s;
-  double sampled_period_s;
 };
+
+typedef struct
+{
+  double period_s;
+  LwSampledPlant *plant;
+} SampledEntry;
+
+static void
+sampled_entry_clear (gpointer data)
+{
+  SampledEntry *e = data;
+  g_clear_pointer (&e->plant, lw_sampled_plant_free);
+}
 
 G_DEFINE_FINAL_TYPE (LwDesignModel, lw_design_model, G_TYPE_OBJECT)
 
@@ -44,7 +57,7 @@ lw_design_model_finalize (GObject *object)
   LwDesignModel *self = LW_DESIGN_MODEL (object);
 
   g_clear_pointer (&self->doc, lw_design_free);
-  g_clear_pointer (&self->sampled, lw_sampled_plant_free);
+  g_clear_pointer (&self->sampled, g_array_unref);
   g_free (self->sampled_plant_text);
   G_OBJECT_CLASS (lw_design_model_parent_class)->finalize (object);
 }
@@ -83,6 +96,8 @@ lw_design_model_class_init (LwDesignModelClass *klass)
 static void
 lw_design_model_init (LwDesignModel *self)
 {
+  self->sampled = g_array_new (FALSE, FALSE, sizeof (SampledEntry));
+  g_array_set_clear_func (self->sampled, sampled_entry_clear);
 }
 
 LwDesignModel *
@@ -420,11 +435,47 @@ lw_design_model_add_variant (LwDesignModel *self, const char *name, gboolean cop
     {
       const LwDesignVariant *src = &self->doc->variants[from];
       lw_design_set_string (&v->notes, src->notes);
+      v->has_period = src->has_period;
+      v->period_s = src->period_s;
       for (size_t k = 0; k < src->n_stages; k++)
         lw_design_variant_add_stage (v, &src->stages[k]);
     }
   self->doc->active = self->doc->n_variants - 1;
   emit_variants_changed (self, TRUE);
+  return TRUE;
+}
+
+double
+lw_design_model_get_variant_period_s (LwDesignModel *self, guint i, gboolean *overrides)
+{
+  g_return_val_if_fail (LW_IS_DESIGN_MODEL (self), NAN);
+  g_return_val_if_fail (i < self->doc->n_variants, NAN);
+  if (overrides != NULL)
+    *overrides = self->doc->variants[i].has_period;
+  return lw_design_variant_period_s (self->doc, i);
+}
+
+double
+lw_design_model_get_active_period_s (LwDesignModel *self)
+{
+  g_return_val_if_fail (LW_IS_DESIGN_MODEL (self), NAN);
+  return lw_design_variant_period_s (self->doc, self->doc->active);
+}
+
+gboolean
+lw_design_model_set_variant_period (LwDesignModel *self, guint i, gboolean overrides,
+                                    double period_s)
+{
+  g_return_val_if_fail (LW_IS_DESIGN_MODEL (self), FALSE);
+  g_return_val_if_fail (i < self->doc->n_variants, FALSE);
+  if (overrides && !(period_s > 0.0 && isfinite (period_s)))
+    return FALSE;
+  LwDesignVariant *v = &self->doc->variants[i];
+  if (v->has_period == overrides && (!overrides || v->period_s == period_s))
+    return TRUE;
+  v->has_period = overrides;
+  v->period_s = overrides ? period_s : 0.0;
+  emit_variants_changed (self, FALSE);
   return TRUE;
 }
 
@@ -511,26 +562,47 @@ fail (LwLoopEval *e, LwLoopFailure failure)
   return e;
 }
 
-/* The sampled plant for the current plant, dead time and period: kept from the last call when
- * none of them changed (the plan/execute split of lw-analysis.h). */
+/* Whether some variant of d is sampled at period_s. */
+static gboolean
+period_in_use (const LwDesign *d, double period_s)
+{
+  for (size_t i = 0; i < d->n_variants; i++)
+    if (lw_design_variant_period_s (d, i) == period_s)
+      return TRUE;
+  return FALSE;
+}
+
+/* The sampled plant for the current plant and dead time at period_s: kept from earlier calls
+ * while the plant and dead time are unchanged (the plan/execute split of lw-analysis.h). One
+ * is kept per period some variant uses, so reference variants at other rates keep theirs;
+ * those of periods no variant uses any more are dropped (their evaluations are stale). */
 static LwSampledPlant *
-sampled_plant (LwDesignModel *self, const LwZpk *plant_s, LwError *err)
+sampled_plant (LwDesignModel *self, const LwZpk *plant_s, double period_s, LwError *err)
 {
   const LwDesign *d = self->doc;
-  if (self->sampled != NULL && g_strcmp0 (self->sampled_plant_text, d->plant) == 0
-      && self->sampled_dead_time_s == d->dead_time_s
-      && self->sampled_period_s == d->period_s)
-    return self->sampled;
-
-  g_clear_pointer (&self->sampled, lw_sampled_plant_free);
-  g_clear_pointer (&self->sampled_plant_text, g_free);
-  if (lw_sampled_plant_new (plant_s, d->dead_time_s, d->period_s, &self->sampled, err)
-      != LW_OK)
+  if (g_strcmp0 (self->sampled_plant_text, d->plant) != 0
+      || self->sampled_dead_time_s != d->dead_time_s)
+    {
+      g_array_set_size (self->sampled, 0);
+      g_free (self->sampled_plant_text);
+      self->sampled_plant_text = g_strdup (d->plant);
+      self->sampled_dead_time_s = d->dead_time_s;
+    }
+  for (guint k = 0; k < self->sampled->len;)
+    {
+      SampledEntry *e = &g_array_index (self->sampled, SampledEntry, k);
+      if (e->period_s == period_s)
+        return e->plant;
+      if (!period_in_use (d, e->period_s))
+        g_array_remove_index_fast (self->sampled, k);
+      else
+        k++;
+    }
+  SampledEntry e = { period_s, NULL };
+  if (lw_sampled_plant_new (plant_s, d->dead_time_s, period_s, &e.plant, err) != LW_OK)
     return NULL;
-  self->sampled_plant_text = g_strdup (d->plant);
-  self->sampled_dead_time_s = d->dead_time_s;
-  self->sampled_period_s = d->period_s;
-  return self->sampled;
+  g_array_append_val (self->sampled, e);
+  return e.plant;
 }
 
 LwLoopEval *
@@ -562,14 +634,15 @@ lw_design_model_evaluate_variant (LwDesignModel *self, guint variant, size_t n_p
       != LW_OK)
     return fail (e, LW_LOOP_FAILED_PLANT);
 
-  LwSampledPlant *plant = sampled_plant (self, e->plant_s, &e->error);
+  double period_s = lw_design_variant_period_s (d, variant);   /* its own, or the design's */
+  LwSampledPlant *plant = sampled_plant (self, e->plant_s, period_s, &e->error);
   if (plant == NULL)
     return fail (e, LW_LOOP_FAILED_SAMPLING);
 
   LwZpk *controller_z = NULL;
-  if (lw_compensator_w (v->stages, v->n_stages, d->period_s, &e->controller_w, &e->error)
+  if (lw_compensator_w (v->stages, v->n_stages, period_s, &e->controller_w, &e->error)
         != LW_OK
-      || lw_compensator_z (v->stages, v->n_stages, d->period_s, &controller_z, &e->error)
+      || lw_compensator_z (v->stages, v->n_stages, period_s, &controller_z, &e->error)
            != LW_OK)
     return fail (e, LW_LOOP_FAILED_COMPENSATOR);
 

@@ -79,8 +79,8 @@ const LwRequirement *lw_design_model_get_requirement (LwDesignModel *self, guint
 void lw_design_model_set_requirement (LwDesignModel *self, guint i, const LwRequirement *r);
 void lw_design_model_append_requirement (LwDesignModel *self, const LwRequirement *r);
 
-/* Variants: the document holds one or more, each with its own stages; the plant and the
- * sampling are shared. Every getter and setter of stages above works on the active one.
+/* Variants: the document holds one or more, each with its own stages (and optionally its own
+ * sample period); the plant, the hold and the delays are shared. Every getter and setter of stages above works on the active one.
  * Each change emits "variants-changed", then ("stages-changed" when the active variant's
  * stages are others now) "changed". */
 guint lw_design_model_get_n_variants (LwDesignModel *self);
@@ -98,6 +98,16 @@ char *lw_design_model_unused_variant_name (LwDesignModel *self, const char *base
 gboolean lw_design_model_add_variant (LwDesignModel *self, const char *name,
                                       gboolean copy_active);
 gboolean lw_design_model_rename_variant (LwDesignModel *self, guint i, const char *name);
+/* The sample period (s) variant i is evaluated at: its own when it overrides the design's
+ * (*overrides, may be NULL, says whether), else the design's. */
+double lw_design_model_get_variant_period_s (LwDesignModel *self, guint i,
+                                             gboolean *overrides);
+/* The same for the active variant: the period its loop, its plots and its drag handles use. */
+double lw_design_model_get_active_period_s (LwDesignModel *self);
+/* Sets (overrides TRUE, period_s > 0 finite) or clears variant i's own sample period; FALSE
+ * (nothing changed) for a bad period. */
+gboolean lw_design_model_set_variant_period (LwDesignModel *self, guint i, gboolean overrides,
+                                             double period_s);
 /* Removes variant i; FALSE for the last one left. The active index follows its variant, or
  * moves to the neighbour when the active one goes. */
 gboolean lw_design_model_remove_variant (LwDesignModel *self, guint i);
@@ -122,8 +132,8 @@ typedef struct
   LwZpk *plant_s;                 /* NULL when the plant failed to parse */
   LwZpk *controller_w;            /* NULL when the compensator failed */
   LwEvaluation *ev;               /* NULL on any failure */
-  /* the sampled plant ev was evaluated against, owned by the model: valid only until the
-   * model's next evaluation (for the figure adapter, which needs it once per evaluation) */
+  /* the sampled plant ev was evaluated against, owned by the model: valid while the plant,
+   * the dead time and the variant's period are unchanged (for the figure adapter) */
   const LwSampledPlant *sampled;
   gboolean has_achieved;          /* achieved figures, when ev is set */
   LwAchieved achieved;            /* with the actuator peak of the simulated step */

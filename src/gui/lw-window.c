@@ -149,8 +149,8 @@ plot_requirements (LwWindow *self, LwPlotRequirements *req)
       else if (r->kind == LW_REQ_CROSSOVER_RANGE && !has_wc)
         has_wc = TRUE, wc = sqrt (r->limit * r->limit_hi);
     }
-  lw_figure_requirements (req, lw_design_model_get_period_s (self->model), has_wc, wc, has_pm,
-                          pm);
+  lw_figure_requirements (req, lw_design_model_get_active_period_s (self->model), has_wc, wc,
+                          has_pm, pm);
   req->has_min_gain_margin = has_gm;
   req->min_gain_margin_db = gm;
 }
@@ -171,15 +171,17 @@ ref_eval_free (gpointer data)
   g_free (r);
 }
 
-/* What the evaluation of variant i depends on: the shared plant and sampling, its stages. */
+/* What the evaluation of variant i depends on: the shared plant and sampling, its own period
+ * (or the design's), its stages. */
 static GBytes *
 variant_key (const LwDesign *d, guint i)
 {
   GByteArray *b = g_byte_array_new ();
   const LwDesignVariant *v = &d->variants[i];
+  double period_s = lw_design_variant_period_s (d, i);
   g_byte_array_append (b, (const guint8 *) d->plant, (guint) strlen (d->plant) + 1);
   g_byte_array_append (b, (const guint8 *) &d->dead_time_s, sizeof d->dead_time_s);
-  g_byte_array_append (b, (const guint8 *) &d->period_s, sizeof d->period_s);
+  g_byte_array_append (b, (const guint8 *) &period_s, sizeof period_s);
   g_byte_array_append (b, (const guint8 *) &d->compute_delay, sizeof d->compute_delay);
   if (v->n_stages > 0)
     g_byte_array_append (b, (const guint8 *) v->stages, (guint) (v->n_stages * sizeof *v->stages));
@@ -578,6 +580,22 @@ variant_rename_activated (GtkWidget *widget, const char *action, GVariant *param
     return;
   lw_design_model_rename_variant (self->model, lw_design_model_get_active (self->model),
                                   g_variant_get_string (param, NULL));
+  variant_action_end (self);
+}
+
+/* The active variant's own sample period, set ((true, T)) or cleared ((false, _)): one undo
+ * step. The spin's value when cleared is ignored. */
+static void
+variant_period_activated (GtkWidget *widget, const char *action, GVariant *param)
+{
+  LwWindow *self = LW_WINDOW (widget);
+  gboolean own = FALSE;
+  double period_s = 0.0;
+  g_variant_get (param, "(bd)", &own, &period_s);
+  if (!variant_action_begin (self))
+    return;
+  lw_design_model_set_variant_period (self->model, lw_design_model_get_active (self->model),
+                                      own, period_s);
   variant_action_end (self);
 }
 
@@ -1121,7 +1139,7 @@ autosave_tick (gpointer user_data)
 static double
 pane_x_to_nu (LwWindow *self, LwPlotPane *pane, double x)
 {
-  double period = lw_design_model_get_period_s (self->model);
+  double period = lw_design_model_get_active_period_s (self->model);
   if (lw_plot_pane_get_view (pane) == LW_PLOT_VIEW_BODE_W)
     return x;
   double omax = G_PI / period * (1.0 - 1e-9);
@@ -1132,7 +1150,7 @@ static void
 set_drag_label (LwWindow *self, const LwStage *s)
 {
   g_autofree char *text = NULL;
-  double period = lw_design_model_get_period_s (self->model);
+  double period = lw_design_model_get_active_period_s (self->model);
   if (self->drag_corner < 0)
     text = g_strdup_printf (_("gain %.4g (%+.2f dB)"), s->p.gain.ratio,
                             20.0 * log10 (fabs (s->p.gain.ratio)));
@@ -1191,7 +1209,7 @@ update_drag (LwWindow *self, double x, double y_db, gboolean keep_ratio)
         nu = nu0 * x / self->drag_start_x;
       else
         {
-          double period = lw_design_model_get_period_s (self->model);
+          double period = lw_design_model_get_active_period_s (self->model);
           double w0 = lw_warp_nu_to_omega (nu0, period);
           nu = pane_x_to_nu (self, self->drag_pane, w0 * x / self->drag_start_x);
         }
@@ -1726,6 +1744,8 @@ lw_window_class_init (LwWindowClass *klass)
   gtk_widget_class_install_action (widget_class, "window.save-as", NULL, save_as_activated);
   gtk_widget_class_install_action (widget_class, "window.export", NULL, export_activated);
   gtk_widget_class_install_action (widget_class, "window.undo", NULL, undo_activated);
+  gtk_widget_class_install_action (widget_class, "window.variant-period", "(bd)",
+                                   variant_period_activated);
   gtk_widget_class_install_action (widget_class, "window.redo", NULL, redo_activated);
   gtk_widget_class_install_action (widget_class, "window.next-handle", NULL,
                                    next_handle_activated);
