@@ -43,6 +43,7 @@ struct _LwPlotArea
   LwPlotLayout layout;
   gboolean split;
   GPtrArray *figures;                 /* of FigureEntry *, each on its own (stable address) */
+  unsigned long next_data_key;        /* the last LwPlotVariant.data_key given to an entry */
   gboolean debug;                     /* LW_DEBUG_HANDLES=1: print the series shown */
   gboolean linking;
 };
@@ -266,6 +267,9 @@ figure_for (LwPlotArea *self, LwLoopEval *eval, const char *name, LwError *err)
       return NULL;
     }
   e->fv.v.name = e->name;
+  /* the entry's arrays do not change while it lives: a key of its own lets a figure rebuilt
+   * during a drag copy this variant's mapped curves from the one before */
+  e->fv.v.data_key = ++self->next_data_key;
   g_ptr_array_add (self->figures, e);
   return &e->fv;
 }

@@ -106,6 +106,11 @@ typedef struct {
   bool plate;            /* background plate behind the text */
   double r_units, a0, a1;
   long owner;            /* the variant the primitive belongs to (its layer), or −1 */
+  /* a variant's curve: where its points came from (LwPlotVariant.data_key, the input arrays
+   * and which curve of them), so a figure built with this one as axes_of can copy them */
+  unsigned long key;
+  const void *src_x, *src_y;
+  int tag;
 } Prim;
 
 typedef struct {
@@ -135,6 +140,10 @@ struct LwPlot {
   bool laid_out;
   bool decimate;                    /* lw_plot_set_decimate */
   LwPlotTextCache *text_cache;      /* borrowed (lw_plot_set_text_cache), or NULL */
+  /* while lw_plot_new builds: the figure whose mapped curves may be copied (axes_of), and
+   * each variant's data key */
+  const LwPlot *reuse;
+  unsigned long keys[LW_PLOT_MAX_VARIANTS];
 };
 
 static void
@@ -259,6 +268,61 @@ style_variant (Prim *p, size_t variant, double width)
   p->owner = (long) variant;
   p->width = width;
   return p;
+}
+
+/* A curve of variant v made from the arrays src_x, src_y (tag tells apart curves made from
+ * the same arrays), n points: copied from the figure being reused when it holds the same
+ * curve of a variant with the same data key on equal axes, else NULL (map it then, and call
+ * curve_mark). The caller's promise (lw-plot.h) makes a key and its arrays stand for the
+ * values in them. */
+static Prim *
+curve_reuse (LwPlot *pl, Panel *pn, size_t v, const void *src_x, const void *src_y, int tag,
+             size_t n)
+{
+  unsigned long key = pl->keys[v];
+  const LwPlot *r = pl->reuse;
+  size_t k = (size_t) (pn - pl->panels);
+  if (key == 0 || r == NULL || k >= r->n_panels)
+    return NULL;
+  const Panel *rp = &r->panels[k];
+  if (rp->x.scale != pn->x.scale || rp->x.lo != pn->x.lo || rp->x.hi != pn->x.hi
+      || rp->y.scale != pn->y.scale || rp->y.lo != pn->y.lo || rp->y.hi != pn->y.hi)
+    return NULL;
+  for (guint i = 0; i < rp->prims->len; i++)
+    {
+      const Prim *q = rp->prims->pdata[i];
+      if (q->key == key && q->src_x == src_x && q->src_y == src_y && q->tag == tag
+          && q->kind == PRIM_LINE && q->n == n)
+        {
+          Prim *p = prim_add (pn, PRIM_LINE, n);
+          memcpy (p->u, q->u, n * sizeof *p->u);
+          memcpy (p->v, q->v, n * sizeof *p->v);
+          p->key = key;
+          p->src_x = src_x;
+          p->src_y = src_y;
+          p->tag = tag;
+          return p;
+        }
+    }
+  return NULL;
+}
+
+static Prim *
+curve_mark (LwPlot *pl, Prim *p, size_t v, const void *src_x, const void *src_y, int tag)
+{
+  p->key = pl->keys[v];
+  p->src_x = src_x;
+  p->src_y = src_y;
+  p->tag = tag;
+  return p;
+}
+
+/* add_line for a curve of variant v, from the reused figure when it can be (curve_reuse). */
+static Prim *
+add_curve (LwPlot *pl, Panel *pn, size_t v, size_t n, const double *x, const double *y)
+{
+  Prim *p = curve_reuse (pl, pn, v, x, y, 0, n);
+  return p != NULL ? p : curve_mark (pl, add_line (pn, n, x, y), v, x, y, 0);
 }
 
 static void
@@ -485,15 +549,16 @@ build_bode (LwPlot *pl, const LwPlotInput *in, bool w_plane)
       const LwPlotFreqCurve *c = w_plane ? &in->variants[v].w : &in->variants[v].z;
       if (c->n_asymptote >= 2)
         {
-          Prim *a = add_line (mag, c->n_asymptote, c->asymptote_freq_rad_s, c->asymptote_db);
+          Prim *a = add_curve (pl, mag, v, c->n_asymptote, c->asymptote_freq_rad_s,
+                               c->asymptote_db);
           style_variant (a, v, THIN_WIDTH);
           a->dash = DASH_DASHED;
           a->alpha = 0.8;
         }
-      Prim *pm = add_line (mag, c->n, c->freq_rad_s, c->mag_db);
+      Prim *pm = add_curve (pl, mag, v, c->n, c->freq_rad_s, c->mag_db);
       style_variant (pm, v, LW_PLOT_CURVE_WIDTH);
       pm->dash = DASH_VARIANT;
-      Prim *pc = add_line (ph, c->n, c->freq_rad_s, c->phase_deg);
+      Prim *pc = add_curve (pl, ph, v, c->n, c->freq_rad_s, c->phase_deg);
       style_variant (pc, v, LW_PLOT_CURVE_WIDTH);
       pc->dash = DASH_VARIANT;
     }
@@ -596,15 +661,19 @@ build_nyquist (LwPlot *pl, const LwPlotInput *in)
   for (size_t v = 0; v < in->n_variants; v++)
     {
       const LwPlotComplexCurve *c = &in->variants[v].nyquist;
-      double *mirror = g_new (double, c->n > 0 ? c->n : 1);
-      for (size_t i = 0; i < c->n; i++)
-        mirror[i] = -c->im[i];
-      Prim *m = add_line (pn, c->n, c->re, mirror);
+      Prim *m = curve_reuse (pl, pn, v, c->re, c->im, 1, c->n);
+      if (m == NULL)
+        {
+          double *mirror = g_new (double, c->n > 0 ? c->n : 1);
+          for (size_t i = 0; i < c->n; i++)
+            mirror[i] = -c->im[i];
+          m = curve_mark (pl, add_line (pn, c->n, c->re, mirror), v, c->re, c->im, 1);
+          g_free (mirror);
+        }
       style_variant (m, v, THIN_WIDTH);
       m->alpha = 0.45;
       m->dash = DASH_VARIANT;
-      g_free (mirror);
-      Prim *l = add_line (pn, c->n, c->re, c->im);
+      Prim *l = add_curve (pl, pn, v, c->n, c->re, c->im);
       style_variant (l, v, LW_PLOT_CURVE_WIDTH);
       l->dash = DASH_VARIANT;
 
@@ -711,7 +780,7 @@ build_nichols (LwPlot *pl, const LwPlotInput *in)
   for (size_t v = 0; v < in->n_variants; v++)
     {
       const LwPlotFreqCurve *c = &in->variants[v].z;
-      Prim *l = add_line (pn, c->n, c->phase_deg, c->mag_db);
+      Prim *l = add_curve (pl, pn, v, c->n, c->phase_deg, c->mag_db);
       style_variant (l, v, LW_PLOT_CURVE_WIDTH);
       l->dash = DASH_VARIANT;
       double stack = 13.0 * (double) v;
@@ -766,9 +835,12 @@ build_nichols (LwPlot *pl, const LwPlotInput *in)
 
 /* Staircase of samples s[k] held over [kT, (k+1)T), k = 0 … n−1, ending at (n−1)T. */
 static Prim *
-add_staircase (Panel *pn, size_t n, const double *s, double T)
+add_staircase (LwPlot *pl, Panel *pn, size_t v, size_t n, const double *s, double T)
 {
   size_t m = 2 * n - 1;
+  Prim *r = curve_reuse (pl, pn, v, s, s, 2, m);
+  if (r != NULL)
+    return r;
   double *x = g_new (double, m), *y = g_new (double, m);
   for (size_t k = 0; k < n; k++)
     {
@@ -780,7 +852,7 @@ add_staircase (Panel *pn, size_t n, const double *s, double T)
           y[2 * k + 1] = s[k];
         }
     }
-  Prim *p = add_line (pn, m, x, y);
+  Prim *p = curve_mark (pl, add_line (pn, m, x, y), v, s, s, 2);
   g_free (x);
   g_free (y);
   return p;
@@ -861,13 +933,13 @@ build_step (LwPlot *pl, const LwPlotInput *in)
         }
       if (s->n_fine >= 2 && s->t_fine_s && s->y_fine)
         {
-          Prim *c = add_line (out, s->n_fine, s->t_fine_s, s->y_fine);
+          Prim *c = add_curve (pl, out, v, s->n_fine, s->t_fine_s, s->y_fine);
           style_variant (c, v, THIN_WIDTH);
           c->alpha = 0.7;
         }
       if (s->n >= 2)
         {
-          Prim *st = add_staircase (out, s->n, s->y, s->period_s);
+          Prim *st = add_staircase (pl, out, v, s->n, s->y, s->period_s);
           style_variant (st, v, LW_PLOT_CURVE_WIDTH);
           st->dash = DASH_VARIANT;
           if (s->n <= 120)
@@ -877,7 +949,7 @@ build_step (LwPlot *pl, const LwPlotInput *in)
         }
       if (any_u && s->u && s->n >= 2)
         {
-          Prim *st = add_staircase (act, s->n, s->u, s->period_s);
+          Prim *st = add_staircase (pl, act, v, s->n, s->u, s->period_s);
           style_variant (st, v, LW_PLOT_CURVE_WIDTH);
           st->dash = DASH_VARIANT;
           if (s->has_limits)
@@ -1053,7 +1125,12 @@ lw_plot_new (const LwPlotInput *in, char *err_msg, size_t err_size)
   pl->title = g_strdup (in->title);
   pl->n_variants = in->n_variants;
   for (size_t v = 0; v < in->n_variants; v++)
-    pl->names[v] = g_strdup (in->variants[v].name);
+    {
+      pl->names[v] = g_strdup (in->variants[v].name);
+      pl->keys[v] = in->variants[v].data_key;
+    }
+  if (in->axes_of != NULL && in->axes_of->view == in->view)
+    pl->reuse = in->axes_of;
   for (size_t k = 0; k < MAX_PANELS; k++)
     panel_init (&pl->panels[k]);
   switch (in->view)
@@ -1065,6 +1142,7 @@ lw_plot_new (const LwPlotInput *in, char *err_msg, size_t err_size)
     case LW_PLOT_VIEW_STEP: build_step (pl, in); break;
     case LW_PLOT_VIEW_POLES: build_poles (pl, in); break;
     }
+  pl->reuse = NULL;
   for (size_t k = 0; k < MAX_PANELS; k++)
     {
       pl->panels[k].xv = pl->panels[k].x;

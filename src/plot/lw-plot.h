@@ -126,6 +126,11 @@ typedef struct {
   LwPlotComplexCurve nyquist;
   LwPlotStepData step;
   LwPlotPoleData poles;
+  /* optional (0: none): a key for the data above. A caller that gives the same nonzero key
+   * to a variant of this figure and of its axes_of promises the same arrays with the same
+   * values in them; the figure then copies that variant's mapped curves from axes_of (when
+   * their panel has the same axes) instead of mapping every point again. */
+  unsigned long data_key;
 } LwPlotVariant;
 
 /* Requirement marks, drawn where they apply. */
