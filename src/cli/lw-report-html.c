@@ -45,8 +45,9 @@ esc (GString *s, const char *t, bool breaks)
       }
 }
 
-/* cairo's SVG ids (glyph0-1, clip1, surface1, …) are numbered per file; several SVGs inline in
- * one page would share them, so each figure's ids get the prefix "figN-". */
+/* cairo's SVG ids (glyph0-1, clip1, …) are numbered per file; several SVGs inline in one page
+ * would share them, so each figure's ids get the prefix "figN-". Surface ids are renumbered
+ * (below). */
 static void
 append_svg (GString *s, const char *svg, size_t len, size_t fig)
 {
@@ -55,6 +56,7 @@ append_svg (GString *s, const char *svg, size_t len, size_t fig)
   if (open != NULL)
     p = open;
   g_autofree char *prefix = g_strdup_printf ("fig%zu-", fig);
+  g_autoptr (GHashTable) surfaces = g_hash_table_new (g_direct_hash, g_direct_equal);
   static const char *const marks[] = { "id=\"", "href=\"#", "url(#" };
   while (p < end)
     {
@@ -77,6 +79,27 @@ append_svg (GString *s, const char *svg, size_t len, size_t fig)
       g_string_append_len (s, p, next + mark_len - p);
       g_string_append (s, prefix);
       p = next + mark_len;
+      /* "surfaceN": cairo numbers surfaces per process, not per file, so N depends on what
+       * the process drew before (the window draws many). Renumber them 1, 2, … in the order
+       * they appear in this figure, so the page is the same bytes in any process. */
+      static const char surface[] = "surface";
+      size_t sl = sizeof surface - 1;
+      if ((size_t) (end - p) > sl && memcmp (p, surface, sl) == 0 && g_ascii_isdigit (p[sl]))
+        {
+          const char *q = p + sl;
+          guint64 num = 0;
+          while (q < end && g_ascii_isdigit (*q))
+            num = num * 10 + (guint64) (*q++ - '0');
+          gpointer key = GSIZE_TO_POINTER ((gsize) num + 1);
+          gpointer seq = g_hash_table_lookup (surfaces, key);
+          if (seq == NULL)
+            {
+              seq = GUINT_TO_POINTER (g_hash_table_size (surfaces) + 1);
+              g_hash_table_insert (surfaces, key, seq);
+            }
+          g_string_append_printf (s, "%s%u", surface, GPOINTER_TO_UINT (seq));
+          p = q;
+        }
     }
   if (s->len > 0 && s->str[s->len - 1] != '\n')
     g_string_append_c (s, '\n');

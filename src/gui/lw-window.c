@@ -39,6 +39,8 @@
 #include "lw-design-model.h"
 #include "lw-design.h"
 #include "lw-export-dialog.h"
+#include "lw-cli-common.h"   /* LW_EXIT_OK of the report builder */
+#include "lw-report.h"
 #include "lw-figure-data.h"
 #include "lw-plant-panel.h"
 #include "lw-plot-area.h"
@@ -1403,6 +1405,139 @@ export_activated (GtkWidget *widget, const char *action, GVariant *param)
                          self);
 }
 
+/* ---- design report ------------------------------------------------------------------------ */
+
+/* The report's date: SOURCE_DATE_EPOCH when set (the reproducible-builds convention, as
+ * `loopwright-cli report` reads it), else today. g_free the result. */
+static char *
+report_date (void)
+{
+  const char *e = g_getenv ("SOURCE_DATE_EPOCH");
+  g_autoptr (GDateTime) dt = NULL;
+  if (e != NULL && *e != '\0')
+    {
+      char *end = NULL;
+      gint64 secs = g_ascii_strtoll (e, &end, 10);
+      if (end != NULL && *end == '\0' && secs >= 0 && secs <= G_GINT64_CONSTANT (253402300799))
+        dt = g_date_time_new_from_unix_utc (secs);
+    }
+  if (dt == NULL)
+    dt = g_date_time_new_now_local ();
+  return g_date_time_format (dt, "%Y-%m-%d");
+}
+
+/* Writes the design report of the variants shown (the active one and those compared with it,
+ * in the document's order) to path, .pdf or else .html: the report of
+ * `loopwright-cli report FILE --variants … --date …` built by the same code (src/cli/
+ * lw-report-*), FILE being the document's file name. Explains a failure over the window. */
+static void
+write_report (LwWindow *self, const char *path)
+{
+  const LwDesign *d = lw_design_model_get_design (self->model);
+  size_t which[LW_PLOT_MAX_VARIANTS];
+  size_t n = 0;
+  for (size_t i = 0; i < d->n_variants && n < LW_PLOT_MAX_VARIANTS; i++)
+    if (i == d->active || is_compared (self, d->variants[i].name))
+      which[n++] = i;
+  g_autofree char *name = document_name (self);
+  g_autofree char *date = report_date ();
+  g_autofree char *shown = g_filename_display_name (path);
+  g_autofree char *primary = g_strdup_printf (_("Could not write the report “%s”"), shown);
+  LwReport *r = NULL;
+  if (lw_report_build (name, d, which, n, date, &r) != LW_EXIT_OK)
+    {
+      show_error (self, primary, _("The design could not be evaluated; the message is on the "
+                                   "terminal."));
+      return;
+    }
+  g_autofree char *lower = g_ascii_strdown (path, -1);
+  unsigned char *bytes = NULL;
+  size_t len = 0;
+  char msg[256] = "";
+  gboolean ok = TRUE;
+  if (g_str_has_suffix (lower, ".pdf"))
+    ok = lw_report_pdf (r, &bytes, &len, msg, sizeof msg);
+  else
+    bytes = (unsigned char *) lw_report_html (r, &len);
+  lw_report_free (r);
+  g_autoptr (GError) error = NULL;
+  if (!ok)
+    show_error (self, primary, msg);
+  else if (!g_file_set_contents (path, (const char *) bytes, (gssize) len, &error))
+    show_error (self, primary, error->message);
+  else if (self->debug)
+    g_print ("LW-REPORT path=%s bytes=%zu variants=%zu\n", path, len, n);
+  g_free (bytes);
+}
+
+static void
+report_response (GtkNativeDialog *native, int response, gpointer user_data)
+{
+  LwWindow *self = LW_WINDOW (user_data);
+  if (response == GTK_RESPONSE_ACCEPT)
+    {
+      g_autoptr (GFile) file = gtk_file_chooser_get_file (GTK_FILE_CHOOSER (native));
+      const char *path = file != NULL ? g_file_peek_path (file) : NULL;
+      if (path != NULL)
+        {
+          g_autofree char *lower = g_ascii_strdown (path, -1);
+          if (g_str_has_suffix (lower, ".pdf") || g_str_has_suffix (lower, ".html")
+              || g_str_has_suffix (lower, ".htm"))
+            write_report (self, path);
+          else
+            {
+              /* no known extension: the format of the chosen filter */
+              GtkFileFilter *f = gtk_file_chooser_get_filter (GTK_FILE_CHOOSER (native));
+              gboolean pdf = f != NULL && g_object_get_data (G_OBJECT (f), "lw-pdf") != NULL;
+              g_autofree char *full = g_strconcat (path, pdf ? ".pdf" : ".html", NULL);
+              write_report (self, full);
+            }
+        }
+    }
+  g_object_unref (native);
+  g_object_unref (self);
+}
+
+/* Test hook: with LW_TEST_REPORT_PATH set, Export Report writes there at once, without the
+ * file chooser (tests/gui/test-report.py). */
+static void
+export_report_activated (GtkWidget *widget, const char *action, GVariant *param)
+{
+  LwWindow *self = LW_WINDOW (widget);
+  const char *test_path = g_getenv ("LW_TEST_REPORT_PATH");
+  if (test_path != NULL && *test_path != '\0')
+    {
+      write_report (self, test_path);
+      return;
+    }
+  GtkFileChooserNative *native =
+    gtk_file_chooser_native_new (_("Export Report"), GTK_WINDOW (self),
+                                 GTK_FILE_CHOOSER_ACTION_SAVE, _("_Export"), _("_Cancel"));
+  gtk_native_dialog_set_modal (GTK_NATIVE_DIALOG (native), TRUE);
+  GtkFileFilter *pdf = gtk_file_filter_new ();
+  gtk_file_filter_set_name (pdf, _("PDF report (*.pdf)"));
+  gtk_file_filter_add_suffix (pdf, "pdf");
+  g_object_set_data (G_OBJECT (pdf), "lw-pdf", GINT_TO_POINTER (1));
+  GtkFileFilter *html = gtk_file_filter_new ();
+  gtk_file_filter_set_name (html, _("HTML report (*.html)"));
+  gtk_file_filter_add_suffix (html, "html");
+  gtk_file_filter_add_suffix (html, "htm");
+  gtk_file_chooser_add_filter (GTK_FILE_CHOOSER (native), pdf);
+  gtk_file_chooser_add_filter (GTK_FILE_CHOOSER (native), html);
+  g_object_unref (pdf);
+  g_object_unref (html);
+  set_chooser_folder (self, GTK_FILE_CHOOSER (native));
+  g_autofree char *name = document_name (self);
+  char *dot = strrchr (name, '.');
+  if (dot != NULL && self->file != NULL)
+    *dot = '\0';
+  /* TRANSLATORS: the suggested file name of a design report; %s is the design's file name */
+  g_autofree char *suggested = g_strdup_printf (_("%s report.pdf"), name);
+  gtk_file_chooser_set_current_name (GTK_FILE_CHOOSER (native), suggested);
+  g_signal_connect (native, "response", G_CALLBACK (report_response), g_object_ref (self));
+  gtk_native_dialog_show (GTK_NATIVE_DIALOG (native));
+}
+
 /* ---- dark style ---------------------------------------------------------------------------- */
 
 static void
@@ -1743,6 +1878,8 @@ lw_window_class_init (LwWindowClass *klass)
   gtk_widget_class_install_action (widget_class, "window.save", NULL, save_activated);
   gtk_widget_class_install_action (widget_class, "window.save-as", NULL, save_as_activated);
   gtk_widget_class_install_action (widget_class, "window.export", NULL, export_activated);
+  gtk_widget_class_install_action (widget_class, "window.export-report", NULL,
+                                   export_report_activated);
   gtk_widget_class_install_action (widget_class, "window.undo", NULL, undo_activated);
   gtk_widget_class_install_action (widget_class, "window.variant-period", "(bd)",
                                    variant_period_activated);
@@ -1809,6 +1946,10 @@ lw_window_class_init (LwWindowClass *klass)
                                        "window.save-as", NULL);
   gtk_widget_class_add_binding_action (widget_class, GDK_KEY_e, GDK_CONTROL_MASK,
                                        "window.export", NULL);
+  gtk_widget_class_add_binding_action (widget_class, GDK_KEY_e, GDK_CONTROL_MASK | GDK_SHIFT_MASK,
+                                       "window.export-report", NULL);
+  gtk_widget_class_add_binding_action (widget_class, GDK_KEY_E, GDK_CONTROL_MASK | GDK_SHIFT_MASK,
+                                       "window.export-report", NULL);
   gtk_widget_class_add_binding_action (widget_class, GDK_KEY_z, GDK_CONTROL_MASK,
                                        "window.undo", NULL);
   gtk_widget_class_add_binding_action (widget_class, GDK_KEY_z, GDK_CONTROL_MASK | GDK_SHIFT_MASK,

@@ -1,0 +1,191 @@
+#!/usr/bin/python3
+"""The design report from the window (Xvfb): open an example with two variants, compare both
+(Ctrl+Shift+K) and export the report (Ctrl+Shift+E) as HTML, then, in a second window on the
+same document, the active variant alone as PDF; each must be byte for byte the report that
+`loopwright-cli report FILE --variants … --date …` writes for the same saved document and the
+same date (the CLI is the reference: the window must not build a report of its own).
+
+The file chooser is bypassed by the test hook LW_TEST_REPORT_PATH (Export Report writes
+there at once); the date comes from SOURCE_DATE_EPOCH, which the window reads like the CLI.
+
+Usage: test-report.py LOOPWRIGHT LOOPWRIGHT-CLI SCHEMA_DIR EXAMPLE ARTEFACT_DIR
+Re-runs itself under `xvfb-run -a` (exit 77, skipped, when xvfb-run or xdotool is missing).
+The window's output goes to ARTEFACT_DIR/report-*.log.
+"""
+import os
+import shutil
+import subprocess
+import sys
+import tempfile
+import time
+
+SCREEN = '1600x1000x24'
+EPOCH = '1768435200'          # 2026-01-15T00:00:00Z
+DATE = '2026-01-15'
+
+
+def fail(msg):
+    print('FAIL: ' + msg, file=sys.stderr)
+    sys.exit(1)
+
+
+def run(*cmd, check=True):
+    return subprocess.run(cmd, check=check, capture_output=True, text=True).stdout.strip()
+
+
+def outer(argv):
+    for tool in ('xvfb-run', 'xdotool'):
+        if shutil.which(tool) is None:
+            print(tool + ' not found: skipped')
+            sys.exit(77)
+    env = dict(os.environ, LW_TEST_REPORT_INNER='1')
+    r = subprocess.run(['xvfb-run', '-a', '-s', '-screen 0 ' + SCREEN, sys.executable,
+                        os.path.abspath(__file__)] + argv, env=env)
+    sys.exit(r.returncode)
+
+
+def wait_for(pred, what, timeout=20.0):
+    deadline = time.monotonic() + timeout
+    while time.monotonic() < deadline:
+        v = pred()
+        if v:
+            return v
+        time.sleep(0.1)
+    fail('timed out waiting for ' + what)
+
+
+def find_window(name):
+    out = run('xdotool', 'search', '--onlyvisible', '--name', name, check=False)
+    return out.split()[0] if out else None
+
+
+def key(wid, keys):
+    run('xdotool', 'windowfocus', '--sync', wid, check=False)
+    run('xdotool', 'key', '--clearmodifiers', keys)
+
+
+def log_has(logfile, prefix, **match):
+    with open(logfile, encoding='utf-8', errors='replace') as f:
+        for line in f.read().splitlines():
+            if not line.startswith(prefix):
+                continue
+            fields = dict(kv.split('=', 1) for kv in line.split()[1:] if '=' in kv)
+            if all(fields.get(k) == str(v) for k, v in match.items()):
+                return True
+    return False
+
+
+def window_report(app, schema_dir, design, out, compare_all, log_path, tmp):
+    env = dict(os.environ, GTK_A11Y='none', GSK_RENDERER='cairo', GDK_DEBUG='gl-disable',
+               GSETTINGS_SCHEMA_DIR=schema_dir, GSETTINGS_BACKEND='memory', LANGUAGE='C',
+               LC_ALL='C.UTF-8', LW_DEBUG_HANDLES='1', LW_TEST_REPORT_PATH=out,
+               SOURCE_DATE_EPOCH=EPOCH, XDG_STATE_HOME=os.path.join(tmp, 'state'),
+               XDG_DATA_HOME=os.path.join(tmp, 'data'), HOME=tmp)
+    env.pop('DBUS_SESSION_BUS_ADDRESS', None)
+    supp = os.path.join(os.path.dirname(os.path.abspath(__file__)), 'lsan.supp')
+    env['LSAN_OPTIONS'] = ':'.join(filter(None, [os.environ.get('LSAN_OPTIONS'),
+                                                 'suppressions=' + supp,
+                                                 'print_suppressions=0']))
+    with open(log_path, 'w') as log_file:
+        proc = subprocess.Popen([app, design], env=env, stdout=log_file,
+                                stderr=subprocess.STDOUT)
+        try:
+            wid = wait_for(lambda: proc.poll() is None
+                           and find_window(os.path.basename(design) + ' — Loopwright$')
+                           or (proc.poll() is not None
+                               and fail('loopwright exited early (%d)' % proc.returncode)),
+                           'the window', 30)
+            wait_for(lambda: log_has(log_path, 'LW-SERIES', view='bode-w'), 'the first plots')
+            n = 1
+            if compare_all:
+                key(wid, 'ctrl+shift+k')
+                wait_for(lambda: log_has(log_path, 'LW-SERIES', view='bode-w', variants=2),
+                         'two variants shown')
+                n = 2
+            key(wid, 'ctrl+shift+e')
+            wait_for(lambda: log_has(log_path, 'LW-REPORT', path=out, variants=n),
+                     'the report to be written')
+            key(wid, 'ctrl+q')
+            try:
+                status = proc.wait(timeout=15)
+            except subprocess.TimeoutExpired:
+                fail('loopwright did not quit within 15 s of Ctrl+Q')
+            if status != 0:
+                fail('loopwright exited with status %d' % status)
+        finally:
+            if proc.poll() is None:
+                proc.kill()
+                proc.wait()
+    with open(out, 'rb') as f:
+        return f.read()
+
+
+def keep(artefacts, name_a, a, name_b, b):
+    """Both reports into ARTEFACT_DIR, to look at the difference."""
+    for name, data in ((name_a, a), (name_b, b)):
+        with open(os.path.join(artefacts, name), 'wb') as f:
+            f.write(data)
+
+
+def cli_report(cli, design, out, variants):
+    p = subprocess.run([cli, 'report', design, '--out', out, '--variants', variants,
+                        '--date', DATE], capture_output=True, text=True, timeout=60,
+                       env=dict(os.environ, LC_ALL='C.UTF-8'))
+    if p.returncode != 0:
+        fail('loopwright-cli report: exit %d: %s' % (p.returncode, p.stderr))
+    with open(out, 'rb') as f:
+        return f.read()
+
+
+def inner(app, cli, schema_dir, example, artefacts):
+    os.makedirs(artefacts, exist_ok=True)
+    tmp = tempfile.mkdtemp(prefix='lw-test-report-')
+    try:
+        design = os.path.join(tmp, 'slider.lwd')
+        shutil.copyfile(example, design)
+        # the variants in document order, the active one first in the window's single report
+        names = [l.split('name="', 1)[1].split('"', 1)[0]
+                 for l in open(example, encoding='utf-8') if '<variant ' in l]
+        active = open(example, encoding='utf-8').read().split('active="', 1)[1].split('"')[0]
+        if len(names) != 2 or active not in names:
+            fail('the example should have two variants, got %s' % names)
+
+        html = window_report(app, schema_dir, design, os.path.join(tmp, 'window.html'), True,
+                             os.path.join(artefacts, 'report-html.log'), tmp)
+        ref = cli_report(cli, design, os.path.join(tmp, 'cli.html'), ','.join(names))
+        if html != ref:
+            keep(artefacts, 'report-window.html', html, 'report-cli.html', ref)
+            fail('the window\'s HTML report (%d bytes) differs from the CLI\'s (%d bytes)'
+                 % (len(html), len(ref)))
+        if DATE.encode() not in html or b'Simulation is not validation' not in html:
+            fail('the HTML report lacks its date or the caution')
+        for n in names:
+            if n.encode() not in html:
+                fail('the HTML report does not name variant %s' % n)
+
+        pdf = window_report(app, schema_dir, design, os.path.join(tmp, 'window.pdf'), False,
+                            os.path.join(artefacts, 'report-pdf.log'), tmp)
+        ref = cli_report(cli, design, os.path.join(tmp, 'cli.pdf'), active)
+        if not pdf.startswith(b'%PDF-'):
+            fail('the window\'s PDF report is not a PDF')
+        if pdf != ref:
+            keep(artefacts, 'report-window.pdf', pdf, 'report-cli.pdf', ref)
+            fail('the window\'s PDF report (%d bytes) differs from the CLI\'s (%d bytes)'
+                 % (len(pdf), len(ref)))
+    finally:
+        shutil.rmtree(tmp, ignore_errors=True)
+    print('ok: Export Report writes the CLI\'s report byte for byte (HTML of two variants, '
+          'PDF of one)')
+
+
+def main():
+    if len(sys.argv) != 6:
+        print(__doc__, file=sys.stderr)
+        sys.exit(2)
+    if os.environ.get('LW_TEST_REPORT_INNER') != '1':
+        outer(sys.argv[1:])
+    inner(*sys.argv[1:])
+
+
+if __name__ == '__main__':
+    main()
