@@ -169,7 +169,8 @@ lw_compare_table_show (LwCompareTable *self, const char *const *names,
                               active, best);
       for (guint j = 0; j < n && j < LW_DESIGN_MAX_VARIANTS; j++)
         {
-          g_string_append_printf (dbg, "%s%.9g", j > 0 ? "," : "", vals[j]);
+          /* 17 significant digits: the double itself, for tests against analyze --json */
+          g_string_append_printf (dbg, "%s%.17g", j > 0 ? "," : "", vals[j]);
           g_autofree char *text = NULL;
           if (isnan (vals[j]))
             text = g_strdup ("—");
