@@ -399,11 +399,18 @@ axis_from_extent (LwPlotAxis *a, LwPlotScale scale, LwPlotTickStyle style, Exten
 
 /* Takes the axes of in->axes_of when it shows the same view with as many panels (a figure
  * rebuilt during a drag keeps its frame, so what does not move stays where it was). */
+static bool
+axes_kept (const LwPlot *pl, const LwPlotInput *in)
+{
+  const LwPlot *o = in->axes_of;
+  return o != NULL && o->view == in->view && o->n_panels == pl->n_panels;
+}
+
 static void
 keep_axes (LwPlot *pl, const LwPlotInput *in)
 {
   const LwPlot *o = in->axes_of;
-  if (o == NULL || o->view != in->view || o->n_panels != pl->n_panels)
+  if (!axes_kept (pl, in))
     return;
   for (size_t k = 0; k < pl->n_panels; k++)
     {
@@ -444,14 +451,16 @@ build_bode (LwPlot *pl, const LwPlotInput *in, bool w_plane)
   Panel *mag = &pl->panels[0], *ph = &pl->panels[1];
   pl->n_panels = 2;
   Extent ex = { 0 }, em = { 0 }, ep = { 0 };
-  for (size_t v = 0; v < in->n_variants; v++)
+  /* the data's extents choose the axes, unless those of axes_of are kept (keep_axes) */
+  size_t n_extent = axes_kept (pl, in) ? 0 : in->n_variants;
+  for (size_t v = 0; v < n_extent; v++)
     {
       const LwPlotFreqCurve *c = w_plane ? &in->variants[v].w : &in->variants[v].z;
       for (size_t i = 0; i < c->n; i++)
         if (c->freq_rad_s[i] > 0.0)
           extent_add (&ex, c->freq_rad_s[i]);
     }
-  for (size_t v = 0; v < in->n_variants; v++)
+  for (size_t v = 0; v < n_extent; v++)
     {
       const LwPlotFreqCurve *c = w_plane ? &in->variants[v].w : &in->variants[v].z;
       for (size_t i = 0; i < c->n; i++)
@@ -627,7 +636,9 @@ build_nyquist (LwPlot *pl, const LwPlotInput *in)
   extent_add (&ex, 1.0);
   extent_add (&ey, -1.2);
   extent_add (&ey, 1.2);
-  for (size_t v = 0; v < in->n_variants; v++)
+  /* the data's extents choose the axes, unless those of axes_of are kept (keep_axes) */
+  size_t n_extent = axes_kept (pl, in) ? 0 : in->n_variants;
+  for (size_t v = 0; v < n_extent; v++)
     {
       const LwPlotComplexCurve *c = &in->variants[v].nyquist;
       for (size_t i = 0; i < c->n; i++)
