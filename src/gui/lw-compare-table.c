@@ -16,6 +16,7 @@ struct _LwCompareTable
   GtkWidget parent_instance;
 
   GtkGrid *grid;
+  GHashTable *cells;            /* (col << 16 | row) → its label in grid (borrowed) */
   char *shape;                  /* what the cells were made for: names, active, requirements */
   gboolean debug;
   char *debug_last;
@@ -86,6 +87,7 @@ static void
 clear (LwCompareTable *self)
 {
   GtkWidget *c;
+  g_hash_table_remove_all (self->cells);
   while ((c = gtk_widget_get_first_child (GTK_WIDGET (self->grid))) != NULL)
     gtk_grid_remove (self->grid, c);
 }
@@ -95,7 +97,10 @@ clear (LwCompareTable *self)
 static GtkWidget *
 put (LwCompareTable *self, int col, int row, const char *markup, float xalign, gboolean dim)
 {
-  GtkWidget *l = gtk_grid_get_child_at (self->grid, col, row);
+  /* looked up in the table's own index: gtk_grid_get_child_at walks every cell, and a drag
+   * puts every cell each frame */
+  gpointer key = GUINT_TO_POINTER ((guint) col << 16 | (guint) row);
+  GtkWidget *l = g_hash_table_lookup (self->cells, key);
   if (l == NULL)
     {
       l = gtk_label_new (NULL);
@@ -103,6 +108,7 @@ put (LwCompareTable *self, int col, int row, const char *markup, float xalign, g
       if (dim)
         gtk_widget_add_css_class (l, "dim-label");
       gtk_grid_attach (self->grid, l, col, row, 1, 1);
+      g_hash_table_insert (self->cells, key, l);
     }
   if (g_strcmp0 (gtk_label_get_label (GTK_LABEL (l)), markup) != 0)
     gtk_label_set_markup (GTK_LABEL (l), markup);
@@ -236,6 +242,7 @@ lw_compare_table_dispose (GObject *object)
       gtk_widget_unparent (GTK_WIDGET (self->grid));
       self->grid = NULL;
     }
+  g_clear_pointer (&self->cells, g_hash_table_unref);
   g_clear_pointer (&self->debug_last, g_free);
   g_clear_pointer (&self->shape, g_free);
   G_OBJECT_CLASS (lw_compare_table_parent_class)->dispose (object);
@@ -253,6 +260,7 @@ static void
 lw_compare_table_init (LwCompareTable *self)
 {
   self->grid = GTK_GRID (gtk_grid_new ());
+  self->cells = g_hash_table_new (g_direct_hash, g_direct_equal);
   gtk_grid_set_row_spacing (self->grid, 3);
   gtk_grid_set_column_spacing (self->grid, 12);
   gtk_widget_set_parent (GTK_WIDGET (self->grid), GTK_WIDGET (self));
