@@ -24,7 +24,6 @@ import sys
 import tempfile
 import time
 
-SCREEN = '1600x1000x24'
 REL, ABS = 1e-9, 1e-12
 FAST = '0.001'                 # the third variant's own period, s (the example's is 0.002)
 
@@ -46,56 +45,18 @@ ROWS = {
 }
 
 
-def fail(msg):
-    print('FAIL: ' + msg, file=sys.stderr)
-    sys.exit(1)
-
-
-def run(*cmd, check=True):
-    return subprocess.run(cmd, check=check, capture_output=True, text=True).stdout.strip()
-
-
-def outer(argv):
-    for tool in ('xvfb-run', 'xdotool'):
-        if shutil.which(tool) is None:
-            print(tool + ' not found: skipped')
-            sys.exit(77)
-    env = dict(os.environ, LW_TEST_METRICS_INNER='1')
-    r = subprocess.run(['xvfb-run', '-a', '-s', '-screen 0 ' + SCREEN, sys.executable,
-                        os.path.abspath(__file__)] + argv, env=env)
-    sys.exit(r.returncode)
-
-
-def wait_for(pred, what, timeout=20.0):
-    deadline = time.monotonic() + timeout
-    while time.monotonic() < deadline:
-        v = pred()
-        if v:
-            return v
-        time.sleep(0.1)
-    fail('timed out waiting for ' + what)
-
-
-def find_window(name):
-    out = run('xdotool', 'search', '--onlyvisible', '--name', name, check=False)
-    return out.split()[0] if out else None
-
-
-def key(wid, keys):
-    run('xdotool', 'windowfocus', '--sync', wid, check=False)
-    run('xdotool', 'key', '--clearmodifiers', keys)
+sys.path.insert(0, os.path.dirname(os.path.abspath(__file__)))
+from lwgui import (debug_lines, fail, key, kill_window, outer, quit_window,  # noqa: E402
+                   start_window, wait_for, window_env)
 
 
 def metrics(log_path, n):
     """The last printed value of every row, when every row has n values."""
     rows = {}
-    with open(log_path, encoding='utf-8', errors='replace') as f:
-        for line in f.read().splitlines():
-            if line.startswith('LW-METRIC ') and ' values=' in line:
-                fields = dict(kv.split('=', 1) for kv in line.split()[1:] if '=' in kv)
-                vals = fields['values'].split(',')
-                if len(vals) == n:
-                    rows[fields['row']] = [float(v) for v in vals]
+    for fields in debug_lines(log_path, 'LW-METRIC'):
+        vals = fields.get('values', '').split(',')
+        if 'values' in fields and len(vals) == n:
+            rows[fields['row']] = [float(v) for v in vals]
     return rows if all(r in rows for r in ROWS) else None
 
 
@@ -131,40 +92,16 @@ def inner(app, cli, schema_dir, example, artefacts):
         if len(names) != 3:
             fail('expected three variants, got %s' % names)
 
-        env = dict(os.environ, GTK_A11Y='none', GSK_RENDERER='cairo', GDK_DEBUG='gl-disable',
-                   GSETTINGS_SCHEMA_DIR=schema_dir, GSETTINGS_BACKEND='memory', LANGUAGE='C',
-                   LC_ALL='C.UTF-8', LW_DEBUG_HANDLES='1',
-                   XDG_STATE_HOME=os.path.join(tmp, 'state'),
-                   XDG_DATA_HOME=os.path.join(tmp, 'data'), HOME=tmp)
-        env.pop('DBUS_SESSION_BUS_ADDRESS', None)
-        supp = os.path.join(os.path.dirname(os.path.abspath(__file__)), 'lsan.supp')
-        env['LSAN_OPTIONS'] = ':'.join(filter(None, [os.environ.get('LSAN_OPTIONS'),
-                                                     'suppressions=' + supp,
-                                                     'print_suppressions=0']))
         log_path = os.path.join(artefacts, 'metrics.log')
         with open(log_path, 'w') as log_file:
-            proc = subprocess.Popen([app, design], env=env, stdout=log_file,
-                                    stderr=subprocess.STDOUT)
+            proc, wid = start_window(app, design, window_env(schema_dir, tmp), log_file)
             try:
-                wid = wait_for(lambda: proc.poll() is None
-                               and find_window('rates.lwd — Loopwright$')
-                               or (proc.poll() is not None
-                                   and fail('loopwright exited early (%d)' % proc.returncode)),
-                               'the window', 30)
                 time.sleep(0.5)
                 key(wid, 'ctrl+shift+k')
                 table = wait_for(lambda: metrics(log_path, 3), 'the metrics table of three')
-                key(wid, 'ctrl+q')
-                try:
-                    status = proc.wait(timeout=15)
-                except subprocess.TimeoutExpired:
-                    fail('loopwright did not quit within 15 s of Ctrl+Q')
-                if status != 0:
-                    fail('loopwright exited with status %d' % status)
+                quit_window(proc, wid)
             finally:
-                if proc.poll() is None:
-                    proc.kill()
-                    proc.wait()
+                kill_window(proc)
 
         bad = []
         for j, name in enumerate(names):
@@ -198,7 +135,7 @@ def main():
         print(__doc__, file=sys.stderr)
         sys.exit(2)
     if os.environ.get('LW_TEST_METRICS_INNER') != '1':
-        outer(sys.argv[1:])
+        outer(__file__, 'LW_TEST_METRICS_INNER', sys.argv[1:])
     inner(*sys.argv[1:])
 
 

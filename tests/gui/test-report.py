@@ -17,84 +17,25 @@ import shutil
 import subprocess
 import sys
 import tempfile
-import time
 
-SCREEN = '1600x1000x24'
 EPOCH = '1768435200'          # 2026-01-15T00:00:00Z
 DATE = '2026-01-15'
 
-
-def fail(msg):
-    print('FAIL: ' + msg, file=sys.stderr)
-    sys.exit(1)
-
-
-def run(*cmd, check=True):
-    return subprocess.run(cmd, check=check, capture_output=True, text=True).stdout.strip()
+sys.path.insert(0, os.path.dirname(os.path.abspath(__file__)))
+from lwgui import (debug_lines, fail, key, kill_window, lsan_options, outer,  # noqa: E402
+                   quit_window, start_window, wait_for, window_env)
 
 
-def outer(argv):
-    for tool in ('xvfb-run', 'xdotool'):
-        if shutil.which(tool) is None:
-            print(tool + ' not found: skipped')
-            sys.exit(77)
-    env = dict(os.environ, LW_TEST_REPORT_INNER='1')
-    r = subprocess.run(['xvfb-run', '-a', '-s', '-screen 0 ' + SCREEN, sys.executable,
-                        os.path.abspath(__file__)] + argv, env=env)
-    sys.exit(r.returncode)
-
-
-def wait_for(pred, what, timeout=20.0):
-    deadline = time.monotonic() + timeout
-    while time.monotonic() < deadline:
-        v = pred()
-        if v:
-            return v
-        time.sleep(0.1)
-    fail('timed out waiting for ' + what)
-
-
-def find_window(name):
-    out = run('xdotool', 'search', '--onlyvisible', '--name', name, check=False)
-    return out.split()[0] if out else None
-
-
-def key(wid, keys):
-    run('xdotool', 'windowfocus', '--sync', wid, check=False)
-    run('xdotool', 'key', '--clearmodifiers', keys)
-
-
-def log_has(logfile, prefix, **match):
-    with open(logfile, encoding='utf-8', errors='replace') as f:
-        for line in f.read().splitlines():
-            if not line.startswith(prefix):
-                continue
-            fields = dict(kv.split('=', 1) for kv in line.split()[1:] if '=' in kv)
-            if all(fields.get(k) == str(v) for k, v in match.items()):
-                return True
-    return False
+def log_has(log_path, prefix, **match):
+    return any(all(f.get(k) == str(v) for k, v in match.items())
+               for f in debug_lines(log_path, prefix))
 
 
 def window_report(app, schema_dir, design, out, compare_all, log_path, tmp):
-    env = dict(os.environ, GTK_A11Y='none', GSK_RENDERER='cairo', GDK_DEBUG='gl-disable',
-               GSETTINGS_SCHEMA_DIR=schema_dir, GSETTINGS_BACKEND='memory', LANGUAGE='C',
-               LC_ALL='C.UTF-8', LW_DEBUG_HANDLES='1', LW_TEST_REPORT_PATH=out,
-               SOURCE_DATE_EPOCH=EPOCH, XDG_STATE_HOME=os.path.join(tmp, 'state'),
-               XDG_DATA_HOME=os.path.join(tmp, 'data'), HOME=tmp)
-    env.pop('DBUS_SESSION_BUS_ADDRESS', None)
-    supp = os.path.join(os.path.dirname(os.path.abspath(__file__)), 'lsan.supp')
-    env['LSAN_OPTIONS'] = ':'.join(filter(None, [os.environ.get('LSAN_OPTIONS'),
-                                                 'suppressions=' + supp,
-                                                 'print_suppressions=0']))
+    env = window_env(schema_dir, tmp, LW_TEST_REPORT_PATH=out, SOURCE_DATE_EPOCH=EPOCH)
     with open(log_path, 'w') as log_file:
-        proc = subprocess.Popen([app, design], env=env, stdout=log_file,
-                                stderr=subprocess.STDOUT)
+        proc, wid = start_window(app, design, env, log_file)
         try:
-            wid = wait_for(lambda: proc.poll() is None
-                           and find_window(os.path.basename(design) + ' — Loopwright$')
-                           or (proc.poll() is not None
-                               and fail('loopwright exited early (%d)' % proc.returncode)),
-                           'the window', 30)
             wait_for(lambda: log_has(log_path, 'LW-SERIES', view='bode-w'), 'the first plots')
             n = 1
             if compare_all:
@@ -105,17 +46,9 @@ def window_report(app, schema_dir, design, out, compare_all, log_path, tmp):
             key(wid, 'ctrl+shift+e')
             wait_for(lambda: log_has(log_path, 'LW-REPORT', path=out, variants=n),
                      'the report to be written')
-            key(wid, 'ctrl+q')
-            try:
-                status = proc.wait(timeout=15)
-            except subprocess.TimeoutExpired:
-                fail('loopwright did not quit within 15 s of Ctrl+Q')
-            if status != 0:
-                fail('loopwright exited with status %d' % status)
+            quit_window(proc, wid)
         finally:
-            if proc.poll() is None:
-                proc.kill()
-                proc.wait()
+            kill_window(proc)
     with open(out, 'rb') as f:
         return f.read()
 
@@ -129,9 +62,7 @@ def keep(artefacts, name_a, a, name_b, b):
 
 def cli_report(cli, design, out, variants):
     # the CLI too keeps fontconfig's cache until exit (lsan.supp, for the ASan pass)
-    supp = os.path.join(os.path.dirname(os.path.abspath(__file__)), 'lsan.supp')
-    lsan = ':'.join(filter(None, [os.environ.get('LSAN_OPTIONS'), 'suppressions=' + supp,
-                                  'print_suppressions=0']))
+    lsan = lsan_options()
     p = subprocess.run([cli, 'report', design, '--out', out, '--variants', variants,
                         '--date', DATE], capture_output=True, text=True, timeout=60,
                        env=dict(os.environ, LC_ALL='C.UTF-8', LSAN_OPTIONS=lsan))
@@ -187,7 +118,7 @@ def main():
         print(__doc__, file=sys.stderr)
         sys.exit(2)
     if os.environ.get('LW_TEST_REPORT_INNER') != '1':
-        outer(sys.argv[1:])
+        outer(__file__, 'LW_TEST_REPORT_INNER', sys.argv[1:])
     inner(*sys.argv[1:])
 
 

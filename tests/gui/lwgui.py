@@ -1,0 +1,107 @@
+"""Helpers shared by the window tests that drive a real window under Xvfb (test-report.py,
+test-metrics.py): re-running under xvfb-run, waiting, keys through xdotool, the window's
+environment, and reading its debug lines (LW_DEBUG_HANDLES=1)."""
+import os
+import shutil
+import subprocess
+import sys
+import time
+
+SCREEN = '1600x1000x24'
+
+
+def fail(msg):
+    print('FAIL: ' + msg, file=sys.stderr)
+    sys.exit(1)
+
+
+def run(*cmd, check=True):
+    return subprocess.run(cmd, check=check, capture_output=True, text=True).stdout.strip()
+
+
+def outer(script, inner_var, argv, tools=('xvfb-run', 'xdotool')):
+    """Runs script again under `xvfb-run -a` with inner_var=1; exit 77 (skipped) when a tool
+    is missing."""
+    for tool in tools:
+        if shutil.which(tool) is None:
+            print(tool + ' not found: skipped')
+            sys.exit(77)
+    env = dict(os.environ, **{inner_var: '1'})
+    r = subprocess.run(['xvfb-run', '-a', '-s', '-screen 0 ' + SCREEN, sys.executable,
+                        os.path.abspath(script)] + argv, env=env)
+    sys.exit(r.returncode)
+
+
+def wait_for(pred, what, timeout=20.0):
+    deadline = time.monotonic() + timeout
+    while time.monotonic() < deadline:
+        v = pred()
+        if v:
+            return v
+        time.sleep(0.1)
+    fail('timed out waiting for ' + what)
+
+
+def find_window(name):
+    out = run('xdotool', 'search', '--onlyvisible', '--name', name, check=False)
+    return out.split()[0] if out else None
+
+
+def key(wid, keys):
+    run('xdotool', 'windowfocus', '--sync', wid, check=False)
+    run('xdotool', 'key', '--clearmodifiers', keys)
+
+
+def lsan_options():
+    """LSAN_OPTIONS with lsan.supp (fontconfig's cache, kept until exit) for the ASan pass."""
+    supp = os.path.join(os.path.dirname(os.path.abspath(__file__)), 'lsan.supp')
+    return ':'.join(filter(None, [os.environ.get('LSAN_OPTIONS'), 'suppressions=' + supp,
+                                  'print_suppressions=0']))
+
+
+def window_env(schema_dir, tmp, **extra):
+    """The environment of a window under test: cairo rendering, memory settings, C locale,
+    debug lines on, state and data under tmp, no session bus."""
+    env = dict(os.environ, GTK_A11Y='none', GSK_RENDERER='cairo', GDK_DEBUG='gl-disable',
+               GSETTINGS_SCHEMA_DIR=schema_dir, GSETTINGS_BACKEND='memory', LANGUAGE='C',
+               LC_ALL='C.UTF-8', LW_DEBUG_HANDLES='1', XDG_STATE_HOME=os.path.join(tmp, 'state'),
+               XDG_DATA_HOME=os.path.join(tmp, 'data'), HOME=tmp, LSAN_OPTIONS=lsan_options(),
+               **extra)
+    env.pop('DBUS_SESSION_BUS_ADDRESS', None)
+    return env
+
+
+def debug_lines(log_path, prefix):
+    """The fields (KEY=VALUE, split at spaces) of every line of log_path starting with prefix."""
+    with open(log_path, encoding='utf-8', errors='replace') as f:
+        for line in f.read().splitlines():
+            if line.startswith(prefix + ' '):
+                yield dict(kv.split('=', 1) for kv in line.split()[1:] if '=' in kv)
+
+
+def start_window(app, design, env, log_file):
+    """Starts the window on design; returns (process, X window id)."""
+    proc = subprocess.Popen([app, design], env=env, stdout=log_file, stderr=subprocess.STDOUT)
+    wid = wait_for(lambda: proc.poll() is None
+                   and find_window(os.path.basename(design) + ' — Loopwright$')
+                   or (proc.poll() is not None
+                       and fail('loopwright exited early (%d)' % proc.returncode)),
+                   'the window on ' + os.path.basename(design), 30)
+    return proc, wid
+
+
+def quit_window(proc, wid):
+    """Ctrl+Q, and the window must exit with status 0 within 15 s."""
+    key(wid, 'ctrl+q')
+    try:
+        status = proc.wait(timeout=15)
+    except subprocess.TimeoutExpired:
+        fail('loopwright did not quit within 15 s of Ctrl+Q')
+    if status != 0:
+        fail('loopwright exited with status %d' % status)
+
+
+def kill_window(proc):
+    if proc.poll() is None:
+        proc.kill()
+        proc.wait()
