@@ -3,6 +3,7 @@
  */
 #include "config.h"
 
+#include <stdio.h>
 #include <string.h>
 
 #include <glib/gi18n.h>
@@ -30,6 +31,10 @@ struct _LwCompensatorPanel
   GtkBox *compare_box;
   gboolean updating;            /* the variant widgets are being filled from the model */
   GPtrArray *compared;          /* names of the variants compared (shown as checked) */
+
+  gboolean debug;               /* LW_DEBUG_HANDLES=1: print where the Variants button is */
+  char *debug_last;
+  guint debug_same;             /* frames the position stayed the same */
 
   LwDesignModel *model;
   /* where new stages go: the w-plane frequency ν (rad/s) of the last gain crossover, or a
@@ -257,6 +262,38 @@ add_stage_activated (GtkWidget *widget, const char *action, GVariant *param)
   g_warning ("compensator.add-stage: unknown stage kind “%s”", name);
 }
 
+/* LW_DEBUG_HANDLES: the centre of the Variants button in window-surface coordinates (as the
+ * plot panes print their handles), printed when it changes, so a test can open the popover.
+ * The tick stops once the position has stayed put for 60 frames (it would keep the frame
+ * clock running). */
+static gboolean
+debug_tick (GtkWidget *widget, GdkFrameClock *clock, gpointer data)
+{
+  LwCompensatorPanel *self = LW_COMPENSATOR_PANEL (widget);
+  GtkWidget *b = GTK_WIDGET (self->variant_button);
+  GtkNative *native = gtk_widget_get_native (b);
+  graphene_point_t p;
+  if (native == NULL || gtk_widget_get_width (b) <= 0
+      || !gtk_widget_compute_point (b, GTK_WIDGET (native),
+                                    &GRAPHENE_POINT_INIT (gtk_widget_get_width (b) / 2.0f,
+                                                          gtk_widget_get_height (b) / 2.0f),
+                                    &p))
+    return G_SOURCE_CONTINUE;
+  double tx = 0, ty = 0;
+  gtk_native_get_surface_transform (native, &tx, &ty);
+  g_autofree char *line = g_strdup_printf ("LW-WIDGET name=variants-button sx=%.3f sy=%.3f\n",
+                                           p.x + tx, p.y + ty);
+  if (g_strcmp0 (line, self->debug_last) != 0)
+    {
+      g_free (self->debug_last);
+      self->debug_last = g_steal_pointer (&line);
+      fputs (self->debug_last, stdout);
+      fflush (stdout);
+      self->debug_same = 0;
+    }
+  return ++self->debug_same < 60 ? G_SOURCE_CONTINUE : G_SOURCE_REMOVE;
+}
+
 static void
 lw_compensator_panel_dispose (GObject *object)
 {
@@ -266,6 +303,7 @@ lw_compensator_panel_dispose (GObject *object)
     g_signal_handlers_disconnect_by_data (self->model, self);
   g_clear_object (&self->model);
   g_clear_pointer (&self->compared, g_ptr_array_unref);
+  g_clear_pointer (&self->debug_last, g_free);
   gtk_widget_dispose_template (GTK_WIDGET (self), LW_TYPE_COMPENSATOR_PANEL);
   GtkWidget *child;
   while ((child = gtk_widget_get_first_child (GTK_WIDGET (self))) != NULL)
@@ -308,6 +346,9 @@ lw_compensator_panel_init (LwCompensatorPanel *self)
                     self);
   g_signal_connect_swapped (self->rename_button, "clicked", G_CALLBACK (rename_clicked), self);
   g_signal_connect_swapped (self->name_entry, "activate", G_CALLBACK (rename_clicked), self);
+  self->debug = g_strcmp0 (g_getenv ("LW_DEBUG_HANDLES"), "1") == 0;
+  if (self->debug)
+    gtk_widget_add_tick_callback (GTK_WIDGET (self), debug_tick, NULL, NULL);
   g_signal_connect_swapped (self->period_check, "toggled", G_CALLBACK (period_edited), self);
   g_signal_connect_swapped (self->period_spin, "value-changed", G_CALLBACK (period_edited),
                             self);
