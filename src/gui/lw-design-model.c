@@ -25,17 +25,37 @@ struct _LwDesignModel
   double sampled_dead_time_s;
 };
 
+/* A sampled plant shared by the cache and the evaluations made with it (reference-counted: an
+ * evaluation a view still draws may outlive the cache entry). */
+typedef struct
+{
+  LwSampledPlant *plant;
+} SharedPlant;
+
+static void
+shared_plant_clear (gpointer data)
+{
+  SharedPlant *s = data;
+  g_clear_pointer (&s->plant, lw_sampled_plant_free);
+}
+
+static void
+shared_plant_release (gpointer s)
+{
+  g_rc_box_release_full (s, shared_plant_clear);
+}
+
 typedef struct
 {
   double period_s;
-  LwSampledPlant *plant;
+  SharedPlant *shared;
 } SampledEntry;
 
 static void
 sampled_entry_clear (gpointer data)
 {
   SampledEntry *e = data;
-  g_clear_pointer (&e->plant, lw_sampled_plant_free);
+  g_clear_pointer (&e->shared, shared_plant_release);
 }
 
 G_DEFINE_FINAL_TYPE (LwDesignModel, lw_design_model, G_TYPE_OBJECT)
@@ -540,6 +560,8 @@ design_eval_clear (LwLoopEval *e)
   g_clear_pointer (&e->plant_s, lw_zpk_free);
   g_clear_pointer (&e->controller_w, lw_zpk_free);
   g_clear_pointer (&e->ev, lw_evaluation_free);
+  e->sampled = NULL;
+  g_clear_pointer (&e->sampled_ref, shared_plant_release);
 }
 
 LwLoopEval *
@@ -576,7 +598,7 @@ period_in_use (const LwDesign *d, double period_s)
  * while the plant and dead time are unchanged (the plan/execute split of lw-analysis.h). One
  * is kept per period some variant uses, so reference variants at other rates keep theirs;
  * those of periods no variant uses any more are dropped (their evaluations are stale). */
-static LwSampledPlant *
+static SharedPlant *
 sampled_plant (LwDesignModel *self, const LwZpk *plant_s, double period_s, LwError *err)
 {
   const LwDesign *d = self->doc;
@@ -592,17 +614,19 @@ sampled_plant (LwDesignModel *self, const LwZpk *plant_s, double period_s, LwErr
     {
       SampledEntry *e = &g_array_index (self->sampled, SampledEntry, k);
       if (e->period_s == period_s)
-        return e->plant;
+        return e->shared;
       if (!period_in_use (d, e->period_s))
         g_array_remove_index_fast (self->sampled, k);
       else
         k++;
     }
-  SampledEntry e = { period_s, NULL };
-  if (lw_sampled_plant_new (plant_s, d->dead_time_s, period_s, &e.plant, err) != LW_OK)
+  LwSampledPlant *plant = NULL;
+  if (lw_sampled_plant_new (plant_s, d->dead_time_s, period_s, &plant, err) != LW_OK)
     return NULL;
+  SampledEntry e = { period_s, g_rc_box_new0 (SharedPlant) };
+  e.shared->plant = plant;
   g_array_append_val (self->sampled, e);
-  return e.plant;
+  return e.shared;
 }
 
 LwLoopEval *
@@ -635,9 +659,10 @@ lw_design_model_evaluate_variant (LwDesignModel *self, guint variant, size_t n_p
     return fail (e, LW_LOOP_FAILED_PLANT);
 
   double period_s = lw_design_variant_period_s (d, variant);   /* its own, or the design's */
-  LwSampledPlant *plant = sampled_plant (self, e->plant_s, period_s, &e->error);
-  if (plant == NULL)
+  SharedPlant *shared = sampled_plant (self, e->plant_s, period_s, &e->error);
+  if (shared == NULL)
     return fail (e, LW_LOOP_FAILED_SAMPLING);
+  LwSampledPlant *plant = shared->plant;
 
   LwZpk *controller_z = NULL;
   if (lw_compensator_w (v->stages, v->n_stages, period_s, &e->controller_w, &e->error)
@@ -658,6 +683,7 @@ lw_design_model_evaluate_variant (LwDesignModel *self, guint variant, size_t n_p
       return fail (e, LW_LOOP_FAILED_LOOP);
     }
   e->sampled = plant;
+  e->sampled_ref = g_rc_box_acquire (shared);
 
   /* the simulated reference step (no limits, no continuous output): performance indices and
    * the peak actuator output; a failure leaves them out, not the loop */

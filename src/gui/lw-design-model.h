@@ -132,9 +132,10 @@ typedef struct
   LwZpk *plant_s;                 /* NULL when the plant failed to parse */
   LwZpk *controller_w;            /* NULL when the compensator failed */
   LwEvaluation *ev;               /* NULL on any failure */
-  /* the sampled plant ev was evaluated against, owned by the model: valid while the plant,
-   * the dead time and the variant's period are unchanged (for the figure adapter) */
+  /* the sampled plant ev was evaluated against (for the figure adapter); the evaluation holds
+   * a reference, so it stays valid as long as the evaluation, whatever the model's cache does */
   const LwSampledPlant *sampled;
+  gpointer sampled_ref;           /* private: the reference behind `sampled` */
   gboolean has_achieved;          /* achieved figures, when ev is set */
   LwAchieved achieved;            /* with the actuator peak of the simulated step */
   /* the simulated reference step of amplitude 1 (lw-simulate.h, no limits), when ev is set
