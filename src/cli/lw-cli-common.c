@@ -183,14 +183,14 @@ lw_cli_report_core_error (const char *place, const LwError *err)
 }
 
 char *
-lw_cli_format_zpk (const LwZpk *m)
+lw_cli_format_model (const LwModel *m)
 {
   char small[256];
-  size_t need = lw_zpk_format (m, 6, small, sizeof small);
+  size_t need = lw_model_format (m, 6, small, sizeof small);
   if (need < sizeof small)
     return g_strdup (small);
   char *big = g_malloc (need + 1);
-  lw_zpk_format (m, 6, big, need + 1);
+  lw_model_format (m, 6, big, need + 1);
   return big;
 }
 
@@ -211,9 +211,9 @@ void
 lw_cli_loop_clear (LwCliLoop *l)
 {
   lw_sampled_plant_free (l->sampled);
-  lw_zpk_free (l->controller_z);
-  lw_zpk_free (l->controller_w);
-  lw_zpk_free (l->plant_s);
+  lw_model_free (l->controller_z);
+  lw_model_free (l->controller_w);
+  lw_model_free (l->plant_s);
   memset (l, 0, sizeof *l);
 }
 
@@ -305,7 +305,7 @@ lw_cli_loop_build (const char *cmd, const LwCliLoopArgs *a, LwCliLoop *out)
               goto fail;
             }
         }
-      out->controller_z = lw_zpk_w_to_z (out->controller_w);
+      out->controller_z = lw_model_w_to_z (out->controller_w);
       if (out->controller_z == NULL)
         {
           lw_cli_bad_input ("--controller", "internal failure: cannot map the controller to z");

@@ -43,7 +43,7 @@ int lw_cli_report_expr_error (const char *option, const char *text, const LwErro
 int lw_cli_report_core_error (const char *place, const LwError *err);
 
 /* Factored text of a model (6 significant digits); g_free the result. */
-char *lw_cli_format_zpk (const LwZpk *m);
+char *lw_cli_format_model (const LwModel *m);
 
 /* The loop options, as strings until checked (NULL when not given). */
 typedef struct
@@ -73,9 +73,9 @@ typedef struct
   double period_s;
   double dead_time_s;
   int compute_delay;          /* default 1 */
-  LwZpk *plant_s;
-  LwZpk *controller_w;        /* NULL when given in z */
-  LwZpk *controller_z;        /* always set (1 when no controller was given) */
+  LwModel *plant_s;
+  LwModel *controller_w;        /* NULL when given in z */
+  LwModel *controller_z;        /* always set (1 when no controller was given) */
   LwSampledPlant *sampled;
 } LwCliLoop;
 

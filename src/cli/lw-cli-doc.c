@@ -108,7 +108,7 @@ fail:
 }
 
 int
-lw_cli_doc_requirements (const LwDesign *d, const LwEvaluation *ev, const LwZpk *plant_s,
+lw_cli_doc_requirements (const LwDesign *d, const LwEvaluation *ev, const LwModel *plant_s,
                          const LwSimResponse *sim_ref, LwReqResult *out)
 {
   LwAchieved a;

@@ -45,7 +45,7 @@ int lw_cli_doc_loop_build (const char *place, const LwDesign *d, size_t index, L
  * max |u| of sim_ref (the unit reference step) when sim_ref is not NULL, else not available.
  * Returns the number that do not pass (failed or not available), or -1 after printing a
  * message when the figures could not be computed. */
-int lw_cli_doc_requirements (const LwDesign *d, const LwEvaluation *ev, const LwZpk *plant_s,
+int lw_cli_doc_requirements (const LwDesign *d, const LwEvaluation *ev, const LwModel *plant_s,
                              const LwSimResponse *sim_ref, LwReqResult *out);
 
 /* A JSON array value: one object per requirement with name, kind, unit, target (a number, or

@@ -70,7 +70,7 @@ member_numbers (JsonBuilder *b, const char *name, const double *v, size_t n)
 }
 
 void
-lw_cli_json_add_zpk (JsonBuilder *b, const LwZpk *m)
+lw_cli_json_add_model (JsonBuilder *b, const LwModel *m)
 {
   g_assert (m != NULL);
   json_builder_begin_object (b);
@@ -137,9 +137,9 @@ lw_cli_json_evaluation (const LwEvaluation *ev)
   json_builder_begin_object (b);
   member_number (b, "sample_period_s", ev->period_s);
   json_builder_set_member_name (b, "plant_z");
-  lw_cli_json_add_zpk (b, ev->plant_z);
+  lw_cli_json_add_model (b, ev->plant_z);
   json_builder_set_member_name (b, "plant_w");
-  lw_cli_json_add_zpk (b, ev->plant_w);
+  lw_cli_json_add_model (b, ev->plant_w);
   json_builder_set_member_name (b, "loop");
   lw_cli_json_add_loop (b, &ev->margins);
   json_builder_set_member_name (b, "closed_loop");
@@ -198,9 +198,9 @@ lw_cli_json_analysis (const LwEvaluation *ev, const LwStep *step, const LwSimRes
   json_builder_begin_object (b);
   member_number (b, "sample_period_s", ev->period_s);
   json_builder_set_member_name (b, "plant_z");
-  lw_cli_json_add_zpk (b, ev->plant_z);
+  lw_cli_json_add_model (b, ev->plant_z);
   json_builder_set_member_name (b, "plant_w");
-  lw_cli_json_add_zpk (b, ev->plant_w);
+  lw_cli_json_add_model (b, ev->plant_w);
   json_builder_set_member_name (b, "loop");
   lw_cli_json_add_loop (b, &ev->margins);
   json_builder_set_member_name (b, "closed_loop");

@@ -36,7 +36,7 @@ void lw_cli_json_add_number_array (JsonBuilder *b, const double *v, size_t n);
 void lw_cli_json_add_complex_array (JsonBuilder *b, const double complex *v, size_t n);
 
 /* {"gain": leading-coefficient gain, "zeros": [[re, im]…], "poles": [[re, im]…]} */
-void lw_cli_json_add_zpk (JsonBuilder *b, const LwZpk *m);
+void lw_cli_json_add_model (JsonBuilder *b, const LwModel *m);
 
 /* The loop block: every crossover with its margin, then the governing values (null where the
  * core reports none). Keys: gain_crossovers_rad_s, phase_margins_deg, phase_crossovers_rad_s,

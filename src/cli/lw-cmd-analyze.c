@@ -19,9 +19,9 @@
 #define SAMPLES_PER_RISE_MAX 30.0
 
 static void
-print_model (const char *label, const LwZpk *m, const char *remark)
+print_model (const char *label, const LwModel *m, const char *remark)
 {
-  g_autofree char *text = lw_cli_format_zpk (m);
+  g_autofree char *text = lw_cli_format_model (m);
   printf ("  %-14s %s%s%s\n", label, text, remark ? "    " : "", remark ? remark : "");
 }
 
@@ -184,7 +184,7 @@ print_verification (const LwSimOptions *so, const LwSimResponse *ref, const LwSi
 }
 
 static void
-print_report (const LwZpk *plant_s, double dead_time_s, const LwEvaluation *ev,
+print_report (const LwModel *plant_s, double dead_time_s, const LwEvaluation *ev,
               const LwStep *step, const LwSimOptions *so, const LwSimResponse *ref,
               const LwSimResponse *din, const LwSimResponse *dout)
 {

@@ -185,7 +185,7 @@ print_summary (const char *hpath, const char *cpath, const char *form_name,
   if (fx != NULL)
     printf ("  fixed point Q%d.%d: int16_t coefficients (value = integer / 2^%d), int16_t e "
             "and u, int32_t states\n", q->int_bits, q->frac_bits, q->frac_bits);
-  g_autofree char *cz = lw_cli_format_zpk (lp->controller_z);
+  g_autofree char *cz = lw_cli_format_model (lp->controller_z);
   printf ("\nController C(z) = %s\n", cz);
   printf ("Period %.6g s; computation delay %d sample(s), realized by the firmware's timing "
           "(not in the coefficients)\n", lp->period_s, lp->compute_delay);
@@ -302,7 +302,7 @@ json_evaluation (JsonBuilder *b, const LwEvaluation *ev)
 
 static char *
 summary_json (const char *hpath, const char *cpath, const char *form_name, const LwCliLoop *lp,
-              const LwDiffEq *de, const LwSos *sos, const LwSosFixed *fx, const LwZpk *czq,
+              const LwDiffEq *de, const LwSos *sos, const LwSosFixed *fx, const LwModel *czq,
               const LwEvaluation *ev, const LwEvaluation *evq, const double *h,
               const int16_t *hq)
 {
@@ -320,10 +320,10 @@ summary_json (const char *hpath, const char *cpath, const char *form_name, const
   json_builder_set_member_name (b, "compute_delay");
   json_builder_add_int_value (b, lp->compute_delay);
   json_builder_set_member_name (b, "controller_z");
-  lw_cli_json_add_zpk (b, lp->controller_z);
+  lw_cli_json_add_model (b, lp->controller_z);
   json_builder_set_member_name (b, "controller_w");
   if (lp->controller_w != NULL)
-    lw_cli_json_add_zpk (b, lp->controller_w);
+    lw_cli_json_add_model (b, lp->controller_w);
   else
     json_builder_add_null_value (b);
   json_builder_set_member_name (b, "difference");
@@ -371,7 +371,7 @@ summary_json (const char *hpath, const char *cpath, const char *form_name, const
         }
       json_builder_end_array (b);
       json_builder_set_member_name (b, "controller_z");
-      lw_cli_json_add_zpk (b, czq);
+      lw_cli_json_add_model (b, czq);
       json_builder_set_member_name (b, "impulse_counts");
       json_builder_add_int_value (b, LW_EMIT_FIXED_IMPULSE);
       json_builder_set_member_name (b, "impulse_response");
@@ -480,15 +480,15 @@ emit_run (void *data)
   LwDiffEq *de = NULL;
   LwSos *sos = NULL;
   LwSosFixed *fx = NULL;
-  LwZpk *czq = NULL;
+  LwModel *czq = NULL;
   LwEvaluation *ev = NULL, *evq = NULL;
   LwText hdr, src;
   lw_text_init (&hdr);
   lw_text_init (&src);
   char *hpath = NULL, *cpath = NULL;
 
-  if (lw_diffeq_from_zpk (lp.controller_z, &de, &err) != LW_OK
-      || lw_sos_from_zpk (lp.controller_z, &sos, &err) != LW_OK)
+  if (lw_diffeq_from_model (lp.controller_z, &de, &err) != LW_OK
+      || lw_sos_from_model (lp.controller_z, &sos, &err) != LW_OK)
     {
       status = lw_cli_report_core_error (ctl_opt, &err);
       goto out;
@@ -508,7 +508,7 @@ emit_run (void *data)
           status = lw_cli_report_core_error ("--fixed", &err);
           goto out;
         }
-      if (lw_sos_fixed_zpk (fx, lp.period_s, &czq, &err) != LW_OK
+      if (lw_sos_fixed_model (fx, lp.period_s, &czq, &err) != LW_OK
           || lw_evaluate (lp.sampled, czq, &opts, &evq, &err) != LW_OK)
         {
           status = lw_cli_report_core_error ("--fixed", &err);
@@ -570,7 +570,7 @@ out:
   lw_text_clear (&src);
   lw_evaluation_free (ev);
   lw_evaluation_free (evq);
-  lw_zpk_free (czq);
+  lw_model_free (czq);
   lw_sos_fixed_free (fx);
   lw_sos_free (sos);
   lw_diffeq_free (de);

@@ -60,7 +60,7 @@ append_factor (GString *s, const double complex *r, size_t n, size_t *i)
 
 /* gain*(factors)/((factors)), every product written with '*' (lw-expr.h), 17 digits. */
 static char *
-format_expression (const LwZpk *m)
+format_expression (const LwModel *m)
 {
   GString *s = g_string_new (NULL);
   append_number (s, m->gain);
@@ -201,7 +201,7 @@ json_member_number (JsonBuilder *b, const char *name, double v)
 }
 
 static void
-print_json (const LwLeadDesign *d, double safety, const LwZpk *cw, const char *expr,
+print_json (const LwLeadDesign *d, double safety, const LwModel *cw, const char *expr,
             const LwEvaluation *ev)
 {
   JsonBuilder *b = json_builder_new ();
@@ -212,7 +212,7 @@ print_json (const LwLeadDesign *d, double safety, const LwZpk *cw, const char *e
     json_stage (b, &d->stages[k]);
   json_builder_end_array (b);
   json_builder_set_member_name (b, "controller_w");
-  lw_cli_json_add_zpk (b, cw);
+  lw_cli_json_add_model (b, cw);
   json_builder_set_member_name (b, "controller_w_expression");
   json_builder_add_string_value (b, expr);
   json_builder_set_member_name (b, "design");
@@ -329,7 +329,7 @@ suggest_run (void *data)
   double T = lp.period_s, pm = NAN, omega_c = NAN, safety = 5.0;
   LwReqCrossover rise;
   bool have_rise = false;
-  LwZpk *cw = NULL;
+  LwModel *cw = NULL;
   LwEvaluation *ev = NULL;
   char *expr = NULL;
   LwError err;
@@ -451,7 +451,7 @@ suggest_run (void *data)
 out:
   g_free (expr);
   lw_evaluation_free (ev);
-  lw_zpk_free (cw);
+  lw_model_free (cw);
   lw_cli_loop_clear (&lp);
   return status;
 }

@@ -113,9 +113,9 @@ para (LwReport *r, const char *fmt, ...)
 }
 
 static void
-formula (LwReport *r, const char *label, const LwZpk *m)
+formula (LwReport *r, const char *label, const LwModel *m)
 {
-  g_autofree char *text = lw_cli_format_zpk (m);
+  g_autofree char *text = lw_cli_format_model (m);
   g_autofree char *line = g_strdup_printf ("%s%s", label, text);
   add_block (r, LW_REPORT_FORMULA, line);
 }
@@ -212,8 +212,8 @@ rvar_compute (const char *path, const LwDesign *d, size_t index, RVar *r)
       || lw_sim_run (r->plan, LW_SIM_REFERENCE_STEP, 1.0, &r->ref, &err) != LW_OK
       || lw_sim_run (r->plan, LW_SIM_INPUT_DISTURBANCE_STEP, 1.0, &r->din, &err) != LW_OK
       || lw_sim_run (r->plan, LW_SIM_OUTPUT_DISTURBANCE_STEP, 1.0, &r->dout, &err) != LW_OK
-      || lw_diffeq_from_zpk (r->lp.controller_z, &r->de, &err) != LW_OK
-      || lw_sos_from_zpk (r->lp.controller_z, &r->sos, &err) != LW_OK)
+      || lw_diffeq_from_model (r->lp.controller_z, &r->de, &err) != LW_OK
+      || lw_sos_from_model (r->lp.controller_z, &r->sos, &err) != LW_OK)
     return lw_cli_report_core_error (place, &err);
   r->req = g_new0 (LwReqResult, d->n_requirements + 1);
   r->failing = lw_cli_doc_requirements (d, r->ev, r->lp.plant_s, r->ref, r->req);

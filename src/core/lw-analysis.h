@@ -27,7 +27,7 @@ typedef struct LwSampledPlant LwSampledPlant;
 
 /* Discretizes plant_s (domain s, proper) with a zero-order hold at period_s > 0 and an input
  * dead time dead_time_s >= 0 (any real value: whole samples plus a fraction). */
-LwStatus lw_sampled_plant_new (const LwZpk *plant_s, double dead_time_s, double period_s,
+LwStatus lw_sampled_plant_new (const LwModel *plant_s, double dead_time_s, double period_s,
                                LwSampledPlant **out, LwError *err);
 void lw_sampled_plant_free (LwSampledPlant *p);
 
@@ -36,7 +36,7 @@ double lw_sampled_plant_period (const LwSampledPlant *p);
 /* Plant in z, factored, for display (zeros from a generalized eigenvalue problem of the state
  * space; nothing is evaluated through them). Includes the dead time (poles at z = 0), not the
  * computation delay. New model; caller frees. */
-LwZpk *lw_sampled_plant_zpk (const LwSampledPlant *p);
+LwModel *lw_sampled_plant_model (const LwSampledPlant *p);
 
 /* P(e^{jωT}) from the state space (one O(n²) back substitution on its real Schur form), times
  * the whole-sample dead time. */
@@ -45,8 +45,8 @@ double complex lw_sampled_plant_response (const LwSampledPlant *p, double omega_
 /* Bilinear map between factored models in z and in w = (2/T)(z−1)/(z+1), factor by factor.
  * A zero or pole at z = −1 maps to w = ∞ (it drops out, into the gain); the difference in
  * degree produces roots at w = 2/T (from z) or at z = −1 (from w). New model or NULL. */
-LwZpk *lw_zpk_z_to_w (const LwZpk *mz);
-LwZpk *lw_zpk_w_to_z (const LwZpk *mw);
+LwModel *lw_model_z_to_w (const LwModel *mz);
+LwModel *lw_model_w_to_z (const LwModel *mw);
 
 /* Frequency warping of the bilinear map: ν = (2/T)·tan(ωT/2) and its inverse (rad/s). */
 double lw_warp_omega_to_nu (double omega_rad_s, double period_s);
@@ -90,10 +90,10 @@ typedef struct {
 typedef struct {
   double period_s;
   int compute_delay;
-  LwZpk *plant_z;         /* ZOH plant with dead time, without computation delay */
-  LwZpk *plant_w;         /* the same in the w-plane */
-  LwZpk *controller_z;    /* controller in z (without the computation delay) */
-  LwZpk *controller_w;
+  LwModel *plant_z;         /* ZOH plant with dead time, without computation delay */
+  LwModel *plant_w;         /* the same in the w-plane */
+  LwModel *controller_z;    /* controller in z (without the computation delay) */
+  LwModel *controller_w;
   /* loop frequency response on the grid: ω (rad/s), |L| in dB, ∠L in degrees unwrapped */
   size_t n_points;
   double *omega_rad_s;
@@ -112,7 +112,7 @@ void lw_step_figures (LwStep *s, double period_s);
 
 /* Evaluates the loop for a controller given in z (domain z, same period as the plant, proper).
  * *out is a new evaluation; free with lw_evaluation_free. */
-LwStatus lw_evaluate (const LwSampledPlant *plant, const LwZpk *controller_z,
+LwStatus lw_evaluate (const LwSampledPlant *plant, const LwModel *controller_z,
                       const LwAnalysisOptions *opts, LwEvaluation **out, LwError *err);
 void lw_evaluation_free (LwEvaluation *ev);
 

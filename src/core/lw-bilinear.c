@@ -60,8 +60,8 @@ map_root (const Map *mp, double complex r)
   return (2.0 / t + r) / (2.0 / t - r);
 }
 
-static LwZpk *
-map_model (const LwZpk *m, const Map *mp)
+static LwModel *
+map_model (const LwModel *m, const Map *mp)
 {
   size_t nz_fin = 0, np_fin = 0;
   for (size_t i = 0; i < m->n_zeros; i++)
@@ -71,7 +71,7 @@ map_model (const LwZpk *m, const Map *mp)
   long excess = (long) m->n_poles - (long) m->n_zeros;   /* copies of q(y) left over */
   size_t nz = nz_fin + (excess > 0 ? (size_t) excess : 0);
   size_t np = np_fin + (excess < 0 ? (size_t) -excess : 0);
-  LwZpk *o = lw_zpk_new (mp->to_w ? LW_DOMAIN_W : LW_DOMAIN_Z, m->period_s, 1.0, nz, np);
+  LwModel *o = lw_model_new (mp->to_w ? LW_DOMAIN_W : LW_DOMAIN_Z, m->period_s, 1.0, nz, np);
   if (o == NULL)
     return NULL;
   double complex g = m->gain;
@@ -105,12 +105,12 @@ map_model (const LwZpk *m, const Map *mp)
       o->poles[kp++] = qr;
     }
   o->gain = creal (g);
-  lw_zpk_canonicalize (o);
+  lw_model_canonicalize (o);
   return o;
 }
 
-LwZpk *
-lw_zpk_z_to_w (const LwZpk *mz)
+LwModel *
+lw_model_z_to_w (const LwModel *mz)
 {
   if (mz == NULL || mz->domain != LW_DOMAIN_Z || !(mz->period_s > 0))
     return NULL;
@@ -118,8 +118,8 @@ lw_zpk_z_to_w (const LwZpk *mz)
   return map_model (mz, &mp);
 }
 
-LwZpk *
-lw_zpk_w_to_z (const LwZpk *mw)
+LwModel *
+lw_model_w_to_z (const LwModel *mw)
 {
   if (mw == NULL || mw->domain != LW_DOMAIN_W || !(mw->period_s > 0))
     return NULL;

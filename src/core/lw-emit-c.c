@@ -105,10 +105,10 @@ shortnum (double v, char *buf, size_t size)
 
 /* A factored model as comment text, with any end-of-comment sequence broken up. */
 static void
-put_model (LwText *t, const char *label, const LwZpk *m)
+put_model (LwText *t, const char *label, const LwModel *m)
 {
   char small[512];
-  size_t need = lw_zpk_format (m, 10, small, sizeof small);
+  size_t need = lw_model_format (m, 10, small, sizeof small);
   char *text = small;
   char *big = NULL;
   if (need >= sizeof small)
@@ -119,7 +119,7 @@ put_model (LwText *t, const char *label, const LwZpk *m)
           t->failed = true;
           return;
         }
-      lw_zpk_format (m, 10, big, need + 1);
+      lw_model_format (m, 10, big, need + 1);
       text = big;
     }
   lw_text_printf (t, " *   %-22s ", label);

@@ -67,9 +67,9 @@ typedef struct {
   double period_s;               /* sample period T, seconds */
   int compute_delay;             /* N, whole samples */
   double dead_time_s;            /* plant dead time, seconds (for the comment only) */
-  const LwZpk *plant_s;          /* may be NULL (comment only) */
-  const LwZpk *controller_w;     /* may be NULL (comment only) */
-  const LwZpk *controller_z;     /* required (comment) */
+  const LwModel *plant_s;          /* may be NULL (comment only) */
+  const LwModel *controller_w;     /* may be NULL (comment only) */
+  const LwModel *controller_z;     /* required (comment) */
   const LwMargins *margins;      /* of the design; may be NULL */
   const LwMargins *margins_fixed;/* of the quantized controller; may be NULL */
   bool stable, stable_fixed;     /* closed loop stable (shown when margins are given) */

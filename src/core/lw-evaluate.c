@@ -26,7 +26,7 @@ lw_analysis_options_init (LwAnalysisOptions *o)
 
 typedef struct {
   const LwSampledPlant *plant;
-  const LwZpk *ctrl;        /* in z */
+  const LwModel *ctrl;        /* in z */
   double t;                 /* sample period, s */
   double omega_n;           /* Nyquist frequency π/T, rad/s */
   int delay;                /* whole samples: plant dead time + computation delay */
@@ -74,7 +74,7 @@ loop_core (const Loop *lp, double w)
     }
   double complex h = lw_schur_eval_unit (lp->plant->eval, zr, zi);
   double zm1 = zr > 0.0 ? -(zi * zi) / (1.0 + zr) : zr - 1.0;   /* cos θ − 1 */
-  const LwZpk *c = lp->ctrl;
+  const LwModel *c = lp->ctrl;
   double nr = c->gain, ni = 0.0, dr = 1.0, di = 0.0;
   root_product (c->zeros, c->n_zeros, zm1, zi, &nr, &ni);
   root_product (c->poles, c->n_poles, zm1, zi, &dr, &di);
@@ -292,7 +292,7 @@ typedef struct {
 /* Corners of the continuous plant (s-plane roots) and of the controller (z roots taken to the
  * s-plane by s = ln(z)/T). Returns the count written (at most cap). */
 static size_t
-collect_corners (const LwZpk *plant_s, const LwZpk *ctrl, double t, Corner *out, size_t cap)
+collect_corners (const LwModel *plant_s, const LwModel *ctrl, double t, Corner *out, size_t cap)
 {
   size_t k = 0;
   const double complex *lists[4] = { plant_s->zeros, plant_s->poles, ctrl->zeros, ctrl->poles };
@@ -329,7 +329,7 @@ count_unit_roots (const double complex *r, size_t n)
 /* Builds the grid: log-spaced from ω_lo to π/T (the end point exact), plus points clustered
  * around every lightly damped corner (ζ < 0.3) below the Nyquist frequency. */
 static LwStatus
-build_grid (const Loop *lp, const LwZpk *plant_s, int n_int, size_t n_points, double **grid_out,
+build_grid (const Loop *lp, const LwModel *plant_s, int n_int, size_t n_points, double **grid_out,
             size_t *n_out, LwError *err)
 {
   double wn_top = lp->omega_n;
@@ -863,10 +863,10 @@ lw_evaluation_free (LwEvaluation *ev)
 {
   if (ev == NULL)
     return;
-  lw_zpk_free (ev->plant_z);
-  lw_zpk_free (ev->plant_w);
-  lw_zpk_free (ev->controller_z);
-  lw_zpk_free (ev->controller_w);
+  lw_model_free (ev->plant_z);
+  lw_model_free (ev->plant_w);
+  lw_model_free (ev->controller_z);
+  lw_model_free (ev->controller_w);
   free (ev->omega_rad_s);
   free (ev->loop_mag_db);
   free (ev->loop_phase_deg);
@@ -880,7 +880,7 @@ lw_evaluation_free (LwEvaluation *ev)
 }
 
 LwStatus
-lw_evaluate (const LwSampledPlant *plant, const LwZpk *controller_z,
+lw_evaluate (const LwSampledPlant *plant, const LwModel *controller_z,
              const LwAnalysisOptions *opts, LwEvaluation **out, LwError *err)
 {
   *out = NULL;
@@ -908,15 +908,15 @@ lw_evaluate (const LwSampledPlant *plant, const LwZpk *controller_z,
 
   ev->period_s = t;
   ev->compute_delay = opts->compute_delay;
-  ev->plant_z = lw_zpk_copy (plant->zpk);
-  ev->controller_z = lw_zpk_copy (controller_z);
+  ev->plant_z = lw_model_copy (plant->model);
+  ev->controller_z = lw_model_copy (controller_z);
   if (ev->plant_z == NULL || ev->controller_z == NULL)
     {
       st = lw_error_set (err, LW_ERR_NUMERIC, -1, "could not factor the sampled plant");
       goto fail;
     }
-  ev->plant_w = lw_zpk_z_to_w (ev->plant_z);
-  ev->controller_w = lw_zpk_z_to_w (ev->controller_z);
+  ev->plant_w = lw_model_z_to_w (ev->plant_z);
+  ev->controller_w = lw_model_z_to_w (ev->controller_z);
   if (ev->plant_w == NULL || ev->controller_w == NULL)
     {
       st = lw_error_set (err, LW_ERR_NOMEM, -1, "out of memory");
@@ -993,7 +993,7 @@ lw_evaluate (const LwSampledPlant *plant, const LwZpk *controller_z,
     goto fail;
 
   /* closed loop */
-  st = lw_zpk_realize (ev->controller_z, &css, err);
+  st = lw_model_realize (ev->controller_z, &css, err);
   if (st != LW_OK)
     goto fail;
   st = closed_loop_build (plant->core, css, lp.delay, &cl, err);

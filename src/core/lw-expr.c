@@ -643,11 +643,11 @@ parse_expr (Parser *p, Value *out)
 /* Entry points                                                                             */
 
 static LwStatus
-value_to_zpk (const Value *v, LwDomain domain, double period_s, LwZpk **out, LwError *err)
+value_to_model (const Value *v, LwDomain domain, double period_s, LwModel **out, LwError *err)
 {
   unsigned long long nd, dd;
   value_degrees (v, &nd, &dd);
-  LwZpk *m = lw_zpk_new (domain, period_s, v->gain, (size_t) nd, (size_t) dd);
+  LwModel *m = lw_model_new (domain, period_s, v->gain, (size_t) nd, (size_t) dd);
   if (m == NULL)
     return lw_error_set (err, LW_ERR_NOMEM, -1, "out of memory while building the model");
   size_t iz = 0, ip = 0;
@@ -656,7 +656,7 @@ value_to_zpk (const Value *v, LwDomain domain, double period_s, LwZpk **out, LwE
     const Factor *f = &v->f[i];
     LwStatus st = lw_poly_roots (f->c, f->deg, r, err);
     if (st != LW_OK) {
-      lw_zpk_free (m);
+      lw_model_free (m);
       return st;
     }
     long reps = f->exp > 0 ? f->exp : -f->exp;
@@ -668,15 +668,15 @@ value_to_zpk (const Value *v, LwDomain domain, double period_s, LwZpk **out, LwE
           m->poles[ip++] = r[j];
       }
   }
-  lw_zpk_canonicalize (m);
+  lw_model_canonicalize (m);
   /* Bitwise-equal pairs only (tolerance 0): nothing is cancelled by closeness. */
-  lw_zpk_cancel (m, 0.0);
+  lw_model_cancel (m, 0.0);
   *out = m;
   return LW_OK;
 }
 
 LwStatus
-lw_expr_parse (const char *text, LwDomain domain, double period_s, LwZpk **out, LwError *err)
+lw_expr_parse (const char *text, LwDomain domain, double period_s, LwModel **out, LwError *err)
 {
   lw_error_clear (err);
   if (out == NULL)
@@ -712,16 +712,16 @@ lw_expr_parse (const char *text, LwDomain domain, double period_s, LwZpk **out, 
     }
   }
   if (st == LW_OK)
-    st = value_to_zpk (&v, domain, period_s, out, err);
+    st = value_to_model (&v, domain, period_s, out, err);
   value_clear (&v);
   return st;
 }
 
 LwStatus
-lw_expr_parse_proper (const char *text, LwDomain domain, double period_s, LwZpk **out,
+lw_expr_parse_proper (const char *text, LwDomain domain, double period_s, LwModel **out,
                       LwError *err)
 {
-  LwZpk *m = NULL;
+  LwModel *m = NULL;
   LwStatus st = lw_expr_parse (text, domain, period_s, &m, err);
   if (st != LW_OK) {
     if (out != NULL)
@@ -729,13 +729,13 @@ lw_expr_parse_proper (const char *text, LwDomain domain, double period_s, LwZpk 
     return st;
   }
   if (m->gain == 0.0) {
-    lw_zpk_free (m);
+    lw_model_free (m);
     *out = NULL;
     return lw_error_set (err, LW_ERR_INVALID, 0, "the expression is identically zero");
   }
   if (m->n_zeros > m->n_poles) {
     size_t nz = m->n_zeros, np = m->n_poles;
-    lw_zpk_free (m);
+    lw_model_free (m);
     *out = NULL;
     return lw_error_set (err, LW_ERR_INVALID, 0,
                          "the model is improper: numerator degree %zu exceeds denominator "

@@ -31,15 +31,15 @@ extern "C" {
 #endif
 
 /* Parses `text` as a rational function of the variable of `domain`. On success *out is a new
- * canonicalized model (caller frees with lw_zpk_free) with the given period_s. Properness is
+ * canonicalized model (caller frees with lw_model_free) with the given period_s. Properness is
  * not checked here; see lw_expr_parse_plant. */
-LwStatus lw_expr_parse (const char *text, LwDomain domain, double period_s, LwZpk **out,
+LwStatus lw_expr_parse (const char *text, LwDomain domain, double period_s, LwModel **out,
                         LwError *err);
 
 /* As lw_expr_parse, and also rejects an improper model (more zeros than poles) with
  * LW_ERR_INVALID at position 0, and a model that is identically zero. */
 LwStatus lw_expr_parse_proper (const char *text, LwDomain domain, double period_s,
-                               LwZpk **out, LwError *err);
+                               LwModel **out, LwError *err);
 
 #ifdef __cplusplus
 }

@@ -16,7 +16,7 @@
 #define ON_CIRCLE_TOL 1e-9
 
 static LwStatus
-check_controller (const LwZpk *cz, const char *fn, LwError *err)
+check_controller (const LwModel *cz, const char *fn, LwError *err)
 {
   if (cz == NULL)
     return lw_error_set (err, LW_ERR_INVALID, -1, "%s: NULL controller", fn);
@@ -26,7 +26,7 @@ check_controller (const LwZpk *cz, const char *fn, LwError *err)
     return lw_error_set (err, LW_ERR_INVALID, -1,
                          "%s: the controller is improper (%zu zeros, %zu poles); it cannot be "
                          "run causally", fn, cz->n_zeros, cz->n_poles);
-  if (!lw_zpk_is_finite (cz) || cz->gain == 0.0)
+  if (!lw_model_is_finite (cz) || cz->gain == 0.0)
     return lw_error_set (err, LW_ERR_INVALID, -1,
                          "%s: the controller must be finite and not zero", fn);
   if (cz->n_poles > LW_MAX_DEGREE)
@@ -48,7 +48,7 @@ lw_diffeq_free (LwDiffEq *d)
 }
 
 LwStatus
-lw_diffeq_from_zpk (const LwZpk *cz, LwDiffEq **out, LwError *err)
+lw_diffeq_from_model (const LwModel *cz, LwDiffEq **out, LwError *err)
 {
   *out = NULL;
   LwStatus st = check_controller (cz, "difference equation", err);
@@ -71,7 +71,7 @@ lw_diffeq_from_zpk (const LwZpk *cz, LwDiffEq **out, LwError *err)
       return lw_error_set (err, LW_ERR_NOMEM, -1, "difference equation: out of memory");
     }
   d->order = n;
-  st = lw_zpk_to_poly (cz, num, den, err);
+  st = lw_model_to_poly (cz, num, den, err);
   if (st == LW_OK)
     {
       /* Divide numerator and denominator by z^n: the coefficient of z^j becomes that of
@@ -322,16 +322,16 @@ group_radius (const Group *g)
 }
 
 LwStatus
-lw_sos_from_zpk (const LwZpk *cz, LwSos **out, LwError *err)
+lw_sos_from_model (const LwModel *cz, LwSos **out, LwError *err)
 {
   *out = NULL;
   LwStatus st = check_controller (cz, "sections", err);
   if (st != LW_OK)
     return st;
-  LwZpk *m = lw_zpk_copy (cz);
+  LwModel *m = lw_model_copy (cz);
   if (m == NULL)
     return lw_error_set (err, LW_ERR_NOMEM, -1, "sections: out of memory");
-  lw_zpk_canonicalize (m);
+  lw_model_canonicalize (m);
 
   size_t np = m->n_poles, nz = m->n_zeros;
   size_t cap = np / 2 + 2;
@@ -551,7 +551,7 @@ done:
   free (pused);
   free (zused);
   free (ord);
-  lw_zpk_free (m);
+  lw_model_free (m);
   return st;
 }
 
@@ -782,14 +782,14 @@ lw_sos_fixed_to_sos (const LwSosFixed *f, LwSos **out, LwError *err)
 }
 
 LwStatus
-lw_sos_fixed_zpk (const LwSosFixed *f, double period_s, LwZpk **out, LwError *err)
+lw_sos_fixed_model (const LwSosFixed *f, double period_s, LwModel **out, LwError *err)
 {
   *out = NULL;
   LwSos *s = NULL;
   LwStatus st = lw_sos_fixed_to_sos (f, &s, err);
   if (st != LW_OK)
     return st;
-  LwZpk *acc = lw_zpk_new_constant (LW_DOMAIN_Z, period_s, 1.0);
+  LwModel *acc = lw_model_new_constant (LW_DOMAIN_Z, period_s, 1.0);
   for (size_t k = 0; k < s->n && acc != NULL && st == LW_OK; k++)
     {
       const LwSection *c = &s->s[k];
@@ -800,7 +800,7 @@ lw_sos_fixed_zpk (const LwSosFixed *f, double period_s, LwZpk **out, LwError *er
       while (lead < (size_t) order && c->b[lead] == 0.0)
         lead++;
       size_t nzr = (size_t) order - lead;
-      LwZpk *sec = lw_zpk_new (LW_DOMAIN_Z, period_s, c->b[lead], nzr, (size_t) order);
+      LwModel *sec = lw_model_new (LW_DOMAIN_Z, period_s, c->b[lead], nzr, (size_t) order);
       if (sec == NULL)
         break;
       if (nzr > 0)
@@ -817,16 +817,16 @@ lw_sos_fixed_zpk (const LwSosFixed *f, double period_s, LwZpk **out, LwError *er
         }
       if (st == LW_OK)
         {
-          LwZpk *prod = lw_zpk_mul (acc, sec);
-          lw_zpk_free (acc);
+          LwModel *prod = lw_model_mul (acc, sec);
+          lw_model_free (acc);
           acc = prod;
         }
-      lw_zpk_free (sec);
+      lw_model_free (sec);
     }
   lw_sos_free (s);
   if (st != LW_OK)
     {
-      lw_zpk_free (acc);
+      lw_model_free (acc);
       return st;
     }
   if (acc == NULL)

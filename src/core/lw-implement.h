@@ -1,7 +1,7 @@
 /* lw-implement.h — implementation forms of a controller C(z): the difference equation,
  * second-order sections, and fixed-point sections with their integer arithmetic.
  *
- * The controller is an LwZpk in z (domain z, proper: n_zeros <= n_poles).  Polynomials are
+ * The controller is an LwModel in z (domain z, proper: n_zeros <= n_poles).  Polynomials are
  * expanded only here, at the edge, and only as far as each form needs: the difference equation
  * expands the whole controller (order n), a section expands at most two roots.  Prefer the
  * sections above order 2 or 3: an expanded high-order polynomial in z loses its accuracy when
@@ -43,7 +43,7 @@ typedef struct {
 
 /* Expands the controller cz (domain z, proper, finite, gain != 0) into *out (new; free with
  * lw_diffeq_free). */
-LwStatus lw_diffeq_from_zpk (const LwZpk *cz, LwDiffEq **out, LwError *err);
+LwStatus lw_diffeq_from_model (const LwModel *cz, LwDiffEq **out, LwError *err);
 void lw_diffeq_free (LwDiffEq *d);
 
 /* Runs the difference equation from rest on x[0..n-1] into y[0..n-1] (double; x and y may not
@@ -84,7 +84,7 @@ typedef struct {
  *  - gain: each section but the last scaled to peak gain 1 over the unit circle (a section with
  *    a pole on the unit circle instead so that max|B| = max|A| on the circle); the last section
  *    carries the rest of the controller's gain. */
-LwStatus lw_sos_from_zpk (const LwZpk *cz, LwSos **out, LwError *err);
+LwStatus lw_sos_from_model (const LwModel *cz, LwSos **out, LwError *err);
 void lw_sos_free (LwSos *s);
 
 /* ∏ H_k(z) at a complex point z. */
@@ -143,7 +143,7 @@ void lw_sos_fixed_free (LwSosFixed *f);
 
 /* The quantized controller as a factored model in z (period_s the sample period, > 0); the
  * zeros and poles are the roots of each quantized section. New model in *out. */
-LwStatus lw_sos_fixed_zpk (const LwSosFixed *f, double period_s, LwZpk **out, LwError *err);
+LwStatus lw_sos_fixed_model (const LwSosFixed *f, double period_s, LwModel **out, LwError *err);
 
 /* The quantized coefficients as doubles (value = integer / 2^n), for analysis. New LwSos. */
 LwStatus lw_sos_fixed_to_sos (const LwSosFixed *f, LwSos **out, LwError *err);

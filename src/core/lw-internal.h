@@ -13,7 +13,7 @@
 /* A realization of a proper factored model as a series of real first- and second-order
  * sections (modal form for complex pairs), in the model's own variable (s or z).
  * The overall gain sits in the last section. Fails (LW_ERR_INVALID) for improper models. */
-LwStatus lw_zpk_realize (const LwZpk *m, LwSs **out, LwError *err);
+LwStatus lw_model_realize (const LwModel *m, LwSs **out, LwError *err);
 
 /* e^{[[A, B], [0, 0]]·h} of a continuous realization: Φ(h) = e^{Ah} (n×n, column-major) and
  * Γ(h) = ∫₀ʰ e^{Aσ} dσ B (n) — the zero-order-hold maps over a hold of h seconds. */
@@ -21,7 +21,7 @@ LwStatus lw_zoh_blocks (const LwSs *c, double h, double *phi, double *gam, LwErr
 
 /* Checks a controller for a loop with this plant: domain z, the plant's period, proper, finite;
  * and the computation delay N in 0 … 100000. */
-LwStatus lw_check_loop_controller (const LwSampledPlant *plant, const LwZpk *controller_z,
+LwStatus lw_check_loop_controller (const LwSampledPlant *plant, const LwModel *controller_z,
                                    int compute_delay, LwError *err);
 
 struct LwSampledPlant {
@@ -29,9 +29,9 @@ struct LwSampledPlant {
   double dead_time_s;
   int whole_delay;          /* d: whole samples of dead time, as z^-d */
   double frac_delay_s;      /* θ in [0, T): the fractional part, inside core */
-  LwZpk *plant_s;           /* the continuous model as typed */
+  LwModel *plant_s;           /* the continuous model as typed */
   LwSs *core;               /* ZOH of plant with θ, balanced, real Schur form; order n or n+1 */
   LwSchurEval *eval;        /* evaluator for core (not thread-safe: one per plant) */
   int n_integrators;        /* plant poles at s = 0 minus zeros at s = 0 */
-  LwZpk *zpk;               /* the sampled plant factored, for display (computed once) */
+  LwModel *model;               /* the sampled plant factored, for display (computed once) */
 };

@@ -27,10 +27,10 @@ roots_alloc (size_t n)
   return calloc (n, sizeof (double complex));
 }
 
-LwZpk *
-lw_zpk_new (LwDomain domain, double period_s, double gain, size_t n_zeros, size_t n_poles)
+LwModel *
+lw_model_new (LwDomain domain, double period_s, double gain, size_t n_zeros, size_t n_poles)
 {
-  LwZpk *m = calloc (1, sizeof *m);
+  LwModel *m = calloc (1, sizeof *m);
   if (m == NULL)
     return NULL;
   m->domain = domain;
@@ -41,14 +41,14 @@ lw_zpk_new (LwDomain domain, double period_s, double gain, size_t n_zeros, size_
   m->zeros = roots_alloc (n_zeros);
   m->poles = roots_alloc (n_poles);
   if ((n_zeros > 0 && m->zeros == NULL) || (n_poles > 0 && m->poles == NULL)) {
-    lw_zpk_free (m);
+    lw_model_free (m);
     return NULL;
   }
   return m;
 }
 
 void
-lw_zpk_free (LwZpk *m)
+lw_model_free (LwModel *m)
 {
   if (m == NULL)
     return;
@@ -57,12 +57,12 @@ lw_zpk_free (LwZpk *m)
   free (m);
 }
 
-LwZpk *
-lw_zpk_copy (const LwZpk *m)
+LwModel *
+lw_model_copy (const LwModel *m)
 {
   if (m == NULL)
     return NULL;
-  LwZpk *c = lw_zpk_new (m->domain, m->period_s, m->gain, m->n_zeros, m->n_poles);
+  LwModel *c = lw_model_new (m->domain, m->period_s, m->gain, m->n_zeros, m->n_poles);
   if (c == NULL)
     return NULL;
   if (m->n_zeros > 0)
@@ -72,20 +72,20 @@ lw_zpk_copy (const LwZpk *m)
   return c;
 }
 
-LwZpk *
-lw_zpk_new_constant (LwDomain domain, double period_s, double gain)
+LwModel *
+lw_model_new_constant (LwDomain domain, double period_s, double gain)
 {
-  return lw_zpk_new (domain, period_s, gain, 0, 0);
+  return lw_model_new (domain, period_s, gain, 0, 0);
 }
 
-LwZpk *
-lw_zpk_mul (const LwZpk *a, const LwZpk *b)
+LwModel *
+lw_model_mul (const LwModel *a, const LwModel *b)
 {
   if (a == NULL || b == NULL || a->domain != b->domain || a->period_s != b->period_s)
     return NULL;
   if (a->n_zeros > SIZE_MAX - b->n_zeros || a->n_poles > SIZE_MAX - b->n_poles)
     return NULL;
-  LwZpk *m = lw_zpk_new (a->domain, a->period_s, a->gain * b->gain, a->n_zeros + b->n_zeros,
+  LwModel *m = lw_model_new (a->domain, a->period_s, a->gain * b->gain, a->n_zeros + b->n_zeros,
                          a->n_poles + b->n_poles);
   if (m == NULL)
     return NULL;
@@ -97,7 +97,7 @@ lw_zpk_mul (const LwZpk *a, const LwZpk *b)
     memcpy (m->poles, a->poles, a->n_poles * sizeof *m->poles);
   if (b->n_poles > 0)
     memcpy (m->poles + a->n_poles, b->poles, b->n_poles * sizeof *m->poles);
-  lw_zpk_canonicalize (m);
+  lw_model_canonicalize (m);
   return m;
 }
 
@@ -197,7 +197,7 @@ roots_canonicalize (double complex *roots, size_t n)
 }
 
 void
-lw_zpk_canonicalize (LwZpk *m)
+lw_model_canonicalize (LwModel *m)
 {
   if (m == NULL)
     return;
@@ -223,11 +223,11 @@ roots_remove (double complex *r, size_t *n, size_t i, size_t width)
 }
 
 size_t
-lw_zpk_cancel (LwZpk *m, double rel_tol)
+lw_model_cancel (LwModel *m, double rel_tol)
 {
   if (m == NULL)
     return 0;
-  lw_zpk_canonicalize (m);
+  lw_model_canonicalize (m);
   if (!(rel_tol >= 0.0))
     rel_tol = 0.0;
   size_t removed = 0;
@@ -262,7 +262,7 @@ lw_zpk_cancel (LwZpk *m, double rel_tol)
 /* Evaluation and queries                                                                   */
 
 double complex
-lw_zpk_eval (const LwZpk *m, double complex x)
+lw_model_eval (const LwModel *m, double complex x)
 {
   if (m == NULL)
     return CMPLX (NAN, NAN);
@@ -280,7 +280,7 @@ lw_zpk_eval (const LwZpk *m, double complex x)
 }
 
 long
-lw_zpk_relative_degree (const LwZpk *m)
+lw_model_relative_degree (const LwModel *m)
 {
   if (m == NULL)
     return 0;
@@ -288,7 +288,7 @@ lw_zpk_relative_degree (const LwZpk *m)
 }
 
 bool
-lw_zpk_is_finite (const LwZpk *m)
+lw_model_is_finite (const LwModel *m)
 {
   if (m == NULL || !isfinite (m->gain))
     return false;
@@ -363,10 +363,10 @@ roots_to_poly (const double complex *r, size_t n, double *out, const char *what,
 }
 
 LwStatus
-lw_zpk_to_poly (const LwZpk *m, double *num, double *den, LwError *err)
+lw_model_to_poly (const LwModel *m, double *num, double *den, LwError *err)
 {
   if (m == NULL || num == NULL || den == NULL)
-    return lw_error_set (err, LW_ERR_INVALID, -1, "lw_zpk_to_poly: NULL argument");
+    return lw_error_set (err, LW_ERR_INVALID, -1, "lw_model_to_poly: NULL argument");
   LwStatus st = roots_to_poly (m->zeros, m->n_zeros, num, "zero", err);
   if (st != LW_OK)
     return st;
@@ -642,7 +642,7 @@ out_factors (Out *o, const Factor *f, size_t nf, char var, int digits)
 }
 
 size_t
-lw_zpk_format (const LwZpk *m, int digits, char *buf, size_t size)
+lw_model_format (const LwModel *m, int digits, char *buf, size_t size)
 {
   Out o = { buf, size, 0 };
   if (buf != NULL && size > 0)

@@ -6,7 +6,7 @@
  *
  * Roots are stored as double complex.  Complex roots always come as adjacent conjugate
  * pairs, the one with positive imaginary part first, and their imaginary parts are exactly
- * opposite; real roots have an imaginary part of exactly 0.  lw_zpk_canonicalize() enforces
+ * opposite; real roots have an imaginary part of exactly 0.  lw_model_canonicalize() enforces
  * this and sorts roots (real roots first by value, then pairs by real part, then imag part),
  * so equal models print and compare equal.
  *
@@ -44,42 +44,42 @@ typedef struct {
   size_t n_poles;
   double complex *zeros;    /* n_zeros entries (NULL when 0) */
   double complex *poles;    /* n_poles entries (NULL when 0) */
-} LwZpk;
+} LwModel;
 
 /* Allocates a model with room for the given counts; roots are zero-filled. NULL on overflow
  * or allocation failure. */
-LwZpk *lw_zpk_new (LwDomain domain, double period_s, double gain, size_t n_zeros,
+LwModel *lw_model_new (LwDomain domain, double period_s, double gain, size_t n_zeros,
                    size_t n_poles);
-void lw_zpk_free (LwZpk *m);
-LwZpk *lw_zpk_copy (const LwZpk *m);
+void lw_model_free (LwModel *m);
+LwModel *lw_model_copy (const LwModel *m);
 
 /* A constant (no roots). */
-LwZpk *lw_zpk_new_constant (LwDomain domain, double period_s, double gain);
+LwModel *lw_model_new_constant (LwDomain domain, double period_s, double gain);
 
 /* Product a·b (same domain and period required; NULL otherwise). Roots are concatenated,
- * then canonicalized; identical zero/pole pairs are not cancelled (use lw_zpk_cancel). */
-LwZpk *lw_zpk_mul (const LwZpk *a, const LwZpk *b);
+ * then canonicalized; identical zero/pole pairs are not cancelled (use lw_model_cancel). */
+LwModel *lw_model_mul (const LwModel *a, const LwModel *b);
 
 /* Removes zero/pole pairs that coincide to within rel_tol·max(1,|root|). Returns the number of
  * pairs removed. */
-size_t lw_zpk_cancel (LwZpk *m, double rel_tol);
+size_t lw_model_cancel (LwModel *m, double rel_tol);
 
 /* Enforces the conjugate-pair layout and the canonical order (see top of file). Roots with
  * |imag| <= 1e-12·max(1,|root|) become real. */
-void lw_zpk_canonicalize (LwZpk *m);
+void lw_model_canonicalize (LwModel *m);
 
 /* H(x) at a complex point, evaluated factor by factor. */
-double complex lw_zpk_eval (const LwZpk *m, double complex x);
+double complex lw_model_eval (const LwModel *m, double complex x);
 
 /* n_poles − n_zeros (negative when improper). */
-long lw_zpk_relative_degree (const LwZpk *m);
+long lw_model_relative_degree (const LwModel *m);
 
 /* True when the model is finite everywhere checked: gain and every root finite. */
-bool lw_zpk_is_finite (const LwZpk *m);
+bool lw_model_is_finite (const LwModel *m);
 
 /* Expanded polynomials, ascending powers: num has n_zeros+1 entries, den n_poles+1.
  * num includes the gain. For display and difference equations only. */
-LwStatus lw_zpk_to_poly (const LwZpk *m, double *num, double *den, LwError *err);
+LwStatus lw_model_to_poly (const LwModel *m, double *num, double *den, LwError *err);
 
 /* Roots of the real polynomial c[0] + c[1] x + … + c[degree] x^degree (c[degree] != 0) by the
  * eigenvalues of its balanced companion matrix (LAPACK dgeev). degree 1 and 2 in closed form.
@@ -89,7 +89,7 @@ LwStatus lw_poly_roots (const double *c, size_t degree, double complex *roots, L
 /* Writes a factored, human-readable form, e.g. "3.2 (s + 2) / (s (s^2 + 1.2 s + 16))", into
  * buf (always NUL-terminated). Returns the length it needed (like snprintf). `digits` is the
  * number of significant digits (e.g. 6). */
-size_t lw_zpk_format (const LwZpk *m, int digits, char *buf, size_t size);
+size_t lw_model_format (const LwModel *m, int digits, char *buf, size_t size);
 
 /* The variable letter of a domain: 's', 'z' or 'w'. */
 char lw_domain_var (LwDomain d);

@@ -140,7 +140,7 @@ origin_roots (const double complex *r, size_t n, double tol, double complex *c, 
 }
 
 LwStatus
-lw_loop_low_frequency (const LwZpk *plant_s, const LwZpk *controller_w, int *loop_type,
+lw_loop_low_frequency (const LwModel *plant_s, const LwModel *controller_w, int *loop_type,
                        double *coef, LwError *err)
 {
   if (plant_s == NULL || controller_w == NULL || plant_s->domain != LW_DOMAIN_S
@@ -161,7 +161,7 @@ lw_loop_low_frequency (const LwZpk *plant_s, const LwZpk *controller_w, int *loo
 }
 
 LwStatus
-lw_achieved_from_evaluation (const LwEvaluation *ev, const LwZpk *plant_s, LwAchieved *out,
+lw_achieved_from_evaluation (const LwEvaluation *ev, const LwModel *plant_s, LwAchieved *out,
                              LwError *err)
 {
   memset (out, 0, sizeof *out);

@@ -114,12 +114,12 @@ typedef struct {
 
 /* Loop type k and low-frequency coefficient c of L = z^−N C P (see the top), from the plant in
  * s and the controller in w. A root counts as at the origin when |r| <= 1e-9·(2/T). */
-LwStatus lw_loop_low_frequency (const LwZpk *plant_s, const LwZpk *controller_w,
+LwStatus lw_loop_low_frequency (const LwModel *plant_s, const LwModel *controller_w,
                                 int *loop_type, double *coef, LwError *err);
 
 /* Fills *out from an evaluation (margins, crossover, stability, step figures) and the plant in
  * s (for the low-frequency gain). has_actuator_peak is left false. */
-LwStatus lw_achieved_from_evaluation (const LwEvaluation *ev, const LwZpk *plant_s,
+LwStatus lw_achieved_from_evaluation (const LwEvaluation *ev, const LwModel *plant_s,
                                       LwAchieved *out, LwError *err);
 
 /* Fills the actuator peak max|u(kT)| of *out from a simulated reference step (lw-simulate.h:

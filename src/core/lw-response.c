@@ -41,7 +41,7 @@ z_factor_angle_deg (double complex f, double complex r, double c, double s, doub
 }
 
 LwStatus
-lw_zpk_freq_response (const LwZpk *m, const double *freq, size_t n, double *mag_db,
+lw_model_freq_response (const LwModel *m, const double *freq, size_t n, double *mag_db,
                       double *phase_deg, LwError *err)
 {
   if (m == NULL || (m->domain == LW_DOMAIN_Z && !(m->period_s > 0.0)))

@@ -28,7 +28,7 @@ LwStatus lw_log_grid (double lo, double hi, size_t n, double *out, LwError *err)
  * ∠(−r) + ∠(1 − e^{jθ}/r) for |r| > 1), so the phase is continuous wherever it is defined (a
  * root exactly on the axis or circle makes a genuine jump there); a negative gain counts −180°.
  * Either output may be NULL. */
-LwStatus lw_zpk_freq_response (const LwZpk *m, const double *freq, size_t n, double *mag_db,
+LwStatus lw_model_freq_response (const LwModel *m, const double *freq, size_t n, double *mag_db,
                                double *phase_deg, LwError *err);
 
 /* Response of the sampled plant (ZOH with dead time, from its state space) at ω[] (ascending,

@@ -27,7 +27,7 @@ is_pair (double complex r)
 /* Builds the section list: complex zero pairs go with complex pole pairs first, then with two
  * real poles; remaining real zeros fill any section with room. */
 static LwStatus
-make_sections (const LwZpk *m, Section **out, size_t *n_out, LwError *err)
+make_sections (const LwModel *m, Section **out, size_t *n_out, LwError *err)
 {
   size_t np = m->n_poles, nz = m->n_zeros;
   Section *sec = calloc (np == 0 ? 1 : np, sizeof *sec);
@@ -165,7 +165,7 @@ section_ss (const Section *s, double g, double a[4], double b[2], double c[2], d
 }
 
 LwStatus
-lw_zpk_realize (const LwZpk *m, LwSs **out, LwError *err)
+lw_model_realize (const LwModel *m, LwSs **out, LwError *err)
 {
   if (m->n_zeros > m->n_poles)
     return lw_error_set (err, LW_ERR_INVALID, -1, "the model is improper (more zeros than poles)");
@@ -257,10 +257,10 @@ lw_zoh_blocks (const LwSs *c, double h, double *phi, double *gam, LwError *err)
   return st;
 }
 
-static LwZpk *sampled_zpk (const LwSampledPlant *p);
+static LwModel *sampled_model (const LwSampledPlant *p);
 
 LwStatus
-lw_sampled_plant_new (const LwZpk *plant_s, double dead_time_s, double period_s,
+lw_sampled_plant_new (const LwModel *plant_s, double dead_time_s, double period_s,
                       LwSampledPlant **out, LwError *err)
 {
   *out = NULL;
@@ -272,7 +272,7 @@ lw_sampled_plant_new (const LwZpk *plant_s, double dead_time_s, double period_s,
     return lw_error_set (err, LW_ERR_INVALID, -1, "the dead time must be a finite number >= 0 s");
   if (plant_s->n_zeros > plant_s->n_poles)
     return lw_error_set (err, LW_ERR_INVALID, -1, "the plant is improper (more zeros than poles)");
-  if (!lw_zpk_is_finite (plant_s))
+  if (!lw_model_is_finite (plant_s))
     return lw_error_set (err, LW_ERR_INVALID, -1, "the plant has a non-finite gain or root");
   double ratio = dead_time_s / period_s;
   if (ratio > 1e6)
@@ -297,7 +297,7 @@ lw_sampled_plant_new (const LwZpk *plant_s, double dead_time_s, double period_s,
   p->dead_time_s = dead_time_s;
   p->whole_delay = (int) whole;
   p->frac_delay_s = frac * period_s;
-  p->plant_s = lw_zpk_copy (plant_s);
+  p->plant_s = lw_model_copy (plant_s);
   for (size_t i = 0; i < plant_s->n_poles; i++)
     if (plant_s->poles[i] == 0.0)
       p->n_integrators++;
@@ -306,7 +306,7 @@ lw_sampled_plant_new (const LwZpk *plant_s, double dead_time_s, double period_s,
       p->n_integrators--;
 
   LwSs *cs = NULL;
-  LwStatus st = lw_zpk_realize (plant_s, &cs, err);
+  LwStatus st = lw_model_realize (plant_s, &cs, err);
   if (st != LW_OK)
     {
       lw_sampled_plant_free (p);
@@ -380,8 +380,8 @@ lw_sampled_plant_new (const LwZpk *plant_s, double dead_time_s, double period_s,
       st = lw_error_set (err, LW_ERR_NOMEM, -1, "out of memory");
       goto fail;
     }
-  p->zpk = sampled_zpk (p);
-  if (p->zpk == NULL)
+  p->model = sampled_model (p);
+  if (p->model == NULL)
     {
       st = lw_error_set (err, LW_ERR_NUMERIC, -1, "could not factor the sampled plant");
       goto fail;
@@ -404,8 +404,8 @@ lw_sampled_plant_free (LwSampledPlant *p)
 {
   if (p == NULL)
     return;
-  lw_zpk_free (p->plant_s);
-  lw_zpk_free (p->zpk);
+  lw_model_free (p->plant_s);
+  lw_model_free (p->model);
   lw_ss_free (p->core);
   lw_schur_eval_free (p->eval);
   free (p);
@@ -430,25 +430,25 @@ lw_sampled_plant_response (const LwSampledPlant *p, double omega_rad_s)
   return h;
 }
 
-LwZpk *
-lw_sampled_plant_zpk (const LwSampledPlant *p)
+LwModel *
+lw_sampled_plant_model (const LwSampledPlant *p)
 {
-  return lw_zpk_copy (p->zpk);
+  return lw_model_copy (p->model);
 }
 
-static LwZpk *
-sampled_zpk (const LwSampledPlant *p)
+static LwModel *
+sampled_model (const LwSampledPlant *p)
 {
   const LwSs *s = p->core;
   size_t n = s->n, d = (size_t) p->whole_delay;
   double complex *zeros = calloc (n + 1, sizeof *zeros), *poles = calloc (n + 1, sizeof *poles);
   size_t nz = 0;
-  LwZpk *m = NULL;
+  LwModel *m = NULL;
   if (zeros == NULL || poles == NULL)
     goto out;
   if (lw_ss_zeros (s, zeros, &nz, NULL) != LW_OK || lw_eigenvalues (n, s->a, poles, NULL) != LW_OK)
     goto out;
-  m = lw_zpk_new (LW_DOMAIN_Z, p->period_s, 1.0, nz, n + d);
+  m = lw_model_new (LW_DOMAIN_Z, p->period_s, 1.0, nz, n + d);
   if (m == NULL)
     goto out;
   /* Polish each zero with Newton steps on the state-space response H(z) (exact derivative):
@@ -480,7 +480,7 @@ sampled_zpk (const LwSampledPlant *p)
     memcpy (m->poles, poles, n * sizeof *poles);
   for (size_t i = 0; i < d; i++)
     m->poles[n + i] = 0.0;
-  lw_zpk_canonicalize (m);
+  lw_model_canonicalize (m);
   /* Gain for display: match the state-space response at a point well away from every root. */
   {
     double rmax = 1.0;
@@ -491,7 +491,7 @@ sampled_zpk (const LwSampledPlant *p)
     double complex z0 = 2.0 * rmax * cexp (I * 0.3);
     double complex h = lw_schur_eval (p->eval, z0) * cpow (z0, -(double) d);
     m->gain = 1.0;
-    double complex unit = lw_zpk_eval (m, z0);
+    double complex unit = lw_model_eval (m, z0);
     m->gain = creal (h / unit);
   }
 out:
@@ -501,7 +501,7 @@ out:
 }
 
 LwStatus
-lw_check_loop_controller (const LwSampledPlant *plant, const LwZpk *controller_z,
+lw_check_loop_controller (const LwSampledPlant *plant, const LwModel *controller_z,
                           int compute_delay, LwError *err)
 {
   double t = plant->period_s;
@@ -512,7 +512,7 @@ lw_check_loop_controller (const LwSampledPlant *plant, const LwZpk *controller_z
     return lw_error_set (err, LW_ERR_INVALID, -1,
                          "the controller is improper (more zeros than poles): it would need "
                          "future samples");
-  if (!lw_zpk_is_finite (controller_z))
+  if (!lw_model_is_finite (controller_z))
     return lw_error_set (err, LW_ERR_INVALID, -1, "the controller has a non-finite gain or root");
   if (compute_delay < 0 || compute_delay > 100000)
     return lw_error_set (err, LW_ERR_INVALID, -1,

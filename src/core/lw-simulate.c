@@ -30,7 +30,7 @@ struct LwSimPlan {
   size_t n_hold;
   double int_sign;          /* sign of the integral action (+1 or −1), 0 when none */
   double den;               /* 1 + Dc·Dp, used when N + d == 0 */
-  /* continuous plant (lw_zpk_realize of plant_s), column-major, sub-step maps */
+  /* continuous plant (lw_model_realize of plant_s), column-major, sub-step maps */
   size_t ns;
   double *sc, sd;
   double *phi_h, *gam_h;    /* e^{A h}, ∫ e^{A s} ds B over h = T/M */
@@ -76,7 +76,7 @@ lw_sim_plan_n_integrating (const LwSimPlan *plan)
  * roots at z = 1 (poles minus zeros). Conjugate pairs contribute |1 − p|² > 0, so the sign is
  * that of the gain, flipped once for every real root beyond z = 1. 0 when m < 1. */
 static double
-integral_sign (const LwZpk *c)
+integral_sign (const LwModel *c)
 {
   int m = 0;
   double s = c->gain >= 0 ? 1.0 : -1.0;
@@ -120,7 +120,7 @@ dup (const double *v, size_t n)
 }
 
 LwStatus
-lw_sim_plan_new (const LwSampledPlant *plant, const LwZpk *controller_z,
+lw_sim_plan_new (const LwSampledPlant *plant, const LwModel *controller_z,
                  const LwSimOptions *opts, LwSimPlan **out, LwError *err)
 {
   *out = NULL;
@@ -162,7 +162,7 @@ lw_sim_plan_new (const LwSampledPlant *plant, const LwZpk *controller_z,
   p->pb = dup (core->b, core->n);
   p->pc = dup (core->c, core->n);
   p->pd = core->d;
-  st = lw_zpk_realize (controller_z, &css, err);
+  st = lw_model_realize (controller_z, &css, err);
   if (st != LW_OK)
     goto fail;
   p->nc = css->n;
@@ -220,7 +220,7 @@ lw_sim_plan_new (const LwSampledPlant *plant, const LwZpk *controller_z,
   /* continuous plant and its sub-step maps */
   if (opts->substeps > 0)
     {
-      st = lw_zpk_realize (plant->plant_s, &cont, err);
+      st = lw_model_realize (plant->plant_s, &cont, err);
       if (st != LW_OK)
         goto fail;
       size_t n = cont->n;

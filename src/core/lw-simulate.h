@@ -16,7 +16,7 @@
  * line carries limited values and u[k] never leaves [LOW, HIGH].  P includes the plant's input
  * dead time, so an input disturbance passes through the dead time as the actuator signal does.
  * Everything is simulated structurally — the sampled plant's state space, delay lines, the
- * controller as a series of first- and second-order sections (lw_zpk_realize) — never through
+ * controller as a series of first- and second-order sections (lw_model_realize) — never through
  * an expanded polynomial.
  *
  * Plan/execute: an LwSimPlan is built once per (sampled plant, controller, options) and run for
@@ -95,7 +95,7 @@ typedef struct LwSimPlan LwSimPlan;
  * LW_ERR_INVALID for bad options, an algebraic loop with 1 + C(∞)P(∞) = 0 (N = 0 and no whole
  * dead time), or, with limits, 1 + C(∞)P(∞) < 0 (the limited algebraic loop has no unique
  * solution). */
-LwStatus lw_sim_plan_new (const LwSampledPlant *plant, const LwZpk *controller_z,
+LwStatus lw_sim_plan_new (const LwSampledPlant *plant, const LwModel *controller_z,
                           const LwSimOptions *opts, LwSimPlan **out, LwError *err);
 void lw_sim_plan_free (LwSimPlan *plan);
 

@@ -326,7 +326,7 @@ quad_roots (double nu0, double zeta, double complex *r)
 }
 
 LwStatus
-lw_stage_to_zpk (const LwStage *s, double period_s, LwZpk **out, LwError *err)
+lw_stage_to_model (const LwStage *s, double period_s, LwModel **out, LwError *err)
 {
   *out = NULL;
   if (!(period_s > 0.0) || !isfinite (period_s))
@@ -334,29 +334,29 @@ lw_stage_to_zpk (const LwStage *s, double period_s, LwZpk **out, LwError *err)
   LwStatus st = lw_stage_check (s, err);
   if (st != LW_OK)
     return st;
-  LwZpk *m = NULL;
+  LwModel *m = NULL;
   const LwDomain d = LW_DOMAIN_W;
   switch (s->kind)
     {
     case LW_STAGE_GAIN:
-      m = lw_zpk_new_constant (d, period_s, s->p.gain.ratio);
+      m = lw_model_new_constant (d, period_s, s->p.gain.ratio);
       break;
     case LW_STAGE_INTEGRATOR:
-      m = lw_zpk_new (d, period_s, 1.0, 0, (size_t) s->p.integrator.count);
+      m = lw_model_new (d, period_s, 1.0, 0, (size_t) s->p.integrator.count);
       break;                                  /* poles zero-filled: at w = 0 */
     case LW_STAGE_REAL_ZERO:
-      m = lw_zpk_new (d, period_s, 1.0 / s->p.real.corner_rad_s, 1, 0);
+      m = lw_model_new (d, period_s, 1.0 / s->p.real.corner_rad_s, 1, 0);
       if (m)
         m->zeros[0] = -s->p.real.corner_rad_s;
       break;
     case LW_STAGE_REAL_POLE:
-      m = lw_zpk_new (d, period_s, s->p.real.corner_rad_s, 0, 1);
+      m = lw_model_new (d, period_s, s->p.real.corner_rad_s, 0, 1);
       if (m)
         m->poles[0] = -s->p.real.corner_rad_s;
       break;
     case LW_STAGE_LEAD:
     case LW_STAGE_LAG:
-      m = lw_zpk_new (d, period_s, s->p.leadlag.pole_rad_s / s->p.leadlag.zero_rad_s, 1, 1);
+      m = lw_model_new (d, period_s, s->p.leadlag.pole_rad_s / s->p.leadlag.zero_rad_s, 1, 1);
       if (m)
         {
           m->zeros[0] = -s->p.leadlag.zero_rad_s;
@@ -364,7 +364,7 @@ lw_stage_to_zpk (const LwStage *s, double period_s, LwZpk **out, LwError *err)
         }
       break;
     case LW_STAGE_PI:
-      m = lw_zpk_new (d, period_s, s->p.pi.gain, 1, 1);
+      m = lw_model_new (d, period_s, s->p.pi.gain, 1, 1);
       if (m)
         m->zeros[0] = -s->p.pi.zero_rad_s;    /* pole at 0 */
       break;
@@ -373,7 +373,7 @@ lw_stage_to_zpk (const LwStage *s, double period_s, LwZpk **out, LwError *err)
         double kp = s->p.pid.kp, ti = s->p.pid.ti_s, td = s->p.pid.td_s, n = s->p.pid.filter_n;
         if (td == 0.0)
           {
-            m = lw_zpk_new (d, period_s, kp, 1, 1);
+            m = lw_model_new (d, period_s, kp, 1, 1);
             if (m)
               m->zeros[0] = -1.0 / ti;
             break;
@@ -381,13 +381,13 @@ lw_stage_to_zpk (const LwStage *s, double period_s, LwZpk **out, LwError *err)
         /* Kp [Ti·Td(1 + 1/N) w² + (Ti + Td/N) w + 1] / [Ti w (1 + Td w/N)] */
         double a2 = ti * td * (1.0 + 1.0 / n), a1 = ti + td / n;
         double c[3] = { 1.0, a1, a2 };
-        m = lw_zpk_new (d, period_s, kp * (1.0 + n), 2, 2);
+        m = lw_model_new (d, period_s, kp * (1.0 + n), 2, 2);
         if (m)
           {
             st = lw_poly_roots (c, 2, m->zeros, err);
             if (st != LW_OK)
               {
-                lw_zpk_free (m);
+                lw_model_free (m);
                 return st;
               }
             m->poles[0] = 0.0;
@@ -400,7 +400,7 @@ lw_stage_to_zpk (const LwStage *s, double period_s, LwZpk **out, LwError *err)
         double nu0 = s->p.notch.centre_rad_s;
         double zp = s->p.notch.width_rad_s / (2.0 * nu0);
         double zz = zp * pow (10.0, -s->p.notch.depth_db / 20.0);
-        m = lw_zpk_new (d, period_s, 1.0, 2, 2);
+        m = lw_model_new (d, period_s, 1.0, 2, 2);
         if (m)
           {
             quad_roots (nu0, zz, m->zeros);
@@ -413,7 +413,7 @@ lw_stage_to_zpk (const LwStage *s, double period_s, LwZpk **out, LwError *err)
       {
         double nu0 = s->p.pair.natural_rad_s;
         bool zero = s->kind == LW_STAGE_ZERO_PAIR;
-        m = lw_zpk_new (d, period_s, zero ? 1.0 / (nu0 * nu0) : nu0 * nu0, zero ? 2 : 0,
+        m = lw_model_new (d, period_s, zero ? 1.0 / (nu0 * nu0) : nu0 * nu0, zero ? 2 : 0,
                         zero ? 0 : 2);
         if (m)
           quad_roots (nu0, s->p.pair.damping, zero ? m->zeros : m->poles);
@@ -422,7 +422,7 @@ lw_stage_to_zpk (const LwStage *s, double period_s, LwZpk **out, LwError *err)
     }
   if (m == NULL)
     return lw_error_set (err, LW_ERR_NOMEM, -1, "out of memory");
-  lw_zpk_canonicalize (m);
+  lw_model_canonicalize (m);
   *out = m;
   return LW_OK;
 }
@@ -653,38 +653,38 @@ lw_stage_params (const LwStage *s, LwStageParam *o)
 /* ---- the compensator ---------------------------------------------------------------------- */
 
 LwStatus
-lw_compensator_w (const LwStage *stages, size_t n, double period_s, LwZpk **out, LwError *err)
+lw_compensator_w (const LwStage *stages, size_t n, double period_s, LwModel **out, LwError *err)
 {
   *out = NULL;
   if (n > 0 && stages == NULL)
     return lw_error_set (err, LW_ERR_INVALID, -1, "missing stages");
   if (!(period_s > 0.0) || !isfinite (period_s))
     return lw_error_set (err, LW_ERR_INVALID, -1, "the sample period must be finite and > 0 s");
-  LwZpk *acc = lw_zpk_new_constant (LW_DOMAIN_W, period_s, 1.0);
+  LwModel *acc = lw_model_new_constant (LW_DOMAIN_W, period_s, 1.0);
   if (acc == NULL)
     return lw_error_set (err, LW_ERR_NOMEM, -1, "out of memory");
   for (size_t i = 0; i < n; i++)
     {
       if (!stages[i].enabled)
         continue;
-      LwZpk *m = NULL;
-      LwStatus st = lw_stage_to_zpk (&stages[i], period_s, &m, err);
+      LwModel *m = NULL;
+      LwStatus st = lw_stage_to_model (&stages[i], period_s, &m, err);
       if (st != LW_OK)
         {
-          lw_zpk_free (acc);
+          lw_model_free (acc);
           return st;
         }
       if (acc->n_zeros + m->n_zeros > LW_MAX_DEGREE || acc->n_poles + m->n_poles > LW_MAX_DEGREE)
         {
-          lw_zpk_free (m);
-          lw_zpk_free (acc);
+          lw_model_free (m);
+          lw_model_free (acc);
           return lw_error_set (err, LW_ERR_INVALID, -1,
                                "the compensator exceeds degree %d at stage %zu", LW_MAX_DEGREE,
                                i + 1);
         }
-      LwZpk *p = lw_zpk_mul (acc, m);
-      lw_zpk_free (m);
-      lw_zpk_free (acc);
+      LwModel *p = lw_model_mul (acc, m);
+      lw_model_free (m);
+      lw_model_free (acc);
       if (p == NULL)
         return lw_error_set (err, LW_ERR_NOMEM, -1, "out of memory");
       acc = p;
@@ -694,10 +694,10 @@ lw_compensator_w (const LwStage *stages, size_t n, double period_s, LwZpk **out,
 }
 
 LwStatus
-lw_compensator_z (const LwStage *stages, size_t n, double period_s, LwZpk **out, LwError *err)
+lw_compensator_z (const LwStage *stages, size_t n, double period_s, LwModel **out, LwError *err)
 {
   *out = NULL;
-  LwZpk *w = NULL;
+  LwModel *w = NULL;
   LwStatus st = lw_compensator_w (stages, n, period_s, &w, err);
   if (st != LW_OK)
     return st;
@@ -707,14 +707,14 @@ lw_compensator_z (const LwStage *stages, size_t n, double period_s, LwZpk **out,
       double complex r = i < w->n_zeros ? w->zeros[i] : w->poles[i - w->n_zeros];
       if (cabs (r - edge) <= 1e-12 * edge)
         {
-          lw_zpk_free (w);
+          lw_model_free (w);
           return lw_error_set (err, LW_ERR_INVALID, -1,
                                "a compensator root at w = 2/T = %.6g rad/s has no image in z",
                                edge);
         }
     }
-  LwZpk *z = lw_zpk_w_to_z (w);
-  lw_zpk_free (w);
+  LwModel *z = lw_model_w_to_z (w);
+  lw_model_free (w);
   if (z == NULL)
     return lw_error_set (err, LW_ERR_NOMEM, -1, "out of memory");
   *out = z;

@@ -48,7 +48,7 @@
  * near 1/Ti and 1/Td only when Ti ≫ Td.
  *
  * The compensator is the ordered product of the enabled stages (lw_compensator_w); it is mapped
- * to z by the inverse bilinear map lw_zpk_w_to_z (lw_compensator_z).
+ * to z by the inverse bilinear map lw_model_w_to_z (lw_compensator_z).
  *
  * SPDX-License-Identifier: GPL-3.0-or-later
  */
@@ -142,7 +142,7 @@ double lw_stage_leadlag_max_phase_deg (const LwStage *s);
 LwStatus lw_stage_check (const LwStage *s, LwError *err);
 
 /* The stage as a factored model in w (domain w, period_s > 0), whether enabled or not. */
-LwStatus lw_stage_to_zpk (const LwStage *s, double period_s, LwZpk **out, LwError *err);
+LwStatus lw_stage_to_model (const LwStage *s, double period_s, LwModel **out, LwError *err);
 
 /* Corner handles (see the top of the file). Count is 0 … LW_STAGE_MAX_CORNERS. */
 size_t lw_stage_corner_count (const LwStage *s);
@@ -171,11 +171,11 @@ const char *lw_stage_kind_name (LwStageKind kind);
 
 /* The product of the enabled stages among stages[0 … n−1], in order, as a model in w with
  * period_s (a constant 1 when none is enabled). Each stage is checked first. */
-LwStatus lw_compensator_w (const LwStage *stages, size_t n, double period_s, LwZpk **out,
+LwStatus lw_compensator_w (const LwStage *stages, size_t n, double period_s, LwModel **out,
                            LwError *err);
-/* The same mapped to z by lw_zpk_w_to_z. A root at exactly w = 2/T (no image in z) is
+/* The same mapped to z by lw_model_w_to_z. A root at exactly w = 2/T (no image in z) is
  * refused. */
-LwStatus lw_compensator_z (const LwStage *stages, size_t n, double period_s, LwZpk **out,
+LwStatus lw_compensator_z (const LwStage *stages, size_t n, double period_s, LwModel **out,
                            LwError *err);
 
 #ifdef __cplusplus

@@ -16,7 +16,7 @@
 #define MAX_STAGES 64
 
 static LwStatus
-loop_controller (const LwSynthLoop *lp, const LwStage *extra, size_t n_extra, LwZpk **cw,
+loop_controller (const LwSynthLoop *lp, const LwStage *extra, size_t n_extra, LwModel **cw,
                  LwError *err)
 {
   if (lp->n_fixed + n_extra > MAX_STAGES)
@@ -52,10 +52,10 @@ check_nu (double nu, LwError *err)
 
 /* Evaluation of the loop with controller cw (in w). */
 static LwStatus
-evaluate_w (const LwSynthLoop *lp, const LwZpk *cw, size_t n_steps, LwEvaluation **ev,
+evaluate_w (const LwSynthLoop *lp, const LwModel *cw, size_t n_steps, LwEvaluation **ev,
             LwError *err)
 {
-  LwZpk *cz = lw_zpk_w_to_z (cw);
+  LwModel *cz = lw_model_w_to_z (cw);
   if (cz == NULL)
     return lw_error_set (err, LW_ERR_NOMEM, -1, "out of memory");
   LwAnalysisOptions o;
@@ -63,17 +63,17 @@ evaluate_w (const LwSynthLoop *lp, const LwZpk *cw, size_t n_steps, LwEvaluation
   o.compute_delay = lp->compute_delay;
   o.n_steps = n_steps;
   LwStatus st = lw_evaluate (lp->plant, cz, &o, ev, err);
-  lw_zpk_free (cz);
+  lw_model_free (cz);
   return st;
 }
 
 /* L(jν) exactly (see lw-synth.h). */
 static double complex
-loop_value (const LwSynthLoop *lp, const LwZpk *cw, double nu)
+loop_value (const LwSynthLoop *lp, const LwModel *cw, double nu)
 {
   double t = lw_sampled_plant_period (lp->plant);
   double w = lw_warp_nu_to_omega (nu, t);
-  return lw_zpk_eval (cw, I * nu) * lw_sampled_plant_response (lp->plant, w)
+  return lw_model_eval (cw, I * nu) * lw_sampled_plant_response (lp->plant, w)
          * cexp (-I * w * t * lp->compute_delay);
 }
 
@@ -114,7 +114,7 @@ lw_synth_loop_response (const LwSynthLoop *lp, const LwStage *extra, size_t n_ex
     st = check_nu (nu_rad_s, err);
   if (st != LW_OK)
     return st;
-  LwZpk *cw = NULL;
+  LwModel *cw = NULL;
   st = loop_controller (lp, extra, n_extra, &cw, err);
   if (st != LW_OK)
     return st;
@@ -132,7 +132,7 @@ lw_synth_loop_response (const LwSynthLoop *lp, const LwStage *extra, size_t n_ex
         }
       lw_evaluation_free (ev);
     }
-  lw_zpk_free (cw);
+  lw_model_free (cw);
   if (st == LW_OK && mag != NULL && !(isfinite (*mag) && *mag > 0.0))
     return lw_error_set (err, LW_ERR_INVALID, -1,
                          "the loop gain at %.6g rad/s is %g: no gain can put the crossover there",
@@ -268,13 +268,13 @@ lw_synth_lead (const LwSynthLoop *lp, double pm_target_deg, double nu_c_rad_s,
     }
 
   /* what the design reaches, by a full evaluation */
-  LwZpk *cw = NULL;
+  LwModel *cw = NULL;
   st = loop_controller (lp, s, out->n_stages, &cw, err);
   if (st != LW_OK)
     return st;
   LwEvaluation *ev = NULL;
   st = evaluate_w (lp, cw, 2, &ev, err);
-  lw_zpk_free (cw);
+  lw_model_free (cw);
   if (st != LW_OK)
     return st;
   out->stable = ev->stable;
@@ -347,7 +347,7 @@ lw_synth_pi (const LwSynthLoop *lp, double nu_c_rad_s, double fraction, LwPiDesi
 #define NOTCH_MAX_DEPTH_DB 80.0
 
 LwStatus
-lw_synth_notch (const LwZpk *plant_s, double period_s, double zeta_max, double zeta_notch,
+lw_synth_notch (const LwModel *plant_s, double period_s, double zeta_max, double zeta_notch,
                 LwNotchDesign *out, LwError *err)
 {
   memset (out, 0, sizeof *out);

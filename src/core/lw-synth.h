@@ -137,7 +137,7 @@ typedef struct {
 
 /* plant_s: the continuous plant; 0 < zeta_max < 1 (e.g. 0.2); zeta_max < zeta_notch <= 1
  * (e.g. 0.5). */
-LwStatus lw_synth_notch (const LwZpk *plant_s, double period_s, double zeta_max,
+LwStatus lw_synth_notch (const LwModel *plant_s, double period_s, double zeta_max,
                          double zeta_notch, LwNotchDesign *out, LwError *err);
 
 #ifdef __cplusplus

@@ -438,11 +438,11 @@ rewrite_positions (const char *msg, const char *text, int position, bool *names_
 static bool
 check_plant (Reader *r, const xmlNode *e, const char *text)
 {
-  LwZpk *m = NULL;
+  LwModel *m = NULL;
   LwError err;
   lw_error_clear (&err);
   LwStatus st = lw_expr_parse_proper (text, LW_DOMAIN_S, 0.0, &m, &err);
-  lw_zpk_free (m);
+  lw_model_free (m);
   if (st == LW_OK)
     return true;
   if (st == LW_ERR_NOMEM || st == LW_ERR_NUMERIC)

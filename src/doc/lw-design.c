@@ -396,7 +396,7 @@ lw_design_validate (const LwDesign *d, GError **error)
       g_set_error (error, LW_DESIGN_ERROR, LW_DESIGN_ERROR_VALUE, "the design has no plant");
       return FALSE;
     }
-  LwZpk *m = NULL;
+  LwModel *m = NULL;
   LwError err;
   lw_error_clear (&err);
   if (lw_expr_parse_proper (d->plant, LW_DOMAIN_S, 0.0, &m, &err) != LW_OK)
@@ -406,7 +406,7 @@ lw_design_validate (const LwDesign *d, GError **error)
                    d->plant, err.message, err.position);
       return FALSE;
     }
-  lw_zpk_free (m);
+  lw_model_free (m);
   if (!lw_doc_rule_ok (LW_NUM_POSITIVE, d->period_s))
     {
       g_set_error (error, LW_DESIGN_ERROR, LW_DESIGN_ERROR_VALUE,

@@ -557,8 +557,8 @@ lw_design_model_move_variant (LwDesignModel *self, guint i, int delta)
 static void
 design_eval_clear (LwLoopEval *e)
 {
-  g_clear_pointer (&e->plant_s, lw_zpk_free);
-  g_clear_pointer (&e->controller_w, lw_zpk_free);
+  g_clear_pointer (&e->plant_s, lw_model_free);
+  g_clear_pointer (&e->controller_w, lw_model_free);
   g_clear_pointer (&e->ev, lw_evaluation_free);
   e->sampled = NULL;
   g_clear_pointer (&e->sampled_ref, shared_plant_release);
@@ -599,7 +599,7 @@ period_in_use (const LwDesign *d, double period_s)
  * is kept per period some variant uses, so reference variants at other rates keep theirs;
  * those of periods no variant uses any more are dropped (their evaluations are stale). */
 static SharedPlant *
-sampled_plant (LwDesignModel *self, const LwZpk *plant_s, double period_s, LwError *err)
+sampled_plant (LwDesignModel *self, const LwModel *plant_s, double period_s, LwError *err)
 {
   const LwDesign *d = self->doc;
   if (g_strcmp0 (self->sampled_plant_text, d->plant) != 0
@@ -664,7 +664,7 @@ lw_design_model_evaluate_variant (LwDesignModel *self, guint variant, size_t n_p
     return fail (e, LW_LOOP_FAILED_SAMPLING);
   LwSampledPlant *plant = shared->plant;
 
-  LwZpk *controller_z = NULL;
+  LwModel *controller_z = NULL;
   if (lw_compensator_w (v->stages, v->n_stages, period_s, &e->controller_w, &e->error)
         != LW_OK
       || lw_compensator_z (v->stages, v->n_stages, period_s, &controller_z, &e->error)
@@ -679,7 +679,7 @@ lw_design_model_evaluate_variant (LwDesignModel *self, guint variant, size_t n_p
   LwStatus st = lw_evaluate (plant, controller_z, &opts, &e->ev, &e->error);
   if (st != LW_OK)
     {
-      lw_zpk_free (controller_z);
+      lw_model_free (controller_z);
       return fail (e, LW_LOOP_FAILED_LOOP);
     }
   e->sampled = plant;
@@ -708,7 +708,7 @@ lw_design_model_evaluate_variant (LwDesignModel *self, guint variant, size_t n_p
     g_debug ("no simulated step: %s", sim_err.message);
   lw_sim_response_free (sim);
   lw_sim_plan_free (plan);
-  lw_zpk_free (controller_z);
+  lw_model_free (controller_z);
 
   /* Achieved figures for the requirements; a failure here leaves them out, not the loop. */
   LwError req_err;

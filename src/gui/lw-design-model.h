@@ -129,8 +129,8 @@ typedef struct
 {
   LwLoopFailure failure;
   LwError error;                  /* the failure's message (code LW_OK when none) */
-  LwZpk *plant_s;                 /* NULL when the plant failed to parse */
-  LwZpk *controller_w;            /* NULL when the compensator failed */
+  LwModel *plant_s;                 /* NULL when the plant failed to parse */
+  LwModel *controller_w;            /* NULL when the compensator failed */
   LwEvaluation *ev;               /* NULL on any failure */
   /* the sampled plant ev was evaluated against (for the figure adapter); the evaluation holds
    * a reference, so it stays valid as long as the evaluation, whatever the model's cache does */

@@ -6,17 +6,17 @@
 #include "lw-gui-util.h"
 
 static char *
-format_zpk (const LwZpk *m)
+format_model (const LwModel *m)
 {
   g_return_val_if_fail (m != NULL, NULL);
-  size_t need = lw_zpk_format (m, 6, NULL, 0);
+  size_t need = lw_model_format (m, 6, NULL, 0);
   char *text = g_malloc (need + 1);
-  lw_zpk_format (m, 6, text, need + 1);
+  lw_model_format (m, 6, text, need + 1);
   return text;
 }
 
 void
-lw_gui_label_show_model (GtkLabel *label, const char *prefix, const LwZpk *m)
+lw_gui_label_show_model (GtkLabel *label, const char *prefix, const LwModel *m)
 {
   g_return_if_fail (GTK_IS_LABEL (label));
   if (m == NULL)
@@ -24,7 +24,7 @@ lw_gui_label_show_model (GtkLabel *label, const char *prefix, const LwZpk *m)
       gtk_label_set_text (label, "");
       return;
     }
-  g_autofree char *text = format_zpk (m);
+  g_autofree char *text = format_model (m);
   g_autofree char *line = g_strdup_printf ("%s = %s", prefix, text);
   gtk_label_set_text (label, line);
 }

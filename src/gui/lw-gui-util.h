@@ -9,8 +9,8 @@
 
 G_BEGIN_DECLS
 
-/* Shows "PREFIX = factored text" (lw_zpk_format, 6 significant digits) in label, or empties it when m is NULL. */
-void lw_gui_label_show_model (GtkLabel *label, const char *prefix, const LwZpk *m);
+/* Shows "PREFIX = factored text" (lw_model_format, 6 significant digits) in label, or empties it when m is NULL. */
+void lw_gui_label_show_model (GtkLabel *label, const char *prefix, const LwModel *m);
 
 /* Sets a widget's tooltip text only when it differs: setting one asks the windowing system
  * where the pointer is, a round trip each time (it dominated a drag's frames). */

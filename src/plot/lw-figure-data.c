@@ -90,18 +90,18 @@ fill_crossovers (LwFigureVariant *fv, const LwEvaluation *ev)
   fv->v.w.n_phase_crossovers = nw;
 }
 
-LwZpk *
+LwModel *
 lw_figure_loop_w (const LwEvaluation *ev)
 {
-  LwZpk *cp = lw_zpk_mul (ev->controller_w, ev->plant_w);
+  LwModel *cp = lw_model_mul (ev->controller_w, ev->plant_w);
   if (cp == NULL || ev->compute_delay <= 0)
     return cp;
   /* z^−1 = (1 − wT/2)/(1 + wT/2) = −(w − 2/T)/(w + 2/T) */
   size_t N = (size_t) ev->compute_delay;
-  LwZpk *d = lw_zpk_new (LW_DOMAIN_W, ev->period_s, (N % 2) ? -1.0 : 1.0, N, N);
+  LwModel *d = lw_model_new (LW_DOMAIN_W, ev->period_s, (N % 2) ? -1.0 : 1.0, N, N);
   if (d == NULL)
     {
-      lw_zpk_free (cp);
+      lw_model_free (cp);
       return NULL;
     }
   for (size_t i = 0; i < N; i++)
@@ -109,14 +109,14 @@ lw_figure_loop_w (const LwEvaluation *ev)
       d->zeros[i] = 2.0 / ev->period_s;
       d->poles[i] = -2.0 / ev->period_s;
     }
-  LwZpk *l = lw_zpk_mul (cp, d);
-  lw_zpk_free (cp);
-  lw_zpk_free (d);
+  LwModel *l = lw_model_mul (cp, d);
+  lw_model_free (cp);
+  lw_model_free (d);
   return l;
 }
 
 double
-lw_figure_w_end_rad_s (const LwZpk *loop_w, double period_s)
+lw_figure_w_end_rad_s (const LwModel *loop_w, double period_s)
 {
   double top = 2.0 / period_s;
   for (size_t i = 0; loop_w && i < loop_w->n_zeros + loop_w->n_poles; i++)
@@ -139,7 +139,7 @@ cmp_double (const void *a, const void *b)
 }
 
 static double
-asymptote_db_at (const LwZpk *h, double nu)
+asymptote_db_at (const LwModel *h, double nu)
 {
   double db = 20.0 * log10 (fabs (h->gain));
   for (size_t i = 0; i < h->n_zeros; i++)
@@ -150,7 +150,7 @@ asymptote_db_at (const LwZpk *h, double nu)
 }
 
 size_t
-lw_figure_asymptote (const LwZpk *h, double nu_lo, double nu_hi, double *nu, double *db)
+lw_figure_asymptote (const LwModel *h, double nu_lo, double nu_hi, double *nu, double *db)
 {
   size_t n = 0;
   nu[n++] = nu_lo;
@@ -184,7 +184,7 @@ fill_w_curve (LwFigureVariant *fv, const LwSampledPlant *plant, const LwEvaluati
     nz--;   /* the Nyquist end point maps to ν = ∞ */
   if (nz < 2)
     return lw_error_set (err, LW_ERR_INVALID, -1, "the frequency grid is too short for a figure");
-  LwZpk *lw = lw_figure_loop_w (ev);
+  LwModel *lw = lw_figure_loop_w (ev);
   if (lw == NULL)
     return lw_error_set (err, LW_ERR_NOMEM, -1, "out of memory for the w-plane loop");
   double nu_first = lw_warp_omega_to_nu (ev->omega_rad_s[0], T);
@@ -211,7 +211,7 @@ fill_w_curve (LwFigureVariant *fv, const LwSampledPlant *plant, const LwEvaluati
     }
   LwStatus st = lw_sampled_plant_freq_response (plant, omega, n, fv->w_mag, fv->w_phase, err);
   if (st == LW_OK)
-    st = lw_zpk_freq_response (ev->controller_z, omega, n, cm, cph, err);
+    st = lw_model_freq_response (ev->controller_z, omega, n, cm, cph, err);
   if (st == LW_OK)
     {
       for (size_t i = 0; i < n; i++)
@@ -237,7 +237,7 @@ fill_w_curve (LwFigureVariant *fv, const LwSampledPlant *plant, const LwEvaluati
   g_free (omega);
   g_free (cm);
   g_free (cph);
-  lw_zpk_free (lw);
+  lw_model_free (lw);
   return st;
 }
 

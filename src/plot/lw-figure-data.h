@@ -47,11 +47,11 @@ void lw_figure_variant_clear (LwFigureVariant *fv);
 
 /* The loop in the w-plane, factored: C(w)·P(w)·((1 − wT/2)/(1 + wT/2))^N — the computation
  * delay z^−N mapped by the bilinear transform. New model or NULL. */
-LwZpk *lw_figure_loop_w (const LwEvaluation *ev);
+LwModel *lw_figure_loop_w (const LwEvaluation *ev);
 
 /* Where the w-plane axis ends (rad/s): one decade above the larger of 2/T and the largest
  * finite root magnitude of the loop in w, rounded up to a whole decade, at most 10⁴·2/T. */
-double lw_figure_w_end_rad_s (const LwZpk *loop_w, double period_s);
+double lw_figure_w_end_rad_s (const LwModel *loop_w, double period_s);
 
 /* Straight-line asymptote of |H(jν)| for a factored model H in w (or s): each root r breaks
  * the line at |r| (a root at 0 acts from the start), ±20 dB/decade per zero/pole:
@@ -59,7 +59,7 @@ double lw_figure_w_end_rad_s (const LwZpk *loop_w, double period_s);
  * Writes the vertices on [nu_lo, nu_hi] (0 < nu_lo < nu_hi, rad/s): the two ends and every
  * corner strictly between, ascending, into nu[] and db[] (each with room for
  * n_zeros + n_poles + 2). Returns the number written. */
-size_t lw_figure_asymptote (const LwZpk *h, double nu_lo, double nu_hi, double *nu, double *db);
+size_t lw_figure_asymptote (const LwModel *h, double nu_lo, double nu_hi, double *nu, double *db);
 
 /* Requirement marks for the Bode views from the targets (ω in rad/s, degrees, dB); the target
  * crossover is warped to ν for the w-plane view. */

@@ -51,7 +51,7 @@ main (int argc, char **argv)
   double min_seconds = argc > 1 ? atof (argv[1]) : 1.0;
   const double t = 0.01;
   LwError err;
-  LwZpk *cw = NULL;
+  LwModel *cw = NULL;
   if (lw_expr_parse ("50*(w+0.2)*(w+2)*(w+4)/(w*(w+20)*(w+40))", LW_DOMAIN_W, t, &cw, &err))
     {
       fprintf (stderr, "lw-bench-eval: controller: %s\n", err.message);
@@ -66,7 +66,7 @@ main (int argc, char **argv)
     {
       char text[4096];
       workload_plant (orders[i], text, sizeof text);
-      LwZpk *p = NULL;
+      LwModel *p = NULL;
       if (lw_expr_parse_proper (text, LW_DOMAIN_S, 0, &p, &err))
         {
           fprintf (stderr, "lw-bench-eval: plant: %s\n", err.message);
@@ -83,7 +83,7 @@ main (int argc, char **argv)
           double t0 = now_s ();
           for (int r = 0; r < reps; r++)
             {
-              LwZpk *cz = lw_zpk_w_to_z (cw);
+              LwModel *cz = lw_model_w_to_z (cw);
               LwSampledPlant *sp = NULL;
               LwEvaluation *ev = NULL;
               if (lw_sampled_plant_new (p, 0.0, t, &sp, &err) != LW_OK
@@ -94,7 +94,7 @@ main (int argc, char **argv)
                 }
               lw_evaluation_free (ev);
               lw_sampled_plant_free (sp);
-              lw_zpk_free (cz);
+              lw_model_free (cz);
             }
           times[nb++] = (now_s () - t0) / reps;
           evals += reps;
@@ -108,8 +108,8 @@ main (int argc, char **argv)
           }
       printf ("order %d: %.1f us per evaluation\n", orders[i], 1e6 * times[nb / 2]);
       fflush (stdout);
-      lw_zpk_free (p);
+      lw_model_free (p);
     }
-  lw_zpk_free (cw);
+  lw_model_free (cw);
   return 0;
 }

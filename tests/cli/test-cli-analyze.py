@@ -128,7 +128,7 @@ doc = json.loads(out)   # raises (test fails) when the text is not valid JSON
 
 TOP = {"sample_period_s", "plant_z", "plant_w", "loop", "closed_loop", "step", "disturbance",
        "indices"}
-ZPK = {"gain", "zeros", "poles"}
+MODEL_KEYS = {"gain", "zeros", "poles"}
 LOOP = {"gain_crossovers_rad_s", "phase_margins_deg", "phase_crossovers_rad_s",
         "gain_margins_db", "phase_margin_deg", "gain_crossover_rad_s", "gain_margin_db",
         "phase_crossover_rad_s", "delay_margin_s", "delay_margin_samples", "sensitivity_peak",
@@ -142,8 +142,8 @@ DIST_RESPONSE = {"samples", "actuator", "peak", "peak_time_s", "last_value", "sa
                  "held_samples", "intersample_ripple", "continuous_peak", "indices"}
 INDICES = {"iae", "ise", "itae", "control_effort"}
 check(set(doc) == TOP, f"top-level keys {sorted(doc)}")
-check(set(doc["plant_z"]) == ZPK, f"plant_z keys {sorted(doc['plant_z'])}")
-check(set(doc["plant_w"]) == ZPK, f"plant_w keys {sorted(doc['plant_w'])}")
+check(set(doc["plant_z"]) == MODEL_KEYS, f"plant_z keys {sorted(doc['plant_z'])}")
+check(set(doc["plant_w"]) == MODEL_KEYS, f"plant_w keys {sorted(doc['plant_w'])}")
 check(set(doc["loop"]) == LOOP, f"loop keys {sorted(doc['loop'])}")
 check(set(doc["closed_loop"]) == CLOSED, f"closed_loop keys {sorted(doc['closed_loop'])}")
 check(set(doc["step"]) == STEP, f"step keys {sorted(doc['step'])}")
@@ -175,7 +175,7 @@ def close_roots(a, b, tol):
     return len(a) == len(b) and all(abs(x - y) <= tol for x, y in zip(a, b))
 
 
-def zpk_eval(m, x):
+def model_eval(m, x):
     v = m["gain"]
     for re, im in m["zeros"]:
         v *= x - complex(re, im)
@@ -201,7 +201,7 @@ def G(z):
 for w in (0.3j, 1.0 + 2.0j, -0.5 + 0.1j, 5.0j):
     z = (1 + w * T / 2) / (1 - w * T / 2)
     ref = G(z)
-    got = zpk_eval(doc["plant_w"], w)
+    got = model_eval(doc["plant_w"], w)
     check(abs(got - ref) <= 1e-9 * abs(ref), f"plant_w at w={w}: {got} vs {ref}")
 
 # Closed loop with C = 1 and no computation delay: characteristic polynomial den + num.

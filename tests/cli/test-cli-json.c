@@ -108,17 +108,17 @@ test_strings_untouched (void **state)
 }
 
 static void
-test_zpk_layout (void **state)
+test_model_layout (void **state)
 {
   (void) state;
   /* H(z) = 1e20 (z + 0.5) / ((z − 1)(z² − z + 0.5)), poles 0.5 ± 0.5j: hand-built, no core
    * call, so this checks the layout alone */
   double complex zeros[] = { -0.5 };
   double complex poles[] = { 1.0, 0.5 + 0.5 * I, 0.5 - 0.5 * I };
-  LwZpk m = { .domain = LW_DOMAIN_Z, .period_s = 0.01, .gain = 1e20, .n_zeros = 1,
+  LwModel m = { .domain = LW_DOMAIN_Z, .period_s = 0.01, .gain = 1e20, .n_zeros = 1,
               .n_poles = 3, .zeros = zeros, .poles = poles };
   g_autoptr (JsonBuilder) b = json_builder_new ();
-  lw_cli_json_add_zpk (b, &m);
+  lw_cli_json_add_model (b, &m);
   JsonNode *root = json_builder_get_root (b);
   g_autofree char *text = lw_cli_json_to_text (root);
   json_node_unref (root);
@@ -196,7 +196,7 @@ main (void)
   const struct CMUnitTest tests[] = {
     cmocka_unit_test (test_numbers_round_trip),
     cmocka_unit_test (test_strings_untouched),
-    cmocka_unit_test (test_zpk_layout),
+    cmocka_unit_test (test_model_layout),
     cmocka_unit_test (test_loop_nulls),
   };
   return cmocka_run_group_tests (tests, NULL, NULL);

@@ -16,10 +16,10 @@ assert_close (double got, double want, double tol, const char *what)
 }
 
 /* Parses text in domain d (period t for z and w) or fails the test. */
-static inline LwZpk *
+static inline LwModel *
 parse (const char *text, LwDomain d, double t)
 {
-  LwZpk *m = NULL;
+  LwModel *m = NULL;
   LwError err;
   if (lw_expr_parse (text, d, t, &m, &err) != LW_OK)
     fail_msg ("parse of '%s' failed: %s", text, err.message);

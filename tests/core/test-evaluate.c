@@ -23,9 +23,9 @@ static LwEvaluation *
 run (const char *plant, double t, double tau, int n_delay, const char *ctrl, bool ctrl_in_z,
      size_t steps)
 {
-  LwZpk *p = parse (plant, LW_DOMAIN_S, 0);
-  LwZpk *c = parse (ctrl, ctrl_in_z ? LW_DOMAIN_Z : LW_DOMAIN_W, t);
-  LwZpk *cz = ctrl_in_z ? lw_zpk_copy (c) : lw_zpk_w_to_z (c);
+  LwModel *p = parse (plant, LW_DOMAIN_S, 0);
+  LwModel *c = parse (ctrl, ctrl_in_z ? LW_DOMAIN_Z : LW_DOMAIN_W, t);
+  LwModel *cz = ctrl_in_z ? lw_model_copy (c) : lw_model_w_to_z (c);
   LwSampledPlant *sp = NULL;
   LwError err;
   if (lw_sampled_plant_new (p, tau, t, &sp, &err) != LW_OK)
@@ -38,9 +38,9 @@ run (const char *plant, double t, double tau, int n_delay, const char *ctrl, boo
   if (lw_evaluate (sp, cz, &o, &ev, &err) != LW_OK)
     fail_msg ("evaluate: %s", err.message);
   lw_sampled_plant_free (sp);
-  lw_zpk_free (p);
-  lw_zpk_free (c);
-  lw_zpk_free (cz);
+  lw_model_free (p);
+  lw_model_free (c);
+  lw_model_free (cz);
   return ev;
 }
 
@@ -133,7 +133,7 @@ test_every_crossover (void **state)
   LwEvaluation *ev = run (plant, t, 0.0, 1, "1", false, 10);
   const LwMargins *m = &ev->margins;
   assert_int_equal (m->n_gain_crossovers, 3);
-  LwZpk *p = parse (plant, LW_DOMAIN_S, 0);
+  LwModel *p = parse (plant, LW_DOMAIN_S, 0);
   LwSampledPlant *sp = NULL;
   assert_int_equal (lw_sampled_plant_new (p, 0, t, &sp, NULL), LW_OK);
   double dm = INFINITY;
@@ -164,7 +164,7 @@ test_every_crossover (void **state)
   assert_true (ev->stable);
   assert_close (m->delay_margin_s, dm, 1e-15, "delay margin = min turn/w");
   lw_sampled_plant_free (sp);
-  lw_zpk_free (p);
+  lw_model_free (p);
   lw_evaluation_free (ev);
 }
 
@@ -185,27 +185,27 @@ test_high_order_clustered (void **state)
   LwEvaluation *ev2 = run ("3/(s*(s+3))", t, 0, 1, ctrl, false, 2000);
   assert_int_equal (ev->margins.n_gain_crossovers, 1);
   assert_int_equal (ev2->margins.n_gain_crossovers, 1);
-  LwZpk *p = parse (p10, LW_DOMAIN_S, 0);
-  LwZpk *cw = parse (ctrl, LW_DOMAIN_W, t), *cz = lw_zpk_w_to_z (cw);
+  LwModel *p = parse (p10, LW_DOMAIN_S, 0);
+  LwModel *cw = parse (ctrl, LW_DOMAIN_W, t), *cz = lw_model_w_to_z (cw);
   LwSampledPlant *sp = NULL;
   assert_int_equal (lw_sampled_plant_new (p, 0, t, &sp, NULL), LW_OK);
   double w = ev->margins.gain_crossovers_rad_s[0];
-  double complex l = lw_sampled_plant_response (sp, w) * lw_zpk_eval (cz, cexp (I * w * t))
+  double complex l = lw_sampled_plant_response (sp, w) * lw_model_eval (cz, cexp (I * w * t))
                      * cexp (-I * w * t);
   assert_close (cabs (l), 1.0, 1e-12, "|L| = 1");
   for (size_t i = 0; i < ev->margins.n_phase_crossovers; i++)
     {
       double wp = ev->margins.phase_crossovers_rad_s[i];
-      double complex lp = lw_sampled_plant_response (sp, wp) * lw_zpk_eval (cz, cexp (I * wp * t))
+      double complex lp = lw_sampled_plant_response (sp, wp) * lw_model_eval (cz, cexp (I * wp * t))
                           * cexp (-I * wp * t);
       double ph = carg (lp) * 180 / LW_PI;
       assert_close (fabs (ph), 180.0, 1e-9, "phase at a phase crossover");
     }
   assert_true (ev->stable == (ev->margins.phase_margin_deg > 0));
   lw_sampled_plant_free (sp);
-  lw_zpk_free (p);
-  lw_zpk_free (cw);
-  lw_zpk_free (cz);
+  lw_model_free (p);
+  lw_model_free (cw);
+  lw_model_free (cz);
   lw_evaluation_free (ev);
   lw_evaluation_free (ev2);
 }

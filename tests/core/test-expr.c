@@ -29,10 +29,10 @@ check_close (double got, double want, double tol, const char *what, int line)
 }
 #define CHECK_REL(got, want, tol) check_close ((got), (want), (tol), #got, __LINE__)
 
-static LwZpk *
+static LwModel *
 parse_ok (const char *text)
 {
-  LwZpk *m = NULL;
+  LwModel *m = NULL;
   LwError err;
   LwStatus st = lw_expr_parse (text, LW_DOMAIN_S, 0.0, &m, &err);
   if (st != LW_OK)
@@ -45,7 +45,7 @@ static void
 test_example_plant (void **state)
 {
   (void) state;
-  LwZpk *m = parse_ok ("8*(s+2)/(s*(s^2+1.2*s+16))");
+  LwModel *m = parse_ok ("8*(s+2)/(s*(s^2+1.2*s+16))");
   /* gain 8, zero −2, poles 0 and −0.6 ± j√(16 − 0.36) (completing the square).  Tolerance
    * 1e-14 relative: the pair comes from the closed-form quadratic, whose discriminant and
    * square root round a few times; 1e-14 is about 45 ulp, well above that and far below any
@@ -61,9 +61,9 @@ test_example_plant (void **state)
   CHECK_REL (cimag (m->poles[1]), im, 1e-14);
   assert_true (m->poles[2] == conj (m->poles[1]));
   char buf[128];
-  lw_zpk_format (m, 6, buf, sizeof buf);
+  lw_model_format (m, 6, buf, sizeof buf);
   assert_string_equal (buf, "8 (s + 2) / (s (s^2 + 1.2 s + 16))");
-  lw_zpk_free (m);
+  lw_model_free (m);
 }
 
 static void
@@ -72,19 +72,19 @@ test_triple_root_exact (void **state)
   (void) state;
   /* Powers only multiply exponents: the factor s + 1 is factored once, so all three poles
    * are exactly −1 (an expanded cubic would scatter them by ~1e-5). */
-  LwZpk *m = parse_ok ("2/(s+1)^3");
+  LwModel *m = parse_ok ("2/(s+1)^3");
   assert_true (m->gain == 2.0);
   assert_int_equal (m->n_zeros, 0);
   assert_int_equal (m->n_poles, 3);
   for (int i = 0; i < 3; i++)
     assert_true (m->poles[i] == -1.0);
-  lw_zpk_free (m);
+  lw_model_free (m);
   /* the same from a product */
   m = parse_ok ("(s+1)*(s+1)^2");
   assert_int_equal (m->n_zeros, 3);
   for (int i = 0; i < 3; i++)
     assert_true (m->zeros[i] == -1.0);
-  lw_zpk_free (m);
+  lw_model_free (m);
 }
 
 static void
@@ -93,27 +93,27 @@ test_sums (void **state)
   (void) state;
   /* 1/(s+1) + 1/(s+2) = (2s + 3)/((s+1)(s+2)) (partial fractions, by hand): gain 2, zero
    * −1.5, poles −2 and −1, all exact in binary. */
-  LwZpk *m = parse_ok ("1/(s+1)+1/(s+2)");
+  LwModel *m = parse_ok ("1/(s+1)+1/(s+2)");
   assert_true (m->gain == 2.0);
   assert_int_equal (m->n_zeros, 1);
   assert_true (m->zeros[0] == -1.5);
   assert_int_equal (m->n_poles, 2);
   assert_true (m->poles[0] == -2.0 && m->poles[1] == -1.0);
-  lw_zpk_free (m);
+  lw_model_free (m);
 
   /* (s+1)^2 − 1 = s (s + 2): roots 0 and −2 exactly (the root at 0 deflated exactly) */
   m = parse_ok ("(s+1)^2 - 1");
   assert_true (m->gain == 1.0);
   assert_int_equal (m->n_zeros, 2);
   assert_true (m->zeros[0] == -2.0 && m->zeros[1] == 0.0);
-  lw_zpk_free (m);
+  lw_model_free (m);
 
   /* shared factors stay factored: s/(s+1) − 1/(s+1) = (s − 1)/(s + 1) */
   m = parse_ok ("s/(s+1) - 1/(s+1)");
   assert_int_equal (m->n_zeros, 1);
   assert_int_equal (m->n_poles, 1);
   assert_true (m->zeros[0] == 1.0 && m->poles[0] == -1.0);
-  lw_zpk_free (m);
+  lw_model_free (m);
 
   /* PID-like sum: 2 + 3/s + 0.5*s = (0.5 s² + 2 s + 3)/s; roots of s² + 4s + 6: −2 ± j√2.
    * Closed-form quadratic: 8 ulp. */
@@ -124,69 +124,69 @@ test_sums (void **state)
   assert_true (m->poles[0] == 0.0);
   CHECK_REL (creal (m->zeros[0]), -2.0, 8 * EPS);
   CHECK_REL (cimag (m->zeros[0]), sqrt (2.0), 8 * EPS);
-  lw_zpk_free (m);
+  lw_model_free (m);
 
   /* s − s is identically zero: gain 0, no roots */
   m = parse_ok ("s - s");
   assert_true (m->gain == 0.0);
   assert_int_equal (m->n_zeros + m->n_poles, 0);
-  lw_zpk_free (m);
+  lw_model_free (m);
 }
 
 static void
 test_cancellation (void **state)
 {
   (void) state;
-  LwZpk *m = parse_ok ("(s+1)/(s+1)");
+  LwModel *m = parse_ok ("(s+1)/(s+1)");
   assert_true (m->gain == 1.0);
   assert_int_equal (m->n_zeros + m->n_poles, 0);
-  lw_zpk_free (m);
+  lw_model_free (m);
   /* (s² + 3s + 2)/(s + 1): the stable quadratic gives −2 and exactly −1, which cancels */
   m = parse_ok ("(s^2+3*s+2)/(s+1)");
   assert_int_equal (m->n_zeros, 1);
   assert_int_equal (m->n_poles, 0);
   assert_true (m->zeros[0] == -2.0);
-  lw_zpk_free (m);
+  lw_model_free (m);
   /* nothing is cancelled by closeness */
   m = parse_ok ("(s+1)/(s+1.0000001)");
   assert_int_equal (m->n_zeros, 1);
   assert_int_equal (m->n_poles, 1);
-  lw_zpk_free (m);
+  lw_model_free (m);
 }
 
 static void
 test_numbers_unary_spaces (void **state)
 {
   (void) state;
-  LwZpk *m = parse_ok ("  -.5 * ( s - 2.5E-1 ) / -(1e1 + s)\t");
+  LwModel *m = parse_ok ("  -.5 * ( s - 2.5E-1 ) / -(1e1 + s)\t");
   /* −0.5 (s − 0.25) / (−(s + 10)) = 0.5 (s − 0.25)/(s + 10); all exact in binary */
   assert_true (m->gain == 0.5);
   assert_true (m->zeros[0] == 0.25 && m->poles[0] == -10.0);
-  lw_zpk_free (m);
+  lw_model_free (m);
   m = parse_ok ("--+3");
   assert_true (m->gain == 3.0 && m->n_zeros == 0 && m->n_poles == 0);
-  lw_zpk_free (m);
+  lw_model_free (m);
   m = parse_ok ("2*s/4");
   assert_true (m->gain == 0.5 && m->n_zeros == 1 && m->zeros[0] == 0.0);
-  lw_zpk_free (m);
+  lw_model_free (m);
   m = parse_ok ("(s+3)^0");
   assert_true (m->gain == 1.0 && m->n_zeros == 0);
-  lw_zpk_free (m);
+  lw_model_free (m);
   /* the degree limit is inclusive */
   m = parse_ok ("1/s^60");
   assert_int_equal (m->n_poles, LW_MAX_DEGREE);
-  lw_zpk_free (m);
+  lw_model_free (m);
 }
 
 static void
 test_other_domains (void **state)
 {
   (void) state;
-  LwZpk *m = NULL;
+  LwModel *m = NULL;
   assert_int_equal (lw_expr_parse ("0.2*z/(z-0.8)", LW_DOMAIN_Z, 0.01, &m, NULL), LW_OK);
   assert_true (m->domain == LW_DOMAIN_Z && m->period_s == 0.01);
   assert_true (m->gain == 0.2 && m->zeros[0] == 0.0 && m->poles[0] == 0.8);
-  lw_zpk_free (m);
+  lw_model_free (m);
   LwError err;
   assert_int_equal (lw_expr_parse ("s+1", LW_DOMAIN_W, 0.01, &m, &err), LW_ERR_PARSE);
   assert_null (m);
@@ -253,7 +253,7 @@ test_malformed_table (void **state)
   };
   for (size_t i = 0; i < sizeof cases / sizeof cases[0]; i++) {
     const BadCase *c = &cases[i];
-    LwZpk *m = (LwZpk *) (uintptr_t) 1;   /* must be reset to NULL */
+    LwModel *m = (LwModel *) (uintptr_t) 1;   /* must be reset to NULL */
     LwError err;
     LwStatus st = lw_expr_parse (c->text, LW_DOMAIN_S, 0.0, &m, &err);
     if (st != c->code || err.position != c->position || strstr (err.message, c->message_part)
@@ -268,7 +268,7 @@ static void
 test_parse_proper (void **state)
 {
   (void) state;
-  LwZpk *m = NULL;
+  LwModel *m = NULL;
   LwError err;
   assert_int_equal (lw_expr_parse_proper ("s^2/(s+1)", LW_DOMAIN_S, 0.0, &m, &err),
                     LW_ERR_INVALID);
@@ -280,7 +280,7 @@ test_parse_proper (void **state)
   assert_non_null (strstr (err.message, "identically zero"));
   assert_int_equal (lw_expr_parse_proper ("(s+4)/(s+1)", LW_DOMAIN_S, 0.0, &m, &err), LW_OK);
   assert_non_null (m);
-  lw_zpk_free (m);
+  lw_model_free (m);
   /* parse errors pass through unchanged */
   assert_int_equal (lw_expr_parse_proper ("(s", LW_DOMAIN_S, 0.0, &m, &err), LW_ERR_PARSE);
   assert_int_equal (err.position, 2);

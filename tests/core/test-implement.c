@@ -17,7 +17,7 @@
 #include <stdlib.h>
 #include <string.h>
 
-#include "lw-c2d.h"
+#include "lw-ctrl-map.h"
 #include "lw-emit-c.h"
 #include "lw-expr.h"
 #include "lw-implement.h"
@@ -35,10 +35,10 @@ check_close (double got, double want, double tol, const char *what, int line)
 }
 #define CHECK_REL(got, want, tol) check_close ((got), (want), (tol), #got, __LINE__)
 
-static LwZpk *
+static LwModel *
 parse_z (const char *text, double T)
 {
-  LwZpk *m = NULL;
+  LwModel *m = NULL;
   LwError err;
   if (lw_expr_parse (text, LW_DOMAIN_Z, T, &m, &err) != LW_OK)
     fail_msg ("'%s': %s", text, err.message);
@@ -48,10 +48,10 @@ parse_z (const char *text, double T)
 /* A sixth-order controller of our own: a lightly damped pole pair (r = 0.995), a pair at
  * r = 0.8, an integrator, two real poles; zeros: a notch pair on the unit circle, two real
  * zeros, one zero fewer than poles in all (strictly proper by one). */
-static LwZpk *
+static LwModel *
 sixth_order (void)
 {
-  LwZpk *m = lw_zpk_new (LW_DOMAIN_Z, 0.001, 0.37, 5, 6);
+  LwModel *m = lw_model_new (LW_DOMAIN_Z, 0.001, 0.37, 5, 6);
   double complex p1 = 0.995 * cexp (I * 0.3), p2 = 0.8 * cexp (I * 1.1);
   m->poles[0] = p1;
   m->poles[1] = conj (p1);
@@ -65,7 +65,7 @@ sixth_order (void)
   m->zeros[2] = 0.97;
   m->zeros[3] = -0.5;
   m->zeros[4] = 0.2;
-  lw_zpk_canonicalize (m);
+  lw_model_canonicalize (m);
   return m;
 }
 
@@ -76,28 +76,28 @@ test_tustin_integrator_difference (void **state)
   /* 1/s at T = 0.1 by Tustin: 0.05 (z + 1)/(z − 1), i.e. u[k] = 0.05 e[k] + 0.05 e[k−1] + u[k−1]:
    * b = [0.05, 0.05], a = [1, −1] (standard result; scipy.signal.bilinear([1], [1, 0], fs=10)).
    * 0.05 = 2/(2·10) rounded once or twice: 2 ulp. */
-  LwZpk *ms = NULL;
+  LwModel *ms = NULL;
   assert_int_equal (lw_expr_parse ("1/s", LW_DOMAIN_S, 0.0, &ms, NULL), LW_OK);
-  LwZpk *mz = NULL;
-  assert_int_equal (lw_c2d (ms, LW_C2D_TUSTIN, 0.1, 0.0, &mz, NULL), LW_OK);
+  LwModel *mz = NULL;
+  assert_int_equal (lw_ctrl_map (ms, LW_CTRL_MAP_TUSTIN, 0.1, 0.0, &mz, NULL), LW_OK);
   LwDiffEq *d = NULL;
-  assert_int_equal (lw_diffeq_from_zpk (mz, &d, NULL), LW_OK);
+  assert_int_equal (lw_diffeq_from_model (mz, &d, NULL), LW_OK);
   assert_int_equal (d->order, 1);
   CHECK_REL (d->b[0], 0.05, 2 * EPS);
   CHECK_REL (d->b[1], 0.05, 2 * EPS);
   assert_true (d->a[0] == 1.0 && d->a[1] == -1.0);
   lw_diffeq_free (d);
-  lw_zpk_free (mz);
-  lw_zpk_free (ms);
+  lw_model_free (mz);
+  lw_model_free (ms);
 }
 
 static void
 test_difference_vs_expanded (void **state)
 {
   (void) state;
-  LwZpk *m = sixth_order ();
+  LwModel *m = sixth_order ();
   LwDiffEq *d = NULL;
-  assert_int_equal (lw_diffeq_from_zpk (m, &d, NULL), LW_OK);
+  assert_int_equal (lw_diffeq_from_model (m, &d, NULL), LW_OK);
   assert_int_equal (d->order, 6);
   /* Independent expansion here: ∏(1 − r z^−1) by repeated complex convolution (the core uses
    * real quadratic factors); agreement to 1e-14 absolute on coefficients of size <= 20
@@ -128,21 +128,21 @@ test_difference_vs_expanded (void **state)
           num += d->b[i] * zk;
           den += d->a[i] * zk;
         }
-      double complex want = lw_zpk_eval (m, cexp (I * th));
+      double complex want = lw_model_eval (m, cexp (I * th));
       if (!(cabs (num / den - want) <= 1e-11 * cabs (want)))
         fail_msg ("θ = %g: |H| error %.3g relative", th, cabs (num / den - want) / cabs (want));
     }
   lw_diffeq_free (d);
-  lw_zpk_free (m);
+  lw_model_free (m);
 }
 
 static void
 test_sections_multiply_back (void **state)
 {
   (void) state;
-  LwZpk *m = sixth_order ();
+  LwModel *m = sixth_order ();
   LwSos *s = NULL;
-  assert_int_equal (lw_sos_from_zpk (m, &s, NULL), LW_OK);
+  assert_int_equal (lw_sos_from_model (m, &s, NULL), LW_OK);
   assert_int_equal (s->n, 3);
   /* the product of the sections is C(z): 1e-12 relative on the unit circle (each section is a
    * ratio of two short polynomials; the scale factors multiply back exactly up to rounding),
@@ -152,7 +152,7 @@ test_sections_multiply_back (void **state)
     {
       double th = PI * j / 400.0;
       double complex z = cexp (I * th);
-      double complex want = lw_zpk_eval (m, z), got = lw_sos_eval (s, z);
+      double complex want = lw_model_eval (m, z), got = lw_sos_eval (s, z);
       worst = fmax (worst, cabs (got - want) / cabs (want));
     }
   if (!(worst <= 1e-12))
@@ -204,7 +204,7 @@ test_sections_multiply_back (void **state)
     }
   assert_true (isinf (s->s[s->n - 1].peak_gain));   /* the integrator section */
   lw_sos_free (s);
-  lw_zpk_free (m);
+  lw_model_free (m);
 }
 
 static void
@@ -214,11 +214,11 @@ test_filters_agree (void **state)
   /* Impulse responses of the sections (DF2T) and of the difference equation describe the same
    * C(z): 1e-9 of the peak over 300 samples (the difference equation of order 6 with poles at
    * r = 0.995 amplifies rounding by its condition, ~1e4·eps per step). */
-  LwZpk *m = sixth_order ();
+  LwModel *m = sixth_order ();
   LwSos *s = NULL;
   LwDiffEq *d = NULL;
-  assert_int_equal (lw_sos_from_zpk (m, &s, NULL), LW_OK);
-  assert_int_equal (lw_diffeq_from_zpk (m, &d, NULL), LW_OK);
+  assert_int_equal (lw_sos_from_model (m, &s, NULL), LW_OK);
+  assert_int_equal (lw_diffeq_from_model (m, &d, NULL), LW_OK);
   enum { N = 300 };
   double x[N] = { 1.0 }, y1[N], y2[N];
   lw_sos_filter (s, x, y1, N);
@@ -234,29 +234,29 @@ test_filters_agree (void **state)
     fail_msg ("sections vs difference equation: %.3g of the peak %.3g", err / peak, peak);
   lw_diffeq_free (d);
   lw_sos_free (s);
-  lw_zpk_free (m);
+  lw_model_free (m);
 }
 
 static void
 test_pure_gain_and_errors (void **state)
 {
   (void) state;
-  LwZpk *g = lw_zpk_new_constant (LW_DOMAIN_Z, 0.01, -2.5);
+  LwModel *g = lw_model_new_constant (LW_DOMAIN_Z, 0.01, -2.5);
   LwSos *s = NULL;
-  assert_int_equal (lw_sos_from_zpk (g, &s, NULL), LW_OK);
+  assert_int_equal (lw_sos_from_model (g, &s, NULL), LW_OK);
   assert_int_equal (s->n, 1);
   assert_int_equal (s->s[0].order, 0);
   assert_true (s->s[0].b[0] == -2.5 && s->s[0].b[1] == 0.0 && s->s[0].a[1] == 0.0);
   lw_sos_free (s);
-  lw_zpk_free (g);
+  lw_model_free (g);
   /* improper and wrong domain are refused with a message */
-  LwZpk *imp = parse_z ("(z-0.5)^2/(z-0.1)", 0.01);
+  LwModel *imp = parse_z ("(z-0.5)^2/(z-0.1)", 0.01);
   LwError err;
-  assert_int_equal (lw_sos_from_zpk (imp, &s, &err), LW_ERR_INVALID);
+  assert_int_equal (lw_sos_from_model (imp, &s, &err), LW_ERR_INVALID);
   assert_non_null (strstr (err.message, "improper"));
   LwDiffEq *d = NULL;
-  assert_int_equal (lw_diffeq_from_zpk (imp, &d, &err), LW_ERR_INVALID);
-  lw_zpk_free (imp);
+  assert_int_equal (lw_diffeq_from_model (imp, &d, &err), LW_ERR_INVALID);
+  lw_model_free (imp);
 }
 
 static void
@@ -289,14 +289,14 @@ test_quantize_pole_shift (void **state)
   /* A section with poles 0.9 e^{±j0.2} and zeros 0.7, −0.3 (numbers of our own). The
    * independent computation: a1 = −1.8 cos 0.2, a2 = 0.81, rounded by hand to multiples of
    * 2^−14 (round to nearest), roots by the quadratic formula. 1e-12: a handful of roundings. */
-  LwZpk *m = lw_zpk_new (LW_DOMAIN_Z, 0.01, 0.25, 2, 2);
+  LwModel *m = lw_model_new (LW_DOMAIN_Z, 0.01, 0.25, 2, 2);
   m->poles[0] = 0.9 * cexp (I * 0.2);
   m->poles[1] = conj (m->poles[0]);
   m->zeros[0] = 0.7;
   m->zeros[1] = -0.3;
-  lw_zpk_canonicalize (m);
+  lw_model_canonicalize (m);
   LwSos *s = NULL;
-  assert_int_equal (lw_sos_from_zpk (m, &s, NULL), LW_OK);
+  assert_int_equal (lw_sos_from_model (m, &s, NULL), LW_OK);
   assert_int_equal (s->n, 1);
   LwQFormat q = { 2, 14 };
   LwSosFixed *f = NULL;
@@ -324,12 +324,12 @@ test_quantize_pole_shift (void **state)
   assert_true (shift > 0.0 && shift < 1e-4);
 
   /* the quantized controller re-factored: its poles are the quantized roots (1e-12) */
-  LwZpk *cq = NULL;
-  assert_int_equal (lw_sos_fixed_zpk (f, 0.01, &cq, NULL), LW_OK);
+  LwModel *cq = NULL;
+  assert_int_equal (lw_sos_fixed_model (f, 0.01, &cq, NULL), LW_OK);
   assert_int_equal (cq->n_poles, 2);
-  check_close (cabs (cq->poles[0] - pq), 0.0, 1e-12, "zpk pole", __LINE__);
+  check_close (cabs (cq->poles[0] - pq), 0.0, 1e-12, "model pole", __LINE__);
   CHECK_REL (cq->gain, lround (0.25 * 16384) / 16384.0, EPS);
-  lw_zpk_free (cq);
+  lw_model_free (cq);
   lw_sos_fixed_free (f);
 
   /* Q1.15 cannot hold a1 ≈ −1.76: the error names the section and the coefficient */
@@ -339,7 +339,7 @@ test_quantize_pole_shift (void **state)
   assert_non_null (strstr (err.message, "section 1: a1 = "));
   assert_non_null (strstr (err.message, "Q1.15"));
   lw_sos_free (s);
-  lw_zpk_free (m);
+  lw_model_free (m);
 }
 
 /* One first-order section given directly in integers. */
@@ -398,9 +398,9 @@ static void
 test_emit_text (void **state)
 {
   (void) state;
-  LwZpk *m = sixth_order ();
+  LwModel *m = sixth_order ();
   LwSos *s = NULL;
-  assert_int_equal (lw_sos_from_zpk (m, &s, NULL), LW_OK);
+  assert_int_equal (lw_sos_from_model (m, &s, NULL), LW_OK);
   LwEmitInput in = { .prefix = "motor_", .form = LW_FORM_SECTIONS, .period_s = 0.001,
                      .compute_delay = 1, .controller_z = m, .sos = s };
   LwText h, c;
@@ -431,7 +431,7 @@ test_emit_text (void **state)
   assert_int_equal (lw_emit_prefix_check ("_ok9_", &err), LW_OK);
   /* fixed point with the difference form is refused */
   LwDiffEq *d = NULL;
-  assert_int_equal (lw_diffeq_from_zpk (m, &d, NULL), LW_OK);
+  assert_int_equal (lw_diffeq_from_model (m, &d, NULL), LW_OK);
   LwSosFixed dummy = { { 2, 14 }, 0, NULL };
   in.form = LW_FORM_DIFFERENCE;
   in.diffeq = d;
@@ -442,7 +442,7 @@ test_emit_text (void **state)
   lw_text_clear (&c);
   lw_diffeq_free (d);
   lw_sos_free (s);
-  lw_zpk_free (m);
+  lw_model_free (m);
 }
 
 int

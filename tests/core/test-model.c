@@ -181,7 +181,7 @@ static void
 test_canonicalize (void **state)
 {
   (void) state;
-  LwZpk *m = lw_zpk_new (LW_DOMAIN_S, 0.0, 2.0, 0, 6);
+  LwModel *m = lw_model_new (LW_DOMAIN_S, 0.0, 2.0, 0, 6);
   assert_non_null (m);
   m->poles[0] = CMPLX (-1.0, -3.0);
   m->poles[1] = 4.0;
@@ -189,7 +189,7 @@ test_canonicalize (void **state)
   m->poles[3] = CMPLX (-7.0, 1e-15);   /* nearly real: snapped to the axis */
   m->poles[4] = CMPLX (-0.0, 0.0);     /* negative zero becomes +0 */
   m->poles[5] = -2.0;
-  lw_zpk_canonicalize (m);
+  lw_model_canonicalize (m);
   /* real roots ascending, then the pair, positive imaginary part first */
   assert_true (m->poles[0] == -7.0 && cimag (m->poles[0]) == 0.0);
   assert_true (m->poles[1] == -2.0);
@@ -197,15 +197,15 @@ test_canonicalize (void **state)
   assert_true (m->poles[3] == 4.0);
   assert_true (m->poles[4] == CMPLX (-1.0, 3.0));
   assert_true (m->poles[5] == CMPLX (-1.0, -3.0));
-  lw_zpk_free (m);
+  lw_model_free (m);
 }
 
 static void
 test_cancel_mul_degree (void **state)
 {
   (void) state;
-  LwZpk *a = lw_zpk_new (LW_DOMAIN_S, 0.0, 3.0, 1, 1);
-  LwZpk *b = lw_zpk_new (LW_DOMAIN_S, 0.0, 0.5, 2, 1);
+  LwModel *a = lw_model_new (LW_DOMAIN_S, 0.0, 3.0, 1, 1);
+  LwModel *b = lw_model_new (LW_DOMAIN_S, 0.0, 0.5, 2, 1);
   assert_non_null (a);
   assert_non_null (b);
   a->zeros[0] = -1.0;
@@ -213,36 +213,36 @@ test_cancel_mul_degree (void **state)
   b->zeros[0] = CMPLX (-1.0, 1.0);
   b->zeros[1] = CMPLX (-1.0, -1.0);
   b->poles[0] = -1.0 + 1e-9;
-  LwZpk *p = lw_zpk_mul (a, b);
+  LwModel *p = lw_model_mul (a, b);
   assert_non_null (p);
   assert_true (p->gain == 1.5);
   assert_int_equal (p->n_zeros, 3);
   assert_int_equal (p->n_poles, 2);
-  assert_int_equal (lw_zpk_relative_degree (p), -1);
+  assert_int_equal (lw_model_relative_degree (p), -1);
   /* tolerance 0: −1 and −1 + 1e-9 differ, nothing cancels */
-  assert_int_equal (lw_zpk_cancel (p, 0.0), 0);
+  assert_int_equal (lw_model_cancel (p, 0.0), 0);
   /* 1e-8 relative: the real pair cancels; the complex pair has no partner among the poles */
-  assert_int_equal (lw_zpk_cancel (p, 1e-8), 1);
+  assert_int_equal (lw_model_cancel (p, 1e-8), 1);
   assert_int_equal (p->n_zeros, 2);
   assert_int_equal (p->n_poles, 1);
   assert_true (p->poles[0] == -2.0);
   /* different domains do not multiply */
-  LwZpk *cz = lw_zpk_new_constant (LW_DOMAIN_Z, 0.1, 1.0);
-  assert_null (lw_zpk_mul (a, cz));
-  assert_true (lw_zpk_is_finite (p));
+  LwModel *cz = lw_model_new_constant (LW_DOMAIN_Z, 0.1, 1.0);
+  assert_null (lw_model_mul (a, cz));
+  assert_true (lw_model_is_finite (p));
   p->gain = INFINITY;
-  assert_false (lw_zpk_is_finite (p));
-  lw_zpk_free (cz);
-  lw_zpk_free (p);
-  lw_zpk_free (a);
-  lw_zpk_free (b);
+  assert_false (lw_model_is_finite (p));
+  lw_model_free (cz);
+  lw_model_free (p);
+  lw_model_free (a);
+  lw_model_free (b);
 }
 
 /* 8 (s + 2) / (s (s² + 1.2 s + 16)) built from its roots. */
-static LwZpk *
+static LwModel *
 example_model (void)
 {
-  LwZpk *m = lw_zpk_new (LW_DOMAIN_S, 0.0, 8.0, 1, 3);
+  LwModel *m = lw_model_new (LW_DOMAIN_S, 0.0, 8.0, 1, 3);
   double re = -0.6, im = sqrt (16.0 - 0.36);
   m->zeros[0] = -2.0;
   m->poles[0] = 0.0;
@@ -255,7 +255,7 @@ static void
 test_eval_and_poly (void **state)
 {
   (void) state;
-  LwZpk *m = example_model ();
+  LwModel *m = example_model ();
   assert_non_null (m);
   /* Against the expanded form (8s + 16)/(s³ + 1.2 s² + 16 s) written out by hand, at
    * s = j and s = 3 − 2j: a few roundings either way, 1e-14 relative. */
@@ -263,11 +263,11 @@ test_eval_and_poly (void **state)
   for (int i = 0; i < 2; i++) {
     double complex s = pts[i];
     double complex want = (8.0 * s + 16.0) / (s * s * s + 1.2 * s * s + 16.0 * s);
-    double complex got = lw_zpk_eval (m, s);
+    double complex got = lw_model_eval (m, s);
     check_close (cabs (got - want), 0.0, 1e-14, cabs (want), "|eval - expanded|", __LINE__);
   }
   double num[2], den[4];
-  assert_int_equal (lw_zpk_to_poly (m, num, den, NULL), LW_OK);
+  assert_int_equal (lw_model_to_poly (m, num, den, NULL), LW_OK);
   /* num = 16 + 8 s exactly; den = 0 + 16 s + 1.2 s² + s³, |r|² = 0.36 + 15.64 rounds: 4 ulp */
   assert_true (num[0] == 16.0 && num[1] == 8.0);
   assert_true (den[0] == 0.0 && den[3] == 1.0);
@@ -276,16 +276,16 @@ test_eval_and_poly (void **state)
   /* a complex root without its partner is refused */
   m->poles[2] = CMPLX (-0.6, -1.0);
   LwError err;
-  assert_int_equal (lw_zpk_to_poly (m, num, den, &err), LW_ERR_INVALID);
+  assert_int_equal (lw_model_to_poly (m, num, den, &err), LW_ERR_INVALID);
   assert_non_null (strstr (err.message, "conjugate"));
-  lw_zpk_free (m);
+  lw_model_free (m);
 }
 
 static void
-check_format (const LwZpk *m, int digits, const char *want)
+check_format (const LwModel *m, int digits, const char *want)
 {
   char buf[256];
-  size_t n = lw_zpk_format (m, digits, buf, sizeof buf);
+  size_t n = lw_model_format (m, digits, buf, sizeof buf);
   assert_string_equal (buf, want);
   assert_int_equal (n, strlen (want));
 }
@@ -294,11 +294,11 @@ static void
 test_format (void **state)
 {
   (void) state;
-  LwZpk *m = example_model ();
+  LwModel *m = example_model ();
   check_format (m, 6, "8 (s + 2) / (s (s^2 + 1.2 s + 16))");
-  lw_zpk_free (m);
+  lw_model_free (m);
 
-  m = lw_zpk_new (LW_DOMAIN_S, 0.0, 1.0, 1, 1);
+  m = lw_model_new (LW_DOMAIN_S, 0.0, 1.0, 1, 1);
   m->zeros[0] = -2.0;
   m->poles[0] = 0.5;
   check_format (m, 6, "(s + 2) / (s - 0.5)");
@@ -306,29 +306,29 @@ test_format (void **state)
   check_format (m, 6, "-(s + 2) / (s - 0.5)");
   /* truncation behaves like snprintf: NUL-terminated, returns the length needed */
   char small[8];
-  size_t need = lw_zpk_format (m, 6, small, sizeof small);
+  size_t need = lw_model_format (m, 6, small, sizeof small);
   assert_int_equal (need, strlen ("-(s + 2) / (s - 0.5)"));
   assert_string_equal (small, "-(s + 2");
-  lw_zpk_free (m);
+  lw_model_free (m);
 
   /* repeated factors with ^k, the gain alone over a single factor */
-  m = lw_zpk_new (LW_DOMAIN_Z, 0.01, 2.5, 3, 2);
+  m = lw_model_new (LW_DOMAIN_Z, 0.01, 2.5, 3, 2);
   for (int i = 0; i < 3; i++)
     m->zeros[i] = -1.0;
   m->poles[0] = 0.0;
   m->poles[1] = 0.0;
   check_format (m, 6, "2.5 (z + 1)^3 / z^2");
-  lw_zpk_free (m);
+  lw_model_free (m);
 
-  m = lw_zpk_new (LW_DOMAIN_W, 0.01, 0.125, 0, 2);
+  m = lw_model_new (LW_DOMAIN_W, 0.01, 0.125, 0, 2);
   m->poles[0] = CMPLX (0.0, 2.0);   /* w² + 4: no linear term */
   m->poles[1] = CMPLX (0.0, -2.0);
   check_format (m, 6, "0.125 / (w^2 + 4)");
-  lw_zpk_free (m);
+  lw_model_free (m);
 
-  m = lw_zpk_new_constant (LW_DOMAIN_S, 0.0, 1.0 / 3.0);
+  m = lw_model_new_constant (LW_DOMAIN_S, 0.0, 1.0 / 3.0);
   check_format (m, 4, "0.3333");
-  lw_zpk_free (m);
+  lw_model_free (m);
 }
 
 static void
@@ -344,13 +344,13 @@ test_format_comma_locale (void **state)
     setlocale (LC_NUMERIC, "C");
     skip ();
   }
-  LwZpk *m = lw_zpk_new (LW_DOMAIN_S, 0.0, 1.5, 0, 1);
+  LwModel *m = lw_model_new (LW_DOMAIN_S, 0.0, 1.5, 0, 1);
   m->poles[0] = -0.25;
   char buf[64];
-  lw_zpk_format (m, 6, buf, sizeof buf);
+  lw_model_format (m, 6, buf, sizeof buf);
   setlocale (LC_NUMERIC, "C");
   assert_string_equal (buf, "1.5 / (s + 0.25)");
-  lw_zpk_free (m);
+  lw_model_free (m);
 }
 
 int

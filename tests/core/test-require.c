@@ -104,12 +104,12 @@ test_rise_and_warping (void **state)
 }
 
 static LwEvaluation *
-evaluate (const char *plant, const char *ctrl_w, double t, int n, LwZpk **plant_out)
+evaluate (const char *plant, const char *ctrl_w, double t, int n, LwModel **plant_out)
 {
-  LwZpk *p = NULL, *c = NULL;
+  LwModel *p = NULL, *c = NULL;
   assert_int_equal (lw_expr_parse (plant, LW_DOMAIN_S, 0, &p, NULL), LW_OK);
   assert_int_equal (lw_expr_parse (ctrl_w, LW_DOMAIN_W, t, &c, NULL), LW_OK);
-  LwZpk *cz = lw_zpk_w_to_z (c);
+  LwModel *cz = lw_model_w_to_z (c);
   LwSampledPlant *sp = NULL;
   assert_int_equal (lw_sampled_plant_new (p, 0, t, &sp, NULL), LW_OK);
   LwAnalysisOptions o;
@@ -119,8 +119,8 @@ evaluate (const char *plant, const char *ctrl_w, double t, int n, LwZpk **plant_
   LwEvaluation *ev = NULL;
   assert_int_equal (lw_evaluate (sp, cz, &o, &ev, NULL), LW_OK);
   lw_sampled_plant_free (sp);
-  lw_zpk_free (c);
-  lw_zpk_free (cz);
+  lw_model_free (c);
+  lw_model_free (cz);
   *plant_out = p;
   return ev;
 }
@@ -134,7 +134,7 @@ static void
 test_low_frequency (void **state)
 {
   (void) state;
-  LwZpk *p = NULL;
+  LwModel *p = NULL;
   /* an invented heater: DC gain 5, two lags; controller 2 → Kp = 10, e = 1/11 */
   LwEvaluation *ev = evaluate ("50/((s+1)*(s+10))", "2", 0.01, 1, &p);
   LwAchieved a;
@@ -152,7 +152,7 @@ test_low_frequency (void **state)
   assert_int_equal (res.status, LW_REQ_PASS);
   assert_close (res.slack, 0.1 - 1.0 / 11.0, 1e-12, "step error slack");
   lw_evaluation_free (ev);
-  lw_zpk_free (p);
+  lw_model_free (p);
 
   /* the camera slider axis of docs/cli.md: 40/(s(s+8)) with C = 3: Kv = 40·3/8 = 15 1/s */
   ev = evaluate ("40/(s*(s+8))", "3", 0.002, 1, &p);
@@ -168,7 +168,7 @@ test_low_frequency (void **state)
   assert_close (a.velocity_constant, kv_num, 1e-7 * 15, "Kv vs the sampled plant");
   lw_sampled_plant_free (sp);
   lw_evaluation_free (ev);
-  lw_zpk_free (p);
+  lw_model_free (p);
 }
 
 /* Pass/fail and signed slack on hand-made figures (exact arithmetic on the given numbers). */
@@ -242,7 +242,7 @@ static void
 test_actuator_peak (void **state)
 {
   (void) state;
-  LwZpk *p = NULL, *c = NULL;
+  LwModel *p = NULL, *c = NULL;
   assert_int_equal (lw_expr_parse ("1/(s+1)", LW_DOMAIN_S, 0, &p, NULL), LW_OK);
   assert_int_equal (lw_expr_parse ("4", LW_DOMAIN_Z, 0.05, &c, NULL), LW_OK);
   LwSampledPlant *sp = NULL;
@@ -267,8 +267,8 @@ test_actuator_peak (void **state)
   lw_sim_response_free (r);
   lw_sim_plan_free (plan);
   lw_sampled_plant_free (sp);
-  lw_zpk_free (c);
-  lw_zpk_free (p);
+  lw_model_free (c);
+  lw_model_free (p);
 }
 
 int

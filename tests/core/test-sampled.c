@@ -63,10 +63,10 @@ static void
 test_zoh_ogata (void **state)
 {
   (void) state;
-  LwZpk *p = parse ("1/(s*(s+1))", LW_DOMAIN_S, 0);
+  LwModel *p = parse ("1/(s*(s+1))", LW_DOMAIN_S, 0);
   LwSampledPlant *sp = NULL;
   assert_int_equal (lw_sampled_plant_new (p, 0.0, 1.0, &sp, NULL), LW_OK);
-  LwZpk *z = lw_sampled_plant_zpk (sp);
+  LwModel *z = lw_sampled_plant_model (sp);
   assert_non_null (z);
   assert_int_equal (z->n_zeros, 1);
   assert_int_equal (z->n_poles, 2);
@@ -83,9 +83,9 @@ test_zoh_ogata (void **state)
   double complex zz = cexp (0.7 * I);
   double complex want = (e1 * zz + (1 - 2 * e1)) / ((zz - 1.0) * (zz - e1));
   assert_close (cabs (h - want) / cabs (want), 0.0, 1e-14, "response");
-  lw_zpk_free (z);
+  lw_model_free (z);
   lw_sampled_plant_free (sp);
-  lw_zpk_free (p);
+  lw_model_free (p);
 }
 
 /* Fractional dead time θ (0 < θ < T) on 1/(s + a): by the modified z-transform
@@ -97,7 +97,7 @@ test_zoh_fractional_delay (void **state)
 {
   (void) state;
   const double a = 3.0, t = 0.1;
-  LwZpk *p = parse ("3/(s+3)", LW_DOMAIN_S, 0);
+  LwModel *p = parse ("3/(s+3)", LW_DOMAIN_S, 0);
   const double taus[] = { 0.037, 0.1 + 0.064, 0.3, 0.0999 };
   for (size_t k = 0; k < sizeof taus / sizeof taus[0]; k++)
     {
@@ -125,7 +125,7 @@ test_zoh_fractional_delay (void **state)
         }
       lw_sampled_plant_free (sp);
     }
-  lw_zpk_free (p);
+  lw_model_free (p);
 }
 
 /* Warping ν = (2/T) tan(ωT/2): at ω = π/(2T), ν = 2/T exactly (tan(π/4) = 1; standard
@@ -148,8 +148,8 @@ test_bilinear_map (void **state)
 {
   (void) state;
   const double t = 0.05;
-  LwZpk *mz = parse ("0.2*(z+1)*(z-0.5)/((z-1)*(z^2-1.2*z+0.52)*(z-0.1))", LW_DOMAIN_Z, t);
-  LwZpk *mw = lw_zpk_z_to_w (mz);
+  LwModel *mz = parse ("0.2*(z+1)*(z-0.5)/((z-1)*(z^2-1.2*z+0.52)*(z-0.1))", LW_DOMAIN_Z, t);
+  LwModel *mw = lw_model_z_to_w (mz);
   assert_non_null (mw);
   /* zero at −1 dropped, relative degree 2 → two zeros at 2/T */
   assert_int_equal (mw->n_zeros, 1 + 2);
@@ -163,10 +163,10 @@ test_bilinear_map (void **state)
     {
       double complex z = pts[k];
       double complex w = (2 / t) * (z - 1) / (z + 1);
-      double complex hz = lw_zpk_eval (mz, z), hw = lw_zpk_eval (mw, w);
+      double complex hz = lw_model_eval (mz, z), hw = lw_model_eval (mw, w);
       assert_close (cabs (hz - hw) / cabs (hz), 0, 1e-12, "H_w(w(z)) = H_z(z)");
     }
-  LwZpk *back = lw_zpk_w_to_z (mw);
+  LwModel *back = lw_model_w_to_z (mw);
   assert_non_null (back);
   assert_int_equal (back->n_zeros, mz->n_zeros);
   assert_int_equal (back->n_poles, mz->n_poles);
@@ -175,9 +175,9 @@ test_bilinear_map (void **state)
     assert_close (cabs (back->zeros[i] - mz->zeros[i]), 0, 1e-12, "zero back");
   for (size_t i = 0; i < mz->n_poles; i++)
     assert_close (cabs (back->poles[i] - mz->poles[i]), 0, 1e-12, "pole back");
-  lw_zpk_free (back);
-  lw_zpk_free (mw);
-  lw_zpk_free (mz);
+  lw_model_free (back);
+  lw_model_free (mw);
+  lw_model_free (mz);
 }
 
 /* Section realization: C(xI−A)⁻¹B + D equals the factored model (1e-13 relative) for a mix of
@@ -196,12 +196,12 @@ test_realize (void **state)
   };
   for (size_t k = 0; k < sizeof cases / sizeof cases[0]; k++)
     {
-      LwZpk *m = parse (cases[k], LW_DOMAIN_S, 0);
+      LwModel *m = parse (cases[k], LW_DOMAIN_S, 0);
       LwSs *ss = NULL;
-      assert_int_equal (lw_zpk_realize (m, &ss, NULL), LW_OK);
+      assert_int_equal (lw_model_realize (m, &ss, NULL), LW_OK);
       for (double w = 0.05; w < 1000; w *= 2.3)
         {
-          double complex s = I * w, want = lw_zpk_eval (m, s);
+          double complex s = I * w, want = lw_model_eval (m, s);
           /* dense complex solve via the Hessenberg evaluator after reduction */
           LwSs *h = lw_ss_copy (ss);
           assert_int_equal (lw_ss_balance_hessenberg (h, NULL), LW_OK);
@@ -223,7 +223,7 @@ test_realize (void **state)
                       cimag (got), creal (want), cimag (want));
         }
       lw_ss_free (ss);
-      lw_zpk_free (m);
+      lw_model_free (m);
     }
 }
 
@@ -231,8 +231,8 @@ static void
 test_bad_input (void **state)
 {
   (void) state;
-  LwZpk *p = parse ("1/(s+1)", LW_DOMAIN_S, 0);
-  LwZpk *imp = parse ("(s+1)^2/(s+3)", LW_DOMAIN_S, 0);
+  LwModel *p = parse ("1/(s+1)", LW_DOMAIN_S, 0);
+  LwModel *imp = parse ("(s+1)^2/(s+3)", LW_DOMAIN_S, 0);
   LwSampledPlant *sp = NULL;
   LwError err;
   assert_int_equal (lw_sampled_plant_new (p, 0, 0.0, &sp, &err), LW_ERR_INVALID);
@@ -243,8 +243,8 @@ test_bad_input (void **state)
   assert_int_equal (lw_sampled_plant_new (imp, 0, 0.1, &sp, &err), LW_ERR_INVALID);
   assert_non_null (strstr (err.message, "improper"));
   assert_null (sp);
-  lw_zpk_free (p);
-  lw_zpk_free (imp);
+  lw_model_free (p);
+  lw_model_free (imp);
 }
 
 int

@@ -20,8 +20,8 @@
 #include "lw-simulate.h"
 
 typedef struct {
-  LwZpk *plant_s;
-  LwZpk *ctrl_z;
+  LwModel *plant_s;
+  LwModel *ctrl_z;
   LwSampledPlant *sp;
   LwSimPlan *plan;
 } Fixture;
@@ -35,9 +35,9 @@ fixture_open (Fixture *f, const char *plant, double t, double tau, const char *c
   f->plant_s = parse (plant, LW_DOMAIN_S, 0);
   if (ctrl_w)
     {
-      LwZpk *cw = parse (ctrl, LW_DOMAIN_W, t);
-      f->ctrl_z = lw_zpk_w_to_z (cw);
-      lw_zpk_free (cw);
+      LwModel *cw = parse (ctrl, LW_DOMAIN_W, t);
+      f->ctrl_z = lw_model_w_to_z (cw);
+      lw_model_free (cw);
     }
   else
     f->ctrl_z = parse (ctrl, LW_DOMAIN_Z, t);
@@ -52,8 +52,8 @@ fixture_close (Fixture *f)
 {
   lw_sim_plan_free (f->plan);
   lw_sampled_plant_free (f->sp);
-  lw_zpk_free (f->plant_s);
-  lw_zpk_free (f->ctrl_z);
+  lw_model_free (f->plant_s);
+  lw_model_free (f->ctrl_z);
 }
 
 static LwSimResponse *
@@ -350,7 +350,7 @@ static void
 test_bad_options (void **state)
 {
   (void) state;
-  LwZpk *p = parse ("1/(s+1)", LW_DOMAIN_S, 0), *c = parse ("1", LW_DOMAIN_Z, 0.1);
+  LwModel *p = parse ("1/(s+1)", LW_DOMAIN_S, 0), *c = parse ("1", LW_DOMAIN_Z, 0.1);
   LwSampledPlant *sp = NULL;
   LwError err;
   assert_int_equal (lw_sampled_plant_new (p, 0.0, 0.1, &sp, &err), LW_OK);
@@ -373,7 +373,7 @@ test_bad_options (void **state)
   assert_int_equal (lw_sim_plan_new (sp, c, &o, &plan, &err), LW_ERR_INVALID);
   assert_null (plan);
   /* a controller with the wrong period */
-  LwZpk *c2 = parse ("1", LW_DOMAIN_Z, 0.2);
+  LwModel *c2 = parse ("1", LW_DOMAIN_Z, 0.2);
   lw_sim_options_init (&o);
   assert_int_equal (lw_sim_plan_new (sp, c2, &o, &plan, &err), LW_ERR_INVALID);
   /* a good plan refuses a non-finite amplitude */
@@ -382,10 +382,10 @@ test_bad_options (void **state)
   assert_int_equal (lw_sim_run (plan, LW_SIM_REFERENCE_STEP, NAN, &r, &err), LW_ERR_INVALID);
   assert_null (r);
   lw_sim_plan_free (plan);
-  lw_zpk_free (c2);
+  lw_model_free (c2);
   lw_sampled_plant_free (sp);
-  lw_zpk_free (p);
-  lw_zpk_free (c);
+  lw_model_free (p);
+  lw_model_free (c);
 }
 
 int

@@ -22,22 +22,22 @@
 #define DEG (180.0 / PI_)
 #define T_ 0.001
 
-static LwZpk *
-zpk_of (const LwStage *s)
+static LwModel *
+model_of (const LwStage *s)
 {
-  LwZpk *m = NULL;
+  LwModel *m = NULL;
   LwError err;
-  if (lw_stage_to_zpk (s, T_, &m, &err) != LW_OK)
-    fail_msg ("stage to zpk: %s", err.message);
+  if (lw_stage_to_model (s, T_, &m, &err) != LW_OK)
+    fail_msg ("stage to model: %s", err.message);
   return m;
 }
 
 static double complex
 stage_at (const LwStage *s, double nu)
 {
-  LwZpk *m = zpk_of (s);
-  double complex v = lw_zpk_eval (m, I * nu);
-  lw_zpk_free (m);
+  LwModel *m = model_of (s);
+  double complex v = lw_model_eval (m, I * nu);
+  lw_model_free (m);
   return v;
 }
 
@@ -173,8 +173,8 @@ test_check_messages (void **state)
   assert_int_equal (lw_stage_check (&s, &err), LW_ERR_INVALID);
   assert_non_null (strstr (err.message, "integral time"));
   s = lw_stage_gain (0.0);
-  LwZpk *m = NULL;
-  assert_int_equal (lw_stage_to_zpk (&s, T_, &m, &err), LW_ERR_INVALID);
+  LwModel *m = NULL;
+  assert_int_equal (lw_stage_to_model (&s, T_, &m, &err), LW_ERR_INVALID);
   assert_null (m);
 }
 
@@ -242,7 +242,7 @@ test_compensator (void **state)
   LwStage st[4] = { lw_stage_gain (4.0), lw_stage_pi (1.0, 3.0), lw_stage_lead (10.0, 40.0),
                     lw_stage_real_pole (300.0) };
   st[3].enabled = false;
-  LwZpk *cw = NULL, *cz = NULL;
+  LwModel *cw = NULL, *cz = NULL;
   assert_int_equal (lw_compensator_w (st, 4, T_, &cw, NULL), LW_OK);
   assert_int_equal (lw_compensator_z (st, 4, T_, &cz, NULL), LW_OK);
   assert_int_equal (cw->n_zeros, 2);
@@ -253,18 +253,18 @@ test_compensator (void **state)
       double om = omegas[i], nu = 2 / T_ * tan (om * T_ / 2);
       double complex w = I * nu;
       double complex want = 4.0 * (1 + 3.0 / w) * (1 + w / 10.0) / (1 + w / 40.0);
-      double complex gw = lw_zpk_eval (cw, w);
-      double complex gz = lw_zpk_eval (cz, cexp (I * om * T_));
+      double complex gw = lw_model_eval (cw, w);
+      double complex gz = lw_model_eval (cz, cexp (I * om * T_));
       assert_close (cabs (gw - want), 0, 1e-12 * cabs (want), "product in w");
       assert_close (cabs (gz - want), 0, 1e-10 * cabs (want), "mapped to z");
     }
-  lw_zpk_free (cw);
-  lw_zpk_free (cz);
+  lw_model_free (cw);
+  lw_model_free (cz);
   /* none enabled: the constant 1 */
   st[0].enabled = st[1].enabled = st[2].enabled = false;
   assert_int_equal (lw_compensator_w (st, 4, T_, &cw, NULL), LW_OK);
   assert_true (cw->gain == 1.0 && cw->n_zeros == 0 && cw->n_poles == 0);
-  lw_zpk_free (cw);
+  lw_model_free (cw);
   /* a bad stage is named even among others */
   LwError err;
   LwStage bad[2] = { lw_stage_gain (2.0), lw_stage_real_zero (-4.0) };

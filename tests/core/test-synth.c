@@ -23,9 +23,9 @@
 #define DEG (180.0 / PI_)
 
 static LwSampledPlant *
-plant_new (const char *text, double dead_s, double t, LwZpk **ps)
+plant_new (const char *text, double dead_s, double t, LwModel **ps)
 {
-  LwZpk *p = NULL;
+  LwModel *p = NULL;
   LwError err;
   if (lw_expr_parse_proper (text, LW_DOMAIN_S, 0, &p, &err) != LW_OK)
     fail_msg ("parse '%s': %s", text, err.message);
@@ -35,7 +35,7 @@ plant_new (const char *text, double dead_s, double t, LwZpk **ps)
   if (ps != NULL)
     *ps = p;
   else
-    lw_zpk_free (p);
+    lw_model_free (p);
   return sp;
 }
 
@@ -49,7 +49,7 @@ evaluate (const LwSynthLoop *lp, const LwStage *extra, size_t n_extra)
     all[n++] = lp->fixed[i];
   for (size_t i = 0; i < n_extra; i++)
     all[n++] = extra[i];
-  LwZpk *cz = NULL;
+  LwModel *cz = NULL;
   LwError err;
   if (lw_compensator_z (all, n, lw_sampled_plant_period (lp->plant), &cz, &err) != LW_OK)
     fail_msg ("compensator: %s", err.message);
@@ -60,7 +60,7 @@ evaluate (const LwSynthLoop *lp, const LwStage *extra, size_t n_extra)
   LwEvaluation *ev = NULL;
   if (lw_evaluate (lp->plant, cz, &o, &ev, &err) != LW_OK)
     fail_msg ("evaluate: %s", err.message);
-  lw_zpk_free (cz);
+  lw_model_free (cz);
   return ev;
 }
 
@@ -235,16 +235,16 @@ test_lag (void **state)
   assert_int_equal (lw_synth_lag (10.0, 20.0, 1.0, &d, NULL), LW_OK);
   assert_close (d.stages[1].p.leadlag.zero_rad_s, 2.0, 1e-12, "zero a decade below");
   assert_close (d.stages[1].p.leadlag.pole_rad_s, 0.2, 1e-12, "pole at zero/beta");
-  LwZpk *m = NULL;
+  LwModel *m = NULL;
   assert_int_equal (lw_compensator_w (d.stages, 2, 0.01, &m, NULL), LW_OK);
-  assert_close (creal (lw_zpk_eval (m, 0)), 10.0, 1e-12, "DC gain beta");
-  assert_close (cabs (lw_zpk_eval (m, 1e9 * I)), 1.0, 1e-9, "HF gain 1");
-  double complex v = lw_zpk_eval (m, 20.0 * I);
+  assert_close (creal (lw_model_eval (m, 0)), 10.0, 1e-12, "DC gain beta");
+  assert_close (cabs (lw_model_eval (m, 1e9 * I)), 1.0, 1e-9, "HF gain 1");
+  double complex v = lw_model_eval (m, 20.0 * I);
   assert_close (d.phase_at_crossover_deg, carg (v) * DEG, 1e-9, "phase cost");
   assert_close (d.gain_at_crossover_db, 20 * log10 (cabs (v)), 1e-9, "gain at crossover");
   /* atan(10) − atan(100) = −5.14° (computed by hand, 0.01°) */
   assert_close (d.phase_at_crossover_deg, -5.14, 0.01, "phase cost by hand");
-  lw_zpk_free (m);
+  lw_model_free (m);
   LwError err;
   assert_int_equal (lw_synth_lag (0.5, 20.0, 1.0, &d, &err), LW_ERR_INVALID);
 }
@@ -272,40 +272,40 @@ test_pi (void **state)
 
 /* Notch on the belt mode of an invented camera slider (300 rad/s, ζ = 0.01): the notch zeros
  * must sit on the w-plane image of the sampled plant's resonant poles, computed independently
- * from the z poles of the exact sampled plant (lw_sampled_plant_zpk → lw_zpk_z_to_w); 1e-9
+ * from the z poles of the exact sampled plant (lw_sampled_plant_model → lw_model_z_to_w); 1e-9
  * relative (eigenvalues of the state space). */
 static void
 test_notch (void **state)
 {
   (void) state;
   double t = 0.002;
-  LwZpk *ps = NULL;
+  LwModel *ps = NULL;
   LwSampledPlant *sp = plant_new ("40*90000/(s*(s+8)*(s^2+6*s+90000))", 0, t, &ps);
   LwNotchDesign d;
   assert_int_equal (lw_synth_notch (ps, t, 0.2, 0.5, &d, NULL), LW_OK);
   assert_true (d.found);
   assert_close (d.plant_pole_im, sqrt (90000 - 9), 1e-9 * 300, "pole notched");
-  LwZpk *pz = lw_sampled_plant_zpk (sp);
-  LwZpk *pw = lw_zpk_z_to_w (pz);
+  LwModel *pz = lw_sampled_plant_model (sp);
+  LwModel *pw = lw_model_z_to_w (pz);
   double complex target = 0;
   for (size_t i = 0; i < pw->n_poles; i++)
     if (cimag (pw->poles[i]) > 0)
       target = pw->poles[i];
-  LwZpk *nz = NULL;
-  assert_int_equal (lw_stage_to_zpk (&d.notch, t, &nz, NULL), LW_OK);
+  LwModel *nz = NULL;
+  assert_int_equal (lw_stage_to_model (&d.notch, t, &nz, NULL), LW_OK);
   assert_close (cabs (nz->zeros[0] - target), 0, 1e-9 * cabs (target), "notch zero on the pole");
   assert_close (d.notch.p.notch.width_rad_s, 2 * 0.5 * cabs (target), 1e-9 * cabs (target),
                 "width 2·0.5·nu0");
   /* a plant without a lightly damped pair: nothing found */
-  LwZpk *q = NULL;
+  LwModel *q = NULL;
   assert_int_equal (lw_expr_parse ("40/(s*(s+8))", LW_DOMAIN_S, 0, &q, NULL), LW_OK);
   assert_int_equal (lw_synth_notch (q, t, 0.2, 0.5, &d, NULL), LW_OK);
   assert_false (d.found);
-  lw_zpk_free (q);
-  lw_zpk_free (nz);
-  lw_zpk_free (pz);
-  lw_zpk_free (pw);
-  lw_zpk_free (ps);
+  lw_model_free (q);
+  lw_model_free (nz);
+  lw_model_free (pz);
+  lw_model_free (pw);
+  lw_model_free (ps);
   lw_sampled_plant_free (sp);
 }
 

@@ -21,7 +21,7 @@ int LLVMFuzzerTestOneInput (const uint8_t *data, size_t size);
 static void
 check (const char *text, LwDomain domain, double period_s, int proper)
 {
-  LwZpk *m = NULL;
+  LwModel *m = NULL;
   LwError err;
   lw_error_clear (&err);
   LwStatus st = proper ? lw_expr_parse_proper (text, domain, period_s, &m, &err)
@@ -29,12 +29,12 @@ check (const char *text, LwDomain domain, double period_s, int proper)
   if (st == LW_OK)
     {
       if (m == NULL || m->n_zeros > LW_MAX_DEGREE || m->n_poles > LW_MAX_DEGREE
-          || !lw_zpk_is_finite (m) || (proper && m->n_zeros > m->n_poles))
+          || !lw_model_is_finite (m) || (proper && m->n_zeros > m->n_poles))
         {
           fprintf (stderr, "bad model from '%s'\n", text);
           abort ();
         }
-      lw_zpk_free (m);
+      lw_model_free (m);
       return;
     }
   if (m != NULL || err.message[0] == '\0' || err.position < -1

@@ -136,13 +136,13 @@ def roots_of(js_list):
     return np.array([complex(r[0], r[1]) for r in (js_list or [])], dtype=complex)
 
 
-def zpk_of(js):
+def model_of(js):
     """(zeros, poles, gain) from a JSON {gain, zeros, poles} object."""
     return roots_of(js.get("zeros")), roots_of(js.get("poles")), float(js["gain"])
 
 
-def zpk_eval(zpk, x):
-    z, p, k = zpk
+def model_eval(model, x):
+    z, p, k = model
     x = np.asarray(x, dtype=complex)
     num = np.full(x.shape, k, dtype=complex)
     for r in z:

@@ -100,8 +100,8 @@ def w_to_z(ctrl):
     return sig.bilinear_zpk(z, p, k, fs=1.0 / T)
 
 
-def zpk_at(zpk, x):
-    z, p, k = zpk
+def model_at(model, x):
+    z, p, k = model
     return k * np.prod([x - r for r in z], axis=0) / np.prod([x - r for r in p], axis=0)
 
 
@@ -162,7 +162,7 @@ def main():
             # stop short of θ = π: the double zero at z = −1 makes |C| vanish there
             th = np.linspace(0.01, 3.0, 500)
             zz = np.exp(1j * th)
-            want = zpk_at(ref_z, zz)
+            want = model_at(ref_z, zz)
             _, hs = sig.sosfreqz(sos, worN=th)
             # 1e-10: the bilinear map done two ways (factor by factor vs scipy's), then a few
             # short products; well above rounding, far below any wrong root

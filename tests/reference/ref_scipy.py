@@ -34,7 +34,7 @@ import scipy.signal as sig
 
 sys.path.insert(0, os.path.dirname(os.path.abspath(__file__)))
 from lwref import (Checker, Factored, match_roots, none_or, run_analyze,  # noqa: E402
-                   wrap180, zpk_eval, zpk_of)
+                   wrap180, model_eval, model_of)
 
 EPS = np.finfo(float).eps
 
@@ -365,7 +365,7 @@ def check_case(chk, cli, case):
     # ---- plant_z -----------------------------------------------------------------------
     L = Loop(case)
     numP, denP = L.numP, L.denP
-    zpk_z = zpk_of(js["plant_z"])
+    model_z = model_of(js["plant_z"])
     d = int(math.floor(tau / T + 1e-9))
     frac = tau / T - d > 1e-12
     # poles: e^{pT} for each s-pole (ZOH maps the state matrix A to e^{AT}) and d (+1 for a
@@ -377,22 +377,22 @@ def check_case(chk, cli, case):
     multiple = any(np.sum(np.abs(pz_ref - r) < 1e-12) > 1 for r in np.exp(ps * T))
     chk.le(f"{name}: plant_z poles vs exp(p*T) (+{len(pz_ref) - len(ps)} at 0)"
            f"{' (has a double pole)' if multiple else ''}",
-           match_roots(zpk_z[1], pz_ref), 1e-7 if multiple else TOL_POLE)
+           match_roots(model_z[1], pz_ref), 1e-7 if multiple else TOL_POLE)
     # zeros: np.roots of the numerator interpolated from the cont2discrete state space
     # (zoh_plant_tf); order <= 4, separated roots -> ~1e-12; tol 1e-9
     chk.le(f"{name}: plant_z zeros vs roots of reference numerator",
-           match_roots(zpk_z[0], np.roots(numP)), TOL_ZERO)
+           match_roots(model_z[0], np.roots(numP)), TOL_ZERO)
     # gain = ratio of leading coefficients (den monic)
     chk.le(f"{name}: plant_z gain vs reference leading coefficient",
-           abs(zpk_z[2] - numP[0]) / abs(numP[0]), TOL_FR)
-    # frequency response from the CLI's zpk vs the reference state space on 400 points,
+           abs(model_z[2] - numP[0]) / abs(numP[0]), TOL_FR)
+    # frequency response from the CLI's model vs the reference state space on 400 points,
     # 0.01·π/T … π/T.  Not lower: a double pole at z = 1 (case D') shown as two roots split
     # by ~sqrt(eps) is a faithful display, but would move the response near z = 1 by
     # (split/|z-1|)^2; at 0.01·π/T that is < 1e-13.
     wgrid = np.logspace(math.log10(0.01 * math.pi / T), math.log10(math.pi / T), 400)
     zz = np.exp(1j * wgrid * T)
     Pref = L.plant(wgrid)
-    Pcli = zpk_eval(zpk_z, zz)
+    Pcli = model_eval(model_z, zz)
     chk.le(f"{name}: plant_z(e^jwT) vs reference ss, max rel over 400 points",
            float(np.max(np.abs(Pcli - Pref) / np.abs(Pref))), TOL_FR)
     # self-check: expanded reference tf vs the state space, same grid (conditioning of the
@@ -402,10 +402,10 @@ def check_case(chk, cli, case):
            float(np.max(np.abs(Ptf - Pref) / np.abs(Pref))), TOL_FR)
 
     # ---- plant_w: P_w(jν) = P_z(e^{jωT}) with ν = (2/T) tan(ωT/2) -------------------------
-    zpk_w = zpk_of(js["plant_w"])
+    model_w = model_of(js["plant_w"])
     wg = wgrid[:-1]                                    # ν → ∞ at π/T
     nu = (2.0 / T) * np.tan(wg * T / 2.0)
-    Pw = zpk_eval(zpk_w, 1j * nu)
+    Pw = model_eval(model_w, 1j * nu)
     Pz = Pref[:-1]
     chk.le(f"{name}: plant_w(j*nu) vs plant_z(e^jwT), nu=(2/T)tan(wT/2), max rel",
            float(np.max(np.abs(Pw - Pz) / np.abs(Pz))), TOL_FR)
@@ -586,10 +586,10 @@ def check_case(chk, cli, case):
                      ts is not None and lo_t - 1e-12 <= ts <= hi_t + 1e-12)
 
     # ---- open-loop responses of the discretized plant vs fine continuous simulation -----
-    check_simulation(chk, case, zpk_z, L)
+    check_simulation(chk, case, model_z, L)
 
 
-def check_simulation(chk, case, zpk_z, L):
+def check_simulation(chk, case, model_z, L):
     """Item 2: dlsim of the CLI's plant_z against lsim of the continuous plant with the held
     input delayed by τ.  Grid step h = T/100 so that every kT and kT+τ is a grid point
     (τ is a whole number of h for every case here)."""
@@ -612,7 +612,7 @@ def check_simulation(chk, case, zpk_z, L):
         uc = np.where((j >= 0) & (j < K), uk[np.clip(j, 0, K - 1)], 0.0)
         _, yc, _ = sig.lsim((num_s, den_s), uc, t, interp=False)
         yc_s = yc[::M][:K]
-        z, p, k = zpk_z
+        z, p, k = model_z
         _, yd = sig.dlsim((z, p, k, T), uk)
         yd = np.ravel(yd)
         Ad, Bd, Cd, d = L.ss

@@ -1,8 +1,8 @@
-/* lw-c2d.c — continuous controller to z, factor by factor (see lw-c2d.h).
+/* lw-ctrl-map.c — continuous controller to z, factor by factor (see lw-ctrl-map.h).
  *
  * SPDX-License-Identifier: GPL-3.0-or-later
  */
-#include "lw-c2d.h"
+#include "lw-ctrl-map.h"
 
 #include <math.h>
 #include <stdlib.h>
@@ -10,18 +10,18 @@
 #define LW_PI 3.14159265358979323846
 
 const char *
-lw_c2d_method_name (LwC2dMethod method)
+lw_ctrl_map_method_name (LwCtrlMapMethod method)
 {
   switch (method) {
-  case LW_C2D_TUSTIN:
+  case LW_CTRL_MAP_TUSTIN:
     return "tustin";
-  case LW_C2D_MATCHED:
+  case LW_CTRL_MAP_MATCHED:
     return "matched";
-  case LW_C2D_MATCHED_BIPROPER:
+  case LW_CTRL_MAP_MATCHED_BIPROPER:
     return "matched-biproper";
-  case LW_C2D_FORWARD_EULER:
+  case LW_CTRL_MAP_FORWARD_EULER:
     return "forward-euler";
-  case LW_C2D_BACKWARD_EULER:
+  case LW_CTRL_MAP_BACKWARD_EULER:
     return "backward-euler";
   default:
     return NULL;
@@ -51,7 +51,7 @@ cexp_exact_conj (double complex x)
 }
 
 typedef struct {
-  LwZpk *m;      /* output; n_zeros / n_poles grow as roots are appended */
+  LwModel *m;      /* output; n_zeros / n_poles grow as roots are appended */
   double gain;
 } Acc;
 
@@ -80,12 +80,12 @@ push_mapped (Acc *acc, bool zero, double complex w, bool pair)
  * which side it is on; *extra_other_side counts the roots at z = −1 (Tustin) or z = 0
  * (backward Euler) that the map adds on the other side. */
 static void
-map_root (Acc *acc, LwC2dMethod method, double T, double K, bool zero, double complex x,
+map_root (Acc *acc, LwCtrlMapMethod method, double T, double K, bool zero, double complex x,
           bool pair, size_t *extra_other_side)
 {
   size_t mult = pair ? 2 : 1;
   switch (method) {
-  case LW_C2D_TUSTIN: {
+  case LW_CTRL_MAP_TUSTIN: {
     /* s − x = ((K − x) z − (K + x)) / (z + 1) */
     double complex km = K - x;
     if (!pair && creal (km) == 0.0) {
@@ -99,8 +99,8 @@ map_root (Acc *acc, LwC2dMethod method, double T, double K, bool zero, double co
     *extra_other_side += mult;    /* a root at z = −1 on the other side, per s-root */
     break;
   }
-  case LW_C2D_MATCHED:
-  case LW_C2D_MATCHED_BIPROPER: {
+  case LW_CTRL_MAP_MATCHED:
+  case LW_CTRL_MAP_MATCHED_BIPROPER: {
     if (x == 0.0) {
       push (acc, zero, 1.0);
       acc->gain = zero ? acc->gain / T : acc->gain * T;
@@ -113,14 +113,14 @@ map_root (Acc *acc, LwC2dMethod method, double T, double K, bool zero, double co
     push_mapped (acc, zero, cexp_exact_conj (x * T), pair);
     break;
   }
-  case LW_C2D_FORWARD_EULER: {
+  case LW_CTRL_MAP_FORWARD_EULER: {
     /* s − x = (z − (1 + xT)) / T */
     double g = pair ? T * T : T;
     acc->gain = zero ? acc->gain / g : acc->gain * g;
     push_mapped (acc, zero, 1.0 + x * T, pair);
     break;
   }
-  case LW_C2D_BACKWARD_EULER: {
+  case LW_CTRL_MAP_BACKWARD_EULER: {
     /* s − x = ((1 − xT) z − 1) / (T z) */
     double complex a = 1.0 - x * T;
     if (!pair && creal (a) == 0.0) {
@@ -139,7 +139,7 @@ map_root (Acc *acc, LwC2dMethod method, double T, double K, bool zero, double co
 
 /* Walks the roots of one side; false when a complex root has no conjugate partner. */
 static bool
-map_side (Acc *acc, LwC2dMethod method, double T, double K, bool zero,
+map_side (Acc *acc, LwCtrlMapMethod method, double T, double K, bool zero,
           const double complex *roots, size_t n, size_t *extra_other_side)
 {
   for (size_t i = 0; i < n;) {
@@ -159,14 +159,14 @@ map_side (Acc *acc, LwC2dMethod method, double T, double K, bool zero,
 }
 
 LwStatus
-lw_c2d (const LwZpk *ms, LwC2dMethod method, double period_s, double prewarp_rad_s,
-        LwZpk **out, LwError *err)
+lw_ctrl_map (const LwModel *ms, LwCtrlMapMethod method, double period_s, double prewarp_rad_s,
+        LwModel **out, LwError *err)
 {
   lw_error_clear (err);
   if (out == NULL || ms == NULL)
-    return lw_error_set (err, LW_ERR_INVALID, -1, "lw_c2d: NULL argument");
+    return lw_error_set (err, LW_ERR_INVALID, -1, "lw_ctrl_map: NULL argument");
   *out = NULL;
-  const char *name = lw_c2d_method_name (method);
+  const char *name = lw_ctrl_map_method_name (method);
   if (name == NULL)
     return lw_error_set (err, LW_ERR_INVALID, -1, "unknown discretization method %d",
                          (int) method);
@@ -174,7 +174,7 @@ lw_c2d (const LwZpk *ms, LwC2dMethod method, double period_s, double prewarp_rad
     return lw_error_set (err, LW_ERR_INVALID, -1,
                          "the model to discretize must be in s, not in '%c'",
                          lw_domain_var (ms->domain));
-  if (!lw_zpk_is_finite (ms))
+  if (!lw_model_is_finite (ms))
     return lw_error_set (err, LW_ERR_INVALID, -1, "the model has a non-finite gain or root");
   if (!(isfinite (period_s) && period_s > 0.0))
     return lw_error_set (err, LW_ERR_INVALID, -1,
@@ -182,7 +182,7 @@ lw_c2d (const LwZpk *ms, LwC2dMethod method, double period_s, double prewarp_rad
   double T = period_s;
   double K = 2.0 / T;
   if (prewarp_rad_s != 0.0) {
-    if (method != LW_C2D_TUSTIN)
+    if (method != LW_CTRL_MAP_TUSTIN)
       return lw_error_set (err, LW_ERR_INVALID, -1,
                            "a prewarp frequency applies to Tustin only, not to %s", name);
     double half = 0.5 * prewarp_rad_s * T;
@@ -193,36 +193,36 @@ lw_c2d (const LwZpk *ms, LwC2dMethod method, double period_s, double prewarp_rad
     K = prewarp_rad_s / tan (half);
   }
   bool improper = ms->n_zeros > ms->n_poles;
-  if (improper && (method == LW_C2D_MATCHED || method == LW_C2D_MATCHED_BIPROPER ||
-                   method == LW_C2D_FORWARD_EULER))
+  if (improper && (method == LW_CTRL_MAP_MATCHED || method == LW_CTRL_MAP_MATCHED_BIPROPER ||
+                   method == LW_CTRL_MAP_FORWARD_EULER))
     return lw_error_set (err, LW_ERR_INVALID, -1,
                          "the %s map of an improper model (%zu zeros, %zu poles) is not causal; "
                          "use Tustin or backward Euler", name, ms->n_zeros, ms->n_poles);
 
-  LwZpk *in = lw_zpk_copy (ms);
+  LwModel *in = lw_model_copy (ms);
   size_t total = ms->n_zeros + ms->n_poles;
-  LwZpk *m = lw_zpk_new (LW_DOMAIN_Z, T, 0.0, total, total);
+  LwModel *m = lw_model_new (LW_DOMAIN_Z, T, 0.0, total, total);
   if (in == NULL || m == NULL) {
-    lw_zpk_free (in);
-    lw_zpk_free (m);
-    return lw_error_set (err, LW_ERR_NOMEM, -1, "out of memory in lw_c2d");
+    lw_model_free (in);
+    lw_model_free (m);
+    return lw_error_set (err, LW_ERR_NOMEM, -1, "out of memory in lw_ctrl_map");
   }
-  lw_zpk_canonicalize (in);
+  lw_model_canonicalize (in);
   m->n_zeros = 0;
   m->n_poles = 0;
   Acc acc = { m, ms->gain };
   size_t extra_poles = 0, extra_zeros = 0;   /* at −1 (Tustin) or 0 (backward Euler) */
   bool ok = map_side (&acc, method, T, K, true, in->zeros, in->n_zeros, &extra_poles) &&
             map_side (&acc, method, T, K, false, in->poles, in->n_poles, &extra_zeros);
-  lw_zpk_free (in);
+  lw_model_free (in);
   if (!ok) {
-    lw_zpk_free (m);
+    lw_model_free (m);
     return lw_error_set (err, LW_ERR_INVALID, -1,
                          "the model has a complex root without its conjugate");
   }
 
-  if (method == LW_C2D_TUSTIN || method == LW_C2D_BACKWARD_EULER) {
-    double complex at = method == LW_C2D_TUSTIN ? -1.0 : 0.0;
+  if (method == LW_CTRL_MAP_TUSTIN || method == LW_CTRL_MAP_BACKWARD_EULER) {
+    double complex at = method == LW_CTRL_MAP_TUSTIN ? -1.0 : 0.0;
     /* Net count: the extra roots of the two sides cancel pairwise. */
     while (extra_zeros > extra_poles) {
       push (&acc, true, at);
@@ -232,22 +232,22 @@ lw_c2d (const LwZpk *ms, LwC2dMethod method, double period_s, double prewarp_rad
       push (&acc, false, at);
       extra_poles--;
     }
-  } else if (method == LW_C2D_MATCHED || method == LW_C2D_MATCHED_BIPROPER) {
+  } else if (method == LW_CTRL_MAP_MATCHED || method == LW_CTRL_MAP_MATCHED_BIPROPER) {
     size_t d = ms->n_poles - ms->n_zeros;
-    size_t at_minus1 = method == LW_C2D_MATCHED_BIPROPER ? d : (d > 0 ? d - 1 : 0);
+    size_t at_minus1 = method == LW_CTRL_MAP_MATCHED_BIPROPER ? d : (d > 0 ? d - 1 : 0);
     for (size_t i = 0; i < at_minus1; i++) {
       push (&acc, true, -1.0);
       acc.gain *= 0.5;    /* (z + 1) is 2 at z = 1 */
     }
   }
   m->gain = acc.gain;
-  if (!lw_zpk_is_finite (m)) {
-    lw_zpk_free (m);
+  if (!lw_model_is_finite (m)) {
+    lw_model_free (m);
     return lw_error_set (err, LW_ERR_NUMERIC, -1,
                          "the %s map produced a non-finite gain or root (a root maps onto "
                          "z = 1 or the period is extreme)", name);
   }
-  lw_zpk_canonicalize (m);
+  lw_model_canonicalize (m);
   *out = m;
   return LW_OK;
 }
