@@ -22,49 +22,20 @@ import tempfile
 import time
 import xml.etree.ElementTree as ET
 
-SCREEN = '1600x1000x24'
+sys.path.insert(0, os.path.dirname(os.path.abspath(__file__)))
+import lwgui  # noqa: E402
+from lwgui import fail, find_window, key, run  # noqa: E402
+
 NS = '{urn:loopwright:design}'
 TARGET_RATIO = 2.5    # about how far the drag moves the zero (it must stay below the pole)
 
 
-def fail(msg):
-    print('FAIL: ' + msg, file=sys.stderr)
-    sys.exit(1)
-
-
-def run(*cmd, check=True):
-    return subprocess.run(cmd, check=check, capture_output=True, text=True).stdout.strip()
-
-
 def outer(argv):
-    for tool in ('xvfb-run', 'xdotool', 'import'):
-        if shutil.which(tool) is None:
-            print(tool + ' not found: skipped')
-            sys.exit(77)
-    env = dict(os.environ, LW_TEST_EDIT_INNER='1')
-    r = subprocess.run(['xvfb-run', '-a', '-s', '-screen 0 ' + SCREEN, sys.executable,
-                        os.path.abspath(__file__)] + argv, env=env)
-    sys.exit(r.returncode)
+    lwgui.outer(__file__, 'LW_TEST_EDIT_INNER', argv, tools=('xvfb-run', 'xdotool', 'import'))
 
 
 def wait_for(pred, what, timeout=15.0):
-    deadline = time.monotonic() + timeout
-    while time.monotonic() < deadline:
-        v = pred()
-        if v:
-            return v
-        time.sleep(0.1)
-    fail('timed out waiting for ' + what)
-
-
-def find_window(name):
-    out = run('xdotool', 'search', '--onlyvisible', '--name', name, check=False)
-    return out.split()[0] if out else None
-
-
-def key(wid, keys):
-    run('xdotool', 'windowfocus', '--sync', wid, check=False)
-    run('xdotool', 'key', '--clearmodifiers', keys)
+    return lwgui.wait_for(pred, what, timeout)
 
 
 def lead_corners(path):

@@ -22,7 +22,10 @@ import time
 
 import numpy as np
 
-SCREEN = '1600x1000x24'
+sys.path.insert(0, os.path.dirname(os.path.abspath(__file__)))
+import lwgui  # noqa: E402
+from lwgui import fail, find_window, key, run  # noqa: E402
+
 # The first four variant colours of the light theme (PALETTE_LIGHT in src/plot/lw-plot.c).
 PALETTE = [(0x00, 0x72, 0xb2), (0xd5, 0x5e, 0x00), (0x00, 0x9e, 0x73), (0xcc, 0x79, 0xa7)]
 # A curve 1.75 px wide has a full-colour core along its whole length, hundreds of pixels in
@@ -33,44 +36,12 @@ COLOUR_TOL = 6
 MIN_PIXELS = 150
 
 
-def fail(msg):
-    print('FAIL: ' + msg, file=sys.stderr)
-    sys.exit(1)
-
-
-def run(*cmd, check=True):
-    return subprocess.run(cmd, check=check, capture_output=True, text=True).stdout.strip()
-
-
 def outer(argv):
-    for tool in ('xvfb-run', 'xdotool', 'import', 'convert'):
-        if shutil.which(tool) is None:
-            print(tool + ' not found: skipped')
-            sys.exit(77)
-    env = dict(os.environ, LW_TEST_VARIANTS_INNER='1')
-    r = subprocess.run(['xvfb-run', '-a', '-s', '-screen 0 ' + SCREEN, sys.executable,
-                        os.path.abspath(__file__)] + argv, env=env)
-    sys.exit(r.returncode)
+    lwgui.outer(__file__, 'LW_TEST_VARIANTS_INNER', argv, tools=('xvfb-run', 'xdotool', 'import', 'convert'))
 
 
 def wait_for(pred, what, timeout=15.0):
-    deadline = time.monotonic() + timeout
-    while time.monotonic() < deadline:
-        v = pred()
-        if v:
-            return v
-        time.sleep(0.1)
-    fail('timed out waiting for ' + what)
-
-
-def find_window(name):
-    out = run('xdotool', 'search', '--onlyvisible', '--name', name, check=False)
-    return out.split()[0] if out else None
-
-
-def key(wid, keys):
-    run('xdotool', 'windowfocus', '--sync', wid, check=False)
-    run('xdotool', 'key', '--clearmodifiers', keys)
+    return lwgui.wait_for(pred, what, timeout)
 
 
 class Log:
