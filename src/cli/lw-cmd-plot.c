@@ -206,6 +206,7 @@ typedef struct
   const char *name;
   const LwSampledPlant *plant;
   const LwEvaluation *ev;
+  unsigned style;   /* LwPlotVariant.style: the variant's place in the document + 1 */
 } PlotVariantSource;
 
 /* Draws the variants with the spec and writes the file. */
@@ -233,6 +234,7 @@ plot_write (const PlotSpec *s, const PlotVariantSource *src, size_t n)
           goto out;
         }
       pv[filled] = fv[filled].v;
+      pv[filled].style = n > 1 ? src[filled].style : 0;   /* one variant: the first colour */
     }
   LwPlotInput in = { 0 };
   in.view = s->view;
@@ -356,7 +358,8 @@ plot_run_document (const PlotArgs *a)
           goto out;
         }
       src[built] = (PlotVariantSource) { d->variants[which[built]].name, lp[built].sampled,
-                                         ev[built] };
+                                         ev[built],
+                                         (unsigned) (which[built] % LW_PLOT_MAX_VARIANTS) + 1 };
     }
   status = plot_write (&spec, src, n);
 out:
@@ -401,7 +404,7 @@ plot_run (void *data)
       status = lw_cli_report_core_error ("plot", &err);
       goto out;
     }
-  PlotVariantSource src = { a->name ? a->name : "loop", lp.sampled, ev };
+  PlotVariantSource src = { a->name ? a->name : "loop", lp.sampled, ev, 0 };
   status = plot_write (&spec, &src, 1);
 out:
   lw_evaluation_free (ev);

@@ -508,6 +508,11 @@ add_figures (LwReport *r, const LwDesign *d, RVar *rv, size_t n)
           goto out;
         }
       pv[filled] = fv[filled].v;
+      /* a variant keeps the colour of its place in the document, as in the window; one
+       * variant alone has the first colour */
+      pv[filled].style = n > 1 ? (unsigned) ((size_t) (rv[filled].v - d->variants)
+                                             % LW_PLOT_MAX_VARIANTS) + 1
+                               : 0;
       /* the continuous output between samples and the actuator signal, from the simulation */
       const LwSimResponse *s = rv[filled].ref;
       if (s->has_continuous)

@@ -38,6 +38,11 @@ struct _LwPlotArea
   GtkWidget parent_instance;
 
   GtkGrid *grid;
+  GtkDrawingArea *key;                /* one key to the variants over every view */
+  char *key_names[LW_PLOT_MAX_VARIANTS];
+  unsigned key_styles[LW_PLOT_MAX_VARIANTS];
+  guint key_n, key_active;
+  LwPlotTheme theme;
   LwPlotPane *panes[N_VIEWS];
   LwPlotPane *split_panes[N_SPLIT];   /* the right column of the split view */
   LwPlotLayout layout;
@@ -55,7 +60,7 @@ view_title (LwPlotView v)
 {
   switch (v)
     {
-    case LW_PLOT_VIEW_BODE_Z: return _("Bode, z (up to the Nyquist frequency)");
+    case LW_PLOT_VIEW_BODE_Z: return _("Bode, z (up to π/T)");
     case LW_PLOT_VIEW_BODE_W: return _("Bode, w-plane");
     case LW_PLOT_VIEW_NYQUIST: return _("Nyquist");
     case LW_PLOT_VIEW_NICHOLS: return _("Nichols");
@@ -287,22 +292,87 @@ drop_unused_figures (LwPlotArea *self)
     }
 }
 
-/* The figure of one view of the given variants; axes_of: keep that figure's axes. */
+/* The figure of one view of the given variants, without a legend of its own (the area's key
+ * names them once for every view); axes_of: keep that figure's axes; title: NULL for the
+ * view's own. */
 static LwPlot *
 build_view (LwPlotView view, const LwPlotVariant *vars, guint n, double nyquist_rad_s,
-            const LwPlotRequirements *req, const LwPlot *axes_of, char *msg, size_t msg_size)
+            const LwPlotRequirements *req, const LwPlot *axes_of, const char *title, char *msg,
+            size_t msg_size)
 {
+  LwPlotVariant unnamed[LW_PLOT_MAX_VARIANTS];
+  n = MIN (n, LW_PLOT_MAX_VARIANTS);
+  for (guint i = 0; i < n; i++)
+    {
+      unnamed[i] = vars[i];
+      unnamed[i].name = NULL;
+    }
   LwPlotInput in = {
     .view = view,
     .nyquist_rad_s = nyquist_rad_s,
-    .title = view_title (view),
+    .title = title != NULL ? title : view_title (view),
     .n_variants = n,
-    .variants = vars,
+    .variants = unnamed,
     .axes_of = axes_of,
   };
   if (req != NULL)
     in.req = *req;
   return lw_plot_new (&in, msg, msg_size);
+}
+
+/* The key's height for the variants it names at width, from a scratch surface. */
+static void
+key_measure (LwPlotArea *self, int width)
+{
+  if (self->key_n < 2 || width <= 0)
+    return;
+  cairo_surface_t *surf = cairo_image_surface_create (CAIRO_FORMAT_RGB24, 1, 1);
+  cairo_t *cr = cairo_create (surf);
+  double h = lw_plot_draw_key_strip (cr, self->theme, (const char *const *) self->key_names,
+                                     self->key_styles, self->key_n, self->key_active, width);
+  cairo_destroy (cr);
+  cairo_surface_destroy (surf);
+  int hi = (int) ceil (h);
+  if (gtk_drawing_area_get_content_height (self->key) != hi)
+    gtk_drawing_area_set_content_height (self->key, hi);
+}
+
+static void
+key_resized (GtkDrawingArea *area, int width, int height, LwPlotArea *self)
+{
+  key_measure (self, width);
+}
+
+static void
+key_draw (GtkDrawingArea *area, cairo_t *cr, int width, int height, gpointer user_data)
+{
+  LwPlotArea *self = user_data;
+  lw_plot_draw_key_strip (cr, self->theme, (const char *const *) self->key_names,
+                          self->key_styles, self->key_n, self->key_active, width);
+}
+
+/* The key names the variants drawn (shown for two and more). */
+static void
+set_key (LwPlotArea *self, const LwPlotVariant *vars, guint n, guint active)
+{
+  gboolean same = n == self->key_n && active == self->key_active;
+  for (guint i = 0; i < n && same; i++)
+    same = g_strcmp0 (vars[i].name, self->key_names[i]) == 0
+           && vars[i].style == self->key_styles[i];
+  if (same)
+    return;
+  for (guint i = 0; i < LW_PLOT_MAX_VARIANTS; i++)
+    g_clear_pointer (&self->key_names[i], g_free);
+  for (guint i = 0; i < n; i++)
+    {
+      self->key_names[i] = g_strdup (vars[i].name);
+      self->key_styles[i] = vars[i].style;
+    }
+  self->key_n = n;
+  self->key_active = active;
+  gtk_widget_set_visible (GTK_WIDGET (self->key), n >= 2);
+  key_measure (self, gtk_widget_get_width (GTK_WIDGET (self->key)));
+  gtk_widget_queue_draw (GTK_WIDGET (self->key));
 }
 
 void
@@ -348,12 +418,22 @@ lw_plot_area_show_variants (LwPlotArea *self, const LwAreaVariant *vs, guint n, 
           active_fv = fv;
           moving = nv;
         }
-      else if (other == NULL)
-        other = &fv->v;
-      vars[nv++] = fv->v;
+      vars[nv] = fv->v;
+      vars[nv].style = vs[i].style;
+      if (i != active && other == NULL)
+        other = &vars[nv];
+      nv++;
     }
   g_assert (active_fv != NULL);
   double nyq = G_PI / eval->ev->period_s;
+  if (self->split && other != NULL)
+    {
+      /* the split view shows two: the active variant and the first other one */
+      LwPlotVariant two[2] = { vars[moving], *other };
+      set_key (self, two, 2, 0);
+    }
+  else
+    set_key (self, vars, nv, moving);
 
   for (guint i = 0; i < N_VIEWS; i++)
     {
@@ -361,10 +441,14 @@ lw_plot_area_show_variants (LwPlotArea *self, const LwAreaVariant *vs, guint n, 
       LwPlotPane *pane = self->panes[i];
       gboolean split_row_view = self->split && split_row (area_views[i]) >= 0;
       /* the split view's left column shows the active variant alone */
-      const LwPlotVariant *pv = split_row_view ? &active_fv->v : vars;
+      const LwPlotVariant *pv = split_row_view ? &vars[moving] : vars;
       guint pn = split_row_view ? 1 : nv;
+      g_autofree char *title = split_row_view && vars[moving].name != NULL
+                               ? g_strdup_printf ("%s \u2014 %s", view_title (area_views[i]),
+                                                  vars[moving].name)
+                               : NULL;
       LwPlot *plot = build_view (area_views[i], pv, pn, nyq, req,
-                                 keep_axes ? lw_plot_pane_get_plot (pane) : NULL, msg,
+                                 keep_axes ? lw_plot_pane_get_plot (pane) : NULL, title, msg,
                                  sizeof msg);
       lw_plot_pane_set_plot_moving (pane, plot, plot == NULL ? msg : NULL,
                                     split_row_view ? 0 : (int) moving);
@@ -382,8 +466,14 @@ lw_plot_area_show_variants (LwPlotArea *self, const LwAreaVariant *vs, guint n, 
       LwPlot *plot = NULL;
       if (other != NULL)
         /* the same axes as the left column, so the two can be read side by side */
-        plot = build_view (split_views[k], other, 1, nyq, req, lw_plot_pane_get_plot (left), msg,
-                           sizeof msg);
+        {
+          g_autofree char *title = other->name != NULL
+                                   ? g_strdup_printf ("%s \u2014 %s", view_title (split_views[k]),
+                                                      other->name)
+                                   : NULL;
+          plot = build_view (split_views[k], other, 1, nyq, req, lw_plot_pane_get_plot (left),
+                             title, msg, sizeof msg);
+        }
       else
         g_snprintf (msg, sizeof msg, "%s", _("Choose a second variant to compare for the split view."));
       /* a reference: its whole figure is static */
@@ -494,6 +584,9 @@ lw_plot_area_set_theme (LwPlotArea *self, LwPlotTheme theme)
     lw_plot_pane_set_theme (self->panes[i], theme);
   for (guint k = 0; k < N_SPLIT; k++)
     lw_plot_pane_set_theme (self->split_panes[k], theme);
+  self->theme = theme;
+  key_measure (self, gtk_widget_get_width (GTK_WIDGET (self->key)));
+  gtk_widget_queue_draw (GTK_WIDGET (self->key));
 }
 
 static void
@@ -506,6 +599,13 @@ lw_plot_area_dispose (GObject *object)
       gtk_widget_unparent (GTK_WIDGET (self->grid));
       self->grid = NULL;
     }
+  if (self->key != NULL)
+    {
+      gtk_widget_unparent (GTK_WIDGET (self->key));
+      self->key = NULL;
+    }
+  for (guint i = 0; i < LW_PLOT_MAX_VARIANTS; i++)
+    g_clear_pointer (&self->key_names[i], g_free);
   /* the area's own references (see init), after the grid let go of its children */
   for (guint k = 0; k < N_SPLIT; k++)
     g_clear_object (&self->split_panes[k]);
@@ -519,14 +619,23 @@ static void
 lw_plot_area_class_init (LwPlotAreaClass *klass)
 {
   G_OBJECT_CLASS (klass)->dispose = lw_plot_area_dispose;
-  gtk_widget_class_set_layout_manager_type (GTK_WIDGET_CLASS (klass), GTK_TYPE_BIN_LAYOUT);
+  gtk_widget_class_set_layout_manager_type (GTK_WIDGET_CLASS (klass), GTK_TYPE_BOX_LAYOUT);
   gtk_widget_class_set_css_name (GTK_WIDGET_CLASS (klass), "plotarea");
 }
 
 static void
 lw_plot_area_init (LwPlotArea *self)
 {
+  gtk_orientable_set_orientation (GTK_ORIENTABLE (gtk_widget_get_layout_manager (GTK_WIDGET (self))),
+                                  GTK_ORIENTATION_VERTICAL);
+  self->key = GTK_DRAWING_AREA (gtk_drawing_area_new ());
+  gtk_drawing_area_set_content_height (self->key, 20);
+  gtk_drawing_area_set_draw_func (self->key, key_draw, self, NULL);
+  g_signal_connect (self->key, "resize", G_CALLBACK (key_resized), self);
+  gtk_widget_set_visible (GTK_WIDGET (self->key), FALSE);
+  gtk_widget_set_parent (GTK_WIDGET (self->key), GTK_WIDGET (self));
   self->grid = GTK_GRID (gtk_grid_new ());
+  gtk_widget_set_vexpand (GTK_WIDGET (self->grid), TRUE);
   gtk_grid_set_row_homogeneous (self->grid, TRUE);
   gtk_grid_set_column_homogeneous (self->grid, TRUE);
   gtk_grid_set_row_spacing (self->grid, 4);

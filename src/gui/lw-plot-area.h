@@ -39,14 +39,16 @@ void lw_plot_area_show_eval (LwPlotArea *self, LwLoopEval *eval, const LwPlotReq
                              int sel_stage, int sel_corner);
 
 /* One variant to show: its evaluation (eval->sampled valid when the area has not shown this
- * evaluation before) and its legend name (NULL: none). */
+ * evaluation before), its legend name (NULL: none) and its colour and dash (LwPlotVariant.style:
+ * 1 … LW_PLOT_MAX_VARIANTS, 0 its position in the list). */
 typedef struct
 {
   LwLoopEval *eval;
   const char *name;
+  guint style;
 } LwAreaVariant;
 
-/* Shows several variants overlaid in every view (compare), in the order given (which sets
+/* Shows several variants overlaid in every view (compare), in the order given (their styles set
  * their colours and dashes), with the handles of the active one vs[active] (its stages as in
  * lw_plot_area_show_eval). A variant whose evaluation failed is left out; the figure data of
  * an evaluation shown before is kept, not filled again (so references cost nothing during a

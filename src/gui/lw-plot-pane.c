@@ -193,12 +193,6 @@ draw (GtkDrawingArea *area, cairo_t *cr, int width, int height, gpointer user_da
       self->cache_scale = scale;
       self->n_base_draws++;
     }
-  cairo_set_source_surface (cr, self->cache, 0, 0);
-  cairo_paint (cr);
-  if (self->moving >= 0)
-    lw_plot_draw_variant (self->plot, cr, width, height, (size_t) self->moving);
-
-  /* lw_plot_draw_overlay uses the layout of the last draw, which was for this size. */
   LwPlotHandle ph[64];
   guint n = MIN (self->handles->len, G_N_ELEMENTS (ph));
   for (guint i = 0; i < n; i++)
@@ -209,6 +203,14 @@ draw (GtkDrawingArea *area, cairo_t *cr, int width, int height, gpointer user_da
                                          || ((int) h->stage == self->sel_stage
                                              && h->corner == self->sel_corner) };
     }
+  /* the margin labels, drawn with the moving variant, keep clear of the handles */
+  lw_plot_set_keep_clear (self->plot, ph, n);
+  cairo_set_source_surface (cr, self->cache, 0, 0);
+  cairo_paint (cr);
+  if (self->moving >= 0)
+    lw_plot_draw_variant (self->plot, cr, width, height, (size_t) self->moving);
+
+  /* lw_plot_draw_overlay uses the layout of the last draw, which was for this size. */
   LwPlotOverlay ov = { .has_hover = self->has_hover && self->dragging < 0,
                        .hover_x = self->hover_x, .hover_y = self->hover_y,
                        .n_handles = n, .handles = ph };

@@ -243,7 +243,9 @@ show_handles_and_plots (LwWindow *self)
         }
       else
         continue;
-      vs[n] = (LwAreaVariant) { .eval = e, .name = name };
+      /* a variant keeps the colour of its place in the document, whichever are compared */
+      vs[n] = (LwAreaVariant) { .eval = e, .name = name,
+                                .style = i % LW_PLOT_MAX_VARIANTS + 1 };
       names[n] = name;
       evals[n] = e;
       n++;
@@ -251,7 +253,10 @@ show_handles_and_plots (LwWindow *self)
   g_hash_table_unref (self->ref_evals);
   self->ref_evals = kept;
   if (n == 1)
-    vs[0].name = NULL;   /* one variant: no legend */
+    {
+      vs[0].name = NULL;   /* one variant: no legend, and the first colour */
+      vs[0].style = 0;
+    }
 
   lw_plot_area_show_variants (self->plot_area, vs, n, active, &req, v->stages,
                               (guint) v->n_stages, self->gain_pin_nu, self->sel_stage,
@@ -1927,8 +1932,6 @@ lw_window_class_init (LwWindowClass *klass)
                                        "window.compare-all", NULL);
   gtk_widget_class_add_binding_action (widget_class, GDK_KEY_K, GDK_CONTROL_MASK | GDK_SHIFT_MASK,
                                        "window.compare-all", NULL);
-  gtk_widget_class_add_binding_action (widget_class, GDK_KEY_F8, 0, "window.split", NULL);
-  gtk_widget_class_add_binding_action (widget_class, GDK_KEY_F6, 0, "window.variants", NULL);
   gtk_widget_class_add_binding_action (widget_class, GDK_KEY_0, GDK_CONTROL_MASK,
                                        "window.reset-view", NULL);
   gtk_widget_class_add_binding_action (widget_class, GDK_KEY_l, GDK_CONTROL_MASK,
@@ -1983,6 +1986,22 @@ lw_window_init (LwWindow *self)
   gtk_event_controller_set_propagation_phase (k, GTK_PHASE_CAPTURE);
   g_signal_connect (k, "key-pressed", G_CALLBACK (window_key_pressed), self);
   gtk_widget_add_controller (GTK_WIDGET (self), k);
+
+  /* Shortcuts that must win over the focused widget: a GtkPaned takes F6 and F8 and a text
+   * field its own keys before a binding of the window's class is asked, so these are taken
+   * in the capture phase. */
+  static const struct { guint key; GdkModifierType mods; const char *action; } early[] = {
+    { GDK_KEY_b, GDK_CONTROL_MASK | GDK_SHIFT_MASK, "window.split" },
+    { GDK_KEY_v, GDK_CONTROL_MASK | GDK_SHIFT_MASK, "window.variants" },
+  };
+  GtkEventController *sc = gtk_shortcut_controller_new ();
+  gtk_event_controller_set_propagation_phase (sc, GTK_PHASE_CAPTURE);
+  for (guint i = 0; i < G_N_ELEMENTS (early); i++)
+    gtk_shortcut_controller_add_shortcut (GTK_SHORTCUT_CONTROLLER (sc),
+                                          gtk_shortcut_new (gtk_keyval_trigger_new (early[i].key,
+                                                                                    early[i].mods),
+                                                            gtk_named_action_new (early[i].action)));
+  gtk_widget_add_controller (GTK_WIDGET (self), sc);
 
   GtkDropTarget *drop = gtk_drop_target_new (GDK_TYPE_FILE_LIST, GDK_ACTION_COPY);
   g_signal_connect (drop, "drop", G_CALLBACK (file_dropped), self);

@@ -104,6 +104,12 @@ typedef struct {
   double dx, dy;         /* text offset, user units */
   double ax, ay;         /* text anchor: 0 left/top, 0.5 centre, 1 right/bottom */
   bool plate;            /* background plate behind the text */
+  /* a variant's margin label: placed at drawing time so that labels do not cover each other
+   * (place_labels); lx, ly: the top left corner of its text there; shown: false when no free
+   * place was found */
+  bool label;
+  bool shown;
+  double lx, ly;
   double r_units, a0, a1;
   long owner;            /* the variant the primitive belongs to (its layer), or −1 */
   /* a variant's curve: where its points came from (LwPlotVariant.data_key, the input arrays
@@ -133,6 +139,9 @@ struct LwPlot {
   char *title;
   size_t n_variants;
   char *names[LW_PLOT_MAX_VARIANTS];
+  size_t styles[LW_PLOT_MAX_VARIANTS];   /* colour and dash slot of each variant, 0-based */
+  LwPlotHandle *clear;                   /* places the labels keep clear of */
+  size_t n_clear;
   size_t n_panels;
   Panel panels[MAX_PANELS];
   double width, height;
@@ -268,6 +277,21 @@ style_variant (Prim *p, size_t variant, double width)
   p->owner = (long) variant;
   p->width = width;
   return p;
+}
+
+/* A margin label of variant v at (x, y) in data units, offset (dx, dy) pixels, anchor (ax, ay):
+ * the place it prefers; place_labels moves it off other labels. */
+static Prim *
+margin_label (Panel *pn, double x, double y, const char *text, double dx, double dy, double ax,
+              double ay, size_t v)
+{
+  Prim *t = add_text (pn, x, y, text, dx, dy, ax, ay);
+  t->plate = true;
+  t->colour = COL_VARIANT;
+  t->variant = v;
+  t->owner = (long) v;
+  t->label = true;
+  return t;
 }
 
 /* A curve of variant v made from the arrays src_x, src_y (tag tells apart curves made from
@@ -576,7 +600,6 @@ build_bode (LwPlot *pl, const LwPlotInput *in, bool w_plane)
   for (size_t v = 0; v < in->n_variants; v++)
     {
       const LwPlotFreqCurve *c = w_plane ? &in->variants[v].w : &in->variants[v].z;
-      double stack = 13.0 * (double) v;
       for (size_t i = 0; i < c->n_gain_crossovers; i++)
         {
           const LwPlotCrossover *x = &c->gain_crossovers[i];
@@ -592,11 +615,7 @@ build_bode (LwPlot *pl, const LwPlotInput *in, bool w_plane)
             {
               char buf[48];
               format_margin (buf, sizeof buf, "PM", x->margin, "\u00b0");
-              Prim *t = add_text (ph, f, 0.5 * (ref + x->phase_deg), buf, 6, stack, 0.0, 0.5);
-              t->plate = true;
-              t->colour = COL_VARIANT;
-              t->variant = v;
-              t->owner = (long) v;
+              margin_label (ph, f, 0.5 * (ref + x->phase_deg), buf, 6, 0, 0.0, 0.5, v);
             }
         }
       for (size_t i = 0; i < c->n_phase_crossovers; i++)
@@ -613,11 +632,7 @@ build_bode (LwPlot *pl, const LwPlotInput *in, bool w_plane)
             {
               char buf[48];
               format_margin (buf, sizeof buf, "GM", x->margin, " dB");
-              Prim *t = add_text (mag, f, 0.5 * x->mag_db, buf, 6, stack, 0.0, 0.5);
-              t->plate = true;
-              t->colour = COL_VARIANT;
-              t->variant = v;
-              t->owner = (long) v;
+              margin_label (mag, f, 0.5 * x->mag_db, buf, 6, 0, 0.0, 0.5, v);
             }
         }
     }
@@ -689,7 +704,6 @@ build_nyquist (LwPlot *pl, const LwPlotInput *in)
       l->dash = DASH_VARIANT;
 
       const LwPlotFreqCurve *z = &in->variants[v].z;
-      double stack = 13.0 * (double) v;
       for (size_t i = 0; i < z->n_gain_crossovers; i++)
         {
           const LwPlotCrossover *x = &z->gain_crossovers[i];
@@ -712,12 +726,8 @@ build_nyquist (LwPlot *pl, const LwPlotInput *in)
               char buf[48];
               format_margin (buf, sizeof buf, "PM", x->margin, "\u00b0");
               double am = (a0 - 0.5 * x->margin) * G_PI / 180.0;
-              Prim *t = add_text (pn, 1.12 * cos (am), 1.12 * sin (am), buf, 0, stack,
-                                  cos (am) < 0 ? 1.0 : 0.0, 0.5);
-              t->plate = true;
-              t->colour = COL_VARIANT;
-              t->variant = v;
-              t->owner = (long) v;
+              margin_label (pn, 1.12 * cos (am), 1.12 * sin (am), buf, 0, 0,
+                                  cos (am) < 0 ? 1.0 : 0.0, 0.5, v);
             }
         }
       for (size_t i = 0; i < z->n_phase_crossovers; i++)
@@ -728,11 +738,7 @@ build_nyquist (LwPlot *pl, const LwPlotInput *in)
             {
               char buf[48];
               format_margin (buf, sizeof buf, "GM", x->margin, " dB");
-              Prim *t = add_text (pn, x->re, x->im, buf, 0, 8 + stack, 0.5, 0.0);
-              t->plate = true;
-              t->colour = COL_VARIANT;
-              t->variant = v;
-              t->owner = (long) v;
+              margin_label (pn, x->re, x->im, buf, 0, 8, 0.5, 0.0, v);
             }
         }
     }
@@ -794,7 +800,6 @@ build_nichols (LwPlot *pl, const LwPlotInput *in)
       Prim *l = add_curve (pl, pn, v, c->n, c->phase_deg, c->mag_db);
       style_variant (l, v, LW_PLOT_CURVE_WIDTH);
       l->dash = DASH_VARIANT;
-      double stack = 13.0 * (double) v;
       for (size_t i = 0; i < c->n_gain_crossovers; i++)
         {
           const LwPlotCrossover *x = &c->gain_crossovers[i];
@@ -805,12 +810,8 @@ build_nichols (LwPlot *pl, const LwPlotInput *in)
             {
               char buf[48];
               format_margin (buf, sizeof buf, "PM", x->margin, "\u00b0");
-              Prim *t = add_text (pn, x->phase_deg - 0.5 * x->margin, 0.0, buf, 0, -6 - stack,
-                                  0.5, 1.0);
-              t->plate = true;
-              t->colour = COL_VARIANT;
-              t->variant = v;
-              t->owner = (long) v;
+              margin_label (pn, x->phase_deg - 0.5 * x->margin, 0.0, buf, 0, -6,
+                                  0.5, 1.0, v);
             }
         }
       for (size_t i = 0; i < c->n_phase_crossovers; i++)
@@ -823,11 +824,7 @@ build_nichols (LwPlot *pl, const LwPlotInput *in)
             {
               char buf[48];
               format_margin (buf, sizeof buf, "GM", x->margin, " dB");
-              Prim *t = add_text (pn, x->phase_deg, 0.5 * x->mag_db, buf, 6, stack, 0.0, 0.5);
-              t->plate = true;
-              t->colour = COL_VARIANT;
-              t->variant = v;
-              t->owner = (long) v;
+              margin_label (pn, x->phase_deg, 0.5 * x->mag_db, buf, 6, 0, 0.0, 0.5, v);
             }
         }
     }
@@ -1139,6 +1136,8 @@ lw_plot_new (const LwPlotInput *in, char *err_msg, size_t err_size)
     {
       pl->names[v] = g_strdup (in->variants[v].name);
       pl->keys[v] = in->variants[v].data_key;
+      unsigned st = in->variants[v].style;
+      pl->styles[v] = st >= 1 && st <= LW_PLOT_MAX_VARIANTS ? st - 1 : v;
     }
   if (in->axes_of != NULL && in->axes_of->view == in->view)
     pl->reuse = in->axes_of;
@@ -1173,7 +1172,17 @@ lw_plot_free (LwPlot *p)
   for (size_t v = 0; v < p->n_variants; v++)
     g_free (p->names[v]);
   g_free (p->title);
+  g_free (p->clear);
   g_free (p);
+}
+
+void
+lw_plot_set_keep_clear (LwPlot *p, const LwPlotHandle *places, size_t n)
+{
+  g_return_if_fail (p != NULL && (n == 0 || places != NULL));
+  g_free (p->clear);
+  p->clear = n > 0 ? g_memdup2 (places, n * sizeof *places) : NULL;
+  p->n_clear = n;
 }
 
 void
@@ -1244,7 +1253,7 @@ colour_of (const LwPlot *p, ColourRole role, size_t variant)
   const Theme *t = theme_of (p);
   switch (role)
     {
-    case COL_VARIANT: return t->palette[variant % LW_PLOT_MAX_VARIANTS];
+    case COL_VARIANT: return t->palette[p->styles[variant % LW_PLOT_MAX_VARIANTS]];
     case COL_TEXT: return t->text;
     case COL_REF: return t->ref;
     case COL_NYQUIST: return t->nyquist;
@@ -1536,7 +1545,7 @@ draw_prim (const LwPlot *p, const Panel *pn, cairo_t *cr, const Prim *q)
   cairo_save (cr);
   set_rgb (cr, c, q->alpha);
   cairo_set_line_width (cr, q->width);
-  set_dash (cr, q->dash, q->variant);
+  set_dash (cr, q->dash, p->styles[q->variant % LW_PLOT_MAX_VARIANTS]);
   cairo_set_line_join (cr, CAIRO_LINE_JOIN_ROUND);
   switch (q->kind)
     {
@@ -1570,9 +1579,10 @@ draw_prim (const LwPlot *p, const Panel *pn, cairo_t *cr, const Prim *q)
                      q->size);
       break;
     case PRIM_TEXT:
-      if (isfinite (q->u[0]) && isfinite (q->v[0]))
-        draw_text (p->text_cache, cr, q->text, FONT_NOTE, px_of (pn, q->u[0]) + q->dx,
-                   py_of (pn, q->v[0]) + q->dy, q->ax, q->ay, c, q->plate ? t->bg : NULL, 0);
+      /* at the place place_labels found for it */
+      if (q->shown)
+        draw_text (p->text_cache, cr, q->text, FONT_NOTE, q->lx, q->ly, 0.0, 0.0, c,
+                   q->plate ? t->bg : NULL, 0);
       break;
     case PRIM_HBAND:
       {
@@ -1598,6 +1608,61 @@ draw_prim (const LwPlot *p, const Panel *pn, cairo_t *cr, const Prim *q)
       }
     }
   cairo_restore (cr);
+}
+
+double
+lw_plot_draw_key_strip (cairo_t *cr, LwPlotTheme theme, const char *const *names,
+                        const unsigned *styles, size_t n, size_t active, double width)
+{
+  g_return_val_if_fail (cr != NULL && (n == 0 || names != NULL), 0.0);
+  const Theme *t = &themes[theme == LW_PLOT_THEME_DARK ? 1 : 0];
+  double height = 0.0;
+  cairo_save (cr);
+  /* pass 0 measures (the height, for the background), pass 1 draws */
+  for (int pass = 0; pass < 2; pass++)
+    {
+      double x = 8.0, y = 0.5 * LW_PLOT_LEGEND_ROW;
+      if (pass == 1)
+        {
+          set_rgb (cr, t->bg, 1.0);
+          cairo_rectangle (cr, 0, 0, width, height);
+          cairo_fill (cr);
+        }
+      for (size_t v = 0; v < n; v++)
+        {
+          if (names[v] == NULL)
+            continue;
+          unsigned st = styles != NULL ? styles[v] : 0;
+          size_t slot = st >= 1 && st <= LW_PLOT_MAX_VARIANTS ? st - 1 : v % LW_PLOT_MAX_VARIANTS;
+          FontRole role = v == active ? FONT_TITLE : FONT_LABEL;
+          PangoLayout *lay = text_layout (NULL, cr, names[v], role);
+          int iw, ih;
+          pango_layout_get_size (lay, &iw, &ih);
+          g_object_unref (lay);
+          double need = 34.0 + (double) iw / PANGO_SCALE + 18.0;
+          if (x > 8.0 && x + need > width)
+            {
+              x = 8.0;
+              y += LW_PLOT_LEGEND_ROW;
+            }
+          if (pass == 1)
+            {
+              cairo_save (cr);
+              set_rgb (cr, t->palette[slot], 1.0);
+              cairo_set_line_width (cr, LW_PLOT_CURVE_WIDTH);
+              set_dash (cr, DASH_VARIANT, slot);
+              cairo_move_to (cr, x, y);
+              cairo_line_to (cr, x + 28, y);
+              cairo_stroke (cr);
+              cairo_restore (cr);
+              draw_text (NULL, cr, names[v], role, x + 34, y, 0.0, 0.5, t->text, NULL, 0);
+            }
+          x += need;
+        }
+      height = y + 0.5 * LW_PLOT_LEGEND_ROW;
+    }
+  cairo_restore (cr);
+  return height;
 }
 
 static int
@@ -1664,9 +1729,9 @@ draw_legend (const LwPlot *p, cairo_t *cr)
       double x = left + LW_PLOT_LEGEND_SLOT * (double) (k % slots);
       double yy = y + LW_PLOT_LEGEND_ROW * (double) (k / slots);
       cairo_save (cr);
-      set_rgb (cr, t->palette[v], 1.0);
+      set_rgb (cr, t->palette[p->styles[v]], 1.0);
       cairo_set_line_width (cr, LW_PLOT_CURVE_WIDTH);
-      set_dash (cr, DASH_VARIANT, v);
+      set_dash (cr, DASH_VARIANT, p->styles[v]);
       cairo_move_to (cr, x, yy);
       cairo_line_to (cr, x + 28, yy);
       cairo_stroke (cr);
@@ -1680,17 +1745,144 @@ draw_legend (const LwPlot *p, cairo_t *cr)
 /* Which primitives a layer holds: everything, everything but variant `v`'s, or only its. */
 typedef enum { LAYER_ALL, LAYER_BASE, LAYER_VARIANT } Layer;
 
+/* The margin labels of every variant belong to the top layer: where one goes depends on the
+ * others, the moving variant's first (place_labels). */
 static bool
 prim_in_layer (const Prim *q, Layer layer, size_t v)
 {
   bool own = q->owner >= 0 && (size_t) q->owner == v;
+  if (q->label)
+    return layer != LAYER_BASE;
   return layer == LAYER_ALL || (layer == LAYER_BASE ? !own : own);
+}
+
+typedef struct { double x0, y0, x1, y1; } Box;
+
+static bool
+box_free (const Box *b, const GArray *taken)
+{
+  for (guint i = 0; i < taken->len; i++)
+    {
+      const Box *o = &g_array_index (taken, Box, i);
+      if (b->x0 < o->x1 && o->x0 < b->x1 && b->y0 < o->y1 && o->y0 < b->y1)
+        return false;
+    }
+  return true;
+}
+
+/* The box of a text w × h with its top left corner at (x, y), its plate included. */
+static Box
+text_box (double x, double y, double w, double h)
+{
+  return (Box) { x - 2.0, y, x + w + 2.0, y + h };
+}
+
+static void
+text_size (LwPlot *p, cairo_t *cr, const char *text, double *w, double *h)
+{
+  PangoLayout *lay = text_layout (p->text_cache, cr, text, FONT_NOTE);
+  int iw, ih;
+  pango_layout_get_size (lay, &iw, &ih);
+  g_object_unref (lay);
+  *w = (double) iw / PANGO_SCALE;
+  *h = (double) ih / PANGO_SCALE;
+}
+
+/* Puts text q at the first free place of: where it prefers, mirrored about its anchor, then
+ * a row down or up (one text height at a time, up to LABEL_ROWS rows each way), inside its
+ * panel's height and the figure's width; with must_show, where it prefers (moved inside the
+ * figure) when no place is free. Its box joins taken. */
+#define LABEL_ROWS 8
+static void
+place_text (LwPlot *p, cairo_t *cr, const Panel *pn, Prim *q, GArray *taken, bool must_show)
+{
+  q->shown = false;
+  if (!isfinite (q->u[0]) || !isfinite (q->v[0]))
+    return;
+  double tw, th;
+  text_size (p, cr, q->text, &tw, &th);
+  double axp = px_of (pn, q->u[0]), ayp = py_of (pn, q->v[0]);
+  /* the preferred and the mirrored left edge; the preferred top edge */
+  double xs[2] = { axp + q->dx - q->ax * tw, axp - q->dx - (1.0 - q->ax) * tw };
+  double y0 = ayp + q->dy - q->ay * th;
+  double ylo = pn->ry, yhi = pn->ry + pn->rh, xhi = p->width - 1.0;
+  for (int row = 0; row <= 2 * LABEL_ROWS; row++)
+    {
+      /* rows 0, +1, −1, +2, −2, … */
+      double dy = (double) ((row + 1) / 2) * (row % 2 == 1 ? 1.0 : -1.0) * (th + 1.0);
+      for (int side = 0; side < 2; side++)
+        {
+          double x = xs[side], y = y0 + dy;
+          Box b = text_box (x, y, tw, th);
+          if (b.x0 < 0.0 || b.x1 > xhi || y < ylo || y + th > yhi || !box_free (&b, taken))
+            continue;
+          q->lx = x;
+          q->ly = y;
+          q->shown = true;
+          g_array_append_val (taken, b);
+          return;
+        }
+    }
+  if (must_show)
+    {
+      q->lx = fmin (fmax (xs[0], 2.0), fmax (xhi - tw - 2.0, 2.0));
+      q->ly = fmin (fmax (y0, ylo), fmax (yhi - th, ylo));
+      q->shown = true;
+      Box b = text_box (q->lx, q->ly, tw, th);
+      g_array_append_val (taken, b);
+    }
+}
+
+/* Where the texts go, panel by panel, for the layout just made, so that none covers another:
+ * first the texts that belong to no variant (reference levels, the Nyquist frequency: in the
+ * base layer, so their places must not depend on a variant), then the places kept clear
+ * (lw_plot_set_keep_clear: the drag handles), then the margin labels of variant `first`,
+ * then those of the others in order. A label of `first` that finds no free place stays where
+ * it prefers; another variant's is left out (its figures are in the metrics table and the
+ * report). */
+static void
+place_labels (LwPlot *p, cairo_t *cr, size_t first)
+{
+  GArray *taken = g_array_new (FALSE, FALSE, sizeof (Box));
+  for (size_t k = 0; k < p->n_panels; k++)
+    {
+      Panel *pn = &p->panels[k];
+      g_array_set_size (taken, 0);
+      for (guint i = 0; i < pn->prims->len; i++)
+        {
+          Prim *q = pn->prims->pdata[i];
+          if (q->kind == PRIM_TEXT && !q->label)
+            place_text (p, cr, pn, q, taken, true);
+        }
+      for (size_t i = 0; i < p->n_clear; i++)
+        {
+          double x, y;
+          if (p->clear[i].panel == (int) k
+              && lw_plot_pixel_of_value (p, k, p->clear[i].x, p->clear[i].y, &x, &y))
+            {
+              Box b = { x - 8.0, y - 8.0, x + 8.0, y + 8.0 };
+              g_array_append_val (taken, b);
+            }
+        }
+      for (size_t pass = 0; pass < p->n_variants; pass++)
+        {
+          size_t v = pass == 0 ? first : (pass <= first ? pass - 1 : pass);
+          for (guint i = 0; i < pn->prims->len; i++)
+            {
+              Prim *q = pn->prims->pdata[i];
+              if (q->label && q->variant == v)
+                place_text (p, cr, pn, q, taken, pass == 0);
+            }
+        }
+    }
+  g_array_free (taken, TRUE);
 }
 
 static void
 draw_layer (LwPlot *p, cairo_t *cr, double width, double height, Layer layer, size_t var)
 {
   lw_plot_layout (p, width, height);
+  place_labels (p, cr, var < p->n_variants ? var : 0);
   const Theme *t = theme_of (p);
   cairo_save (cr);
   cairo_set_line_cap (cr, CAIRO_LINE_CAP_BUTT);
@@ -1849,7 +2041,7 @@ lw_plot_base_equal (const LwPlot *a, const LwPlot *b, size_t variant)
       || g_strcmp0 (a->title, b->title) != 0)
     return false;
   for (size_t v = 0; v < a->n_variants; v++)
-    if (g_strcmp0 (a->names[v], b->names[v]) != 0)
+    if (g_strcmp0 (a->names[v], b->names[v]) != 0 || a->styles[v] != b->styles[v])
       return false;
   for (size_t k = 0; k < a->n_panels; k++)
     {

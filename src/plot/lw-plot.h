@@ -131,6 +131,10 @@ typedef struct {
    * values in them; the figure then copies that variant's mapped curves from axes_of (when
    * their panel has the same axes) instead of mapping every point again. */
   unsigned long data_key;
+  /* optional: the variant's colour and dash, 1 … LW_PLOT_MAX_VARIANTS (its place in the
+   * document, say, so that a variant keeps its look whichever others are drawn with it);
+   * 0: its position in this figure's list. */
+  unsigned style;
 } LwPlotVariant;
 
 /* Requirement marks, drawn where they apply. */
@@ -226,6 +230,17 @@ typedef struct {
   size_t n_handles;
   const LwPlotHandle *handles;
 } LwPlotOverlay;
+
+/* A key to the variants shown, in a row that wraps at width (one curve sample and name each,
+ * in each variant's colour and dash: styles as LwPlotVariant.style, NULL: by position; the
+ * active one's name in bold), drawn from (0, 0) on the theme's background. Gives the height
+ * it took. For a window that shows one key over several figures. */
+double lw_plot_draw_key_strip (cairo_t *cr, LwPlotTheme theme, const char *const *names,
+                               const unsigned *styles, size_t n, size_t active, double width);
+
+/* Places (their .panel, .x, .y; 8 px around each) that the margin labels drawn from now on
+ * keep clear of: the drag handles, say. n = 0 clears the list. */
+void lw_plot_set_keep_clear (LwPlot *p, const LwPlotHandle *places, size_t n);
 
 /* Overlay layer on top of the static layer (last layout): crosshair with a read-out of the
  * axis values under the pointer, and drag handles. */

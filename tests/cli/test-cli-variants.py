@@ -13,7 +13,9 @@ What is checked, and against what:
    colour in the SVG as tests/plot/test-cli-plot.py does (curves and legend samples are the
    only strokes of width 1.75, src/plot/lw-plot.h), each variant's colour (the first two of
    the light palette, src/plot/lw-plot.c) carries the same number of curves as a single-loop
-   plot of that view; with --variant only the first colour appears.
+   plot of that view; with --variant only the first colour appears. A report on the third
+   and fourth of four variants draws them in the third and fourth colours (a variant's colour
+   is that of its place in the document).
 3. `emit FILE --variant NAME --json` gives the controller and margins of the same variant as
    `analyze FILE --variant NAME --json` (margins exactly equal: the same evaluation path), and
    its difference equation equals the expansion of its own controller_z by numpy.poly (a
@@ -82,17 +84,22 @@ for name in NAMES:
 
 # Curves per variant at width 1.75 (curves + one legend sample), as in test-cli-plot.py.
 CURVES = {"bode-z": 3, "bode-w": 3, "nyquist": 2, "nichols": 2, "step": 2, "poles": 1}
-COLOURS = [(0x00, 0x72, 0xb2), (0xd5, 0x5e, 0x00)]   # light palette, first two (lw-plot.c)
+# light palette, first four (PALETTE_LIGHT in src/plot/lw-plot.c)
+COLOURS = [(0x00, 0x72, 0xb2), (0xd5, 0x5e, 0x00), (0x00, 0x9e, 0x73), (0xcc, 0x79, 0xa7)]
 
 
-def curve_counts(path):
-    counts = [0] * len(COLOURS)
-    for p in ET.parse(path).getroot().iter("{http://www.w3.org/2000/svg}path"):
+def curve_counts(path, n_colours=2):
+    return svg_curve_counts(ET.parse(path).getroot(), n_colours)
+
+
+def svg_curve_counts(root, n_colours):
+    counts = [0] * n_colours
+    for p in root.iter("{http://www.w3.org/2000/svg}path"):
         style = p.get("style", "")
         m = re.search(r"stroke:rgb\(([\d.]+)%,([\d.]+)%,([\d.]+)%\)", style)
         if "stroke-width:1.75;" in style and m:
             rgb = [float(v) * 255 / 100 for v in m.groups()]
-            for i, c in enumerate(COLOURS):
+            for i, c in enumerate(COLOURS[:n_colours]):
                 # 0.6 of 255: cairo prints the colour in percent with a few digits
                 if all(abs(a - b) <= 0.6 for a, b in zip(rgb, c)):
                     counts[i] += 1
@@ -112,6 +119,23 @@ for view, n in CURVES.items():
     if rc == 0:
         got = curve_counts(svg1)
         check(got == [n, 0], f"{view}, one variant: {n} curves in the first colour only, got {got}")
+
+# A variant keeps the colour of its place in the document whichever others are drawn with it:
+# the report's figures of the third and fourth variants of four (tests/gui/four-variants.lwd)
+# carry the third and fourth colours, not the first two.
+FOUR = os.path.join(ROOT, "tests", "gui", "four-variants.lwd")
+four_names = [v.get("name") for v in ET.parse(FOUR).getroot().iter(NS + "variant")]
+html = os.path.join(TMP, "two-of-four.html")
+rc, _, err = run(["report", FOUR, "--variants", ",".join(four_names[2:4]), "--out", html])
+check(rc == 0, f"report --variants (two of four) exits 0 (got {rc}: {err.strip()})")
+if rc == 0:
+    with open(html, encoding="utf-8") as f:
+        svg = re.search(r"<svg.*?</svg>", f.read(), re.S)
+    check(svg is not None, "the report holds an inline SVG figure")
+    if svg:
+        got = svg_curve_counts(ET.fromstring(svg.group(0)), 4)
+        want = [0, 0, CURVES["bode-z"], CURVES["bode-z"]]
+        check(got == want, f"bode-z of variants 3 and 4: curves per colour {want}, got {got}")
 
 # ---- 3. emit FILE -------------------------------------------------------------------------
 
