@@ -116,6 +116,22 @@ arrange (LwPlotArea *self)
         gtk_grid_attach (self->grid, GTK_WIDGET (self->split_panes[k]), 1, (int) k, 1, 1);
       g_object_unref (self->split_panes[k]);
     }
+  if (self->debug)
+    {
+      /* the views on the grid: VIEW:COLUMN:ROW, the split view's right column included */
+      g_autoptr (GString) s = g_string_new ("LW-ARRANGE views=");
+      for (GtkWidget *c = gtk_widget_get_first_child (GTK_WIDGET (self->grid)); c != NULL;
+           c = gtk_widget_get_next_sibling (c))
+        {
+          int col, row;
+          gtk_grid_query_child (self->grid, c, &col, &row, NULL, NULL);
+          g_string_append_printf (s, "%s%s:%d:%d", s->str[s->len - 1] == '=' ? "" : ",",
+                                  lw_plot_view_name (lw_plot_pane_get_view (LW_PLOT_PANE (c))),
+                                  col, row);
+        }
+      puts (s->str);
+      fflush (stdout);
+    }
 }
 
 void
@@ -481,6 +497,14 @@ lw_plot_area_show_variants (LwPlotArea *self, const LwAreaVariant *vs, guint n, 
       double lo, hi;
       if (plot != NULL && lw_plot_pane_get_x_view (left, &lo, &hi))
         lw_plot_pane_set_x_view (self->split_panes[k], lo, hi);
+    }
+  if (self->debug)
+    {
+      /* the split view's two columns, by their variants' styles (place in the document + 1) */
+      printf ("LW-SPLIT on=%d left=%u right=%u\n", self->split ? 1 : 0,
+              self->split ? vars[moving].style : 0,
+              self->split && other != NULL ? other->style : 0);
+      fflush (stdout);
     }
   set_handles (self, eval, active_fv, stages, n_stages, gain_pin_nu_rad_s, sel_stage,
                sel_corner);
