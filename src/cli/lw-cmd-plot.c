@@ -87,6 +87,7 @@ typedef struct
   LwPlotTheme theme;
   const char *title;
   bool has_target;  double target_rad_s;
+  const LwDesign *design;   /* its requirements are marked too (the options win); or NULL */
   bool has_min_pm;  double min_pm_deg;
   const char *pdf_date;
 } PlotSpec;
@@ -244,6 +245,12 @@ plot_write (const PlotSpec *s, const PlotVariantSource *src, size_t n)
   in.variants = pv;
   lw_figure_requirements (&in.req, src[0].ev->period_s, s->has_target, s->target_rad_s,
                           s->has_min_pm, s->min_pm_deg);
+  for (size_t i = 0; s->design != NULL && i < s->design->n_requirements; i++)
+    {
+      const LwRequirement *q = &s->design->requirements[i].req;
+      if (!(q->kind == LW_REQ_MIN_PHASE_MARGIN && s->has_min_pm))
+        lw_figure_requirements_add (&in.req, src[0].ev->period_s, q);
+    }
   char msg[256];
   LwPlot *plot = lw_plot_new (&in, msg, sizeof msg);
   if (plot == NULL)
@@ -324,13 +331,7 @@ plot_run_document (const PlotArgs *a)
   status = plot_options_check (a, &spec);
   if (status != LW_EXIT_OK)
     return status;
-  if (!spec.has_min_pm)
-    for (size_t i = 0; i < d->n_requirements; i++)
-      if (d->requirements[i].req.kind == LW_REQ_MIN_PHASE_MARGIN)
-        {
-          spec.has_min_pm = true;
-          spec.min_pm_deg = fmax (spec.min_pm_deg, d->requirements[i].req.limit);
-        }
+  spec.design = d;
   LwAnalysisOptions opts;
   status = plot_analysis_options (a, &opts);
   if (status != LW_EXIT_OK)

@@ -523,14 +523,11 @@ add_figures (LwReport *r, const LwDesign *d, RVar *rv, size_t n)
         }
       pv[filled].step.u = s->u;
     }
-  bool has_pm = false;
-  double pm = 0.0;
+  /* the design's requirement marks, as the window and `plot` draw them */
+  LwPlotRequirements marks;
+  lw_figure_requirements (&marks, rv[0].ev->period_s, false, 0.0, false, 0.0);
   for (size_t i = 0; i < d->n_requirements; i++)
-    if (d->requirements[i].req.kind == LW_REQ_MIN_PHASE_MARGIN)
-      {
-        has_pm = true;
-        pm = fmax (pm, d->requirements[i].req.limit);
-      }
+    lw_figure_requirements_add (&marks, rv[0].ev->period_s, &d->requirements[i].req);
   static const struct { LwPlotView view; const char *caption; double h; } figs[] = {
     { LW_PLOT_VIEW_BODE_Z, "Bode diagram of the loop L in z, up to the Nyquist frequency π/T", FIG_H },
     { LW_PLOT_VIEW_BODE_W, "Bode diagram of the loop in the w-plane (over ν), with straight-line asymptotes", FIG_H },
@@ -544,7 +541,7 @@ add_figures (LwReport *r, const LwDesign *d, RVar *rv, size_t n)
       in.nyquist_rad_s = G_PI / rv[0].ev->period_s;
       in.n_variants = n;
       in.variants = pv;
-      lw_figure_requirements (&in.req, rv[0].ev->period_s, false, 0.0, has_pm, pm);
+      in.req = marks;
       char msg[256];
       LwPlot *p = lw_plot_new (&in, msg, sizeof msg);
       if (p == NULL)

@@ -568,35 +568,48 @@ lw_plot_area_get_pane (LwPlotArea *self, LwPlotView view)
 }
 
 LwPlot *
-lw_plot_area_build_plot (LwLoopEval *eval, const LwPlotRequirements *req, LwPlotView view,
-                         const char *title, const char *variant_name, char *err,
-                         size_t err_size)
+lw_plot_area_build_plot (const LwAreaVariant *vs, guint n, const LwPlotRequirements *req,
+                         LwPlotView view, const char *title, char *err, size_t err_size)
 {
-  g_return_val_if_fail (eval != NULL, NULL);
-  if (eval->ev == NULL)
+  g_return_val_if_fail (vs != NULL && n >= 1, NULL);
+  n = MIN (n, LW_PLOT_MAX_VARIANTS);
+  LwFigureVariant fv[LW_PLOT_MAX_VARIANTS];
+  LwPlotVariant pv[LW_PLOT_MAX_VARIANTS];
+  guint filled = 0;
+  LwPlot *plot = NULL;
+  for (; filled < n; filled++)
     {
-      g_snprintf (err, err_size, "%s", eval->error.message);
-      return NULL;
-    }
-  LwFigureVariant fv;
-  LwError e;
-  if (lw_figure_variant_fill (&fv, variant_name, eval->sampled, eval->ev, &e) != LW_OK)
-    {
-      g_snprintf (err, err_size, "%s", e.message);
-      lw_figure_variant_clear (&fv);
-      return NULL;
+      LwLoopEval *eval = vs[filled].eval;
+      LwError e;
+      if (eval == NULL || eval->ev == NULL)
+        {
+          g_snprintf (err, err_size, "%s: %s", vs[filled].name ? vs[filled].name : "loop",
+                      eval != NULL ? eval->error.message : "not evaluated");
+          goto out;
+        }
+      if (lw_figure_variant_fill (&fv[filled], vs[filled].name, eval->sampled, eval->ev, &e)
+          != LW_OK)
+        {
+          g_snprintf (err, err_size, "%s", e.message);
+          lw_figure_variant_clear (&fv[filled]);
+          goto out;
+        }
+      pv[filled] = fv[filled].v;
+      pv[filled].style = n > 1 ? vs[filled].style : 0;   /* one variant: the first colour */
     }
   LwPlotInput in = {
     .view = view,
-    .nyquist_rad_s = G_PI / eval->ev->period_s,
+    .nyquist_rad_s = G_PI / vs[0].eval->ev->period_s,
     .title = title,
-    .n_variants = 1,
-    .variants = &fv.v,
+    .n_variants = n,
+    .variants = pv,
   };
   if (req != NULL)
     in.req = *req;
-  LwPlot *plot = lw_plot_new (&in, err, err_size);
-  lw_figure_variant_clear (&fv);
+  plot = lw_plot_new (&in, err, err_size);
+out:
+  for (guint i = 0; i < filled; i++)
+    lw_figure_variant_clear (&fv[i]);
   return plot;
 }
 

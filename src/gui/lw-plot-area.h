@@ -77,11 +77,13 @@ void lw_plot_area_reset_view (LwPlotArea *self);
 /* The pane of a view shown by the area (NULL when the area does not show it). */
 LwPlotPane *lw_plot_area_get_pane (LwPlotArea *self, LwPlotView view);
 
-/* A figure of one view of eval, as the CLI's plot builds it (no title unless given, the loop
- * named by variant_name), for export. NULL with a message in err. */
-LwPlot *lw_plot_area_build_plot (LwLoopEval *eval, const LwPlotRequirements *req,
-                                 LwPlotView view, const char *title, const char *variant_name,
-                                 char *err, size_t err_size);
+/* A figure of one view of the variants vs (in this order, each named for the legend and in
+ * its style; one variant alone in the first style), as the CLI's plot builds it (no title
+ * unless given), for export. The Nyquist line is the first variant's. NULL with a message in
+ * err. */
+LwPlot *lw_plot_area_build_plot (const LwAreaVariant *vs, guint n, const LwPlotRequirements *req,
+                                 LwPlotView view, const char *title, char *err,
+                                 size_t err_size);
 
 void lw_plot_area_set_theme (LwPlotArea *self, LwPlotTheme theme);
 

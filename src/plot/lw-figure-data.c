@@ -361,3 +361,37 @@ lw_figure_requirements (LwPlotRequirements *r, double period_s, bool has_target_
   r->has_min_phase_margin = has_min_phase_margin;
   r->min_phase_margin_deg = min_phase_margin_deg;
 }
+
+void
+lw_figure_requirements_add (LwPlotRequirements *r, double period_s, const LwRequirement *req)
+{
+  if (r == NULL || req == NULL || lw_requirement_check (req, NULL) != LW_OK)
+    return;
+  switch (req->kind)
+    {
+    case LW_REQ_MIN_PHASE_MARGIN:
+      if (!r->has_min_phase_margin || req->limit > r->min_phase_margin_deg)
+        r->min_phase_margin_deg = req->limit;
+      r->has_min_phase_margin = true;
+      break;
+    case LW_REQ_MIN_GAIN_MARGIN:
+      if (!r->has_min_gain_margin || req->limit > r->min_gain_margin_db)
+        r->min_gain_margin_db = req->limit;
+      r->has_min_gain_margin = true;
+      break;
+    case LW_REQ_CROSSOVER_RANGE:
+      if (!r->has_target_crossover)
+        {
+          bool pm = r->has_min_phase_margin;
+          double pm_deg = r->min_phase_margin_deg;
+          bool gm = r->has_min_gain_margin;
+          double gm_db = r->min_gain_margin_db;
+          lw_figure_requirements (r, period_s, true, sqrt (req->limit * req->limit_hi), pm, pm_deg);
+          r->has_min_gain_margin = gm;
+          r->min_gain_margin_db = gm_db;
+        }
+      break;
+    default:
+      break;
+    }
+}

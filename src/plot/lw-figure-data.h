@@ -13,6 +13,7 @@
 #include "lw-error.h"
 #include "lw-model.h"
 #include "lw-plot.h"
+#include "lw-require.h"
 
 #ifdef __cplusplus
 extern "C" {
@@ -66,6 +67,14 @@ size_t lw_figure_asymptote (const LwModel *h, double nu_lo, double nu_hi, double
 void lw_figure_requirements (LwPlotRequirements *r, double period_s, bool has_target_crossover,
                              double target_crossover_rad_s, bool has_min_phase_margin,
                              double min_phase_margin_deg);
+
+/* Adds the mark of one of a design's requirements to r (made by lw_figure_requirements): a
+ * minimum phase or gain margin raises that mark to its limit (the strictest shows); the first
+ * crossover range sets the target crossover at its geometric centre √(lo·hi). Other kinds and
+ * requirements that fail lw_requirement_check add nothing. The window, `plot` and `report`
+ * mark a design's requirements this way. */
+void lw_figure_requirements_add (LwPlotRequirements *r, double period_s,
+                                 const LwRequirement *req);
 
 #ifdef __cplusplus
 }

@@ -1,6 +1,11 @@
 #!/usr/bin/python3
-"""The split view in a real window (Xvfb): open a document with four variants, compare all of
-them (Ctrl+Shift+K), turn the split view on (Ctrl+Shift+B) and check that
+"""Compared variants in a real window (Xvfb): open a document with four variants, compare all
+of them (Ctrl+Shift+K), and check that
+0. Export Figure (Ctrl+E, through the test hook LW_TEST_FIGURE_PATH: Bode w, SVG, 800 × 600)
+   writes the four variants overlaid, the same figure as `loopwright-cli plot FILE
+   --all-variants --view bode-w --size 800x600`: byte for byte once cairo's surface ids (a
+   counter of the process, `surfaceN`) are set aside;
+then turn the split view on (Ctrl+Shift+B) and check that
 1. the window reports the split view with the active variant (first in the document) left and
    the next compared one right (`LW-SPLIT on=1 left=1 right=2`, styles = place + 1);
 2. the grid holds Bode z, Bode w and the step response in two columns (`LW-ARRANGE`), each
@@ -14,9 +19,10 @@ them (Ctrl+Shift+K), turn the split view on (Ctrl+Shift+B) and check that
 5. Ctrl+Shift+B again leaves the split view (`LW-SPLIT on=0`) and the grid holds the four
    views of the window again, the Nyquist view among them (`LW-ARRANGE`).
 
-Usage: test-split.py LOOPWRIGHT SCHEMA_DIR DESIGN ARTEFACT_DIR
+Usage: test-compare.py LOOPWRIGHT LOOPWRIGHT-CLI SCHEMA_DIR DESIGN ARTEFACT_DIR
 Re-runs itself under `xvfb-run -a` (exit 77, skipped, when xvfb-run, xdotool, import or
-convert is missing). The screenshot stays in ARTEFACT_DIR/split.png, the window's output in
+convert is missing). The screenshot stays in ARTEFACT_DIR/split.png, the figures in
+ARTEFACT_DIR/compare-window.svg and compare-cli.svg, the window's output in
 ARTEFACT_DIR/split.log.
 """
 import os
@@ -91,18 +97,42 @@ def close(a, b):
     return abs(a - b) <= 1e-9 * max(abs(a), abs(b))
 
 
-def inner(app, schema_dir, design, artefacts):
+def without_surface_ids(path):
+    with open(path, 'rb') as f:
+        return re.sub(rb'surface\d+', b'surface', f.read())
+
+
+def inner(app, cli, schema_dir, design, artefacts):
     os.makedirs(artefacts, exist_ok=True)
-    tmp = tempfile.mkdtemp(prefix='lw-test-split-')
+    tmp = tempfile.mkdtemp(prefix='lw-test-compare-')
     log_path = os.path.join(artefacts, 'split.log')
+    fig_win = os.path.join(artefacts, 'compare-window.svg')
+    fig_cli = os.path.join(artefacts, 'compare-cli.svg')
+    for f in (fig_win, fig_cli):
+        if os.path.exists(f):
+            os.remove(f)
     with open(log_path, 'w') as log_file:
-        proc, wid = start_window(app, design, window_env(schema_dir, tmp), log_file)
+        env = window_env(schema_dir, tmp, LW_TEST_FIGURE_PATH=fig_win,
+                         LW_TEST_FIGURE_VIEW='bode-w')
+        proc, wid = start_window(app, design, env, log_file)
         try:
             time.sleep(0.5)
             key(wid, 'ctrl+shift+k')
             wait_for(lambda: any(f.get('variants') == '4'
                                  for f in debug_lines(log_path, 'LW-SERIES')),
                      'four variants compared')
+            key(wid, 'ctrl+e')
+            wait_for(lambda: os.path.exists(fig_win) and os.path.getsize(fig_win) > 0,
+                     'the exported figure')
+            time.sleep(0.3)
+            r = subprocess.run([cli, 'plot', design, '--all-variants', '--view', 'bode-w',
+                                '--size', '800x600', '--out', fig_cli], capture_output=True,
+                               text=True, timeout=60)
+            if r.returncode != 0:
+                fail('plot --all-variants: exit %d: %s' % (r.returncode, r.stderr))
+            if without_surface_ids(fig_win) != without_surface_ids(fig_cli):
+                fail('the exported figure differs from plot --all-variants (%s, %s)'
+                     % (fig_win, fig_cli))
             mark = n_lines(log_path)
             key(wid, 'ctrl+shift+b')
             sp = wait_for(lambda: split_line(log_path, 1), 'the split view (LW-SPLIT on=1)')
@@ -178,13 +208,14 @@ def inner(app, schema_dir, design, artefacts):
             quit_window(proc, wid)
         finally:
             kill_window(proc)
-    print('split view: two columns, the variants\' colours, linked frequency axes, and back')
+    print('compare: the exported figure equals the CLI\'s; split view: two columns, the '
+          'variants\' colours, linked frequency axes, and back')
 
 
 if __name__ == '__main__':
-    if len(sys.argv) != 5:
-        fail('usage: test-split.py LOOPWRIGHT SCHEMA_DIR DESIGN ARTEFACT_DIR')
-    if os.environ.get('LW_TEST_SPLIT_INNER') != '1':
-        outer(__file__, 'LW_TEST_SPLIT_INNER', sys.argv[1:],
+    if len(sys.argv) != 6:
+        fail('usage: test-compare.py LOOPWRIGHT LOOPWRIGHT-CLI SCHEMA_DIR DESIGN ARTEFACT_DIR')
+    if os.environ.get('LW_TEST_COMPARE_INNER') != '1':
+        outer(__file__, 'LW_TEST_COMPARE_INNER', sys.argv[1:],
               tools=('xvfb-run', 'xdotool', 'import', 'convert'))
     inner(*sys.argv[1:])
