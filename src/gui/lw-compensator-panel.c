@@ -341,6 +341,7 @@ static void
 lw_compensator_panel_init (LwCompensatorPanel *self)
 {
   gtk_widget_init_template (GTK_WIDGET (self));
+  lw_gui_spin_wheel_off (self->period_spin);
   self->compared = g_ptr_array_new_with_free_func (g_free);
   g_signal_connect (self->variant_dropdown, "notify::selected", G_CALLBACK (variant_selected),
                     self);

@@ -36,3 +36,21 @@ lw_gui_set_tooltip (GtkWidget *widget, const char *text)
   if (g_strcmp0 (gtk_widget_get_tooltip_text (widget), text) != 0)
     gtk_widget_set_tooltip_text (widget, text);
 }
+
+void
+lw_gui_spin_wheel_off (GtkSpinButton *spin)
+{
+  g_return_if_fail (GTK_IS_SPIN_BUTTON (spin));
+  GListModel *cs = gtk_widget_observe_controllers (GTK_WIDGET (spin));
+  for (guint i = 0; i < g_list_model_get_n_items (cs); i++)
+    {
+      GObject *c = g_list_model_get_item (cs, i);
+      /* a scroll controller with no direction passes every scroll event on (to the
+       * scrolled window around the panels) */
+      if (GTK_IS_EVENT_CONTROLLER_SCROLL (c))
+        gtk_event_controller_scroll_set_flags (GTK_EVENT_CONTROLLER_SCROLL (c),
+                                               GTK_EVENT_CONTROLLER_SCROLL_NONE);
+      g_object_unref (c);
+    }
+  g_object_unref (cs);
+}

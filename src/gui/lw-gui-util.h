@@ -16,4 +16,10 @@ void lw_gui_label_show_model (GtkLabel *label, const char *prefix, const LwModel
  * where the pointer is, a round trip each time (it dominated a drag's frames). */
 void lw_gui_set_tooltip (GtkWidget *widget, const char *text);
 
+/* The mouse wheel over a number field scrolls the panels instead of changing the number:
+ * reading down the panels must not edit the design (and GTK sends the wheel to the field
+ * that was under the pointer before the panels moved). The arrow keys, Page Up/Down and the
+ * field's − and + buttons still step it. */
+void lw_gui_spin_wheel_off (GtkSpinButton *spin);
+
 G_END_DECLS

@@ -220,4 +220,7 @@ static void
 lw_plant_panel_init (LwPlantPanel *self)
 {
   gtk_widget_init_template (GTK_WIDGET (self));
+  lw_gui_spin_wheel_off (self->dead_time_spin);
+  lw_gui_spin_wheel_off (self->period_spin);
+  lw_gui_spin_wheel_off (self->delay_spin);
 }

@@ -87,6 +87,7 @@ target_spin (LwRequirementsPanel *self, guint i, double value, gboolean hi)
 {
   GtkAdjustment *adj = gtk_adjustment_new (value, -1e9, 1e9, 0.1, 1.0, 0.0);
   GtkWidget *spin = gtk_spin_button_new (adj, 0.0, 3);
+  lw_gui_spin_wheel_off (GTK_SPIN_BUTTON (spin));
   gtk_spin_button_set_numeric (GTK_SPIN_BUTTON (spin), TRUE);
   gtk_editable_set_width_chars (GTK_EDITABLE (spin), 7);
   g_object_set_data (G_OBJECT (spin), "lw-req-index", GUINT_TO_POINTER (i));

@@ -8,6 +8,7 @@
 
 #include <glib/gi18n.h>
 
+#include "lw-gui-util.h"
 #include "lw-stage-row.h"
 
 struct _LwStageRow
@@ -201,6 +202,7 @@ fill (LwStageRow *self)
       GtkAdjustment *adj = gtk_adjustment_new (params[i].value, ui->lower, ui->upper, step,
                                                step * 10.0, 0.0);
       GtkWidget *spin = gtk_spin_button_new (adj, 0.0, (guint) ui->digits);
+      lw_gui_spin_wheel_off (GTK_SPIN_BUTTON (spin));
       gtk_spin_button_set_numeric (GTK_SPIN_BUTTON (spin), TRUE);
       gtk_widget_set_hexpand (spin, TRUE);
       gtk_accessible_update_relation (GTK_ACCESSIBLE (spin), GTK_ACCESSIBLE_RELATION_LABELLED_BY,

@@ -2037,6 +2037,7 @@ lw_window_init (LwWindow *self)
                                                             gtk_named_action_new (early[i].action)));
   gtk_widget_add_controller (GTK_WIDGET (self), sc);
 
+
   GtkDropTarget *drop = gtk_drop_target_new (GDK_TYPE_FILE_LIST, GDK_ACTION_COPY);
   g_signal_connect (drop, "drop", G_CALLBACK (file_dropped), self);
   gtk_widget_add_controller (GTK_WIDGET (self), GTK_EVENT_CONTROLLER (drop));
