@@ -20,6 +20,7 @@ struct _LwCompareTable
   char *shape;                  /* what the cells were made for: names, active, requirements */
   gboolean debug;
   char *debug_last;
+  LwPlotTheme theme;
 };
 
 G_DEFINE_FINAL_TYPE (LwCompareTable, lw_compare_table, GTK_TYPE_WIDGET)
@@ -117,7 +118,7 @@ put (LwCompareTable *self, int col, int row, const char *markup, float xalign, g
 
 void
 lw_compare_table_show (LwCompareTable *self, const char *const *names,
-                       LwLoopEval *const *evals, guint n, guint active,
+                       LwLoopEval *const *evals, const guint *styles, guint n, guint active,
                        const LwDesignRequirement *reqs, guint n_req)
 {
   g_return_if_fail (LW_IS_COMPARE_TABLE (self));
@@ -130,7 +131,7 @@ lw_compare_table_show (LwCompareTable *self, const char *const *names,
       return;
     }
   g_autoptr (GString) shape = g_string_new (NULL);
-  g_string_append_printf (shape, "%u %u %u", n, active, n_req);
+  g_string_append_printf (shape, "%u %u %u %d", n, active, n_req, (int) self->theme);
   for (guint j = 0; j < n; j++)
     g_string_append_printf (shape, "\x1f%s", names[j]);
   for (guint i = 0; i < n_req; i++)
@@ -147,9 +148,22 @@ lw_compare_table_show (LwCompareTable *self, const char *const *names,
   for (guint j = 0; j < n; j++)
     {
       g_autofree char *esc = g_markup_escape_text (names[j], -1);
+      /* a sample of the variant's colour, as in the plots' key */
+      g_autofree char *sample = NULL;
+      if (styles != NULL && styles[j] >= 1)
+        {
+          double rgb[3];
+          lw_plot_variant_colour (self->theme, styles[j] - 1, rgb);
+          sample = g_strdup_printf ("<span foreground=\"#%02x%02x%02x\">\u2501\u2501</span> ",
+                                    (unsigned) lround (255 * rgb[0]),
+                                    (unsigned) lround (255 * rgb[1]),
+                                    (unsigned) lround (255 * rgb[2]));
+        }
+      g_autofree char *name = g_strdup_printf ("%s<b>%s</b>", sample ? sample : "", esc);
       g_autofree char *head = j == active
-                                ? g_strdup_printf (_("<b>%s</b> (active)"), esc)
-                                : g_strdup_printf ("<b>%s</b>", esc);
+                                /* TRANSLATORS: %s is the variant's name (with markup) */
+                                ? g_strdup_printf (_("%s (active)"), name)
+                                : g_strdup (name);
       put (self, (int) j + 1, 0, head, 1, FALSE);
     }
 
@@ -272,4 +286,11 @@ LwCompareTable *
 lw_compare_table_new (void)
 {
   return g_object_new (LW_TYPE_COMPARE_TABLE, NULL);
+}
+
+void
+lw_compare_table_set_theme (LwCompareTable *self, LwPlotTheme theme)
+{
+  g_return_if_fail (LW_IS_COMPARE_TABLE (self));
+  self->theme = theme;
 }

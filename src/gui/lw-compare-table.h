@@ -15,6 +15,7 @@
 #include <gtk/gtk.h>
 
 #include "lw-design-model.h"
+#include "lw-plot.h"
 
 G_BEGIN_DECLS
 
@@ -23,10 +24,14 @@ G_DECLARE_FINAL_TYPE (LwCompareTable, lw_compare_table, LW, COMPARE_TABLE, GtkWi
 
 LwCompareTable *lw_compare_table_new (void);
 
-/* Shows n variants (names[i], evals[i]; an evaluation may have failed) with the active one
- * at index active, and the design's requirements (n_req, labels and limits). */
+/* Shows n variants (names[i], evals[i]; an evaluation may have failed; styles[i] the
+ * variant's colour as LwPlotVariant.style, shown as a sample before its name, or NULL) with
+ * the active one at index active, and the design's requirements (n_req, labels and limits). */
 void lw_compare_table_show (LwCompareTable *self, const char *const *names,
-                            LwLoopEval *const *evals, guint n, guint active,
-                            const LwDesignRequirement *reqs, guint n_req);
+                            LwLoopEval *const *evals, const guint *styles, guint n,
+                            guint active, const LwDesignRequirement *reqs, guint n_req);
+
+/* The theme of the colour samples (as the plots'). */
+void lw_compare_table_set_theme (LwCompareTable *self, LwPlotTheme theme);
 
 G_END_DECLS

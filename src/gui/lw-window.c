@@ -247,7 +247,10 @@ show_handles_and_plots (LwWindow *self)
   lw_plot_area_show_variants (self->plot_area, vs, n, active, &req, v->stages,
                               (guint) v->n_stages, self->gain_pin_nu, self->sel_stage,
                               self->sel_corner, self->dragging);
-  lw_compare_table_show (self->compare_table, names, evals, n, active, d->requirements,
+  guint styles[LW_PLOT_MAX_VARIANTS];
+  for (guint i = 0; i < n; i++)
+    styles[i] = vs[i].style;
+  lw_compare_table_show (self->compare_table, names, evals, styles, n, active, d->requirements,
                          (guint) d->n_requirements);
 }
 
@@ -1585,6 +1588,8 @@ follow_theme (LwWindow *self)
   gboolean dark = FALSE;
   g_object_get (gtk_settings_get_default (), "gtk-application-prefer-dark-theme", &dark, NULL);
   lw_plot_area_set_theme (self->plot_area, dark ? LW_PLOT_THEME_DARK : LW_PLOT_THEME_LIGHT);
+  lw_compare_table_set_theme (self->compare_table,
+                              dark ? LW_PLOT_THEME_DARK : LW_PLOT_THEME_LIGHT);
 }
 
 /* ---- actions ------------------------------------------------------------------------------- */
