@@ -1,6 +1,6 @@
-"""Helpers shared by the window tests that drive a real window under Xvfb (test-report.py,
-test-metrics.py): re-running under xvfb-run, waiting, keys through xdotool, the window's
-environment, and reading its debug lines (LW_DEBUG_HANDLES=1)."""
+"""Helpers shared by the window tests that drive a real window under Xvfb: re-running under
+xvfb-run, waiting, keys through xdotool, the window's environment, saving, and reading its
+debug lines (LW_DEBUG_HANDLES=1)."""
 import os
 import shutil
 import subprocess
@@ -99,6 +99,17 @@ def quit_window(proc, wid):
         fail('loopwright did not quit within 15 s of Ctrl+Q')
     if status != 0:
         fail('loopwright exited with status %d' % status)
+
+
+def saved_after(wid, path, keys='ctrl+s'):
+    """Saves with keys (Ctrl+S) and gives the bytes written, once path's time has changed."""
+    before = os.stat(path).st_mtime_ns if os.path.exists(path) else 0
+    key(wid, keys)
+    wait_for(lambda: os.path.exists(path) and os.stat(path).st_mtime_ns != before,
+             'the document to be saved (' + keys + ')')
+    time.sleep(0.2)
+    with open(path, 'rb') as f:
+        return f.read()
 
 
 def kill_window(proc):

@@ -24,7 +24,7 @@ import xml.etree.ElementTree as ET
 
 sys.path.insert(0, os.path.dirname(os.path.abspath(__file__)))
 import lwgui  # noqa: E402
-from lwgui import fail, find_window, key, run  # noqa: E402
+from lwgui import fail, find_window, key, run, saved_after  # noqa: E402
 
 NS = '{urn:loopwright:design}'
 TARGET_RATIO = 2.5    # about how far the drag moves the zero (it must stay below the pole)
@@ -73,16 +73,6 @@ class Log:
 
     def count(self, prefix):
         return sum(1 for line in self.lines() if line.startswith(prefix))
-
-
-def saved_after(wid, path, keys='ctrl+s'):
-    before = os.stat(path).st_mtime_ns if os.path.exists(path) else 0
-    key(wid, keys)
-    wait_for(lambda: os.path.exists(path) and os.stat(path).st_mtime_ns != before,
-             'the document to be saved (' + keys + ')')
-    time.sleep(0.2)
-    with open(path, 'rb') as f:
-        return f.read()
 
 
 def inner(app, cli, schema_dir, example, artefacts):

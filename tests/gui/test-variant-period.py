@@ -19,7 +19,7 @@ import time
 
 sys.path.insert(0, os.path.dirname(os.path.abspath(__file__)))
 from lwgui import (debug_lines, fail, key, kill_window, outer, quit_window, run,  # noqa: E402
-                   start_window, wait_for, window_env)
+                   saved_after, start_window, wait_for, window_env)
 
 
 def last(log_path, prefix, **match):
@@ -28,15 +28,6 @@ def last(log_path, prefix, **match):
         if all(f.get(k) == str(v) for k, v in match.items()):
             found = f
     return found
-
-
-def saved_after(wid, path):
-    before = os.stat(path).st_mtime_ns
-    key(wid, 'ctrl+s')
-    wait_for(lambda: os.stat(path).st_mtime_ns != before, 'the document to be saved')
-    time.sleep(0.2)
-    with open(path, 'rb') as f:
-        return f.read()
 
 
 def inner(app, schema_dir, example, artefacts):

@@ -24,7 +24,7 @@ import numpy as np
 
 sys.path.insert(0, os.path.dirname(os.path.abspath(__file__)))
 import lwgui  # noqa: E402
-from lwgui import fail, find_window, key, run  # noqa: E402
+from lwgui import fail, find_window, key, run, saved_after  # noqa: E402
 
 # The first four variant colours of the light theme (PALETTE_LIGHT in src/plot/lw-plot.c).
 PALETTE = [(0x00, 0x72, 0xb2), (0xd5, 0x5e, 0x00), (0x00, 0x9e, 0x73), (0xcc, 0x79, 0xa7)]
@@ -60,15 +60,6 @@ class Log:
             if all(fields.get(k) == str(v) for k, v in match.items()):
                 return fields
         return None
-
-
-def saved_after(wid, path):
-    before = os.stat(path).st_mtime_ns
-    key(wid, 'ctrl+s')
-    wait_for(lambda: os.stat(path).st_mtime_ns != before, 'the document to be saved')
-    time.sleep(0.2)
-    with open(path, 'rb') as f:
-        return f.read()
 
 
 def variant_xml(doc, name):

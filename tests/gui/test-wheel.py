@@ -18,17 +18,8 @@ import tempfile
 import time
 
 sys.path.insert(0, os.path.dirname(os.path.abspath(__file__)))
-from lwgui import (debug_lines, fail, key, kill_window, outer, quit_window, run,  # noqa: E402
-                   start_window, wait_for, window_env)
-
-
-def saved(wid, path):
-    before = os.stat(path).st_mtime_ns
-    key(wid, 'ctrl+s')
-    wait_for(lambda: os.stat(path).st_mtime_ns != before, 'the design to be saved')
-    time.sleep(0.2)
-    with open(path, 'rb') as f:
-        return f.read()
+from lwgui import (debug_lines, fail, kill_window, outer, quit_window, run,  # noqa: E402
+                   saved_after, start_window, wait_for, window_env)
 
 
 def inner(app, schema_dir, example):
@@ -42,7 +33,7 @@ def inner(app, schema_dir, example):
         try:
             wait_for(lambda: list(debug_lines(log_path, 'LW-HANDLE')), 'the plots')
             time.sleep(0.5)
-            doc0 = saved(wid, design)
+            doc0 = saved_after(wid, design)
             geo = run('xdotool', 'getwindowgeometry', wid)
             m = re.search(r'Position: (-?\d+),(-?\d+)', geo)
             wx, wy = int(m.group(1)), int(m.group(2))
@@ -55,7 +46,7 @@ def inner(app, schema_dir, example):
             if title.startswith('\u2022'):
                 fail('the wheel marked the design changed (title %r)' % title)
             os.utime(design, (time.time() - 10, time.time() - 10))
-            doc1 = saved(wid, design)
+            doc1 = saved_after(wid, design)
             if doc1 != doc0:
                 fail('the wheel over the panels changed the design')
             quit_window(proc, wid)

@@ -7,21 +7,13 @@ Re-runs itself under `xvfb-run -a` (exit 77, skipped, when xvfb-run is missing).
 stay in ARTEFACT_DIR (screen.png, window.png, plots.png).
 """
 import os
-import shutil
 import subprocess
 import sys
 import time
 
-SCREEN = '1600x1000x24'
-
-
-def fail(msg):
-    print('FAIL: ' + msg, file=sys.stderr)
-    sys.exit(1)
-
-
-def run(*cmd, check=True):
-    return subprocess.run(cmd, check=check, capture_output=True, text=True).stdout.strip()
+sys.path.insert(0, os.path.dirname(os.path.abspath(__file__)))
+import lwgui  # noqa: E402
+from lwgui import fail, run  # noqa: E402
 
 
 def image_figure(path, fx, crop=None):
@@ -38,17 +30,8 @@ def image_figure(path, fx, crop=None):
 
 
 def outer(argv):
-    if shutil.which('xvfb-run') is None:
-        print('xvfb-run not found: skipped')
-        sys.exit(77)
-    for tool in ('xdotool', 'import', 'convert'):
-        if shutil.which(tool) is None:
-            print(tool + ' not found: skipped')
-            sys.exit(77)
-    env = dict(os.environ, LW_TEST_WINDOW_INNER='1')
-    r = subprocess.run(['xvfb-run', '-a', '-s', '-screen 0 ' + SCREEN, sys.executable,
-                        os.path.abspath(__file__)] + argv, env=env)
-    sys.exit(r.returncode)
+    lwgui.outer(__file__, 'LW_TEST_WINDOW_INNER', argv,
+                tools=('xvfb-run', 'xdotool', 'import', 'convert'))
 
 
 def inner(app, schema_dir, artefacts):
