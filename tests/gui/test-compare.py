@@ -35,8 +35,8 @@ import time
 import numpy as np
 
 sys.path.insert(0, os.path.dirname(os.path.abspath(__file__)))
-from lwgui import (debug_lines, fail, key, kill_window, outer, quit_window, run,  # noqa: E402
-                   start_window, wait_for, window_env)
+from lwgui import (debug_lines, fail, key, kill_window, lsan_options, outer,  # noqa: E402
+                   quit_window, run, start_window, wait_for, window_env)
 
 # The first two variant colours of the light theme (PALETTE_LIGHT in src/plot/lw-plot.c);
 # tolerance as in test-variants.py. Only the magnitude panel of a pane is counted (its
@@ -127,7 +127,9 @@ def inner(app, cli, schema_dir, design, artefacts):
             time.sleep(0.3)
             r = subprocess.run([cli, 'plot', design, '--all-variants', '--view', 'bode-w',
                                 '--size', '800x600', '--out', fig_cli], capture_output=True,
-                               text=True, timeout=60)
+                               text=True, timeout=60,
+                               # under the sanitizer build: fontconfig's cache, kept to exit
+                               env=dict(os.environ, LSAN_OPTIONS=lsan_options()))
             if r.returncode != 0:
                 fail('plot --all-variants: exit %d: %s' % (r.returncode, r.stderr))
             if without_surface_ids(fig_win) != without_surface_ids(fig_cli):
