@@ -24,7 +24,8 @@ import xml.etree.ElementTree as ET
 
 sys.path.insert(0, os.path.dirname(os.path.abspath(__file__)))
 import lwgui  # noqa: E402
-from lwgui import fail, find_window, key, run, saved_after  # noqa: E402
+from lwgui import (fail, find_window, key, kill_window, quit_window, run,  # noqa: E402
+                   saved_after)
 
 NS = '{urn:loopwright:design}'
 TARGET_RATIO = 2.5    # about how far the drag moves the zero (it must stay below the pole)
@@ -207,17 +208,9 @@ def inner(app, cli, schema_dir, example, artefacts):
         if doc_d != doc_a:
             fail('the design changed after a failed open')
 
-        key(wid, 'ctrl+q')
-        try:
-            status = proc.wait(timeout=15)
-        except subprocess.TimeoutExpired:
-            fail('loopwright did not quit within 15 s of Ctrl+Q')
-        if status != 0:
-            fail('loopwright exited with status %d' % status)
+        quit_window(proc, wid)
     finally:
-        if proc.poll() is None:
-            proc.kill()
-            proc.wait()
+        kill_window(proc)
         log_file.close()
         shutil.rmtree(tmp, ignore_errors=True)
     print('ok: drag moved the lead zero by the expected ratio, margins follow, undo exact, '

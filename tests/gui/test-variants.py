@@ -24,7 +24,8 @@ import numpy as np
 
 sys.path.insert(0, os.path.dirname(os.path.abspath(__file__)))
 import lwgui  # noqa: E402
-from lwgui import fail, find_window, key, run, saved_after  # noqa: E402
+from lwgui import (fail, find_window, key, kill_window, quit_window, run,  # noqa: E402
+                   saved_after)
 
 # The first four variant colours of the light theme (PALETTE_LIGHT in src/plot/lw-plot.c).
 PALETTE = [(0x00, 0x72, 0xb2), (0xd5, 0x5e, 0x00), (0x00, 0x9e, 0x73), (0xcc, 0x79, 0xa7)]
@@ -189,17 +190,9 @@ def inner(app, schema_dir, example, artefacts):
         if saved_after(wid, design) != doc_a:
             fail('redo does not bring the copy back')
 
-        key(wid, 'ctrl+q')
-        try:
-            status = proc.wait(timeout=15)
-        except subprocess.TimeoutExpired:
-            fail('loopwright did not quit within 15 s of Ctrl+Q')
-        if status != 0:
-            fail('loopwright exited with status %d' % status)
+        quit_window(proc, wid)
     finally:
-        if proc.poll() is None:
-            proc.kill()
-            proc.wait()
+        kill_window(proc)
         log_file.close()
         shutil.rmtree(tmp, ignore_errors=True)
     print('ok: a copied variant edits alone, the reference stays byte for byte, undo is one '
