@@ -285,11 +285,8 @@ static Prim *
 margin_label (Panel *pn, double x, double y, const char *text, double dx, double dy, double ax,
               double ay, size_t v)
 {
-  Prim *t = add_text (pn, x, y, text, dx, dy, ax, ay);
+  Prim *t = style_variant (add_text (pn, x, y, text, dx, dy, ax, ay), v, THIN_WIDTH);
   t->plate = true;
-  t->colour = COL_VARIANT;
-  t->variant = v;
-  t->owner = (long) v;
   t->label = true;
   return t;
 }

@@ -82,15 +82,7 @@ def inner(app, cli, schema_dir, example, artefacts):
     design = os.path.join(tmp, 'design.lwd')
     shutil.copyfile(example, design)
     os.utime(design, (time.time() + 5, time.time() + 5))   # newer than any autosave here
-    env = dict(os.environ, GTK_A11Y='none', GSK_RENDERER='cairo', GDK_DEBUG='gl-disable',
-               GSETTINGS_SCHEMA_DIR=schema_dir, GSETTINGS_BACKEND='memory', LANGUAGE='C',
-               LC_ALL='C.UTF-8', LW_DEBUG_HANDLES='1', XDG_STATE_HOME=os.path.join(tmp, 'state'),
-               XDG_DATA_HOME=os.path.join(tmp, 'data'), HOME=tmp)
-    env.pop('DBUS_SESSION_BUS_ADDRESS', None)
-    supp = os.path.join(os.path.dirname(os.path.abspath(__file__)), 'lsan.supp')
-    env['LSAN_OPTIONS'] = ':'.join(filter(None, [os.environ.get('LSAN_OPTIONS'),
-                                                 'suppressions=' + supp,
-                                                 'print_suppressions=0']))
+    env = lwgui.window_env(schema_dir, tmp)
     log_path = os.path.join(artefacts, 'edit.log')
     log_file = open(log_path, 'w')
     log = Log(log_path)
