@@ -182,17 +182,6 @@ lw_cli_report_core_error (const char *place, const LwError *err)
   return LW_EXIT_INTERNAL;
 }
 
-char *
-lw_cli_format_model (const LwModel *m)
-{
-  char small[256];
-  size_t need = lw_model_format (m, 6, small, sizeof small);
-  if (need < sizeof small)
-    return g_strdup (small);
-  char *big = g_malloc (need + 1);
-  lw_model_format (m, 6, big, need + 1);
-  return big;
-}
 
 
 void

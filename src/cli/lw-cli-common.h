@@ -42,9 +42,6 @@ int lw_cli_report_expr_error (const char *option, const char *text, const LwErro
 /* Exit status and message for a failed core call outside parsing. */
 int lw_cli_report_core_error (const char *place, const LwError *err);
 
-/* Factored text of a model (6 significant digits); g_free the result. */
-char *lw_cli_format_model (const LwModel *m);
-
 /* The loop options, as strings until checked (NULL when not given). */
 typedef struct
 {

@@ -67,86 +67,70 @@ lw_cli_doc_variant (const LwDesign *d, const char *option, const char *name, siz
 }
 
 int
-lw_cli_doc_loop_build (const char *place, const LwDesign *d, size_t index, LwCliLoop *out)
+lw_cli_report_gerror (const char *place, const GError *error)
 {
-  memset (out, 0, sizeof *out);
-  g_return_val_if_fail (index < d->n_variants, LW_EXIT_INTERNAL);
-  const LwDesignVariant *v = &d->variants[index];
-  out->period_s = lw_design_variant_period_s (d, index);   /* its own, or the design's */
-  out->dead_time_s = d->dead_time_s;
-  out->compute_delay = d->compute_delay;
-  LwError err;
-  lw_error_clear (&err);
-  int status = LW_EXIT_OK;
-  /* The loader has parsed the plant already; a failure here is reported the same way. */
-  if (lw_expr_parse_proper (d->plant, LW_DOMAIN_S, 0.0, &out->plant_s, &err) != LW_OK)
+  if (error->domain == LW_ENGINE_ERROR
+      && (error->code == LW_ERR_PARSE || error->code == LW_ERR_INVALID))
     {
-      g_autofree char *where = g_strdup_printf ("%s: <plant>", place);
-      status = lw_cli_report_core_error (where, &err);
-      goto fail;
+      lw_cli_bad_input (place, "%s", error->message);
+      return LW_EXIT_BAD_INPUT;
     }
-  if (lw_compensator_w (v->stages, v->n_stages, out->period_s, &out->controller_w, &err) != LW_OK
-      || lw_compensator_z (v->stages, v->n_stages, out->period_s, &out->controller_z, &err)
-           != LW_OK)
-    {
-      g_autofree char *where = g_strdup_printf ("%s: variant '%s'", place, v->name);
-      status = lw_cli_report_core_error (where, &err);
-      goto fail;
-    }
-  if (lw_sampled_plant_new (out->plant_s, out->dead_time_s, out->period_s, &out->sampled, &err)
-      != LW_OK)
-    {
-      g_autofree char *where = g_strdup_printf ("%s: <plant>", place);
-      status = lw_cli_report_core_error (where, &err);
-      goto fail;
-    }
-  return LW_EXIT_OK;
+  lw_cli_bad_input (place, "internal failure: %s",
+                    error->message[0] ? error->message : "unknown error");
+  return LW_EXIT_INTERNAL;
+}
 
-fail:
-  lw_cli_loop_clear (out);
+/* The failures of an evaluation made, reported as the commands always have. */
+static int
+report_eval (const char *variant_place, const char *plant_place, LwVariantEval *e,
+             gboolean strict, gboolean need_achieved, LwVariantEval **out)
+{
+  int status = LW_EXIT_OK;
+  if (e->failure != LW_EVAL_OK)
+    status = lw_cli_report_gerror (e->failure == LW_EVAL_FAILED_PLANT
+                                     || e->failure == LW_EVAL_FAILED_SAMPLING
+                                   ? plant_place : variant_place, e->error);
+  else if (strict && e->sim_error != NULL)
+    status = lw_cli_report_gerror (variant_place, e->sim_error);
+  else if (strict && need_achieved && !e->has_achieved)
+    {
+      lw_cli_report_gerror ("requirements", e->achieved_error);
+      status = LW_EXIT_INTERNAL;
+    }
+  if (status != LW_EXIT_OK)
+    {
+      lw_variant_eval_unref (e);
+      e = NULL;
+    }
+  *out = e;
   return status;
 }
 
 int
-lw_cli_doc_requirements (const LwDesign *d, const LwEvaluation *ev, const LwModel *plant_s,
-                         const LwSimResponse *sim_ref, LwReqResult *out)
+lw_cli_doc_evaluate (const char *place, const LwDesign *d, size_t index,
+                     const LwEngineOptions *opts, gboolean strict, LwVariantEval **out)
 {
-  LwAchieved a;
-  LwError err;
-  lw_error_clear (&err);
-  if (lw_achieved_from_evaluation (ev, plant_s, &a, &err) != LW_OK)
-    {
-      lw_cli_report_core_error ("requirements", &err);
-      return -1;
-    }
-  if (sim_ref != NULL && sim_ref->n > 0)
-    {
-      double peak = 0.0;
-      for (size_t k = 0; k < sim_ref->n; k++)
-        peak = fmax (peak, fabs (sim_ref->u[k]));
-      a.has_actuator_peak = true;
-      a.actuator_peak = peak;
-    }
-  int not_passing = 0;
-  for (size_t i = 0; i < d->n_requirements; i++)
-    {
-      out[i] = lw_requirement_evaluate (&d->requirements[i].req, &a);
-      if (out[i].status != LW_REQ_PASS)
-        not_passing++;
-    }
-  return not_passing;
+  g_return_val_if_fail (index < d->n_variants, LW_EXIT_INTERNAL);
+  LwVariantEval *e = lw_engine_evaluate_variant (d, index, opts, NULL);
+  g_autofree char *vplace = g_strdup_printf ("%s: variant '%s'", place, d->variants[index].name);
+  g_autofree char *pplace = g_strdup_printf ("%s: <plant>", place);
+  return report_eval (vplace, pplace, e, strict, TRUE, out);
 }
 
-static const char *
-status_word (LwReqStatus s)
+int
+lw_cli_loop_evaluate (const char *place, const LwCliLoop *lp, const LwEngineOptions *opts,
+                      gboolean strict, LwVariantEval **out)
 {
-  switch (s)
-    {
-    case LW_REQ_PASS: return "pass";
-    case LW_REQ_FAIL: return "fail";
-    case LW_REQ_NOT_AVAILABLE: return "not-available";
-    }
-  return "unknown";
+  LwEngineLoop loop = {
+    .plant_s = lp->plant_s,
+    .sampled = lp->sampled,
+    .controller_w = lp->controller_w,
+    .controller_z = lp->controller_z,
+    .dead_time_s = lp->dead_time_s,
+    .compute_delay = lp->compute_delay,
+  };
+  return report_eval (place, place, lw_engine_evaluate_loop (&loop, opts), strict, FALSE,
+                      out);
 }
 
 void
@@ -180,34 +164,10 @@ lw_cli_doc_json_requirements (JsonBuilder *b, const LwDesign *d, const LwReqResu
       json_builder_set_member_name (b, "pass");
       json_builder_add_boolean_value (b, res[i].status == LW_REQ_PASS);
       json_builder_set_member_name (b, "status");
-      json_builder_add_string_value (b, status_word (res[i].status));
+      json_builder_add_string_value (b, lw_req_status_word (res[i].status));
       json_builder_end_object (b);
     }
   json_builder_end_array (b);
-}
-
-char *
-lw_cli_doc_target_text (const LwRequirement *r)
-{
-  const char *unit = lw_req_kind_unit (r->kind);
-  const char *sep = strcmp (unit, "%") == 0 ? "" : " ";
-  switch (r->kind)
-    {
-    case LW_REQ_MIN_PHASE_MARGIN:
-    case LW_REQ_MIN_GAIN_MARGIN:
-      return g_strdup_printf ("at least %.6g%s%s", r->limit, sep, unit);
-    case LW_REQ_CROSSOVER_RANGE:
-      return g_strdup_printf ("%.6g to %.6g %s", r->limit, r->limit_hi, unit);
-    case LW_REQ_MAX_SENSITIVITY:
-    case LW_REQ_MAX_STEP_ERROR:
-    case LW_REQ_MAX_RAMP_ERROR:
-    case LW_REQ_MAX_OVERSHOOT:
-    case LW_REQ_MAX_RISE_TIME:
-    case LW_REQ_MAX_SETTLING_TIME:
-    case LW_REQ_MAX_ACTUATOR:
-      return g_strdup_printf ("at most %.6g%s%s", r->limit, sep, unit);
-    }
-  return g_strdup ("?");
 }
 
 void
@@ -226,7 +186,7 @@ lw_cli_doc_print_requirements (const LwDesign *d, const LwReqResult *res)
   for (size_t i = 0; i < d->n_requirements; i++)
     {
       const LwDesignRequirement *r = &d->requirements[i];
-      g_autofree char *target = lw_cli_doc_target_text (&r->req);
+      g_autofree char *target = lw_requirement_target_text (&r->req);
       char achieved[64];
       const char *unit = lw_req_kind_unit (r->req.kind);
       if (res[i].status == LW_REQ_NOT_AVAILABLE || isnan (res[i].achieved))

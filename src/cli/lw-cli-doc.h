@@ -13,6 +13,7 @@
 
 #include "lw-cli-common.h"
 #include "lw-design.h"
+#include "lw-engine.h"
 #include "lw-require.h"
 #include "lw-simulate.h"
 
@@ -35,18 +36,21 @@ int lw_cli_doc_load (const char *path, LwDesign **out);
  * `option` and the variants there are, and returns LW_EXIT_BAD_INPUT, when there is none. */
 int lw_cli_doc_variant (const LwDesign *d, const char *option, const char *name, size_t *index);
 
-/* The sampled loop of variant `index`: the plant parsed, the compensator of the stages mapped
- * to z at the variant's sample period (lw_design_variant_period_s: its override, else the
- * design's), the computation delay and dead time of the design. `place` names the file in
- * messages. Returns LW_EXIT_OK or the exit status after printing the message. */
-int lw_cli_doc_loop_build (const char *place, const LwDesign *d, size_t index, LwCliLoop *out);
+/* Evaluates variant `index` of d through the engine (lw-engine.h; opts NULL: its defaults).
+ * `place` names the file in messages: a plant or sampling failure is reported at
+ * "PLACE: <plant>", the others at "PLACE: variant 'NAME'". With strict, a failed simulation or
+ * failed achieved figures are errors too (the commands that report them). Returns LW_EXIT_OK
+ * with *out set, or the exit status after printing the message (*out NULL). */
+int lw_cli_doc_evaluate (const char *place, const LwDesign *d, size_t index,
+                         const LwEngineOptions *opts, gboolean strict, LwVariantEval **out);
 
-/* Evaluates every requirement of d (out: room for d->n_requirements). The actuator peak is
- * max |u| of sim_ref (the unit reference step) when sim_ref is not NULL, else not available.
- * Returns the number that do not pass (failed or not available), or -1 after printing a
- * message when the figures could not be computed. */
-int lw_cli_doc_requirements (const LwDesign *d, const LwEvaluation *ev, const LwModel *plant_s,
-                             const LwSimResponse *sim_ref, LwReqResult *out);
+/* The same for a loop given by the loop options (lp must outlive *out); failures are
+ * reported at `place`; strict covers the simulation only (no requirements to judge). */
+int lw_cli_loop_evaluate (const char *place, const LwCliLoop *lp, const LwEngineOptions *opts,
+                          gboolean strict, LwVariantEval **out);
+
+/* Reports an engine error at place: exit 2 for bad input (parse, invalid), else 1. */
+int lw_cli_report_gerror (const char *place, const GError *error);
 
 /* A JSON array value: one object per requirement with name, kind, unit, target (a number, or
  * [low, high] for a range), achieved (null when not available), slack, pass (bool) and status
@@ -55,9 +59,6 @@ void lw_cli_doc_json_requirements (JsonBuilder *b, const LwDesign *d, const LwRe
 
 /* The requirements as a table on stdout (indented two spaces). */
 void lw_cli_doc_print_requirements (const LwDesign *d, const LwReqResult *res);
-
-/* "at least 45 deg", "from 20 to 60 rad/s" …; g_free the result. */
-char *lw_cli_doc_target_text (const LwRequirement *r);
 
 /* With a design document (file) the loop options are refused: prints "unexpected argument
  * FILE … cannot be combined with --OPTION" naming the first one given and returns

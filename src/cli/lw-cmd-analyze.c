@@ -14,14 +14,10 @@
 #include "lw-cli-json.h"
 #include "lw-simulate.h"
 
-/* Common practice, no source: 10 to 30 samples per closed-loop rise time. */
-#define SAMPLES_PER_RISE_MIN 10.0
-#define SAMPLES_PER_RISE_MAX 30.0
-
 static void
 print_model (const char *label, const LwModel *m, const char *remark)
 {
-  g_autofree char *text = lw_cli_format_model (m);
+  g_autofree char *text = lw_model_text (m);
   printf ("  %-14s %s%s%s\n", label, text, remark ? "    " : "", remark ? remark : "");
 }
 
@@ -206,15 +202,19 @@ print_report (const LwModel *plant_s, double dead_time_s, const LwEvaluation *ev
   print_verification (so, ref, din, dout);
 
   printf ("\n");
-  if (step->has_rise && step->rise_time_s > 0.0)
+  double per_rise;
+  switch (lw_engine_sampling_advice (step, T, &per_rise))
     {
-      double per_rise = step->rise_time_s / T;
-      if (per_rise < SAMPLES_PER_RISE_MIN)
-        printf ("note: %.3g samples per closed-loop rise time, fewer than the usual 10 to 30 "
-                "(common practice); consider a shorter period\n", per_rise);
-      else if (per_rise > SAMPLES_PER_RISE_MAX)
-        printf ("note: %.3g samples per closed-loop rise time, more than the usual 10 to 30 "
-                "(common practice); a longer period would do\n", per_rise);
+    case LW_SAMPLING_ADVICE_TOO_FEW:
+      printf ("note: %.3g samples per closed-loop rise time, fewer than the usual 10 to 30 "
+              "(common practice); consider a shorter period\n", per_rise);
+      break;
+    case LW_SAMPLING_ADVICE_TOO_MANY:
+      printf ("note: %.3g samples per closed-loop rise time, more than the usual 10 to 30 "
+              "(common practice); a longer period would do\n", per_rise);
+      break;
+    case LW_SAMPLING_ADVICE_NONE:
+      break;
     }
   printf ("caution: simulation is not validation; commission with safe limits.\n");
 }
@@ -355,65 +355,33 @@ analyze_spec (const AnalyzeArgs *a, AnalyzeSpec *sp)
   return LW_EXIT_OK;
 }
 
-/* Analyzes one loop: prints the text report, or (json) returns the JSON object in *json.
- * design/index: the document and variant the loop is from (design NULL: inline options). */
+/* The engine's options for the analysis options given. */
+static void
+engine_options (const AnalyzeSpec *spec, LwEngineOptions *eo)
+{
+  lw_engine_options_init (eo);
+  eo->n_points = spec->opts.n_points;
+  eo->n_steps = spec->opts.n_steps;
+  eo->sim = spec->so;
+  eo->disturbances = TRUE;
+}
+
+/* Prints the analysis of one evaluated loop as text, or (json) returns the JSON object in
+ * *json. design/index: the document and variant the loop is from (design NULL: inline
+ * options). */
 static int
-analyze_loop_run (const AnalyzeArgs *a, const AnalyzeSpec *spec, const LwCliLoop *lp,
+analyze_loop_run (const AnalyzeArgs *a, const AnalyzeSpec *spec, const LwVariantEval *e,
                   const LwDesign *design, size_t index, JsonNode **json)
 {
-  LwAnalysisOptions opts = spec->opts;
-  LwSimOptions so = spec->so;
-  opts.compute_delay = lp->compute_delay;
-  so.compute_delay = lp->compute_delay;
-  int status = LW_EXIT_OK;
-  LwEvaluation *ev = NULL;
-  LwSimPlan *plan = NULL;
-  LwSimResponse *sim_ref = NULL, *sim_in = NULL, *sim_out = NULL;
-  LwReqResult *req = NULL;
-  LwError err;
-  lw_error_clear (&err);
-  g_autofree char *place = design != NULL
-    ? g_strdup_printf ("%s: variant '%s'", a->files[0], design->variants[index].name)
-    : g_strdup ("analyze");
-  if (lw_evaluate (lp->sampled, lp->controller_z, &opts, &ev, &err) != LW_OK)
-    {
-      status = lw_cli_report_core_error (place, &err);
-      goto out;
-    }
-  if (lw_sim_plan_new (lp->sampled, lp->controller_z, &so, &plan, &err) != LW_OK
-      || lw_sim_run (plan, LW_SIM_REFERENCE_STEP, 1.0, &sim_ref, &err) != LW_OK
-      || lw_sim_run (plan, LW_SIM_INPUT_DISTURBANCE_STEP, 1.0, &sim_in, &err) != LW_OK
-      || lw_sim_run (plan, LW_SIM_OUTPUT_DISTURBANCE_STEP, 1.0, &sim_out, &err) != LW_OK)
-    {
-      status = lw_cli_report_core_error (place, &err);
-      goto out;
-    }
-  /* With limits the step is the limited loop's, its figures measured against the linear
-   * loop's final value (docs/simulation.md); without limits it is lw_evaluate's. */
-  LwStep step = ev->step;
-  if (so.has_limits)
-    {
-      step.samples = sim_ref->y;
-      step.n = sim_ref->n;
-      lw_step_figures (&step, ev->period_s);
-    }
-  if (design != NULL)
-    {
-      req = g_new0 (LwReqResult, design->n_requirements + 1);
-      if (lw_cli_doc_requirements (design, ev, lp->plant_s, sim_ref, req) < 0)
-        {
-          status = LW_EXIT_INTERNAL;
-          goto out;
-        }
-    }
+  const LwEvaluation *ev = e->ev;
   if (a->json)
     {
-      JsonNode *root = lw_cli_json_analysis (ev, &step, sim_ref, sim_in, sim_out);
+      JsonNode *root = lw_cli_json_analysis (ev, &e->step, e->sim_ref, e->sim_in, e->sim_out);
       if (design != NULL)
         {
           /* the document's requirements, as "requirements": [...] */
           JsonBuilder *b = json_builder_new ();
-          lw_cli_doc_json_requirements (b, design, req);
+          lw_cli_doc_json_requirements (b, design, e->requirements);
           json_object_set_member (json_node_get_object (root), "requirements",
                                   json_builder_get_root (b));
           g_object_unref (b);
@@ -425,21 +393,15 @@ analyze_loop_run (const AnalyzeArgs *a, const AnalyzeSpec *spec, const LwCliLoop
       if (design != NULL)
         printf ("Design '%s' (%s), variant '%s'\n\n", design->title, a->files[0],
                 design->variants[index].name);
-      print_report (lp->plant_s, lp->dead_time_s, ev, &step, &so, sim_ref, sim_in, sim_out);
+      print_report (e->plant_s, e->dead_time_s, ev, &e->step, &spec->so, e->sim_ref, e->sim_in,
+                    e->sim_out);
       if (design != NULL)
         {
           printf ("\nRequirements of the design\n");
-          lw_cli_doc_print_requirements (design, req);
+          lw_cli_doc_print_requirements (design, e->requirements);
         }
     }
-out:
-  lw_sim_response_free (sim_ref);
-  lw_sim_response_free (sim_in);
-  lw_sim_response_free (sim_out);
-  lw_sim_plan_free (plan);
-  lw_evaluation_free (ev);
-  g_free (req);
-  return status;
+  return LW_EXIT_OK;
 }
 
 static void
@@ -469,8 +431,13 @@ analyze_run (void *data)
         return status;
       status = analyze_spec (a, &spec);
       JsonNode *root = NULL;
+      LwEngineOptions eo;
+      engine_options (&spec, &eo);
+      g_autoptr (LwVariantEval) e = NULL;
       if (status == LW_EXIT_OK)
-        status = analyze_loop_run (a, &spec, &lp, NULL, 0, &root);
+        status = lw_cli_loop_evaluate ("analyze", &lp, &eo, TRUE, &e);
+      if (status == LW_EXIT_OK)
+        status = analyze_loop_run (a, &spec, e, NULL, 0, &root);
       if (root != NULL)
         {
           print_json (root);
@@ -511,14 +478,16 @@ analyze_run (void *data)
     }
   for (size_t k = 0; k < n && status == LW_EXIT_OK; k++)
     {
-      status = lw_cli_doc_loop_build (a->files[0], design, which[k], &lp);
+      LwEngineOptions eo;
+      engine_options (&spec, &eo);
+      g_autoptr (LwVariantEval) e = NULL;
+      status = lw_cli_doc_evaluate (a->files[0], design, which[k], &eo, TRUE, &e);
       if (status != LW_EXIT_OK)
         break;
       if (!a->json && k > 0)
         printf ("\n\n");
       JsonNode *root = NULL;
-      status = analyze_loop_run (a, &spec, &lp, design, which[k], &root);
-      lw_cli_loop_clear (&lp);
+      status = analyze_loop_run (a, &spec, e, design, which[k], &root);
       if (root == NULL)
         continue;
       if (b != NULL)

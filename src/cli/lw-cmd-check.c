@@ -39,52 +39,22 @@ static int
 check_variant (const char *path, const LwDesign *d, size_t index)
 {
   const LwDesignVariant *v = &d->variants[index];
-  LwCliLoop lp;
-  int status = lw_cli_doc_loop_build (path, d, index, &lp);
+  LwVariantEval *e = NULL;
+  int status = lw_cli_doc_evaluate (path, d, index, NULL, TRUE, &e);
   if (status != LW_EXIT_OK)
     return status;
-  LwAnalysisOptions opts;
-  lw_analysis_options_init (&opts);
-  opts.compute_delay = lp.compute_delay;
-  LwSimOptions so;
-  lw_sim_options_init (&so);
-  so.compute_delay = lp.compute_delay;
-  so.n_steps = opts.n_steps;
-  so.substeps = 0;
-  LwEvaluation *ev = NULL;
-  LwSimPlan *plan = NULL;
-  LwSimResponse *ref = NULL;
-  LwReqResult *res = g_new0 (LwReqResult, d->n_requirements + 1);
-  LwError err;
-  lw_error_clear (&err);
-  g_autofree char *place = g_strdup_printf ("%s: variant '%s'", path, v->name);
-  if (lw_evaluate (lp.sampled, lp.controller_z, &opts, &ev, &err) != LW_OK
-      || lw_sim_plan_new (lp.sampled, lp.controller_z, &so, &plan, &err) != LW_OK
-      || lw_sim_run (plan, LW_SIM_REFERENCE_STEP, 1.0, &ref, &err) != LW_OK)
-    {
-      status = lw_cli_report_core_error (place, &err);
-      goto out;
-    }
-  int failing = lw_cli_doc_requirements (d, ev, lp.plant_s, ref, res);
-  if (failing < 0)
-    {
-      status = LW_EXIT_INTERNAL;
-      goto out;
-    }
+  const LwEvaluation *ev = e->ev;
+  const LwReqResult *res = e->requirements;
+  size_t failing = e->n_not_passing;
   printf ("\nVariant '%s'%s: %zu stage(s), loop %s\n", v->name,
           index == d->active ? " (active)" : "", v->n_stages,
           ev->stable ? "stable" : "UNSTABLE");
   lw_cli_doc_print_requirements (d, res);
   if (d->n_requirements > 0)
-    printf ("  %zu of %zu requirement(s) pass\n", d->n_requirements - (size_t) failing,
+    printf ("  %zu of %zu requirement(s) pass\n", d->n_requirements - failing,
             d->n_requirements);
   status = failing > 0 ? LW_EXIT_CHECK_FAILED : LW_EXIT_OK;
-out:
-  g_free (res);
-  lw_sim_response_free (ref);
-  lw_sim_plan_free (plan);
-  lw_evaluation_free (ev);
-  lw_cli_loop_clear (&lp);
+  lw_variant_eval_unref (e);
   return status;
 }
 

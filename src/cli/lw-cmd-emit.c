@@ -67,13 +67,14 @@ typedef struct
   gboolean help;
 } EmitArgs;
 
-/* The loop from a design document (a->files) or from the loop options; *ctl_place names the
- * controller in messages (g_free). */
+/* The evaluated loop from a design document (a->files) or from the loop options (then built
+ * into lp, which must outlive *e); *ctl_place names the controller in messages (g_free). */
 static int
-emit_loop (const EmitArgs *a, LwCliLoop *lp, char **ctl_place)
+emit_loop (const EmitArgs *a, LwCliLoop *lp, LwVariantEval **e, char **ctl_place)
 {
   memset (lp, 0, sizeof *lp);
   *ctl_place = NULL;
+  *e = NULL;
   if (a->files == NULL || a->files[0] == NULL)
     {
       if (a->variant != NULL)
@@ -82,7 +83,10 @@ emit_loop (const EmitArgs *a, LwCliLoop *lp, char **ctl_place)
           return LW_EXIT_BAD_INPUT;
         }
       *ctl_place = g_strdup (a->loop.controller_z != NULL ? "--controller-z" : "--controller");
-      return lw_cli_loop_build ("emit", &a->loop, lp);
+      int status = lw_cli_loop_build ("emit", &a->loop, lp);
+      if (status == LW_EXIT_OK)
+        status = lw_cli_loop_evaluate ("emit", lp, NULL, FALSE, e);
+      return status;
     }
   const char *path = NULL;
   int status = lw_cli_doc_one_file ("emit", a->files, &path);
@@ -96,7 +100,7 @@ emit_loop (const EmitArgs *a, LwCliLoop *lp, char **ctl_place)
   if (status == LW_EXIT_OK)
     status = lw_cli_doc_variant (d, "--variant", a->variant, &index);
   if (status == LW_EXIT_OK)
-    status = lw_cli_doc_loop_build (path, d, index, lp);
+    status = lw_cli_doc_evaluate (path, d, index, NULL, FALSE, e);
   if (status == LW_EXIT_OK)
     *ctl_place = g_strdup_printf ("%s: variant '%s'", path, d->variants[index].name);
   return status;
@@ -177,7 +181,7 @@ print_margin_line (const char *label, const LwEvaluation *ev)
 
 static void
 print_summary (const char *hpath, const char *cpath, const char *form_name,
-               const LwQFormat *q, const LwCliLoop *lp, const LwDiffEq *de, const LwSos *sos,
+               const LwQFormat *q, const LwVariantEval *lp, const LwDiffEq *de, const LwSos *sos,
                const LwSosFixed *fx, const LwEvaluation *ev, const LwEvaluation *evq)
 {
   printf ("Wrote %s\n  and %s\n  (C99, form %s, %s)\n", hpath, cpath, form_name,
@@ -185,7 +189,7 @@ print_summary (const char *hpath, const char *cpath, const char *form_name,
   if (fx != NULL)
     printf ("  fixed point Q%d.%d: int16_t coefficients (value = integer / 2^%d), int16_t e "
             "and u, int32_t states\n", q->int_bits, q->frac_bits, q->frac_bits);
-  g_autofree char *cz = lw_cli_format_model (lp->controller_z);
+  g_autofree char *cz = lw_model_text (lp->controller_z);
   printf ("\nController C(z) = %s\n", cz);
   printf ("Period %.6g s; computation delay %d sample(s), realized by the firmware's timing "
           "(not in the coefficients)\n", lp->period_s, lp->compute_delay);
@@ -301,7 +305,8 @@ json_evaluation (JsonBuilder *b, const LwEvaluation *ev)
 }
 
 static char *
-summary_json (const char *hpath, const char *cpath, const char *form_name, const LwCliLoop *lp,
+summary_json (const char *hpath, const char *cpath, const char *form_name,
+              const LwVariantEval *lp,
               const LwDiffEq *de, const LwSos *sos, const LwSosFixed *fx, const LwModel *czq,
               const LwEvaluation *ev, const LwEvaluation *evq, const double *h,
               const int16_t *hq)
@@ -472,33 +477,30 @@ emit_run (void *data)
     }
 
   LwCliLoop lp;
+  LwVariantEval *e = NULL;
   g_autofree char *ctl_opt = NULL;
-  int status = emit_loop (a, &lp, &ctl_opt);
+  int status = emit_loop (a, &lp, &e, &ctl_opt);
   if (status != LW_EXIT_OK)
-    return status;
+    {
+      lw_cli_loop_clear (&lp);
+      return status;
+    }
 
   LwDiffEq *de = NULL;
   LwSos *sos = NULL;
   LwSosFixed *fx = NULL;
   LwModel *czq = NULL;
-  LwEvaluation *ev = NULL, *evq = NULL;
+  const LwEvaluation *ev = e->ev, *evq = NULL;
+  LwVariantEval *eq = NULL;
   LwText hdr, src;
   lw_text_init (&hdr);
   lw_text_init (&src);
   char *hpath = NULL, *cpath = NULL;
 
-  if (lw_diffeq_from_model (lp.controller_z, &de, &err) != LW_OK
-      || lw_sos_from_model (lp.controller_z, &sos, &err) != LW_OK)
+  if (lw_diffeq_from_model (e->controller_z, &de, &err) != LW_OK
+      || lw_sos_from_model (e->controller_z, &sos, &err) != LW_OK)
     {
       status = lw_cli_report_core_error (ctl_opt, &err);
-      goto out;
-    }
-  LwAnalysisOptions opts;
-  lw_analysis_options_init (&opts);
-  opts.compute_delay = lp.compute_delay;
-  if (lw_evaluate (lp.sampled, lp.controller_z, &opts, &ev, &err) != LW_OK)
-    {
-      status = lw_cli_report_core_error ("emit", &err);
       goto out;
     }
   if (a->fixed != NULL)
@@ -508,23 +510,35 @@ emit_run (void *data)
           status = lw_cli_report_core_error ("--fixed", &err);
           goto out;
         }
-      if (lw_sos_fixed_model (fx, lp.period_s, &czq, &err) != LW_OK
-          || lw_evaluate (lp.sampled, czq, &opts, &evq, &err) != LW_OK)
+      if (lw_sos_fixed_model (fx, e->period_s, &czq, &err) != LW_OK)
         {
           status = lw_cli_report_core_error ("--fixed", &err);
           goto out;
         }
+      /* the quantized controller's loop, by the same evaluation */
+      LwEngineLoop ql = { .plant_s = e->plant_s, .sampled = e->sampled, .controller_z = czq,
+                          .dead_time_s = e->dead_time_s, .compute_delay = e->compute_delay };
+      LwEngineOptions qo;
+      lw_engine_options_init (&qo);
+      eq = lw_engine_evaluate_loop (&ql, &qo);
+      g_autoptr (GError) qerr = NULL;
+      if (!lw_variant_eval_ok (eq, &qerr))
+        {
+          status = lw_cli_report_gerror ("--fixed", qerr);
+          goto out;
+        }
+      evq = eq->ev;
     }
 
   LwEmitInput in = {
     .prefix = prefix,
     .form = form,
-    .period_s = lp.period_s,
-    .compute_delay = lp.compute_delay,
-    .dead_time_s = lp.dead_time_s,
-    .plant_s = lp.plant_s,
-    .controller_w = lp.controller_w,
-    .controller_z = lp.controller_z,
+    .period_s = e->period_s,
+    .compute_delay = e->compute_delay,
+    .dead_time_s = e->dead_time_s,
+    .plant_s = e->plant_s,
+    .controller_w = e->controller_w,
+    .controller_z = e->controller_z,
     .margins = &ev->margins,
     .margins_fixed = evq != NULL ? &evq->margins : NULL,
     .stable = ev->stable,
@@ -556,20 +570,20 @@ emit_run (void *data)
   const char *form_name = form == LW_FORM_DIFFERENCE ? "difference" : "sections";
   if (a->json)
     {
-      char *text = summary_json (hpath, cpath, form_name, &lp, de, sos, fx, czq, ev, evq, h, hq);
+      char *text = summary_json (hpath, cpath, form_name, e, de, sos, fx, czq, ev, evq, h, hq);
       fputs (text, stdout);
       g_free (text);
     }
   else
-    print_summary (hpath, cpath, form_name, &q, &lp, de, sos, fx, ev, evq);
+    print_summary (hpath, cpath, form_name, &q, e, de, sos, fx, ev, evq);
 
 out:
   g_free (hpath);
   g_free (cpath);
   lw_text_clear (&hdr);
   lw_text_clear (&src);
-  lw_evaluation_free (ev);
-  lw_evaluation_free (evq);
+  lw_variant_eval_unref (eq);
+  lw_variant_eval_unref (e);
   lw_model_free (czq);
   lw_sos_fixed_free (fx);
   lw_sos_free (sos);

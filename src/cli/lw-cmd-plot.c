@@ -337,38 +337,26 @@ plot_run_document (const PlotArgs *a)
   if (status != LW_EXIT_OK)
     return status;
 
-  LwCliLoop lp[LW_PLOT_MAX_VARIANTS];
-  LwEvaluation *ev[LW_PLOT_MAX_VARIANTS] = { NULL };
+  LwEngineOptions eo;
+  lw_engine_options_init (&eo);
+  eo.n_points = opts.n_points;
+  eo.n_steps = opts.n_steps;
+  LwVariantEval *e[LW_PLOT_MAX_VARIANTS] = { NULL };
   PlotVariantSource src[LW_PLOT_MAX_VARIANTS] = { { 0 } };
   size_t built = 0;
-  LwError err;
-  lw_error_clear (&err);
   for (; built < n; built++)
     {
-      status = lw_cli_doc_loop_build (path, d, which[built], &lp[built]);
+      status = lw_cli_doc_evaluate (path, d, which[built], &eo, FALSE, &e[built]);
       if (status != LW_EXIT_OK)
         goto out;
-      opts.compute_delay = lp[built].compute_delay;
-      if (lw_evaluate (lp[built].sampled, lp[built].controller_z, &opts, &ev[built], &err)
-          != LW_OK)
-        {
-          g_autofree char *place = g_strdup_printf ("%s: variant '%s'", path,
-                                                    d->variants[which[built]].name);
-          status = lw_cli_report_core_error (place, &err);
-          built++;
-          goto out;
-        }
-      src[built] = (PlotVariantSource) { d->variants[which[built]].name, lp[built].sampled,
-                                         ev[built],
+      src[built] = (PlotVariantSource) { d->variants[which[built]].name, e[built]->sampled,
+                                         e[built]->ev,
                                          (unsigned) (which[built] % LW_PLOT_MAX_VARIANTS) + 1 };
     }
   status = plot_write (&spec, src, n);
 out:
   for (size_t i = 0; i < built; i++)
-    {
-      lw_evaluation_free (ev[i]);
-      lw_cli_loop_clear (&lp[i]);
-    }
+    lw_variant_eval_unref (e[i]);
   return status;
 }
 
@@ -389,9 +377,7 @@ plot_run (void *data)
   if (status != LW_EXIT_OK)
     return status;
   PlotSpec spec;
-  LwEvaluation *ev = NULL;
-  LwError err;
-  lw_error_clear (&err);
+  LwVariantEval *e = NULL;
   LwAnalysisOptions opts;
   status = plot_options_check (a, &spec);
   if (status != LW_EXIT_OK)
@@ -399,16 +385,17 @@ plot_run (void *data)
   status = plot_analysis_options (a, &opts);
   if (status != LW_EXIT_OK)
     goto out;
-  opts.compute_delay = lp.compute_delay;
-  if (lw_evaluate (lp.sampled, lp.controller_z, &opts, &ev, &err) != LW_OK)
-    {
-      status = lw_cli_report_core_error ("plot", &err);
-      goto out;
-    }
-  PlotVariantSource src = { a->name ? a->name : "loop", lp.sampled, ev, 0 };
+  LwEngineOptions eo;
+  lw_engine_options_init (&eo);
+  eo.n_points = opts.n_points;
+  eo.n_steps = opts.n_steps;
+  status = lw_cli_loop_evaluate ("plot", &lp, &eo, FALSE, &e);
+  if (status != LW_EXIT_OK)
+    goto out;
+  PlotVariantSource src = { a->name ? a->name : "loop", lp.sampled, e->ev, 0 };
   status = plot_write (&spec, &src, 1);
 out:
-  lw_evaluation_free (ev);
+  lw_variant_eval_unref (e);
   lw_cli_loop_clear (&lp);
   return status;
 }

@@ -66,19 +66,16 @@ check_date (const char *text)
   return false;
 }
 
-/* The date from SOURCE_DATE_EPOCH (whole seconds since 1970 UTC), or NULL when unset. */
+/* The date from SOURCE_DATE_EPOCH (lw_report_date_from_environment), or NULL when unset. */
 static int
 date_from_environment (char **out)
 {
-  *out = NULL;
-  const char *e = g_getenv ("SOURCE_DATE_EPOCH");
-  if (e == NULL || *e == '\0')
-    return LW_EXIT_OK;
-  gint64 secs;
-  if (!lw_cli_parse_integer ("SOURCE_DATE_EPOCH", e, 0, G_GINT64_CONSTANT (253402300799), &secs))
-    return LW_EXIT_BAD_INPUT;
-  g_autoptr (GDateTime) dt = g_date_time_new_from_unix_utc (secs);
-  *out = g_date_time_format (dt, "%Y-%m-%d");
+  g_autoptr (GError) error = NULL;
+  if (!lw_report_date_from_environment (out, &error))
+    {
+      lw_cli_bad_input (NULL, "%s", error->message);
+      return LW_EXIT_BAD_INPUT;
+    }
   return LW_EXIT_OK;
 }
 
@@ -169,32 +166,20 @@ report_run (void *data)
                         "with --variants A,B,...)", n, LW_PLOT_MAX_VARIANTS);
       return LW_EXIT_BAD_INPUT;
     }
-  LwReport *r = NULL;
-  status = lw_report_build (path, d, which, n, date, &r);
-  if (status != LW_EXIT_OK)
-    return status;
-  unsigned char *bytes = NULL;
-  size_t len = 0;
-  char msg[256] = "";
-  if (html)
-    bytes = (unsigned char *) lw_report_html (r, &len);
-  else if (!lw_report_pdf (r, &bytes, &len, msg, sizeof msg))
+  g_autoptr (GError) error = NULL;
+  g_autoptr (LwReport) r = lw_report_build (path, d, which, n, date, &error);
+  if (r == NULL)
     {
-      g_printerr ("%s: %s: %s\n", LW_CLI_PROG, a->out, msg);
-      lw_report_free (r);
+      lw_cli_bad_input (NULL, "%s", error->message);
+      return error->code == LW_REPORT_ERROR_BAD_INPUT ? LW_EXIT_BAD_INPUT : LW_EXIT_INTERNAL;
+    }
+  size_t len = 0;
+  if (!lw_report_write_file (r, a->out, &len, &error))
+    {
+      lw_cli_bad_input (NULL, "%s", error->message);
       return LW_EXIT_INTERNAL;
     }
-  lw_report_free (r);
-  GError *error = NULL;
-  if (!g_file_set_contents (a->out, (const char *) bytes, (gssize) len, &error))
-    {
-      g_printerr ("%s: %s\n", LW_CLI_PROG, error->message);
-      g_error_free (error);
-      status = LW_EXIT_INTERNAL;
-    }
-  else
-    printf ("Wrote %s (%s, %zu variant(s), %zu bytes)\n", a->out, html ? "HTML" : "PDF", n, len);
-  g_free (bytes);
+  printf ("Wrote %s (%s, %zu variant(s), %zu bytes)\n", a->out, html ? "HTML" : "PDF", n, len);
   return status;
 }
 

@@ -59,7 +59,7 @@ static const Row rows[N_ROWS] = {
 
 /* The figure of a row for an evaluation; NaN when it has none. */
 static double
-row_value (int row, const LwLoopEval *e)
+row_value (int row, const LwVariantEval *e)
 {
   if (e == NULL || e->ev == NULL)
     return NAN;
@@ -118,7 +118,7 @@ put (LwCompareTable *self, int col, int row, const char *markup, float xalign, g
 
 void
 lw_compare_table_show (LwCompareTable *self, const char *const *names,
-                       LwLoopEval *const *evals, const guint *styles, guint n, guint active,
+                       LwVariantEval *const *evals, const guint *styles, guint n, guint active,
                        const LwDesignRequirement *reqs, guint n_req)
 {
   g_return_if_fail (LW_IS_COMPARE_TABLE (self));

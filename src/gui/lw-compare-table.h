@@ -28,7 +28,7 @@ LwCompareTable *lw_compare_table_new (void);
  * variant's colour as LwPlotVariant.style, shown as a sample before its name, or NULL) with
  * the active one at index active, and the design's requirements (n_req, labels and limits). */
 void lw_compare_table_show (LwCompareTable *self, const char *const *names,
-                            LwLoopEval *const *evals, const guint *styles, guint n,
+                            LwVariantEval *const *evals, const guint *styles, guint n,
                             guint active, const LwDesignRequirement *reqs, guint n_req);
 
 /* The theme of the colour samples (as the plots'). */

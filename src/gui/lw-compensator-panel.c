@@ -199,13 +199,13 @@ lw_compensator_panel_set_model (LwCompensatorPanel *self, LwDesignModel *model)
 }
 
 void
-lw_compensator_panel_show_eval (LwCompensatorPanel *self, LwLoopEval *eval)
+lw_compensator_panel_show_eval (LwCompensatorPanel *self, LwVariantEval *eval)
 {
   g_return_if_fail (LW_IS_COMPENSATOR_PANEL (self));
   g_return_if_fail (eval != NULL);
 
-  gboolean failed = eval->failure == LW_LOOP_FAILED_COMPENSATOR;
-  gtk_label_set_text (self->error_label, failed ? eval->error.message : "");
+  gboolean failed = eval->failure == LW_EVAL_FAILED_COMPENSATOR;
+  gtk_label_set_text (self->error_label, failed ? eval->error->message : "");
   gtk_widget_set_visible (GTK_WIDGET (self->error_label), failed);
 
   lw_gui_label_show_model (self->controller_w_label, _("C(w)"), eval->controller_w);

@@ -19,7 +19,7 @@ G_DECLARE_FINAL_TYPE (LwCompensatorPanel, lw_compensator_panel, LW, COMPENSATOR_
 void lw_compensator_panel_set_model (LwCompensatorPanel *self, LwDesignModel *model);
 /* Shows an evaluation: the compensator's error or its models in w and z; new stages are
  * placed around its gain crossover. */
-void lw_compensator_panel_show_eval (LwCompensatorPanel *self, LwLoopEval *eval);
+void lw_compensator_panel_show_eval (LwCompensatorPanel *self, LwVariantEval *eval);
 /* Variants: a drop-down switches the active one (action window.variant-switch, u); the
  * Variants popover renames it (window.variant-rename, s), makes a copy or an empty one,
  * deletes and reorders it (window.variant-copy, -new, -delete, -up, -down), chooses the

@@ -10,7 +10,6 @@
 
 #include "lw-design-model.h"
 #include "lw-expr.h"
-#include "lw-simulate.h"
 
 struct _LwDesignModel
 {
@@ -19,44 +18,9 @@ struct _LwDesignModel
   LwDesign *doc;                /* the document being edited (owned) */
 
   /* the sampled plants of the last evaluations, one per sample period (variants may have
-   * their own), and the plant and dead time they were built from */
-  GArray *sampled;              /* of SampledEntry */
-  char *sampled_plant_text;
-  double sampled_dead_time_s;
+   * their own) */
+  LwPlantCache *cache;
 };
-
-/* A sampled plant shared by the cache and the evaluations made with it (reference-counted: an
- * evaluation a view still draws may outlive the cache entry). */
-typedef struct
-{
-  LwSampledPlant *plant;
-} SharedPlant;
-
-static void
-shared_plant_clear (gpointer data)
-{
-  SharedPlant *s = data;
-  g_clear_pointer (&s->plant, lw_sampled_plant_free);
-}
-
-static void
-shared_plant_release (gpointer s)
-{
-  g_rc_box_release_full (s, shared_plant_clear);
-}
-
-typedef struct
-{
-  double period_s;
-  SharedPlant *shared;
-} SampledEntry;
-
-static void
-sampled_entry_clear (gpointer data)
-{
-  SampledEntry *e = data;
-  g_clear_pointer (&e->shared, shared_plant_release);
-}
 
 G_DEFINE_FINAL_TYPE (LwDesignModel, lw_design_model, G_TYPE_OBJECT)
 
@@ -77,8 +41,7 @@ lw_design_model_finalize (GObject *object)
   LwDesignModel *self = LW_DESIGN_MODEL (object);
 
   g_clear_pointer (&self->doc, lw_design_free);
-  g_clear_pointer (&self->sampled, g_array_unref);
-  g_free (self->sampled_plant_text);
+  g_clear_pointer (&self->cache, lw_plant_cache_unref);
   G_OBJECT_CLASS (lw_design_model_parent_class)->finalize (object);
 }
 
@@ -116,8 +79,7 @@ lw_design_model_class_init (LwDesignModelClass *klass)
 static void
 lw_design_model_init (LwDesignModel *self)
 {
-  self->sampled = g_array_new (FALSE, FALSE, sizeof (SampledEntry));
-  g_array_set_clear_func (self->sampled, sampled_entry_clear);
+  self->cache = lw_plant_cache_new ();
 }
 
 LwDesignModel *
@@ -554,174 +516,36 @@ lw_design_model_move_variant (LwDesignModel *self, guint i, int delta)
 
 /* ---- evaluation --------------------------------------------------------------------------- */
 
-static void
-design_eval_clear (LwLoopEval *e)
+LwPlantCache *
+lw_design_model_get_plant_cache (LwDesignModel *self)
 {
-  g_clear_pointer (&e->plant_s, lw_model_free);
-  g_clear_pointer (&e->controller_w, lw_model_free);
-  g_clear_pointer (&e->ev, lw_evaluation_free);
-  e->sampled = NULL;
-  g_clear_pointer (&e->sampled_ref, shared_plant_release);
+  g_return_val_if_fail (LW_IS_DESIGN_MODEL (self), NULL);
+  return self->cache;
 }
 
-LwLoopEval *
-lw_loop_eval_ref (LwLoopEval *e)
-{
-  return g_rc_box_acquire (e);
-}
-
-void
-lw_loop_eval_unref (LwLoopEval *e)
-{
-  g_rc_box_release_full (e, (GDestroyNotify) design_eval_clear);
-}
-
-static LwLoopEval *
-fail (LwLoopEval *e, LwLoopFailure failure)
-{
-  e->failure = failure;
-  g_clear_pointer (&e->ev, lw_evaluation_free);
-  return e;
-}
-
-/* Whether some variant of d is sampled at period_s. */
-static gboolean
-period_in_use (const LwDesign *d, double period_s)
-{
-  for (size_t i = 0; i < d->n_variants; i++)
-    if (lw_design_variant_period_s (d, i) == period_s)
-      return TRUE;
-  return FALSE;
-}
-
-/* The sampled plant for the current plant and dead time at period_s: kept from earlier calls
- * while the plant and dead time are unchanged (the plan/execute split of lw-analysis.h). One
- * is kept per period some variant uses, so reference variants at other rates keep theirs;
- * those of periods no variant uses any more are dropped (their evaluations are stale). */
-static SharedPlant *
-sampled_plant (LwDesignModel *self, const LwModel *plant_s, double period_s, LwError *err)
-{
-  const LwDesign *d = self->doc;
-  if (g_strcmp0 (self->sampled_plant_text, d->plant) != 0
-      || self->sampled_dead_time_s != d->dead_time_s)
-    {
-      g_array_set_size (self->sampled, 0);
-      g_free (self->sampled_plant_text);
-      self->sampled_plant_text = g_strdup (d->plant);
-      self->sampled_dead_time_s = d->dead_time_s;
-    }
-  for (guint k = 0; k < self->sampled->len;)
-    {
-      SampledEntry *e = &g_array_index (self->sampled, SampledEntry, k);
-      if (e->period_s == period_s)
-        return e->shared;
-      if (!period_in_use (d, e->period_s))
-        g_array_remove_index_fast (self->sampled, k);
-      else
-        k++;
-    }
-  LwSampledPlant *plant = NULL;
-  if (lw_sampled_plant_new (plant_s, d->dead_time_s, period_s, &plant, err) != LW_OK)
-    return NULL;
-  SampledEntry e = { period_s, g_rc_box_new0 (SharedPlant) };
-  e.shared->plant = plant;
-  g_array_append_val (self->sampled, e);
-  return e.shared;
-}
-
-LwLoopEval *
+LwVariantEval *
 lw_design_model_evaluate (LwDesignModel *self)
 {
   return lw_design_model_evaluate_points (self, 0);
 }
 
-LwLoopEval *
+LwVariantEval *
 lw_design_model_evaluate_points (LwDesignModel *self, size_t n_points)
 {
   g_return_val_if_fail (LW_IS_DESIGN_MODEL (self), NULL);
   return lw_design_model_evaluate_variant (self, (guint) self->doc->active, n_points);
 }
 
-LwLoopEval *
+LwVariantEval *
 lw_design_model_evaluate_variant (LwDesignModel *self, guint variant, size_t n_points)
 {
   g_return_val_if_fail (LW_IS_DESIGN_MODEL (self), NULL);
   g_return_val_if_fail (n_points == 0 || n_points >= 16, NULL);
   g_return_val_if_fail (variant < self->doc->n_variants, NULL);
 
-  LwLoopEval *e = g_rc_box_new0 (LwLoopEval);
-  lw_error_clear (&e->error);
-
-  const LwDesign *d = self->doc;
-  const LwDesignVariant *v = &d->variants[variant];
-  if (lw_expr_parse_proper (d->plant, LW_DOMAIN_S, 0.0, &e->plant_s, &e->error)
-      != LW_OK)
-    return fail (e, LW_LOOP_FAILED_PLANT);
-
-  double period_s = lw_design_variant_period_s (d, variant);   /* its own, or the design's */
-  SharedPlant *shared = sampled_plant (self, e->plant_s, period_s, &e->error);
-  if (shared == NULL)
-    return fail (e, LW_LOOP_FAILED_SAMPLING);
-  LwSampledPlant *plant = shared->plant;
-
-  LwModel *controller_z = NULL;
-  if (lw_compensator_w (v->stages, v->n_stages, period_s, &e->controller_w, &e->error)
-        != LW_OK
-      || lw_compensator_z (v->stages, v->n_stages, period_s, &controller_z, &e->error)
-           != LW_OK)
-    return fail (e, LW_LOOP_FAILED_COMPENSATOR);
-
-  LwAnalysisOptions opts;
-  lw_analysis_options_init (&opts);
-  opts.compute_delay = d->compute_delay;
-  if (n_points > 0)
-    opts.n_points = n_points;
-  LwStatus st = lw_evaluate (plant, controller_z, &opts, &e->ev, &e->error);
-  if (st != LW_OK)
-    {
-      lw_model_free (controller_z);
-      return fail (e, LW_LOOP_FAILED_LOOP);
-    }
-  e->sampled = plant;
-  e->sampled_ref = g_rc_box_acquire (shared);
-
-  /* the simulated reference step (no limits, no continuous output): performance indices and
-   * the peak actuator output; a failure leaves them out, not the loop */
-  LwSimOptions so;
-  lw_sim_options_init (&so);
-  so.compute_delay = d->compute_delay;
-  so.n_steps = opts.n_steps;
-  so.substeps = 0;
-  LwSimPlan *plan = NULL;
-  LwSimResponse *sim = NULL;
-  LwError sim_err;
-  if (lw_sim_plan_new (plant, controller_z, &so, &plan, &sim_err) == LW_OK
-      && lw_sim_run (plan, LW_SIM_REFERENCE_STEP, 1.0, &sim, &sim_err) == LW_OK)
-    {
-      e->has_sim = TRUE;
-      e->indices = sim->indices;
-      e->actuator_peak = 0.0;
-      for (size_t k = 0; k < sim->n; k++)
-        e->actuator_peak = fmax (e->actuator_peak, fabs (sim->u[k]));
-    }
-  else
-    g_debug ("no simulated step: %s", sim_err.message);
-  lw_sim_response_free (sim);
-  lw_sim_plan_free (plan);
-  lw_model_free (controller_z);
-
-  /* Achieved figures for the requirements; a failure here leaves them out, not the loop. */
-  LwError req_err;
-  e->has_achieved = lw_achieved_from_evaluation (e->ev, e->plant_s, &e->achieved, &req_err)
-                    == LW_OK;
-  if (!e->has_achieved)
-    g_debug ("no achieved figures: %s", req_err.message);
-  else if (e->has_sim)
-    {
-      e->achieved.has_actuator_peak = true;
-      e->achieved.actuator_peak = e->actuator_peak;
-    }
-
-  e->failure = LW_LOOP_OK;
-  return e;
+  /* the reference step without limits and without the continuous output, as `check` */
+  LwEngineOptions opts;
+  lw_engine_options_init (&opts);
+  opts.n_points = n_points;
+  return lw_engine_evaluate_variant (self->doc, variant, &opts, self->cache);
 }

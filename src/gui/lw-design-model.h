@@ -21,6 +21,7 @@
 
 #include "lw-analysis.h"
 #include "lw-design.h"
+#include "lw-engine.h"
 #include "lw-error.h"
 #include "lw-model.h"
 #include "lw-require.h"
@@ -114,52 +115,23 @@ gboolean lw_design_model_remove_variant (LwDesignModel *self, guint i);
 /* Swaps variant i with its neighbour i + delta (−1 or +1); nothing when out of range. */
 void lw_design_model_move_variant (LwDesignModel *self, guint i, int delta);
 
-/* Which part of the design an evaluation failed on. */
-typedef enum
-{
-  LW_LOOP_OK = 0,
-  LW_LOOP_FAILED_PLANT,         /* the plant expression; error.position is the character */
-  LW_LOOP_FAILED_SAMPLING,      /* period or dead time */
-  LW_LOOP_FAILED_COMPENSATOR,   /* a stage's parameters */
-  LW_LOOP_FAILED_LOOP           /* the loop evaluation itself */
-} LwLoopFailure;
-
-/* One evaluation of the design, reference-counted so views can keep the one they draw. */
-typedef struct
-{
-  LwLoopFailure failure;
-  LwError error;                  /* the failure's message (code LW_OK when none) */
-  LwModel *plant_s;                 /* NULL when the plant failed to parse */
-  LwModel *controller_w;            /* NULL when the compensator failed */
-  LwEvaluation *ev;               /* NULL on any failure */
-  /* the sampled plant ev was evaluated against (for the figure adapter); the evaluation holds
-   * a reference, so it stays valid as long as the evaluation, whatever the model's cache does */
-  const LwSampledPlant *sampled;
-  gpointer sampled_ref;           /* private: the reference behind `sampled` */
-  gboolean has_achieved;          /* achieved figures, when ev is set */
-  LwAchieved achieved;            /* with the actuator peak of the simulated step */
-  /* the simulated reference step of amplitude 1 (lw-simulate.h, no limits), when ev is set
-   * and the simulation ran */
-  gboolean has_sim;
-  LwSimIndices indices;           /* IAE, ISE, ITAE, control effort */
-  double actuator_peak;           /* max |u(kT)|, actuator units per unit of reference */
-} LwLoopEval;
-
-/* Evaluates the design now, on the calling thread. The sampled plant is kept between calls
- * while plant, dead time and period are unchanged, so a compensator edit costs one loop
- * evaluation. Never NULL. */
-LwLoopEval *lw_design_model_evaluate (LwDesignModel *self);
+/* Evaluates the design now, on the calling thread, through the engine (lw-engine.h: the same
+ * evaluation as the CLI and the report). The sampled plant is kept in the model's cache
+ * between calls while plant, dead time and period are unchanged, so a compensator edit costs
+ * one loop evaluation. Never NULL. */
+LwVariantEval *lw_design_model_evaluate (LwDesignModel *self);
 /* The same on a grid of n_points frequency points up to π/T (>= 16) instead of the default
  * 2000 of lw_analysis_options_init: the window's draft evaluation during a drag, with about
  * as many points as the plots have pixels across. Crossovers and margins are refined to full
  * precision either way; only the drawn curves are coarser. */
-LwLoopEval *lw_design_model_evaluate_points (LwDesignModel *self, size_t n_points);
+LwVariantEval *lw_design_model_evaluate_points (LwDesignModel *self, size_t n_points);
 /* The same for variant `variant` of the document (not necessarily the active one): plant,
  * sampling and delay are shared by every variant, the stages are the variant's. */
-LwLoopEval *lw_design_model_evaluate_variant (LwDesignModel *self, guint variant,
-                                              size_t n_points);
-LwLoopEval *lw_loop_eval_ref (LwLoopEval *e);
-void lw_loop_eval_unref (LwLoopEval *e);
-G_DEFINE_AUTOPTR_CLEANUP_FUNC (LwLoopEval, lw_loop_eval_unref)
+LwVariantEval *lw_design_model_evaluate_variant (LwDesignModel *self, guint variant,
+                                                 size_t n_points);
+
+/* The model's cache of sampled plants (for evaluations made elsewhere, e.g. in a worker
+ * thread, with lw_engine_evaluate_variant on a copy of the document). */
+LwPlantCache *lw_design_model_get_plant_cache (LwDesignModel *self);
 
 G_END_DECLS

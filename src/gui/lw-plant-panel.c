@@ -10,11 +10,6 @@
 #include "lw-gui-util.h"
 #include "lw-plant-panel.h"
 
-/* Common practice, no source: 10 to 30 samples per closed-loop rise time (as loopwright-cli
- * analyze). */
-#define SAMPLES_PER_RISE_MIN 10.0
-#define SAMPLES_PER_RISE_MAX 30.0
-
 struct _LwPlantPanel
 {
   GtkWidget parent_instance;
@@ -90,8 +85,11 @@ clear_plant_error (LwPlantPanel *self)
  * as the CLI reports it), and that character underlined. The core's position counts bytes of
  * the text, which equal characters up to the first non-ASCII one, where parsing stops. */
 static void
-mark_plant_error (LwPlantPanel *self, const LwError *err)
+mark_plant_error (LwPlantPanel *self, const LwVariantEval *eval)
 {
+  const struct { int position; const char *message; } e = { eval->error_position,
+                                                            eval->error->message },
+                                                      *err = &e;
   const char *text = gtk_editable_get_text (GTK_EDITABLE (self->plant_entry));
   size_t len = strlen (text);
   g_autofree char *tip = NULL;
@@ -137,37 +135,42 @@ show_sampling_note (LwPlantPanel *self, const LwEvaluation *ev)
 {
   g_autofree char *text = NULL;
 
-  if (ev != NULL && ev->step.has_rise && ev->period_s > 0)
+  double per_rise;
+  switch (ev != NULL ? lw_engine_sampling_advice (&ev->step, ev->period_s, &per_rise)
+                     : LW_SAMPLING_ADVICE_NONE)
     {
-      double per_rise = ev->step.rise_time_s / ev->period_s;
-      if (per_rise < SAMPLES_PER_RISE_MIN)
-        text = g_strdup_printf (_("%.3g samples per closed-loop rise time (%.3g s), fewer than "
-                                  "the usual 10 to 30: consider a shorter period."),
-                                per_rise, ev->step.rise_time_s);
-      else if (per_rise > SAMPLES_PER_RISE_MAX)
-        text = g_strdup_printf (_("%.3g samples per closed-loop rise time (%.3g s), more than "
-                                  "the usual 10 to 30: a longer period would do."),
-                                per_rise, ev->step.rise_time_s);
+    case LW_SAMPLING_ADVICE_TOO_FEW:
+      text = g_strdup_printf (_("%.3g samples per closed-loop rise time (%.3g s), fewer than "
+                                "the usual 10 to 30: consider a shorter period."),
+                              per_rise, ev->step.rise_time_s);
+      break;
+    case LW_SAMPLING_ADVICE_TOO_MANY:
+      text = g_strdup_printf (_("%.3g samples per closed-loop rise time (%.3g s), more than "
+                                "the usual 10 to 30: a longer period would do."),
+                              per_rise, ev->step.rise_time_s);
+      break;
+    case LW_SAMPLING_ADVICE_NONE:
+      break;
     }
   gtk_label_set_text (self->sampling_note, text != NULL ? text : "");
   gtk_widget_set_visible (GTK_WIDGET (self->sampling_note), text != NULL);
 }
 
 void
-lw_plant_panel_show_eval (LwPlantPanel *self, LwLoopEval *eval)
+lw_plant_panel_show_eval (LwPlantPanel *self, LwVariantEval *eval)
 {
   g_return_if_fail (LW_IS_PLANT_PANEL (self));
   g_return_if_fail (eval != NULL);
 
-  if (eval->failure == LW_LOOP_FAILED_PLANT)
-    mark_plant_error (self, &eval->error);
+  if (eval->failure == LW_EVAL_FAILED_PLANT)
+    mark_plant_error (self, eval);
   else
     clear_plant_error (self);
 
-  if (eval->failure == LW_LOOP_FAILED_SAMPLING)
+  if (eval->failure == LW_EVAL_FAILED_SAMPLING)
     {
       gtk_widget_add_css_class (GTK_WIDGET (self->period_spin), "error");
-      lw_gui_set_tooltip (GTK_WIDGET (self->period_spin), eval->error.message);
+      lw_gui_set_tooltip (GTK_WIDGET (self->period_spin), eval->error->message);
     }
   else
     {

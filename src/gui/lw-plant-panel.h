@@ -18,7 +18,7 @@ G_DECLARE_FINAL_TYPE (LwPlantPanel, lw_plant_panel, LW, PLANT_PANEL, GtkWidget)
 /* Shows model's values and writes every edit back to it. */
 void lw_plant_panel_set_model (LwPlantPanel *self, LwDesignModel *model);
 /* Shows an evaluation of the model: error marks, plant in z and w, the period note. */
-void lw_plant_panel_show_eval (LwPlantPanel *self, LwLoopEval *eval);
+void lw_plant_panel_show_eval (LwPlantPanel *self, LwVariantEval *eval);
 
 /* The plant entry (for focus). */
 GtkWidget *lw_plant_panel_get_entry (LwPlantPanel *self);

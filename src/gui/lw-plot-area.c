@@ -27,7 +27,7 @@ static const LwPlotView split_views[] = {
  * curves are filled once, not again each frame of a drag. */
 typedef struct
 {
-  LwLoopEval *eval;             /* a reference */
+  LwVariantEval *eval;             /* a reference */
   LwFigureVariant fv;
   char *name;
   gboolean used;
@@ -193,7 +193,7 @@ curve_db_at (const LwPlotFreqCurve *c, double f)
 }
 
 static void
-set_handles (LwPlotArea *self, LwLoopEval *eval, const LwFigureVariant *fv,
+set_handles (LwPlotArea *self, LwVariantEval *eval, const LwFigureVariant *fv,
              const LwStage *stages, guint n_stages, double gain_pin_nu, int sel_stage,
              int sel_corner)
 {
@@ -259,7 +259,7 @@ figure_entry_free (gpointer data)
 {
   FigureEntry *e = data;
   lw_figure_variant_clear (&e->fv);
-  g_clear_pointer (&e->eval, lw_loop_eval_unref);
+  g_clear_pointer (&e->eval, lw_variant_eval_unref);
   g_clear_pointer (&e->name, g_free);
   g_free (e);
 }
@@ -267,7 +267,7 @@ figure_entry_free (gpointer data)
 /* The figure data of eval named name: the kept one when this evaluation was shown last time,
  * else filled now (eval->sampled must be valid then). NULL with a message in err. */
 static const LwFigureVariant *
-figure_for (LwPlotArea *self, LwLoopEval *eval, const char *name, LwError *err)
+figure_for (LwPlotArea *self, LwVariantEval *eval, const char *name, LwError *err)
 {
   for (guint i = 0; i < self->figures->len; i++)
     {
@@ -279,7 +279,7 @@ figure_for (LwPlotArea *self, LwLoopEval *eval, const char *name, LwError *err)
         }
     }
   FigureEntry *e = g_new0 (FigureEntry, 1);
-  e->eval = lw_loop_eval_ref (eval);
+  e->eval = lw_variant_eval_ref (eval);
   e->name = g_strdup (name);
   e->used = TRUE;
   if (lw_figure_variant_fill (&e->fv, NULL, eval->sampled, eval->ev, err) != LW_OK)
@@ -400,10 +400,10 @@ lw_plot_area_show_variants (LwPlotArea *self, const LwAreaVariant *vs, guint n, 
   g_return_if_fail (LW_IS_PLOT_AREA (self));
   g_return_if_fail (n >= 1 && active < n && vs != NULL);
 
-  LwLoopEval *eval = vs[active].eval;
+  LwVariantEval *eval = vs[active].eval;
   if (eval->ev == NULL)
     {
-      g_autofree char *msg = g_strdup_printf (_("No loop to draw: %s"), eval->error.message);
+      g_autofree char *msg = g_strdup_printf (_("No loop to draw: %s"), eval->error->message);
       show_message (self, msg);
       return;
     }
@@ -512,7 +512,7 @@ lw_plot_area_show_variants (LwPlotArea *self, const LwAreaVariant *vs, guint n, 
 }
 
 void
-lw_plot_area_show_eval (LwPlotArea *self, LwLoopEval *eval, const LwPlotRequirements *req,
+lw_plot_area_show_eval (LwPlotArea *self, LwVariantEval *eval, const LwPlotRequirements *req,
                         const LwStage *stages, guint n_stages, double gain_pin_nu_rad_s,
                         int sel_stage, int sel_corner)
 {
@@ -579,12 +579,12 @@ lw_plot_area_build_plot (const LwAreaVariant *vs, guint n, const LwPlotRequireme
   LwPlot *plot = NULL;
   for (; filled < n; filled++)
     {
-      LwLoopEval *eval = vs[filled].eval;
+      LwVariantEval *eval = vs[filled].eval;
       LwError e;
       if (eval == NULL || eval->ev == NULL)
         {
           g_snprintf (err, err_size, "%s: %s", vs[filled].name ? vs[filled].name : "loop",
-                      eval != NULL ? eval->error.message : "not evaluated");
+                      eval != NULL ? eval->error->message : "not evaluated");
           goto out;
         }
       if (lw_figure_variant_fill (&fv[filled], vs[filled].name, eval->sampled, eval->ev, &e)

@@ -34,7 +34,7 @@ LwPlotLayout lw_plot_area_get_layout (LwPlotArea *self);
  * or ω = (2/T)·atan(νT/2) (z), on the magnitude curve; each enabled gain stage at
  * gain_pin_nu_rad_s when it is > 0, else at the gain crossover, on the curve.  The handle of
  * (sel_stage, sel_corner) is drawn active (sel_stage −1: none). */
-void lw_plot_area_show_eval (LwPlotArea *self, LwLoopEval *eval, const LwPlotRequirements *req,
+void lw_plot_area_show_eval (LwPlotArea *self, LwVariantEval *eval, const LwPlotRequirements *req,
                              const LwStage *stages, guint n_stages, double gain_pin_nu_rad_s,
                              int sel_stage, int sel_corner);
 
@@ -43,7 +43,7 @@ void lw_plot_area_show_eval (LwPlotArea *self, LwLoopEval *eval, const LwPlotReq
  * 1 … LW_PLOT_MAX_VARIANTS, 0 its position in the list). */
 typedef struct
 {
-  LwLoopEval *eval;
+  LwVariantEval *eval;
   const char *name;
   guint style;
 } LwAreaVariant;

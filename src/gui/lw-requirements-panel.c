@@ -155,7 +155,7 @@ rebuild_requirements (LwRequirementsPanel *self)
 }
 
 static void
-show_requirements (LwRequirementsPanel *self, LwLoopEval *eval)
+show_requirements (LwRequirementsPanel *self, LwVariantEval *eval)
 {
   guint n = self->achieved_labels->len;
   for (guint i = 0; i < n && i < lw_design_model_get_n_requirements (self->model); i++)
@@ -256,7 +256,7 @@ set_figure (LwRequirementsPanel *self, int i, char *text)
 }
 
 static void
-show_figures (LwRequirementsPanel *self, LwLoopEval *eval)
+show_figures (LwRequirementsPanel *self, LwVariantEval *eval)
 {
   const LwEvaluation *ev = eval->ev;
   if (ev == NULL)
@@ -331,7 +331,7 @@ lw_requirements_panel_set_model (LwRequirementsPanel *self, LwDesignModel *model
 }
 
 void
-lw_requirements_panel_show_eval (LwRequirementsPanel *self, LwLoopEval *eval)
+lw_requirements_panel_show_eval (LwRequirementsPanel *self, LwVariantEval *eval)
 {
   g_return_if_fail (LW_IS_REQUIREMENTS_PANEL (self));
   g_return_if_fail (eval != NULL);

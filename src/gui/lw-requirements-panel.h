@@ -18,6 +18,6 @@ G_DECLARE_FINAL_TYPE (LwRequirementsPanel, lw_requirements_panel, LW, REQUIREMEN
                       GtkWidget)
 
 void lw_requirements_panel_set_model (LwRequirementsPanel *self, LwDesignModel *model);
-void lw_requirements_panel_show_eval (LwRequirementsPanel *self, LwLoopEval *eval);
+void lw_requirements_panel_show_eval (LwRequirementsPanel *self, LwVariantEval *eval);
 
 G_END_DECLS

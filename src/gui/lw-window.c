@@ -39,7 +39,6 @@
 #include "lw-design-model.h"
 #include "lw-design.h"
 #include "lw-export-dialog.h"
-#include "lw-cli-common.h"   /* LW_EXIT_OK of the report builder */
 #include "lw-report.h"
 #include "lw-figure-data.h"
 #include "lw-plant-panel.h"
@@ -72,7 +71,7 @@ struct _LwWindow
   GHashTable *ref_evals;        /* variant name → RefEval: references, evaluated once */
 
   LwDesignModel *model;
-  LwLoopEval *eval;             /* the evaluation on show */
+  LwVariantEval *eval;             /* the evaluation on show */
   guint eval_tick;              /* pending evaluation on the frame clock, or 0 */
   gboolean one_column;
 
@@ -147,7 +146,7 @@ plot_requirements (LwWindow *self, LwPlotRequirements *req)
 typedef struct
 {
   GBytes *key;
-  LwLoopEval *eval;
+  LwVariantEval *eval;
 } RefEval;
 
 static void
@@ -155,7 +154,7 @@ ref_eval_free (gpointer data)
 {
   RefEval *r = data;
   g_bytes_unref (r->key);
-  lw_loop_eval_unref (r->eval);
+  lw_variant_eval_unref (r->eval);
   g_free (r);
 }
 
@@ -196,13 +195,13 @@ show_handles_and_plots (LwWindow *self)
   /* the variants shown, in document order: the active one and those compared with it */
   LwAreaVariant vs[LW_PLOT_MAX_VARIANTS];
   const char *names[LW_PLOT_MAX_VARIANTS];
-  LwLoopEval *evals[LW_PLOT_MAX_VARIANTS];
+  LwVariantEval *evals[LW_PLOT_MAX_VARIANTS];
   guint n = 0, active = 0;
   GHashTable *kept = g_hash_table_new_full (g_str_hash, g_str_equal, g_free, ref_eval_free);
   for (guint i = 0; i < d->n_variants && n < LW_PLOT_MAX_VARIANTS; i++)
     {
       const char *name = d->variants[i].name;
-      LwLoopEval *e = NULL;
+      LwVariantEval *e = NULL;
       if (i == d->active)
         {
           active = n;
@@ -266,7 +265,7 @@ reevaluate (LwWindow *self)
       gtk_widget_remove_tick_callback (GTK_WIDGET (self), self->eval_tick);
       self->eval_tick = 0;
     }
-  g_clear_pointer (&self->eval, lw_loop_eval_unref);
+  g_clear_pointer (&self->eval, lw_variant_eval_unref);
   /* during a drag: about as many frequency points as a plot has pixels across */
   self->eval = self->dragging ? lw_design_model_evaluate_points (self->model, DRAG_POINTS)
                               : lw_design_model_evaluate (self->model);
@@ -1389,7 +1388,7 @@ build_export_plot (LwPlotView view, gpointer user_data, char *err, size_t err_si
   for (guint i = 0; i < d->n_variants && n < LW_PLOT_MAX_VARIANTS; i++)
     {
       const char *name = d->variants[i].name;
-      LwLoopEval *e = NULL;
+      LwVariantEval *e = NULL;
       if (i == d->active)
         e = self->eval;
       else if (is_compared (self, name))
@@ -1449,29 +1448,11 @@ export_activated (GtkWidget *widget, const char *action, GVariant *param)
 
 /* ---- design report ------------------------------------------------------------------------ */
 
-/* The report's date: SOURCE_DATE_EPOCH when set (the reproducible-builds convention, as
- * `loopwright-cli report` reads it), else today. g_free the result. */
-static char *
-report_date (void)
-{
-  const char *e = g_getenv ("SOURCE_DATE_EPOCH");
-  g_autoptr (GDateTime) dt = NULL;
-  if (e != NULL && *e != '\0')
-    {
-      char *end = NULL;
-      gint64 secs = g_ascii_strtoll (e, &end, 10);
-      if (end != NULL && *end == '\0' && secs >= 0 && secs <= G_GINT64_CONSTANT (253402300799))
-        dt = g_date_time_new_from_unix_utc (secs);
-    }
-  if (dt == NULL)
-    dt = g_date_time_new_now_local ();
-  return g_date_time_format (dt, "%Y-%m-%d");
-}
-
 /* Writes the design report of the variants shown (the active one and those compared with it,
  * in the document's order) to path, .pdf or else .html: the report of
- * `loopwright-cli report FILE --variants … --date …` built by the same code (src/cli/
- * lw-report-*), FILE being the document's file name. Explains a failure over the window. */
+ * `loopwright-cli report FILE --variants … --date …` built by the same library (src/report/),
+ * FILE being the document's file name. The date: SOURCE_DATE_EPOCH when set (the
+ * reproducible-builds convention), else today. Explains a failure over the window. */
 static void
 write_report (LwWindow *self, const char *path)
 {
@@ -1482,34 +1463,26 @@ write_report (LwWindow *self, const char *path)
     if (i == d->active || is_compared (self, d->variants[i].name))
       which[n++] = i;
   g_autofree char *name = document_name (self);
-  g_autofree char *date = report_date ();
   g_autofree char *shown = g_filename_display_name (path);
   g_autofree char *primary = g_strdup_printf (_("Could not write the report “%s”"), shown);
-  LwReport *r = NULL;
-  if (lw_report_build (name, d, which, n, date, &r) != LW_EXIT_OK)
+  g_autoptr (GError) error = NULL;
+  g_autofree char *date = NULL;
+  if (!lw_report_date_from_environment (&date, &error))
     {
-      show_error (self, primary, _("The design could not be evaluated; the message is on the "
-                                   "terminal."));
+      show_error (self, primary, error->message);
       return;
     }
-  g_autofree char *lower = g_ascii_strdown (path, -1);
-  unsigned char *bytes = NULL;
+  if (date == NULL)
+    {
+      g_autoptr (GDateTime) now = g_date_time_new_now_local ();
+      date = g_date_time_format (now, "%Y-%m-%d");
+    }
+  g_autoptr (LwReport) r = lw_report_build (name, d, which, n, date, &error);
   size_t len = 0;
-  char msg[256] = "";
-  gboolean ok = TRUE;
-  if (g_str_has_suffix (lower, ".pdf"))
-    ok = lw_report_pdf (r, &bytes, &len, msg, sizeof msg);
-  else
-    bytes = (unsigned char *) lw_report_html (r, &len);
-  lw_report_free (r);
-  g_autoptr (GError) error = NULL;
-  if (!ok)
-    show_error (self, primary, msg);
-  else if (!g_file_set_contents (path, (const char *) bytes, (gssize) len, &error))
+  if (r == NULL || !lw_report_write_file (r, path, &len, &error))
     show_error (self, primary, error->message);
   else if (self->debug)
     g_print ("LW-REPORT path=%s bytes=%zu variants=%zu\n", path, len, n);
-  g_free (bytes);
 }
 
 static void
@@ -1868,7 +1841,7 @@ lw_window_dispose (GObject *object)
   g_clear_handle_id (&self->autosave_id, g_source_remove);
   g_clear_object (&self->model);
   g_clear_object (&self->file);
-  g_clear_pointer (&self->eval, lw_loop_eval_unref);
+  g_clear_pointer (&self->eval, lw_variant_eval_unref);
   g_clear_pointer (&self->saved, lw_design_free);
   g_clear_pointer (&self->committed, lw_design_free);
   g_clear_pointer (&self->undo, g_ptr_array_unref);

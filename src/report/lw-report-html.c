@@ -8,7 +8,6 @@
 
 #include <string.h>
 
-#include "lw-cli-common.h"
 #include "lw-plot-export.h"
 #include "lw-report.h"
 
@@ -111,8 +110,8 @@ lw_report_html (const LwReport *r, size_t *len)
   GString *s = g_string_new ("<!DOCTYPE html>\n<html lang=\"en\">\n<head>\n<meta charset=\"utf-8\">\n");
   g_string_append (s, "<title>");
   esc (s, r->title, false);
-  g_string_append (s, "</title>\n<meta name=\"generator\" content=\"" LW_CLI_PROG " "
-                      PACKAGE_VERSION "\">\n");
+  g_string_append (s, "</title>\n<meta name=\"generator\" content=\"" LW_REPORT_GENERATOR
+                      "\">\n");
   if (r->author)
     {
       g_string_append (s, "<meta name=\"author\" content=\"");

@@ -10,12 +10,13 @@
 #include <stdio.h>
 #include <string.h>
 
-#include "lw-cli-common.h"
-#include "lw-cli-doc.h"
+#include "lw-engine.h"
 #include "lw-figure-data.h"
 #include "lw-implement.h"
 #include "lw-report.h"
 #include "lw-simulate.h"
+
+G_DEFINE_QUARK (lw-report-error-quark, lw_report_error)
 
 /* Figure size in points as drawn (the HTML's SVG size); the PDF scales it to its text column
  * (483 pt), so two figures fit a page and the annotations have room at the right edge. */
@@ -26,29 +27,22 @@
 typedef struct
 {
   const LwDesignVariant *v;
-  LwCliLoop lp;
-  LwEvaluation *ev;
-  LwSimPlan *plan;
-  LwSimResponse *ref, *din, *dout;
+  LwVariantEval *e;             /* the engine's evaluation; the fields below are borrowed */
+  const LwEvaluation *ev;
+  const LwSimResponse *ref, *din, *dout;
+  const LwReqResult *req;
+  size_t failing;
+  double actuator_peak;
   LwDiffEq *de;
   LwSos *sos;
-  LwReqResult *req;
-  int failing;
-  double actuator_peak;
 } RVar;
 
 static void
 rvar_clear (RVar *r)
 {
-  lw_sim_response_free (r->ref);
-  lw_sim_response_free (r->din);
-  lw_sim_response_free (r->dout);
-  lw_sim_plan_free (r->plan);
-  lw_evaluation_free (r->ev);
+  lw_variant_eval_unref (r->e);
   lw_diffeq_free (r->de);
   lw_sos_free (r->sos);
-  g_free (r->req);
-  lw_cli_loop_clear (&r->lp);
   memset (r, 0, sizeof *r);
 }
 
@@ -115,7 +109,7 @@ para (LwReport *r, const char *fmt, ...)
 static void
 formula (LwReport *r, const char *label, const LwModel *m)
 {
-  g_autofree char *text = lw_cli_format_model (m);
+  g_autofree char *text = lw_model_text (m);
   g_autofree char *line = g_strdup_printf ("%s%s", label, text);
   add_block (r, LW_REPORT_FORMULA, line);
 }
@@ -189,39 +183,51 @@ complex_text (double complex z)
 
 /* ---- evaluation of one variant ---------------------------------------------------------- */
 
-static int
-rvar_compute (const char *path, const LwDesign *d, size_t index, RVar *r)
+static gboolean
+rvar_compute (const char *path, const LwDesign *d, size_t index, RVar *r, GError **error)
 {
   memset (r, 0, sizeof *r);
   r->v = &d->variants[index];
-  int status = lw_cli_doc_loop_build (path, d, index, &r->lp);
-  if (status != LW_EXIT_OK)
-    return status;
+  /* the reference step with the continuous output between samples, and both disturbances */
+  LwEngineOptions opts;
+  lw_engine_options_init (&opts);
+  lw_sim_options_init (&opts.sim);
+  opts.disturbances = TRUE;
+  r->e = lw_engine_evaluate_variant (d, index, &opts, NULL);
+  const LwVariantEval *e = r->e;
+  g_autofree char *place = g_strdup_printf ("%s: variant '%s'", path, r->v->name);
+  const GError *failure = e->failure != LW_EVAL_OK ? e->error
+                          : e->sim_error != NULL ? e->sim_error
+                          : !e->has_achieved ? e->achieved_error : NULL;
+  if (failure != NULL)
+    {
+      const char *where = e->failure == LW_EVAL_FAILED_PLANT
+                            || e->failure == LW_EVAL_FAILED_SAMPLING ? "<plant>" : NULL;
+      gboolean bad_input = failure->code == LW_ERR_PARSE || failure->code == LW_ERR_INVALID;
+      g_set_error (error, LW_REPORT_ERROR,
+                   bad_input ? LW_REPORT_ERROR_BAD_INPUT : LW_REPORT_ERROR_FAILED,
+                   "%s%s%s: %s%s", where != NULL ? path : place, where != NULL ? ": " : "",
+                   where != NULL ? where : "", bad_input ? "" : "internal failure: ",
+                   failure->message);
+      return FALSE;
+    }
   LwError err;
   lw_error_clear (&err);
-  LwAnalysisOptions opts;
-  lw_analysis_options_init (&opts);
-  opts.compute_delay = r->lp.compute_delay;
-  LwSimOptions so;
-  lw_sim_options_init (&so);
-  so.compute_delay = r->lp.compute_delay;
-  so.n_steps = opts.n_steps;
-  g_autofree char *place = g_strdup_printf ("%s: variant '%s'", path, r->v->name);
-  if (lw_evaluate (r->lp.sampled, r->lp.controller_z, &opts, &r->ev, &err) != LW_OK
-      || lw_sim_plan_new (r->lp.sampled, r->lp.controller_z, &so, &r->plan, &err) != LW_OK
-      || lw_sim_run (r->plan, LW_SIM_REFERENCE_STEP, 1.0, &r->ref, &err) != LW_OK
-      || lw_sim_run (r->plan, LW_SIM_INPUT_DISTURBANCE_STEP, 1.0, &r->din, &err) != LW_OK
-      || lw_sim_run (r->plan, LW_SIM_OUTPUT_DISTURBANCE_STEP, 1.0, &r->dout, &err) != LW_OK
-      || lw_diffeq_from_model (r->lp.controller_z, &r->de, &err) != LW_OK
-      || lw_sos_from_model (r->lp.controller_z, &r->sos, &err) != LW_OK)
-    return lw_cli_report_core_error (place, &err);
-  r->req = g_new0 (LwReqResult, d->n_requirements + 1);
-  r->failing = lw_cli_doc_requirements (d, r->ev, r->lp.plant_s, r->ref, r->req);
-  if (r->failing < 0)
-    return LW_EXIT_INTERNAL;
-  for (size_t k = 0; k < r->ref->n; k++)
-    r->actuator_peak = fmax (r->actuator_peak, fabs (r->ref->u[k]));
-  return LW_EXIT_OK;
+  if (lw_diffeq_from_model (e->controller_z, &r->de, &err) != LW_OK
+      || lw_sos_from_model (e->controller_z, &r->sos, &err) != LW_OK)
+    {
+      g_set_error (error, LW_REPORT_ERROR, LW_REPORT_ERROR_FAILED, "%s: %s", place,
+                   err.message);
+      return FALSE;
+    }
+  r->ev = e->ev;
+  r->ref = e->sim_ref;
+  r->din = e->sim_in;
+  r->dout = e->sim_out;
+  r->req = e->requirements;
+  r->failing = e->n_not_passing;
+  r->actuator_peak = e->actuator_peak;
+  return TRUE;
 }
 
 /* ---- sections --------------------------------------------------------------------------- */
@@ -259,7 +265,7 @@ section_plant (LwReport *r, const LwDesign *d, const RVar *v0)
   para (r, "The plant as typed: P(s) = %s. Its zero-order-hold equivalent in z includes the "
         "dead time (poles at z = 0) but not the computation delay; the w-plane model is the "
         "bilinear image w = (2/T)(z − 1)/(z + 1), its roots in rad/s of ν.", d->plant);
-  formula (r, "P(s) = ", v0->lp.plant_s);
+  formula (r, "P(s) = ", v0->e->plant_s);
   formula (r, "P(z) = ", ev->plant_z);
   formula (r, "P(w) = ", ev->plant_w);
   TableFill t = table_begin (r, "sampling", NULL, 2, (const char *const[]) { "item", "value" });
@@ -324,8 +330,8 @@ section_variant (LwReport *r, const LwDesign *d, const RVar *rv, size_t k)
     }
 
   heading (r, 3, NULL, "Controller");
-  formula (r, "C(w) = ", rv->lp.controller_w);
-  formula (r, "C(z) = ", rv->lp.controller_z);
+  formula (r, "C(w) = ", rv->e->controller_w);
+  formula (r, "C(z) = ", rv->e->controller_z);
 
   heading (r, 3, NULL, "Difference equation");
   para (r, "u[k] = Σ b[i]·e[k−i] − Σ a[i]·u[k−i], order %zu, coefficients to 17 significant "
@@ -381,7 +387,7 @@ section_variant (LwReport *r, const LwDesign *d, const RVar *rv, size_t k)
           const LwDesignRequirement *q = &d->requirements[i];
           const char *unit = lw_req_kind_unit (q->req.kind);
           cellf (&t, "%s", lw_design_requirement_title (q));
-          cell_take (&t, lw_cli_doc_target_text (&q->req), false);
+          cell_take (&t, lw_requirement_target_text (&q->req), false);
           const LwReqResult *res = &rv->req[i];
           if (res->status == LW_REQ_NOT_AVAILABLE || isnan (res->achieved))
             cellf (&t, "n/a");
@@ -481,14 +487,14 @@ section_variant (LwReport *r, const LwDesign *d, const RVar *rv, size_t k)
     table_end (&t);
     para (r, "Unit steps over %zu samples (%.6g s), without actuator limits; indices are "
           "T·Σ|e|, T·Σe², T·Σ(kT)|e| and T·Σu² (docs/simulation.md).", rv->ref->n,
-          (double) (rv->ref->n - 1) * rv->lp.period_s);
+          (double) (rv->ref->n - 1) * rv->e->period_s);
   }
 }
 
 /* ---- figures ---------------------------------------------------------------------------- */
 
-static int
-add_figures (LwReport *r, const LwDesign *d, RVar *rv, size_t n)
+static gboolean
+add_figures (LwReport *r, const LwDesign *d, RVar *rv, size_t n, GError **error)
 {
   heading (r, 2, "figures", "Figures");
   para (r, "Every variant of the report overlaid, each in its colour and dash; drawn by the "
@@ -496,15 +502,17 @@ add_figures (LwReport *r, const LwDesign *d, RVar *rv, size_t n)
   LwFigureVariant fv[LW_PLOT_MAX_VARIANTS];
   LwPlotVariant pv[LW_PLOT_MAX_VARIANTS];
   size_t filled = 0;
-  int status = LW_EXIT_OK;
+  gboolean ok = TRUE;
   LwError err;
   lw_error_clear (&err);
   for (; filled < n; filled++)
     {
-      if (lw_figure_variant_fill (&fv[filled], rv[filled].v->name, rv[filled].lp.sampled,
+      if (lw_figure_variant_fill (&fv[filled], rv[filled].v->name, rv[filled].e->sampled,
                                   rv[filled].ev, &err) != LW_OK)
         {
-          status = lw_cli_report_core_error ("report", &err);
+          g_set_error (error, LW_REPORT_ERROR, LW_REPORT_ERROR_FAILED,
+                       "report: internal failure: %s", err.message);
+          ok = FALSE;
           goto out;
         }
       pv[filled] = fv[filled].v;
@@ -546,8 +554,9 @@ add_figures (LwReport *r, const LwDesign *d, RVar *rv, size_t n)
       LwPlot *p = lw_plot_new (&in, msg, sizeof msg);
       if (p == NULL)
         {
-          lw_cli_bad_input ("report", "figure '%s': %s", lw_plot_view_name (figs[f].view), msg);
-          status = LW_EXIT_INTERNAL;
+          g_set_error (error, LW_REPORT_ERROR, LW_REPORT_ERROR_FAILED, "report: figure '%s': %s",
+                       lw_plot_view_name (figs[f].view), msg);
+          ok = FALSE;
           goto out;
         }
       LwReportBlock *b = add_block (r, LW_REPORT_FIGURE, figs[f].caption);
@@ -559,7 +568,7 @@ add_figures (LwReport *r, const LwDesign *d, RVar *rv, size_t n)
 out:
   for (size_t i = 0; i < filled; i++)
     lw_figure_variant_clear (&fv[i]);
-  return status;
+  return ok;
 }
 
 /* ---- comparison ------------------------------------------------------------------------- */
@@ -705,45 +714,94 @@ add_comparison (LwReport *r, const LwDesign *d, const RVar *rv, size_t n)
 
 /* ---- the whole report ------------------------------------------------------------------- */
 
-int
+LwReport *
 lw_report_build (const char *path, const LwDesign *d, const size_t *which, size_t n,
-                 const char *date, LwReport **out)
+                 const char *date, GError **error)
 {
-  *out = NULL;
-  g_return_val_if_fail (n >= 1 && n <= LW_PLOT_MAX_VARIANTS, LW_EXIT_INTERNAL);
+  g_return_val_if_fail (n >= 1 && n <= LW_PLOT_MAX_VARIANTS, NULL);
+  g_return_val_if_fail (error == NULL || *error == NULL, NULL);
   RVar rv[LW_PLOT_MAX_VARIANTS];
   memset (rv, 0, sizeof rv);
-  int status = LW_EXIT_OK;
-  for (size_t k = 0; k < n && status == LW_EXIT_OK; k++)
-    status = rvar_compute (path, d, which[k], &rv[k]);
+  gboolean ok = TRUE;
+  for (size_t k = 0; k < n && ok; k++)
+    ok = rvar_compute (path, d, which[k], &rv[k], error);
   LwReport *r = g_new0 (LwReport, 1);
   r->title = g_strdup (d->title[0] ? d->title : "Untitled design");
   r->author = g_strdup (d->author);
   r->date = g_strdup (date);
   r->blocks = g_ptr_array_new_with_free_func (block_free);
-  if (status != LW_EXIT_OK)
+  if (!ok)
     goto out;
 
   section_design (r, path, d, n);
   section_plant (r, d, &rv[0]);
   for (size_t k = 0; k < n; k++)
     section_variant (r, d, &rv[k], k);
-  status = add_figures (r, d, rv, n);
-  if (status != LW_EXIT_OK)
+  ok = add_figures (r, d, rv, n, error);
+  if (!ok)
     goto out;
   add_comparison (r, d, rv, n);
   heading (r, 2, "caution", "Caution");
   add_block (r, LW_REPORT_CAUTION, LW_REPORT_CAUTION_TEXT);
-  para (r, "Written by " LW_CLI_PROG " " PACKAGE_VERSION " from %s.", d->title[0] ? d->title
-                                                                                  : "an untitled design");
+  para (r, "Written by " LW_REPORT_GENERATOR " from %s.", d->title[0] ? d->title
+                                                                     : "an untitled design");
 out:
   for (size_t k = 0; k < n; k++)
     rvar_clear (&rv[k]);
-  if (status != LW_EXIT_OK)
+  if (!ok)
     {
       lw_report_free (r);
-      return status;
+      return NULL;
     }
-  *out = r;
-  return LW_EXIT_OK;
+  return r;
+}
+
+gboolean
+lw_report_date_from_environment (char **out, GError **error)
+{
+  *out = NULL;
+  const char *e = g_getenv ("SOURCE_DATE_EPOCH");
+  if (e == NULL || *e == '\0')
+    return TRUE;
+  /* whole seconds, decimal digits only, up to 9999-12-31T23:59:59Z */
+  gboolean digits = TRUE;
+  for (const char *c = e; *c != '\0'; c++)
+    digits = digits && g_ascii_isdigit (*c);
+  guint64 secs = 0;
+  if (!digits || strlen (e) > 12
+      || !g_ascii_string_to_unsigned (e, 10, 0, G_GUINT64_CONSTANT (253402300799), &secs, NULL))
+    {
+      g_set_error (error, LW_REPORT_ERROR, LW_REPORT_ERROR_BAD_INPUT,
+                   "SOURCE_DATE_EPOCH: '%s' is not a whole number of seconds from 0 to "
+                   "253402300799", e);
+      return FALSE;
+    }
+  g_autoptr (GDateTime) dt = g_date_time_new_from_unix_utc ((gint64) secs);
+  *out = g_date_time_format (dt, "%Y-%m-%d");
+  return TRUE;
+}
+
+bool
+lw_report_write_file (const LwReport *r, const char *path, size_t *len, GError **error)
+{
+  g_autofree char *lower = g_ascii_strdown (path, -1);
+  unsigned char *bytes = NULL;
+  size_t n = 0;
+  if (g_str_has_suffix (lower, ".pdf"))
+    {
+      if (!lw_report_pdf (r, &bytes, &n, error))
+        {
+          g_prefix_error (error, "%s: ", path);
+          return false;
+        }
+    }
+  else
+    bytes = (unsigned char *) lw_report_html (r, &n);
+  gboolean ok = g_file_set_contents (path, (const char *) bytes, (gssize) n, error);
+  if (!ok)
+    g_prefix_error (error, "%s: could not be written: ", path);
+  g_free (bytes);
+  if (ok && len != NULL)
+    *len = n;
+  return ok;
 }

@@ -20,7 +20,6 @@
 #include <cairo-pdf.h>
 #include <pango/pangocairo.h>
 
-#include "lw-cli-common.h"
 #include "lw-report.h"
 
 #define PAGE_W 595.276   /* A4, points */
@@ -311,7 +310,7 @@ append_bytes (void *closure, const unsigned char *data, unsigned int length)
 }
 
 bool
-lw_report_pdf (const LwReport *r, unsigned char **out, size_t *len, char *err, size_t err_size)
+lw_report_pdf (const LwReport *r, unsigned char **out, size_t *len, GError **error)
 {
   GByteArray *bytes = g_byte_array_new ();
   cairo_surface_t *s = cairo_pdf_surface_create_for_stream (append_bytes, bytes, PAGE_W, PAGE_H);
@@ -322,7 +321,7 @@ lw_report_pdf (const LwReport *r, unsigned char **out, size_t *len, char *err, s
   if (r->author)
     cairo_pdf_surface_set_metadata (s, CAIRO_PDF_METADATA_AUTHOR, r->author);
   cairo_pdf_surface_set_metadata (s, CAIRO_PDF_METADATA_CREATOR,
-                                  LW_CLI_PROG " " PACKAGE_VERSION);
+                                  LW_REPORT_GENERATOR);
   Pdf p = { 0 };
   p.cr = cairo_create (s);
   p.r = r;
@@ -363,7 +362,8 @@ lw_report_pdf (const LwReport *r, unsigned char **out, size_t *len, char *err, s
   cairo_surface_destroy (s);
   if (st != CAIRO_STATUS_SUCCESS)
     {
-      g_snprintf (err, err_size, "cairo could not write the PDF: %s", cairo_status_to_string (st));
+      g_set_error (error, LW_REPORT_ERROR, LW_REPORT_ERROR_FAILED,
+                   "cairo could not write the PDF: %s", cairo_status_to_string (st));
       g_byte_array_unref (bytes);
       return false;
     }

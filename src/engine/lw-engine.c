@@ -1,0 +1,461 @@
+/* lw-engine.c — the one evaluation of a design variant; see lw-engine.h.
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ */
+#include "config.h"
+
+#include <math.h>
+#include <string.h>
+
+#include "lw-engine.h"
+#include "lw-expr.h"
+#include "lw-stage.h"
+
+G_DEFINE_QUARK (lw-engine-error-quark, lw_engine_error)
+
+LwSamplingAdvice
+lw_engine_sampling_advice (const LwStep *step, double period_s, double *per_rise)
+{
+  if (per_rise != NULL)
+    *per_rise = NAN;
+  if (step == NULL || !step->has_rise || !(step->rise_time_s > 0.0) || !(period_s > 0.0))
+    return LW_SAMPLING_ADVICE_NONE;
+  double r = step->rise_time_s / period_s;
+  if (per_rise != NULL)
+    *per_rise = r;
+  if (r < LW_SAMPLES_PER_RISE_MIN)
+    return LW_SAMPLING_ADVICE_TOO_FEW;
+  if (r > LW_SAMPLES_PER_RISE_MAX)
+    return LW_SAMPLING_ADVICE_TOO_MANY;
+  return LW_SAMPLING_ADVICE_NONE;
+}
+
+const char *
+lw_req_status_word (LwReqStatus s)
+{
+  switch (s)
+    {
+    case LW_REQ_PASS: return "pass";
+    case LW_REQ_FAIL: return "fail";
+    case LW_REQ_NOT_AVAILABLE: return "not-available";
+    }
+  return "unknown";
+}
+
+char *
+lw_model_text (const LwModel *m)
+{
+  char small[256];
+  size_t need = lw_model_format (m, 6, small, sizeof small);
+  if (need < sizeof small)
+    return g_strdup (small);
+  char *big = g_malloc (need + 1);
+  lw_model_format (m, 6, big, need + 1);
+  return big;
+}
+
+char *
+lw_requirement_target_text (const LwRequirement *r)
+{
+  const char *unit = lw_req_kind_unit (r->kind);
+  const char *sep = strcmp (unit, "%") == 0 ? "" : " ";
+  switch (r->kind)
+    {
+    case LW_REQ_MIN_PHASE_MARGIN:
+    case LW_REQ_MIN_GAIN_MARGIN:
+      return g_strdup_printf ("at least %.6g%s%s", r->limit, sep, unit);
+    case LW_REQ_CROSSOVER_RANGE:
+      return g_strdup_printf ("%.6g to %.6g %s", r->limit, r->limit_hi, unit);
+    case LW_REQ_MAX_SENSITIVITY:
+    case LW_REQ_MAX_STEP_ERROR:
+    case LW_REQ_MAX_RAMP_ERROR:
+    case LW_REQ_MAX_OVERSHOOT:
+    case LW_REQ_MAX_RISE_TIME:
+    case LW_REQ_MAX_SETTLING_TIME:
+    case LW_REQ_MAX_ACTUATOR:
+      return g_strdup_printf ("at most %.6g%s%s", r->limit, sep, unit);
+    }
+  return g_strdup ("?");
+}
+
+/* ---- the sampled-plant cache ------------------------------------------------------------ */
+
+/* At most this many sampled plants (periods) are kept for one plant and dead time. */
+#define CACHE_MAX_ENTRIES 8
+
+/* A sampled plant shared by the cache and the evaluations made with it. */
+typedef struct
+{
+  LwSampledPlant *plant;
+} SharedPlant;
+
+static void
+shared_plant_clear (gpointer data)
+{
+  SharedPlant *s = data;
+  g_clear_pointer (&s->plant, lw_sampled_plant_free);
+}
+
+static void
+shared_plant_release (gpointer s)
+{
+  g_atomic_rc_box_release_full (s, shared_plant_clear);
+}
+
+typedef struct
+{
+  double period_s;
+  SharedPlant *shared;
+  guint64 used;                 /* for dropping the least recently used */
+} CacheEntry;
+
+struct _LwPlantCache
+{
+  gatomicrefcount ref;
+  GMutex lock;
+  char *plant_text;             /* the plant and dead time the entries are for */
+  double dead_time_s;
+  GArray *entries;              /* of CacheEntry */
+  guint64 clock;
+};
+
+static void
+cache_entry_clear (gpointer data)
+{
+  CacheEntry *e = data;
+  g_clear_pointer (&e->shared, shared_plant_release);
+}
+
+LwPlantCache *
+lw_plant_cache_new (void)
+{
+  LwPlantCache *c = g_new0 (LwPlantCache, 1);
+  g_atomic_ref_count_init (&c->ref);
+  g_mutex_init (&c->lock);
+  c->entries = g_array_new (FALSE, FALSE, sizeof (CacheEntry));
+  g_array_set_clear_func (c->entries, cache_entry_clear);
+  return c;
+}
+
+LwPlantCache *
+lw_plant_cache_ref (LwPlantCache *cache)
+{
+  g_return_val_if_fail (cache != NULL, NULL);
+  g_atomic_ref_count_inc (&cache->ref);
+  return cache;
+}
+
+void
+lw_plant_cache_unref (LwPlantCache *cache)
+{
+  if (cache == NULL || !g_atomic_ref_count_dec (&cache->ref))
+    return;
+  g_array_unref (cache->entries);
+  g_free (cache->plant_text);
+  g_mutex_clear (&cache->lock);
+  g_free (cache);
+}
+
+/* A new reference to the shared sampled plant of (plant_text, dead time, period): from the
+ * cache when there, else built (outside the lock: sampling a large plant takes a while) and
+ * kept. NULL with err set on failure. */
+static SharedPlant *
+cache_lookup (LwPlantCache *c, const char *plant_text, const LwModel *plant_s,
+              double dead_time_s, double period_s, LwError *err)
+{
+  if (c != NULL)
+    {
+      g_mutex_lock (&c->lock);
+      if (g_strcmp0 (c->plant_text, plant_text) == 0 && c->dead_time_s == dead_time_s)
+        for (guint k = 0; k < c->entries->len; k++)
+          {
+            CacheEntry *e = &g_array_index (c->entries, CacheEntry, k);
+            if (e->period_s == period_s)
+              {
+                e->used = ++c->clock;
+                SharedPlant *s = g_atomic_rc_box_acquire (e->shared);
+                g_mutex_unlock (&c->lock);
+                return s;
+              }
+          }
+      g_mutex_unlock (&c->lock);
+    }
+
+  LwSampledPlant *plant = NULL;
+  if (lw_sampled_plant_new (plant_s, dead_time_s, period_s, &plant, err) != LW_OK)
+    return NULL;
+  SharedPlant *s = g_atomic_rc_box_new0 (SharedPlant);
+  s->plant = plant;
+  if (c == NULL)
+    return s;
+
+  g_mutex_lock (&c->lock);
+  if (g_strcmp0 (c->plant_text, plant_text) != 0 || c->dead_time_s != dead_time_s)
+    {
+      /* another plant: the old entries' evaluations are stale */
+      g_array_set_size (c->entries, 0);
+      g_free (c->plant_text);
+      c->plant_text = g_strdup (plant_text);
+      c->dead_time_s = dead_time_s;
+    }
+  for (guint k = 0; k < c->entries->len; k++)
+    if (g_array_index (c->entries, CacheEntry, k).period_s == period_s)
+      {
+        /* another thread built the same one meanwhile */
+        g_array_remove_index_fast (c->entries, k);
+        break;
+      }
+  if (c->entries->len >= CACHE_MAX_ENTRIES)
+    {
+      guint oldest = 0;
+      for (guint k = 1; k < c->entries->len; k++)
+        if (g_array_index (c->entries, CacheEntry, k).used
+            < g_array_index (c->entries, CacheEntry, oldest).used)
+          oldest = k;
+      g_array_remove_index_fast (c->entries, oldest);
+    }
+  CacheEntry e = { period_s, g_atomic_rc_box_acquire (s), ++c->clock };
+  g_array_append_val (c->entries, e);
+  g_mutex_unlock (&c->lock);
+  return s;
+}
+
+/* ---- options and the evaluation object -------------------------------------------------- */
+
+void
+lw_engine_options_init (LwEngineOptions *o)
+{
+  memset (o, 0, sizeof *o);
+  lw_sim_options_init (&o->sim);
+  o->sim.substeps = 0;
+}
+
+typedef struct
+{
+  LwVariantEval pub;
+  SharedPlant *shared;          /* the reference behind pub.sampled, or NULL */
+} EvalPrivate;
+
+static void
+eval_clear (gpointer data)
+{
+  EvalPrivate *p = data;
+  LwVariantEval *e = &p->pub;
+  g_clear_error (&e->error);
+  g_clear_error (&e->sim_error);
+  g_clear_error (&e->achieved_error);
+  g_clear_pointer (&e->plant_s, lw_model_free);
+  g_clear_pointer (&e->controller_w, lw_model_free);
+  g_clear_pointer (&e->controller_z, lw_model_free);
+  g_clear_pointer (&e->ev, lw_evaluation_free);
+  g_clear_pointer (&e->sim_ref, lw_sim_response_free);
+  g_clear_pointer (&e->sim_in, lw_sim_response_free);
+  g_clear_pointer (&e->sim_out, lw_sim_response_free);
+  g_clear_pointer (&e->requirements, g_free);
+  e->sampled = NULL;
+  g_clear_pointer (&p->shared, shared_plant_release);
+}
+
+LwVariantEval *
+lw_variant_eval_ref (LwVariantEval *e)
+{
+  g_return_val_if_fail (e != NULL, NULL);
+  return &((EvalPrivate *) g_atomic_rc_box_acquire ((EvalPrivate *) (void *) e))->pub;
+}
+
+void
+lw_variant_eval_unref (LwVariantEval *e)
+{
+  if (e != NULL)
+    g_atomic_rc_box_release_full ((EvalPrivate *) (void *) e, eval_clear);
+}
+
+static EvalPrivate *
+eval_new (void)
+{
+  EvalPrivate *p = g_atomic_rc_box_new0 (EvalPrivate);
+  p->pub.error_position = -1;
+  return p;
+}
+
+static LwVariantEval *
+eval_fail (EvalPrivate *p, LwEvalFailure failure, const LwError *err)
+{
+  LwVariantEval *e = &p->pub;
+  e->failure = failure;
+  e->error = g_error_new_literal (LW_ENGINE_ERROR, err->code != LW_OK ? err->code : LW_ERR_INVALID,
+                                  err->message[0] ? err->message : "unknown error");
+  if (failure == LW_EVAL_FAILED_PLANT)
+    e->error_position = err->position;
+  g_clear_pointer (&e->ev, lw_evaluation_free);
+  return e;
+}
+
+gboolean
+lw_variant_eval_ok (const LwVariantEval *e, GError **error)
+{
+  g_return_val_if_fail (e != NULL, FALSE);
+  if (e->failure == LW_EVAL_OK)
+    return TRUE;
+  if (error != NULL)
+    *error = g_error_copy (e->error);
+  return FALSE;
+}
+
+/* Evaluation, simulation and achieved figures of a loop whose plant, sampled plant and
+ * controllers are in e (the common path of both entry points). */
+static LwVariantEval *
+eval_loop (EvalPrivate *p, const LwEngineOptions *opts)
+{
+  LwVariantEval *e = &p->pub;
+  LwEngineOptions defaults;
+  if (opts == NULL)
+    {
+      lw_engine_options_init (&defaults);
+      opts = &defaults;
+    }
+
+  LwAnalysisOptions ao;
+  lw_analysis_options_init (&ao);
+  ao.compute_delay = e->compute_delay;
+  if (opts->n_points > 0)
+    ao.n_points = opts->n_points;
+  if (opts->n_steps > 0)
+    ao.n_steps = opts->n_steps;
+  LwError err;
+  lw_error_clear (&err);
+  if (lw_evaluate (e->sampled, e->controller_z, &ao, &e->ev, &err) != LW_OK)
+    return eval_fail (p, LW_EVAL_FAILED_LOOP, &err);
+  e->step = e->ev->step;
+
+  /* the simulated steps; a failure leaves them out, not the loop */
+  LwSimOptions so = opts->sim;
+  so.compute_delay = e->compute_delay;
+  so.n_steps = ao.n_steps;
+  LwSimPlan *plan = NULL;
+  if (lw_sim_plan_new (e->sampled, e->controller_z, &so, &plan, &err) != LW_OK
+      || lw_sim_run (plan, LW_SIM_REFERENCE_STEP, 1.0, &e->sim_ref, &err) != LW_OK
+      || (opts->disturbances
+          && (lw_sim_run (plan, LW_SIM_INPUT_DISTURBANCE_STEP, 1.0, &e->sim_in, &err) != LW_OK
+              || lw_sim_run (plan, LW_SIM_OUTPUT_DISTURBANCE_STEP, 1.0, &e->sim_out, &err)
+                   != LW_OK)))
+    {
+      e->sim_error = g_error_new_literal (LW_ENGINE_ERROR, err.code != LW_OK ? err.code
+                                                                             : LW_ERR_NUMERIC,
+                                          err.message[0] ? err.message : "unknown error");
+      g_clear_pointer (&e->sim_ref, lw_sim_response_free);
+      g_clear_pointer (&e->sim_in, lw_sim_response_free);
+      g_clear_pointer (&e->sim_out, lw_sim_response_free);
+    }
+  lw_sim_plan_free (plan);
+  if (e->sim_ref != NULL)
+    {
+      e->has_sim = TRUE;
+      e->indices = e->sim_ref->indices;
+      e->actuator_peak = 0.0;
+      for (size_t k = 0; k < e->sim_ref->n; k++)
+        e->actuator_peak = fmax (e->actuator_peak, fabs (e->sim_ref->u[k]));
+      if (so.has_limits)
+        {
+          /* the limited loop's step, its figures against the linear loop's final value */
+          e->step.samples = e->sim_ref->y;
+          e->step.n = e->sim_ref->n;
+          lw_step_figures (&e->step, e->ev->period_s);
+        }
+    }
+
+  /* achieved figures; a failure leaves them (and the verdicts) out, not the loop */
+  lw_error_clear (&err);
+  e->has_achieved = lw_achieved_from_evaluation (e->ev, e->plant_s, &e->achieved, &err) == LW_OK;
+  if (!e->has_achieved)
+    e->achieved_error = g_error_new_literal (LW_ENGINE_ERROR, err.code != LW_OK ? err.code
+                                                                                : LW_ERR_NUMERIC,
+                                             err.message[0] ? err.message : "unknown error");
+  else if (e->has_sim)
+    {
+      e->achieved.has_actuator_peak = true;
+      e->achieved.actuator_peak = e->actuator_peak;
+    }
+  e->failure = LW_EVAL_OK;
+  return e;
+}
+
+LwVariantEval *
+lw_engine_evaluate_variant (const LwDesign *d, size_t variant, const LwEngineOptions *opts,
+                            LwPlantCache *cache)
+{
+  g_return_val_if_fail (d != NULL, NULL);
+  g_return_val_if_fail (variant < d->n_variants, NULL);
+  g_return_val_if_fail (opts == NULL || opts->n_points == 0 || opts->n_points >= 16, NULL);
+
+  EvalPrivate *p = eval_new ();
+  LwVariantEval *e = &p->pub;
+  const LwDesignVariant *v = &d->variants[variant];
+  e->variant = variant;
+  e->period_s = lw_design_variant_period_s (d, variant);   /* its own, or the design's */
+  e->dead_time_s = d->dead_time_s;
+  e->compute_delay = d->compute_delay;
+
+  LwError err;
+  lw_error_clear (&err);
+  if (lw_expr_parse_proper (d->plant, LW_DOMAIN_S, 0.0, &e->plant_s, &err) != LW_OK)
+    return eval_fail (p, LW_EVAL_FAILED_PLANT, &err);
+  p->shared = cache_lookup (cache, d->plant, e->plant_s, d->dead_time_s, e->period_s, &err);
+  if (p->shared == NULL)
+    return eval_fail (p, LW_EVAL_FAILED_SAMPLING, &err);
+  e->sampled = p->shared->plant;
+  if (lw_compensator_w (v->stages, v->n_stages, e->period_s, &e->controller_w, &err) != LW_OK
+      || lw_compensator_z (v->stages, v->n_stages, e->period_s, &e->controller_z, &err)
+           != LW_OK)
+    {
+      g_clear_pointer (&e->controller_w, lw_model_free);
+      g_clear_pointer (&e->controller_z, lw_model_free);
+      return eval_fail (p, LW_EVAL_FAILED_COMPENSATOR, &err);
+    }
+  eval_loop (p, opts);
+  if (e->failure != LW_EVAL_OK)
+    return e;
+
+  /* each requirement's verdict; without achieved figures every one is not available */
+  e->n_requirements = d->n_requirements;
+  e->requirements = g_new0 (LwReqResult, d->n_requirements + 1);
+  for (size_t i = 0; i < d->n_requirements; i++)
+    {
+      if (e->has_achieved)
+        e->requirements[i] = lw_requirement_evaluate (&d->requirements[i].req, &e->achieved);
+      else
+        {
+          e->requirements[i].status = LW_REQ_NOT_AVAILABLE;
+          e->requirements[i].achieved = NAN;
+          e->requirements[i].slack = NAN;
+        }
+      if (e->requirements[i].status != LW_REQ_PASS)
+        e->n_not_passing++;
+    }
+  return e;
+}
+
+LwVariantEval *
+lw_engine_evaluate_loop (const LwEngineLoop *loop, const LwEngineOptions *opts)
+{
+  g_return_val_if_fail (loop != NULL && loop->plant_s != NULL && loop->sampled != NULL
+                        && loop->controller_z != NULL, NULL);
+  g_return_val_if_fail (opts == NULL || opts->n_points == 0 || opts->n_points >= 16, NULL);
+
+  EvalPrivate *p = eval_new ();
+  LwVariantEval *e = &p->pub;
+  e->period_s = lw_sampled_plant_period (loop->sampled);
+  e->dead_time_s = loop->dead_time_s;
+  e->compute_delay = loop->compute_delay;
+  e->plant_s = lw_model_copy (loop->plant_s);
+  e->controller_z = lw_model_copy (loop->controller_z);
+  e->controller_w = loop->controller_w != NULL ? lw_model_copy (loop->controller_w) : NULL;
+  e->sampled = loop->sampled;
+  if (e->plant_s == NULL || e->controller_z == NULL
+      || (loop->controller_w != NULL && e->controller_w == NULL))
+    {
+      LwError err;
+      lw_error_set (&err, LW_ERR_NOMEM, -1, "out of memory for the loop");
+      return eval_fail (p, LW_EVAL_FAILED_LOOP, &err);
+    }
+  return eval_loop (p, opts);
+}

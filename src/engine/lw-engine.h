@@ -1,0 +1,175 @@
+/* lw-engine.h — the one evaluation of a design variant, shared by the window, the CLI and the
+ * report.
+ *
+ * Given a design document and one of its variants, the engine parses the plant, samples it
+ * (exact zero-order hold with dead time; the sampled plant is kept in an LwPlantCache and
+ * shared by every evaluation made with it), builds the variant's compensator in w and z,
+ * evaluates the loop (lw_evaluate: crossovers, margins, closed loop, step), simulates the
+ * reference step (and on request the disturbance steps) with the given actuator limits,
+ * derives the achieved figures and judges each of the document's requirements.  A loop given
+ * without a document (the CLI's loop options) takes the same path from its sampled plant on
+ * (lw_engine_evaluate_loop), so a number is the same wherever it is shown.
+ *
+ * Layering: the engine sits on doc/ and core/ and knows nothing of plot/, the CLI or GTK.
+ * Errors are GErrors; a failure of the core keeps the core's status as its code in
+ * LW_ENGINE_ERROR (so callers can tell bad input, LW_ERR_PARSE/LW_ERR_INVALID, from an
+ * internal failure) and says which part of the design failed in LwVariantEval.failure.
+ *
+ * Threads: an evaluation touches no global state; an LwPlantCache may be shared between
+ * threads (it locks), and an LwVariantEval, once made, is read-only and reference-counted, so
+ * a worker thread can make it and the main thread draw it.
+ *
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ */
+#pragma once
+
+#include <glib.h>
+
+#include "lw-analysis.h"
+#include "lw-design.h"
+#include "lw-model.h"
+#include "lw-require.h"
+#include "lw-simulate.h"
+
+G_BEGIN_DECLS
+
+/* GError domain of the engine; codes are the core's LwStatus values (LW_ERR_PARSE …). */
+#define LW_ENGINE_ERROR (lw_engine_error_quark ())
+GQuark lw_engine_error_quark (void);
+
+/* Common practice, no source: 10 to 30 samples per closed-loop rise time. */
+#define LW_SAMPLES_PER_RISE_MIN 10.0
+#define LW_SAMPLES_PER_RISE_MAX 30.0
+
+typedef enum
+{
+  LW_SAMPLING_ADVICE_NONE = 0,   /* within the usual range, or no rise time to judge by */
+  LW_SAMPLING_ADVICE_TOO_FEW,    /* fewer than 10 samples per rise: a shorter period */
+  LW_SAMPLING_ADVICE_TOO_MANY    /* more than 30: a longer period would do */
+} LwSamplingAdvice;
+
+/* The one rule for the sample period against the closed-loop rise time; *per_rise (may be
+ * NULL) is the number of samples per rise time when the step has one. */
+LwSamplingAdvice lw_engine_sampling_advice (const LwStep *step, double period_s,
+                                            double *per_rise);
+
+/* ---- the sampled-plant cache ------------------------------------------------------------ */
+
+/* Sampled plants by (plant text, dead time, period). A new plant or dead time drops the
+ * entries of the old one; at most a few periods are kept (variants may have their own).
+ * Thread-safe. */
+typedef struct _LwPlantCache LwPlantCache;
+
+LwPlantCache *lw_plant_cache_new (void);
+LwPlantCache *lw_plant_cache_ref (LwPlantCache *cache);
+void lw_plant_cache_unref (LwPlantCache *cache);
+G_DEFINE_AUTOPTR_CLEANUP_FUNC (LwPlantCache, lw_plant_cache_unref)
+
+/* ---- options ------------------------------------------------------------------------------ */
+
+typedef struct
+{
+  size_t n_points;          /* frequency points up to π/T, >= 16; 0: lw_analysis_options_init */
+  size_t n_steps;           /* step samples, >= 2; 0: lw_analysis_options_init */
+  LwSimOptions sim;         /* limits, anti-windup, substeps; compute_delay and n_steps are
+                               set from the loop and n_steps above */
+  gboolean disturbances;    /* also simulate the input- and output-disturbance steps */
+} LwEngineOptions;
+
+/* Default points and steps, no limits, no continuous output (substeps 0), reference step
+ * only. */
+void lw_engine_options_init (LwEngineOptions *o);
+
+/* ---- the evaluation ----------------------------------------------------------------------- */
+
+/* Which part of the design an evaluation failed on. */
+typedef enum
+{
+  LW_EVAL_OK = 0,
+  LW_EVAL_FAILED_PLANT,         /* the plant expression; error_position is its character */
+  LW_EVAL_FAILED_SAMPLING,      /* period or dead time */
+  LW_EVAL_FAILED_COMPENSATOR,   /* a stage's parameters */
+  LW_EVAL_FAILED_LOOP           /* the loop evaluation itself */
+} LwEvalFailure;
+
+typedef struct
+{
+  /* what was evaluated */
+  size_t variant;                 /* index in the document (0 for a loop without one) */
+  double period_s;                /* the variant's own period, else the design's */
+  double dead_time_s;
+  int compute_delay;
+
+  /* a failure, or LW_EVAL_OK with everything below that depends on it set */
+  LwEvalFailure failure;
+  GError *error;                  /* LW_ENGINE_ERROR, the core's message; NULL when OK */
+  int error_position;             /* 0-based character of a plant failure, else −1 */
+
+  LwModel *plant_s;               /* NULL when the plant failed to parse */
+  LwModel *controller_w;          /* NULL when the compensator failed, or given in z */
+  LwModel *controller_z;          /* NULL when the compensator failed */
+  const LwSampledPlant *sampled;  /* held by the evaluation; NULL on a plant/sampling failure */
+  LwEvaluation *ev;               /* NULL on any failure */
+
+  /* the step whose figures are reported: ev->step, or with actuator limits the limited
+   * loop's (samples of sim_ref, figures against the linear loop's final value; see
+   * docs/simulation.md) */
+  LwStep step;
+
+  /* simulations (lw-simulate.h); NULL when not run or failed (sim_error says why) */
+  LwSimResponse *sim_ref;         /* reference step of amplitude 1 */
+  LwSimResponse *sim_in;          /* input-disturbance step (options.disturbances) */
+  LwSimResponse *sim_out;         /* output-disturbance step (options.disturbances) */
+  GError *sim_error;
+  gboolean has_sim;               /* sim_ref is set */
+  LwSimIndices indices;           /* of sim_ref */
+  double actuator_peak;           /* max |u(kT)| of sim_ref */
+
+  /* the achieved figures (with the actuator peak of sim_ref) and, for a variant of a
+   * document, each requirement's verdict in the document's order */
+  gboolean has_achieved;
+  LwAchieved achieved;
+  GError *achieved_error;         /* why has_achieved is false */
+  size_t n_requirements;
+  LwReqResult *requirements;      /* n_requirements verdicts; NULL without a document */
+  size_t n_not_passing;           /* failed or not available */
+} LwVariantEval;
+
+/* Evaluates variant `variant` of d. cache (may be NULL) keeps the sampled plant between
+ * calls; opts NULL means lw_engine_options_init. Never NULL: a failure is in ->failure and
+ * ->error. */
+LwVariantEval *lw_engine_evaluate_variant (const LwDesign *d, size_t variant,
+                                           const LwEngineOptions *opts, LwPlantCache *cache);
+
+/* A loop without a document: the plant in s, its sampled form (not taken; must outlive the
+ * evaluation), the controller in z (and in w when known; both copied) and the computation
+ * delay. No requirements are judged. Never NULL. */
+typedef struct
+{
+  const LwModel *plant_s;
+  const LwSampledPlant *sampled;
+  const LwModel *controller_w;    /* may be NULL */
+  const LwModel *controller_z;
+  double dead_time_s;
+  int compute_delay;
+} LwEngineLoop;
+
+LwVariantEval *lw_engine_evaluate_loop (const LwEngineLoop *loop, const LwEngineOptions *opts);
+
+/* TRUE when e evaluated, else FALSE with a copy of its error in *error. */
+gboolean lw_variant_eval_ok (const LwVariantEval *e, GError **error);
+
+LwVariantEval *lw_variant_eval_ref (LwVariantEval *e);
+void lw_variant_eval_unref (LwVariantEval *e);
+G_DEFINE_AUTOPTR_CLEANUP_FUNC (LwVariantEval, lw_variant_eval_unref)
+
+/* Factored text of a model, 6 significant digits (lw_model_format); g_free the result. */
+char *lw_model_text (const LwModel *m);
+
+/* A requirement's target in words: "at least 45 deg", "20 to 60 rad/s" …; g_free it. */
+char *lw_requirement_target_text (const LwRequirement *r);
+
+/* "pass", "fail", "not-available": the words of a verdict in JSON and reports. */
+const char *lw_req_status_word (LwReqStatus s);
+
+G_END_DECLS
