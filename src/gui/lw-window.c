@@ -1,10 +1,15 @@
 /* lw-window.c — the designer window.
  *
  * Data flows one way: a panel (or a drag handle) edits the design model, which writes into the
- * design document; the model's "changed" signal schedules one evaluation on the frame clock
- * (lw_design_model_evaluate, through core/), done in the next frame's update phase however
- * many edits came before it, and the evaluation goes to every panel and to the plot area,
- * which turn it into text and figures.
+ * design document; the model's "changed" signal schedules one evaluation on the frame clock.
+ * In the next frame's update phase (however many edits came before it) a copy of the document
+ * goes to a worker thread (GTask), which evaluates the active variant and any compared variant
+ * whose inputs changed through the engine (lw-engine.h, the same evaluation as the CLI and
+ * the report), so a slow design never stalls a frame. One evaluation runs at a time: edits
+ * made meanwhile are evaluated, newest document only, when it ends; a result older than the
+ * one on show is dropped. The evaluation goes to every panel and to the plot area, which turn
+ * it into text and figures. Opening a document and the drag benchmark evaluate at once, on
+ * the main thread, by the same job.
  *
  * Undo: the history is a stack of whole-document snapshots (lw_design_copy).  `committed` is
  * the document as of the last undo step; an edit schedules a commit UNDO_MERGE_MS later
@@ -71,8 +76,13 @@ struct _LwWindow
   GHashTable *ref_evals;        /* variant name → RefEval: references, evaluated once */
 
   LwDesignModel *model;
-  LwVariantEval *eval;             /* the evaluation on show */
+  LwVariantEval *eval;          /* the evaluation on show */
   guint eval_tick;              /* pending evaluation on the frame clock, or 0 */
+  guint64 eval_generation;      /* of the newest evaluation started */
+  guint64 shown_generation;     /* of the evaluation on show */
+  gboolean eval_running;        /* a worker is evaluating */
+  gboolean eval_again;          /* an edit came meanwhile: evaluate again when it ends */
+  GCancellable *eval_cancel;    /* cancelled when the window goes */
   gboolean one_column;
 
   /* file and unsaved state */
@@ -209,18 +219,17 @@ show_handles_and_plots (LwWindow *self)
         }
       else if (is_compared (self, name))
         {
-          g_autoptr (GBytes) key = variant_key (d, i);
+          /* the newest evaluation the worker brought; a variant compared for the first time
+           * is evaluated here, once */
           RefEval *r = NULL;
           char *old_key = NULL;
           if (g_hash_table_steal_extended (self->ref_evals, name, (gpointer *) &old_key,
                                            (gpointer *) &r))
             g_free (old_key);
-          if (r == NULL || !g_bytes_equal (r->key, key))
+          if (r == NULL)
             {
-              if (r != NULL)
-                ref_eval_free (r);
               r = g_new0 (RefEval, 1);
-              r->key = g_bytes_ref (key);
+              r->key = variant_key (d, i);
               r->eval = lw_design_model_evaluate_variant (self->model, i, 0);
             }
           g_hash_table_insert (kept, g_strdup (name), r);
@@ -253,23 +262,12 @@ show_handles_and_plots (LwWindow *self)
                          (guint) d->n_requirements);
 }
 
-/* Evaluates the design and shows the result everywhere. Synchronous: a loop evaluation takes
- * about a millisecond at the default grid, and is done at most once per frame. The
- * off-main-loop worker goes here — evaluate a copy of the document on a GTask thread, drop
- * results older than the newest edit — when dense sweeps and long simulations join. */
+/* Shows an evaluation of the active variant everywhere. */
 static void
-reevaluate (LwWindow *self)
+show_eval (LwWindow *self, LwVariantEval *eval)
 {
-  if (self->eval_tick != 0)
-    {
-      gtk_widget_remove_tick_callback (GTK_WIDGET (self), self->eval_tick);
-      self->eval_tick = 0;
-    }
   g_clear_pointer (&self->eval, lw_variant_eval_unref);
-  /* during a drag: about as many frequency points as a plot has pixels across */
-  self->eval = self->dragging ? lw_design_model_evaluate_points (self->model, DRAG_POINTS)
-                              : lw_design_model_evaluate (self->model);
-
+  self->eval = eval;
   lw_plant_panel_show_eval (self->plant_panel, self->eval);
   lw_compensator_panel_show_eval (self->compensator_panel, self->eval);
   lw_requirements_panel_show_eval (self->requirements_panel, self->eval);
@@ -286,12 +284,157 @@ reevaluate (LwWindow *self)
     }
 }
 
+/* One evaluation job: a copy of the document and the variants to evaluate in it (the active
+ * one first, then compared ones whose inputs changed). */
+typedef struct
+{
+  LwDesign *doc;
+  LwPlantCache *cache;
+  guint64 generation;
+  size_t n_points;              /* of the active variant: fewer during a drag */
+  guint n;
+  guint index[LW_PLOT_MAX_VARIANTS];
+  char *name[LW_PLOT_MAX_VARIANTS];
+  GBytes *key[LW_PLOT_MAX_VARIANTS];
+  LwVariantEval *result[LW_PLOT_MAX_VARIANTS];
+} EvalJob;
+
+static void
+eval_job_free (gpointer data)
+{
+  EvalJob *job = data;
+  for (guint k = 0; k < job->n; k++)
+    {
+      g_free (job->name[k]);
+      g_clear_pointer (&job->key[k], g_bytes_unref);
+      g_clear_pointer (&job->result[k], lw_variant_eval_unref);
+    }
+  lw_plant_cache_unref (job->cache);
+  lw_design_free (job->doc);
+  g_free (job);
+}
+
+static EvalJob *
+eval_job_new (LwWindow *self)
+{
+  const LwDesign *d = lw_design_model_get_design (self->model);
+  EvalJob *job = g_new0 (EvalJob, 1);
+  job->doc = lw_design_copy (d);
+  job->cache = lw_plant_cache_ref (lw_design_model_get_plant_cache (self->model));
+  job->generation = ++self->eval_generation;
+  /* during a drag: about as many frequency points as a plot has pixels across */
+  job->n_points = self->dragging ? DRAG_POINTS : 0;
+  job->index[job->n++] = (guint) d->active;
+  for (guint i = 0; i < d->n_variants && job->n < LW_PLOT_MAX_VARIANTS; i++)
+    {
+      if (i == d->active || !is_compared (self, d->variants[i].name))
+        continue;
+      g_autoptr (GBytes) key = variant_key (d, i);
+      RefEval *r = g_hash_table_lookup (self->ref_evals, d->variants[i].name);
+      if (r != NULL && g_bytes_equal (r->key, key))
+        continue;
+      job->index[job->n] = i;
+      job->name[job->n] = g_strdup (d->variants[i].name);
+      job->key[job->n] = g_bytes_ref (key);
+      job->n++;
+    }
+  return job;
+}
+
+/* Runs a job: on the worker thread, or on the main thread for an evaluation needed at once. */
+static void
+eval_job_run (EvalJob *job)
+{
+  for (guint k = 0; k < job->n; k++)
+    {
+      LwEngineOptions opts;
+      lw_engine_options_init (&opts);
+      opts.n_points = k == 0 ? job->n_points : 0;
+      job->result[k] = lw_engine_evaluate_variant (job->doc, job->index[k], &opts, job->cache);
+    }
+}
+
+/* Shows a finished job's results, unless a newer one is on show already. */
+static void
+eval_job_show (LwWindow *self, EvalJob *job)
+{
+  if (job->generation < self->shown_generation)
+    return;
+  self->shown_generation = job->generation;
+  for (guint k = 1; k < job->n; k++)
+    {
+      RefEval *r = g_new0 (RefEval, 1);
+      r->key = g_steal_pointer (&job->key[k]);
+      r->eval = g_steal_pointer (&job->result[k]);
+      g_hash_table_replace (self->ref_evals, g_strdup (job->name[k]), r);
+    }
+  show_eval (self, g_steal_pointer (&job->result[0]));
+}
+
+static void
+eval_thread (GTask *task, gpointer source, gpointer task_data, GCancellable *cancellable)
+{
+  eval_job_run (task_data);
+  g_task_return_boolean (task, TRUE);
+}
+
+static void start_eval (LwWindow *self);
+
+static void
+eval_done (GObject *source, GAsyncResult *result, gpointer user_data)
+{
+  LwWindow *self = LW_WINDOW (source);
+  GTask *task = G_TASK (result);
+  if (g_cancellable_is_cancelled (g_task_get_cancellable (task)))
+    return;   /* the window went meanwhile */
+  self->eval_running = FALSE;
+  eval_job_show (self, g_task_get_task_data (task));
+  if (self->eval_again)
+    {
+      self->eval_again = FALSE;
+      start_eval (self);
+    }
+}
+
+/* Evaluates the newest document on a worker thread; while one runs, notes that another is
+ * wanted when it ends (so the newest edit is always evaluated, and no queue builds up). */
+static void
+start_eval (LwWindow *self)
+{
+  if (self->eval_running)
+    {
+      self->eval_again = TRUE;
+      return;
+    }
+  self->eval_running = TRUE;
+  g_autoptr (GTask) task = g_task_new (self, self->eval_cancel, eval_done, NULL);
+  g_task_set_source_tag (task, start_eval);
+  g_task_set_task_data (task, eval_job_new (self), eval_job_free);
+  g_task_run_in_thread (task, eval_thread);
+}
+
+/* Evaluates the design now, on the main thread, and shows the result (opening a document, the
+ * drag benchmark's frames); a worker still running for an older document is overtaken. */
+static void
+reevaluate (LwWindow *self)
+{
+  if (self->eval_tick != 0)
+    {
+      gtk_widget_remove_tick_callback (GTK_WIDGET (self), self->eval_tick);
+      self->eval_tick = 0;
+    }
+  EvalJob *job = eval_job_new (self);
+  eval_job_run (job);
+  eval_job_show (self, job);
+  eval_job_free (job);
+}
+
 static gboolean
 eval_tick (GtkWidget *widget, GdkFrameClock *clock, gpointer user_data)
 {
   LwWindow *self = LW_WINDOW (widget);
   self->eval_tick = 0;
-  reevaluate (self);
+  start_eval (self);
   return G_SOURCE_REMOVE;
 }
 
@@ -1849,6 +1992,9 @@ lw_window_dispose (GObject *object)
   g_clear_pointer (&self->bench_paint, g_array_unref);
   g_clear_pointer (&self->compared, g_ptr_array_unref);
   g_clear_pointer (&self->ref_evals, g_hash_table_unref);
+  if (self->eval_cancel != NULL)
+    g_cancellable_cancel (self->eval_cancel);
+  g_clear_object (&self->eval_cancel);
   gtk_widget_dispose_template (GTK_WIDGET (self), LW_TYPE_WINDOW);
   G_OBJECT_CLASS (lw_window_parent_class)->dispose (object);
 }
@@ -1985,6 +2131,7 @@ lw_window_init (LwWindow *self)
   self->bench_paint = g_array_new (FALSE, FALSE, sizeof (double));
   self->compared = g_ptr_array_new_with_free_func (g_free);
   self->ref_evals = g_hash_table_new_full (g_str_hash, g_str_equal, g_free, ref_eval_free);
+  self->eval_cancel = g_cancellable_new ();
   self->sel_stage = -1;
   self->debug = g_strcmp0 (g_getenv ("LW_DEBUG_HANDLES"), "1") == 0;
   g_signal_connect_swapped (gtk_settings_get_default (), "notify::gtk-application-prefer-dark-theme",
