@@ -139,7 +139,6 @@ lw_export_dialog_show (GtkWindow *parent, GSettings *settings, const char *base_
   e->build = build;
   e->user_data = user_data;
 
-  G_GNUC_BEGIN_IGNORE_DEPRECATIONS
   GtkWidget *dialog = gtk_dialog_new_with_buttons (_("Export Figure"), parent,
                                                    GTK_DIALOG_MODAL
                                                      | GTK_DIALOG_DESTROY_WITH_PARENT,
@@ -148,7 +147,6 @@ lw_export_dialog_show (GtkWindow *parent, GSettings *settings, const char *base_
                                                    NULL);
   gtk_dialog_set_default_response (GTK_DIALOG (dialog), GTK_RESPONSE_ACCEPT);
   GtkWidget *content = gtk_dialog_get_content_area (GTK_DIALOG (dialog));
-  G_GNUC_END_IGNORE_DEPRECATIONS
 
   GtkWidget *grid = gtk_grid_new ();
   gtk_grid_set_row_spacing (GTK_GRID (grid), 6);

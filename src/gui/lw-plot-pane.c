@@ -126,11 +126,9 @@ debug_print_handles (LwPlotPane *self)
     return;
   double tx = 0, ty = 0, ox = 0, oy = 0;
   gtk_native_get_surface_transform (native, &tx, &ty);
-  G_GNUC_BEGIN_IGNORE_DEPRECATIONS
   if (!gtk_widget_translate_coordinates (GTK_WIDGET (self), GTK_WIDGET (native), 0, 0, &ox,
                                          &oy))
     return;
-  G_GNUC_END_IGNORE_DEPRECATIONS
   ox += tx;
   oy += ty;
 

@@ -151,7 +151,11 @@ def inner(app, schema_dir, example, artefacts):
         for view in ('bode-z', 'bode-w', 'step', 'nyquist'):
             wait_for(lambda: log.last('LW-SERIES', view=view, variants=3),
                      'three variants in the %s view' % view)
-        wait_for(lambda: log.last('LW-METRIC', row='phase-margin'), 'the metrics table')
+        # the table is printed after the plots: wait for the one with the three variants
+        def three_columns():
+            m = log.last('LW-METRIC', row='phase-margin')
+            return m is not None and len(m['values'].split(',')) == 3
+        wait_for(three_columns, 'the metrics table')
         pm = log.last('LW-METRIC', row='phase-margin')
         if len(pm['values'].split(',')) != 3:
             fail('the metrics table has %s, not three columns' % pm['values'])
