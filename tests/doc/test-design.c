@@ -702,6 +702,72 @@ test_model_api (void **state)
   assert_null (lw_view_name (LW_VIEW_NICHOLS | LW_VIEW_STEP));
 }
 
+/* A document written out by hand (the vocabulary of docs/file-format.md) reads to the literal
+ * values it states, and saving them gives the very same text back: the round trip checked
+ * against something written outside the writer, not only against itself. */
+static const char literal_doc[] =
+  "<?xml version=\"1.0\" encoding=\"UTF-8\"?>\n"
+  "<design xmlns=\"urn:loopwright:design\" version=\"1\">\n"
+  "  <title>Pump pressure, literal</title>\n"
+  "  <plant dead_time_s=\"0.05\">2.5/((0.4*s+1)*(0.05*s+1))</plant>\n"
+  "  <sampling period_s=\"0.01\" hold=\"zero-order\" compute_delay_samples=\"2\"/>\n"
+  "  <requirements>\n"
+  "    <phase-margin min_deg=\"50\"/>\n"
+  "    <crossover min_rad_s=\"2\" max_rad_s=\"8.5\"/>\n"
+  "  </requirements>\n"
+  "  <variants active=\"slow\">\n"
+  "    <variant name=\"fast\" period_s=\"0.005\">\n"
+  "      <gain ratio=\"1.25\"/>\n"
+  "      <lead label=\"lead\" zero_rad_s=\"3\" pole_rad_s=\"30\"/>\n"
+  "    </variant>\n"
+  "    <variant name=\"slow\">\n"
+  "      <pi gain=\"0.8\" zero_rad_s=\"0.5\"/>\n"
+  "    </variant>\n"
+  "  </variants>\n"
+  "</design>\n";
+
+static void
+test_literal_document (void **state)
+{
+  (void) state;
+  GError *error = NULL;
+  g_autoptr (LwDesign) d = lw_design_load_data (literal_doc, strlen (literal_doc), "literal",
+                                                &error);
+  if (d == NULL)
+    fail_msg ("%s", error->message);
+  assert_string_equal (d->title, "Pump pressure, literal");
+  assert_string_equal (d->plant, "2.5/((0.4*s+1)*(0.05*s+1))");
+  /* numbers as written: exact, since each literal is the shortest text of its double */
+  assert_true (d->dead_time_s == 0.05);
+  assert_true (d->period_s == 0.01);
+  assert_int_equal (d->compute_delay, 2);
+  assert_int_equal (d->n_requirements, 2);
+  assert_int_equal (d->requirements[0].req.kind, LW_REQ_MIN_PHASE_MARGIN);
+  assert_true (d->requirements[0].req.limit == 50.0);
+  assert_int_equal (d->requirements[1].req.kind, LW_REQ_CROSSOVER_RANGE);
+  assert_true (d->requirements[1].req.limit == 2.0 && d->requirements[1].req.limit_hi == 8.5);
+  assert_int_equal (d->n_variants, 2);
+  assert_int_equal (d->active, 1);
+  const LwDesignVariant *fast = &d->variants[0], *slow = &d->variants[1];
+  assert_string_equal (fast->name, "fast");
+  assert_true (fast->has_period && fast->period_s == 0.005);
+  assert_int_equal (fast->n_stages, 2);
+  assert_int_equal (fast->stages[0].kind, LW_STAGE_GAIN);
+  assert_true (fast->stages[0].p.gain.ratio == 1.25);
+  assert_int_equal (fast->stages[1].kind, LW_STAGE_LEAD);
+  assert_true (fast->stages[1].p.leadlag.zero_rad_s == 3.0
+               && fast->stages[1].p.leadlag.pole_rad_s == 30.0);
+  assert_string_equal (slow->name, "slow");
+  assert_false (slow->has_period);
+  assert_int_equal (slow->n_stages, 1);
+  assert_int_equal (slow->stages[0].kind, LW_STAGE_PI);
+  assert_true (slow->stages[0].p.pi.gain == 0.8 && slow->stages[0].p.pi.zero_rad_s == 0.5);
+
+  size_t len = 0;
+  g_autofree char *t = text_ok (d, &len);
+  assert_string_equal (t, literal_doc);
+}
+
 int
 main (int argc, char **argv)
 {
@@ -716,6 +782,7 @@ main (int argc, char **argv)
     cmocka_unit_test (test_examples_load),
     cmocka_unit_test (test_round_trip),
     cmocka_unit_test (test_round_trip_everything),
+    cmocka_unit_test (test_literal_document),
     cmocka_unit_test (test_round_trip_variant_period),
     cmocka_unit_test (test_numbers_round_trip),
     cmocka_unit_test (test_numbers_locale),
