@@ -12,7 +12,7 @@ What is checked, and against what:
 2. `plot FILE --all-variants` overlays the variants: counting the curve paths per variant
    colour in the SVG as tests/plot/test-cli-plot.py does (curves and legend samples are the
    only strokes of width 1.75, src/plot/lw-plot.h), each variant's colour (the first two of
-   the light palette, src/plot/lw-plot.c) carries the same number of curves as a single-loop
+   the light palette, src/plot/lw-plot-draw.c) carries the same number of curves as a single-loop
    plot of that view; with --variant only the first colour appears. A report on the third
    and fourth of four variants draws them in the third and fourth colours (a variant's colour
    is that of its place in the document).
@@ -84,7 +84,7 @@ for name in NAMES:
 
 # Curves per variant at width 1.75 (curves + one legend sample), as in test-cli-plot.py.
 CURVES = {"bode-z": 3, "bode-w": 3, "nyquist": 2, "nichols": 2, "step": 2, "poles": 1}
-# light palette, first four (PALETTE_LIGHT in src/plot/lw-plot.c)
+# light palette, first four (PALETTE_LIGHT in src/plot/lw-plot-draw.c)
 COLOURS = [(0x00, 0x72, 0xb2), (0xd5, 0x5e, 0x00), (0x00, 0x9e, 0x73), (0xcc, 0x79, 0xa7)]
 
 

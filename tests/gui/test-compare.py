@@ -38,7 +38,7 @@ sys.path.insert(0, os.path.dirname(os.path.abspath(__file__)))
 from lwgui import (debug_lines, fail, key, kill_window, lsan_options, outer,  # noqa: E402
                    quit_window, run, start_window, wait_for, window_env)
 
-# The first two variant colours of the light theme (PALETTE_LIGHT in src/plot/lw-plot.c);
+# The first two variant colours of the light theme (PALETTE_LIGHT in src/plot/lw-plot-draw.c);
 # tolerance as in test-variants.py. Only the magnitude panel of a pane is counted (its
 # rectangle is what the window prints): the curve crosses it once, over 200 px wide, so its
 # full-colour core gives well over 80 pixels; the threshold is a choice of this test (no

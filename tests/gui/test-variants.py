@@ -3,7 +3,7 @@
 active one (Ctrl+Shift+N), drag the copy's lead zero on the w-plane Bode view, save, and check
 through the saved document that the reference variant's XML is byte for byte what it was
 while the copy's lead moved; compare every variant (Ctrl+Shift+K) and check, in a screenshot, that the plots carry the colour of
-each variant shown and not the colour of one more (palette of src/plot/lw-plot.c, light
+each variant shown and not the colour of one more (palette of src/plot/lw-plot-draw.c, light
 theme), and that the window reports three series per view and a metrics table with three
 columns; undo twice (the drag, then the copy: one step each) and redo.
 
@@ -27,7 +27,7 @@ import lwgui  # noqa: E402
 from lwgui import (fail, find_window, key, kill_window, quit_window, run,  # noqa: E402
                    saved_after)
 
-# The first four variant colours of the light theme (PALETTE_LIGHT in src/plot/lw-plot.c).
+# The first four variant colours of the light theme (PALETTE_LIGHT in src/plot/lw-plot-draw.c).
 PALETTE = [(0x00, 0x72, 0xb2), (0xd5, 0x5e, 0x00), (0x00, 0x9e, 0x73), (0xcc, 0x79, 0xa7)]
 # A curve 1.75 px wide has a full-colour core along its whole length, hundreds of pixels in
 # four views; antialiased edges and the legend's short sample lines are far fewer. Threshold

@@ -1,7 +1,7 @@
 #!/usr/bin/python3
-"""The variant palettes of src/plot/lw-plot.c stay apart for colour-blind readers.
+"""The variant palettes of src/plot/lw-plot-draw.c stay apart for colour-blind readers.
 
-Usage: test-palette.py PATH-TO-lw-plot.c
+Usage: test-palette.py PATH-TO-lw-plot-draw.c
 
 The palettes are read from the source (between "PALETTE_LIGHT:" / "PALETTE_DARK:" and ":END").
 Each colour is simulated for deuteranopia, protanopia and tritanopia with the severity-1.0
@@ -85,10 +85,10 @@ def delta_e(a, b):
     return sum((p - q) ** 2 for p, q in zip(a, b)) ** 0.5
 
 
-BACKGROUND = {"LIGHT": (0xff, 0xff, 0xff), "DARK": (0x1e, 0x1f, 0x22)}   # lw-plot.c themes
+BACKGROUND = {"LIGHT": (0xff, 0xff, 0xff), "DARK": (0x1e, 0x1f, 0x22)}   # lw-plot-draw.c themes
 for name in ("LIGHT", "DARK"):
     pal = palette(name)
-    check(len(pal) == 6, f"{name}: six colours read from lw-plot.c (got {len(pal)})")
+    check(len(pal) == 6, f"{name}: six colours read from lw-plot-draw.c (got {len(pal)})")
     for vision, m in [("normal", None)] + list(MACHADO.items()):
         labs = [lab([lin(c) for c in rgb]) if m is None else lab(simulate(rgb, m)) for rgb in pal]
         worst = min((delta_e(labs[i], labs[j]), i, j)

@@ -1,0 +1,202 @@
+/* lw-plot-view-bode.c — the Bode views: |L| and ∠L over ω in z (up to π/T) or over ν in the
+ * w-plane, with margin gauges and requirement marks.
+ *
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ */
+#include "lw-plot-private.h"
+
+#include <math.h>
+#include <stdio.h>
+
+/* The largest 1, 2 or 5 × 10^k not above v > 0: where a frequency axis starts. */
+static double
+floor_125 (double v)
+{
+  double d = pow (10.0, floor (log10 (v) + 1e-12));
+  static const double m[] = { 5, 2, 1 };
+  for (int i = 0; i < 3; i++)
+    if (m[i] * d <= v * (1.0 + 1e-12))
+      return m[i] * d;
+  return d;
+}
+
+static void
+build_bode (LwPlot *pl, const LwPlotInput *in, bool w_plane)
+{
+  Panel *mag = &pl->panels[0], *ph = &pl->panels[1];
+  pl->n_panels = 2;
+  Extent ex = { 0 }, em = { 0 }, ep = { 0 };
+  /* the data's extents choose the axes, unless those of axes_of are kept (lwp_keep_axes) */
+  size_t n_extent = lwp_axes_kept (pl, in) ? 0 : in->n_variants;
+  for (size_t v = 0; v < n_extent; v++)
+    {
+      const LwPlotFreqCurve *c = w_plane ? &in->variants[v].w : &in->variants[v].z;
+      for (size_t i = 0; i < c->n; i++)
+        if (c->freq_rad_s[i] > 0.0)
+          lwp_extent_add (&ex, c->freq_rad_s[i]);
+    }
+  for (size_t v = 0; v < n_extent; v++)
+    {
+      const LwPlotFreqCurve *c = w_plane ? &in->variants[v].w : &in->variants[v].z;
+      for (size_t i = 0; i < c->n; i++)
+        {
+          lwp_extent_add (&em, c->mag_db[i]);
+          lwp_extent_add (&ep, c->phase_deg[i]);
+        }
+    }
+  /* the magnitude axis keeps 0 dB in view and at most MAG_DEPTH_DB below the top */
+  lwp_extent_add (&em, 10.0);
+  lwp_extent_add (&em, -10.0);
+  if (em.lo < em.hi - MAG_DEPTH_DB)
+    em.lo = em.hi - MAG_DEPTH_DB;
+  lwp_extent_add (&ep, -180.0);
+
+  lwp_axis_from_extent (&mag->x, LW_PLOT_SCALE_LOG, LW_PLOT_TICKS_PLAIN, ex, 6);
+  if (ex.any && ex.lo > 0.0)
+    mag->x.lo = floor_125 (ex.lo);   /* start at the data, on a 1-2-5 value */
+  if (!w_plane && in->nyquist_rad_s > mag->x.lo)
+    mag->x.hi = in->nyquist_rad_s;   /* the z-plane axis ends at π/T exactly */
+  lwp_axis_from_extent (&mag->y, LW_PLOT_SCALE_LINEAR, LW_PLOT_TICKS_PLAIN, em, 6);
+  ph->x = mag->x;
+  lwp_axis_from_extent (&ph->y, LW_PLOT_SCALE_LINEAR, LW_PLOT_TICKS_DEGREES, ep, 6);
+  lwp_keep_axes (pl, in);
+
+  const char *fname = w_plane ? "\u03bd" : "\u03c9";
+  mag->x_tick_labels = false;
+  mag->x_name = ph->x_name = fname;
+  mag->x_unit = ph->x_unit = "rad/s";
+  ph->x_label = w_plane ? "\u03bd (rad/s), w-plane" : "\u03c9 (rad/s)";
+  mag->y_label = "|L| (dB)";
+  mag->y_name = "|L|";
+  mag->y_unit = "dB";
+  ph->y_label = "\u2220L (\u00b0)";
+  ph->y_name = "\u2220L";
+  ph->y_unit = "\u00b0";
+
+  /* references */
+  Prim *p = lwp_add_hline (mag, 0.0);
+  p->width = 1.2;
+  lwp_add_phase_references (ph, &ph->y, false);
+
+  /* requirement marks */
+  const LwPlotRequirements *rq = &in->req;
+  if (rq->has_min_phase_margin)
+    for (int k = -8; k <= 8; k++)
+      {
+        double ref = 180.0 + 360.0 * k;
+        double top = ref + rq->min_phase_margin_deg;
+        if (ref < ph->y.lo || ref > ph->y.hi)
+          continue;
+        Prim *b = lwp_prim_add (ph, PRIM_HBAND, 2);
+        b->v[0] = my (ph, ref);
+        b->v[1] = my (ph, fmin (top, ph->y.hi));
+        b->alpha = 0.10;
+        b->colour = COL_TEXT;
+        Prim *l = lwp_add_hline (ph, top);
+        l->dash = DASH_DOTTED;
+        char buf[64];
+        snprintf (buf, sizeof buf, "required PM \u2265 %.0f\u00b0", rq->min_phase_margin_deg);
+        lwp_add_text_uv (ph, 0.0, my (ph, top), buf, 4, -2, 0.0, 1.0)->colour = COL_REF;
+      }
+  double target = w_plane ? rq->target_crossover_nu_rad_s : rq->target_crossover_rad_s;
+  if (rq->has_target_crossover && target >= mag->x.lo && target <= mag->x.hi)
+    {
+      for (int k = 0; k < 2; k++)
+        {
+          Prim *l = lwp_add_vline (&pl->panels[k], target);
+          l->dash = DASH_DASHED;
+          l->width = 1.2;
+        }
+      lwp_add_mark (mag, target, NAN, MARK_DIAMOND, 7)->v[0] = 1.0;
+      char buf[64];
+      snprintf (buf, sizeof buf, "target crossover %.3g rad/s", target);
+      lwp_add_text_uv (mag, mx (mag, target), 1.0, buf, 5, 3, 0.0, 0.0)->colour = COL_REF;
+    }
+  if (!w_plane)
+    {
+      for (int k = 0; k < 2; k++)
+        {
+          Prim *l = lwp_add_vline (&pl->panels[k], mag->x.hi);
+          l->colour = COL_NYQUIST;
+          l->width = 2.0;
+          l->dash = DASH_DASHDOT;
+        }
+      char buf[64];
+      snprintf (buf, sizeof buf, "Nyquist \u03c0/T = %.4g rad/s", in->nyquist_rad_s);
+      Prim *t = lwp_add_text_uv (mag, 1.0, 1.0, buf, -5, 3, 1.0, 0.0);
+      t->plate = true;
+    }
+
+  /* curves, asymptotes */
+  for (size_t v = 0; v < in->n_variants; v++)
+    {
+      const LwPlotFreqCurve *c = w_plane ? &in->variants[v].w : &in->variants[v].z;
+      if (c->n_asymptote >= 2)
+        {
+          Prim *a = lwp_add_curve (pl, mag, v, c->n_asymptote, c->asymptote_freq_rad_s,
+                               c->asymptote_db);
+          lwp_style_variant (a, v, THIN_WIDTH);
+          a->dash = DASH_DASHED;
+          a->alpha = 0.8;
+        }
+      Prim *pm = lwp_add_curve (pl, mag, v, c->n, c->freq_rad_s, c->mag_db);
+      lwp_style_variant (pm, v, LW_PLOT_CURVE_WIDTH);
+      pm->dash = DASH_VARIANT;
+      Prim *pc = lwp_add_curve (pl, ph, v, c->n, c->freq_rad_s, c->phase_deg);
+      lwp_style_variant (pc, v, LW_PLOT_CURVE_WIDTH);
+      pc->dash = DASH_VARIANT;
+    }
+
+  /* margin annotations: drop line, gauge bar, label on a plate */
+  for (size_t v = 0; v < in->n_variants; v++)
+    {
+      const LwPlotFreqCurve *c = w_plane ? &in->variants[v].w : &in->variants[v].z;
+      for (size_t i = 0; i < c->n_gain_crossovers; i++)
+        {
+          const LwPlotCrossover *x = &c->gain_crossovers[i];
+          double f = x->freq_rad_s, ref = x->phase_deg - x->margin;
+          lwp_style_variant (lwp_add_segment (mag, f, 0.0, f, mag->y.lo), v,
+                             DROP_WIDTH)->dash = DASH_DOTTED;
+          lwp_style_variant (lwp_add_segment (ph, f, ph->y.hi, f, x->phase_deg), v,
+                             DROP_WIDTH)->dash = DASH_DOTTED;
+          lwp_style_variant (lwp_add_segment (ph, f, ref, f, x->phase_deg), v, GAUGE_WIDTH);
+          lwp_style_variant (lwp_add_mark (mag, f, 0.0, MARK_CIRCLE, 7), v, 1.3);
+          lwp_style_variant (lwp_add_mark (ph, f, x->phase_deg, MARK_DISC, 5), v, 1.0);
+          if (i < MAX_LABELLED_CROSSOVERS)
+            {
+              char buf[48];
+              lwp_format_margin (buf, sizeof buf, "PM", x->margin, "\u00b0");
+              lwp_margin_label (ph, f, 0.5 * (ref + x->phase_deg), buf, 6, 0, 0.0, 0.5, v);
+            }
+        }
+      for (size_t i = 0; i < c->n_phase_crossovers; i++)
+        {
+          const LwPlotCrossover *x = &c->phase_crossovers[i];
+          double f = x->freq_rad_s;
+          lwp_style_variant (lwp_add_segment (ph, f, x->phase_deg, f, ph->y.hi), v,
+                             DROP_WIDTH)->dash = DASH_DOTTED;
+          lwp_style_variant (lwp_add_segment (mag, f, mag->y.lo, f, x->mag_db), v,
+                             DROP_WIDTH)->dash = DASH_DOTTED;
+          lwp_style_variant (lwp_add_segment (mag, f, x->mag_db, f, 0.0), v, GAUGE_WIDTH);
+          lwp_style_variant (lwp_add_mark (ph, f, x->phase_deg, MARK_DIAMOND, 7), v, 1.3);
+          if (i < MAX_LABELLED_CROSSOVERS)
+            {
+              char buf[48];
+              lwp_format_margin (buf, sizeof buf, "GM", x->margin, " dB");
+              lwp_margin_label (mag, f, 0.5 * x->mag_db, buf, 6, 0, 0.0, 0.5, v);
+            }
+        }
+    }
+}
+
+void
+lwp_build_bode_z (LwPlot *pl, const LwPlotInput *in)
+{
+  build_bode (pl, in, false);
+}
+
+void
+lwp_build_bode_w (LwPlot *pl, const LwPlotInput *in)
+{
+  build_bode (pl, in, true);
+}

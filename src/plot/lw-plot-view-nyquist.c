@@ -1,0 +1,116 @@
+/* lw-plot-view-nyquist.c — the Nyquist diagram: L over ω and its mirror, the unit circle, the
+ * critical point −1, phase margin arcs.
+ *
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ */
+#include "lw-plot-private.h"
+
+#include <math.h>
+
+void
+lwp_build_nyquist (LwPlot *pl, const LwPlotInput *in)
+{
+  Panel *pn = &pl->panels[0];
+  pl->n_panels = 1;
+  pn->equal_aspect = true;
+  Extent ex = { 0 }, ey = { 0 };
+  lwp_extent_add (&ex, -1.5);
+  lwp_extent_add (&ex, 1.0);
+  lwp_extent_add (&ey, -1.2);
+  lwp_extent_add (&ey, 1.2);
+  /* the data's extents choose the axes, unless those of axes_of are kept (lwp_keep_axes) */
+  size_t n_extent = lwp_axes_kept (pl, in) ? 0 : in->n_variants;
+  for (size_t v = 0; v < n_extent; v++)
+    {
+      const LwPlotComplexCurve *c = &in->variants[v].nyquist;
+      for (size_t i = 0; i < c->n; i++)
+        if (hypot (c->re[i], c->im[i]) <= NYQUIST_RANGE_CAP)
+          {
+            lwp_extent_add (&ex, c->re[i]);
+            lwp_extent_add (&ey, c->im[i]);
+            lwp_extent_add (&ey, -c->im[i]);
+          }
+    }
+  lwp_widen_to_aspect (&ex, &ey);
+  lwp_axis_from_extent (&pn->x, LW_PLOT_SCALE_LINEAR, LW_PLOT_TICKS_PLAIN, ex, 6);
+  lwp_axis_from_extent (&pn->y, LW_PLOT_SCALE_LINEAR, LW_PLOT_TICKS_PLAIN, ey, 6);
+  lwp_keep_axes (pl, in);
+  pn->x_label = "Re L";
+  pn->y_label = "Im L";
+  pn->x_name = "Re";
+  pn->y_name = "Im";
+  pn->x_unit = pn->y_unit = "";
+
+  lwp_add_hline (pn, 0.0);
+  lwp_add_vline (pn, 0.0);
+  Prim *uc = lwp_prim_add (pn, PRIM_CIRCLE, 1);
+  uc->u[0] = mx (pn, 0.0);
+  uc->v[0] = my (pn, 0.0);
+  uc->r_units = 1.0;
+  uc->dash = DASH_DASHED;
+  uc->width = 1.2;
+  lwp_add_text (pn, 0.7071, 0.7071, "|L| = 1", 4, -2, 0.0, 1.0)->colour = COL_REF;
+
+  for (size_t v = 0; v < in->n_variants; v++)
+    {
+      const LwPlotComplexCurve *c = &in->variants[v].nyquist;
+      Prim *m = lwp_curve_reuse (pl, pn, v, c->re, c->im, 1, c->n);
+      if (m == NULL)
+        {
+          double *mirror = g_new (double, c->n > 0 ? c->n : 1);
+          for (size_t i = 0; i < c->n; i++)
+            mirror[i] = -c->im[i];
+          m = lwp_curve_mark (pl, lwp_add_line (pn, c->n, c->re, mirror), v, c->re, c->im, 1);
+          g_free (mirror);
+        }
+      lwp_style_variant (m, v, THIN_WIDTH);
+      m->alpha = 0.45;
+      m->dash = DASH_VARIANT;
+      Prim *l = lwp_add_curve (pl, pn, v, c->n, c->re, c->im);
+      lwp_style_variant (l, v, LW_PLOT_CURVE_WIDTH);
+      l->dash = DASH_VARIANT;
+
+      const LwPlotFreqCurve *z = &in->variants[v].z;
+      for (size_t i = 0; i < z->n_gain_crossovers; i++)
+        {
+          const LwPlotCrossover *x = &z->gain_crossovers[i];
+          /* angle of the crossover point, in (−180°, 180°]; the arc turns by −PM to −1 */
+          double a0 = fmod (x->phase_deg, 360.0);
+          if (a0 > 180.0)
+            a0 -= 360.0;
+          if (a0 <= -180.0)
+            a0 += 360.0;
+          Prim *arc = lwp_prim_add (pn, PRIM_ARC, 1);
+          arc->u[0] = mx (pn, 0.0);
+          arc->v[0] = my (pn, 0.0);
+          arc->r_units = 1.0;
+          arc->a0 = a0;
+          arc->a1 = a0 - x->margin;
+          lwp_style_variant (arc, v, GAUGE_WIDTH);
+          lwp_style_variant (lwp_add_mark (pn, x->re, x->im, MARK_DISC, 5), v, 1.0);
+          if (i < MAX_LABELLED_CROSSOVERS)
+            {
+              char buf[48];
+              lwp_format_margin (buf, sizeof buf, "PM", x->margin, "\u00b0");
+              double am = (a0 - 0.5 * x->margin) * G_PI / 180.0;
+              lwp_margin_label (pn, 1.12 * cos (am), 1.12 * sin (am), buf, 0, 0,
+                                  cos (am) < 0 ? 1.0 : 0.0, 0.5, v);
+            }
+        }
+      for (size_t i = 0; i < z->n_phase_crossovers; i++)
+        {
+          const LwPlotCrossover *x = &z->phase_crossovers[i];
+          lwp_style_variant (lwp_add_mark (pn, x->re, x->im, MARK_DIAMOND, 7), v, 1.3);
+          if (i < MAX_LABELLED_CROSSOVERS)
+            {
+              char buf[48];
+              lwp_format_margin (buf, sizeof buf, "GM", x->margin, " dB");
+              lwp_margin_label (pn, x->re, x->im, buf, 0, 8, 0.5, 0.0, v);
+            }
+        }
+    }
+  Prim *cp = lwp_add_mark (pn, -1.0, 0.0, MARK_PLUS, 11);
+  cp->colour = COL_TEXT;
+  cp->width = 2.0;
+  lwp_add_text (pn, -1.0, 0.0, "\u22121", -4, 4, 1.0, 0.0);
+}

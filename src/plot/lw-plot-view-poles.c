@@ -1,0 +1,81 @@
+/* lw-plot-view-poles.c — the pole-zero map in z: closed-loop poles, the loop's poles and
+ * zeros, the unit circle.
+ *
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ */
+#include "lw-plot-private.h"
+
+#include <math.h>
+
+void
+lwp_build_poles (LwPlot *pl, const LwPlotInput *in)
+{
+  Panel *pn = &pl->panels[0];
+  pl->n_panels = 1;
+  pn->equal_aspect = true;
+  Extent ex = { 0 }, ey = { 0 };
+  lwp_extent_add (&ex, -1.2);
+  lwp_extent_add (&ex, 1.2);
+  lwp_extent_add (&ey, -1.2);
+  lwp_extent_add (&ey, 1.2);
+  for (size_t v = 0; v < in->n_variants; v++)
+    {
+      const LwPlotPoleData *d = &in->variants[v].poles;
+      const double *re[3] = { d->cl_re, d->pole_re, d->zero_re };
+      const double *im[3] = { d->cl_im, d->pole_im, d->zero_im };
+      size_t n[3] = { d->n_closed_loop, d->n_loop_poles, d->n_loop_zeros };
+      for (int s = 0; s < 3; s++)
+        for (size_t i = 0; i < n[s]; i++)
+          if (hypot (re[s][i], im[s][i]) <= POLE_RANGE_CAP)
+            {
+              lwp_extent_add (&ex, re[s][i]);
+              lwp_extent_add (&ey, im[s][i]);
+            }
+    }
+  lwp_widen_to_aspect (&ex, &ey);
+  lwp_axis_from_extent (&pn->x, LW_PLOT_SCALE_LINEAR, LW_PLOT_TICKS_PLAIN, ex, 6);
+  lwp_axis_from_extent (&pn->y, LW_PLOT_SCALE_LINEAR, LW_PLOT_TICKS_PLAIN, ey, 6);
+  lwp_keep_axes (pl, in);
+  pn->x_label = "Re z";
+  pn->y_label = "Im z";
+  pn->x_name = "Re";
+  pn->y_name = "Im";
+  pn->x_unit = pn->y_unit = "";
+  lwp_add_hline (pn, 0.0);
+  lwp_add_vline (pn, 0.0);
+  Prim *uc = lwp_prim_add (pn, PRIM_CIRCLE, 1);
+  uc->u[0] = mx (pn, 0.0);
+  uc->v[0] = my (pn, 0.0);
+  uc->r_units = 1.0;
+  uc->width = 1.4;
+  lwp_add_text (pn, 0.7071, 0.7071, "|z| = 1", 4, -2, 0.0, 1.0)->colour = COL_REF;
+
+  for (size_t v = 0; v < in->n_variants; v++)
+    {
+      const LwPlotPoleData *d = &in->variants[v].poles;
+      for (size_t i = 0; i < d->n_loop_zeros; i++)
+        lwp_style_variant (lwp_add_mark (pn, d->zero_re[i], d->zero_im[i], MARK_CIRCLE, 8), v, 1.2);
+      for (size_t i = 0; i < d->n_loop_poles; i++)
+        lwp_style_variant (lwp_add_mark (pn, d->pole_re[i], d->pole_im[i], MARK_CROSS, 8), v, 1.2);
+      for (size_t i = 0; i < d->n_closed_loop; i++)
+        lwp_style_variant (lwp_add_mark (pn, d->cl_re[i], d->cl_im[i], MARK_DIAMOND, 9), v, 1.5)
+          ->shape = MARK_DIAMOND;
+    }
+  /* key of the marker shapes, bottom left inside the plot area */
+  static const struct { MarkShape s; const char *t; } key[3] = {
+    { MARK_DIAMOND, "closed-loop pole" }, { MARK_CROSS, "loop pole" },
+    { MARK_CIRCLE, "loop zero" } };
+  for (int k = 0; k < 3; k++)
+    {
+      Prim *m = lwp_prim_add (pn, PRIM_MARK, 1);
+      m->u[0] = 0.0;
+      m->v[0] = 0.0;
+      m->dx = 12;
+      m->dy = -12 - 15.0 * (2 - k);
+      m->shape = key[k].s;
+      m->size = 8;
+      m->colour = COL_TEXT;
+      m->width = 1.2;
+      lwp_add_text_uv (pn, 0.0, 0.0, key[k].t, 22, -12 - 15.0 * (2 - k), 0.0, 0.5)->plate = true;
+    }
+}

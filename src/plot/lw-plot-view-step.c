@@ -1,0 +1,141 @@
+/* lw-plot-view-step.c — the step view: output samples held, the continuous output between
+ * samples, the actuator panel.
+ *
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ */
+#include "lw-plot-private.h"
+
+/* Staircase of samples s[k] held over [kT, (k+1)T), k = 0 … n−1, ending at (n−1)T. */
+static Prim *
+add_staircase (LwPlot *pl, Panel *pn, size_t v, size_t n, const double *s, double T)
+{
+  size_t m = 2 * n - 1;
+  Prim *r = lwp_curve_reuse (pl, pn, v, s, s, 2, m);
+  if (r != NULL)
+    return r;
+  double *x = g_new (double, m), *y = g_new (double, m);
+  for (size_t k = 0; k < n; k++)
+    {
+      x[2 * k] = (double) k * T;
+      y[2 * k] = s[k];
+      if (k + 1 < n)
+        {
+          x[2 * k + 1] = (double) (k + 1) * T;
+          y[2 * k + 1] = s[k];
+        }
+    }
+  Prim *p = lwp_curve_mark (pl, lwp_add_line (pn, m, x, y), v, s, s, 2);
+  g_free (x);
+  g_free (y);
+  return p;
+}
+
+void
+lwp_build_step (LwPlot *pl, const LwPlotInput *in)
+{
+  Panel *out = &pl->panels[0], *act = &pl->panels[1];
+  bool any_u = false;
+  Extent et = { 0 }, ey = { 0 }, eu = { 0 };
+  lwp_extent_add (&et, 0.0);
+  lwp_extent_add (&ey, 0.0);
+  lwp_extent_add (&eu, 0.0);
+  for (size_t v = 0; v < in->n_variants; v++)
+    {
+      const LwPlotStepData *s = &in->variants[v].step;
+      if (s->n >= 2)
+        lwp_extent_add (&et, (double) (s->n - 1) * s->period_s);
+      for (size_t k = 0; k < s->n; k++)
+        lwp_extent_add (&ey, s->y[k]);
+      for (size_t j = 0; j < s->n_fine && s->y_fine; j++)
+        lwp_extent_add (&ey, s->y_fine[j]);
+      if (s->has_final)
+        lwp_extent_add (&ey, s->final_value);
+      if (s->u)
+        {
+          any_u = true;
+          for (size_t k = 0; k < s->n; k++)
+            lwp_extent_add (&eu, s->u[k]);
+          if (s->has_limits)
+            {
+              lwp_extent_add (&eu, s->u_low);
+              lwp_extent_add (&eu, s->u_high);
+            }
+        }
+    }
+  pl->n_panels = any_u ? 2 : 1;
+  /* headroom so the final value and the peak are not on the frame */
+  ey.hi += 0.06 * (ey.hi - ey.lo);
+  eu.hi += 0.06 * (eu.hi - eu.lo);
+  eu.lo -= 0.06 * (eu.hi - eu.lo);
+  double t_end = et.hi;
+  lwp_axis_from_extent (&out->x, LW_PLOT_SCALE_LINEAR, LW_PLOT_TICKS_PLAIN, et, 8);
+  if (t_end > 0.0)
+    out->x.hi = t_end;   /* the axis ends at the last sample */
+  lwp_axis_from_extent (&out->y, LW_PLOT_SCALE_LINEAR, LW_PLOT_TICKS_PLAIN, ey, 6);
+  out->x_label = "t (s)";
+  out->y_label = "y (units of r)";
+  out->x_name = "t";
+  out->x_unit = "s";
+  out->y_name = "y";
+  out->y_unit = "";
+  if (any_u)
+    {
+      out->x_tick_labels = false;
+      act->x = out->x;
+      lwp_axis_from_extent (&act->y, LW_PLOT_SCALE_LINEAR, LW_PLOT_TICKS_PLAIN, eu, 5);
+      act->x_label = "t (s)";
+      act->y_label = "u (actuator)";
+      act->x_name = "t";
+      act->x_unit = "s";
+      act->y_name = "u";
+      act->y_unit = "";
+    }
+  lwp_keep_axes (pl, in);
+  if (any_u)
+    lwp_add_hline (act, 0.0);
+  lwp_add_hline (out, 0.0);
+  for (size_t v = 0; v < in->n_variants; v++)
+    {
+      const LwPlotStepData *s = &in->variants[v].step;
+      if (s->has_final)
+        {
+          Prim *f = lwp_add_hline (out, s->final_value);
+          f->dash = DASH_DASHED;
+          f->owner = (long) v;
+        }
+      if (s->n_fine >= 2 && s->t_fine_s && s->y_fine)
+        {
+          Prim *c = lwp_add_curve (pl, out, v, s->n_fine, s->t_fine_s, s->y_fine);
+          lwp_style_variant (c, v, THIN_WIDTH);
+          c->alpha = 0.7;
+        }
+      if (s->n >= 2)
+        {
+          Prim *st = add_staircase (pl, out, v, s->n, s->y, s->period_s);
+          lwp_style_variant (st, v, LW_PLOT_CURVE_WIDTH);
+          st->dash = DASH_VARIANT;
+          if (s->n <= 120)
+            for (size_t k = 0; k < s->n; k++)
+              lwp_style_variant (lwp_add_mark (out, (double) k * s->period_s, s->y[k], MARK_DISC,
+                                               3.5),
+                                 v, 1.0);
+        }
+      if (any_u && s->u && s->n >= 2)
+        {
+          Prim *st = add_staircase (pl, act, v, s->n, s->u, s->period_s);
+          lwp_style_variant (st, v, LW_PLOT_CURVE_WIDTH);
+          st->dash = DASH_VARIANT;
+          if (s->has_limits)
+            {
+              Prim *lim[4] = {
+                lwp_add_hline (act, s->u_high), lwp_add_hline (act, s->u_low),
+                lwp_add_text (act, act->x.hi, s->u_high, "u max", -4, -2, 1.0, 1.0),
+                lwp_add_text (act, act->x.hi, s->u_low, "u min", -4, 2, 1.0, 0.0) };
+              lim[0]->dash = lim[1]->dash = DASH_DOTTED;
+              lim[2]->colour = lim[3]->colour = COL_REF;
+              for (int k = 0; k < 4; k++)
+                lim[k]->owner = (long) v;
+            }
+        }
+    }
+}
