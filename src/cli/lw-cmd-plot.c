@@ -20,7 +20,8 @@
 #include "lw-plot-export.h"
 #include "lw-plot.h"
 
-static const char plot_help[] =
+/* The help is put together at run time: its list of views is the view table's. */
+static const char plot_help_head[] =
   "Usage: " LW_CLI_PROG " plot --plant EXPR --period SECONDS --view VIEW --out FILE [options]\n"
   "       " LW_CLI_PROG " plot FILE.lwd [--variant NAME | --all-variants] --view VIEW\n"
   "       --out FILE [options]\n"
@@ -33,13 +34,9 @@ static const char plot_help[] =
   "in the legend; the document's phase-margin requirement is marked unless\n"
   "--min-phase-margin is given. The loop options and --name are then not accepted.\n"
   "\n"
-  "Views:\n"
-  "  bode-z       |L| and phase over omega, up to the Nyquist frequency pi/T\n"
-  "  bode-w       |L| and phase over nu in the w-plane, with straight-line asymptotes\n"
-  "  nyquist      L in the complex plane, unit circle, critical point -1\n"
-  "  nichols      |L| in dB over the phase of L\n"
-  "  step         unit step response of the closed loop, samples held\n"
-  "  poles        closed-loop poles and the loop's poles and zeros in z\n"
+  "Views:\n";
+
+static const char plot_help_tail[] =
   "\n"
   "Options:\n"
   "  --plant EXPR             plant P(s), a proper rational expression in s (required)\n"
@@ -133,14 +130,15 @@ plot_options_check (const PlotArgs *a, PlotSpec *s)
   s->height = 600;
   if (a->view == NULL)
     {
-      lw_cli_bad_input ("--view", "required: bode-z, bode-w, nyquist, nichols, step or poles");
+      g_autofree char *names = lw_plot_view_names_joined (" or ");
+      lw_cli_bad_input ("--view", "required: %s", names);
       return LW_EXIT_BAD_INPUT;
     }
   int v = lw_plot_view_from_name (a->view);
   if (v < 0)
     {
-      lw_cli_bad_input ("--view", "unknown view '%s' (bode-z, bode-w, nyquist, nichols, step, "
-                        "poles)", a->view);
+      g_autofree char *names = lw_plot_view_names_joined (", ");
+      lw_cli_bad_input ("--view", "unknown view '%s' (%s)", a->view, names);
       return LW_EXIT_BAD_INPUT;
     }
   s->view = (LwPlotView) v;
@@ -423,8 +421,16 @@ lw_cmd_plot (int argc, char **argv)
     { G_OPTION_REMAINING, 0, 0, G_OPTION_ARG_FILENAME_ARRAY, &a.files, NULL, NULL },
     { NULL, 0, 0, 0, NULL, NULL, NULL }
   };
-  int status = lw_cli_run_command ("plot", argc, argv, entries, &a.help, plot_help, plot_run,
+  GString *help = g_string_new (plot_help_head);
+  for (size_t i = 0; i < LW_PLOT_N_VIEWS; i++)
+    {
+      const LwPlotViewInfo *v = lw_plot_view_info ((LwPlotView) i);
+      g_string_append_printf (help, "  %-12s %s\n", v->name, v->summary);
+    }
+  g_string_append (help, plot_help_tail);
+  int status = lw_cli_run_command ("plot", argc, argv, entries, &a.help, help->str, plot_run,
                                    &a);
+  g_string_free (help, TRUE);
   lw_cli_loop_args_clear (&a.loop);
   char **strs[] = { &a.view, &a.out, &a.size, &a.theme, &a.title, &a.name, &a.target,
                     &a.min_pm, &a.pdf_date, &a.points, &a.steps };

@@ -19,10 +19,6 @@ typedef struct
   GtkSpinButton *width, *height;
 } ExportDialog;
 
-static const LwPlotView export_views[] = {
-  LW_PLOT_VIEW_BODE_Z, LW_PLOT_VIEW_BODE_W, LW_PLOT_VIEW_STEP, LW_PLOT_VIEW_NYQUIST,
-  LW_PLOT_VIEW_NICHOLS, LW_PLOT_VIEW_POLES,
-};
 static const char *const format_ext[] = { "png", "svg", "pdf" };
 
 static void
@@ -52,7 +48,7 @@ file_response (GtkNativeDialog *native, int response, gpointer user_data)
     {
       g_autoptr (GFile) file = gtk_file_chooser_get_file (GTK_FILE_CHOOSER (native));
       const char *path = file != NULL ? g_file_peek_path (file) : NULL;
-      LwPlotView view = export_views[gtk_drop_down_get_selected (e->view)];
+      LwPlotView view = (LwPlotView) gtk_drop_down_get_selected (e->view);
       LwPlotFormat format = (LwPlotFormat) gtk_drop_down_get_selected (e->format);
       LwPlotTheme theme = gtk_drop_down_get_selected (e->theme) == 1 ? LW_PLOT_THEME_DARK
                                                                      : LW_PLOT_THEME_LIGHT;
@@ -95,7 +91,7 @@ dialog_response (GtkDialog *dialog, int response, gpointer user_data)
     }
   gtk_widget_set_visible (GTK_WIDGET (dialog), FALSE);
   guint fmt = gtk_drop_down_get_selected (e->format);
-  LwPlotView view = export_views[gtk_drop_down_get_selected (e->view)];
+  LwPlotView view = (LwPlotView) gtk_drop_down_get_selected (e->view);
   GtkFileChooserNative *native =
     gtk_file_chooser_native_new (_("Export Figure"), e->parent, GTK_FILE_CHOOSER_ACTION_SAVE,
                                  _("_Export"), _("_Cancel"));
@@ -157,8 +153,10 @@ lw_export_dialog_show (GtkWindow *parent, GSettings *settings, const char *base_
   gtk_widget_set_margin_bottom (grid, 18);
   gtk_box_append (GTK_BOX (content), grid);
 
-  const char *view_titles[] = { _("Bode, z"), _("Bode, w-plane"), _("Reference step"),
-                                _("Nyquist"), _("Nichols"), _("Poles and zeros, z"), NULL };
+  /* every view of the table, in its order: item i is LwPlotView i */
+  const char *view_titles[LW_PLOT_N_VIEWS + 1] = { NULL };
+  for (guint i = 0; i < LW_PLOT_N_VIEWS; i++)
+    view_titles[i] = _(lw_plot_view_info ((LwPlotView) i)->title);
   e->view = GTK_DROP_DOWN (gtk_drop_down_new_from_strings (view_titles));
   const char *formats[] = { "PNG", "SVG", "PDF", NULL };
   e->format = GTK_DROP_DOWN (gtk_drop_down_new_from_strings (formats));

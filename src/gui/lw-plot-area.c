@@ -12,16 +12,13 @@
 #include "lw-plot-area.h"
 #include "lw-plot-pane.h"
 
-static const LwPlotView area_views[] = {
-  LW_PLOT_VIEW_BODE_Z, LW_PLOT_VIEW_BODE_W, LW_PLOT_VIEW_STEP, LW_PLOT_VIEW_NYQUIST,
-};
-#define N_VIEWS G_N_ELEMENTS (area_views)
-
-/* Views of the split view, each shown twice: the active variant left, the other right. */
-static const LwPlotView split_views[] = {
-  LW_PLOT_VIEW_BODE_Z, LW_PLOT_VIEW_BODE_W, LW_PLOT_VIEW_STEP,
-};
-#define N_SPLIT G_N_ELEMENTS (split_views)
+/* The panes, from the view table (lw-plot-view.h) in its order: the views shown in the window
+ * (LW_PLOT_VIEW_IN_WINDOW), and those of the split view (LW_PLOT_VIEW_IN_SPLIT), each shown
+ * twice: the active variant left, the other right. Filled once, by class_init. */
+static LwPlotView area_views[LW_PLOT_N_VIEWS];
+static guint n_area_views;
+static LwPlotView split_views[LW_PLOT_N_VIEWS];
+static guint n_split_views;
 
 /* A variant's figure data, kept while the same evaluation is shown: a reference variant's
  * curves are filled once, not again each frame of a drag. */
@@ -43,8 +40,8 @@ struct _LwPlotArea
   unsigned key_styles[LW_PLOT_MAX_VARIANTS];
   guint key_n, key_active;
   LwPlotTheme theme;
-  LwPlotPane *panes[N_VIEWS];
-  LwPlotPane *split_panes[N_SPLIT];   /* the right column of the split view */
+  LwPlotPane *panes[LW_PLOT_N_VIEWS];
+  LwPlotPane *split_panes[LW_PLOT_N_VIEWS];   /* the right column of the split view */
   LwPlotLayout layout;
   gboolean split;
   GPtrArray *figures;                 /* of FigureEntry *, each on its own (stable address) */
@@ -58,16 +55,7 @@ G_DEFINE_FINAL_TYPE (LwPlotArea, lw_plot_area, GTK_TYPE_WIDGET)
 static const char *
 view_title (LwPlotView v)
 {
-  switch (v)
-    {
-    case LW_PLOT_VIEW_BODE_Z: return _("Bode, z (up to π/T)");
-    case LW_PLOT_VIEW_BODE_W: return _("Bode, w-plane");
-    case LW_PLOT_VIEW_NYQUIST: return _("Nyquist");
-    case LW_PLOT_VIEW_NICHOLS: return _("Nichols");
-    case LW_PLOT_VIEW_STEP: return _("Reference step");
-    case LW_PLOT_VIEW_POLES: return _("Closed-loop poles, z");
-    }
-  return NULL;
+  return _(lw_plot_view_info (v)->title);
 }
 
 static void
@@ -80,7 +68,7 @@ detach (LwPlotArea *self, GtkWidget *p)
 static int
 split_row (LwPlotView v)
 {
-  for (guint k = 0; k < N_SPLIT; k++)
+  for (guint k = 0; k < n_split_views; k++)
     if (split_views[k] == v)
       return (int) k;
   return -1;
@@ -89,11 +77,11 @@ split_row (LwPlotView v)
 static void
 arrange (LwPlotArea *self)
 {
-  for (guint i = 0; i < N_VIEWS; i++)
+  for (guint i = 0; i < n_area_views; i++)
     g_object_ref (self->panes[i]), detach (self, GTK_WIDGET (self->panes[i]));
-  for (guint k = 0; k < N_SPLIT; k++)
+  for (guint k = 0; k < n_split_views; k++)
     g_object_ref (self->split_panes[k]), detach (self, GTK_WIDGET (self->split_panes[k]));
-  for (guint i = 0; i < N_VIEWS; i++)
+  for (guint i = 0; i < n_area_views; i++)
     {
       GtkWidget *p = GTK_WIDGET (self->panes[i]);
       if (self->split)
@@ -110,7 +98,7 @@ arrange (LwPlotArea *self)
         }
       g_object_unref (p);
     }
-  for (guint k = 0; k < N_SPLIT; k++)
+  for (guint k = 0; k < n_split_views; k++)
     {
       if (self->split)
         gtk_grid_attach (self->grid, GTK_WIDGET (self->split_panes[k]), 1, (int) k, 1, 1);
@@ -204,12 +192,12 @@ set_handles (LwPlotArea *self, LwVariantEval *eval, const LwFigureVariant *fv,
                 ? lw_warp_omega_to_nu (eval->ev->margins.gain_crossover_rad_s, period_s)
                 : (fv->v.w.n > 0 ? fv->v.w.freq_rad_s[fv->v.w.n / 2] : 1.0);
 
-  for (guint k = 0; k < N_VIEWS; k++)
+  for (guint k = 0; k < n_area_views; k++)
     {
       LwPlotView view = area_views[k];
-      if (view != LW_PLOT_VIEW_BODE_W && view != LW_PLOT_VIEW_BODE_Z)
+      if (!lw_plot_view_has (view, LW_PLOT_VIEW_HANDLES))
         continue;
-      gboolean in_w = view == LW_PLOT_VIEW_BODE_W;
+      gboolean in_w = lw_plot_view_has (view, LW_PLOT_VIEW_W_PLANE);
       const LwPlotFreqCurve *curve = in_w ? &fv->v.w : &fv->v.z;
       g_autoptr (GArray) hs = g_array_new (FALSE, FALSE, sizeof (LwPaneHandle));
       for (guint i = 0; i < n_stages; i++)
@@ -245,12 +233,12 @@ set_handles (LwPlotArea *self, LwVariantEval *eval, const LwFigureVariant *fv,
 static void
 show_message (LwPlotArea *self, const char *msg)
 {
-  for (guint i = 0; i < N_VIEWS; i++)
+  for (guint i = 0; i < n_area_views; i++)
     {
       lw_plot_pane_set_plot (self->panes[i], NULL, msg);
       lw_plot_pane_set_handles (self->panes[i], NULL, 0, -1, -1);
     }
-  for (guint k = 0; k < N_SPLIT; k++)
+  for (guint k = 0; k < n_split_views; k++)
     lw_plot_pane_set_plot (self->split_panes[k], NULL, msg);
 }
 
@@ -451,7 +439,7 @@ lw_plot_area_show_variants (LwPlotArea *self, const LwAreaVariant *vs, guint n, 
   else
     set_key (self, vars, nv, moving);
 
-  for (guint i = 0; i < N_VIEWS; i++)
+  for (guint i = 0; i < n_area_views; i++)
     {
       char msg[256] = "";
       LwPlotPane *pane = self->panes[i];
@@ -475,7 +463,7 @@ lw_plot_area_show_variants (LwPlotArea *self, const LwAreaVariant *vs, guint n, 
           fflush (stdout);
         }
     }
-  for (guint k = 0; k < N_SPLIT && self->split; k++)
+  for (guint k = 0; k < n_split_views && self->split; k++)
     {
       char msg[256] = "";
       LwPlotPane *left = lw_plot_area_get_pane (self, split_views[k]);
@@ -530,10 +518,10 @@ pane_view_changed (LwPlotPane *pane, double lo, double hi, LwPlotArea *self)
     return;
   self->linking = TRUE;
   LwPlotView v = lw_plot_pane_get_view (pane);
-  for (guint i = 0; i < N_VIEWS; i++)
+  for (guint i = 0; i < n_area_views; i++)
     if (self->panes[i] != pane && area_views[i] == v)
       lw_plot_pane_set_x_view (self->panes[i], lo, hi);
-  for (guint k = 0; k < N_SPLIT; k++)
+  for (guint k = 0; k < n_split_views; k++)
     if (self->split_panes[k] != pane && split_views[k] == v)
       lw_plot_pane_set_x_view (self->split_panes[k], lo, hi);
   self->linking = FALSE;
@@ -543,9 +531,9 @@ void
 lw_plot_area_reset_view (LwPlotArea *self)
 {
   g_return_if_fail (LW_IS_PLOT_AREA (self));
-  for (guint i = 0; i < N_VIEWS; i++)
+  for (guint i = 0; i < n_area_views; i++)
     lw_plot_pane_reset_view (self->panes[i]);
-  for (guint k = 0; k < N_SPLIT; k++)
+  for (guint k = 0; k < n_split_views; k++)
     lw_plot_pane_reset_view (self->split_panes[k]);
 }
 
@@ -561,7 +549,7 @@ LwPlotPane *
 lw_plot_area_get_pane (LwPlotArea *self, LwPlotView view)
 {
   g_return_val_if_fail (LW_IS_PLOT_AREA (self), NULL);
-  for (guint i = 0; i < N_VIEWS; i++)
+  for (guint i = 0; i < n_area_views; i++)
     if (area_views[i] == view)
       return self->panes[i];
   return NULL;
@@ -617,9 +605,9 @@ void
 lw_plot_area_set_theme (LwPlotArea *self, LwPlotTheme theme)
 {
   g_return_if_fail (LW_IS_PLOT_AREA (self));
-  for (guint i = 0; i < N_VIEWS; i++)
+  for (guint i = 0; i < n_area_views; i++)
     lw_plot_pane_set_theme (self->panes[i], theme);
-  for (guint k = 0; k < N_SPLIT; k++)
+  for (guint k = 0; k < n_split_views; k++)
     lw_plot_pane_set_theme (self->split_panes[k], theme);
   self->theme = theme;
   key_measure (self, gtk_widget_get_width (GTK_WIDGET (self->key)));
@@ -644,9 +632,9 @@ lw_plot_area_dispose (GObject *object)
   for (guint i = 0; i < LW_PLOT_MAX_VARIANTS; i++)
     g_clear_pointer (&self->key_names[i], g_free);
   /* the area's own references (see init), after the grid let go of its children */
-  for (guint k = 0; k < N_SPLIT; k++)
+  for (guint k = 0; k < n_split_views; k++)
     g_clear_object (&self->split_panes[k]);
-  for (guint i = 0; i < N_VIEWS; i++)
+  for (guint i = 0; i < n_area_views; i++)
     g_clear_object (&self->panes[i]);
   g_clear_pointer (&self->figures, g_ptr_array_unref);
   G_OBJECT_CLASS (lw_plot_area_parent_class)->dispose (object);
@@ -656,6 +644,13 @@ static void
 lw_plot_area_class_init (LwPlotAreaClass *klass)
 {
   G_OBJECT_CLASS (klass)->dispose = lw_plot_area_dispose;
+  for (LwPlotView v = 0; v < LW_PLOT_N_VIEWS; v++)
+    {
+      if (lw_plot_view_has (v, LW_PLOT_VIEW_IN_WINDOW))
+        area_views[n_area_views++] = v;
+      if (lw_plot_view_has (v, LW_PLOT_VIEW_IN_WINDOW | LW_PLOT_VIEW_IN_SPLIT))
+        split_views[n_split_views++] = v;
+    }
   gtk_widget_class_set_layout_manager_type (GTK_WIDGET_CLASS (klass), GTK_TYPE_BOX_LAYOUT);
   gtk_widget_class_set_css_name (GTK_WIDGET_CLASS (klass), "plotarea");
 }
@@ -681,12 +676,12 @@ lw_plot_area_init (LwPlotArea *self)
   self->figures = g_ptr_array_new_with_free_func (figure_entry_free);
   self->debug = g_strcmp0 (g_getenv ("LW_DEBUG_HANDLES"), "1") == 0;
   /* every pane is held by the area too, so the ones off the grid (split view) live on */
-  for (guint i = 0; i < N_VIEWS; i++)
+  for (guint i = 0; i < n_area_views; i++)
     {
       self->panes[i] = g_object_ref_sink (lw_plot_pane_new (area_views[i]));
       g_signal_connect (self->panes[i], "x-view-changed", G_CALLBACK (pane_view_changed), self);
     }
-  for (guint k = 0; k < N_SPLIT; k++)
+  for (guint k = 0; k < n_split_views; k++)
     {
       self->split_panes[k] = g_object_ref_sink (lw_plot_pane_new (split_views[k]));
       g_signal_connect (self->split_panes[k], "x-view-changed", G_CALLBACK (pane_view_changed),

@@ -276,8 +276,7 @@ drag_begin (GtkGestureDrag *g, double x, double y, LwPlotPane *self)
 {
   GdkModifierType mods =
     gtk_event_controller_get_current_event_state (GTK_EVENT_CONTROLLER (g));
-  if ((mods & GDK_CONTROL_MASK) && (self->view == LW_PLOT_VIEW_BODE_W
-                                    || self->view == LW_PLOT_VIEW_BODE_Z))
+  if ((mods & GDK_CONTROL_MASK) && lw_plot_view_has (self->view, LW_PLOT_VIEW_FREQUENCY_AXIS))
     {
       gtk_gesture_set_state (GTK_GESTURE (g), GTK_EVENT_SEQUENCE_CLAIMED);
       pan_begin_at (self, x);
@@ -579,7 +578,7 @@ pan_to (LwPlotPane *self, double x)
 static void
 pan_gesture_begin (GtkGestureDrag *g, double x, double y, LwPlotPane *self)
 {
-  if (self->view != LW_PLOT_VIEW_BODE_W && self->view != LW_PLOT_VIEW_BODE_Z)
+  if (!lw_plot_view_has (self->view, LW_PLOT_VIEW_FREQUENCY_AXIS))
     {
       gtk_gesture_set_state (GTK_GESTURE (g), GTK_EVENT_SEQUENCE_DENIED);
       return;

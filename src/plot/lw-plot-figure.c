@@ -294,58 +294,6 @@ lwp_add_phase_references (Panel *pn, const LwPlotAxis *a, bool vertical)
 
 /* ---- construction ---------------------------------------------------------------------- */
 
-static const char *const view_names[] = { "bode-z", "bode-w", "nyquist", "nichols", "step",
-                                          "poles" };
-
-const char *
-lw_plot_view_name (LwPlotView v)
-{
-  return (unsigned) v < G_N_ELEMENTS (view_names) ? view_names[v] : "?";
-}
-
-int
-lw_plot_view_from_name (const char *name)
-{
-  for (size_t i = 0; name && i < G_N_ELEMENTS (view_names); i++)
-    if (strcmp (name, view_names[i]) == 0)
-      return (int) i;
-  return -1;
-}
-
-static bool
-has_data (const LwPlotInput *in)
-{
-  for (size_t v = 0; v < in->n_variants; v++)
-    {
-      const LwPlotVariant *x = &in->variants[v];
-      switch (in->view)
-        {
-        case LW_PLOT_VIEW_BODE_Z:
-        case LW_PLOT_VIEW_NICHOLS:
-          if (x->z.n >= 2)
-            return true;
-          break;
-        case LW_PLOT_VIEW_BODE_W:
-          if (x->w.n >= 2)
-            return true;
-          break;
-        case LW_PLOT_VIEW_NYQUIST:
-          if (x->nyquist.n >= 2)
-            return true;
-          break;
-        case LW_PLOT_VIEW_STEP:
-          if (x->step.n >= 2 && x->step.period_s > 0.0)
-            return true;
-          break;
-        case LW_PLOT_VIEW_POLES:
-          if (x->poles.n_closed_loop + x->poles.n_loop_poles + x->poles.n_loop_zeros > 0)
-            return true;
-          break;
-        }
-    }
-  return false;
-}
-
 LwPlot *
 lw_plot_new (const LwPlotInput *in, char *err_msg, size_t err_size)
 {
@@ -357,17 +305,18 @@ lw_plot_new (const LwPlotInput *in, char *err_msg, size_t err_size)
                   LW_PLOT_MAX_VARIANTS, in->n_variants);
       return NULL;
     }
-  if ((unsigned) in->view >= G_N_ELEMENTS (view_names) || !has_data (in))
+  const LwPlotViewInfo *info = lw_plot_view_info (in->view);
+  if (info == NULL || !lwp_view_has_data (in))
     {
       if (err_msg)
         snprintf (err_msg, err_size, "nothing to draw for the view '%s'",
                   lw_plot_view_name (in->view));
       return NULL;
     }
-  if (in->view == LW_PLOT_VIEW_BODE_Z && !(in->nyquist_rad_s > 0.0))
+  if ((info->needs & LW_PLOT_NEEDS_NYQUIST_RATE) && !(in->nyquist_rad_s > 0.0))
     {
       if (err_msg)
-        snprintf (err_msg, err_size, "the Bode view in z needs the Nyquist frequency");
+        snprintf (err_msg, err_size, "the view '%s' needs the Nyquist frequency", info->name);
       return NULL;
     }
   LwPlot *pl = g_new0 (LwPlot, 1);
@@ -385,15 +334,7 @@ lw_plot_new (const LwPlotInput *in, char *err_msg, size_t err_size)
     pl->reuse = in->axes_of;
   for (size_t k = 0; k < MAX_PANELS; k++)
     panel_init (&pl->panels[k]);
-  switch (in->view)
-    {
-    case LW_PLOT_VIEW_BODE_Z: lwp_build_bode_z (pl, in); break;
-    case LW_PLOT_VIEW_BODE_W: lwp_build_bode_w (pl, in); break;
-    case LW_PLOT_VIEW_NYQUIST: lwp_build_nyquist (pl, in); break;
-    case LW_PLOT_VIEW_NICHOLS: lwp_build_nichols (pl, in); break;
-    case LW_PLOT_VIEW_STEP: lwp_build_step (pl, in); break;
-    case LW_PLOT_VIEW_POLES: lwp_build_poles (pl, in); break;
-    }
+  lwp_view_builder (in->view) (pl, in);
   pl->reuse = NULL;
   for (size_t k = 0; k < MAX_PANELS; k++)
     {
@@ -503,7 +444,7 @@ lw_plot_set_decimate (LwPlot *p, bool decimate)
 static bool
 has_frequency_axis (const LwPlot *p)
 {
-  return p->view == LW_PLOT_VIEW_BODE_Z || p->view == LW_PLOT_VIEW_BODE_W;
+  return lw_plot_view_has (p->view, LW_PLOT_VIEW_FREQUENCY_AXIS);
 }
 
 bool

@@ -195,7 +195,13 @@ void lwp_format_margin (char *buf, size_t size, const char *what, double value,
                         const char *unit);
 void lwp_add_phase_references (Panel *pn, const LwPlotAxis *a, bool vertical);
 
-/* ---- the builders (lw-plot-view-NAME.c) ------------------------------------------------ */
+/* ---- the view table (lw-plot-view.c) and the builders (lw-plot-view-NAME.c) ----------- */
+
+/* The builder of a view; NULL when v is not a view. */
+LwpBuildFunc lwp_view_builder (LwPlotView v);
+/* True when some variant of in has a series in->view needs (LwPlotViewInfo.needs; the
+ * Nyquist rate is checked apart, with its own message). */
+bool lwp_view_has_data (const LwPlotInput *in);
 
 void lwp_build_bode_z (LwPlot *pl, const LwPlotInput *in);
 void lwp_build_bode_w (LwPlot *pl, const LwPlotInput *in);

@@ -33,6 +33,7 @@
 #include <cairo.h>
 
 #include "lw-plot-axis.h"
+#include "lw-plot-view.h"   /* LwPlotView and the view table */
 
 #ifdef __cplusplus
 extern "C" {
@@ -50,22 +51,9 @@ extern "C" {
 #define LW_PLOT_CURVE_WIDTH 1.75
 
 typedef enum {
-  LW_PLOT_VIEW_BODE_Z = 0,    /* |L|, ∠L over ω up to the Nyquist frequency */
-  LW_PLOT_VIEW_BODE_W,        /* |L|, ∠L over ν (w-plane), with straight-line asymptotes */
-  LW_PLOT_VIEW_NYQUIST,       /* Im L over Re L, unit circle, critical point −1 */
-  LW_PLOT_VIEW_NICHOLS,       /* |L| (dB) over ∠L (°) */
-  LW_PLOT_VIEW_STEP,          /* output samples as a staircase; optional actuator panel */
-  LW_PLOT_VIEW_POLES          /* pole-zero map in z with the unit circle */
-} LwPlotView;
-
-typedef enum {
   LW_PLOT_THEME_LIGHT = 0,
   LW_PLOT_THEME_DARK = 1
 } LwPlotTheme;
-
-/* Name of a view as the CLI spells it ("bode-z", …) and back; -1 when unknown. */
-const char *lw_plot_view_name (LwPlotView v);
-int lw_plot_view_from_name (const char *name);
 
 /* A crossover of the loop with its margin, and the point of L there (for annotations). */
 typedef struct {
