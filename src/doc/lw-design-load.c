@@ -698,20 +698,28 @@ read_view (Reader *r, const xmlNode *e, LwDesign *d)
   g_autofree char *shows = attribute (e, "shows");
   if (shows != NULL)
     {
+      /* names as text: the renderer, above this layer, knows which views exist (lw-design.h) */
       g_auto (GStrv) words = g_strsplit_set (shows, " \t\n\r", -1);
+      g_autoptr (GPtrArray) names = g_ptr_array_new_with_free_func (g_free);
       for (size_t i = 0; words[i] != NULL; i++)
         {
           if (words[i][0] == '\0')
             continue;
-          unsigned flag = 0;
-          for (unsigned b = 0; b < LW_VIEW_COUNT; b++)
-            if (strcmp (words[i], lw_view_name (1u << b)) == 0)
-              flag = 1u << b;
-          if (flag == 0)
-            return fail (r, e, LW_DESIGN_ERROR_VALUE, ": attribute 'shows' names an unknown view "
-                         "'%s'; expected bode-z, bode-w, nyquist, nichols, step or poles",
-                         words[i]);
-          d->views |= flag;
+          const char *problem = lw_design_view_name_problem (words[i]);
+          if (problem != NULL)
+            return fail (r, e, LW_DESIGN_ERROR_VALUE, ": attribute 'shows' has a bad view name "
+                         "'%s': %s", words[i], problem);
+          gboolean again = FALSE;
+          for (guint j = 0; j < names->len && !again; j++)
+            again = strcmp (names->pdata[j], words[i]) == 0;
+          if (!again)   /* a name given twice counts once */
+            g_ptr_array_add (names, g_strdup (words[i]));
+        }
+      if (names->len > 0)
+        {
+          g_ptr_array_add (names, NULL);
+          g_strfreev (d->views);
+          d->views = (char **) g_ptr_array_free (g_steal_pointer (&names), FALSE);
         }
     }
   return true;

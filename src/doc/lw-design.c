@@ -73,19 +73,6 @@ const LwDocReqKind lw_doc_req_kinds[] = {
 };
 const size_t lw_doc_n_req_kinds = G_N_ELEMENTS (lw_doc_req_kinds);
 
-static const char *const view_names[LW_VIEW_COUNT] = {
-  "bode-z", "bode-w", "nyquist", "nichols", "step", "poles"
-};
-
-const char *
-lw_view_name (unsigned flag)
-{
-  for (unsigned i = 0; i < LW_VIEW_COUNT; i++)
-    if (flag == (1u << i))
-      return view_names[i];
-  return NULL;
-}
-
 const char *
 lw_design_requirement_element (LwReqKind kind)
 {
@@ -166,6 +153,19 @@ lw_design_text_problem (const char *s)
   return NULL;
 }
 
+const char *
+lw_design_view_name_problem (const char *name)
+{
+  size_t n = strlen (name);
+  if (n == 0 || n > LW_DESIGN_VIEW_NAME_MAX)
+    return n == 0 ? "it is empty" : "it is longer than 32 characters";
+  if (!g_ascii_islower (name[0]))
+    return "it does not start with a lower-case letter a-z";
+  if (strspn (name, "abcdefghijklmnopqrstuvwxyz0123456789-") != n)
+    return "it holds a character other than a-z, 0-9 and '-'";
+  return NULL;
+}
+
 /* ---- the model ---------------------------------------------------------------------------- */
 
 void
@@ -212,6 +212,7 @@ lw_design_free (LwDesign *d)
   for (size_t i = 0; i < d->n_variants; i++)
     variant_clear (&d->variants[i]);
   g_free (d->variants);
+  g_strfreev (d->views);
   g_free (d);
 }
 
@@ -225,6 +226,7 @@ lw_design_copy (const LwDesign *d)
   c->author = g_strdup (d->author);
   c->notes = g_strdup (d->notes);
   c->plant = g_strdup (d->plant);
+  c->views = g_strdupv (d->views);
   c->requirements = g_new0 (LwDesignRequirement, d->n_requirements);
   for (size_t i = 0; i < d->n_requirements; i++)
     {
@@ -335,7 +337,9 @@ lw_design_equal (const LwDesign *a, const LwDesign *b)
       || a->dead_time_s != b->dead_time_s || a->period_s != b->period_s || a->hold != b->hold
       || a->compute_delay != b->compute_delay || a->n_requirements != b->n_requirements
       || a->n_variants != b->n_variants || a->active != b->active
-      || a->has_range != b->has_range || a->views != b->views)
+      || a->has_range != b->has_range || (a->views == NULL) != (b->views == NULL)
+      || (a->views != NULL && !g_strv_equal ((const char *const *) a->views,
+                                             (const char *const *) b->views)))
     return false;
   if (a->has_range
       && (a->range_from_rad_s != b->range_from_rad_s || a->range_to_rad_s != b->range_to_rad_s))
@@ -535,11 +539,22 @@ lw_design_validate (const LwDesign *d, GError **error)
                    d->range_from_rad_s, d->range_to_rad_s);
       return FALSE;
     }
-  if ((d->views & ~((1u << LW_VIEW_COUNT) - 1u)) != 0)
+  for (size_t i = 0; d->views != NULL && d->views[i] != NULL; i++)
     {
-      g_set_error (error, LW_DESIGN_ERROR, LW_DESIGN_ERROR_VALUE, "unknown view flags 0x%x",
-                   d->views);
-      return FALSE;
+      const char *problem = lw_design_view_name_problem (d->views[i]);
+      if (problem != NULL)
+        {
+          g_set_error (error, LW_DESIGN_ERROR, LW_DESIGN_ERROR_VALUE,
+                       "the view name '%s' cannot be saved: %s", d->views[i], problem);
+          return FALSE;
+        }
+      for (size_t j = 0; j < i; j++)
+        if (strcmp (d->views[j], d->views[i]) == 0)
+          {
+            g_set_error (error, LW_DESIGN_ERROR, LW_DESIGN_ERROR_VALUE,
+                         "the view '%s' is listed twice", d->views[i]);
+            return FALSE;
+          }
     }
   return TRUE;
 }
@@ -726,7 +741,8 @@ lw_design_to_text (const LwDesign *d, size_t *len_out, GError **error)
   indent (o, 1);
   g_string_append (o, "</variants>\n");
 
-  if (d->has_range || d->views != 0)
+  bool has_views = d->views != NULL && d->views[0] != NULL;
+  if (d->has_range || has_views)
     {
       indent (o, 1);
       g_string_append (o, "<view");
@@ -735,18 +751,10 @@ lw_design_to_text (const LwDesign *d, size_t *len_out, GError **error)
           attr_number (o, "from_rad_s", d->range_from_rad_s);
           attr_number (o, "to_rad_s", d->range_to_rad_s);
         }
-      if (d->views != 0)
+      if (has_views)
         {
-          GString *list = g_string_new (NULL);
-          for (unsigned i = 0; i < LW_VIEW_COUNT; i++)
-            if (d->views & (1u << i))
-              {
-                if (list->len > 0)
-                  g_string_append_c (list, ' ');
-                g_string_append (list, view_names[i]);
-              }
-          attr_text (o, "shows", list->str);
-          g_string_free (list, TRUE);
+          g_autofree char *list = g_strjoinv (" ", d->views);
+          attr_text (o, "shows", list);
         }
       g_string_append (o, "/>\n");
     }

@@ -72,20 +72,8 @@ typedef enum
   LW_HOLD_ZERO_ORDER = 0      /* "zero-order" */
 } LwHold;
 
-/* Views a design may ask to show (bit flags). */
-typedef enum
-{
-  LW_VIEW_BODE_Z = 1u << 0,   /* "bode-z" */
-  LW_VIEW_BODE_W = 1u << 1,   /* "bode-w" */
-  LW_VIEW_NYQUIST = 1u << 2,  /* "nyquist" */
-  LW_VIEW_NICHOLS = 1u << 3,  /* "nichols" */
-  LW_VIEW_STEP = 1u << 4,     /* "step" */
-  LW_VIEW_POLES = 1u << 5     /* "poles" */
-} LwViewFlags;
-#define LW_VIEW_COUNT 6
-
-/* Name of a single view flag ("bode-z", ...); NULL when not exactly one known flag. */
-const char *lw_view_name (unsigned flag);
+/* Longest view name a document holds, in bytes. */
+#define LW_DESIGN_VIEW_NAME_MAX 32
 
 typedef struct
 {
@@ -122,7 +110,12 @@ typedef struct
   bool has_range;
   double range_from_rad_s;    /* frequency range of the views, ω in rad/s, 0 < from < to */
   double range_to_rad_s;
-  unsigned views;             /* LwViewFlags; 0: not given */
+  /* names of the views to show, in the order given, no name twice (lw_design_view_name_problem);
+   * NULL: not given. The names are the renderer's (src/plot/lw-plot-view.h), which lies above
+   * this layer: the document keeps them as text and whoever shows views maps them, so a view
+   * added to the renderer needs nothing here, and a name this build does not know (a view of a
+   * newer version) is kept and saved back unchanged. */
+  char **views;
 } LwDesign;
 
 /* A new design: title "", the plant text copied, dead time 0, period_s, zero-order hold,
@@ -155,13 +148,19 @@ gssize lw_design_find_variant (const LwDesign *d, const char *name);
 
 /* Checks everything a loaded design must satisfy (the value rules of docs/file-format.md):
  * plant expression proper, T > 0, dead time >= 0, delay in range, every stage and requirement
- * valid, variant names non-empty and unique, active in range, view range, strings valid UTF-8
+ * valid, variant names non-empty and unique, active in range, view range and view names (well
+ * formed, none twice), strings valid UTF-8
  * without characters XML cannot hold.  Used before saving. */
 gboolean lw_design_validate (const LwDesign *d, GError **error);
 
 /* NULL when s is valid UTF-8 holding only characters XML 1.0 allows (so it can be saved),
  * else a sentence saying what is wrong (a static string). */
 const char *lw_design_text_problem (const char *s);
+
+/* NULL when name can be a view name of a document: a lower-case letter, then lower-case
+ * letters, digits and '-', at most LW_DESIGN_VIEW_NAME_MAX bytes; else a sentence saying what
+ * is wrong (a static string). Whether a view of that name exists is the renderer's to say. */
+const char *lw_design_view_name_problem (const char *name);
 
 /* Loads a document. name is used in messages (the path as the user gave it). */
 LwDesign *lw_design_load_file (const char *path, GError **error);

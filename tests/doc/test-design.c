@@ -161,7 +161,8 @@ test_round_trip_everything (void **state)
   d->has_range = true;
   d->range_from_rad_s = 0.01;
   d->range_to_rad_s = G_PI * 3.0;
-  d->views = LW_VIEW_BODE_W | LW_VIEW_POLES | LW_VIEW_NYQUIST;
+  /* view names as text, in the order given; one the renderer may not know is kept */
+  d->views = g_strdupv ((char *[]) { "bode-w", "poles", "nyquist", "spectrum-2", NULL });
 
   size_t len = 0;
   g_autofree char *t = text_ok (d, &len);
@@ -174,6 +175,9 @@ test_round_trip_everything (void **state)
   g_autofree char *t2 = text_ok (back, &len2);
   assert_int_equal (len, len2);
   assert_memory_equal (t, t2, len);
+  /* the literal form of the view element (docs/file-format.md) */
+  assert_non_null (strstr (t, "<view from_rad_s=\"0.01\" to_rad_s=\"9.42477796076938\" "
+                              "shows=\"bode-w poles nyquist spectrum-2\"/>"));
 
   /* the file form: one element per line, two-space indentation */
   g_auto (GStrv) lines = g_strsplit (t, "\n", -1);
@@ -187,6 +191,52 @@ test_round_trip_everything (void **state)
       /* one element per line: a line holds one start tag (or one text element) */
       assert_null (strstr (l + sp + 1, "/><"));
     }
+}
+
+/* The views a document shows are kept as the words it gives, in its order, a repeat counted
+ * once, names this build's renderer may not know included (a newer version's view), and
+ * written back so; a word that cannot be a view name is refused with its place. */
+static void
+test_view_names_as_text (void **state)
+{
+  (void) state;
+  static const char doc[] =
+    "<?xml version=\"1.0\" encoding=\"UTF-8\"?>\n"
+    "<design xmlns=\"urn:loopwright:design\" version=\"1\">\n"
+    "  <title>views</title>\n"
+    "  <plant dead_time_s=\"0\">1/(s*(s+1))</plant>\n"
+    "  <sampling period_s=\"0.1\" hold=\"zero-order\" compute_delay_samples=\"1\"/>\n"
+    "  <variants active=\"a\">\n"
+    "    <variant name=\"a\"/>\n"
+    "  </variants>\n"
+    "  <view shows=\"%s\"/>\n"
+    "</design>\n";
+  GError *error = NULL;
+  g_autofree char *t = g_strdup_printf (doc, " step\tbode-z step  spectrum-2 ");
+  g_autoptr (LwDesign) d = lw_design_load_data (t, strlen (t), "views", &error);
+  if (d == NULL)
+    fail_msg ("%s", error->message);
+  assert_non_null (d->views);
+  assert_int_equal (g_strv_length (d->views), 3);
+  assert_string_equal (d->views[0], "step");
+  assert_string_equal (d->views[1], "bode-z");
+  assert_string_equal (d->views[2], "spectrum-2");
+  g_autofree char *out = text_ok (d, NULL);
+  assert_non_null (strstr (out, "  <view shows=\"step bode-z spectrum-2\"/>\n"));
+
+  /* an empty list is no list: nothing written */
+  g_autofree char *t2 = g_strdup_printf (doc, " ");
+  g_autoptr (LwDesign) d2 = lw_design_load_data (t2, strlen (t2), "views", &error);
+  assert_non_null (d2);
+  assert_null (d2->views);
+  g_autofree char *out2 = text_ok (d2, NULL);
+  assert_null (strstr (out2, "<view"));
+
+  g_autofree char *t3 = g_strdup_printf (doc, "bode-z Bode_W");
+  assert_null (lw_design_load_data (t3, strlen (t3), "views", &error));
+  assert_non_null (strstr (error->message, "views:9:"));
+  assert_non_null (strstr (error->message, "'Bode_W'"));
+  g_clear_error (&error);
 }
 
 /* A variant that overrides the sample period: the attribute is written only for it, reads
@@ -698,8 +748,30 @@ test_model_api (void **state)
   assert_false (lw_design_validate (d, &error));
   assert_non_null (strstr (error->message, "plant"));
   g_clear_error (&error);
-  assert_string_equal (lw_view_name (LW_VIEW_NICHOLS), "nichols");
-  assert_null (lw_view_name (LW_VIEW_NICHOLS | LW_VIEW_STEP));
+
+  /* view names: words of a-z, 0-9 and '-' starting with a letter, at most 32 bytes, none
+   * twice; whether the view exists is not the document's to say */
+  assert_null (lw_design_view_name_problem ("nichols"));
+  assert_null (lw_design_view_name_problem ("a-view-2"));
+  assert_null (lw_design_view_name_problem ("abcdefghijklmnopqrstuvwxyzabcdef"));   /* 32 */
+  const char *bad[] = { "", "Nichols", "2d", "-x", "bode_w", "bode w",
+                        "abcdefghijklmnopqrstuvwxyzabcdefg" /* 33 */ };
+  for (size_t i = 0; i < G_N_ELEMENTS (bad); i++)
+    if (lw_design_view_name_problem (bad[i]) == NULL)
+      fail_msg ("view name '%s' accepted", bad[i]);
+  lw_design_set_string (&d->plant, "1/(s+1)");
+  assert_true (lw_design_validate (d, &error));
+  d->views = g_strdupv ((char *[]) { "step", "bode-z", "step", NULL });
+  assert_false (lw_design_validate (d, &error));
+  assert_non_null (strstr (error->message, "'step' is listed twice"));
+  g_clear_error (&error);
+  g_strfreev (d->views);
+  d->views = g_strdupv ((char *[]) { "step", "Bode", NULL });
+  assert_false (lw_design_validate (d, &error));
+  assert_non_null (strstr (error->message, "'Bode'"));
+  g_clear_error (&error);
+  g_strfreev (d->views);
+  d->views = NULL;
 }
 
 /* A document written out by hand (the vocabulary of docs/file-format.md) reads to the literal
@@ -784,6 +856,7 @@ main (int argc, char **argv)
     cmocka_unit_test (test_round_trip_everything),
     cmocka_unit_test (test_literal_document),
     cmocka_unit_test (test_round_trip_variant_period),
+    cmocka_unit_test (test_view_names_as_text),
     cmocka_unit_test (test_numbers_round_trip),
     cmocka_unit_test (test_numbers_locale),
     cmocka_unit_test (test_hostile_files),
