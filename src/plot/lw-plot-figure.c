@@ -90,7 +90,7 @@ lwp_add_mark (Panel *pn, double x, double y, MarkShape shape, double size)
 /* Text at data (x, y), or at mapped (u, v) when x, y are NaN and u, v given. */
 Prim *
 lwp_add_text_uv (Panel *pn, double u, double v, const char *text, double dx, double dy, double ax,
-             double ay)
+                 double ay)
 {
   Prim *p = lwp_prim_add (pn, PRIM_TEXT, 1);
   p->u[0] = u;
@@ -106,7 +106,7 @@ lwp_add_text_uv (Panel *pn, double u, double v, const char *text, double dx, dou
 
 Prim *
 lwp_add_text (Panel *pn, double x, double y, const char *text, double dx, double dy, double ax,
-          double ay)
+              double ay)
 {
   return lwp_add_text_uv (pn, mx (pn, x), my (pn, y), text, dx, dy, ax, ay);
 }
@@ -125,7 +125,7 @@ lwp_style_variant (Prim *p, size_t variant, double width)
  * the place it prefers; lwp_place_labels moves it off other labels. */
 Prim *
 lwp_margin_label (Panel *pn, double x, double y, const char *text, double dx, double dy, double ax,
-              double ay, size_t v)
+                  double ay, size_t v)
 {
   Prim *t = lwp_style_variant (lwp_add_text (pn, x, y, text, dx, dy, ax, ay), v, THIN_WIDTH);
   t->plate = true;
@@ -140,7 +140,7 @@ lwp_margin_label (Panel *pn, double x, double y, const char *text, double dx, do
  * values in them. */
 Prim *
 lwp_curve_reuse (LwPlot *pl, Panel *pn, size_t v, const void *src_x, const void *src_y, int tag,
-             size_t n)
+                 size_t n)
 {
   unsigned long key = pl->keys[v];
   const LwPlot *r = pl->reuse;
@@ -237,7 +237,7 @@ lwp_widen_to_aspect (Extent *ex, Extent *ey)
 
 void
 lwp_axis_from_extent (LwPlotAxis *a, LwPlotScale scale, LwPlotTickStyle style, Extent e,
-                  int target_majors)
+                      int target_majors)
 {
   double lo, hi;
   lw_plot_nice_range (scale, style, e.lo, e.hi, target_majors, &lo, &hi);

@@ -120,8 +120,8 @@ lwp_text_layout (LwPlotTextCache *c, cairo_t *cr, const char *text, FontRole rol
 /* Draws text with its anchor point (ax, ay in [0, 1] of its extent) at (x, y). */
 void
 lwp_draw_text (LwPlotTextCache *tc, cairo_t *cr, const char *text, FontRole role, double x,
-           double y, double ax, double ay, const double colour[3], const double *plate,
-           double angle)
+               double y, double ax, double ay, const double colour[3], const double *plate,
+               double angle)
 {
   PangoLayout *lay = lwp_text_layout (tc, cr, text, role);
   int w, h;
