@@ -1217,7 +1217,10 @@ LwDesign *
 lw_design_load_file (const char *path, GError **error)
 {
   g_return_val_if_fail (path != NULL, NULL);
-  int fd = open (path, O_RDONLY | O_CLOEXEC);
+  /* O_NONBLOCK: opening a FIFO (or a terminal, a tape) for reading would otherwise wait for
+   * a writer forever, before fstat could say it is not a regular file. A regular file
+   * ignores the flag; it is cleared before reading anyway. */
+  int fd = open (path, O_RDONLY | O_CLOEXEC | O_NONBLOCK | O_NOCTTY);
   if (fd < 0)
     {
       int e = errno;
@@ -1229,9 +1232,14 @@ lw_design_load_file (const char *path, GError **error)
   if (fstat (fd, &sb) != 0 || !S_ISREG (sb.st_mode))
     {
       close (fd);
-      g_set_error (error, LW_DESIGN_ERROR, LW_DESIGN_ERROR_IO, "%s: not a regular file", path);
+      g_set_error (error, LW_DESIGN_ERROR, LW_DESIGN_ERROR_IO,
+                   "%s: not a regular file (a design document is read from a file, not from "
+                   "a pipe, a device or a directory)", path);
       return NULL;
     }
+  int fl = fcntl (fd, F_GETFL);
+  if (fl != -1)
+    (void) fcntl (fd, F_SETFL, fl & ~O_NONBLOCK);
   if ((guint64) sb.st_size > LW_DESIGN_MAX_BYTES)
     {
       close (fd);

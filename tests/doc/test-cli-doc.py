@@ -239,6 +239,18 @@ with tempfile.TemporaryDirectory() as tmp:
     leftovers = [n for n in os.listdir(tmp) if n.startswith(".")]
     check(leftovers == [], f"temporary files left: {leftovers}")
 
+# a FIFO given as a document: refused at once (opening it used to wait for a writer forever)
+with tempfile.TemporaryDirectory() as tmp:
+    fifo = os.path.join(tmp, "pipe.lwd")
+    os.mkfifo(fifo)
+    for cmd in (["check", fifo], ["analyze", fifo], ["tidy", fifo, "--check"]):
+        try:
+            p = subprocess.run([CLI] + cmd, capture_output=True, text=True, timeout=20)
+            check(p.returncode == 2 and "pipe.lwd: not a regular file" in p.stderr,
+                  f"{cmd[0]} FIFO: exit {p.returncode}: {p.stderr.strip()}")
+        except subprocess.TimeoutExpired:
+            check(False, f"{cmd[0]} on a FIFO hangs")
+
 if failures:
     print(f"{len(failures)} failure(s)")
     sys.exit(1)

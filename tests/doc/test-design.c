@@ -587,6 +587,26 @@ test_file_limits (void **state)
   assert_null (lw_design_load_file (dir, &error));   /* a directory */
   assert_int_equal (error->code, LW_DESIGN_ERROR_IO);
   g_clear_error (&error);
+  /* A FIFO with no writer: refused at once as not a regular file (before the fix, open
+   * waited for a writer forever). In a child under alarm(), so a regression fails here with
+   * SIGALRM instead of hanging the suite. */
+  g_autofree char *fifo = g_build_filename (dir, "pipe.lwd", NULL);
+  assert_int_equal (mkfifo (fifo, 0600), 0);
+  pid_t pid = fork ();
+  assert_true (pid >= 0);
+  if (pid == 0)
+    {
+      alarm (10);
+      GError *e = NULL;
+      LwDesign *d = lw_design_load_file (fifo, &e);
+      _exit (d == NULL && e->code == LW_DESIGN_ERROR_IO
+             && strstr (e->message, "pipe.lwd: not a regular file") != NULL ? 0 : 1);
+    }
+  int status = 0;
+  assert_int_equal (waitpid (pid, &status, 0), pid);
+  assert_true (WIFEXITED (status));
+  assert_int_equal (WEXITSTATUS (status), 0);
+  g_unlink (fifo);
   g_unlink (big);
   g_rmdir (dir);
 }
