@@ -12,14 +12,17 @@
 
 #include "lw-cli-common.h"
 #include "lw-expr.h"
+#include "lw-number.h"
 
 void
 lw_cli_bad_input (const char *place, const char *fmt, ...)
 {
   va_list ap;
   va_start (ap, fmt);
-  g_autofree char *msg = g_strdup_vprintf (fmt, ap);
+  g_autofree char *raw = g_strdup_vprintf (fmt, ap);
   va_end (ap);
+  /* quoted user text may hold bytes that are not UTF-8: show them as U+FFFD */
+  g_autofree char *msg = g_utf8_make_valid (raw, -1);
   if (place != NULL)
     g_printerr ("%s: %s: %s\n", LW_CLI_PROG, place, msg);
   else
@@ -28,48 +31,67 @@ lw_cli_bad_input (const char *place, const char *fmt, ...)
 
 /* ---- numbers ---------------------------------------------------------------------------- */
 
-/* Parses a whole, finite decimal number (locale-independent). Prints the message and returns
- * false on failure. */
+/* One number in the syntax of lw-number.h (the same as in documents and expressions).
+ * Prints the message and returns false on failure. */
 bool
 lw_cli_parse_double (const char *option, const char *text, double *out)
 {
-  char *end = NULL;
-  errno = 0;
-  double v = g_ascii_strtod (text, &end);
-  if (end == text || *end != '\0')
+  switch (lw_number_parse (text, out))
     {
-      lw_cli_bad_input (option, "'%s' is not a number", text);
+    case LW_NUMBER_OK:
+      return true;
+    case LW_NUMBER_NOT_FINITE:
+      lw_cli_bad_input (option, "'%s' is not a finite number (beyond about 1.8e308)", text);
       return false;
-    }
-  if (!isfinite (v))
-    {
-      lw_cli_bad_input (option, "'%s' is not a finite number", text);
+    case LW_NUMBER_TOO_LONG:
+      lw_cli_bad_input (option, "'%s' is too long for a number (at most %d characters)", text,
+                        LW_NUMBER_MAX_CHARS);
       return false;
+    case LW_NUMBER_SYNTAX:
+    default:
+      {
+        const char *t = text + (text[0] == '+' || text[0] == '-');
+        if (g_ascii_strcasecmp (t, "inf") == 0 || g_ascii_strcasecmp (t, "infinity") == 0
+            || g_ascii_strcasecmp (t, "nan") == 0)
+          lw_cli_bad_input (option, "'%s' is not a finite number", text);
+        else if (g_ascii_strncasecmp (t, "0x", 2) == 0)
+          lw_cli_bad_input (option, "'%s' is not a number: hexadecimal is not accepted (write "
+                            "decimal digits, e.g. 16)", text);
+        else if (text[0] != '\0' && (g_ascii_isspace (text[0])
+                                     || g_ascii_isspace (text[strlen (text) - 1])))
+          lw_cli_bad_input (option, "'%s' is not a number: remove the spaces around it", text);
+        else
+          lw_cli_bad_input (option, "'%s' is not a number (decimal digits with an optional "
+                            "sign, '.' and exponent, e.g. 0.002 or 2e-3)", text);
+        return false;
+      }
     }
-  *out = v;
-  return true;
 }
 
-/* Parses a whole decimal integer in [lo, hi]. */
+/* A whole number in [lo, hi], in the same syntax ("1e3" is 1000). */
 bool
 lw_cli_parse_integer (const char *option, const char *text, gint64 lo, gint64 hi, gint64 *out)
 {
-  char *end = NULL;
-  errno = 0;
-  gint64 v = g_ascii_strtoll (text, &end, 10);
-  if (end == text || *end != '\0')
+  long long v = 0;
+  bool whole = true, in_range = true;
+  LwNumberResult r = lw_number_parse_whole (text, lo, hi, &v, &whole, &in_range);
+  if (r == LW_NUMBER_OK)
     {
-      lw_cli_bad_input (option, "'%s' is not a whole number", text);
-      return false;
+      *out = (gint64) v;
+      return true;
     }
-  if (errno == ERANGE || v < lo || v > hi)
-    {
-      lw_cli_bad_input (option, "%s is out of range: must be from %" G_GINT64_FORMAT
-                 " to %" G_GINT64_FORMAT, text, lo, hi);
-      return false;
-    }
-  *out = v;
-  return true;
+  if (r == LW_NUMBER_SYNTAX && !in_range)
+    lw_cli_bad_input (option, "%s is out of range: must be from %" G_GINT64_FORMAT
+                      " to %" G_GINT64_FORMAT, text, lo, hi);
+  else if (r == LW_NUMBER_SYNTAX && whole)
+    lw_cli_bad_input (option, "'%s' is not a whole number", text);
+  else if (r == LW_NUMBER_SYNTAX)
+    lw_cli_bad_input (option, "'%s' is not a whole number (must be from %" G_GINT64_FORMAT
+                      " to %" G_GINT64_FORMAT ")", text, lo, hi);
+  else
+    lw_cli_bad_input (option, "%s is out of range: must be from %" G_GINT64_FORMAT
+                      " to %" G_GINT64_FORMAT, text, lo, hi);
+  return false;
 }
 
 /* ---- expressions ------------------------------------------------------------------------ */
@@ -154,9 +176,13 @@ lw_cli_report_expr_error (const char *option, const char *text, const LwError *e
    * are kept in both lines so the caret stays aligned. */
   GString *shown = g_string_new ("    ");
   GString *caret = g_string_new ("    ");
+  bool valid = g_utf8_validate (text, (gssize) len, NULL);
   for (size_t i = 0; i < len; i++)
     {
       unsigned char c = (unsigned char) text[i];
+      /* text that is not UTF-8 is counted in bytes (chars_before): one '?' per byte >= 0x80 */
+      if (!valid && c >= 0x80)
+        c = '?';
       g_string_append_c (shown, (c < 0x20 && c != '\t') || c == 0x7f ? ' ' : (char) c);
       /* one caret column per character: skip UTF-8 continuation bytes */
       if (i < pos && (c & 0xC0) != 0x80)
@@ -228,6 +254,12 @@ lw_cli_loop_build (const char *cmd, const LwCliLoopArgs *a, LwCliLoop *out)
       lw_cli_bad_input ("--period", "must be greater than 0 seconds, got %s", a->period);
       return LW_EXIT_BAD_INPUT;
     }
+  if (!lw_period_ok (out->period_s))
+    {
+      lw_cli_bad_input ("--period", "%s s is outside the sample periods the numerics represent "
+                        "(%g to %g s; docs/cli.md)", a->period, LW_PERIOD_MIN_S, LW_PERIOD_MAX_S);
+      return LW_EXIT_BAD_INPUT;
+    }
   gint64 v;
   if (a->compute_delay != NULL)
     {
@@ -245,6 +277,14 @@ lw_cli_loop_build (const char *cmd, const LwCliLoopArgs *a, LwCliLoop *out)
           return LW_EXIT_BAD_INPUT;
         }
       out->dead_time_s += 0.0;   /* -0 becomes +0 */
+      if (!lw_dead_time_ok (out->dead_time_s, out->period_s))
+        {
+          lw_cli_bad_input ("--dead-time", "%s s is %.6g sample periods of %g s, more than the "
+                            "limit of %.0f (docs/cli.md)", a->dead_time,
+                            out->dead_time_s / out->period_s, out->period_s,
+                            LW_DEAD_TIME_MAX_SAMPLES);
+          return LW_EXIT_BAD_INPUT;
+        }
     }
   if (a->controller != NULL && a->controller_z != NULL)
     {
@@ -252,6 +292,8 @@ lw_cli_loop_build (const char *cmd, const LwCliLoopArgs *a, LwCliLoop *out)
       return LW_EXIT_BAD_INPUT;
     }
 
+  /* The options are taken as bytes (G_OPTION_ARG_FILENAME: no conversion that could fail
+   * without naming the option); the expression parser names a byte that is not UTF-8. */
   int status = LW_EXIT_OK;
   LwError err;
   lw_error_clear (&err);
@@ -305,6 +347,7 @@ lw_cli_loop_build (const char *cmd, const LwCliLoopArgs *a, LwCliLoop *out)
 
   if (lw_sampled_plant_new (out->plant_s, out->dead_time_s, period_s, &out->sampled, &err) != LW_OK)
     {
+      /* the period and the dead time were checked above, so what is left is the plant's */
       status = lw_cli_report_core_error ("--plant", &err);
       goto fail;
     }
@@ -328,9 +371,40 @@ lw_cli_run_command (const char *cmd, int argc, char **argv, const GOptionEntry *
   g_option_context_add_main_entries (ctx, entries, NULL);
   GError *gerr = NULL;
   int status;
+  /* GOptionContext rearranges argv; keep the original to name an option whose text it could
+   * not convert */
+  g_auto (GStrv) orig = g_new0 (char *, (gsize) argc + 1);
+  for (int i = 0; i < argc; i++)
+    orig[i] = g_strdup (argv[i]);
   if (!g_option_context_parse (ctx, &argc, &argv, &gerr))
     {
-      lw_cli_bad_input (cmd, "%s (see '" LW_CLI_PROG " %s --help')", gerr->message, cmd);
+      const char *place = NULL;
+      long bad_byte = -1;
+      if (gerr->domain == G_CONVERT_ERROR)
+        for (int i = 1; orig[i] != NULL && place == NULL; i++)
+          {
+            const char *end = NULL;
+            if (g_utf8_validate (orig[i], -1, &end))
+              continue;
+            bad_byte = (long) (end - orig[i]);
+            const char *eq = g_str_has_prefix (orig[i], "--") ? strchr (orig[i], '=') : NULL;
+            if (eq != NULL && end > eq)
+              {
+                place = g_strndup (orig[i], (gsize) (eq - orig[i]));
+                bad_byte -= (long) (eq + 1 - orig[i]);
+              }
+            else if (i > 1 && g_str_has_prefix (orig[i - 1], "-"))
+              place = g_strdup (orig[i - 1]);
+            else
+              place = g_strdup (cmd);
+          }
+      if (place != NULL)
+        {
+          lw_cli_bad_input (place, "the text is not valid UTF-8 (byte %ld)", bad_byte + 1);
+          g_free ((char *) place);
+        }
+      else
+        lw_cli_bad_input (cmd, "%s (see '" LW_CLI_PROG " %s --help')", gerr->message, cmd);
       g_error_free (gerr);
       status = LW_EXIT_BAD_INPUT;
     }

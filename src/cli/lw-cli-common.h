@@ -26,11 +26,27 @@ enum
   LW_EXIT_BAD_INPUT = 2
 };
 
+/* Work is bounded by what can be shown (docs/cli.md, "Limits"; measured figures there):
+ * - frequency points: the widest figure is 20000 px, so 1e5 points already put 5 on each
+ *   pixel; crossovers are refined by root finding between grid points, so more points do
+ *   not make them more precise;
+ * - step-response samples: 1e6 (a settling time of a million periods; the text report of
+ *   1e6 samples needs about 100 MB);
+ * - continuous points (steps - 1) * substeps: 2e6 (100 per pixel of the widest figure);
+ * - numbers in the arrays of one --json analysis: 2e6 (about 30 MB of text and 0.3 GB while
+ *   it is built; 1e7 samples took more than 4 GB and GLib aborted);
+ * - a PNG: LW_PLOT_MAX_PNG_PIXELS (lw-plot-export.h). */
+#define LW_CLI_MAX_POINTS 100000
+#define LW_CLI_MAX_STEPS 1000000
+#define LW_CLI_MAX_CONTINUOUS 2000000.0
+#define LW_CLI_MAX_JSON_VALUES 2000000.0
+
 /* "loopwright-cli: PLACE: message" on stderr (PLACE may be NULL). */
 void lw_cli_bad_input (const char *place, const char *fmt, ...) G_GNUC_PRINTF (2, 3);
 
-/* A whole, finite decimal number / a whole number in [lo, hi]; on failure prints a message
- * naming `option` and returns false. */
+/* A finite number / a whole number in [lo, hi], in the one number syntax of lw-number.h
+ * (shared with documents and expressions); on failure prints a message naming `option` and
+ * returns false. */
 bool lw_cli_parse_double (const char *option, const char *text, double *out);
 bool lw_cli_parse_integer (const char *option, const char *text, gint64 lo, gint64 hi,
                            gint64 *out);
@@ -53,14 +69,16 @@ typedef struct
   char *controller_z;
 } LwCliLoopArgs;
 
-/* GOptionEntry rows for the loop options, writing into `a` (6 entries). */
+/* GOptionEntry rows for the loop options, writing into `a` (6 entries). Taken as bytes
+ * (G_OPTION_ARG_FILENAME) so that text which is not UTF-8 reaches our own checks, which name
+ * the option, instead of failing in GLib's conversion without naming it. */
 #define LW_CLI_LOOP_ENTRIES(a)                                                            \
-  { "plant", 0, 0, G_OPTION_ARG_STRING, &(a)->plant, NULL, NULL },                         \
-  { "period", 0, 0, G_OPTION_ARG_STRING, &(a)->period, NULL, NULL },                       \
-  { "compute-delay", 0, 0, G_OPTION_ARG_STRING, &(a)->compute_delay, NULL, NULL },         \
-  { "dead-time", 0, 0, G_OPTION_ARG_STRING, &(a)->dead_time, NULL, NULL },                 \
-  { "controller", 0, 0, G_OPTION_ARG_STRING, &(a)->controller, NULL, NULL },               \
-  { "controller-z", 0, 0, G_OPTION_ARG_STRING, &(a)->controller_z, NULL, NULL }
+  { "plant", 0, 0, G_OPTION_ARG_FILENAME, &(a)->plant, NULL, NULL },                       \
+  { "period", 0, 0, G_OPTION_ARG_FILENAME, &(a)->period, NULL, NULL },                     \
+  { "compute-delay", 0, 0, G_OPTION_ARG_FILENAME, &(a)->compute_delay, NULL, NULL },       \
+  { "dead-time", 0, 0, G_OPTION_ARG_FILENAME, &(a)->dead_time, NULL, NULL },               \
+  { "controller", 0, 0, G_OPTION_ARG_FILENAME, &(a)->controller, NULL, NULL },             \
+  { "controller-z", 0, 0, G_OPTION_ARG_FILENAME, &(a)->controller_z, NULL, NULL }
 
 void lw_cli_loop_args_clear (LwCliLoopArgs *a);
 

@@ -244,8 +244,8 @@ static const char analyze_help[] =
   "  --dead-time SECONDS      plant input dead time in seconds, >= 0 (default 0)\n"
   "  --controller EXPR        controller C(w), proper, in the w-plane variable w (default 1)\n"
   "  --controller-z EXPR      controller C(z), proper, in z (instead of --controller)\n"
-  "  --points N               frequency points up to pi/T, 16 to 1000000 (default 2000)\n"
-  "  --steps N                step-response samples, 2 to 10000000 (default 500)\n"
+  "  --points N               frequency points up to pi/T, 16 to 100000 (default 2000)\n"
+  "  --steps N                step-response samples, 2 to 1000000 (default 500)\n"
   "  --saturation LOW:HIGH    actuator limits on the controller output, LOW < HIGH\n"
   "  --anti-windup            hold the integrators while the output is limited\n"
   "                           (clamping; needs --saturation)\n"
@@ -312,13 +312,13 @@ analyze_spec (const AnalyzeArgs *a, AnalyzeSpec *sp)
   lw_sim_options_init (&sp->so);
   if (a->points != NULL)
     {
-      if (!lw_cli_parse_integer ("--points", a->points, 16, 1000000, &v))
+      if (!lw_cli_parse_integer ("--points", a->points, 16, LW_CLI_MAX_POINTS, &v))
         return LW_EXIT_BAD_INPUT;
       sp->opts.n_points = (size_t) v;
     }
   if (a->steps != NULL)
     {
-      if (!lw_cli_parse_integer ("--steps", a->steps, 2, 10000000, &v))
+      if (!lw_cli_parse_integer ("--steps", a->steps, 2, LW_CLI_MAX_STEPS, &v))
         return LW_EXIT_BAD_INPUT;
       sp->opts.n_steps = (size_t) v;
     }
@@ -345,11 +345,27 @@ analyze_spec (const AnalyzeArgs *a, AnalyzeSpec *sp)
         return LW_EXIT_BAD_INPUT;
       sp->so.substeps = (size_t) v;
     }
-  if (sp->so.substeps > 0 && (double) (sp->so.n_steps - 1) * (double) sp->so.substeps > 1e7)
+  double continuous = (double) (sp->so.n_steps - 1) * (double) sp->so.substeps;
+  if (continuous > LW_CLI_MAX_CONTINUOUS)
     {
-      lw_cli_bad_input ("--substeps", "%zu sub-steps for %zu samples make more than 1e7 "
-                        "continuous points; use fewer (or 0) with this many --steps",
-                        sp->so.substeps, sp->so.n_steps);
+      lw_cli_bad_input ("--substeps", "%zu sub-steps for %zu samples make %.0f continuous "
+                        "points, more than the limit of %.0f; use fewer (or 0) with this many "
+                        "--steps (docs/cli.md, Limits)", sp->so.substeps, sp->so.n_steps,
+                        continuous, LW_CLI_MAX_CONTINUOUS);
+      return LW_EXIT_BAD_INPUT;
+    }
+  /* --json writes every sample: six series of N samples (reference, input and output
+   * disturbance: output and actuator each) and the continuous output (t, y) at
+   * (N - 1) * M + 1 points */
+  double values = 6.0 * (double) sp->so.n_steps + (continuous > 0 ? 2.0 * (continuous + 1) : 0);
+  if (a->json && values > LW_CLI_MAX_JSON_VALUES)
+    {
+      lw_cli_bad_input (a->substeps != NULL && continuous > 0 ? "--substeps" : "--steps",
+                        "--json with %zu samples and %zu sub-steps writes %.0f numbers "
+                        "(6 x steps + 2 x ((steps - 1) x substeps + 1)), more than the limit of %.0f; "
+                        "use fewer --steps or --substeps, or the text report (docs/cli.md, "
+                        "Limits)", sp->so.n_steps, sp->so.substeps, values,
+                        LW_CLI_MAX_JSON_VALUES);
       return LW_EXIT_BAD_INPUT;
     }
   return LW_EXIT_OK;

@@ -86,10 +86,10 @@ lw_cmd_new (int argc, char **argv)
 {
   NewArgs a = { 0 };
   const GOptionEntry entries[] = {
-    { "plant", 0, 0, G_OPTION_ARG_STRING, &a.loop.plant, NULL, NULL },
-    { "period", 0, 0, G_OPTION_ARG_STRING, &a.loop.period, NULL, NULL },
-    { "compute-delay", 0, 0, G_OPTION_ARG_STRING, &a.loop.compute_delay, NULL, NULL },
-    { "dead-time", 0, 0, G_OPTION_ARG_STRING, &a.loop.dead_time, NULL, NULL },
+    { "plant", 0, 0, G_OPTION_ARG_FILENAME, &a.loop.plant, NULL, NULL },
+    { "period", 0, 0, G_OPTION_ARG_FILENAME, &a.loop.period, NULL, NULL },
+    { "compute-delay", 0, 0, G_OPTION_ARG_FILENAME, &a.loop.compute_delay, NULL, NULL },
+    { "dead-time", 0, 0, G_OPTION_ARG_FILENAME, &a.loop.dead_time, NULL, NULL },
     { "title", 0, 0, G_OPTION_ARG_STRING, &a.title, NULL, NULL },
     { "out", 0, 0, G_OPTION_ARG_FILENAME, &a.out, NULL, NULL },
     { "help", 'h', 0, G_OPTION_ARG_NONE, &a.help, NULL, NULL },

@@ -58,8 +58,8 @@ static const char plot_help_tail[] =
   "  --min-phase-margin DEG   mark a required phase margin on the Bode and Nichols views\n"
   "  --pdf-date DATE          creation date written into a PDF, YYYY-MM-DDThh:mm:ss\n"
   "                           (default: a fixed date, so the same figure gives the same file)\n"
-  "  --points N               frequency points up to pi/T, 16 to 1000000 (default 2000)\n"
-  "  --steps N                step-response samples, 2 to 10000000 (default 500)\n"
+  "  --points N               frequency points up to pi/T, 16 to 100000 (default 2000)\n"
+  "  --steps N                step-response samples, 2 to 1000000 (default 500)\n"
   "  -h, --help               show this help\n"
   "\n"
   "Exit status: 0 success, 2 bad input, 1 internal failure or the file could not be written.\n";
@@ -100,8 +100,8 @@ parse_size (const char *text, double *w, double *h)
     }
   g_autofree char *ws = g_strndup (text, (gsize) (x - text));
   gint64 a, b;
-  if (!lw_cli_parse_integer ("--size (width)", ws, 16, 20000, &a)
-      || !lw_cli_parse_integer ("--size (height)", x + 1, 16, 20000, &b))
+  if (!lw_cli_parse_integer ("--size (width)", ws, 16, LW_PLOT_MAX_SIDE, &a)
+      || !lw_cli_parse_integer ("--size (height)", x + 1, 16, LW_PLOT_MAX_SIDE, &b))
     return false;
   *w = (double) a;
   *h = (double) b;
@@ -157,6 +157,14 @@ plot_options_check (const PlotArgs *a, PlotSpec *s)
   s->out = a->out;
   if (a->size && !parse_size (a->size, &s->width, &s->height))
     return LW_EXIT_BAD_INPUT;
+  if (s->format == LW_PLOT_FORMAT_PNG && s->width * s->height > LW_PLOT_MAX_PNG_PIXELS)
+    {
+      lw_cli_bad_input ("--size", "a PNG of %s pixels is %.0f pixels, more than the limit of "
+                        "%.0f (e.g. 5000x5000); use .svg or .pdf for a larger figure "
+                        "(docs/cli.md, Limits)", a->size, s->width * s->height,
+                        LW_PLOT_MAX_PNG_PIXELS);
+      return LW_EXIT_BAD_INPUT;
+    }
   if (a->theme == NULL || strcmp (a->theme, "light") == 0)
     s->theme = LW_PLOT_THEME_LIGHT;
   else if (strcmp (a->theme, "dark") == 0)
@@ -280,13 +288,13 @@ plot_analysis_options (const PlotArgs *a, LwAnalysisOptions *opts)
   lw_analysis_options_init (opts);
   if (a->points != NULL)
     {
-      if (!lw_cli_parse_integer ("--points", a->points, 16, 1000000, &v))
+      if (!lw_cli_parse_integer ("--points", a->points, 16, LW_CLI_MAX_POINTS, &v))
         return LW_EXIT_BAD_INPUT;
       opts->n_points = (size_t) v;
     }
   if (a->steps != NULL)
     {
-      if (!lw_cli_parse_integer ("--steps", a->steps, 2, 10000000, &v))
+      if (!lw_cli_parse_integer ("--steps", a->steps, 2, LW_CLI_MAX_STEPS, &v))
         return LW_EXIT_BAD_INPUT;
       opts->n_steps = (size_t) v;
     }

@@ -461,10 +461,10 @@ lw_cmd_suggest (int argc, char **argv)
 {
   SuggestArgs a = { 0 };
   const GOptionEntry entries[] = {
-    { "plant", 0, 0, G_OPTION_ARG_STRING, &a.loop.plant, NULL, NULL },
-    { "period", 0, 0, G_OPTION_ARG_STRING, &a.loop.period, NULL, NULL },
-    { "compute-delay", 0, 0, G_OPTION_ARG_STRING, &a.loop.compute_delay, NULL, NULL },
-    { "dead-time", 0, 0, G_OPTION_ARG_STRING, &a.loop.dead_time, NULL, NULL },
+    { "plant", 0, 0, G_OPTION_ARG_FILENAME, &a.loop.plant, NULL, NULL },
+    { "period", 0, 0, G_OPTION_ARG_FILENAME, &a.loop.period, NULL, NULL },
+    { "compute-delay", 0, 0, G_OPTION_ARG_FILENAME, &a.loop.compute_delay, NULL, NULL },
+    { "dead-time", 0, 0, G_OPTION_ARG_FILENAME, &a.loop.dead_time, NULL, NULL },
     { "phase-margin", 0, 0, G_OPTION_ARG_STRING, &a.phase_margin, NULL, NULL },
     { "crossover", 0, 0, G_OPTION_ARG_STRING, &a.crossover, NULL, NULL },
     { "rise-time", 0, 0, G_OPTION_ARG_STRING, &a.rise_time, NULL, NULL },

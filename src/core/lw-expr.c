@@ -12,6 +12,7 @@
  * SPDX-License-Identifier: GPL-3.0-or-later
  */
 #include "lw-expr.h"
+#include "lw-number.h"
 
 #include <errno.h>
 #include <locale.h>
@@ -21,7 +22,7 @@
 #include <stdlib.h>
 #include <string.h>
 
-#define NUMBER_MAX_CHARS 64
+#define NUMBER_MAX_CHARS LW_NUMBER_MAX_CHARS
 #define NESTING_MAX 200
 #define EXPONENT_MAX 999999999L
 
@@ -350,28 +351,75 @@ describe (int c, char *buf, size_t size)
   return buf;
 }
 
-/* Converts a validated decimal token (ASCII, '.' as decimal point) without depending on the
- * C library's current locale: strtod honours LC_NUMERIC, so the '.' is replaced by the
- * locale's decimal-point string first. */
+/* Converts a validated decimal token: the one conversion every typed number goes through
+ * (lw-number.h), independent of LC_NUMERIC. */
 static double
 convert_number (const char *tok)
 {
-  char buf[NUMBER_MAX_CHARS * 2 + 16];
-  const char *dp = localeconv ()->decimal_point;
-  if (dp == NULL || dp[0] == '\0')
-    dp = ".";
-  size_t dl = strlen (dp), o = 0;
-  for (const char *t = tok; *t != '\0' && o + dl + 1 < sizeof buf; t++) {
-    if (*t == '.') {
-      memcpy (buf + o, dp, dl);
-      o += dl;
-    } else {
-      buf[o++] = *t;
+  return lw_number_convert (tok, strlen (tok));
+}
+
+/* A character outside ASCII in an expression: the grammar is ASCII only, so the first such
+ * character is the error, and look-alikes of an operator are named with the character to
+ * type instead (a minus sign pasted from a document reads as ASCII '-' to the eye). Returns
+ * LW_OK when text is ASCII. */
+static LwStatus
+check_ascii (const char *text, size_t len, LwError *err)
+{
+  static const struct { unsigned cp; const char *name; const char *use; } lookalike[] = {
+    { 0x2212, "minus sign", "'-' (U+002D)" },
+    { 0x2010, "hyphen", "'-' (U+002D)" },
+    { 0x2011, "non-breaking hyphen", "'-' (U+002D)" },
+    { 0x2012, "figure dash", "'-' (U+002D)" },
+    { 0x2013, "en dash", "'-' (U+002D)" },
+    { 0x2014, "em dash", "'-' (U+002D)" },
+    { 0xFE63, "small hyphen-minus", "'-' (U+002D)" },
+    { 0xFF0D, "fullwidth hyphen-minus", "'-' (U+002D)" },
+    { 0x00D7, "multiplication sign", "'*' (U+002A)" },
+    { 0x00B7, "middle dot", "'*' (U+002A)" },
+    { 0x22C5, "dot operator", "'*' (U+002A)" },
+    { 0x2217, "asterisk operator", "'*' (U+002A)" },
+    { 0x00F7, "division sign", "'/' (U+002F)" },
+    { 0x2215, "division slash", "'/' (U+002F)" },
+    { 0x2044, "fraction slash", "'/' (U+002F)" },
+    { 0xFF0B, "fullwidth plus sign", "'+' (U+002B)" },
+    { 0x00A0, "no-break space", "a plain space (U+0020)" },
+    { 0x202F, "narrow no-break space", "a plain space (U+0020)" },
+    { 0x2009, "thin space", "a plain space (U+0020)" },
+  };
+  for (size_t i = 0; i < len; i++) {
+    unsigned char c = (unsigned char) text[i];
+    if (c < 0x80)
+      continue;
+    /* decode one UTF-8 sequence (shortest form, no surrogates) */
+    unsigned cp = 0;
+    size_t n = c >= 0xF0 && c <= 0xF4 ? 4 : c >= 0xE0 ? (c <= 0xEF ? 3 : 0) : c >= 0xC2 ? 2 : 0;
+    bool ok = n > 0 && i + n <= len;
+    if (ok) {
+      cp = c & (n == 2 ? 0x1F : n == 3 ? 0x0F : 0x07);
+      for (size_t k = 1; k < n && ok; k++) {
+        unsigned char d = (unsigned char) text[i + k];
+        ok = (d & 0xC0) == 0x80;
+        cp = (cp << 6) | (d & 0x3F);
+      }
+      ok = ok && !(n == 3 && cp < 0x800) && !(n == 4 && (cp < 0x10000 || cp > 0x10FFFF))
+           && !(cp >= 0xD800 && cp <= 0xDFFF);
     }
+    if (!ok)
+      return lw_error_set (err, LW_ERR_PARSE, (int) i,
+                           "byte 0x%02x at position %zu is not valid UTF-8 text", (unsigned) c, i);
+    for (size_t k = 0; k < sizeof lookalike / sizeof lookalike[0]; k++)
+      if (lookalike[k].cp == cp)
+        return lw_error_set (err, LW_ERR_PARSE, (int) i,
+                             "'%.*s' (U+%04X, %s) at position %zu is not an operator of "
+                             "expressions: use %s", (int) n, text + i, cp, lookalike[k].name, i,
+                             lookalike[k].use);
+    return lw_error_set (err, LW_ERR_PARSE, (int) i,
+                         "'%.*s' (U+%04X) at position %zu: expressions are written in ASCII "
+                         "(digits, the variable, + - * / ^ ( ) and spaces)", (int) n, text + i,
+                         cp, i);
   }
-  buf[o] = '\0';
-  errno = 0;
-  return strtod (buf, NULL);
+  return LW_OK;
 }
 
 /* ---------------------------------------------------------------------------------------- */
@@ -690,6 +738,9 @@ lw_expr_parse (const char *text, LwDomain domain, double period_s, LwModel **out
   size_t len = strlen (text);
   if (len > INT32_MAX)
     return lw_error_set (err, LW_ERR_INVALID, -1, "expression text is too long");
+  LwStatus ascii = check_ascii (text, len, err);
+  if (ascii != LW_OK)
+    return ascii;
   Parser p = { .text = text, .len = len, .pos = 0, .var = lw_domain_var (domain), .err = err };
   skip_ws (&p);
   if (p.pos == p.len)

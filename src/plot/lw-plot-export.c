@@ -47,10 +47,19 @@ lw_plot_render (LwPlot *p, LwPlotFormat format, double width, double height,
                 char *err, size_t err_size)
 {
   g_return_val_if_fail (p != NULL && out != NULL && out_len != NULL, false);
-  if (!(width >= 16 && height >= 16 && width <= 20000 && height <= 20000))
+  if (!(width >= 16 && height >= 16 && width <= LW_PLOT_MAX_SIDE && height <= LW_PLOT_MAX_SIDE))
     {
       if (err)
-        snprintf (err, err_size, "the size %gx%g is outside 16 to 20000", width, height);
+        snprintf (err, err_size, "the size %gx%g is outside 16 to %d", width, height,
+                  LW_PLOT_MAX_SIDE);
+      return false;
+    }
+  if (format == LW_PLOT_FORMAT_PNG && width * height > LW_PLOT_MAX_PNG_PIXELS)
+    {
+      if (err)
+        snprintf (err, err_size, "a PNG of %gx%g pixels is more than the limit of %.0f pixels "
+                  "(e.g. 5000x5000); use SVG or PDF for larger figures", width, height,
+                  LW_PLOT_MAX_PNG_PIXELS);
       return false;
     }
   GByteArray *bytes = g_byte_array_new ();

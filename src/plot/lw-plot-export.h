@@ -28,6 +28,12 @@ typedef enum {
   LW_PLOT_FORMAT_PDF
 } LwPlotFormat;
 
+/* Sizes: 16 to LW_PLOT_MAX_SIDE on each side; a PNG has at most LW_PLOT_MAX_PNG_PIXELS pixels
+ * (4 bytes each while it is drawn: 100 MB; an A3 page at 300 dpi is 17.4e6 pixels, while
+ * 20000 x 20000 took 1.6 GB and 20 s). SVG and PDF are vector: their size costs nothing. */
+#define LW_PLOT_MAX_SIDE 20000
+#define LW_PLOT_MAX_PNG_PIXELS 25000000.0
+
 /* The format named by a path's extension (.png, .svg, .pdf, any case); -1 for another. */
 int lw_plot_format_from_path (const char *path);
 

@@ -248,7 +248,16 @@ test_malformed_table (void **state)
     { "1.", LW_ERR_PARSE, 2, "expected a digit after the decimal point at position 2" },
     { "2e+", LW_ERR_PARSE, 3, "exponent at position 3" },
     { "s $", LW_ERR_PARSE, 2, "unexpected '$' at position 2" },
-    { "s+\xc3\xa4", LW_ERR_PARSE, 2, "found byte 0xc3" },
+    /* Non-ASCII: the first such character is named before any grammar error it would cause
+     * (UTF-8 encodings per RFC 3629; code points from the Unicode charts). */
+    { "s+\xc3\xa4", LW_ERR_PARSE, 2, "'\xc3\xa4' (U+00E4) at position 2: expressions are written in ASCII" },
+    { "1/(s\xe2\x88\x92" "1)", LW_ERR_PARSE, 4, "(U+2212, minus sign) at position 4 is not an operator of expressions: use '-' (U+002D)" },
+    { "s\xe2\x80\x93" "1", LW_ERR_PARSE, 1, "(U+2013, en dash) at position 1 is not an operator of expressions: use '-' (U+002D)" },
+    { "2\xc3\x97s", LW_ERR_PARSE, 1, "use '*' (U+002A)" },
+    { "1/(s+\xff)", LW_ERR_PARSE, 5, "byte 0xff at position 5 is not valid UTF-8" },
+    { "s+\xe2\x88", LW_ERR_PARSE, 2, "byte 0xe2 at position 2 is not valid UTF-8" },
+    { "s+\xc0\xad", LW_ERR_PARSE, 2, "byte 0xc0 at position 2 is not valid UTF-8" },   /* overlong '-' */
+    { "s+\xed\xa0\x80", LW_ERR_PARSE, 2, "not valid UTF-8" },   /* a surrogate */
     { deep, LW_ERR_PARSE, 200, "nested too deeply" },
   };
   for (size_t i = 0; i < sizeof cases / sizeof cases[0]; i++) {

@@ -323,12 +323,27 @@ BAD = [
     (["--view", "bode-z", "--out", os.path.join(TMP, "x.png"), "--min-phase-margin", "200"], 2, ["--min-phase-margin"]),
     (["--view", "bode-z", "--out", os.path.join(TMP, "x.png"), "--target-crossover", "-1"], 2, ["--target-crossover"]),
     (["--view", "bode-z", "--out", "/nonexistent-dir/x.png"], 1, ["/nonexistent-dir/x.png"]),
+    # work bounded by what can be shown (docs/cli.md, Limits): a PNG of at most 25e6 pixels
+    # (20000x20000 took 1.6 GB), 1e5 frequency points, 1e6 step samples
+    (["--view", "bode-z", "--out", os.path.join(TMP, "x.png"), "--size", "20000x20000"], 2,
+     ["--size", "limit of 25000000", ".svg or .pdf"]),
+    (["--view", "bode-z", "--out", os.path.join(TMP, "x.png"), "--size", "5001x5000"], 2, ["--size"]),
+    (["--view", "bode-z", "--out", os.path.join(TMP, "x.png"), "--size", "20001x16"], 2, ["--size (width)"]),
+    (["--view", "bode-z", "--out", os.path.join(TMP, "x.png"), "--points", "1e6"], 2, ["--points", "100000"]),
+    (["--view", "step", "--out", os.path.join(TMP, "x.png"), "--steps", "1e7"], 2, ["--steps", "1000000"]),
 ]
 for extra, want_code, subs in BAD:
     code, _, err = run(["plot"] + LOOP + extra)
     check(code == want_code, f"plot {extra}: exit {want_code} (got {code})")
     for s in subs:
         check(s in err, f"plot {extra}: stderr mentions {s!r} (got {err.strip()!r})")
+# the limit is on pixels: a vector figure may be large (a 20000 x 20000 pt SVG costs no more
+# than a small one), and a PNG at the limit is drawn
+for size, out_name in (("20000x20000", "big.svg"), ("5000x5000", "big.png")):
+    code, _, err = run(["plot"] + LOOP + ["--view", "step", "--size", size,
+                                          "--out", os.path.join(TMP, out_name)])
+    check(code == 0 and os.path.getsize(os.path.join(TMP, out_name)) > 0,
+          f"plot --size {size} {out_name}: exit {code} {err.strip()!r}")
 code, out, _ = run(["plot", "--help"])
 check(code == 0 and "--view VIEW" in out, "plot --help")
 
