@@ -28,6 +28,7 @@
 #include "lw-design-private.h"
 #include "lw-doc-resources.h"
 #include "lw-expr.h"
+#include "lw-number.h"
 
 /* ---- parse state ------------------------------------------------------------------------ */
 
@@ -293,49 +294,29 @@ attribute (const xmlNode *e, const char *name)
   return s;
 }
 
-/* A decimal number (the schema's xsd:double less INF and NaN): optional sign, digits with an
- * optional '.', optional exponent; surrounding XML whitespace allowed. */
+/* A number in the one syntax of typed numbers (lw-number.h: no hexadecimal, INF or NaN, no
+ * trailing '.'), after removing the white space XML allows around an xsd:double. */
+static bool
+xml_space (char c)
+{
+  return c == ' ' || c == '\t' || c == '\n' || c == '\r';
+}
+
 static bool
 parse_number_text (const char *text, double *out)
 {
   const char *p = text;
-  while (*p == ' ' || *p == '\t' || *p == '\n' || *p == '\r')
+  while (xml_space (*p))
     p++;
-  const char *start = p;
-  if (*p == '+' || *p == '-')
-    p++;
-  bool digits = false;
-  while (g_ascii_isdigit (*p))
-    p++, digits = true;
-  if (*p == '.')
-    {
-      p++;
-      while (g_ascii_isdigit (*p))
-        p++, digits = true;
-    }
-  if (!digits)
+  size_t n = strlen (p);
+  while (n > 0 && xml_space (p[n - 1]))
+    n--;
+  if (n == 0 || n > LW_NUMBER_MAX_CHARS)
     return false;
-  if (*p == 'e' || *p == 'E')
-    {
-      p++;
-      if (*p == '+' || *p == '-')
-        p++;
-      if (!g_ascii_isdigit (*p))
-        return false;
-      while (g_ascii_isdigit (*p))
-        p++;
-    }
-  const char *end_num = p;
-  while (*p == ' ' || *p == '\t' || *p == '\n' || *p == '\r')
-    p++;
-  if (*p != '\0')
-    return false;
-  char *end = NULL;
-  double v = g_ascii_strtod (start, &end);
-  if (end != end_num)
-    return false;
-  *out = v;
-  return true;
+  char buf[LW_NUMBER_MAX_CHARS + 1];
+  memcpy (buf, p, n);
+  buf[n] = '\0';
+  return lw_number_parse (buf, out) == LW_NUMBER_OK;
 }
 
 /* Reads a required (or optional, *present set) number attribute with a rule. */
@@ -603,8 +584,13 @@ read_variant (Reader *r, const xmlNode *e, LwDesign *d)
   double period_s = 0.0;
   bool has_period = false;
   g_autofree char *where = g_strdup_printf (" '%s'", name);
-  if (!number_attr (r, e, where, "period_s", LW_NUM_POSITIVE, false, &period_s, &has_period))
+  if (!number_attr (r, e, where, "period_s", LW_NUM_PERIOD, false, &period_s, &has_period))
     return false;
+  if (has_period && !lw_dead_time_ok (d->dead_time_s, period_s))
+    return fail (r, e, LW_DESIGN_ERROR_VALUE, "%s: at its attribute 'period_s' (%g s) the "
+                 "plant's dead time of %g s is %.6g sample periods, more than the limit of %.0f",
+                 where, period_s, d->dead_time_s,
+                 d->dead_time_s / period_s, LW_DEAD_TIME_MAX_SAMPLES);
   if (name[0] == '\0')
     return fail (r, e, LW_DESIGN_ERROR_VALUE, ": attribute 'name' must not be empty");
   if (lw_design_find_variant (d, name) >= 0)
@@ -788,6 +774,7 @@ read_design (Reader *r, const xmlNode *root)
   if (!is_element (c, "plant"))
     return missing (r, root, c, "plant", "<title>, <author> and <notes>"), NULL;
   static const char *const plant_attrs[] = { "dead_time_s", NULL };
+  const xmlNode *plant_el = c;
   if (!check_attributes (r, c, "", plant_attrs)
       || !number_attr (r, c, "", "dead_time_s", LW_NUM_NONNEGATIVE, false, &d->dead_time_s,
                        NULL))
@@ -814,8 +801,13 @@ read_design (Reader *r, const xmlNode *root)
   static const char *const sampling_attrs[] = { "period_s", "hold", "compute_delay_samples",
                                                 NULL };
   if (!check_attributes (r, c, "", sampling_attrs) || !no_children (r, c, "")
-      || !number_attr (r, c, "", "period_s", LW_NUM_POSITIVE, true, &d->period_s, NULL))
+      || !number_attr (r, c, "", "period_s", LW_NUM_PERIOD, true, &d->period_s, NULL))
     return NULL;
+  if (!lw_dead_time_ok (d->dead_time_s, d->period_s))
+    return fail (r, plant_el, LW_DESIGN_ERROR_VALUE, ": attribute 'dead_time_s' (%g s) is %.6g "
+                 "sample periods of %g s (<sampling> at line %ld), more than the limit of %.0f",
+                 d->dead_time_s, d->dead_time_s / d->period_s, d->period_s,
+                 (long) xmlGetLineNo (c), LW_DEAD_TIME_MAX_SAMPLES), NULL;
   g_autofree char *hold = attribute (c, "hold");
   if (hold != NULL && strcmp (hold, "zero-order") != 0)
     return fail (r, c, LW_DESIGN_ERROR_VALUE, ": attribute 'hold' must be 'zero-order' (the "
@@ -823,10 +815,13 @@ read_design (Reader *r, const xmlNode *root)
   g_autofree char *delay = attribute (c, "compute_delay_samples");
   if (delay != NULL)
     {
-      char *end = NULL;
-      gint64 n = g_ascii_strtoll (delay, &end, 10);
-      if (end == delay || *end != '\0' || !g_ascii_isdigit (delay[0]) || n < 0
-          || n > LW_DESIGN_MAX_COMPUTE_DELAY)
+      /* the one number syntax, whole (as --compute-delay reads it) */
+      double dv = -1.0;
+      long long n = -1;
+      if (parse_number_text (delay, &dv) && dv == floor (dv) && dv >= 0
+          && dv <= LW_DESIGN_MAX_COMPUTE_DELAY)
+        n = (long long) dv;
+      if (n < 0)
         return fail (r, c, LW_DESIGN_ERROR_VALUE, ": attribute 'compute_delay_samples' must be "
                      "a whole number from 0 to %d, got '%s'", LW_DESIGN_MAX_COMPUTE_DELAY,
                      delay), NULL;

@@ -15,7 +15,8 @@ typedef enum
   LW_NUM_POSITIVE,       /* finite, > 0 */
   LW_NUM_NONNEGATIVE,    /* finite, >= 0 */
   LW_NUM_NONZERO,        /* finite, != 0 */
-  LW_NUM_COUNT           /* a whole number 1 … LW_STAGE_MAX_COUNT (stored as int) */
+  LW_NUM_COUNT,          /* a whole number 1 … LW_STAGE_MAX_COUNT (stored as int) */
+  LW_NUM_PERIOD          /* a sample period, LW_PERIOD_MIN_S … LW_PERIOD_MAX_S (lw-number.h) */
 } LwNumRule;
 
 #define LW_DOC_MAX_ATTRS 4

@@ -16,6 +16,7 @@
 #include <glib/gstdio.h>
 
 #include "lw-design-private.h"
+#include "lw-number.h"
 #include "lw-expr.h"
 
 G_DEFINE_QUARK (lw-design-error-quark, lw_design_error)
@@ -119,6 +120,8 @@ lw_doc_rule_phrase (LwNumRule rule)
     case LW_NUM_NONNEGATIVE: return "a finite number >= 0";
     case LW_NUM_NONZERO: return "a finite number other than 0";
     case LW_NUM_COUNT: return "a whole number from 1 to " G_STRINGIFY (LW_STAGE_MAX_COUNT);
+    case LW_NUM_PERIOD:
+      return "a sample period from 1e-12 to 1e9 s (the range the numerics represent)";
     }
   return "a number";
 }
@@ -135,6 +138,7 @@ lw_doc_rule_ok (LwNumRule rule, double v)
     case LW_NUM_NONNEGATIVE: return v >= 0.0;
     case LW_NUM_NONZERO: return v != 0.0;
     case LW_NUM_COUNT: return v == floor (v) && v >= 1.0 && v <= LW_STAGE_MAX_COUNT;
+    case LW_NUM_PERIOD: return lw_period_ok (v);
     }
   return FALSE;
 }
@@ -411,16 +415,25 @@ lw_design_validate (const LwDesign *d, GError **error)
       return FALSE;
     }
   lw_model_free (m);
-  if (!lw_doc_rule_ok (LW_NUM_POSITIVE, d->period_s))
+  if (!lw_doc_rule_ok (LW_NUM_PERIOD, d->period_s))
     {
       g_set_error (error, LW_DESIGN_ERROR, LW_DESIGN_ERROR_VALUE,
-                   "the sample period must be a finite number > 0 s, got %g", d->period_s);
+                   "the sample period must be %s, got %g", lw_doc_rule_phrase (LW_NUM_PERIOD),
+                   d->period_s);
       return FALSE;
     }
   if (!lw_doc_rule_ok (LW_NUM_NONNEGATIVE, d->dead_time_s))
     {
       g_set_error (error, LW_DESIGN_ERROR, LW_DESIGN_ERROR_VALUE,
                    "the dead time must be a finite number >= 0 s, got %g", d->dead_time_s);
+      return FALSE;
+    }
+  if (!lw_dead_time_ok (d->dead_time_s, d->period_s))
+    {
+      g_set_error (error, LW_DESIGN_ERROR, LW_DESIGN_ERROR_VALUE,
+                   "the dead time %g s is %.6g sample periods of %g s, more than the limit of "
+                   "%.0f", d->dead_time_s, d->dead_time_s / d->period_s, d->period_s,
+                   LW_DEAD_TIME_MAX_SAMPLES);
       return FALSE;
     }
   if (d->hold != LW_HOLD_ZERO_ORDER)
@@ -494,11 +507,19 @@ lw_design_validate (const LwDesign *d, GError **error)
                          "two variants are named '%s'", v->name);
             return FALSE;
           }
-      if (v->has_period && !lw_doc_rule_ok (LW_NUM_POSITIVE, v->period_s))
+      if (v->has_period && !lw_doc_rule_ok (LW_NUM_PERIOD, v->period_s))
         {
           g_set_error (error, LW_DESIGN_ERROR, LW_DESIGN_ERROR_VALUE,
-                       "variant '%s': the sample period must be a finite number > 0 s, got %g",
-                       v->name, v->period_s);
+                       "variant '%s': the sample period must be %s, got %g", v->name,
+                       lw_doc_rule_phrase (LW_NUM_PERIOD), v->period_s);
+          return FALSE;
+        }
+      if (v->has_period && !lw_dead_time_ok (d->dead_time_s, v->period_s))
+        {
+          g_set_error (error, LW_DESIGN_ERROR, LW_DESIGN_ERROR_VALUE,
+                       "variant '%s': the dead time %g s is %.6g sample periods of %g s, more "
+                       "than the limit of %.0f", v->name, d->dead_time_s,
+                       d->dead_time_s / v->period_s, v->period_s, LW_DEAD_TIME_MAX_SAMPLES);
           return FALSE;
         }
       if (v->n_stages > LW_DESIGN_MAX_STAGES)
