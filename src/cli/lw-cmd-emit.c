@@ -11,6 +11,7 @@
 
 #include "lw-cli-commands.h"
 #include "lw-cli-common.h"
+#include "lw-file-write.h"
 #include "lw-cli-doc.h"
 #include "lw-cli-json.h"
 #include "lw-emit-c.h"
@@ -405,16 +406,19 @@ summary_json (const char *hpath, const char *cpath, const char *form_name,
 
 /* ---- run -------------------------------------------------------------------------------- */
 
-/* Temp file beside the target, flushed to disk, renamed over it (GLib does all three). */
+/* The header and the source as a pair: both replaced or neither, also under kill -9
+ * (lw_files_replace: synced temporary files, backups, a commit journal; docs/cli.md). */
 static bool
-write_file (const char *path, const LwText *t)
+write_pair (const char *hpath, const LwText *hdr, const char *cpath, const LwText *src)
 {
+  const LwFileContents files[2] = {
+    { hpath, hdr->data ? hdr->data : "", hdr->len },
+    { cpath, src->data ? src->data : "", src->len },
+  };
   GError *gerr = NULL;
-  if (!g_file_set_contents_full (path, t->data ? t->data : "", (gssize) t->len,
-                                 G_FILE_SET_CONTENTS_CONSISTENT | G_FILE_SET_CONTENTS_DURABLE,
-                                 0644, &gerr))
+  if (!lw_files_replace (files, 2, &gerr))
     {
-      lw_cli_bad_input ("--out", "cannot write %s: %s", path, gerr->message);
+      lw_cli_bad_input ("--out", "%s; neither file was changed", gerr->message);
       g_error_free (gerr);
       return false;
     }
@@ -561,7 +565,7 @@ emit_run (void *data)
   cpath = g_build_filename (a->out, cname, NULL);
   g_free (hname);
   g_free (cname);
-  if (!write_file (hpath, &hdr) || !write_file (cpath, &src))
+  if (!write_pair (hpath, &hdr, cpath, &src))
     {
       status = LW_EXIT_INTERNAL;
       goto out;

@@ -16,6 +16,7 @@
 #include <glib/gstdio.h>
 
 #include "lw-design-private.h"
+#include "lw-file-write.h"
 #include "lw-number.h"
 #include "lw-expr.h"
 
@@ -787,14 +788,8 @@ lw_design_to_text (const LwDesign *d, size_t *len_out, GError **error)
 
 /* ---- atomic save -------------------------------------------------------------------------- */
 
-static gboolean
-io_error (GError **error, const char *path, const char *what, int errsv)
-{
-  g_set_error (error, LW_DESIGN_ERROR, LW_DESIGN_ERROR_IO, "%s: cannot %s: %s", path, what,
-               g_strerror (errsv));
-  return FALSE;
-}
-
+/* Whole or not at all, a symbolic link followed, our stale temporaries cleaned
+ * (lw-file-write.h). */
 gboolean
 lw_design_save_file (const LwDesign *d, const char *path, GError **error)
 {
@@ -806,80 +801,12 @@ lw_design_save_file (const LwDesign *d, const char *path, GError **error)
       g_prefix_error (error, "%s: not saved: ", path);
       return FALSE;
     }
-
-  g_autofree char *dir = g_path_get_dirname (path);
-  g_autofree char *base = g_path_get_basename (path);
-  g_autofree char *tmpl = g_strdup_printf ("%s%c.%s.XXXXXX", dir, G_DIR_SEPARATOR, base);
-
-  /* created 0666 less the umask (open applies it); an existing file's bits are copied */
-  gboolean keep_mode = FALSE;
-  mode_t mode = 0;
-  struct stat st;
-  if (stat (path, &st) == 0)
+  GError *e = NULL;
+  if (!lw_file_replace (path, text, len, &e))
     {
-      if (!S_ISREG (st.st_mode))
-        {
-          g_set_error (error, LW_DESIGN_ERROR, LW_DESIGN_ERROR_IO,
-                       "%s: not saved: it exists and is not a regular file", path);
-          return FALSE;
-        }
-      mode = st.st_mode & 07777;
-      keep_mode = TRUE;
-    }
-
-  int fd = g_mkstemp_full (tmpl, O_RDWR | O_CLOEXEC, 0666);
-  if (fd < 0)
-    return io_error (error, path, "create a temporary file beside it", errno);
-
-  const char *p = text;
-  size_t left = len;
-  int errsv = 0;
-  const char *what = NULL;
-  while (left > 0)
-    {
-      ssize_t n = write (fd, p, left);
-      if (n < 0)
-        {
-          if (errno == EINTR)
-            continue;
-          errsv = errno;
-          what = "write the temporary file";
-          break;
-        }
-      p += n;
-      left -= (size_t) n;
-    }
-  if (what == NULL && keep_mode && fchmod (fd, mode) != 0)
-    {
-      errsv = errno;
-      what = "set the permissions of the temporary file";
-    }
-  if (what == NULL && fsync (fd) != 0)
-    {
-      errsv = errno;
-      what = "flush the temporary file to disk";
-    }
-  if (close (fd) != 0 && what == NULL)
-    {
-      errsv = errno;
-      what = "close the temporary file";
-    }
-  if (what == NULL && rename (tmpl, path) != 0)
-    {
-      errsv = errno;
-      what = "rename the temporary file over it";
-    }
-  if (what != NULL)
-    {
-      g_unlink (tmpl);
-      return io_error (error, path, what, errsv);
-    }
-  /* Make the rename itself durable; a failure here no longer endangers the old or new file. */
-  int dfd = open (dir, O_RDONLY | O_DIRECTORY | O_CLOEXEC);
-  if (dfd >= 0)
-    {
-      (void) fsync (dfd);
-      close (dfd);
+      g_set_error_literal (error, LW_DESIGN_ERROR, LW_DESIGN_ERROR_IO, e->message);
+      g_error_free (e);
+      return FALSE;
     }
   return TRUE;
 }

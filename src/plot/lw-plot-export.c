@@ -2,6 +2,7 @@
  * SPDX-License-Identifier: GPL-3.0-or-later
  */
 #include "lw-plot-export.h"
+#include "lw-file-write.h"
 
 #include <stdio.h>
 #include <string.h>
@@ -122,7 +123,7 @@ lw_plot_export (LwPlot *p, LwPlotFormat format, const char *path, double width, 
   if (!lw_plot_render (p, format, width, height, opts, &data, &len, err, err_size))
     return false;
   GError *gerr = NULL;
-  bool ok = g_file_set_contents (path, (const char *) data, (gssize) len, &gerr);
+  bool ok = lw_file_replace (path, data, len, &gerr);
   if (!ok)
     {
       if (err)

@@ -1,7 +1,8 @@
 /* lw-plot-export.h — a figure written to a PNG, SVG or PDF file.
  *
- * The file is rendered in memory and then written by g_file_set_contents (a temporary file
- * beside the target, renamed over it), so a failed export leaves an older file intact.
+ * The file is rendered in memory and then written by lw_file_replace (a hidden temporary
+ * file beside the target, synced and renamed over it; a symbolic link is followed), so a
+ * failed export leaves an older file intact.
  *
  * Reproducibility (checked with cairo 1.16, see docs/plot.md): the same figure gives the same
  * bytes each time. SVG: cairo numbers its ids (glyph0-1, clip1, …) in drawing order and writes

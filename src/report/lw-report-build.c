@@ -12,6 +12,7 @@
 
 #include "lw-engine.h"
 #include "lw-figure-data.h"
+#include "lw-file-write.h"
 #include "lw-implement.h"
 #include "lw-report.h"
 #include "lw-simulate.h"
@@ -797,9 +798,8 @@ lw_report_write_file (const LwReport *r, const char *path, size_t *len, GError *
     }
   else
     bytes = (unsigned char *) lw_report_html (r, &n);
-  gboolean ok = g_file_set_contents (path, (const char *) bytes, (gssize) n, error);
-  if (!ok)
-    g_prefix_error (error, "%s: could not be written: ", path);
+  /* whole or not at all, a link followed; the message names path (lw-file-write.h) */
+  gboolean ok = lw_file_replace (path, bytes, n, error);
   g_free (bytes);
   if (ok && len != NULL)
     *len = n;

@@ -248,6 +248,89 @@ with tempfile.TemporaryDirectory() as tmp:
     leftovers = [n for n in os.listdir(tmp) if n.startswith(".")]
     check(leftovers == [], f"temporary files left: {leftovers}")
 
+# ---- 4. files: links followed, pairs whole, messages name the target ------------------------
+with tempfile.TemporaryDirectory() as tmp:
+    # tidy and new onto a symbolic link: the linked document changes, the link stays a link
+    real_dir = os.path.join(tmp, "real")
+    os.mkdir(real_dir)
+    real = os.path.join(real_dir, "kiln.lwd")
+    with open(ex("kiln.lwd")) as f:
+        kiln = f.read()
+    with open(real, "w") as f:
+        f.write(kiln.replace('period_s="10"', "period_s='10.0'"))
+    link = os.path.join(tmp, "kiln-link.lwd")
+    os.symlink("real/kiln.lwd", link)
+    rc, out, err = run(["tidy", link])
+    check(rc == 0 and os.path.islink(link), f"tidy over a link: {rc} {err}; link kept")
+    check(open(real).read() == kiln, "tidy over a link rewrote the linked document")
+    rc, out, err = run(["new", "--plant", "1/(s+1)", "--period", "0.5", "--out", link])
+    check(rc == 0 and os.path.islink(link) and "period_s=\"0.5\"" in open(real).read(),
+          f"new --out LINK: {rc} {err}")
+    check([n for n in os.listdir(tmp) + os.listdir(real_dir) if n.startswith(".")] == [],
+          "no temporary files left beside a link or its target")
+    # a plot onto a link
+    fig = os.path.join(real_dir, "fig.svg")
+    open(fig, "w").write("old")
+    flink = os.path.join(tmp, "fig-link.svg")
+    os.symlink(fig, flink)
+    rc, out, err = run(["plot", ex("kiln.lwd"), "--view", "step", "--out", flink])
+    check(rc == 0 and os.path.islink(flink) and open(fig).read().startswith("<?xml"),
+          f"plot --out LINK: {rc} {err}")
+    # a stale temporary file of an interrupted save (ours by name, old, unlocked) is removed by
+    # the next save; a young one and one of another name stay (docs/file-format.md)
+    doc = os.path.join(tmp, "d.lwd")
+    stale, young, other = (os.path.join(tmp, n) for n in (".d.lwd.Zq81xP", ".d.lwd.Zq81xQ",
+                                                             ".notes.lwd.Zq81xP"))
+    for path in (stale, young, other):
+        open(path, "w").write("<design")
+    os.utime(stale, (0, 0))
+    os.utime(other, (0, 0))
+    rc, out, err = run(["new", "--plant", "1/(s+1)", "--period", "1", "--out", doc])
+    check(rc == 0 and not os.path.exists(stale), f"stale temporary file removed: {rc} {err}")
+    check(os.path.exists(young) and os.path.exists(other), "young / other temporary files kept")
+
+    # report: a write error names the target, not a temporary file
+    target = os.path.join(tmp, "no-such-dir", "r.html")
+    rc, out, err = run(["report", ex("kiln.lwd"), "--out", target])
+    check(rc == 1 and target + ": cannot" in err and "/.r.html." not in err,
+          f"report write error names the target: {rc} {err.strip()}")
+
+    # emit: both files or neither
+    out_dir = os.path.join(tmp, "emit")
+    os.mkdir(out_dir)
+    args = ["emit", ex("kiln.lwd"), "--form", "sections", "--out", out_dir, "--prefix", "kiln_"]
+    rc, out, err = run(args)
+    h, c = (os.path.join(out_dir, "kiln_controller." + e) for e in ("h", "c"))
+    check(rc == 0 and os.path.exists(h) and os.path.exists(c), f"emit: {rc} {err}")
+    h_old, c_old = open(h).read(), open(c).read()
+    other_args = ["emit", "--plant", "1/(s*(s+1))", "--period", "0.1", "--controller", "0.4",
+                  "--form", "difference", "--out", out_dir, "--prefix", "kiln_"]
+    # the second file cannot be written (a link into a directory that does not exist; root
+    # writes anywhere, so permissions cannot make it unwritable)
+    os.unlink(c)
+    os.symlink("missing/kiln_controller.c", c)
+    rc, out, err = run(other_args)
+    check(rc == 1 and "kiln_controller.c" in err and "neither file was changed" in err,
+          f"emit, unwritable .c: {rc} {err.strip()}")
+    check(open(h).read() == h_old, "emit, unwritable .c: the header is unchanged")
+    os.unlink(c)
+    open(c, "w").write(c_old)
+    # the second rename fails (test hook LW_TEST_FAIL_RENAME): the header is put back
+    env = dict(os.environ, LW_TEST_FAIL_RENAME="2")
+    p = subprocess.run([CLI] + other_args, capture_output=True, text=True, env=env, timeout=60)
+    check(p.returncode == 1 and open(h).read() == h_old and open(c).read() == c_old,
+          f"emit, second rename fails: {p.returncode} {p.stderr.strip()}")
+    # killed between the two renames (LW_TEST_KILL_AFTER_RENAME): the next emit completes
+    # the interrupted pair first, then writes its own
+    env = dict(os.environ, LW_TEST_KILL_AFTER_RENAME="1")
+    p = subprocess.run([CLI] + other_args, capture_output=True, text=True, env=env, timeout=60)
+    check(p.returncode == -9, f"emit killed after the first rename: {p.returncode}")
+    check(os.path.exists(os.path.join(out_dir, ".kiln_controller.h.journal")), "journal kept")
+    rc, out, err = run(args)
+    check(rc == 0 and open(h).read() == h_old and open(c).read() == c_old
+          and not [n for n in os.listdir(out_dir) if n.endswith(".journal")],
+          f"emit after a kill: {rc} {err}")
+
 # a FIFO given as a document: refused at once (opening it used to wait for a writer forever)
 with tempfile.TemporaryDirectory() as tmp:
     fifo = os.path.join(tmp, "pipe.lwd")
