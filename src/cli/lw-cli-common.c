@@ -68,7 +68,7 @@ lw_cli_parse_double (const char *option, const char *text, double *out)
     }
 }
 
-/* A whole number in [lo, hi], in the same syntax ("1e3" is 1000). */
+/* A whole number in [lo, hi]: an optional sign and digits (as in documents, xsd:integer). */
 bool
 lw_cli_parse_integer (const char *option, const char *text, gint64 lo, gint64 hi, gint64 *out)
 {
@@ -80,17 +80,14 @@ lw_cli_parse_integer (const char *option, const char *text, gint64 lo, gint64 hi
       *out = (gint64) v;
       return true;
     }
-  if (r == LW_NUMBER_SYNTAX && !in_range)
+  if (!in_range)
     lw_cli_bad_input (option, "%s is out of range: must be from %" G_GINT64_FORMAT
                       " to %" G_GINT64_FORMAT, text, lo, hi);
-  else if (r == LW_NUMBER_SYNTAX && whole)
-    lw_cli_bad_input (option, "'%s' is not a whole number", text);
-  else if (r == LW_NUMBER_SYNTAX)
-    lw_cli_bad_input (option, "'%s' is not a whole number (must be from %" G_GINT64_FORMAT
-                      " to %" G_GINT64_FORMAT ")", text, lo, hi);
+  else if (!whole)
+    lw_cli_bad_input (option, "'%s' is not a whole number: write it in digits, from %"
+                      G_GINT64_FORMAT " to %" G_GINT64_FORMAT, text, lo, hi);
   else
-    lw_cli_bad_input (option, "%s is out of range: must be from %" G_GINT64_FORMAT
-                      " to %" G_GINT64_FORMAT, text, lo, hi);
+    lw_cli_bad_input (option, "'%s' is not a whole number", text);
   return false;
 }
 

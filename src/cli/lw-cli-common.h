@@ -37,6 +37,8 @@ enum
  *   it is built; 1e7 samples took more than 4 GB and GLib aborted);
  * - a PNG: LW_PLOT_MAX_PNG_PIXELS (lw-plot-export.h). */
 #define LW_CLI_MAX_POINTS 100000
+/* crossovers of each kind listed in a text report (a screenful; --json lists all) */
+#define LW_CLI_MAX_LISTED 50
 #define LW_CLI_MAX_STEPS 1000000
 #define LW_CLI_MAX_CONTINUOUS 2000000.0
 #define LW_CLI_MAX_JSON_VALUES 2000000.0

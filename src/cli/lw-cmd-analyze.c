@@ -41,13 +41,21 @@ print_margins (const LwEvaluation *ev)
   printf ("  %-26s %s\n", "gain crossover (rad/s)", "phase margin (deg)");
   if (m->n_gain_crossovers == 0)
     printf ("  none\n");
-  for (size_t i = 0; i < m->n_gain_crossovers; i++)
+  /* the text report lists at most LW_CLI_MAX_LISTED crossovers of each kind (a loop whose
+   * |L| stays at 1 over a band listed every grid point); --json has them all */
+  for (size_t i = 0; i < m->n_gain_crossovers && i < LW_CLI_MAX_LISTED; i++)
     printf ("  %-26.6g %.4g\n", m->gain_crossovers_rad_s[i], m->phase_margins_deg[i]);
+  if (m->n_gain_crossovers > LW_CLI_MAX_LISTED)
+    printf ("  ... and %zu more gain crossovers (all of them with --json)\n",
+            m->n_gain_crossovers - LW_CLI_MAX_LISTED);
   printf ("  %-26s %s\n", "phase crossover (rad/s)", "gain margin (dB)");
   if (m->n_phase_crossovers == 0)
     printf ("  none\n");
-  for (size_t i = 0; i < m->n_phase_crossovers; i++)
+  for (size_t i = 0; i < m->n_phase_crossovers && i < LW_CLI_MAX_LISTED; i++)
     printf ("  %-26.6g %.4g\n", m->phase_crossovers_rad_s[i], m->gain_margins_db[i]);
+  if (m->n_phase_crossovers > LW_CLI_MAX_LISTED)
+    printf ("  ... and %zu more phase crossovers (all of them with --json)\n",
+            m->n_phase_crossovers - LW_CLI_MAX_LISTED);
 
   printf ("\n");
   if (m->has_phase_margin)

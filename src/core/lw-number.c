@@ -4,6 +4,7 @@
 #include "lw-number.h"
 
 #include <errno.h>
+#include <limits.h>
 #include <locale.h>
 #include <math.h>
 #include <stdlib.h>
@@ -97,23 +98,42 @@ lw_number_parse_whole (const char *text, long long lo, long long hi, long long *
     *whole_out = true;
   if (in_range_out != NULL)
     *in_range_out = true;
-  double v = 0.0;
-  LwNumberResult r = lw_number_parse (text, &v);
-  if (r != LW_NUMBER_OK)
-    return r;
-  if (v != floor (v))
+  if (text == NULL)
+    return LW_NUMBER_SYNTAX;
+  const char *p = text + (text[0] == '+' || text[0] == '-');
+  size_t n = strspn (p, "0123456789");
+  if (n == 0 || p[n] != '\0')
     {
-      if (whole_out != NULL)
+      /* a number of the general syntax that is not written as a whole number: say so */
+      double v;
+      if (whole_out != NULL && lw_number_parse (text, &v) == LW_NUMBER_OK)
         *whole_out = false;
       return LW_NUMBER_SYNTAX;
     }
-  if (!(v >= (double) lo && v <= (double) hi))
+  if ((size_t) (p - text) + n > LW_NUMBER_MAX_CHARS)
+    return LW_NUMBER_TOO_LONG;
+  /* digits only: exact as long as it fits; anything beyond hi is out of range */
+  long long v = 0;
+  bool big = false;
+  for (size_t i = 0; i < n; i++)
+    {
+      int d = p[i] - '0';
+      if (v > (LLONG_MAX - d) / 10)
+        {
+          big = true;
+          break;
+        }
+      v = v * 10 + d;
+    }
+  if (text[0] == '-')
+    v = -v;
+  if (big || v < lo || v > hi)
     {
       if (in_range_out != NULL)
         *in_range_out = false;
       return LW_NUMBER_SYNTAX;
     }
-  *out = (long long) v;
+  *out = v;
   return LW_NUMBER_OK;
 }
 

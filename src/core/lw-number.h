@@ -10,7 +10,8 @@
  * ("5."), white space before or after, a thousands separator. Inside an expression the sign
  * is the expression's unary minus, so the expression parser scans the mantissa and exponent
  * with the same rule. A design document first removes the white space XML allows around
- * an attribute's number (xsd:double collapses it); nothing else differs.
+ * an attribute's number (xsd:double collapses it); nothing else differs. Whole numbers are
+ * an optional sign and digits, everywhere (lw_number_parse_whole).
  *
  * SPDX-License-Identifier: GPL-3.0-or-later
  */
@@ -45,10 +46,11 @@ double lw_number_convert (const char *token, size_t len);
  * LW_NUMBER_OK). */
 LwNumberResult lw_number_parse (const char *text, double *out);
 
-/* Reads the whole of text as a whole number (the same syntax; the value must be an integer,
- * so "1e3" is 1000 and "1.5" is refused) in [lo, hi]. Returns LW_NUMBER_OK with *out set, or
- * the reason; *whole_out (may be NULL) is false when the text is a number but not whole, and
- * *in_range_out (may be NULL) false when it is whole but outside [lo, hi]. */
+/* Reads the whole of text as a whole number: an optional sign and decimal digits only (as
+ * XML Schema's xsd:integer, which documents use for whole numbers: "1e3" and "1.0" are not
+ * whole numbers) in [lo, hi]. Returns LW_NUMBER_OK with *out set, or the reason; *whole_out
+ * (may be NULL) is false when the text is a number of the syntax above but not written as a
+ * whole number, and *in_range_out (may be NULL) false when it is whole but outside [lo, hi]. */
 LwNumberResult lw_number_parse_whole (const char *text, long long lo, long long hi,
                                       long long *out, bool *whole_out, bool *in_range_out);
 

@@ -319,6 +319,24 @@ parse_number_text (const char *text, double *out)
   return lw_number_parse (buf, out) == LW_NUMBER_OK;
 }
 
+/* A whole number (sign and digits, xsd:integer) after removing XML's white space. */
+static bool
+parse_whole_text (const char *text, long long lo, long long hi, long long *out)
+{
+  const char *p = text;
+  while (xml_space (*p))
+    p++;
+  size_t n = strlen (p);
+  while (n > 0 && xml_space (p[n - 1]))
+    n--;
+  if (n == 0 || n > LW_NUMBER_MAX_CHARS)
+    return false;
+  char buf[LW_NUMBER_MAX_CHARS + 1];
+  memcpy (buf, p, n);
+  buf[n] = '\0';
+  return lw_number_parse_whole (buf, lo, hi, out, NULL, NULL) == LW_NUMBER_OK;
+}
+
 /* Reads a required (or optional, *present set) number attribute with a rule. */
 static bool
 number_attr (Reader *r, const xmlNode *e, const char *where, const char *name, LwNumRule rule,
@@ -335,7 +353,12 @@ number_attr (Reader *r, const xmlNode *e, const char *where, const char *name, L
                    name, lw_doc_rule_phrase (rule));
     }
   double v = 0.0;
-  if (!parse_number_text (text, &v) || !lw_doc_rule_ok (rule, v))
+  long long w = 0;
+  bool read = rule == LW_NUM_COUNT ? parse_whole_text (text, 1, LW_STAGE_MAX_COUNT, &w)
+                                   : parse_number_text (text, &v);
+  if (rule == LW_NUM_COUNT)
+    v = (double) w;
+  if (!read || !lw_doc_rule_ok (rule, v))
     return fail (r, e, LW_DESIGN_ERROR_VALUE, "%s: attribute '%s' must be %s, got '%s'", where,
                  name, lw_doc_rule_phrase (rule), text);
   *out = v;
@@ -815,13 +838,9 @@ read_design (Reader *r, const xmlNode *root)
   g_autofree char *delay = attribute (c, "compute_delay_samples");
   if (delay != NULL)
     {
-      /* the one number syntax, whole (as --compute-delay reads it) */
-      double dv = -1.0;
+      /* a whole number, as --compute-delay reads it */
       long long n = -1;
-      if (parse_number_text (delay, &dv) && dv == floor (dv) && dv >= 0
-          && dv <= LW_DESIGN_MAX_COMPUTE_DELAY)
-        n = (long long) dv;
-      if (n < 0)
+      if (!parse_whole_text (delay, 0, LW_DESIGN_MAX_COMPUTE_DELAY, &n))
         return fail (r, c, LW_DESIGN_ERROR_VALUE, ": attribute 'compute_delay_samples' must be "
                      "a whole number from 0 to %d, got '%s'", LW_DESIGN_MAX_COMPUTE_DELAY,
                      delay), NULL;

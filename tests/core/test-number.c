@@ -145,26 +145,39 @@ test_whole (void **state)
   (void) state;
   long long n = -1;
   bool whole, in_range;
-  assert_int_equal (lw_number_parse_whole ("1e3", 0, 10000, &n, &whole, &in_range), LW_NUMBER_OK);
+  assert_int_equal (lw_number_parse_whole ("1000", 0, 10000, &n, &whole, &in_range), LW_NUMBER_OK);
   assert_int_equal (n, 1000);
-  assert_int_equal (lw_number_parse_whole ("1e7", 2, 10000000, &n, &whole, &in_range),
-                    LW_NUMBER_OK);
-  assert_int_equal (n, 10000000);
+  assert_int_equal (lw_number_parse_whole ("+7", 0, 10, &n, &whole, &in_range), LW_NUMBER_OK);
+  assert_int_equal (n, 7);
   assert_int_equal (lw_number_parse_whole ("-0", 0, 5, &n, &whole, &in_range), LW_NUMBER_OK);
   assert_int_equal (n, 0);
-  assert_int_not_equal (lw_number_parse_whole ("1.5", 0, 5, &n, &whole, &in_range),
-                        LW_NUMBER_OK);
-  assert_false (whole);
-  assert_true (in_range);
+  assert_int_equal (lw_number_parse_whole ("007", 0, 10, &n, &whole, &in_range), LW_NUMBER_OK);
+  assert_int_equal (n, 7);
+  /* numbers, but not written as whole numbers (xsd:integer refuses them too) */
+  const char *not_whole[] = { "1e3", "1.5", "1.0", ".5", "1E1" };
+  for (size_t i = 0; i < sizeof not_whole / sizeof not_whole[0]; i++)
+    {
+      assert_int_not_equal (lw_number_parse_whole (not_whole[i], 0, 5000, &n, &whole, &in_range),
+                            LW_NUMBER_OK);
+      assert_false (whole);
+    }
+  /* not numbers at all */
+  const char *bad[] = { "", "-", " 3", "3 ", "0x3", "3a", "\xe2\x88\x92" "3", "1,000" };
+  for (size_t i = 0; i < sizeof bad / sizeof bad[0]; i++)
+    {
+      assert_int_not_equal (lw_number_parse_whole (bad[i], 0, 5000, &n, &whole, &in_range),
+                            LW_NUMBER_OK);
+      assert_true (whole);
+      assert_true (in_range);
+    }
   assert_int_not_equal (lw_number_parse_whole ("6", 0, 5, &n, &whole, &in_range), LW_NUMBER_OK);
   assert_true (whole);
   assert_false (in_range);
-  assert_int_not_equal (lw_number_parse_whole (" 3", 0, 5, &n, &whole, &in_range),
-                        LW_NUMBER_OK);
-  assert_int_not_equal (lw_number_parse_whole ("0x3", 0, 5, &n, &whole, &in_range),
-                        LW_NUMBER_OK);
-  assert_int_equal (lw_number_parse_whole ("1e999", 0, 5, &n, &whole, &in_range),
-                    LW_NUMBER_NOT_FINITE);
+  assert_int_not_equal (lw_number_parse_whole ("-1", 0, 5, &n, &whole, &in_range), LW_NUMBER_OK);
+  assert_false (in_range);
+  assert_int_not_equal (lw_number_parse_whole ("99999999999999999999999", 0, 5, &n, &whole,
+                                               &in_range), LW_NUMBER_OK);
+  assert_false (in_range);
 }
 
 static void

@@ -611,6 +611,40 @@ test_file_limits (void **state)
   g_rmdir (dir);
 }
 
+/* The number syntax of documents is the command line's (src/core/lw-number.h) plus the white
+ * space XML allows around an xsd:double; whole numbers in the same syntax; the period range
+ * ends are accepted. */
+static void
+test_number_syntax (void **state)
+{
+  (void) state;
+  struct { const char *period, *delay; double want_period; int want_delay; } ok[] = {
+    { " 0.5 ", "1", 0.5, 1 },
+    { "\n\t2.5e-3\r\n", " 10 ", 2.5e-3, 10 },
+    { ".25", "0", 0.25, 0 },
+    { "1e-12", "1000", 1e-12, 1000 },   /* the range ends (docs/cli.md, Limits) */
+    { "1e9", "2", 1e9, 2 },
+  };
+  for (size_t i = 0; i < sizeof ok / sizeof ok[0]; i++)
+    {
+      g_autofree char *text = g_strdup_printf (
+        "<?xml version=\"1.0\" encoding=\"UTF-8\"?>\n"
+        "<design xmlns=\"urn:loopwright:design\" version=\"1\">\n"
+        "  <title>numbers</title>\n  <plant>1/(s+1)</plant>\n"
+        "  <sampling period_s=\"%s\" compute_delay_samples=\"%s\"/>\n"
+        "  <variants active=\"a\"><variant name=\"a\"/></variants>\n</design>\n",
+        ok[i].period, ok[i].delay);
+      GError *error = NULL;
+      LwDesign *d = lw_design_load_data (text, strlen (text), "numbers.lwd", &error);
+      if (d == NULL)
+        fail_msg ("period '%s' delay '%s' refused: %s", ok[i].period, ok[i].delay,
+                  error->message);
+      assert_true (d->period_s == ok[i].want_period);   /* exact: one correctly rounded read */
+      assert_int_equal (d->compute_delay, ok[i].want_delay);
+      lw_design_free (d);
+    }
+}
+
 /* ---- saving ------------------------------------------------------------------------------- */
 
 static LwDesign *
@@ -884,6 +918,7 @@ main (int argc, char **argv)
     cmocka_unit_test (test_stage_and_element_limits),
     cmocka_unit_test (test_deep_nesting),
     cmocka_unit_test (test_file_limits),
+    cmocka_unit_test (test_number_syntax),
     cmocka_unit_test (test_save_and_failures),
     cmocka_unit_test (test_kill_during_saves),
     cmocka_unit_test (test_model_api),

@@ -329,8 +329,8 @@ BAD = [
      ["--size", "limit of 25000000", ".svg or .pdf"]),
     (["--view", "bode-z", "--out", os.path.join(TMP, "x.png"), "--size", "5001x5000"], 2, ["--size"]),
     (["--view", "bode-z", "--out", os.path.join(TMP, "x.png"), "--size", "20001x16"], 2, ["--size (width)"]),
-    (["--view", "bode-z", "--out", os.path.join(TMP, "x.png"), "--points", "1e6"], 2, ["--points", "100000"]),
-    (["--view", "step", "--out", os.path.join(TMP, "x.png"), "--steps", "1e7"], 2, ["--steps", "1000000"]),
+    (["--view", "bode-z", "--out", os.path.join(TMP, "x.png"), "--points", "1000000"], 2, ["--points", "100000"]),
+    (["--view", "step", "--out", os.path.join(TMP, "x.png"), "--steps", "10000000"], 2, ["--steps", "1000000"]),
 ]
 for extra, want_code, subs in BAD:
     code, _, err = run(["plot"] + LOOP + extra)
