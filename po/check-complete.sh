@@ -9,6 +9,7 @@ trap 'rm -rf "$tmp"' EXIT
 cd "$top"
 grep -v '^[[:space:]]*\(#\|$\)' po/POTFILES > "$tmp/files"
 xgettext --from-code=UTF-8 --keyword=_ --keyword=N_ --keyword=C_:1c,2 --keyword=NC_:1c,2 \
+  --keyword=g_dngettext:2,3 --keyword=ngettext:1,2 \
   --files-from="$tmp/files" --output="$tmp/loopwright.pot"
 status=0
 for lang in $(grep -v '^[[:space:]]*\(#\|$\)' po/LINGUAS); do

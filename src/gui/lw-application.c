@@ -11,7 +11,6 @@
 #include "config.h"
 
 #include <glib/gi18n.h>
-#include <glib/gstdio.h>
 
 #include "lw-application.h"
 #include "lw-window.h"
@@ -25,6 +24,7 @@ struct _LwApplication
 
   guint bench_frames;           /* > 0: benchmark mode */
   char *bench_path;
+  LwAutosave *autosave;         /* NULL: none (benchmark mode, or no place to write) */
   gboolean offered_autosave;
 };
 
@@ -34,6 +34,7 @@ G_DEFINE_FINAL_TYPE (LwApplication, lw_application, GTK_TYPE_APPLICATION)
 #define PORTAL_PATH "/org/freedesktop/portal/desktop"
 #define PORTAL_SETTINGS "org.freedesktop.portal.Settings"
 #define APPEARANCE_NS "org.freedesktop.appearance"
+#define AUTOSAVE_INTERVAL_MS 30000
 
 /* ---- dark style from the portal ------------------------------------------------------------ */
 
@@ -115,92 +116,171 @@ follow_system_style (LwApplication *self)
 
 /* ---- autosave ------------------------------------------------------------------------------ */
 
-char *
-lw_autosave_path (void)
+/* The offer of stale autosaves: over win, restored into win while it is untouched. */
+typedef struct
 {
-  return g_build_filename (g_get_user_state_dir (), "loopwright", "autosave.lwd", NULL);
+  LwApplication *app;
+  LwWindow *win;
+  GPtrArray *stale;             /* of LwAutosaveStale * */
+  GPtrArray *checks;            /* a GtkCheckButton per stale autosave; empty when just one */
+} Offer;
+
+/* With the dialog, however it goes: the stale sessions are unlocked. */
+static void
+offer_free (gpointer data)
+{
+  Offer *o = data;
+  lw_autosave_release_stale (o->app->autosave);
+  g_object_unref (o->app);
+  g_object_unref (o->win);
+  g_ptr_array_unref (o->stale);
+  g_ptr_array_unref (o->checks);
+  g_free (o);
 }
 
-char *
-lw_autosave_source_path (void)
+static char *
+autosave_time (const LwAutosaveStale *s)
 {
-  return g_build_filename (g_get_user_state_dir (), "loopwright", "autosave.source", NULL);
+  g_autoptr (GDateTime) when = g_date_time_new_from_unix_local (s->mtime_s);
+  return g_date_time_format (when, "%x %X");
 }
 
+static char *
+source_name (const LwAutosaveStale *s)
+{
+  if (s->source_uri == NULL)
+    return NULL;
+  g_autoptr (GFile) source = g_file_new_for_uri (s->source_uri);
+  return g_file_get_parse_name (source);
+}
+
+/* The sentence describing one stale autosave alone. */
+static char *
+describe_one (const LwAutosaveStale *s)
+{
+  g_autofree char *when = autosave_time (s);
+  g_autofree char *name = source_name (s);
+  if (name == NULL)
+    return g_strdup_printf (_("A design that was never saved was autosaved on %s."), when);
+  if (s->source_newer)
+    return g_strdup_printf (_("Unsaved changes to “%s” were autosaved on %s; the file was "
+                              "saved again after that."), name, when);
+  return g_strdup_printf (_("Unsaved changes to “%s” were autosaved on %s and not saved "
+                            "since."), name, when);
+}
+
+/* The label of one stale autosave in a list of them. */
+static char *
+describe_item (const LwAutosaveStale *s)
+{
+  g_autofree char *when = autosave_time (s);
+  g_autofree char *name = source_name (s);
+  if (name == NULL)
+    return g_strdup_printf (_("A design never saved, autosaved on %s"), when);
+  if (s->source_newer)
+    return g_strdup_printf (_("“%s”, autosaved on %s (the file was saved after that)"), name,
+                            when);
+  return g_strdup_printf (_("“%s”, autosaved on %s"), name, when);
+}
+
+static gboolean
+offer_chosen (Offer *o, guint i)
+{
+  return o->checks->len == 0
+         || gtk_check_button_get_active (GTK_CHECK_BUTTON (o->checks->pdata[i]));
+}
+
+/* Restore: each ticked autosave in a window (the one the offer was over while untouched, then
+ * new ones); Discard: each ticked one removed; Later: all kept. What is not ticked stays for
+ * the next start. */
 static void
 autosave_response (GtkDialog *dialog, int response, gpointer user_data)
 {
-  LwWindow *win = LW_WINDOW (user_data);
-  g_autofree char *path = lw_autosave_path ();
-  g_autofree char *source_path = lw_autosave_source_path ();
-  gtk_window_destroy (GTK_WINDOW (dialog));
-  if (response == GTK_RESPONSE_ACCEPT)
+  Offer *o = user_data;
+  LwAutosave *autosave = o->app->autosave;
+  for (guint i = 0; i < o->stale->len; i++)
     {
-      g_autofree char *uri = NULL;
-      g_file_get_contents (source_path, &uri, NULL, NULL);
-      g_autoptr (GFile) source = uri != NULL && uri[0] != '\0' ? g_file_new_for_uri (uri) : NULL;
-      if (!lw_window_is_pristine (win))
+      LwAutosaveStale *s = o->stale->pdata[i];
+      if (!offer_chosen (o, i))
+        continue;
+      if (response == GTK_RESPONSE_ACCEPT)
         {
-          GtkApplication *app = gtk_window_get_application (GTK_WINDOW (win));
-          win = lw_window_new (LW_APPLICATION (app));
-          gtk_window_present (GTK_WINDOW (win));
+          LwWindow *win = o->win;
+          if (gtk_window_get_application (GTK_WINDOW (win)) == NULL
+              || !lw_window_is_pristine (win))
+            {
+              win = lw_window_new (o->app);
+              gtk_window_present (GTK_WINDOW (win));
+            }
+          lw_window_restore_autosave (win, s);
         }
-      lw_window_restore_autosave (win, path, source);
+      else if (response == GTK_RESPONSE_REJECT)
+        lw_autosave_discard (autosave, s);
     }
-  else if (response == GTK_RESPONSE_REJECT)
-    {
-      g_unlink (path);
-      g_unlink (source_path);
-    }
-  g_object_unref (user_data);
+  gtk_window_destroy (GTK_WINDOW (dialog));
 }
 
-/* Once per run: when an autosave is newer than the last save of the file it came from (or
- * that work was never saved), offer to restore it, saying when it was written. */
+/* Once per run: the autosaves of processes that ended without cleaning up (a crash) are
+ * offered for restore, in one dialog; several are listed, each with a tick. */
 static void
 offer_autosave (LwApplication *self, LwWindow *win)
 {
-  if (self->offered_autosave || self->bench_frames > 0)
+  if (self->offered_autosave || self->autosave == NULL)
     return;
   self->offered_autosave = TRUE;
 
-  g_autofree char *path = lw_autosave_path ();
-  g_autofree char *source_path = lw_autosave_source_path ();
-  GStatBuf st;
-  if (g_stat (path, &st) != 0)
-    return;
-  g_autofree char *uri = NULL;
-  g_file_get_contents (source_path, &uri, NULL, NULL);
-  g_autofree char *source_name = NULL;
-  if (uri != NULL && uri[0] != '\0')
+  GPtrArray *stale = lw_autosave_find_stale (self->autosave);
+  if (stale->len == 0)
     {
-      g_autoptr (GFile) source = g_file_new_for_uri (uri);
-      GStatBuf sst;
-      const char *sp = g_file_peek_path (source);
-      if (sp != NULL && g_stat (sp, &sst) == 0 && sst.st_mtime > st.st_mtime)
-        return;   /* saved since: the autosave is older than the clean save */
-      source_name = g_file_get_parse_name (source);
+      g_ptr_array_unref (stale);
+      lw_autosave_release_stale (self->autosave);
+      return;
     }
-  g_autoptr (GDateTime) when = g_date_time_new_from_unix_local (st.st_mtime);
-  g_autofree char *when_text = g_date_time_format (when, "%x %X");
+  Offer *o = g_new0 (Offer, 1);
+  o->app = g_object_ref (self);
+  o->win = g_object_ref (win);
+  o->stale = stale;
+  o->checks = g_ptr_array_new ();
+
   GtkWidget *d = gtk_message_dialog_new (GTK_WINDOW (win), GTK_DIALOG_MODAL
                                            | GTK_DIALOG_DESTROY_WITH_PARENT,
                                          GTK_MESSAGE_QUESTION, GTK_BUTTONS_NONE, "%s",
                                          _("Restore unsaved work?"));
-  if (source_name != NULL)
-    gtk_message_dialog_format_secondary_text (GTK_MESSAGE_DIALOG (d),
-                                              _("Unsaved changes to “%s” were autosaved on %s "
-                                                "and not saved since."), source_name,
-                                              when_text);
+  if (stale->len == 1)
+    {
+      g_autofree char *text = describe_one (stale->pdata[0]);
+      gtk_message_dialog_format_secondary_text (GTK_MESSAGE_DIALOG (d), "%s", text);
+    }
   else
-    gtk_message_dialog_format_secondary_text (GTK_MESSAGE_DIALOG (d),
-                                              _("A design that was never saved was autosaved "
-                                                "on %s."), when_text);
+    {
+      gtk_message_dialog_format_secondary_text (
+        GTK_MESSAGE_DIALOG (d),
+        g_dngettext (GETTEXT_PACKAGE,
+                     "Loopwright ended before %u design was saved. Each one restored opens in "
+                     "a window of its own; those not ticked are offered again next time.",
+                     "Loopwright ended before %u designs were saved. Each one restored opens "
+                     "in a window of its own; those not ticked are offered again next time.",
+                     stale->len), stale->len);
+      GtkWidget *area = gtk_message_dialog_get_message_area (GTK_MESSAGE_DIALOG (d));
+      for (guint i = 0; i < stale->len; i++)
+        {
+          g_autofree char *label = describe_item (stale->pdata[i]);
+          GtkWidget *check = gtk_check_button_new_with_label (label);
+          gtk_check_button_set_active (GTK_CHECK_BUTTON (check), TRUE);
+          gtk_widget_set_tooltip_text (check, ((LwAutosaveStale *) stale->pdata[i])->path);
+          gtk_box_append (GTK_BOX (area), check);
+          g_ptr_array_add (o->checks, check);
+        }
+    }
   gtk_window_set_title (GTK_WINDOW (d), _("Restore unsaved work?"));
   gtk_dialog_add_buttons (GTK_DIALOG (d), _("_Discard"), GTK_RESPONSE_REJECT, _("_Later"),
                           GTK_RESPONSE_CANCEL, _("_Restore"), GTK_RESPONSE_ACCEPT, NULL);
   gtk_dialog_set_default_response (GTK_DIALOG (d), GTK_RESPONSE_ACCEPT);
-  g_signal_connect (d, "response", G_CALLBACK (autosave_response), g_object_ref (win));
+  /* Return restores (a focused tick would take it for itself) */
+  gtk_window_set_focus (GTK_WINDOW (d),
+                        gtk_dialog_get_widget_for_response (GTK_DIALOG (d), GTK_RESPONSE_ACCEPT));
+  g_object_set_data_full (G_OBJECT (d), "lw-offer", o, offer_free);
+  g_signal_connect (d, "response", G_CALLBACK (autosave_response), o);
   gtk_window_present (GTK_WINDOW (d));
 }
 
@@ -304,6 +384,23 @@ lw_application_startup (GApplication *app)
                "(from the build tree, set GSETTINGS_SCHEMA_DIR to build/data)", LW_APP_ID);
 
   follow_system_style (self);
+
+  /* unsaved work of every window, kept on disk (not in benchmark mode); test hook:
+   * LW_TEST_AUTOSAVE_INTERVAL_MS (tests/gui/test-autosave.py) */
+  if (self->bench_frames == 0)
+    {
+      guint64 interval_ms = AUTOSAVE_INTERVAL_MS;
+      const char *t = g_getenv ("LW_TEST_AUTOSAVE_INTERVAL_MS");
+      if (t != NULL && *t != '\0'
+          && !g_ascii_string_to_unsigned (t, 10, 1, 3600000, &interval_ms, NULL))
+        g_warning ("LW_TEST_AUTOSAVE_INTERVAL_MS=%s is not a whole number of ms from 1 to "
+                   "3600000; ignored", t);
+      g_autofree char *dir = lw_autosave_default_dir ();
+      g_autoptr (GError) error = NULL;
+      self->autosave = lw_autosave_new (dir, (guint) interval_ms, &error);
+      if (self->autosave == NULL)
+        g_warning ("unsaved work is not autosaved: %s", error->message);
+    }
 }
 
 static void
@@ -357,6 +454,7 @@ lw_application_dispose (GObject *object)
 
   g_clear_object (&self->settings);
   g_clear_object (&self->portal);
+  g_clear_object (&self->autosave);
   g_clear_pointer (&self->bench_path, g_free);
   G_OBJECT_CLASS (lw_application_parent_class)->dispose (object);
 }
@@ -383,6 +481,13 @@ lw_application_new (void)
                        "flags", G_APPLICATION_HANDLES_OPEN,
                        "resource-base-path", "/org/loopwright/Designer",
                        NULL);
+}
+
+LwAutosave *
+lw_application_get_autosave (LwApplication *self)
+{
+  g_return_val_if_fail (LW_IS_APPLICATION (self), NULL);
+  return self->autosave;
 }
 
 GSettings *

@@ -1,11 +1,14 @@
 /* lw-application.h — the Loopwright application: one window per design, app-wide actions
- * (quit, about), settings, and the dark style following the system.
+ * (quit, about), settings, the dark style following the system, and the autosave of every
+ * window's unsaved work (restore offered once per run, after a crash).
  *
  * SPDX-License-Identifier: GPL-3.0-or-later
  */
 #pragma once
 
 #include <gtk/gtk.h>
+
+#include "lw-autosave.h"
 
 G_BEGIN_DECLS
 
@@ -23,11 +26,9 @@ GSettings *lw_application_get_settings (LwApplication *self);
  * runs lw_window_start_bench_drag (N) and quits; no autosave offer. */
 void lw_application_set_bench_drag (LwApplication *self, guint n_frames, const char *path);
 
-/* Where windows autosave unsaved work: g_get_user_state_dir ()/loopwright/autosave.lwd (the
- * most recent autosave of any window), and beside it autosave.source holding the URI of the
- * file that work came from (empty for a design never saved). */
-char *lw_autosave_path (void);
-char *lw_autosave_source_path (void);
+/* Where the windows keep their unsaved work (one file each, lw-autosave.h), or NULL: no
+ * autosave (benchmark mode, or its directory could not be made). */
+LwAutosave *lw_application_get_autosave (LwApplication *self);
 
 /* Shows the About dialog over parent (may be NULL). */
 void lw_application_show_about (LwApplication *self, GtkWindow *parent);

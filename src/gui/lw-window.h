@@ -2,8 +2,10 @@
  * requirements), the plot area on the right, all showing one design document.
  *
  * The window owns the document's life: its file (open, save, save as, recent files, drag and
- * drop), its unsaved state (shown in the title, asked about on close, autosaved), its undo
- * history (snapshots of the whole document), and the drag handles on the Bode views.
+ * drop), its unsaved state (shown in the title, asked about on close, kept in the
+ * application's autosave, lw-autosave.h), its undo history (LwHistory, snapshots of the whole
+ * document), and the drag handles on the Bode views.  Its parts are listed in
+ * lw-window-private.h.
  *
  * SPDX-License-Identifier: GPL-3.0-or-later
  */
@@ -12,6 +14,7 @@
 #include <gtk/gtk.h>
 
 #include "lw-application.h"
+#include "lw-autosave.h"
 
 G_BEGIN_DECLS
 
@@ -29,9 +32,11 @@ gboolean lw_window_open_file (LwWindow *self, GFile *file);
  * replaces it instead of opening another window. */
 gboolean lw_window_is_pristine (LwWindow *self);
 
-/* Shows an autosaved document (path) as unsaved work; source (may be NULL) is the file it
- * came from, which becomes the window's file. */
-gboolean lw_window_restore_autosave (LwWindow *self, const char *path, GFile *source);
+/* Shows the autosaved document of a process that ended (lw_autosave_find_stale) as unsaved
+ * work; the file it came from, if any, becomes the window's file.  The work becomes this
+ * window's autosave (lw_autosave_adopt).  On failure a dialog explains, stale stays as it is,
+ * and FALSE is returned. */
+gboolean lw_window_restore_autosave (LwWindow *self, LwAutosaveStale *stale);
 
 /* Benchmark: once the window is shown, drags the first corner of the first stage that has one
  * through n_frames frames on the frame clock, then prints one line

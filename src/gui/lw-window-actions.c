@@ -1,0 +1,155 @@
+/* lw-window-actions.c — the window's keyboard shortcuts, undo and redo, and its small actions.
+ *
+ * Undo and redo are an LwHistory of the design model (lw-history.h): an edit becomes a step
+ * UNDO_MERGE_MS after the last of a burst, a finished drag or a variant action at once; the
+ * window only refuses them while a drag is in progress and keeps the actions' enabled state
+ * in step with "can-undo" and "can-redo".
+ *
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ */
+#include "config.h"
+
+#include "lw-window-private.h"
+
+#define UNDO_MERGE_MS 700
+#define UNDO_DEPTH 200
+
+/* ---- undo ---------------------------------------------------------------------------------- */
+
+static void
+update_undo_actions (LwWindow *self)
+{
+  gtk_widget_action_set_enabled (GTK_WIDGET (self), "window.undo",
+                                 lw_history_get_can_undo (self->history));
+  gtk_widget_action_set_enabled (GTK_WIDGET (self), "window.redo",
+                                 lw_history_get_can_redo (self->history));
+}
+
+void
+lw_window_start_history (LwWindow *self)
+{
+  g_clear_object (&self->history);
+  self->history = lw_history_new (self->model, UNDO_DEPTH, UNDO_MERGE_MS);
+  g_signal_connect_object (self->history, "notify::can-undo", G_CALLBACK (update_undo_actions),
+                           self, G_CONNECT_SWAPPED);
+  g_signal_connect_object (self->history, "notify::can-redo", G_CALLBACK (update_undo_actions),
+                           self, G_CONNECT_SWAPPED);
+  update_undo_actions (self);
+}
+
+static void
+undo_activated (GtkWidget *widget, const char *action, GVariant *param)
+{
+  LwWindow *self = LW_WINDOW (widget);
+  if (self->dragging)
+    return;
+  if (lw_history_undo (self->history))
+    self->sel_stage = -1;
+}
+
+static void
+redo_activated (GtkWidget *widget, const char *action, GVariant *param)
+{
+  LwWindow *self = LW_WINDOW (widget);
+  if (self->dragging)
+    return;
+  if (lw_history_redo (self->history))
+    self->sel_stage = -1;
+}
+
+/* ---- small actions ------------------------------------------------------------------------- */
+
+static void
+focus_plant_activated (GtkWidget *widget, const char *action, GVariant *param)
+{
+  LwWindow *self = LW_WINDOW (widget);
+  gtk_widget_grab_focus (lw_plant_panel_get_entry (self->plant_panel));
+}
+
+static void
+add_stage_activated (GtkWidget *widget, const char *action, GVariant *param)
+{
+  LwWindow *self = LW_WINDOW (widget);
+  lw_compensator_panel_popup_add_menu (self->compensator_panel);
+}
+
+static void
+reset_view_activated (GtkWidget *widget, const char *action, GVariant *param)
+{
+  lw_plot_area_reset_view (LW_WINDOW (widget)->plot_area);
+}
+
+/* ---- keyboard shortcuts -------------------------------------------------------------------- */
+
+typedef struct
+{
+  guint key;
+  GdkModifierType mods;
+  const char *action;
+} Binding;
+
+#define CTRL GDK_CONTROL_MASK
+#define CTRL_SHIFT (GDK_CONTROL_MASK | GDK_SHIFT_MASK)
+
+/* The window's shortcuts (the shortcuts window, src/gui/ui/, lists them for the user); with
+ * Shift, a letter is bound as both cases, as keyboards report either. */
+static const Binding bindings[] = {
+  { GDK_KEY_n, CTRL_SHIFT, "window.variant-copy" },
+  { GDK_KEY_N, CTRL_SHIFT, "window.variant-copy" },
+  { GDK_KEY_Page_Down, CTRL, "window.variant-next" },
+  { GDK_KEY_Page_Up, CTRL, "window.variant-previous" },
+  { GDK_KEY_k, CTRL_SHIFT, "window.compare-all" },
+  { GDK_KEY_K, CTRL_SHIFT, "window.compare-all" },
+  { GDK_KEY_0, CTRL, "window.reset-view" },
+  { GDK_KEY_l, CTRL, "window.focus-plant" },
+  { GDK_KEY_a, CTRL_SHIFT, "window.add-stage" },
+  { GDK_KEY_F9, 0, "window.one-column" },
+  { GDK_KEY_w, CTRL, "window.close" },
+  { GDK_KEY_o, CTRL, "window.open" },
+  { GDK_KEY_s, CTRL, "window.save" },
+  { GDK_KEY_s, CTRL_SHIFT, "window.save-as" },
+  { GDK_KEY_e, CTRL, "window.export" },
+  { GDK_KEY_e, CTRL_SHIFT, "window.export-report" },
+  { GDK_KEY_E, CTRL_SHIFT, "window.export-report" },
+  { GDK_KEY_z, CTRL, "window.undo" },
+  { GDK_KEY_z, CTRL_SHIFT, "window.redo" },
+  { GDK_KEY_Z, CTRL_SHIFT, "window.redo" },
+  { GDK_KEY_F7, 0, "window.next-handle" },
+  { GDK_KEY_F7, GDK_SHIFT_MASK, "window.previous-handle" },
+};
+
+/* Shortcuts that must win over the focused widget: a GtkPaned takes F6 and F8 and a text field
+ * its own keys before a binding of the window's class is asked, so these are taken in the
+ * capture phase. */
+static const Binding early[] = {
+  { GDK_KEY_b, CTRL_SHIFT, "window.split" },
+  { GDK_KEY_v, CTRL_SHIFT, "window.variants" },
+};
+
+void
+lw_window_class_init_actions (GtkWidgetClass *widget_class)
+{
+  gtk_widget_class_install_action (widget_class, "window.focus-plant", NULL,
+                                   focus_plant_activated);
+  gtk_widget_class_install_action (widget_class, "window.add-stage", NULL, add_stage_activated);
+  gtk_widget_class_install_action (widget_class, "window.undo", NULL, undo_activated);
+  gtk_widget_class_install_action (widget_class, "window.redo", NULL, redo_activated);
+  gtk_widget_class_install_action (widget_class, "window.reset-view", NULL,
+                                   reset_view_activated);
+  for (guint i = 0; i < G_N_ELEMENTS (bindings); i++)
+    gtk_widget_class_add_binding_action (widget_class, bindings[i].key, bindings[i].mods,
+                                         bindings[i].action, NULL);
+}
+
+void
+lw_window_init_actions (LwWindow *self)
+{
+  GtkEventController *sc = gtk_shortcut_controller_new ();
+  gtk_event_controller_set_propagation_phase (sc, GTK_PHASE_CAPTURE);
+  for (guint i = 0; i < G_N_ELEMENTS (early); i++)
+    gtk_shortcut_controller_add_shortcut (GTK_SHORTCUT_CONTROLLER (sc),
+                                          gtk_shortcut_new (gtk_keyval_trigger_new (early[i].key,
+                                                                                    early[i].mods),
+                                                            gtk_named_action_new (early[i].action)));
+  gtk_widget_add_controller (GTK_WIDGET (self), sc);
+}

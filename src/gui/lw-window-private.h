@@ -1,0 +1,151 @@
+/* lw-window-private.h — the designer window's state, shared by the files it is made of.
+ *
+ *   lw-window.c          life cycle (class, properties, start, close, dispose), the title and
+ *                        unsaved state, the design model's signals, the evaluation and what
+ *                        is shown, the design report
+ *   lw-window-actions.c  keyboard shortcuts, undo and redo (LwHistory), small actions
+ *   lw-window-files.c    open, save, save as, recent files, dropped files, asking before
+ *                        close, autosave (LwAutosave) and restoring it
+ *   lw-window-variants.c the variant actions and which variants are compared
+ *   lw-window-drag.c     drag handles on the Bode views and their keyboard moves
+ *   lw-window-export.c   Export Figure
+ *   lw-window-theme.c    the plots' colours following the dark style
+ *   lw-window-testing.c  the drag benchmark and the test hook of Export Figure
+ *
+ * Only these files include this header.
+ *
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ */
+#pragma once
+
+#include "lw-autosave.h"
+#include "lw-compare-table.h"
+#include "lw-compensator-panel.h"
+#include "lw-design-model.h"
+#include "lw-history.h"
+#include "lw-plant-panel.h"
+#include "lw-plot-area.h"
+#include "lw-requirements-panel.h"
+#include "lw-window.h"
+
+G_BEGIN_DECLS
+
+struct _LwWindow
+{
+  GtkApplicationWindow parent_instance;
+
+  LwPlantPanel *plant_panel;
+  LwCompensatorPanel *compensator_panel;
+  LwRequirementsPanel *requirements_panel;
+  LwPlotArea *plot_area;
+  LwCompareTable *compare_table;
+  GMenu *recent_menu;
+
+  /* variants shown beside the active one (names; the active one is always shown) */
+  GPtrArray *compared;
+  gboolean split;
+  GHashTable *ref_evals;        /* variant name → RefEval: references, evaluated once */
+
+  LwDesignModel *model;
+  GSignalGroup *model_signals;  /* the window's handlers on model */
+  LwVariantEval *eval;          /* the evaluation on show */
+  guint eval_tick;              /* pending evaluation on the frame clock, or 0 */
+  guint64 eval_generation;      /* of the newest evaluation started */
+  guint64 shown_generation;     /* of the evaluation on show */
+  gboolean eval_running;        /* a worker is evaluating */
+  gboolean eval_again;          /* an edit came meanwhile: evaluate again when it ends */
+  GCancellable *eval_cancel;    /* cancelled when the window goes */
+  gboolean one_column;
+
+  /* file and unsaved state */
+  GFile *file;                  /* NULL: never saved */
+  LwDesign *saved;              /* the document as last opened or saved; NULL: none */
+  gboolean dirty;
+  gboolean close_confirmed;
+  LwAutosave *autosave;         /* the application's, or NULL: no autosave */
+  guint autosave_slot;
+
+  LwHistory *history;           /* undo and redo */
+
+  /* drag */
+  gboolean dragging;
+  LwPlotPane *drag_pane;
+  guint drag_stage;
+  int drag_corner;              /* −1: gain */
+  LwStage drag_start_stage;
+  double drag_start_x, drag_start_y_db;
+  double gain_pin_nu;           /* where the gain handle stays during a gain drag, or 0 */
+  int sel_stage, sel_corner;    /* the selected handle (sel_stage −1: none) */
+
+  gboolean debug;               /* LW_DEBUG_HANDLES=1 */
+
+  /* benchmark */
+  guint bench_frames, bench_done, bench_tick;
+  gboolean bench_pending;       /* an edit was made in this frame's update */
+  gint64 paint_start;
+  GArray *bench_paint;
+  double bench_nu0;
+  gulong before_paint_id, after_paint_id;
+};
+
+/* lw-window.c */
+GSettings *lw_window_get_settings (LwWindow *self);
+/* The evaluation (lw-window.c): shows the evaluation on show and the references' on the
+ * plots and in the metrics table; evaluates now; evaluates on the next frame. */
+void lw_window_show_variants (LwWindow *self);
+void lw_window_reevaluate (LwWindow *self);
+void lw_window_schedule_eval (LwWindow *self);
+gboolean lw_window_is_compared (LwWindow *self, const char *name);
+/* The reference variant name's evaluation as last shown, or NULL. */
+LwVariantEval *lw_window_get_reference_eval (LwWindow *self, const char *name);
+void lw_window_plot_requirements (LwWindow *self, LwPlotRequirements *req);
+char *lw_window_document_name (LwWindow *self);
+void lw_window_update_title (LwWindow *self);
+void lw_window_update_dirty (LwWindow *self);
+void lw_window_show_error (LwWindow *self, const char *primary, const char *secondary);
+
+/* lw-window-actions.c */
+void lw_window_class_init_actions (GtkWidgetClass *widget_class);
+void lw_window_init_actions (LwWindow *self);
+/* Starts the undo history on the model, at its current document. */
+void lw_window_start_history (LwWindow *self);
+
+/* lw-window-files.c */
+void lw_window_class_init_files (GtkWidgetClass *widget_class);
+void lw_window_init_files (LwWindow *self);
+void lw_window_set_chooser_folder (LwWindow *self, GtkFileChooser *chooser);
+void lw_window_refresh_recent (LwWindow *self);
+/* Registers the window's unsaved work with the application's autosave. */
+void lw_window_start_autosave (LwWindow *self);
+void lw_window_clear_autosave (LwWindow *self);
+/* Asks whether to save before closing; closes when the answer allows. */
+void lw_window_ask_before_close (LwWindow *self);
+
+/* lw-window-variants.c */
+void lw_window_class_init_variants (GtkWidgetClass *widget_class);
+/* Shows the compared variants' switches in the compensator panel. */
+void lw_window_refresh_compared (LwWindow *self);
+
+/* lw-window-drag.c */
+void lw_window_class_init_drag (GtkWidgetClass *widget_class);
+void lw_window_init_drag (LwWindow *self);
+void lw_window_begin_drag (LwWindow *self, LwPlotPane *pane, guint stage, int corner, double x,
+                           double y_db);
+void lw_window_update_drag (LwWindow *self, double x, double y_db, gboolean keep_ratio);
+void lw_window_end_drag (LwWindow *self, gboolean cancel);
+
+/* lw-window-export.c */
+void lw_window_class_init_export (GtkWidgetClass *widget_class);
+/* The figure of view for Export Figure: the variants on show (LwExportBuildFunc). */
+LwPlot *lw_window_build_export_plot (LwPlotView view, gpointer user_data, char *err,
+                                     size_t err_size);
+
+/* lw-window-theme.c */
+void lw_window_init_theme (LwWindow *self);
+void lw_window_finish_theme (LwWindow *self);
+
+/* lw-window-testing.c */
+/* With LW_TEST_FIGURE_PATH set: writes the figure there and returns TRUE. */
+gboolean lw_window_export_figure_for_test (LwWindow *self);
+
+G_END_DECLS

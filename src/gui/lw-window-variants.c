@@ -1,0 +1,241 @@
+/* lw-window-variants.c — the variants of the design in the window: new, copy, rename,
+ * delete, move, an own sample period, switching the active one (each one undo step of its
+ * own), and which variants are compared with the active one (a choice of the window, not of
+ * the document: no undo step).
+ *
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ */
+#include "config.h"
+
+#include <glib/gi18n.h>
+
+#include "lw-window-private.h"
+
+void
+lw_window_refresh_compared (LwWindow *self)
+{
+  lw_compensator_panel_set_compared (self->compensator_panel,
+                                     (const char *const *) self->compared->pdata,
+                                     self->compared->len);
+}
+
+static void
+set_compared (LwWindow *self, const char *name, gboolean shown)
+{
+  for (guint i = 0; i < self->compared->len; i++)
+    if (g_strcmp0 (self->compared->pdata[i], name) == 0)
+      {
+        if (shown)
+          return;
+        g_ptr_array_remove_index (self->compared, i);
+        return;
+      }
+  if (shown)
+    g_ptr_array_add (self->compared, g_strdup (name));
+}
+
+/* Before and after each variant action: it is one undo step of its own. */
+static gboolean
+variant_action_begin (LwWindow *self)
+{
+  if (self->dragging)
+    return FALSE;
+  lw_history_commit (self->history);
+  self->sel_stage = -1;
+  return TRUE;
+}
+
+static void
+variant_action_end (LwWindow *self)
+{
+  lw_history_commit (self->history);
+  lw_window_refresh_compared (self);
+}
+
+static void
+variant_add (LwWindow *self, gboolean copy)
+{
+  if (!variant_action_begin (self))
+    return;
+  guint active = lw_design_model_get_active (self->model);
+  g_autofree char *from = g_strdup (lw_design_model_get_variant_name (self->model, active));
+  g_autofree char *base = copy ? g_strdup_printf (_("%s copy"), from) : g_strdup (_("variant"));
+  g_autofree char *name = lw_design_model_unused_variant_name (self->model, base);
+  if (lw_design_model_add_variant (self->model, name, copy) && copy)
+    set_compared (self, from, TRUE);   /* the original stays in view as the reference */
+  variant_action_end (self);
+}
+
+static void
+variant_copy_activated (GtkWidget *widget, const char *action, GVariant *param)
+{
+  variant_add (LW_WINDOW (widget), TRUE);
+}
+
+static void
+variant_new_activated (GtkWidget *widget, const char *action, GVariant *param)
+{
+  variant_add (LW_WINDOW (widget), FALSE);
+}
+
+static void
+variant_delete_activated (GtkWidget *widget, const char *action, GVariant *param)
+{
+  LwWindow *self = LW_WINDOW (widget);
+  if (!variant_action_begin (self))
+    return;
+  guint active = lw_design_model_get_active (self->model);
+  g_autofree char *name = g_strdup (lw_design_model_get_variant_name (self->model, active));
+  if (lw_design_model_remove_variant (self->model, active))
+    set_compared (self, name, FALSE);
+  variant_action_end (self);
+}
+
+static void
+variant_move (LwWindow *self, int delta)
+{
+  if (!variant_action_begin (self))
+    return;
+  lw_design_model_move_variant (self->model, lw_design_model_get_active (self->model), delta);
+  variant_action_end (self);
+}
+
+static void
+variant_up_activated (GtkWidget *widget, const char *action, GVariant *param)
+{
+  variant_move (LW_WINDOW (widget), -1);
+}
+
+static void
+variant_down_activated (GtkWidget *widget, const char *action, GVariant *param)
+{
+  variant_move (LW_WINDOW (widget), +1);
+}
+
+static void
+variant_rename_activated (GtkWidget *widget, const char *action, GVariant *param)
+{
+  LwWindow *self = LW_WINDOW (widget);
+  if (!variant_action_begin (self))
+    return;
+  lw_design_model_rename_variant (self->model, lw_design_model_get_active (self->model),
+                                  g_variant_get_string (param, NULL));
+  variant_action_end (self);
+}
+
+/* The active variant's own sample period, set ((true, T)) or cleared ((false, _)): one undo
+ * step. The spin's value when cleared is ignored. */
+static void
+variant_period_activated (GtkWidget *widget, const char *action, GVariant *param)
+{
+  LwWindow *self = LW_WINDOW (widget);
+  gboolean own = FALSE;
+  double period_s = 0.0;
+  g_variant_get (param, "(bd)", &own, &period_s);
+  if (!variant_action_begin (self))
+    return;
+  lw_design_model_set_variant_period (self->model, lw_design_model_get_active (self->model),
+                                      own, period_s);
+  variant_action_end (self);
+}
+
+static void
+variant_switch_to (LwWindow *self, guint i)
+{
+  if (i >= lw_design_model_get_n_variants (self->model) || !variant_action_begin (self))
+    return;
+  lw_design_model_set_active (self->model, i);
+  variant_action_end (self);
+}
+
+static void
+variant_switch_activated (GtkWidget *widget, const char *action, GVariant *param)
+{
+  variant_switch_to (LW_WINDOW (widget), g_variant_get_uint32 (param));
+}
+
+static void
+variant_step (LwWindow *self, int delta)
+{
+  guint n = lw_design_model_get_n_variants (self->model);
+  guint a = lw_design_model_get_active (self->model);
+  variant_switch_to (self, (a + n + (guint) (delta + (int) n)) % n);
+}
+
+static void
+variant_next_activated (GtkWidget *widget, const char *action, GVariant *param)
+{
+  variant_step (LW_WINDOW (widget), +1);
+}
+
+static void
+variant_previous_activated (GtkWidget *widget, const char *action, GVariant *param)
+{
+  variant_step (LW_WINDOW (widget), -1);
+}
+
+/* Which variants are compared is a choice of the window, not of the document: no undo step. */
+static void
+variant_compare_activated (GtkWidget *widget, const char *action, GVariant *param)
+{
+  LwWindow *self = LW_WINDOW (widget);
+  const char *name = NULL;
+  gboolean shown = FALSE;
+  g_variant_get (param, "(&sb)", &name, &shown);
+  set_compared (self, name, shown);
+  lw_window_refresh_compared (self);
+  lw_window_show_variants (self);
+}
+
+static void
+compare_all_activated (GtkWidget *widget, const char *action, GVariant *param)
+{
+  LwWindow *self = LW_WINDOW (widget);
+  const LwDesign *d = lw_design_model_get_design (self->model);
+  gboolean all = TRUE;
+  for (size_t i = 0; i < d->n_variants; i++)
+    if (i != d->active && !lw_window_is_compared (self, d->variants[i].name))
+      all = FALSE;
+  g_ptr_array_set_size (self->compared, 0);
+  for (size_t i = 0; !all && i < d->n_variants; i++)
+    if (i != d->active)
+      g_ptr_array_add (self->compared, g_strdup (d->variants[i].name));
+  lw_window_refresh_compared (self);
+  lw_window_show_variants (self);
+}
+
+static void
+variants_menu_activated (GtkWidget *widget, const char *action, GVariant *param)
+{
+  lw_compensator_panel_popup_variants (LW_WINDOW (widget)->compensator_panel);
+}
+
+void
+lw_window_class_init_variants (GtkWidgetClass *widget_class)
+{
+  gtk_widget_class_install_action (widget_class, "window.variant-period", "(bd)",
+                                   variant_period_activated);
+  gtk_widget_class_install_action (widget_class, "window.variant-copy", NULL,
+                                   variant_copy_activated);
+  gtk_widget_class_install_action (widget_class, "window.variant-new", NULL,
+                                   variant_new_activated);
+  gtk_widget_class_install_action (widget_class, "window.variant-delete", NULL,
+                                   variant_delete_activated);
+  gtk_widget_class_install_action (widget_class, "window.variant-up", NULL, variant_up_activated);
+  gtk_widget_class_install_action (widget_class, "window.variant-down", NULL,
+                                   variant_down_activated);
+  gtk_widget_class_install_action (widget_class, "window.variant-rename", "s",
+                                   variant_rename_activated);
+  gtk_widget_class_install_action (widget_class, "window.variant-switch", "u",
+                                   variant_switch_activated);
+  gtk_widget_class_install_action (widget_class, "window.variant-next", NULL,
+                                   variant_next_activated);
+  gtk_widget_class_install_action (widget_class, "window.variant-previous", NULL,
+                                   variant_previous_activated);
+  gtk_widget_class_install_action (widget_class, "window.variant-compare", "(sb)",
+                                   variant_compare_activated);
+  gtk_widget_class_install_action (widget_class, "window.compare-all", NULL,
+                                   compare_all_activated);
+  gtk_widget_class_install_action (widget_class, "window.variants", NULL,
+                                   variants_menu_activated);
+}
