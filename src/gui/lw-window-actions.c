@@ -91,7 +91,7 @@ typedef struct
 #define CTRL GDK_CONTROL_MASK
 #define CTRL_SHIFT (GDK_CONTROL_MASK | GDK_SHIFT_MASK)
 
-/* The window's shortcuts (the shortcuts window, src/gui/ui/, lists them for the user); with
+/* The window's shortcuts (the shortcuts window, ui/help-overlay.ui, lists them for the user); with
  * Shift, a letter is bound as both cases, as keyboards report either. */
 static const Binding bindings[] = {
   { GDK_KEY_n, CTRL_SHIFT, "window.variant-copy" },

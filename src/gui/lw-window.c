@@ -428,9 +428,8 @@ lw_window_update_dirty (LwWindow *self)
 {
   gboolean dirty = self->saved == NULL
                    || !lw_design_equal (self->saved, lw_design_model_get_design (self->model));
-  if (self->saved == NULL && self->file == NULL && !lw_history_has_steps (self->history)
-      && !lw_history_get_can_undo (self->history))
-    dirty = FALSE;   /* a new design nobody has touched */
+  if (self->saved == NULL && self->file == NULL && !lw_history_get_can_undo (self->history))
+    dirty = FALSE;   /* a new design nobody has touched (or every touch undone) */
   if (dirty != self->dirty)
     {
       self->dirty = dirty;
