@@ -1,4 +1,5 @@
-/* lw-window-actions.c — the window's keyboard shortcuts, undo and redo, and its small actions.
+/* lw-window-actions.c — the window's keyboard shortcuts, undo and redo, the layout properties
+ * ("one-column", "split") and its small actions.
  *
  * Undo and redo are an LwHistory of the design model (lw-history.h): an edit becomes a step
  * UNDO_MERGE_MS after the last of a burst, a finished drag or a variant action at once; the
@@ -79,6 +80,88 @@ reset_view_activated (GtkWidget *widget, const char *action, GVariant *param)
   lw_plot_area_reset_view (LW_WINDOW (widget)->plot_area);
 }
 
+/* ---- the layout: one column (F9) and the split view ---------------------------------------- */
+
+enum
+{
+  PROP_0,
+  PROP_ONE_COLUMN,
+  PROP_SPLIT,
+  N_PROPS
+};
+static GParamSpec *props[N_PROPS];
+
+static void
+lw_window_get_property (GObject *object, guint id, GValue *value, GParamSpec *pspec)
+{
+  LwWindow *self = LW_WINDOW (object);
+
+  switch (id)
+    {
+    case PROP_ONE_COLUMN:
+      g_value_set_boolean (value, self->one_column);
+      break;
+    case PROP_SPLIT:
+      g_value_set_boolean (value, self->split);
+      break;
+    default:
+      G_OBJECT_WARN_INVALID_PROPERTY_ID (object, id, pspec);
+    }
+}
+
+static void
+lw_window_set_property (GObject *object, guint id, const GValue *value, GParamSpec *pspec)
+{
+  LwWindow *self = LW_WINDOW (object);
+
+  switch (id)
+    {
+    case PROP_ONE_COLUMN:
+      {
+        gboolean v = g_value_get_boolean (value);
+        if (v == self->one_column)
+          break;
+        self->one_column = v;
+        lw_plot_area_set_layout (self->plot_area, v ? LW_PLOT_LAYOUT_COLUMN
+                                                    : LW_PLOT_LAYOUT_GRID);
+        GSettings *settings = lw_window_get_settings (self);
+        if (settings != NULL)
+          g_settings_set_enum (settings, "layout", v ? LW_PLOT_LAYOUT_COLUMN
+                                                     : LW_PLOT_LAYOUT_GRID);
+        g_object_notify_by_pspec (object, pspec);
+      }
+      break;
+    case PROP_SPLIT:
+      {
+        gboolean v = g_value_get_boolean (value);
+        if (v == self->split)
+          break;
+        self->split = v;
+        lw_plot_area_set_split (self->plot_area, v);
+        if (self->eval != NULL)
+          lw_window_show_variants (self);
+        g_object_notify_by_pspec (object, pspec);
+      }
+      break;
+    default:
+      G_OBJECT_WARN_INVALID_PROPERTY_ID (object, id, pspec);
+    }
+}
+
+void
+lw_window_class_init_properties (GObjectClass *object_class)
+{
+  object_class->get_property = lw_window_get_property;
+  object_class->set_property = lw_window_set_property;
+  props[PROP_ONE_COLUMN] =
+    g_param_spec_boolean ("one-column", NULL, NULL, FALSE,
+                          G_PARAM_READWRITE | G_PARAM_EXPLICIT_NOTIFY | G_PARAM_STATIC_STRINGS);
+  props[PROP_SPLIT] =
+    g_param_spec_boolean ("split", NULL, NULL, FALSE,
+                          G_PARAM_READWRITE | G_PARAM_EXPLICIT_NOTIFY | G_PARAM_STATIC_STRINGS);
+  g_object_class_install_properties (object_class, N_PROPS, props);
+}
+
 /* ---- keyboard shortcuts -------------------------------------------------------------------- */
 
 typedef struct
@@ -136,6 +219,8 @@ lw_window_class_init_actions (GtkWidgetClass *widget_class)
   gtk_widget_class_install_action (widget_class, "window.redo", NULL, redo_activated);
   gtk_widget_class_install_action (widget_class, "window.reset-view", NULL,
                                    reset_view_activated);
+  gtk_widget_class_install_property_action (widget_class, "window.one-column", "one-column");
+  gtk_widget_class_install_property_action (widget_class, "window.split", "split");
   for (guint i = 0; i < G_N_ELEMENTS (bindings); i++)
     gtk_widget_class_add_binding_action (widget_class, bindings[i].key, bindings[i].mods,
                                          bindings[i].action, NULL);

@@ -1,7 +1,8 @@
 /* lw-window-files.c — the window's document on disk: open (here when the window is
  * untouched, else in a new window), save, save as, the recent files, files dropped on the
- * window, asking before a window with unsaved changes closes, and the window's place in the
- * application's autosave (lw-autosave.h) and restoring from it.
+ * window, the title with the unsaved state, asking before a window with unsaved changes
+ * closes, error messages, and the window's place in the application's autosave
+ * (lw-autosave.h) and restoring from it.
  *
  * SPDX-License-Identifier: GPL-3.0-or-later
  */
@@ -11,6 +12,61 @@
 
 #include "lw-design.h"
 #include "lw-window-private.h"
+
+/* ---- title and unsaved state --------------------------------------------------------------- */
+
+char *
+lw_window_document_name (LwWindow *self)
+{
+  if (self->file != NULL)
+    return g_file_get_basename (self->file);
+  return g_strdup (_("New design"));
+}
+
+void
+lw_window_update_title (LwWindow *self)
+{
+  g_autofree char *name = lw_window_document_name (self);
+  /* TRANSLATORS: the window title; the first %s is "• " when there are unsaved changes */
+  g_autofree char *title = g_strdup_printf (_("%s%s — Loopwright"), self->dirty ? "• " : "",
+                                            name);
+  gtk_window_set_title (GTK_WINDOW (self), title);
+}
+
+void
+lw_window_update_dirty (LwWindow *self)
+{
+  gboolean dirty = self->saved == NULL
+                   || !lw_design_equal (self->saved, lw_design_model_get_design (self->model));
+  if (self->saved == NULL && self->file == NULL && !lw_history_get_can_undo (self->history))
+    dirty = FALSE;   /* a new design nobody has touched (or every touch undone) */
+  if (dirty != self->dirty)
+    {
+      self->dirty = dirty;
+      lw_window_update_title (self);
+    }
+}
+
+/* ---- dialogs ------------------------------------------------------------------------------- */
+
+static void
+message_response (GtkDialog *dialog, int response, gpointer user_data)
+{
+  gtk_window_destroy (GTK_WINDOW (dialog));
+}
+
+void
+lw_window_show_error (LwWindow *self, const char *primary, const char *secondary)
+{
+  g_message ("%s %s", primary, secondary);
+  GtkWidget *d = gtk_message_dialog_new (GTK_WINDOW (self), GTK_DIALOG_MODAL
+                                           | GTK_DIALOG_DESTROY_WITH_PARENT,
+                                         GTK_MESSAGE_ERROR, GTK_BUTTONS_CLOSE, "%s", primary);
+  gtk_message_dialog_format_secondary_text (GTK_MESSAGE_DIALOG (d), "%s", secondary);
+  gtk_window_set_title (GTK_WINDOW (d), primary);
+  g_signal_connect (d, "response", G_CALLBACK (message_response), NULL);
+  gtk_window_present (GTK_WINDOW (d));
+}
 
 /* ---- autosave ------------------------------------------------------------------------------ */
 

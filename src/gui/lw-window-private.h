@@ -1,11 +1,12 @@
 /* lw-window-private.h — the designer window's state, shared by the files it is made of.
  *
- *   lw-window.c          life cycle (class, properties, start, close, dispose), the title and
- *                        unsaved state, the design model's signals, the evaluation and what
- *                        is shown, the design report
- *   lw-window-actions.c  keyboard shortcuts, undo and redo (LwHistory), small actions
- *   lw-window-files.c    open, save, save as, recent files, dropped files, asking before
- *                        close, autosave (LwAutosave) and restoring it
+ *   lw-window.c          life cycle (class, start, close, dispose), the design model's
+ *                        signals, the evaluation and what is shown, the design report
+ *   lw-window-actions.c  keyboard shortcuts, undo and redo (LwHistory), the layout properties,
+ *                        small actions
+ *   lw-window-files.c    open, save, save as, recent files, dropped files, the title and
+ *                        unsaved state, asking before close, error messages, autosave
+ *                        (LwAutosave) and restoring it
  *   lw-window-variants.c the variant actions and which variants are compared
  *   lw-window-drag.c     drag handles on the Bode views and their keyboard moves
  *   lw-window-export.c   Export Figure
@@ -99,18 +100,22 @@ gboolean lw_window_is_compared (LwWindow *self, const char *name);
 /* The reference variant name's evaluation as last shown, or NULL. */
 LwVariantEval *lw_window_get_reference_eval (LwWindow *self, const char *name);
 void lw_window_plot_requirements (LwWindow *self, LwPlotRequirements *req);
-char *lw_window_document_name (LwWindow *self);
-void lw_window_update_title (LwWindow *self);
-void lw_window_update_dirty (LwWindow *self);
-void lw_window_show_error (LwWindow *self, const char *primary, const char *secondary);
 
 /* lw-window-actions.c */
+void lw_window_class_init_properties (GObjectClass *object_class);
 void lw_window_class_init_actions (GtkWidgetClass *widget_class);
 void lw_window_init_actions (LwWindow *self);
 /* Starts the undo history on the model, at its current document. */
 void lw_window_start_history (LwWindow *self);
 
 /* lw-window-files.c */
+/* The file's name, or "New design". g_free it. */
+char *lw_window_document_name (LwWindow *self);
+void lw_window_update_title (LwWindow *self);
+/* Whether the document differs from what was opened or saved; the title follows. */
+void lw_window_update_dirty (LwWindow *self);
+/* An error dialog over the window (and the message on the log). */
+void lw_window_show_error (LwWindow *self, const char *primary, const char *secondary);
 void lw_window_class_init_files (GtkWidgetClass *widget_class);
 void lw_window_init_files (LwWindow *self);
 void lw_window_set_chooser_folder (LwWindow *self, GtkFileChooser *chooser);

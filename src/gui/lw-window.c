@@ -1,6 +1,6 @@
-/* lw-window.c — the designer window: its life cycle, its title and unsaved state, the design
- * model's signals, the evaluation and what is shown of it, and the design report.  The other
- * parts of the window are in lw-window-*.c (listed in lw-window-private.h).
+/* lw-window.c — the designer window: its life cycle, the design model's signals, the
+ * evaluation and what is shown of it, and the design report.  The other parts of the window
+ * are in lw-window-*.c (listed in lw-window-private.h).
  *
  * Data flows one way: a panel (or a drag handle) edits the design model, which writes into the
  * design document; the model's "changed" signal schedules one evaluation on the frame clock.
@@ -33,15 +33,6 @@
 #define DRAG_POINTS 512
 
 G_DEFINE_FINAL_TYPE (LwWindow, lw_window, GTK_TYPE_APPLICATION_WINDOW)
-
-enum
-{
-  PROP_0,
-  PROP_ONE_COLUMN,
-  PROP_SPLIT,
-  N_PROPS
-};
-static GParamSpec *props[N_PROPS];
 
 GSettings *
 lw_window_get_settings (LwWindow *self)
@@ -397,71 +388,18 @@ lw_window_plot_requirements (LwWindow *self, LwPlotRequirements *req)
   plot_requirements (self, req);
 }
 
-/* ---- title and unsaved state --------------------------------------------------------------- */
+/* ---- what the report above and below calls, under the names it has ------------------------ */
 
 static char *
 document_name (LwWindow *self)
 {
-  if (self->file != NULL)
-    return g_file_get_basename (self->file);
-  return g_strdup (_("New design"));
-}
-
-char *
-lw_window_document_name (LwWindow *self)
-{
-  return document_name (self);
-}
-
-void
-lw_window_update_title (LwWindow *self)
-{
-  g_autofree char *name = document_name (self);
-  /* TRANSLATORS: the window title; the first %s is "• " when there are unsaved changes */
-  g_autofree char *title = g_strdup_printf (_("%s%s — Loopwright"), self->dirty ? "• " : "",
-                                            name);
-  gtk_window_set_title (GTK_WINDOW (self), title);
-}
-
-void
-lw_window_update_dirty (LwWindow *self)
-{
-  gboolean dirty = self->saved == NULL
-                   || !lw_design_equal (self->saved, lw_design_model_get_design (self->model));
-  if (self->saved == NULL && self->file == NULL && !lw_history_get_can_undo (self->history))
-    dirty = FALSE;   /* a new design nobody has touched (or every touch undone) */
-  if (dirty != self->dirty)
-    {
-      self->dirty = dirty;
-      lw_window_update_title (self);
-    }
-}
-
-/* ---- dialogs ------------------------------------------------------------------------------- */
-
-static void
-message_response (GtkDialog *dialog, int response, gpointer user_data)
-{
-  gtk_window_destroy (GTK_WINDOW (dialog));
+  return lw_window_document_name (self);
 }
 
 static void
 show_error (LwWindow *self, const char *primary, const char *secondary)
 {
-  g_message ("%s %s", primary, secondary);
-  GtkWidget *d = gtk_message_dialog_new (GTK_WINDOW (self), GTK_DIALOG_MODAL
-                                           | GTK_DIALOG_DESTROY_WITH_PARENT,
-                                         GTK_MESSAGE_ERROR, GTK_BUTTONS_CLOSE, "%s", primary);
-  gtk_message_dialog_format_secondary_text (GTK_MESSAGE_DIALOG (d), "%s", secondary);
-  gtk_window_set_title (GTK_WINDOW (d), primary);
-  g_signal_connect (d, "response", G_CALLBACK (message_response), NULL);
-  gtk_window_present (GTK_WINDOW (d));
-}
-
-void
-lw_window_show_error (LwWindow *self, const char *primary, const char *secondary)
-{
-  show_error (self, primary, secondary);
+  lw_window_show_error (self, primary, secondary);
 }
 
 static void
@@ -640,63 +578,6 @@ lw_window_close_request (GtkWindow *window)
   return GTK_WINDOW_CLASS (lw_window_parent_class)->close_request (window);
 }
 
-static void
-lw_window_get_property (GObject *object, guint id, GValue *value, GParamSpec *pspec)
-{
-  LwWindow *self = LW_WINDOW (object);
-
-  switch (id)
-    {
-    case PROP_ONE_COLUMN:
-      g_value_set_boolean (value, self->one_column);
-      break;
-    case PROP_SPLIT:
-      g_value_set_boolean (value, self->split);
-      break;
-    default:
-      G_OBJECT_WARN_INVALID_PROPERTY_ID (object, id, pspec);
-    }
-}
-
-static void
-lw_window_set_property (GObject *object, guint id, const GValue *value, GParamSpec *pspec)
-{
-  LwWindow *self = LW_WINDOW (object);
-
-  switch (id)
-    {
-    case PROP_ONE_COLUMN:
-      {
-        gboolean v = g_value_get_boolean (value);
-        if (v == self->one_column)
-          break;
-        self->one_column = v;
-        lw_plot_area_set_layout (self->plot_area, v ? LW_PLOT_LAYOUT_COLUMN
-                                                    : LW_PLOT_LAYOUT_GRID);
-        GSettings *settings = lw_window_get_settings (self);
-        if (settings != NULL)
-          g_settings_set_enum (settings, "layout", v ? LW_PLOT_LAYOUT_COLUMN
-                                                     : LW_PLOT_LAYOUT_GRID);
-        g_object_notify_by_pspec (object, pspec);
-      }
-      break;
-    case PROP_SPLIT:
-      {
-        gboolean v = g_value_get_boolean (value);
-        if (v == self->split)
-          break;
-        self->split = v;
-        lw_plot_area_set_split (self->plot_area, v);
-        if (self->eval != NULL)
-          show_handles_and_plots (self);
-        g_object_notify_by_pspec (object, pspec);
-      }
-      break;
-    default:
-      G_OBJECT_WARN_INVALID_PROPERTY_ID (object, id, pspec);
-    }
-}
-
 /* Once the window belongs to the application: restore its size and layout, show a new
  * design, keep its unsaved work with the application's autosave. */
 static void
@@ -754,17 +635,9 @@ lw_window_class_init (LwWindowClass *klass)
   GtkWidgetClass *widget_class = GTK_WIDGET_CLASS (klass);
 
   object_class->dispose = lw_window_dispose;
-  object_class->get_property = lw_window_get_property;
-  object_class->set_property = lw_window_set_property;
   GTK_WINDOW_CLASS (klass)->close_request = lw_window_close_request;
 
-  props[PROP_ONE_COLUMN] =
-    g_param_spec_boolean ("one-column", NULL, NULL, FALSE,
-                          G_PARAM_READWRITE | G_PARAM_EXPLICIT_NOTIFY | G_PARAM_STATIC_STRINGS);
-  props[PROP_SPLIT] =
-    g_param_spec_boolean ("split", NULL, NULL, FALSE,
-                          G_PARAM_READWRITE | G_PARAM_EXPLICIT_NOTIFY | G_PARAM_STATIC_STRINGS);
-  g_object_class_install_properties (object_class, N_PROPS, props);
+  lw_window_class_init_properties (object_class);
 
   g_type_ensure (LW_TYPE_PLANT_PANEL);
   g_type_ensure (LW_TYPE_COMPENSATOR_PANEL);
@@ -780,8 +653,6 @@ lw_window_class_init (LwWindowClass *klass)
   gtk_widget_class_bind_template_child (widget_class, LwWindow, compare_table);
   gtk_widget_class_bind_template_child (widget_class, LwWindow, recent_menu);
 
-  gtk_widget_class_install_property_action (widget_class, "window.one-column", "one-column");
-  gtk_widget_class_install_property_action (widget_class, "window.split", "split");
   gtk_widget_class_install_action (widget_class, "window.export-report", NULL,
                                    export_report_activated);
   lw_window_class_init_files (widget_class);
