@@ -481,7 +481,10 @@ lw_autosave_new (const char *dir, guint interval_ms, GError **error)
       return NULL;
     }
   /* made and locked under a hidden name, then renamed: a finder never sees it unlocked */
-  g_autofree char *session = g_uuid_string_random ();
+  /* random, and the process id in it too: a forked child starts from its parent's random
+   * state */
+  g_autofree char *uuid = g_uuid_string_random ();
+  g_autofree char *session = g_strdup_printf ("%ld-%s", (long) getpid (), uuid);
   g_autofree char *hidden_name = g_strconcat (".", session, NULL);
   g_autofree char *hidden = g_build_filename (dir, hidden_name, NULL);
   g_autofree char *final = g_build_filename (dir, session, NULL);

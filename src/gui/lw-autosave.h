@@ -1,7 +1,8 @@
 /* lw-autosave.h — unsaved work kept on disk, one file per window, restored after a crash.
  *
  * One LwAutosave per application (process).  It owns a session directory
- *   STATE/loopwright/autosave/SESSION/     (STATE: g_get_user_state_dir (); SESSION random)
+ *   STATE/loopwright/autosave/SESSION/     (STATE: g_get_user_state_dir (); SESSION: the
+ *                                           process id and a random UUID)
  * holding `lock` (an flock(2) held while the process lives) and, per window that has unsaved
  * work, SLOT.lwd (the document, written atomically by lw_design_save_file) and SLOT.source
  * (the URI of the file the work came from, empty for a design never saved; written first,
