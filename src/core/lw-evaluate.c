@@ -441,6 +441,7 @@ closed_loop_free (ClosedLoop *cl)
   free (cl->a);
   free (cl->b);
   free (cl->c);
+  cl->a = cl->b = cl->c = NULL;   /* the error paths free here and lw_evaluate frees again */
 }
 
 /* Unity negative feedback of  z^-delay · C(z) · P_core(z). State [x_p; q_1…q_D; x_c] where

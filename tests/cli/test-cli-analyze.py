@@ -130,6 +130,10 @@ BAD_INPUT = [
     (BASE + ["--steps", "333334", "--substeps", "0", "--json"], 2, ["--steps:", "2000004 numbers"], None),
     (BASE + ["--steps", "50001", "--substeps", "17", "--json"], 2,
      ["--substeps:", "2000008 numbers"], None),
+    # an algebraic loop: direct feedthrough with no delay and 1 + C(∞)P(∞) = 0 (it crashed with
+    # a double free once; issue 11)
+    (["analyze", "--plant", "1", "--period", "0.002", "--compute-delay", "0", "--controller", "-1"],
+     2, ["algebraic loop", "computation delay"], None),
     # combinations and unknowns
     (BASE + ["--controller", "1", "--controller-z", "1"], 2, ["--controller-z:", "--controller"], None),
     (BASE + ["--gain", "2"], 2, ["--gain"], None),

@@ -288,6 +288,35 @@ test_step_figures (void **state)
 
 /* Unstable loop: reported unstable, no final value and no delay margin (it is the delay that
  * destabilizes a stable loop), phase margin still found and negative. */
+/* An algebraic loop (no delay, 1 + C(∞)·P(∞) = 0) is refused with LW_ERR_INVALID and a message;
+ * its error path once freed the closed-loop matrices twice (issue 11; ASan would report it). */
+static void
+test_algebraic_loop (void **state)
+{
+  (void) state;
+  LwModel *p = parse ("1", LW_DOMAIN_S, 0);
+  LwModel *cz = parse ("-1", LW_DOMAIN_Z, 0.002);
+  LwSampledPlant *sp = NULL;
+  LwError err;
+  assert_int_equal (lw_sampled_plant_new (p, 0.0, 0.002, &sp, &err), LW_OK);
+  LwAnalysisOptions o;
+  lw_analysis_options_init (&o);
+  o.compute_delay = 0;
+  LwEvaluation *ev = NULL;
+  assert_int_equal (lw_evaluate (sp, cz, &o, &ev, &err), LW_ERR_INVALID);
+  assert_null (ev);
+  assert_non_null (strstr (err.message, "algebraic loop"));
+  /* the same loop with one sample of computation delay is fine: L = −z⁻¹, closed-loop pole
+   * z = −1 → on the unit circle, so not stable (exact) */
+  o.compute_delay = 1;
+  assert_int_equal (lw_evaluate (sp, cz, &o, &ev, &err), LW_OK);
+  assert_false (ev->stable);
+  lw_evaluation_free (ev);
+  lw_sampled_plant_free (sp);
+  lw_model_free (p);
+  lw_model_free (cz);
+}
+
 static void
 test_unstable (void **state)
 {
@@ -312,6 +341,7 @@ main (void)
     cmocka_unit_test (test_dead_time),
     cmocka_unit_test (test_step_figures),
     cmocka_unit_test (test_unstable),
+    cmocka_unit_test (test_algebraic_loop),
   };
   return cmocka_run_group_tests (tests, NULL, NULL);
 }
