@@ -478,10 +478,11 @@ sampled_model (const LwSampledPlant *p)
     memcpy (m->zeros, zeros, nz * sizeof *zeros);
   if (n > 0)
     memcpy (m->poles, poles, n * sizeof *poles);
-  for (size_t i = 0; i < d; i++)
-    m->poles[n + i] = 0.0;
+  /* Gain for display: match the state-space response at a point well away from every root,
+   * before the d poles at z = 0 are added (z0^−d underflows for a long dead time and they
+   * change nothing in the match: both sides carry the same z0^−d) */
+  m->n_poles = n;
   lw_model_canonicalize (m);
-  /* Gain for display: match the state-space response at a point well away from every root. */
   {
     double rmax = 1.0;
     for (size_t i = 0; i < m->n_zeros; i++)
@@ -489,11 +490,15 @@ sampled_model (const LwSampledPlant *p)
     for (size_t i = 0; i < m->n_poles; i++)
       rmax = fmax (rmax, cabs (m->poles[i]));
     double complex z0 = 2.0 * rmax * cexp (I * 0.3);
-    double complex h = lw_schur_eval (p->eval, z0) * cpow (z0, -(double) d);
+    double complex h = lw_schur_eval (p->eval, z0);
     m->gain = 1.0;
     double complex unit = lw_model_eval (m, z0);
     m->gain = creal (h / unit);
   }
+  m->n_poles = n + d;
+  for (size_t i = 0; i < d; i++)
+    m->poles[n + i] = 0.0;
+  lw_model_canonicalize (m);
 out:
   free (zeros);
   free (poles);
