@@ -1025,8 +1025,6 @@ step_figures (LwStep *st, double t)
   double peak = -INFINITY;
   for (size_t k = 0; k < n; k++)
     peak = fmax (peak, st->samples[k] / yf);
-  st->has_overshoot = true;
-  st->overshoot_pct = peak > 1.0 ? (peak - 1.0) * 100.0 : 0.0;
   /* rise 10 % → 90 %, linear interpolation between samples */
   double t10 = NAN, t90 = NAN;
   for (size_t k = 0; k < n; k++)
@@ -1044,6 +1042,13 @@ step_figures (LwStep *st, double t)
     {
       st->has_rise = true;
       st->rise_time_s = t90 - t10;
+    }
+  /* the overshoot only once the response has reached 90 % of its final value: before that
+   * (a long dead time, a short horizon) a peak of 0 % would be a figure of nothing */
+  if (st->has_rise || peak > 1.0)
+    {
+      st->has_overshoot = true;
+      st->overshoot_pct = peak > 1.0 ? (peak - 1.0) * 100.0 : 0.0;
     }
   /* settling: last sample outside ±2 %; the time is where the straight line between it and the
    * next sample enters the band. Not settled if the last sample is outside. */
