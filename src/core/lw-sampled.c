@@ -495,10 +495,18 @@ sampled_model (const LwSampledPlant *p)
     double complex unit = lw_model_eval (m, z0);
     m->gain = creal (h / unit);
   }
-  m->n_poles = n + d;
-  for (size_t i = 0; i < d; i++)
-    m->poles[n + i] = 0.0;
-  lw_model_canonicalize (m);
+  /* the d poles at z = 0 go where the canonical order puts them (real roots first, ascending):
+   * after the negative real poles — O(n + d), no sort of a million roots */
+  {
+    size_t at = 0;
+    while (at < n && cimag (m->poles[at]) == 0.0 && creal (m->poles[at]) < 0.0)
+      at++;
+    if (d > 0 && at < n)
+      memmove (m->poles + at + d, m->poles + at, (n - at) * sizeof *m->poles);
+    for (size_t i = 0; i < d; i++)
+      m->poles[at + i] = 0.0;
+    m->n_poles = n + d;
+  }
 out:
   free (zeros);
   free (poles);
