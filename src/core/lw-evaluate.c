@@ -738,8 +738,11 @@ nyq_walk (Nyq *q, const NyqPoint *a, const NyqPoint *b, double *phi, int depth)
    * the sum of principal values gives */
   if (!in_a && !in_b)
     ok = true;
-  /* an arc that leaves or enters |L| >= 1 is narrowed until Φ barely moves along it */
-  if (ok && in_a != in_b && fabs (inc) > 1e-3)
+  /* an arc that leaves or enters |L| >= 1 is narrowed until Φ barely moves along it and no
+   * level lies in between: where a level stays in an arc at the limit of resolution, L = −1 on
+   * the contour (a closed-loop pole on |z| = ρ, to rounding) */
+  if (ok && in_a != in_b
+      && (fabs (inc) > 1e-3 || nyq_levels2 (*phi + inc) != nyq_levels2 (*phi)))
     ok = false;
   double width = b->th - a->th;
   if (!ok && (depth >= CL_MAX_DEPTH || width <= 4.0 * DBL_EPSILON * fmax (b->th, 1e-300)))
@@ -855,8 +858,9 @@ nyq_count (Nyq *q, const double *grid, size_t n_grid, long n_order, long *n_out,
         q->failed = true;
       else if (a.lnmag >= 0.0)
         /* a level exactly at θ = π counts one half (the mirror arc brings the other);
-         * nyq_walk counted it whole or not at all */
-        q->twice_cross += nyq_levels2 (m * LW_PI) - nyq_levels2 (phi);
+         * nyq_walk counted it whole or not at all. H(mπ) = m exactly (m·π in floating point
+         * need not land on the level) */
+        q->twice_cross += (long) m - nyq_levels2 (phi);
     }
   *resolved = !q->failed;
   if (q->failed)
@@ -943,7 +947,7 @@ static LwStatus
 cl_dominant (const Nyq *q, const LwModel *plant_z, double complex **out, size_t *n_out,
              LwError *err)
 {
-  size_t cap = 2 * (2 * CL_DOMINANT + 1 + q->n_roots + plant_z->n_zeros) + 2;
+  size_t cap = 2 * (2 * CL_DOMINANT + 1) + 5 * (q->n_roots + plant_z->n_zeros) + 2;
   double complex *r = malloc (cap * sizeof *r);
   if (r == NULL)
     return lw_error_set (err, LW_ERR_NOMEM, -1, "out of memory for the closed-loop poles");
@@ -968,9 +972,29 @@ cl_dominant (const Nyq *q, const LwModel *plant_z, double complex **out, size_t 
       double complex s = i < q->n_roots ? q->roots[i] : plant_z->zeros[i - q->n_roots];
       if (cabs (s) == 0.0 || cimag (s) < 0.0)
         continue;
-      double complex z = s * (1.0 + 1e-7) + 1e-7 * I * (cimag (s) != 0.0);
-      if (cl_newton (q, &z))
-        r[k++] = z;
+      /* both sides, near and farther: a root beside a pole–zero dipole lies between them */
+      const double eps[4] = { 1e-7, -1e-7, 1e-9, -1e-9 };
+      for (int e = 0; e < 4; e++)
+        {
+          double complex z = s * (1.0 + eps[e]) + fabs (eps[e]) * I * (cimag (s) != 0.0);
+          if (cl_newton (q, &z))
+            r[k++] = z;
+        }
+    }
+  /* an open-loop pole that a zero of the other factor cancels (a controller pole on a plant
+   * zero, e.g. at z = −1) is a closed-loop pole that 1 + L does not show: taken as it is when
+   * |C P| does not grow towards it (at a pole of L it grows like 1/δ: ×10 from 10δ to δ) */
+  for (size_t i = 0; i < q->n_roots; i++)
+    {
+      double complex pz = q->roots[i];
+      if (q->sign[i] > 0 || cabs (pz) == 0.0 || cimag (pz) < 0.0)
+        continue;
+      double dl = 1e-6 * fmax (1.0, cabs (pz));
+      double complex z1 = pz + dl, z10 = pz + 10.0 * dl;
+      double a1 = cabs (lw_model_eval (q->lp->ctrl, z1) * lw_schur_eval (q->eval, z1));
+      double a10 = cabs (lw_model_eval (q->lp->ctrl, z10) * lw_schur_eval (q->eval, z10));
+      if (a1 < 3.0 * a10)
+        r[k++] = pz;
     }
   /* one of each conjugate pair (upper half), real roots exactly real, duplicates dropped */
   size_t m = 0;
