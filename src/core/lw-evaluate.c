@@ -641,6 +641,8 @@ simulate_step (const LwSs *p, const LwSs *c, int delay, size_t n_steps, double *
  */
 
 #define CL_RHO (1.0 - 1e-10)
+/* when the Nyquist count does not resolve, every pole is computed up to this order */
+#define LW_CL_FALLBACK_ORDER 2000
 #define CL_MAX_DEPTH 64
 #define CL_DOMINANT 32            /* dominant closed-loop poles reported beyond max_full_order */
 
@@ -733,6 +735,11 @@ nyq_walk (Nyq *q, const NyqPoint *a, const NyqPoint *b, double *phi, int depth)
     return;
   bool ok;
   double inc = nyq_increment (q, a, b, &ok);
+  if (!isfinite (inc) || !isfinite (*phi))
+    {
+      q->failed = true;
+      return;
+    }
   bool in_a = a->lnmag >= 0.0, in_b = b->lnmag >= 0.0;
   /* between two points with |L| < 1 nothing is counted and Φ is needed only modulo 2π, which
    * the sum of principal values gives */
@@ -1286,7 +1293,7 @@ find_margins (const Loop *lp, const double *mag_db, const double complex *full, 
 /* Stability and the dominant poles of a closed loop too large to form (see above). */
 static LwStatus
 closed_loop_long_delay (const Loop *lp, const LwSampledPlant *plant, LwEvaluation *ev,
-                        LwError *err)
+                        bool *resolved_out, LwError *err)
 {
   const LwModel *c = lp->ctrl;
   size_t np = plant->core->n, nr = c->n_zeros + c->n_poles + np;
@@ -1314,11 +1321,12 @@ closed_loop_long_delay (const Loop *lp, const LwSampledPlant *plant, LwEvaluatio
   if (st == LW_OK)
     st = nyq_count (&q, ev->omega_rad_s, ev->n_points, (long) ev->closed_loop_order, &z_out,
                     &resolved, err);
-  if (st == LW_OK && !resolved)
+  *resolved_out = resolved;
+  if (st == LW_OK && !resolved && ev->closed_loop_order > LW_CL_FALLBACK_ORDER)
     st = lw_error_set (err, LW_ERR_NUMERIC, -1,
                        "could not decide the stability of the closed loop (order %zu) by the "
                        "Nyquist count", ev->closed_loop_order);
-  if (st == LW_OK)
+  if (st == LW_OK && resolved)
     {
       ev->n_closed_loop_unstable = (size_t) z_out + (q.marginal && z_out == 0);
       ev->stable = ev->n_closed_loop_unstable == 0;
@@ -1474,7 +1482,16 @@ lw_evaluate (const LwSampledPlant *plant, const LwModel *controller_z,
   if (st != LW_OK)
     goto fail;
   ev->closed_loop_order = plant->core->n + css->n + (size_t) lp.delay;
-  if (ev->closed_loop_order <= opts->max_full_order || lp.delay == 0)
+  bool long_path = ev->closed_loop_order > opts->max_full_order && lp.delay > 0;
+  if (long_path)
+    {
+      bool resolved = false;
+      st = closed_loop_long_delay (&lp, plant, ev, &resolved, err);
+      if (st != LW_OK)
+        goto fail;
+      long_path = resolved;      /* else every pole after all (order <= 2000 here) */
+    }
+  if (!long_path)
     {
       /* every pole: eigenvalues of the closed-loop state space */
       st = closed_loop_build (plant->core, css, lp.delay, &cl, err);
@@ -1502,9 +1519,6 @@ lw_evaluate (const LwSampledPlant *plant, const LwModel *controller_z,
     }
   else
     {
-      st = closed_loop_long_delay (&lp, plant, ev, err);
-      if (st != LW_OK)
-        goto fail;
       /* the final value needs only the loop at z = 1, where z^−D = z^−1: the closed loop with
        * one sample of delay has the same DC gain (its order stays small) */
       st = closed_loop_build (plant->core, css, 1, &cl, err);
