@@ -1377,7 +1377,9 @@ lw_evaluate (const LwSampledPlant *plant, const LwModel *controller_z,
   if (opts->n_steps < 2 || opts->n_steps > 100000000)
     return lw_error_set (err, LW_ERR_INVALID, -1, "the number of step samples must be 2 … 1e8");
   if ((long) plant->whole_delay + opts->compute_delay > 1000000)
-    return lw_error_set (err, LW_ERR_INVALID, -1, "the total delay exceeds a million samples");
+    return lw_error_set (err, LW_ERR_INVALID, -1,
+                         "the dead time (%d whole samples) plus the computation delay (%d) is "
+                         "more than a million samples", plant->whole_delay, opts->compute_delay);
   if (opts->max_full_order > 2000)
     return lw_error_set (err, LW_ERR_INVALID, -1,
                          "the closed-loop order for every pole must be at most 2000");
