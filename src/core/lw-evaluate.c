@@ -1074,9 +1074,9 @@ step_figures (LwStep *st, double t)
       st->has_rise = true;
       st->rise_time_s = t90 - t10;
     }
-  /* the overshoot only once the response has reached 90 % of its final value: before that
-   * (a long dead time, a short horizon) a peak of 0 % would be a figure of nothing */
-  if (st->has_rise || peak > 1.0)
+  /* no overshoot figure of a response that has not started (a long dead time, a short
+   * horizon: it has not reached 10 % of its final value) — 0 % would be a figure of nothing */
+  if (!isnan (t10) || peak > 1.0)
     {
       st->has_overshoot = true;
       st->overshoot_pct = peak > 1.0 ? (peak - 1.0) * 100.0 : 0.0;
