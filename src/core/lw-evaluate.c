@@ -798,7 +798,7 @@ nyq_count (Nyq *q, const double *grid, size_t n_grid, long n_order, long *n_out,
            LwError *err)
 {
   const Loop *lp = q->lp;
-  size_t cap = n_grid + q->n_roots + 8;
+  size_t cap = n_grid + q->n_roots + 2 + 15;   /* ends, grid, root angles, π/16 steps */
   double *th = malloc (cap * sizeof *th);
   if (th == NULL)
     return lw_error_set (err, LW_ERR_NOMEM, -1, "out of memory for the Nyquist count");
@@ -819,7 +819,7 @@ nyq_count (Nyq *q, const double *grid, size_t n_grid, long n_order, long *n_out,
         th[k++] = a;
     }
   /* no arc longer than π/16 (roots far from the contour then turn by less than π/2) */
-  for (int i = 1; i < 16 && k < cap; i++)
+  for (int i = 1; i < 16; i++)
     th[k++] = LW_PI * i / 16.0;
   qsort (th, k, sizeof *th, cmp_double);
 
