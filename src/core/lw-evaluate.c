@@ -954,7 +954,7 @@ static LwStatus
 cl_dominant (const Nyq *q, const LwModel *plant_z, double complex **out, size_t *n_out,
              LwError *err)
 {
-  size_t cap = 2 * (2 * CL_DOMINANT + 1) + 5 * (q->n_roots + plant_z->n_zeros) + 2;
+  size_t cap = 2 * (2 * CL_DOMINANT + 1) + 6 * (q->n_roots + plant_z->n_zeros) + 2;
   double complex *r = malloc (cap * sizeof *r);
   if (r == NULL)
     return lw_error_set (err, LW_ERR_NOMEM, -1, "out of memory for the closed-loop poles");
@@ -986,6 +986,27 @@ cl_dominant (const Nyq *q, const LwModel *plant_z, double complex **out, size_t 
           double complex z = s * (1.0 + eps[e]) + fabs (eps[e]) * I * (cimag (s) != 0.0);
           if (cl_newton (q, &z))
             r[k++] = z;
+        }
+    }
+  /* beside an open-loop pole p outside the circle z^−D is tiny and the closed-loop pole sits
+   * at p − p^−D·R (R the residue of C P at p, from (z − p)·C P a little beside it), closer
+   * than Newton on the logarithm resolves: taken from that first-order formula when the shift
+   * is below 1e-6·|p| (its error is then of the order of the shift squared) */
+  for (size_t i = 0; i < q->n_roots; i++)
+    {
+      double complex pz = q->roots[i];
+      if (q->sign[i] > 0 || !(cabs (pz) > CL_RHO) || cimag (pz) < 0.0)
+        continue;
+      double dl = 1e-7 * cabs (pz);
+      double complex z1 = pz + dl;
+      double complex res = dl * lw_model_eval (q->lp->ctrl, z1) * lw_schur_eval (q->eval, z1);
+      double complex shift = cexp (-q->d * clog (pz)) * res;
+      if (isfinite (cabs (shift)) && cabs (shift) <= 1e-6 * cabs (pz))
+        {
+          double complex z = pz - shift;
+          if (cimag (pz) == 0.0)
+            z = creal (z);
+          r[k++] = z;
         }
     }
   /* an open-loop pole that a zero of the other factor cancels (a controller pole on a plant
