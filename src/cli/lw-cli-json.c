@@ -113,6 +113,12 @@ lw_cli_json_add_closed_loop (JsonBuilder *b, const LwEvaluation *ev)
   json_builder_add_boolean_value (b, ev->stable);
   json_builder_set_member_name (b, "poles");
   lw_cli_json_add_complex_array (b, ev->closed_loop_poles, ev->n_closed_loop_poles);
+  json_builder_set_member_name (b, "poles_complete");
+  json_builder_add_boolean_value (b, ev->closed_loop_poles_complete);
+  json_builder_set_member_name (b, "order");
+  json_builder_add_int_value (b, (gint64) ev->closed_loop_order);
+  json_builder_set_member_name (b, "unstable_poles");
+  json_builder_add_int_value (b, (gint64) ev->n_closed_loop_unstable);
   json_builder_end_object (b);
 }
 

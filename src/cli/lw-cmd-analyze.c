@@ -87,15 +87,16 @@ print_margins (const LwEvaluation *ev)
 static void
 print_closed_loop (const LwEvaluation *ev)
 {
-  printf ("\nClosed-loop poles (z-plane)\n");
+  if (ev->closed_loop_poles_complete)
+    printf ("\nClosed-loop poles (z-plane)\n");
+  else
+    printf ("\nClosed-loop poles (z-plane): the %zu dominant (largest |z|) of %zu; stability "
+            "from the Nyquist count\n", ev->n_closed_loop_poles, ev->closed_loop_order);
   printf ("  %-34s %s\n", "pole", "|z|");
-  size_t outside = 0;
   for (size_t i = 0; i < ev->n_closed_loop_poles; i++)
     {
       double complex p = ev->closed_loop_poles[i];
       double r = cabs (p);
-      if (!(r < 1.0))
-        outside++;
       char buf[64];
       if (cimag (p) == 0.0)
         g_snprintf (buf, sizeof buf, "%.8g", creal (p));
@@ -109,11 +110,12 @@ print_closed_loop (const LwEvaluation *ev)
   if (ev->stable)
     printf ("  stable: every pole strictly inside the unit circle\n");
   else
-    printf ("  UNSTABLE: %zu pole(s) on or outside the unit circle\n", outside);
+    printf ("  UNSTABLE: %zu pole(s) on or outside the unit circle\n",
+            ev->n_closed_loop_unstable);
 }
 
 static void
-print_step (const LwEvaluation *ev, const LwStep *s)
+print_step (const LwEvaluation *ev, const LwStep *s, double dead_time_s)
 {
   double T = ev->period_s;
   printf ("\nUnit step response, unity feedback (%zu samples, %.6g s)\n", s->n,
@@ -135,6 +137,12 @@ print_step (const LwEvaluation *ev, const LwStep *s)
     printf ("  %-24s %.6g s (within 2 %%)\n", "settling time", s->settling_time_s);
   else
     printf ("  %-24s none within the simulated samples\n", "settling time");
+  /* the output first moves at sample N + d (+ 1 with a fractional dead time and no
+   * feedthrough); say so when the horizon ends before that */
+  double delay = (double) ev->compute_delay + floor (dead_time_s / T + 1e-9);
+  if (s->n > 0 && delay >= (double) (s->n - 1))
+    printf ("  note: the loop's delay is %.0f samples, the response %zu samples: the output has "
+            "not moved yet (use --steps greater than %.0f)\n", delay, s->n, delay);
 }
 
 static void
@@ -206,7 +214,7 @@ print_report (const LwModel *plant_s, double dead_time_s, const LwEvaluation *ev
 
   print_margins (ev);
   print_closed_loop (ev);
-  print_step (ev, step);
+  print_step (ev, step, dead_time_s);
   print_verification (so, ref, din, dout);
 
   printf ("\n");

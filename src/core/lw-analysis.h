@@ -56,9 +56,14 @@ typedef struct {
   int compute_delay;      /* N >= 0, whole samples */
   size_t n_points;        /* frequency points, >= 16; the grid ends exactly at π/T */
   size_t n_steps;         /* step-response samples k = 0 … n_steps−1, >= 2 */
+  size_t max_full_order;  /* closed-loop order (plant + controller + N + d) up to which every
+                             closed-loop pole is computed (eigenvalues of the closed-loop state
+                             space, O(order³)); above it stability comes from the Nyquist
+                             count and only the dominant poles are computed. 0 … 2000 */
 } LwAnalysisOptions;
 
-void lw_analysis_options_init (LwAnalysisOptions *o);   /* N = 1, 2000 points, 500 steps */
+/* N = 1, 2000 points, 500 steps, every pole up to closed-loop order 150 */
+void lw_analysis_options_init (LwAnalysisOptions *o);
 
 typedef struct {
   /* every gain crossover |L| = 1 (ascending ω, rad/s) and its phase margin, degrees in
@@ -100,7 +105,14 @@ typedef struct {
   double *loop_mag_db;
   double *loop_phase_deg;
   LwMargins margins;
-  bool stable;            /* all closed-loop poles strictly inside the unit circle */
+  bool stable;            /* all closed-loop poles strictly inside the unit circle:
+                             |z| < 1 − 1e-10 */
+  size_t closed_loop_order;        /* plant states + controller states + N + d */
+  size_t n_closed_loop_unstable;   /* closed-loop poles with |z| >= 1 − 1e-10 (of all of them) */
+  /* true: closed_loop_poles holds every pole (closed_loop_order of them). false (order above
+   * max_full_order): only the dominant ones, those of largest |z| (at most 32, conjugate pairs
+   * whole), and stable / n_closed_loop_unstable come from the Nyquist count */
+  bool closed_loop_poles_complete;
   size_t n_closed_loop_poles;
   double complex *closed_loop_poles;   /* z-plane */
   LwStep step;

@@ -478,10 +478,36 @@ sampled_model (const LwSampledPlant *p)
     memcpy (m->zeros, zeros, nz * sizeof *zeros);
   if (n > 0)
     memcpy (m->poles, poles, n * sizeof *poles);
-  for (size_t i = 0; i < d; i++)
-    m->poles[n + i] = 0.0;
-  lw_model_canonicalize (m);
   /* Gain for display: match the state-space response at a point well away from every root. */
+  double rmax0 = 1.0;
+  for (size_t i = 0; i < nz; i++)
+    rmax0 = fmax (rmax0, cabs (zeros[i]));
+  for (size_t i = 0; i < n; i++)
+    rmax0 = fmax (rmax0, cabs (poles[i]));
+  if ((double) d * log (2.0 * rmax0) < 600.0)
+    {
+      /* a short dead time: z0^−d is representable; the d poles at z = 0 go in first */
+      for (size_t i = 0; i < d; i++)
+        m->poles[n + i] = 0.0;
+      lw_model_canonicalize (m);
+      double rmax = 1.0;
+      for (size_t i = 0; i < m->n_zeros; i++)
+        rmax = fmax (rmax, cabs (m->zeros[i]));
+      for (size_t i = 0; i < m->n_poles; i++)
+        rmax = fmax (rmax, cabs (m->poles[i]));
+      double complex z0 = 2.0 * rmax * cexp (I * 0.3);
+      double complex h = lw_schur_eval (p->eval, z0) * cpow (z0, -(double) d);
+      m->gain = 1.0;
+      double complex unit = lw_model_eval (m, z0);
+      m->gain = creal (h / unit);
+      goto out;
+    }
+  /* a long dead time: z0^−d underflows. The match is made without the d poles at z = 0 (both
+   * sides would carry the same z0^−d), which then go where the canonical order puts them (real
+   * roots first, ascending: after the negative real poles) — O(n + d), no sort of a million
+   * roots */
+  m->n_poles = n;
+  lw_model_canonicalize (m);
   {
     double rmax = 1.0;
     for (size_t i = 0; i < m->n_zeros; i++)
@@ -489,10 +515,20 @@ sampled_model (const LwSampledPlant *p)
     for (size_t i = 0; i < m->n_poles; i++)
       rmax = fmax (rmax, cabs (m->poles[i]));
     double complex z0 = 2.0 * rmax * cexp (I * 0.3);
-    double complex h = lw_schur_eval (p->eval, z0) * cpow (z0, -(double) d);
+    double complex h = lw_schur_eval (p->eval, z0);
     m->gain = 1.0;
     double complex unit = lw_model_eval (m, z0);
     m->gain = creal (h / unit);
+  }
+  {
+    size_t at = 0;
+    while (at < n && cimag (m->poles[at]) == 0.0 && creal (m->poles[at]) < 0.0)
+      at++;
+    if (d > 0 && at < n)
+      memmove (m->poles + at + d, m->poles + at, (n - at) * sizeof *m->poles);
+    for (size_t i = 0; i < d; i++)
+      m->poles[at + i] = 0.0;
+    m->n_poles = n + d;
   }
 out:
   free (zeros);

@@ -143,7 +143,9 @@ lw_sim_plan_new (const LwSampledPlant *plant, const LwModel *controller_z,
                          "the sub-steps per sample must be 0 … 10000 with (samples − 1) · "
                          "sub-steps at most 1e8");
   if ((long) plant->whole_delay + opts->compute_delay > 1000000)
-    return lw_error_set (err, LW_ERR_INVALID, -1, "the total delay exceeds a million samples");
+    return lw_error_set (err, LW_ERR_INVALID, -1,
+                         "the dead time (%d whole samples) plus the computation delay (%d) is "
+                         "more than a million samples", plant->whole_delay, opts->compute_delay);
 
   LwSimPlan *p = calloc (1, sizeof *p);
   if (p == NULL)

@@ -130,6 +130,10 @@ BAD_INPUT = [
     (BASE + ["--steps", "333334", "--substeps", "0", "--json"], 2, ["--steps:", "2000004 numbers"], None),
     (BASE + ["--steps", "50001", "--substeps", "17", "--json"], 2,
      ["--substeps:", "2000008 numbers"], None),
+    # an algebraic loop: direct feedthrough with no delay and 1 + C(∞)P(∞) = 0 (it crashed with
+    # a double free once; issue 11)
+    (["analyze", "--plant", "1", "--period", "0.002", "--compute-delay", "0", "--controller", "-1"],
+     2, ["algebraic loop", "computation delay"], None),
     # combinations and unknowns
     (BASE + ["--controller", "1", "--controller-z", "1"], 2, ["--controller-z:", "--controller"], None),
     (BASE + ["--gain", "2"], 2, ["--gain"], None),
@@ -178,7 +182,7 @@ LOOP = {"gain_crossovers_rad_s", "phase_margins_deg", "phase_crossovers_rad_s",
         "gain_margins_db", "phase_margin_deg", "gain_crossover_rad_s", "gain_margin_db",
         "phase_crossover_rad_s", "delay_margin_s", "delay_margin_samples", "sensitivity_peak",
         "sensitivity_peak_rad_s"}
-CLOSED = {"stable", "poles"}
+CLOSED = {"stable", "poles", "poles_complete", "order", "unstable_poles"}
 STEP = {"final_value", "overshoot_pct", "rise_time_s", "settling_time_s", "samples",
         "actuator", "saturated_samples", "held_samples", "continuous", "intersample_ripple"}
 CONTINUOUS = {"t_s", "y", "peak", "peak_time_s"}
@@ -254,6 +258,30 @@ charpoly = np.polyadd(denz, numz)
 cl = doc["closed_loop"]
 check(close_roots(roots_of(cl["poles"]), sorted_roots(charpoly), 1e-9), f"closed-loop poles {cl['poles']}")
 check(cl["stable"] is True and all(abs(complex(*p)) < 1 for p in cl["poles"]), "stable")
+check(cl["poles_complete"] is True and cl["order"] == 2 and cl["unstable_poles"] == 0,
+      f"closed loop: every pole of order 2, none unstable: {cl}")
+
+# A long dead time (issue 11: it grew like its cube, and 100 000 samples crashed): 10 000 samples
+# of dead time, L = 2·z^-10001·P(z) with P the ZOH of 1/(s+1) at T = 0.002 s. |L(1)| = 2 and
+# the delay turns the phase through -180° long before |P| falls to 1/2 (at ω = √3 rad/s the
+# delay alone gives -20 rad), so the loop is unstable; only the dominant poles are listed,
+# the largest outside the unit circle (|z| > 1, consistent with the count).
+rc, out, err = run(["analyze", "--plant", "1/(s+1)", "--period", "0.002", "--dead-time", "20",
+                    "--controller", "2", "--substeps", "0", "--steps", "20", "--json"])
+check(rc == 0, f"--dead-time 20: exit {rc}, stderr {err!r}")
+if rc == 0:
+    cl = json.loads(out)["closed_loop"]
+    check(cl["poles_complete"] is False and cl["order"] == 1 + 10000 + 1,
+          f"--dead-time 20: order {cl['order']}, complete {cl['poles_complete']}")
+    check(cl["stable"] is False and cl["unstable_poles"] >= 1, f"--dead-time 20: {cl['unstable_poles']}")
+    check(0 < len(cl["poles"]) <= 32 and abs(complex(*cl["poles"][0])) > 1.0,
+          f"--dead-time 20: dominant poles {cl['poles'][:2]}")
+# 100 000 samples (a failed allocation once took the double-free path): a result, exit 0
+rc, out, err = run(["analyze", "--plant", "1/(s+1)", "--period", "0.002", "--dead-time", "200",
+                    "--controller", "0.3", "--substeps", "0", "--steps", "20"])
+check(rc == 0 and "dominant (largest |z|) of 100002" in out,
+      f"--dead-time 200: exit {rc}, stderr {err!r}")
+check("stable: every pole strictly inside" in out, "--dead-time 200 with |L| <= 0.3: stable")
 
 # Gain crossover and phase margin on the unit circle, refined by brentq (xtol 1e-14).
 def logmag(w):

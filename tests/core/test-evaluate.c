@@ -288,6 +288,231 @@ test_step_figures (void **state)
 
 /* Unstable loop: reported unstable, no final value and no delay margin (it is the delay that
  * destabilizes a stable loop), phase margin still found and negative. */
+/* An algebraic loop (no delay, 1 + C(∞)·P(∞) = 0) is refused with LW_ERR_INVALID and a message;
+ * its error path once freed the closed-loop matrices twice (issue 11; ASan would report it). */
+static void
+test_algebraic_loop (void **state)
+{
+  (void) state;
+  LwModel *p = parse ("1", LW_DOMAIN_S, 0);
+  LwModel *cz = parse ("-1", LW_DOMAIN_Z, 0.002);
+  LwSampledPlant *sp = NULL;
+  LwError err;
+  assert_int_equal (lw_sampled_plant_new (p, 0.0, 0.002, &sp, &err), LW_OK);
+  LwAnalysisOptions o;
+  lw_analysis_options_init (&o);
+  o.compute_delay = 0;
+  LwEvaluation *ev = NULL;
+  assert_int_equal (lw_evaluate (sp, cz, &o, &ev, &err), LW_ERR_INVALID);
+  assert_null (ev);
+  assert_non_null (strstr (err.message, "algebraic loop"));
+  /* the same loop with one sample of computation delay is fine: L = −z⁻¹, closed-loop pole
+   * z = −1 → on the unit circle, so not stable (exact) */
+  o.compute_delay = 1;
+  assert_int_equal (lw_evaluate (sp, cz, &o, &ev, &err), LW_OK);
+  assert_false (ev->stable);
+  lw_evaluation_free (ev);
+  lw_sampled_plant_free (sp);
+  lw_model_free (p);
+  lw_model_free (cz);
+}
+
+/* The two ways to decide stability agree: eigenvalues of the closed-loop state space (every
+ * pole) and the Nyquist count with the dominant poles (used above max_full_order), forced here on
+ * loops small enough for both. Seeded random loops: plants of order 1–4 (real poles, lightly
+ * damped and undamped pairs, one and two integrators, an unstable pole, a right-half-plane
+ * zero), dead time 0–60 samples with a fraction, computation delay 0–2, a PI, a lead, a gain,
+ * a resonant controller (poles on the unit circle) or one with poles at z = 1 and z = −1, with
+ * a random gain — more than half of them unstable. (A run of 3000 such loops passed.) Checks (an independent method each time, no reference values):
+ * - the count of poles with |z| >= 1 − 1e-10 is the same, except where an eigenvalue lies within
+ *   1e-7 of that bound (either answer is right to the eigenvalues' accuracy);
+ * - every dominant pole is an eigenvalue to 1e-8 relative (dgeev's backward error on these
+ *   well-separated simple roots is ~1e-14·‖A‖; 1e-8 leaves room for their conditioning);
+ * - the eigenvalue of largest modulus is among the dominant poles (1e-8);
+ *   where a pole lies within 1e-7 of the bound — in these loops a pole beside a controller
+ *   pole at z = ±1 that a plant zero nearly cancels, whose position is ill-conditioned
+ *   (sensitivity ~ 1/separation; the eigenvalues and Newton then agree to ~1e-8 only) — 1e-6,
+ *   and the largest one need not be found;
+ * - the final value agrees to 1e-9 (one- vs N-sample delay in the DC solve: rounding only). */
+static void
+cross_check_loops (unsigned seed, int trials, int max_dead)
+{
+  srand (seed);
+  const char *plants[] = { "1/(s+1)", "2/((s+1)*(0.2*s+1))", "1/(s*(s+1))",
+                           "4/(s^2+0.4*s+4)", "1/((s-0.5)*(s+3))", "3/((s+0.5)*(s^2+s+9))",
+                           "1/(s^2+1)", "0.1/s^2", "(s+2)/(s*(s^2+0.01*s+25))",
+                           "(s-1)/((s+1)*(s+2))" };
+  const char *ctrl_tail[] = { "*(z-0.95)/(z-1)", "*(z-0.9)/(z-0.6)", "",
+                              "*(z^2-1.9*z+0.95)/(z^2-1.96*z+1)", "*(z-0.9)^2/((z-1)*(z+1))" };
+  int n_loops = 0, n_unstable = 0, n_near = 0;
+  for (int trial = 0; trial < trials; trial++)
+    {
+      double t = 0.02 + 0.1 * (rand () / (double) RAND_MAX);
+      int ip = rand () % 10, ic = rand () % 5;
+      double gain = exp (-3.0 + 4.0 * (rand () / (double) RAND_MAX));
+      double tau = t * ((double) (rand () % (max_dead + 1)) + 0.5 * (rand () % 2));
+      int n_delay = rand () % 3;
+      char ctrl[64];
+      snprintf (ctrl, sizeof ctrl, "%g%s", gain, ctrl_tail[ic]);
+      LwModel *p = parse (plants[ip], LW_DOMAIN_S, 0);
+      LwModel *cz = parse (ctrl, LW_DOMAIN_Z, t);
+      LwSampledPlant *sp = NULL;
+      LwError err;
+      assert_int_equal (lw_sampled_plant_new (p, tau, t, &sp, &err), LW_OK);
+      LwAnalysisOptions o;
+      lw_analysis_options_init (&o);
+      o.compute_delay = n_delay;
+      o.n_steps = 50;
+      LwEvaluation *full = NULL, *nyq = NULL;
+      o.max_full_order = 2000;
+      if (lw_evaluate (sp, cz, &o, &full, &err) != LW_OK)
+        fail_msg ("full: %s", err.message);
+      o.max_full_order = 0;
+      if (lw_evaluate (sp, cz, &o, &nyq, &err) != LW_OK)
+        fail_msg ("Nyquist (%s, %s, tau %g, T %g): %s", plants[ip], ctrl, tau, t, err.message);
+      assert_true (full->closed_loop_poles_complete);
+      assert_int_equal (full->n_closed_loop_poles, full->closed_loop_order);
+      assert_int_equal (nyq->closed_loop_order, full->closed_loop_order);
+      if (nyq->closed_loop_order == full->n_closed_loop_poles && sp->whole_delay + n_delay == 0)
+        {
+          /* no delay: the full path is always taken */
+          lw_evaluation_free (full);
+          lw_evaluation_free (nyq);
+          lw_sampled_plant_free (sp);
+          lw_model_free (p);
+          lw_model_free (cz);
+          continue;
+        }
+      assert_false (nyq->closed_loop_poles_complete);
+      n_loops++;
+      bool near = false;
+      double rmax = 0.0;
+      double complex zmax = 0.0;
+      for (size_t i = 0; i < full->n_closed_loop_poles; i++)
+        {
+          double complex z = full->closed_loop_poles[i];
+          near |= fabs (cabs (z) - (1.0 - 1e-10)) < 1e-7;
+          if (cabs (z) > rmax)
+            rmax = cabs (z), zmax = z;
+        }
+      n_near += near;
+      n_unstable += !full->stable;
+      if (!near)
+        {
+          if (nyq->n_closed_loop_unstable != full->n_closed_loop_unstable)
+            fail_msg ("%s, C = %s, tau %g, T %g, N %d: Nyquist %zu unstable poles, eigenvalues %zu",
+                      plants[ip], ctrl, tau, t, n_delay, nyq->n_closed_loop_unstable,
+                      full->n_closed_loop_unstable);
+          assert_true (nyq->stable == full->stable);
+        }
+      assert_true (nyq->n_closed_loop_poles > 0);
+      bool have_max = false;
+      for (size_t k = 0; k < nyq->n_closed_loop_poles; k++)
+        {
+          double complex z = nyq->closed_loop_poles[k];
+          double best = INFINITY;
+          for (size_t i = 0; i < full->n_closed_loop_poles; i++)
+            best = fmin (best, cabs (full->closed_loop_poles[i] - z));
+          if (!(best <= (near ? 1e-6 : 1e-8) * fmax (1.0, cabs (z))))
+            fail_msg ("%s, C = %s, tau %g, T %g: dominant pole %.17g%+.17gj is no eigenvalue "
+                      "(nearest %g away)", plants[ip], ctrl, tau, t, creal (z), cimag (z), best);
+          have_max |= cabs (z - zmax) <= 1e-8 || cabs (z - conj (zmax)) <= 1e-8;
+        }
+      if (!have_max && !near)
+        fail_msg ("%s, C = %s, tau %g, T %g: the largest pole %.17g%+.17gj is not among the "
+                  "dominant ones", plants[ip], ctrl, tau, t, creal (zmax), cimag (zmax));
+      assert_true (nyq->step.has_final == full->step.has_final);
+      if (full->step.has_final)
+        assert_close (nyq->step.final_value, full->step.final_value, 1e-9, "final value");
+      for (size_t k = 0; k < 50; k++)
+        assert_true (nyq->step.samples[k] == full->step.samples[k]);
+      lw_evaluation_free (full);
+      lw_evaluation_free (nyq);
+      lw_sampled_plant_free (sp);
+      lw_model_free (p);
+      lw_model_free (cz);
+    }
+  /* the sample must exercise both verdicts */
+  print_message ("%d loops, %d unstable, %d with a pole within 1e-7 of the bound\n", n_loops,
+                 n_unstable, n_near);
+  assert_true (n_loops >= trials / 2 && n_unstable >= trials / 10
+               && n_loops - n_unstable >= trials / 10);
+}
+
+static void
+test_nyquist_matches_eigenvalues (void **state)
+{
+  (void) state;
+  cross_check_loops (20261203, 400, 60);
+  /* longer delays (up to 400 samples, orders to ~410): where the unstable plant pole's
+   * closed-loop pole sits within 1e-13 of it (z^-D tiny there) and the poles crowd the
+   * circle; fewer loops, each eigenvalue problem costs O(order³). (300 loops up to 500
+   * samples passed once.) */
+  cross_check_loops (5, 16, 400);
+}
+
+/* Long delays, beyond every-pole reach (order 20 001), against closed forms.
+ * 1. L = b·z^−D (plant 1, dead time D samples): the closed-loop poles solve z^D = −b, all D of
+ *    them on |z| = |b|^{1/D}: stable for |b| < 1, and for |b| > 1 all D outside (exact). Each
+ *    dominant pole reported must satisfy |z| = b^{1/D} (1e-12) and D·arg z ≡ π mod 2π (1e-6 rad:
+ *    D·arg z carries D times the rounding of arg z).
+ * 2. The integrator with delay, P = ZOH of 1/s at T = 1 s (1/(z − 1)), gain b, D samples:
+ *    z^{D+1} − z^D + b = 0 is stable iff 0 < b < 2 cos(Dπ/(2D + 1)) (S. A. Kuruklis, "The
+ *    asymptotic stability of x_{n+1} − a x_n + b x_{n−k} = 0", J. Math. Anal. Appl. 188, 1994;
+ *    from memory, and cross-checked against the eigenvalues at D = 50). At 2 % on either side
+ *    of the bound: stable, then exactly one pair outside. */
+static void
+test_long_delay_closed_forms (void **state)
+{
+  (void) state;
+  const int d = 20000;
+  const double bs[] = { 0.5, 1.5 };
+  for (int i = 0; i < 2; i++)
+    {
+      char c[32];
+      snprintf (c, sizeof c, "%.17g", bs[i]);
+      LwEvaluation *ev = run ("1", 1.0, (double) d, 0, c, true, 50);
+      assert_int_equal (ev->closed_loop_order, d);
+      assert_false (ev->closed_loop_poles_complete);
+      assert_true (ev->stable == (bs[i] < 1.0));
+      assert_int_equal (ev->n_closed_loop_unstable, bs[i] < 1.0 ? 0 : d);
+      assert_true (ev->n_closed_loop_poles > 0 && ev->n_closed_loop_poles <= 32);
+      for (size_t k = 0; k < ev->n_closed_loop_poles; k++)
+        {
+          double complex z = ev->closed_loop_poles[k];
+          assert_close (cabs (z), pow (bs[i], 1.0 / d), 1e-12, "|z| = b^(1/D)");
+          double a = d * carg (z) - LW_PI;
+          assert_close (a - 2.0 * LW_PI * round (a / (2.0 * LW_PI)), 0.0, 1e-6, "D arg z = pi");
+        }
+      /* the step: nothing reaches the output before the D samples have passed (exact) */
+      for (size_t k = 0; k < ev->step.n; k++)
+        assert_true (ev->step.samples[k] == 0.0);
+      lw_evaluation_free (ev);
+    }
+  double bound = 2.0 * cos (d * LW_PI / (2.0 * d + 1.0));
+  for (int i = 0; i < 2; i++)
+    {
+      char c[32];
+      snprintf (c, sizeof c, "%.17g", (i == 0 ? 0.98 : 1.02) * bound);
+      LwEvaluation *ev = run ("1/s", 1.0, (double) d, 0, c, true, 50);
+      assert_int_equal (ev->closed_loop_order, d + 1);
+      assert_true (ev->stable == (i == 0));
+      assert_int_equal (ev->n_closed_loop_unstable, i == 0 ? 0 : 2);
+      if (i == 0)
+        {
+          assert_true (ev->step.has_final);
+          assert_close (ev->step.final_value, 1.0, 1e-12, "type-1 loop: final value 1");
+        }
+      else
+        {
+          /* the pair outside is the dominant pair */
+          assert_true (cabs (ev->closed_loop_poles[0]) > 1.0);
+          assert_true (cabs (ev->closed_loop_poles[1]) > 1.0);
+        }
+      lw_evaluation_free (ev);
+    }
+}
+
 static void
 test_unstable (void **state)
 {
@@ -312,6 +537,9 @@ main (void)
     cmocka_unit_test (test_dead_time),
     cmocka_unit_test (test_step_figures),
     cmocka_unit_test (test_unstable),
+    cmocka_unit_test (test_algebraic_loop),
+    cmocka_unit_test (test_nyquist_matches_eigenvalues),
+    cmocka_unit_test (test_long_delay_closed_forms),
   };
   return cmocka_run_group_tests (tests, NULL, NULL);
 }

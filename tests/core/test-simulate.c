@@ -346,6 +346,38 @@ test_indices_closed_form (void **state)
   fixture_close (&f);
 }
 
+/* A long dead time rides in a ring buffer (issue 11). Plant 1 (a pure gain) with d = 200 000
+ * samples of dead time, C = 0.5 with actuator limits ±0.4, no computation delay: the loop is
+ * y[k] = u[k − d], u[k] = sat(0.5 (1 − y[k])). Exact by hand: y = 0 for k < d, then
+ * u[0…d−1] = 0.4 (clipped from 0.5), so y = 0.4 for d <= k < 2d; the continuous output (plant
+ * without dynamics) is the held input: 0 before t = dT, 0.4 from there on. Exact comparisons. */
+static void
+test_long_dead_time (void **state)
+{
+  (void) state;
+  const size_t d = 200000;
+  LwSimOptions o;
+  lw_sim_options_init (&o);
+  o.compute_delay = 0;
+  o.n_steps = d + 50;
+  o.has_limits = true;
+  o.u_low = -0.4;
+  o.u_high = 0.4;
+  o.substeps = 2;
+  Fixture f;
+  fixture_open (&f, "1", 0.01, 0.01 * (double) d, "0.5", false, &o);
+  LwSimResponse *r = run (&f, LW_SIM_REFERENCE_STEP, 1.0);
+  for (size_t k = 0; k < o.n_steps; k++)
+    if (r->y[k] != (k < d ? 0.0 : 0.4))
+      fail_msg ("y[%zu] = %.17g", k, r->y[k]);
+  assert_int_equal (r->n_saturated, d);   /* from k = d on, v = 0.5·0.6 = 0.3 is inside */
+  for (size_t j = 0; j < r->n_fine; j++)
+    if (r->y_fine[j] != (j < 2 * d ? 0.0 : 0.4))
+      fail_msg ("y_fine[%zu] = %.17g", j, r->y_fine[j]);
+  lw_sim_response_free (r);
+  fixture_close (&f);
+}
+
 static void
 test_bad_options (void **state)
 {
@@ -398,6 +430,7 @@ main (void)
     cmocka_unit_test (test_windup),
     cmocka_unit_test (test_disturbance_final),
     cmocka_unit_test (test_indices_closed_form),
+    cmocka_unit_test (test_long_dead_time),
     cmocka_unit_test (test_bad_options),
   };
   return cmocka_run_group_tests (tests, NULL, NULL);
