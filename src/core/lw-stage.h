@@ -47,6 +47,10 @@
  * pole follows), N/Td sets N.  The PID handles are the parameter corners: its two zeros lie
  * near 1/Ti and 1/Td only when Ti ≫ Td.
  *
+ * Each kind is one row of the stage-kind table (lw-stage-kinds.h) with its own file under
+ * stages/: its parameters (names, units, rules, editor ranges, placement) and what differs per
+ * kind (model, relations, handles). The functions below walk that table.
+ *
  * The compensator is the ordered product of the enabled stages (lw_compensator_w); it is mapped
  * to z by the inverse bilinear map lw_model_w_to_z (lw_compensator_z).
  *
@@ -158,6 +162,7 @@ LwStatus lw_stage_corner_set (LwStage *s, size_t i, double nu_rad_s, bool keep_r
  * stored), then for a lead or lag the derived centre and maximum phase (derived = true). */
 typedef struct {
   const char *name;    /* e.g. "zero_rad_s"; a static string */
+  const char *title;   /* short English label ("Zero", "maximum phase"), translatable */
   double value;
   const char *unit;    /* "rad/s", "s", "dB", "deg", "ratio" or "" (count, N, damping) */
   bool derived;
@@ -165,8 +170,8 @@ typedef struct {
 /* Fills out (room for LW_STAGE_MAX_PARAMS) and returns the count. */
 size_t lw_stage_params (const LwStage *s, LwStageParam *out);
 
-/* Lower-case name of a kind ("gain", "integrator", "real-zero", "real-pole", "lead", "lag",
- * "pi", "pid", "notch", "zero-pair", "pole-pair"); NULL for an unknown value. */
+/* Lower-case name of a kind, its row's name in the stage-kind table (lw-stage-kinds.h):
+ * "gain", "integrator", "real-zero", …; NULL for an unknown value. */
 const char *lw_stage_kind_name (LwStageKind kind);
 
 /* The product of the enabled stages among stages[0 … n−1], in order, as a model in w with

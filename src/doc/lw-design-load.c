@@ -483,15 +483,6 @@ check_plant (Reader *r, const xmlNode *e, const char *text)
 
 /* ---- elements ---------------------------------------------------------------------------- */
 
-static const LwDocStageKind *
-stage_kind_by_element (const char *name)
-{
-  for (size_t i = 0; i < lw_doc_n_stage_kinds; i++)
-    if (strcmp (lw_doc_stage_kinds[i].element, name) == 0)
-      return &lw_doc_stage_kinds[i];
-  return NULL;
-}
-
 static const LwDocReqKind *
 req_kind_by_element (const char *name)
 {
@@ -505,8 +496,9 @@ static char *
 stage_element_list (void)
 {
   GString *s = g_string_new (NULL);
-  for (size_t i = 0; i < lw_doc_n_stage_kinds; i++)
-    g_string_append_printf (s, "%s<%s>", i == 0 ? "" : ", ", lw_doc_stage_kinds[i].element);
+  for (size_t i = 0; i < lw_stage_kind_count (); i++)
+    g_string_append_printf (s, "%s<%s>", i == 0 ? "" : ", ",
+                            lw_stage_kind_info ((LwStageKind) i)->name);
   return g_string_free (s, FALSE);
 }
 
@@ -522,7 +514,7 @@ req_element_list (void)
 static bool
 read_stage (Reader *r, const xmlNode *e, const LwDesignVariant *v, size_t index, LwStage *out)
 {
-  const LwDocStageKind *k = stage_kind_by_element ((const char *) e->name);
+  const LwStageKindInfo *k = lw_stage_kind_by_name ((const char *) e->name);
   if (k == NULL)
     {
       g_autofree char *list = stage_element_list ();
@@ -540,10 +532,10 @@ read_stage (Reader *r, const xmlNode *e, const LwDesignVariant *v, size_t index,
   else
     where = g_strdup_printf (" (stage %zu of variant '%s')", index + 1, v->name);
 
-  const char *allowed[LW_DOC_MAX_ATTRS + 3] = { "label", "enabled" };
-  for (size_t i = 0; i < k->n_attrs; i++)
-    allowed[2 + i] = k->attrs[i].name;
-  allowed[2 + k->n_attrs] = NULL;
+  const char *allowed[LW_STAGE_MAX_STORED + 3] = { "label", "enabled" };
+  for (size_t i = 0; i < k->n_params; i++)
+    allowed[2 + i] = k->params[i].name;
+  allowed[2 + k->n_params] = NULL;
   if (!check_attributes (r, e, where, allowed) || !no_children (r, e, where))
     return false;
 
@@ -570,17 +562,13 @@ read_stage (Reader *r, const xmlNode *e, const LwDesignVariant *v, size_t index,
                      "%s: attribute 'enabled' must be 'true' or 'false', got '%s'", where,
                      enabled);
     }
-  for (size_t i = 0; i < k->n_attrs; i++)
+  for (size_t i = 0; i < k->n_params; i++)
     {
-      const LwDocAttr *a = &k->attrs[i];
       double value = 0.0;
-      if (!number_attr (r, e, where, a->name, a->rule, true, &value, NULL))
+      if (!number_attr (r, e, where, k->params[i].name, (LwNumRule) k->params[i].rule,
+                        true, &value, NULL))
         return false;
-      char *p = (char *) out + a->offset;
-      if (a->rule == LW_NUM_COUNT)
-        *(int *) p = (int) value;
-      else
-        *(double *) p = value;
+      lw_stage_param_set (out, i, value);
     }
   LwError err;
   lw_error_clear (&err);

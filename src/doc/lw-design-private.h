@@ -7,39 +7,23 @@
 #include <stddef.h>
 
 #include "lw-design.h"
+#include "lw-stage-kinds.h"
 
-/* What a number attribute must be. */
+/* What a number attribute must be: the rules of stage parameters (lw-stage-kinds.h), which
+ * the other attributes (dead time, ranges) use too, and the sample period's range. */
 typedef enum
 {
-  LW_NUM_FINITE = 0,     /* any finite number */
-  LW_NUM_POSITIVE,       /* finite, > 0 */
-  LW_NUM_NONNEGATIVE,    /* finite, >= 0 */
-  LW_NUM_NONZERO,        /* finite, != 0 */
-  LW_NUM_COUNT,          /* a whole number 1 … LW_STAGE_MAX_COUNT (stored as int) */
+  LW_NUM_FINITE = LW_PARAM_FINITE,           /* any finite number */
+  LW_NUM_POSITIVE = LW_PARAM_POSITIVE,       /* finite, > 0 */
+  LW_NUM_NONNEGATIVE = LW_PARAM_NONNEGATIVE, /* finite, >= 0 */
+  LW_NUM_NONZERO = LW_PARAM_NONZERO,         /* finite, != 0 */
+  LW_NUM_COUNT = LW_PARAM_COUNT,             /* a whole number 1 … LW_STAGE_MAX_COUNT (int) */
   LW_NUM_PERIOD          /* a sample period, LW_PERIOD_MIN_S … LW_PERIOD_MAX_S (lw-number.h) */
 } LwNumRule;
 
-#define LW_DOC_MAX_ATTRS 4
-
-typedef struct
-{
-  const char *name;      /* attribute name */
-  size_t offset;         /* offset of the double (or int for LW_NUM_COUNT) in LwStage */
-  LwNumRule rule;
-} LwDocAttr;
-
-/* One stage kind: its element (lw_stage_kind_name of the kind) and its parameter attributes,
- * in the order they are written. */
-typedef struct
-{
-  LwStageKind kind;
-  const char *element;
-  size_t n_attrs;
-  LwDocAttr attrs[LW_DOC_MAX_ATTRS];
-} LwDocStageKind;
-
-extern const LwDocStageKind lw_doc_stage_kinds[];
-extern const size_t lw_doc_n_stage_kinds;
+/* Stage elements are the rows of the stage-kind table (lw-stage-kinds.h): element = the kind's
+ * name, attributes = its stored parameters in table order (the schema agrees:
+ * tests/doc/test-stage-doc.c). */
 
 /* One requirement kind: its element and the attribute of its limit (and of the upper limit of
  * a range, else NULL). */

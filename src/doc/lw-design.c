@@ -24,43 +24,6 @@ G_DEFINE_QUARK (lw-design-error-quark, lw_design_error)
 
 /* ---- vocabulary tables ------------------------------------------------------------------ */
 
-#define OFF(field) offsetof (LwStage, field)
-
-const LwDocStageKind lw_doc_stage_kinds[] = {
-  { LW_STAGE_GAIN, "gain", 1, { { "ratio", OFF (p.gain.ratio), LW_NUM_NONZERO } } },
-  { LW_STAGE_INTEGRATOR, "integrator", 1,
-    { { "count", OFF (p.integrator.count), LW_NUM_COUNT } } },
-  { LW_STAGE_REAL_ZERO, "real-zero", 1,
-    { { "corner_rad_s", OFF (p.real.corner_rad_s), LW_NUM_POSITIVE } } },
-  { LW_STAGE_REAL_POLE, "real-pole", 1,
-    { { "corner_rad_s", OFF (p.real.corner_rad_s), LW_NUM_POSITIVE } } },
-  { LW_STAGE_LEAD, "lead", 2,
-    { { "zero_rad_s", OFF (p.leadlag.zero_rad_s), LW_NUM_POSITIVE },
-      { "pole_rad_s", OFF (p.leadlag.pole_rad_s), LW_NUM_POSITIVE } } },
-  { LW_STAGE_LAG, "lag", 2,
-    { { "zero_rad_s", OFF (p.leadlag.zero_rad_s), LW_NUM_POSITIVE },
-      { "pole_rad_s", OFF (p.leadlag.pole_rad_s), LW_NUM_POSITIVE } } },
-  { LW_STAGE_PI, "pi", 2,
-    { { "gain", OFF (p.pi.gain), LW_NUM_NONZERO },
-      { "zero_rad_s", OFF (p.pi.zero_rad_s), LW_NUM_POSITIVE } } },
-  { LW_STAGE_PID, "pid", 4,
-    { { "kp", OFF (p.pid.kp), LW_NUM_NONZERO },
-      { "ti_s", OFF (p.pid.ti_s), LW_NUM_POSITIVE },
-      { "td_s", OFF (p.pid.td_s), LW_NUM_NONNEGATIVE },
-      { "filter_n", OFF (p.pid.filter_n), LW_NUM_POSITIVE } } },
-  { LW_STAGE_NOTCH, "notch", 3,
-    { { "centre_rad_s", OFF (p.notch.centre_rad_s), LW_NUM_POSITIVE },
-      { "depth_db", OFF (p.notch.depth_db), LW_NUM_POSITIVE },
-      { "width_rad_s", OFF (p.notch.width_rad_s), LW_NUM_POSITIVE } } },
-  { LW_STAGE_ZERO_PAIR, "zero-pair", 2,
-    { { "natural_rad_s", OFF (p.pair.natural_rad_s), LW_NUM_POSITIVE },
-      { "damping", OFF (p.pair.damping), LW_NUM_NONNEGATIVE } } },
-  { LW_STAGE_POLE_PAIR, "pole-pair", 2,
-    { { "natural_rad_s", OFF (p.pair.natural_rad_s), LW_NUM_POSITIVE },
-      { "damping", OFF (p.pair.damping), LW_NUM_NONNEGATIVE } } },
-};
-const size_t lw_doc_n_stage_kinds = G_N_ELEMENTS (lw_doc_stage_kinds);
-
 const LwDocReqKind lw_doc_req_kinds[] = {
   { LW_REQ_MIN_PHASE_MARGIN, "phase-margin", "min_deg", NULL },
   { LW_REQ_MIN_GAIN_MARGIN, "gain-margin", "min_db", NULL },
@@ -93,15 +56,6 @@ lw_design_requirement_title (const LwDesignRequirement *r)
   return e != NULL ? e : "requirement";
 }
 
-static const LwDocStageKind *
-stage_kind (LwStageKind kind)
-{
-  for (size_t i = 0; i < lw_doc_n_stage_kinds; i++)
-    if (lw_doc_stage_kinds[i].kind == kind)
-      return &lw_doc_stage_kinds[i];
-  return NULL;
-}
-
 static const LwDocReqKind *
 req_kind (LwReqKind kind)
 {
@@ -114,34 +68,17 @@ req_kind (LwReqKind kind)
 const char *
 lw_doc_rule_phrase (LwNumRule rule)
 {
-  switch (rule)
-    {
-    case LW_NUM_FINITE: return "a finite number";
-    case LW_NUM_POSITIVE: return "a finite number > 0";
-    case LW_NUM_NONNEGATIVE: return "a finite number >= 0";
-    case LW_NUM_NONZERO: return "a finite number other than 0";
-    case LW_NUM_COUNT: return "a whole number from 1 to " G_STRINGIFY (LW_STAGE_MAX_COUNT);
-    case LW_NUM_PERIOD:
-      return "a sample period from 1e-12 to 1e9 s (the range the numerics represent)";
-    }
-  return "a number";
+  if (rule == LW_NUM_PERIOD)
+    return "a sample period from 1e-12 to 1e9 s (the range the numerics represent)";
+  return lw_param_rule_phrase ((LwParamRule) rule);
 }
 
 gboolean
 lw_doc_rule_ok (LwNumRule rule, double v)
 {
-  if (!isfinite (v))
-    return FALSE;
-  switch (rule)
-    {
-    case LW_NUM_FINITE: return TRUE;
-    case LW_NUM_POSITIVE: return v > 0.0;
-    case LW_NUM_NONNEGATIVE: return v >= 0.0;
-    case LW_NUM_NONZERO: return v != 0.0;
-    case LW_NUM_COUNT: return v == floor (v) && v >= 1.0 && v <= LW_STAGE_MAX_COUNT;
-    case LW_NUM_PERIOD: return lw_period_ok (v);
-    }
-  return FALSE;
+  if (rule == LW_NUM_PERIOD)
+    return isfinite (v) && lw_period_ok (v);
+  return lw_param_rule_ok ((LwParamRule) rule, v);
 }
 
 const char *
@@ -314,21 +251,12 @@ stage_equal (const LwStage *a, const LwStage *b)
 {
   if (a->kind != b->kind || a->enabled != b->enabled || strcmp (a->label, b->label) != 0)
     return false;
-  const LwDocStageKind *k = stage_kind (a->kind);
+  const LwStageKindInfo *k = lw_stage_kind_info (a->kind);
   if (k == NULL)
     return false;
-  for (size_t i = 0; i < k->n_attrs; i++)
-    {
-      const char *pa = (const char *) a + k->attrs[i].offset;
-      const char *pb = (const char *) b + k->attrs[i].offset;
-      if (k->attrs[i].rule == LW_NUM_COUNT)
-        {
-          if (*(const int *) pa != *(const int *) pb)
-            return false;
-        }
-      else if (*(const double *) pa != *(const double *) pb)
-        return false;
-    }
+  for (size_t i = 0; i < k->n_params; i++)
+    if (lw_stage_param_get (a, i) != lw_stage_param_get (b, i))
+      return false;
   return true;
 }
 
@@ -542,11 +470,12 @@ lw_design_validate (const LwDesign *d, GError **error)
             }
           if (!check_text ("a stage label", s->label, error))
             return FALSE;
-          if (stage_kind (s->kind) == NULL || lw_stage_check (s, &err) != LW_OK)
+          if (lw_stage_kind_info (s->kind) == NULL || lw_stage_check (s, &err) != LW_OK)
             {
               g_set_error (error, LW_DESIGN_ERROR, LW_DESIGN_ERROR_VALUE,
                            "stage %zu of variant '%s': %s", j + 1, v->name,
-                           stage_kind (s->kind) == NULL ? "unknown kind" : err.message);
+                           lw_stage_kind_info (s->kind) == NULL ? "unknown kind"
+                                                                : err.message);
               return FALSE;
             }
         }
@@ -739,21 +668,21 @@ lw_design_to_text (const LwDesign *d, size_t *len_out, GError **error)
       for (size_t j = 0; j < v->n_stages; j++)
         {
           const LwStage *s = &v->stages[j];
-          const LwDocStageKind *k = stage_kind (s->kind);
+          const LwStageKindInfo *k = lw_stage_kind_info (s->kind);
           g_assert (k != NULL);   /* validated */
           indent (o, 3);
-          g_string_append_printf (o, "<%s", k->element);
+          g_string_append_printf (o, "<%s", k->name);
           if (s->label[0] != '\0')
             attr_text (o, "label", s->label);
           if (!s->enabled)
             attr_text (o, "enabled", "false");
-          for (size_t a = 0; a < k->n_attrs; a++)
+          for (size_t a = 0; a < k->n_params; a++)
             {
-              const char *p = (const char *) s + k->attrs[a].offset;
-              if (k->attrs[a].rule == LW_NUM_COUNT)
-                g_string_append_printf (o, " %s=\"%d\"", k->attrs[a].name, *(const int *) p);
+              double value = lw_stage_param_get (s, a);
+              if (k->params[a].rule == LW_PARAM_COUNT)
+                g_string_append_printf (o, " %s=\"%d\"", k->params[a].name, (int) value);
               else
-                attr_number (o, k->attrs[a].name, *(const double *) p);
+                attr_number (o, k->params[a].name, value);
             }
           g_string_append (o, "/>\n");
         }

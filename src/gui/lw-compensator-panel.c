@@ -10,6 +10,7 @@
 
 #include "lw-compensator-panel.h"
 #include "lw-gui-util.h"
+#include "lw-stage-kinds.h"
 #include "lw-stage-row.h"
 
 struct _LwCompensatorPanel
@@ -224,42 +225,37 @@ lw_compensator_panel_popup_add_menu (LwCompensatorPanel *self)
   gtk_menu_button_popup (self->add_button);
 }
 
-/* A new stage of `kind` placed around ν (rad/s): corners at or near ν, moderate strengths
- * (placement choices of this window, not design rules). */
-static LwStage
-new_stage (LwStageKind kind, double nu)
-{
-  switch (kind)
-    {
-    case LW_STAGE_GAIN: return lw_stage_gain (1.0);
-    case LW_STAGE_INTEGRATOR: return lw_stage_integrator (1);
-    case LW_STAGE_REAL_ZERO: return lw_stage_real_zero (nu);
-    case LW_STAGE_REAL_POLE: return lw_stage_real_pole (5.0 * nu);
-    case LW_STAGE_LEAD: return lw_stage_lead_centred (nu, 30.0);
-    case LW_STAGE_LAG: return lw_stage_lag_centred (0.1 * nu, 10.0);
-    case LW_STAGE_PI: return lw_stage_pi (1.0, 0.1 * nu);
-    case LW_STAGE_PID: return lw_stage_pid (1.0, 10.0 / nu, 0.5 / nu, 10.0);
-    case LW_STAGE_NOTCH: return lw_stage_notch (3.0 * nu, 20.0, nu);
-    case LW_STAGE_ZERO_PAIR: return lw_stage_zero_pair (nu, 0.7);
-    case LW_STAGE_POLE_PAIR: return lw_stage_pole_pair (5.0 * nu, 0.7);
-    }
-  g_assert_not_reached ();
-}
-
+/* New stages are placed around ν (rad/s) by the stage-kind table (lw_stage_placed). */
 static void
 add_stage_activated (GtkWidget *widget, const char *action, GVariant *param)
 {
   LwCompensatorPanel *self = LW_COMPENSATOR_PANEL (widget);
   const char *name = g_variant_get_string (param, NULL);
+  const LwStageKindInfo *k = lw_stage_kind_by_name (name);
 
-  for (int k = LW_STAGE_GAIN; k <= LW_STAGE_POLE_PAIR; k++)
-    if (g_strcmp0 (lw_stage_kind_name ((LwStageKind) k), name) == 0)
-      {
-        LwStage s = new_stage ((LwStageKind) k, self->place_nu_rad_s);
-        lw_design_model_append_stage (self->model, &s);
-        return;
-      }
-  g_warning ("compensator.add-stage: unknown stage kind “%s”", name);
+  if (k == NULL)
+    {
+      g_warning ("compensator.add-stage: unknown stage kind “%s”", name);
+      return;
+    }
+  LwStage s = lw_stage_placed (k->kind, self->place_nu_rad_s);
+  lw_design_model_append_stage (self->model, &s);
+}
+
+/* The add-stage menu: one item per row of the stage-kind table, in its order. */
+static GMenuModel *
+add_stage_menu_new (void)
+{
+  GMenu *menu = g_menu_new ();
+  for (size_t i = 0; i < lw_stage_kind_count (); i++)
+    {
+      const LwStageKindInfo *k = lw_stage_kind_info ((LwStageKind) i);
+      g_autoptr (GMenuItem) item = g_menu_item_new (_(k->title), NULL);
+      g_menu_item_set_action_and_target_value (item, "compensator.add-stage",
+                                               g_variant_new_string (k->name));
+      g_menu_append_item (menu, item);
+    }
+  return G_MENU_MODEL (menu);
 }
 
 /* LW_DEBUG_HANDLES: the centre of the Variants button in window-surface coordinates (as the
@@ -341,6 +337,8 @@ static void
 lw_compensator_panel_init (LwCompensatorPanel *self)
 {
   gtk_widget_init_template (GTK_WIDGET (self));
+  g_autoptr (GMenuModel) add_menu = add_stage_menu_new ();
+  gtk_menu_button_set_menu_model (self->add_button, add_menu);
   lw_gui_spin_wheel_off (self->period_spin);
   self->compared = g_ptr_array_new_with_free_func (g_free);
   g_signal_connect (self->variant_dropdown, "notify::selected", G_CALLBACK (variant_selected),
