@@ -9,8 +9,8 @@
  * where a new stage puts it relative to the gain crossover ν_c), and the functions for what
  * differs between kinds (relations between parameters, the model in w, corner handles, derived
  * figures).  Each kind lives in its own file under src/core/stages/; a new kind is that file,
- * its enumerator in lw-stage.h and one row in lw-stage-kinds.c (see docs/architecture.md,
- * "A new stage kind").
+ * its enumerator in lw-stage.h and one row in lw-stage-kinds.c (DEVELOPERS.md, "Adding
+ * things").
  *
  * SPDX-License-Identifier: GPL-3.0-or-later
  */
