@@ -12,7 +12,7 @@
 extern const LwStageKindInfo lw_stage_kind_gain, lw_stage_kind_integrator,
   lw_stage_kind_real_zero, lw_stage_kind_real_pole, lw_stage_kind_lead, lw_stage_kind_lag,
   lw_stage_kind_pi, lw_stage_kind_pid, lw_stage_kind_notch, lw_stage_kind_zero_pair,
-  lw_stage_kind_pole_pair;
+  lw_stage_kind_pole_pair, lw_stage_kind_resonant;
 
 /* In LwStageKind order (row i is kind i; tests/core/test-stage-kinds.c checks), which is also
  * the order of the add-stage menu. */
@@ -28,6 +28,7 @@ static const LwStageKindInfo *const kinds[] = {
   &lw_stage_kind_notch,
   &lw_stage_kind_zero_pair,
   &lw_stage_kind_pole_pair,
+  &lw_stage_kind_resonant,
 };
 
 #define N_KINDS (sizeof kinds / sizeof kinds[0])

@@ -30,13 +30,19 @@
  *                   exactly the −3 dB width of the infinitely deep notch with the same poles
  *                   (|C| = 1/√2 where |ν0² − ν²| = 2ζp·ν0·ν, so ν2 − ν1 = 2ζp·ν0).
  *                   Unit gain at DC and at high frequency.
+ *   RESONANT        C = (w² + 2ζz·ν0·w + ν0²) / (w² + 2ζp·ν0·w + ν0²),  ζz > ζp > 0
+ *                   ν0: centre, rad/s, > 0;  peak: gain at ν0 in dB, > 0 (|C(jν0)| = ζz/ζp =
+ *                   10^(peak/20));  width: rad/s, > 0, width = 2ζz·ν0, exactly the band where
+ *                   the infinitely high peak with the same zeros is 3 dB above unity.  Unit gain
+ *                   at DC and at high frequency; the counterpart of the notch, to reject a
+ *                   periodic disturbance at a known frequency (stages/lw-stage-resonant.c).
  *   ZERO_PAIR       C = (w² + 2ζ·ν0·w + ν0²) / ν0²         ν0: natural frequency, rad/s, > 0;
  *   POLE_PAIR       C = ν0² / (w² + 2ζ·ν0·w + ν0²)         ζ: damping, >= 0 (>= 1: two real
  *                                                          roots)
  *
  * Corner handles (what the window lets one drag) per kind, index order:
  *   REAL_ZERO, REAL_POLE: a;  LEAD, LAG: z then p;  PI: a;  PID: 1/Ti, then (when Td > 0)
- *   1/Td and N/Td;  NOTCH: ν0;  ZERO_PAIR, POLE_PAIR: ν0.  GAIN and INTEGRATOR have none.
+ *   1/Td and N/Td;  NOTCH, RESONANT: ν0;  ZERO_PAIR, POLE_PAIR: ν0.  GAIN and INTEGRATOR have none.
  * Moving a handle (lw_stage_corner_set) keeps these invariants, or refuses and leaves the stage
  * unchanged: every corner stays finite and > 0; a lead stays a lead (z < p) and a lag a lag
  * (p < z).  With keep_ratio the whole stage moves along the frequency axis: a lead's or lag's
@@ -79,7 +85,8 @@ typedef enum {
   LW_STAGE_PID,
   LW_STAGE_NOTCH,
   LW_STAGE_ZERO_PAIR,
-  LW_STAGE_POLE_PAIR
+  LW_STAGE_POLE_PAIR,
+  LW_STAGE_RESONANT
 } LwStageKind;
 
 #define LW_STAGE_LABEL_MAX 64
@@ -100,6 +107,7 @@ typedef struct {
     struct { double kp, ti_s, td_s, filter_n; } pid;             /* PID */
     struct { double centre_rad_s, depth_db, width_rad_s; } notch;  /* NOTCH */
     struct { double natural_rad_s, damping; } pair;              /* ZERO_PAIR, POLE_PAIR */
+    struct { double centre_rad_s, peak_db, width_rad_s; } resonant;  /* RESONANT */
   } p;
 } LwStage;
 
@@ -109,7 +117,8 @@ typedef enum {
   LW_HANDLE_POLE,          /* a real pole corner */
   LW_HANDLE_ZERO_PAIR,     /* natural frequency of a complex zero pair */
   LW_HANDLE_POLE_PAIR,     /* natural frequency of a complex pole pair */
-  LW_HANDLE_NOTCH          /* centre of a notch */
+  LW_HANDLE_NOTCH,         /* centre of a notch */
+  LW_HANDLE_PEAK           /* centre of a resonant stage */
 } LwHandleKind;
 
 /* Constructors: enabled, empty label, parameters as given (not checked; see lw_stage_check). */
@@ -131,6 +140,7 @@ LwStage lw_stage_pid (double kp, double ti_s, double td_s, double filter_n);
 LwStage lw_stage_notch (double centre_rad_s, double depth_db, double width_rad_s);
 LwStage lw_stage_zero_pair (double natural_rad_s, double damping);
 LwStage lw_stage_pole_pair (double natural_rad_s, double damping);
+LwStage lw_stage_resonant (double centre_rad_s, double peak_db, double width_rad_s);
 
 /* Copies label into s->label (truncated to fit). */
 void lw_stage_set_label (LwStage *s, const char *label);

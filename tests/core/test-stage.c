@@ -153,6 +153,78 @@ test_definitions (void **state)
   assert_close ((r + zp * 10) - (r - zp * 10), 4.0, 1e-12, "notch width");
 }
 
+/* Resonant stage (lw-stage.h): ν0 = 12, peak 20 dB (G = 10), width 4 → ζz = 4/24 = 1/6,
+ * ζp = 1/60, i.e. C = (w² + 4w + 144)/(w² + 0.4w + 144).  Closed forms derived from the
+ * definition: with x = (ν0² − ν²)/(ν0·ν), |C|² = (x² + 4ζz²)/(x² + 4ζp²), so |C(jν0)| = ζz/ζp
+ * = G and |C| = √2 (3 dB above unity) at x² = 4(ζz² − 2ζp²), two points with ν1·ν2 = ν0² and
+ * ν2 − ν1 = 2ν0·√(ζz² − 2ζp²) → 2ζz·ν0 = width as G → ∞.  Tolerances 1e-12 (rounding in a few
+ * complex products); 1e-9 for the 240 dB peak, whose closed-form points hold in the limit
+ * (the finite peak moves |C| there by ~1e-24) and whose poles lie 4e-12 from the axis. */
+static void
+test_resonant (void **state)
+{
+  (void) state;
+  const double nus[] = { 0.3, 2.0, 11.9, 12.0, 17.0, 400.0 };
+  LwStage s = lw_stage_resonant (12.0, 20.0, 4.0);
+  assert_int_equal (lw_stage_check (&s, NULL), LW_OK);
+  for (size_t i = 0; i < 6; i++)
+    {
+      double complex w = I * nus[i];
+      double complex want = (w * w + 4.0 * w + 144.0) / (w * w + 0.4 * w + 144.0);
+      double complex got = stage_at (&s, nus[i]);
+      assert_close (cabs (got - want), 0, 1e-12 * cabs (want), "resonant definition");
+    }
+  assert_close (20 * log10 (cabs (stage_at (&s, 12.0))), 20.0, 1e-12, "peak at the centre");
+  assert_close (carg (stage_at (&s, 12.0)), 0.0, 1e-12, "no phase at the centre");
+  assert_close (creal (stage_at (&s, 0.0)), 1.0, 1e-15, "unit gain at DC");
+  assert_close (cabs (stage_at (&s, 1e9)), 1.0, 1e-9, "unit gain at high frequency");
+  /* geometric symmetry about ν0: |C(jν)| = |C(jν0²/ν)| */
+  assert_close (cabs (stage_at (&s, 9.0)), cabs (stage_at (&s, 16.0)), 1e-12, "symmetry");
+
+  /* the points 3 dB above unity for the finite peak */
+  const double zz = 1.0 / 6.0, zp = 1.0 / 60.0, nu0 = 12.0;
+  double half = nu0 * sqrt (zz * zz - 2.0 * zp * zp), mid = sqrt (nu0 * nu0 + half * half);
+  assert_close (cabs (stage_at (&s, mid - half)), sqrt (2.0), 1e-12, "+3 dB, low side");
+  assert_close (cabs (stage_at (&s, mid + half)), sqrt (2.0), 1e-12, "+3 dB, high side");
+  /* a very high peak: the +3 dB points are `width` apart, ν1,2 = √(ν0² + (ζz ν0)²) ∓ ζz ν0 */
+  LwStage h = lw_stage_resonant (12.0, 240.0, 4.0);
+  double r = sqrt (144.0 + 4.0);
+  assert_close (cabs (stage_at (&h, r - 2.0)), sqrt (2.0), 1e-9, "high peak +3 dB, low side");
+  assert_close (cabs (stage_at (&h, r + 2.0)), sqrt (2.0), 1e-9, "high peak +3 dB, high side");
+
+  /* the counterpart of the notch: with the same centre, dB figure and width it is exactly
+   * the notch's inverse (its zeros are the notch's poles and the other way round) */
+  LwStage n = lw_stage_notch (12.0, 20.0, 4.0);
+  for (size_t i = 0; i < 6; i++)
+    assert_close (cabs (stage_at (&s, nus[i]) * stage_at (&n, nus[i]) - 1.0), 0, 1e-12,
+                  "resonant · notch = 1");
+
+  /* refused: each parameter's rule, and a pole damping that underflows */
+  LwError err;
+  LwStage bad = lw_stage_resonant (12.0, -3.0, 4.0);
+  assert_int_equal (lw_stage_check (&bad, &err), LW_ERR_INVALID);
+  assert_non_null (strstr (err.message, "resonant peak"));
+  bad = lw_stage_resonant (12.0, 20.0, 0.0);
+  assert_int_equal (lw_stage_check (&bad, &err), LW_ERR_INVALID);
+  assert_non_null (strstr (err.message, "resonant width"));
+  bad = lw_stage_resonant (12.0, 1e4, 4.0);
+  assert_int_equal (lw_stage_check (&bad, &err), LW_ERR_INVALID);
+  assert_non_null (strstr (err.message, "pole damping"));
+
+  /* one handle at ν0; keep_ratio keeps the damping, otherwise the width in rad/s */
+  double nu;
+  LwHandleKind k;
+  assert_int_equal (lw_stage_corner_count (&s), 1);
+  assert_int_equal (lw_stage_corner_get (&s, 0, &nu, &k, NULL), LW_OK);
+  assert_true (nu == 12.0 && k == LW_HANDLE_PEAK);
+  assert_int_equal (lw_stage_corner_set (&s, 0, 24.0, true, NULL), LW_OK);
+  assert_close (s.p.resonant.width_rad_s, 8.0, 1e-12 * 8, "relative width kept");
+  assert_int_equal (lw_stage_corner_set (&s, 0, 6.0, false, NULL), LW_OK);
+  assert_close (s.p.resonant.width_rad_s, 8.0, 0, "absolute width kept");
+  assert_int_equal (lw_stage_corner_set (&s, 0, 3.0, false, &err), LW_ERR_INVALID);
+  assert_close (s.p.resonant.centre_rad_s, 6.0, 0, "refused move leaves the stage");
+}
+
 static void
 test_check_messages (void **state)
 {
@@ -285,6 +357,7 @@ main (void)
   const struct CMUnitTest tests[] = {
     cmocka_unit_test (test_lead_formulas),
     cmocka_unit_test (test_definitions),
+    cmocka_unit_test (test_resonant),
     cmocka_unit_test (test_check_messages),
     cmocka_unit_test (test_corners),
     cmocka_unit_test (test_compensator),

@@ -159,6 +159,7 @@ static const char literal_doc[] =
   "      <notch label=\"belt\" centre_rad_s=\"55\" depth_db=\"18.5\" width_rad_s=\"9\"/>\n"
   "      <zero-pair natural_rad_s=\"3\" damping=\"0\"/>\n"
   "      <pole-pair natural_rad_s=\"4\" damping=\"1.5\"/>\n"
+  "      <resonant label=\"runout\" centre_rad_s=\"12.5\" peak_db=\"26.25\" width_rad_s=\"3.75\"/>\n"
   "    </variant>\n"
   "  </variants>\n"
   "</design>\n";
@@ -174,7 +175,7 @@ test_literal_round_trip (void **state)
     fail_msg ("literal document: %s", error->message);
   assert_int_equal (d->n_variants, 1);
   const LwDesignVariant *v = &d->variants[0];
-  assert_int_equal (v->n_stages, 11);
+  assert_int_equal (v->n_stages, 12);
   const LwStage *s = v->stages;
   assert_true (s[0].kind == LW_STAGE_GAIN && s[0].p.gain.ratio == -2.5);
   assert_true (s[1].kind == LW_STAGE_INTEGRATOR && s[1].p.integrator.count == 2);
@@ -196,6 +197,11 @@ test_literal_round_trip (void **state)
                && s[9].p.pair.damping == 0.0);
   assert_true (s[10].kind == LW_STAGE_POLE_PAIR && s[10].p.pair.natural_rad_s == 4.0
                && s[10].p.pair.damping == 1.5);
+  assert_true (s[11].kind == LW_STAGE_RESONANT && s[11].p.resonant.centre_rad_s == 12.5
+               && s[11].p.resonant.peak_db == 26.25 && s[11].p.resonant.width_rad_s == 3.75
+               && s[11].enabled);
+  assert_string_equal (s[11].label, "runout");
+  assert_int_equal (v->n_stages, lw_stage_kind_count ());
   for (size_t i = 0; i < v->n_stages; i++)
     assert_int_equal (s[i].kind, (int) i);   /* one of each, in table order */
 
@@ -203,6 +209,26 @@ test_literal_round_trip (void **state)
   if (text == NULL)
     fail_msg ("to_text: %s", error->message);
   assert_string_equal (text, literal_doc);
+}
+
+/* A resonant stage whose pole damping underflows (peak 1e4 dB) passes the schema and every
+ * parameter's rule but is refused by the kind's own relation, with the place named. */
+static void
+test_resonant_refused (void **state)
+{
+  (void) state;
+  g_autofree char *bad = g_strdup (literal_doc);
+  char *at = strstr (bad, "peak_db=\"26.25\"");
+  assert_non_null (at);
+  memcpy (at, "peak_db=\"1e4\"  ", strlen ("peak_db=\"1e4\"  "));
+  GError *error = NULL;
+  LwDesign *d = lw_design_load_data (bad, strlen (bad), "bad.lwd", &error);
+  assert_null (d);
+  assert_non_null (error);
+  if (strstr (error->message, "bad.lwd:19: <resonant> in stage 'runout'") == NULL
+      || strstr (error->message, "pole damping") == NULL)
+    fail_msg ("unexpected message: %s", error->message);
+  g_error_free (error);
 }
 
 int
@@ -217,6 +243,7 @@ main (int argc, char **argv)
   const struct CMUnitTest tests[] = {
     cmocka_unit_test (test_schema_agrees),
     cmocka_unit_test (test_literal_round_trip),
+    cmocka_unit_test (test_resonant_refused),
   };
   return cmocka_run_group_tests (tests, NULL, NULL);
 }
