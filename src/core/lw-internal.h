@@ -24,6 +24,17 @@ LwStatus lw_zoh_blocks (const LwSs *c, double h, double *phi, double *gam, LwErr
 LwStatus lw_check_loop_controller (const LwSampledPlant *plant, const LwModel *controller_z,
                                    int compute_delay, LwError *err);
 
+/* P_core(e^{jωT}) — the sampled plant with its fractional dead time θ, without the whole-sample
+ * delay — from the factored continuous plant through the aliasing (Poisson) sum
+ *   P_core(e^{jωT}) = (1 − e^{−jωT})/T · Σ_k P(jΩ_k)·e^{−jΩ_kθ}/(jΩ_k),  Ω_k = ω + 2πk/T,
+ * each term to full relative accuracy from the factors, summed until the tail (terms fall like
+ * |k|^−(r+1), r the relative degree) is below rel_target/10 of the sum, or 2048 pairs of terms.
+ * *err_abs: an estimate of the absolute error (the terms' roundings, the summation and the
+ * tail). Needs relative degree >= 2 (the tail converges too slowly otherwise): NaN and
+ * *err_abs = ∞ where it does not apply. ω in rad/s. */
+double complex lw_sampled_plant_alias_eval (const LwSampledPlant *p, double omega_rad_s,
+                                            double rel_target, double *err_abs);
+
 struct LwSampledPlant {
   double period_s;
   double dead_time_s;

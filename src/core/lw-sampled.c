@@ -430,6 +430,108 @@ lw_sampled_plant_response (const LwSampledPlant *p, double omega_rad_s)
   return h;
 }
 
+/* P(s)·e^{−sθ}/s at s = jΩ from the factored continuous plant, zeros and poles interleaved so
+ * that the running product stays in range; *abs_out its modulus. */
+static double complex
+alias_term (const LwModel *m, double om, double th, double *abs_out)
+{
+  double ar = m->gain, ai = 0.0;
+  size_t nz = m->n_zeros, np = m->n_poles, nmax = nz > np ? nz : np;
+  for (size_t i = 0; i < nmax; i++)
+    {
+      if (i < nz)
+        {
+          double fr = -creal (m->zeros[i]), fi = om - cimag (m->zeros[i]);
+          double t = ar * fr - ai * fi;
+          ai = ar * fi + ai * fr;
+          ar = t;
+        }
+      if (i < np)
+        {
+          double fr = -creal (m->poles[i]), fi = om - cimag (m->poles[i]);
+          double den = fr * fr + fi * fi;
+          if (!(den > 0.0) || !isfinite (den))
+            {
+              double sc = fmax (fabs (fr), fabs (fi));
+              if (!(sc > 0.0) || !isfinite (sc))
+                return NAN;
+              fr /= sc; fi /= sc;
+              den = fr * fr + fi * fi;
+              ar /= sc; ai /= sc;
+            }
+          double t = (ar * fr + ai * fi) / den;
+          ai = (ai * fr - ar * fi) / den;
+          ar = t;
+        }
+    }
+  /* divided by jΩ: (ar + j ai)/(jΩ) = (ai − j ar)/Ω */
+  double t = ai / om;
+  ai = -ar / om;
+  ar = t;
+  if (th > 0.0)
+    {
+      double c = cos (om * th), sn = -sin (om * th);
+      t = ar * c - ai * sn;
+      ai = ar * sn + ai * c;
+      ar = t;
+    }
+  *abs_out = hypot (ar, ai);
+  return ar + ai * I;
+}
+
+double complex
+lw_sampled_plant_alias_eval (const LwSampledPlant *p, double omega_rad_s, double rel_target,
+                             double *err_abs)
+{
+  const LwModel *m = p->plant_s;
+  *err_abs = INFINITY;
+  if (m->n_poles < m->n_zeros + 2 || !(omega_rad_s > 0.0))
+    return NAN;
+  const double u = 1.1102230246251565e-16;
+  double t = p->period_s, th = p->frac_delay_s, ws = 2.0 * LW_PI / t;
+  double wt = omega_rad_s * t;
+  bool nyq = fabs (wt - LW_PI) <= 4.0 * LW_PI * DBL_EPSILON;
+  double w = nyq ? LW_PI / t : omega_rad_s;
+  double r = (double) (m->n_poles - m->n_zeros);
+  /* per term: the product's 2(n_z + n_p) + 4 roundings, and the rounding of Ω·θ in the delay */
+  double per_term = u * (2.0 * (double) (m->n_zeros + m->n_poles) + 8.0);
+  double sr = 0.0, si = 0.0, sabs = 0.0, rnd = 0.0, tail = INFINITY;
+  const int kmax = 2048;
+  for (int k = 0; k <= kmax; k++)
+    {
+      /* the pair Ω = ω + k·ω_s and Ω = ω − (k + 1)·ω_s (at π/T the two are mirror images) */
+      double a1, a2;
+      double complex g1 = alias_term (m, w + k * ws, th, &a1);
+      double complex g2 = alias_term (m, w - (k + 1) * ws, th, &a2);
+      if (!isfinite (creal (g1)) || !isfinite (cimag (g1)) || !isfinite (creal (g2))
+          || !isfinite (cimag (g2)))
+        return NAN;
+      sr += creal (g1) + creal (g2);
+      si += cimag (g1) + cimag (g2);
+      sabs += a1 + a2;
+      rnd += (a1 * (per_term + u * fabs ((w + k * ws) * th))
+              + a2 * (per_term + u * fabs ((w - (k + 1) * ws) * th)));
+      /* the terms fall like |k|^−(r+1): what is left beyond k is about (a1 + a2)·k/r */
+      if (k >= 2)
+        {
+          tail = (a1 + a2) * (double) (k + 1) / r;
+          if (tail <= 0.1 * rel_target * hypot (sr, si))
+            break;
+        }
+    }
+  /* the prefactor (1 − e^{−jωT})/T, with 1 − cos ωT formed without cancellation */
+  double c = nyq ? -1.0 : cos (wt), sn = nyq ? 0.0 : sin (wt);
+  double omc = c > 0.0 ? (sn * sn) / (1.0 + c) : 1.0 - c;
+  double fr = omc / t, fi = sn / t;
+  double hr = fr * sr - fi * si, hi = fr * si + fi * sr;
+  double fabs_ = hypot (fr, fi);
+  /* summation: each partial sum rounds at most u·(running Σ|g|), 2·k_max terms */
+  *err_abs = fabs_ * (rnd + tail + u * sabs * log2 (2.0 * kmax) + 4.0 * u * hypot (sr, si));
+  if (nyq)
+    hi = 0.0;
+  return hr + hi * I;
+}
+
 LwModel *
 lw_sampled_plant_model (const LwSampledPlant *p)
 {
