@@ -31,10 +31,10 @@ lw_analysis_options_init (LwAnalysisOptions *o)
 #define LW_REL_RESOLVED 1e-6
 /* Estimated relative error of the state-space evaluation above which the aliasing sum is
  * tried. */
-#define LW_REL_ALIAS 1e-10
+#define LW_REL_ALIAS 1e-9
 /* Below this estimated relative error, a point counts as plainly resolved: points between such
  * points are evaluated without an error bound of their own (LW_GRID_STRIDE apart on the grid). */
-#define LW_REL_QUIET 1e-12
+#define LW_REL_QUIET 1e-10
 #define LW_GRID_STRIDE 8
 /* A phase crossover whose magnitude is certainly below this (a gain margin above 120 dB) is not
  * counted as unresolved when its phase cannot be resolved. */
@@ -89,24 +89,44 @@ root_product (const double complex *roots, size_t n, double zm1, double zi, doub
 /* The plant core at z = e^{jωT}. With rel == NULL: the Schur back substitution alone. Otherwise
  * with an estimate of its relative error in *rel: the back substitution with its running error
  * bound; where that is above LW_REL_ALIAS, the aliasing sum of the factored plant, kept when its
- * own estimate is smaller. */
+ * own estimate is smaller. Where the plant's own check (realization_rel, lw-sampled.c) found
+ * the state space worse than its bound, the aliasing sum first, and the bound scaled by that
+ * factor where the sum does not converge (docs/conventions.md, "Resolution"). */
 static double complex
 plant_core (const Loop *lp, double w, double zr, double zi, double *rel, bool *plain_ok)
 {
   if (rel == NULL)
     return lw_schur_eval_unit (lp->plant->eval, zr, zi);
+  double kappa = lp->plant->realization_rel, ea;
+  if (kappa > 0.0)
+    {
+      /* the plant's own check found the state space worse than its bound: the aliasing sum
+       * first, where it converges */
+      double complex ha = lw_sampled_plant_alias_eval (lp->plant, w, 1e-13, &ea);
+      double ma = sqrt (creal (ha) * creal (ha) + cimag (ha) * cimag (ha));
+      if (isfinite (ea) && ma > 0.0 && isfinite (ma) && ea <= LW_REL_ALIAS * ma)
+        {
+          if (plain_ok != NULL)
+            *plain_ok = false;
+          *rel = ea / ma;
+          return ha;
+        }
+    }
   double e;
   double complex h = lw_schur_eval_unit_err (lp->plant->eval, zr, zi, &e);
   double mag = sqrt (creal (h) * creal (h) + cimag (h) * cimag (h));
   double r = e / mag;
+  /* where the plant's own check found the state space worse than its bound, the bound is
+   * scaled by that factor */
+  if (kappa > 0.0)
+    r *= fmax (1.0, kappa);
   if (plain_ok != NULL)
-    *plain_ok = r <= LW_REL_QUIET;
-  if (!(r > LW_REL_ALIAS))
+    *plain_ok = r <= LW_REL_QUIET && !(kappa > 0.0);
+  if (!(r > LW_REL_ALIAS) || kappa > 0.0)
     {
-      *rel = r;
+      *rel = isnan (r) ? INFINITY : r;
       return h;
     }
-  double ea;
   double complex ha = lw_sampled_plant_alias_eval (lp->plant, w, 1e-13, &ea);
   double ma = hypot (creal (ha), cimag (ha));
   if (isfinite (ea) && isfinite (ma) && (ea < r * ma || !(r < INFINITY)))

@@ -733,7 +733,9 @@ lw_schur_eval_unit_err (LwSchurEval *h, double cos_wt, double sin_wt, double *er
       if (h->block[i] == 1)
         {
           double pr = zm1 + omt[i], pm = cabs_fast (pr, sin_wt);
-          double dpi = dp + u * fabs (omt[i]) + gam * pm;
+          /* the stored T_ii (e^{λT} near 1 when sampling fast) carries a rounding of u·|T_ii|,
+           * which is large against 1 − T_ii: perturb the diagonal by that, not by u·|1 − T_ii| */
+          double dpi = dp + gam * (fabs (1.0 - omt[i]) + fabs (omt[i])) + gam * pm;
           av[i] = cabs_fast (h->xr[i], h->xi[i]);
           q[i] = gam * av[i] + (g1 + dpi * av[i]) / pm;
         }
@@ -752,8 +754,9 @@ lw_schur_eval_unit_err (LwSchurEval *h, double cos_wt, double sin_wt, double *er
           double det = cabs_fast (detr, deti);
           double a1 = cabs_fast (h->xr[i], h->xi[i]), a2 = cabs_fast (h->xr[i + 1], h->xi[i + 1]);
           /* the determinant's own rounding and that of the block's entries */
-          double ddet = gam * (am * dm + t12 * t21) + (dp + u * fabs (omt[i])) * dm
-                        + (dp + u * fabs (omt[i + 1])) * am;
+          double ddet = gam * (am * dm + t12 * t21)
+                        + (dp + gam * (fabs (1.0 - omt[i]) + fabs (omt[i]))) * dm
+                        + (dp + gam * (fabs (1.0 - omt[i + 1]) + fabs (omt[i + 1]))) * am;
           double r1 = g1 + gam * (am * a1 + t12 * a2);
           double r2 = g2 + gam * (t21 * a1 + dm * a2);
           av[i] = a1;

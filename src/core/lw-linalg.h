@@ -59,7 +59,8 @@ double complex lw_schur_eval (LwSchurEval *h, double complex x);
 double complex lw_schur_eval_unit (LwSchurEval *h, double cos_wt, double sin_wt);
 /* lw_schur_eval_unit, with a running (componentwise) bound on its absolute rounding error in
  * *err_abs: the back substitution repeated on absolute values, every stored entry of T, B, C, D
- * perturbed by u·(n + 4) relative (u = 2⁻⁵³) and every error already made carried along. It
+ * perturbed by u·(n + 4) relative (u = 2⁻⁵³; the diagonal by that of T_ii, not of the exactly
+ * stored 1 − T_ii) and every error already made carried along. It
  * treats the realization's entries as exact to their own rounding; it is an estimate, a few
  * times above the error seen against 50-digit arithmetic (tests/core/test-evaluate.c). About one
  * and a half back substitutions; NaN value and INFINITY bound where xI − T is singular. */
