@@ -203,6 +203,8 @@ static LwStatus
 balance_scaling (LwSs *s, LwError *err)
 {
   size_t n = s->n;
+  if (n == 0)
+    return LW_OK;
   lapack_int ilo, ihi;
   double *scale = alloc_doubles (n);
   if (scale == NULL)
@@ -222,6 +224,12 @@ balance_scaling (LwSs *s, LwError *err)
     }
   free (scale);
   return LW_OK;
+}
+
+LwStatus
+lw_ss_balance (LwSs *s, LwError *err)
+{
+  return balance_scaling (s, err);
 }
 
 /* After A ← Qᵀ A Q (done by the caller): B ← Qᵀ B, C ← C Q, and the entries below the first

@@ -37,6 +37,10 @@ LwSs *lw_ss_new (size_t n);
 void lw_ss_free (LwSs *s);
 LwSs *lw_ss_copy (const LwSs *s);
 
+/* Balances A by a diagonal similarity (LAPACK dgebal, scaling only); B and C are scaled with
+ * it, so the transfer function is unchanged. */
+LwStatus lw_ss_balance (LwSs *s, LwError *err);
+
 /* Balances A by a diagonal similarity (LAPACK dgebal, scaling only) and reduces it to upper
  * Hessenberg form by an orthogonal similarity (dgehrd/dorghr); B and C are transformed with it,
  * so the transfer function is unchanged. Entries below the first subdiagonal are set to 0. */
