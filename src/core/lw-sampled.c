@@ -444,44 +444,63 @@ lw_sampled_plant_response (const LwSampledPlant *p, double omega_rad_s)
   return h;
 }
 
-/* P(s)·e^{−sθ}/s at s = jΩ from the factored continuous plant, zeros and poles interleaved so
- * that the running product stays in range; *abs_out its modulus. */
+/* Keeps a running product within range: a factor 1e±100 moved into a decimal exponent. */
+static inline void
+rescale (double *re, double *im, int *e100)
+{
+  double a = fabs (*re) + fabs (*im);
+  if (a > 1e100)
+    {
+      *re *= 1e-100;
+      *im *= 1e-100;
+      (*e100)++;
+    }
+  else if (a < 1e-100 && a > 0.0)
+    {
+      *re *= 1e100;
+      *im *= 1e100;
+      (*e100)--;
+    }
+}
+
+/* P(s)·e^{−sθ}/s at s = jΩ from the factored continuous plant: numerator and denominator
+ * products accumulated apart (no division per factor), kept in range by rescale, one division
+ * at the end; *abs_out its modulus. */
 static double complex
 alias_term (const LwModel *m, double om, double th, double *abs_out)
 {
-  double ar = m->gain, ai = 0.0;
-  size_t nz = m->n_zeros, np = m->n_poles, nmax = nz > np ? nz : np;
-  for (size_t i = 0; i < nmax; i++)
+  double nr = 1.0, ni = 0.0, dr = 1.0, di = 0.0;
+  int ne = 0, de = 0;
+  size_t nz = m->n_zeros, np = m->n_poles;
+  for (size_t i = 0; i < nz; i++)
     {
-      if (i < nz)
-        {
-          double fr = -creal (m->zeros[i]), fi = om - cimag (m->zeros[i]);
-          double t = ar * fr - ai * fi;
-          ai = ar * fi + ai * fr;
-          ar = t;
-        }
-      if (i < np)
-        {
-          double fr = -creal (m->poles[i]), fi = om - cimag (m->poles[i]);
-          double den = fr * fr + fi * fi;
-          if (!(den > 0.0) || !isfinite (den))
-            {
-              double sc = fmax (fabs (fr), fabs (fi));
-              if (!(sc > 0.0) || !isfinite (sc))
-                return NAN;
-              fr /= sc; fi /= sc;
-              den = fr * fr + fi * fi;
-              ar /= sc; ai /= sc;
-            }
-          double t = (ar * fr + ai * fi) / den;
-          ai = (ai * fr - ar * fi) / den;
-          ar = t;
-        }
+      double fr = -creal (m->zeros[i]), fi = om - cimag (m->zeros[i]);
+      double t = nr * fr - ni * fi;
+      ni = nr * fi + ni * fr;
+      nr = t;
+      rescale (&nr, &ni, &ne);
     }
-  /* divided by jΩ: (ar + j ai)/(jΩ) = (ai − j ar)/Ω */
-  double t = ai / om;
-  ai = -ar / om;
-  ar = t;
+  for (size_t i = 0; i < np; i++)
+    {
+      double fr = -creal (m->poles[i]), fi = om - cimag (m->poles[i]);
+      double t = dr * fr - di * fi;
+      di = dr * fi + di * fr;
+      dr = t;
+      rescale (&dr, &di, &de);
+    }
+  /* times jΩ in the denominator: (dr + j di)·jΩ = −di·Ω + j dr·Ω */
+  double t = -di * om;
+  di = dr * om;
+  dr = t;
+  double den = dr * dr + di * di;
+  if (!(den > 0.0) || !isfinite (den) || !isfinite (nr) || !isfinite (ni))
+    return NAN;
+  double sc = m->gain / den;
+  for (int e = ne - de; e > 0; e--)
+    sc *= 1e100;
+  for (int e = ne - de; e < 0; e++)
+    sc *= 1e-100;
+  double ar = (nr * dr + ni * di) * sc, ai = (ni * dr - nr * di) * sc;
   if (th > 0.0)
     {
       double c = cos (om * th), sn = -sin (om * th);
@@ -489,7 +508,7 @@ alias_term (const LwModel *m, double om, double th, double *abs_out)
       ai = ar * sn + ai * c;
       ar = t;
     }
-  *abs_out = hypot (ar, ai);
+  *abs_out = sqrt (ar * ar + ai * ai);
   return ar + ai * I;
 }
 
