@@ -101,6 +101,15 @@ lw_cli_json_add_loop (JsonBuilder *b, const LwMargins *m)
   member_optional (b, "sensitivity_peak", m->has_sensitivity, m->sensitivity_peak);
   member_optional (b, "sensitivity_peak_rad_s", m->has_sensitivity,
                    m->sensitivity_peak_rad_s);
+  json_builder_set_member_name (b, "unresolved_gain_crossovers");
+  json_builder_add_int_value (b, (gint64) m->n_unresolved_gain_crossovers);
+  json_builder_set_member_name (b, "unresolved_phase_crossovers");
+  json_builder_add_int_value (b, (gint64) m->n_unresolved_phase_crossovers);
+  json_builder_set_member_name (b, "unresolved_bands_rad_s");
+  json_builder_begin_array (b);
+  for (size_t i = 0; i < m->n_unresolved_bands; i++)
+    lw_cli_json_add_number_array (b, m->unresolved_bands_rad_s + 2 * i, 2);
+  json_builder_end_array (b);
   json_builder_end_object (b);
 }
 

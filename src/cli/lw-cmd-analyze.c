@@ -56,6 +56,20 @@ print_margins (const LwEvaluation *ev)
   if (m->n_phase_crossovers > LW_CLI_MAX_LISTED)
     printf ("  ... and %zu more phase crossovers (all of them with --json)\n",
             m->n_phase_crossovers - LW_CLI_MAX_LISTED);
+  if (m->n_unresolved_bands > 0)
+    {
+      /* docs/conventions.md: where the error of L is above 1e-6 of |L| */
+      printf ("  not resolved in double precision: %zu band(s) of frequency", m->n_unresolved_bands);
+      if (m->n_unresolved_gain_crossovers + m->n_unresolved_phase_crossovers > 0)
+        printf (", with %zu possible gain and %zu possible phase crossover(s) not listed",
+                m->n_unresolved_gain_crossovers, m->n_unresolved_phase_crossovers);
+      printf ("\n");
+      for (size_t i = 0; i < m->n_unresolved_bands && i < 8; i++)
+        printf ("    %.6g to %.6g rad/s\n", m->unresolved_bands_rad_s[2 * i],
+                m->unresolved_bands_rad_s[2 * i + 1]);
+      if (m->n_unresolved_bands > 8)
+        printf ("    ... (%zu more in --json)\n", m->n_unresolved_bands - 8);
+    }
 
   printf ("\n");
   if (m->has_phase_margin)

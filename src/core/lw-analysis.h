@@ -54,7 +54,8 @@ double lw_warp_nu_to_omega (double nu_rad_s, double period_s);
 
 typedef struct {
   int compute_delay;      /* N >= 0, whole samples */
-  size_t n_points;        /* frequency points, >= 16; the grid ends exactly at π/T */
+  size_t n_points;        /* frequency points, >= 16; the grid ends exactly at π/T (points for a
+                           * long delay come on top, docs/conventions.md) */
   size_t n_steps;         /* step-response samples k = 0 … n_steps−1, >= 2 */
   size_t max_full_order;  /* closed-loop order (plant + controller + N + d) up to which every
                              closed-loop pole is computed (eigenvalues of the closed-loop state
@@ -75,11 +76,19 @@ typedef struct {
   size_t n_phase_crossovers;
   double *phase_crossovers_rad_s;
   double *gain_margins_db;
-  /* governing values; has_* false where none exists */
+  /* where L is not resolved (its estimated relative error above 1e-6, docs/conventions.md):
+   * crossovers that may lie there are not listed above but counted here, and the bands of ω
+   * (rad/s) where that is so, as n pairs [lo, hi] (ascending) */
+  size_t n_unresolved_gain_crossovers;
+  size_t n_unresolved_phase_crossovers;
+  size_t n_unresolved_bands;
+  double *unresolved_bands_rad_s;     /* 2·n_unresolved_bands entries */
+  /* governing values (from the listed, resolved crossovers); has_* false where none exists */
   bool has_phase_margin;  double phase_margin_deg;  double gain_crossover_rad_s;
   bool has_gain_margin;   double gain_margin_db;    double phase_crossover_rad_s;
   bool has_delay_margin;  double delay_margin_s;    double delay_margin_samples;
-  bool has_sensitivity;   double sensitivity_peak;  double sensitivity_peak_rad_s;  /* ratio */
+  /* ratio; at 0 rad/s when the supremum is the limit ω → 0 */
+  bool has_sensitivity;   double sensitivity_peak;  double sensitivity_peak_rad_s;
   bool has_bandwidth;     double bandwidth_rad_s;   /* |T| first below |T(0)|−3 dB */
 } LwMargins;
 

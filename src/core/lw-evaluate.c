@@ -25,17 +25,41 @@ lw_analysis_options_init (LwAnalysisOptions *o)
 /* ---------------------------------------------------------------------------------------- */
 /* The loop as a function of ω                                                               */
 
+/* Relative error of L below which a value counts as resolved (a crossover is reported as a
+ * number, docs/conventions.md): 1e-6 keeps a phase margin within 6e-5°, a gain margin within
+ * 1e-5 dB. */
+#define LW_REL_RESOLVED 1e-6
+/* Estimated relative error of the state-space evaluation above which the aliasing sum is
+ * tried. */
+#define LW_REL_ALIAS 1e-9
+/* Below this estimated relative error, a point counts as plainly resolved: points between such
+ * points are evaluated without an error bound of their own (LW_GRID_STRIDE apart on the grid). */
+#define LW_REL_QUIET 1e-10
+#define LW_GRID_STRIDE 8
+/* A phase crossover whose magnitude is certainly below this (a gain margin above 120 dB) is not
+ * counted as unresolved when its phase cannot be resolved. */
+#define LW_MAG_IRRELEVANT 1e-6
+
 typedef struct {
   const LwSampledPlant *plant;
   const LwModel *ctrl;        /* in z */
   double t;                 /* sample period, s */
   double omega_n;           /* Nyquist frequency π/T, rad/s */
   int delay;                /* whole samples: plant dead time + computation delay */
+  size_t order;             /* state-space order of the plant core */
   /* unwrapped phase of the delay-free part C·P_core on the grid, degrees */
   const double *grid;
   const double *core_phase;
+  const double *rel;        /* relative error estimate of L on the grid */
+  const bool *plain_ok;     /* the state space alone is plainly resolved there (LW_REL_QUIET) */
   size_t n;
 } Loop;
+
+static inline double
+cabs_fast (double complex z)
+{
+  return sqrt (creal (z) * creal (z) + cimag (z) * cimag (z));
+}
 
 static bool
 at_nyquist (const Loop *lp, double w)
@@ -62,9 +86,63 @@ root_product (const double complex *roots, size_t n, double zm1, double zi, doub
   *pi = ai;
 }
 
-/* C(z)·P_core(z) at z = e^{jωT}: everything but the whole-sample delays. */
+/* The plant core at z = e^{jωT}. With rel == NULL: the Schur back substitution alone. Otherwise
+ * with an estimate of its relative error in *rel: the back substitution with its running error
+ * bound; where that is above LW_REL_ALIAS, the aliasing sum of the factored plant, kept when its
+ * own estimate is smaller. Where the plant's own check (realization_rel, lw-sampled.c) found
+ * the state space worse than its bound, the aliasing sum first, and the bound scaled by that
+ * factor where the sum does not converge (docs/conventions.md, "Resolution"). */
 static double complex
-loop_core (const Loop *lp, double w)
+plant_core (const Loop *lp, double w, double zr, double zi, double *rel, bool *plain_ok)
+{
+  if (rel == NULL)
+    return lw_schur_eval_unit (lp->plant->eval, zr, zi);
+  double kappa = lp->plant->realization_rel, ea;
+  if (kappa > 0.0)
+    {
+      /* the plant's own check found the state space worse than its bound: the aliasing sum
+       * first, where it converges */
+      double complex ha = lw_sampled_plant_alias_eval (lp->plant, w, 1e-13, &ea);
+      double ma = sqrt (creal (ha) * creal (ha) + cimag (ha) * cimag (ha));
+      if (isfinite (ea) && ma > 0.0 && isfinite (ma) && ea <= LW_REL_ALIAS * ma)
+        {
+          if (plain_ok != NULL)
+            *plain_ok = false;
+          *rel = ea / ma;
+          return ha;
+        }
+    }
+  double e;
+  double complex h = lw_schur_eval_unit_err (lp->plant->eval, zr, zi, &e);
+  double mag = sqrt (creal (h) * creal (h) + cimag (h) * cimag (h));
+  double r = e / mag;
+  /* where the plant's own check found the state space worse than its bound, the bound is
+   * scaled by that factor */
+  if (kappa > 0.0)
+    r *= fmax (1.0, kappa);
+  if (plain_ok != NULL)
+    *plain_ok = r <= LW_REL_QUIET && !(kappa > 0.0);
+  if (!(r > LW_REL_ALIAS) || kappa > 0.0)
+    {
+      *rel = isnan (r) ? INFINITY : r;
+      return h;
+    }
+  double complex ha = lw_sampled_plant_alias_eval (lp->plant, w, 1e-13, &ea);
+  double ma = hypot (creal (ha), cimag (ha));
+  if (isfinite (ea) && isfinite (ma) && (ea < r * ma || !(r < INFINITY)))
+    {
+      *rel = ea / ma;
+      return ha;
+    }
+  *rel = isnan (r) ? INFINITY : r;
+  return h;
+}
+
+/* C(z)·P_core(z) at z = e^{jωT}: everything but the whole-sample delays. With rel != NULL, an
+ * estimate of its relative error in *rel (and the more accurate formulation where needed); with
+ * rel == NULL the plain state-space evaluation. */
+static double complex
+loop_core_eval (const Loop *lp, double w, double *rel, bool *plain_ok)
 {
   bool nyq = at_nyquist (lp, w);
   double zr = -1.0, zi = 0.0;
@@ -73,17 +151,44 @@ loop_core (const Loop *lp, double w)
       zr = cos (w * lp->t);
       zi = sin (w * lp->t);
     }
-  double complex h = lw_schur_eval_unit (lp->plant->eval, zr, zi);
+  double prel = 0.0;
+  double complex h = plant_core (lp, w, zr, zi, rel != NULL ? &prel : NULL, plain_ok);
   double zm1 = zr > 0.0 ? -(zi * zi) / (1.0 + zr) : zr - 1.0;   /* cos θ − 1 */
   const LwModel *c = lp->ctrl;
   double nr = c->gain, ni = 0.0, dr = 1.0, di = 0.0;
   root_product (c->zeros, c->n_zeros, zm1, zi, &nr, &ni);
   root_product (c->poles, c->n_poles, zm1, zi, &dr, &di);
+  if (rel != NULL)
+    *rel = prel + 1.1102230246251565e-16 * (4.0 * (double) (c->n_zeros + c->n_poles) + 8.0);
   /* h · num / den */
   double den = dr * dr + di * di;
   double qr = (nr * dr + ni * di) / den, qi = (ni * dr - nr * di) / den;
   double hr = creal (h), hi = cimag (h);
   return (hr * qr - hi * qi) + (hr * qi + hi * qr) * I;
+}
+
+static double complex
+loop_core_rel (const Loop *lp, double w, double *rel)
+{
+  return loop_core_eval (lp, w, rel, NULL);
+}
+
+static size_t grid_interval (const Loop *lp, double w);
+
+
+/* C·P_core at any ω, for the refinements: plain where the grid around ω is well resolved, with
+ * the error-aware evaluation otherwise (and before the grid exists). */
+static double complex
+loop_core (const Loop *lp, double w)
+{
+  double r;
+  if (lp->plain_ok != NULL && lp->n > 1 && w >= lp->grid[0] && w <= lp->grid[lp->n - 1])
+    {
+      size_t i = grid_interval (lp, w);
+      if (lp->plain_ok[i] && lp->plain_ok[i + 1 < lp->n ? i + 1 : i])
+        return loop_core_eval (lp, w, NULL, NULL);
+    }
+  return loop_core_eval (lp, w, &r, NULL);
 }
 
 /* The whole-sample delay's phase, degrees (exact, continuous in ω). */
@@ -327,8 +432,32 @@ count_unit_roots (const double complex *r, size_t n)
   return k;
 }
 
+/* Merges two ascending arrays into out (strictly ascending, duplicates dropped); returns the
+ * count written. */
+static size_t
+merge_sorted (const double *a, size_t na, const double *b, size_t nb, double *out)
+{
+  size_t ia = 0, ib = 0, m = 0;
+  while (ia < na || ib < nb)
+    {
+      double v = (ib >= nb || (ia < na && a[ia] <= b[ib])) ? a[ia++] : b[ib++];
+      if (m == 0 || v > out[m - 1])
+        out[m++] = v;
+    }
+  return m;
+}
+
+/* The most points added to resolve the phase of a long whole-sample delay. */
+#define LW_DELAY_POINTS_MAX 200000
+/* The delay's phase moves at most this much (rad) between grid points where they are added. */
+#define LW_DELAY_STEP_RAD 0.25
+
 /* Builds the grid: log-spaced from ω_lo to π/T (the end point exact), plus points clustered
- * around every lightly damped corner (ζ < 0.3) below the Nyquist frequency. */
+ * around every lightly damped corner (ζ < 0.3) below the Nyquist frequency, plus linearly
+ * spaced points where a long whole-sample delay would turn the phase by more than
+ * LW_DELAY_STEP_RAD between log-spaced points. ω_lo lies below the slowest corner of plant and
+ * controller (on the low-frequency asymptote), and with integrators (or zeros at s = 0) low
+ * enough that |L| is at least 10 (at most 0.1) there, so no crossover lies below the grid. */
 static LwStatus
 build_grid (const Loop *lp, const LwModel *plant_s, int n_int, size_t n_points, double **grid_out,
             size_t *n_out, LwError *err)
@@ -349,18 +478,33 @@ build_grid (const Loop *lp, const LwModel *plant_s, int n_int, size_t n_points, 
       if (fabs (corners[i].zeta) < 0.3 && corners[i].wn < wn_top)
         n_res++;
     }
+  /* the floor keeps ωT far above the range where sin²(ωT) underflows */
+  double wfloor = wn_top * 1e-140;
   double wlo = isfinite (wmin_corner) ? wmin_corner / 50.0 : wn_top * 1e-4;
-  wlo = fmin (fmax (wlo, wn_top * 1e-6), wn_top * 1e-2);
+  wlo = fmax (fmin (wlo, wn_top * 1e-2), wfloor);
   /* With integrators the gain crossover can lie below every corner: lower ω_lo until the
-   * low-frequency asymptote is well above 0 dB there (|L| >= 10). */
-  if (n_int > 0)
-    for (int it = 0; it < 8; it++)
+   * low-frequency asymptote |L| ∝ ω^−k is well above 0 dB there (|L| >= 10); with zeros at
+   * s = 0 (k < 0) until it is well below (|L| <= 0.1). */
+  if (n_int != 0)
+    for (int it = 0; it < 40 && wlo > wfloor; it++)
       {
         double mag = cabs (loop_core (lp, wlo));
-        if (!(mag < 10.0) || wlo <= wn_top * 1e-12)
+        if (!isfinite (mag))
           break;
-        wlo *= fmax (pow (mag / 10.0, 1.0 / n_int) * 0.5, 1e-3);
-        wlo = fmax (wlo, wn_top * 1e-12);
+        double f;
+        if (n_int > 0)
+          {
+            if (mag >= 10.0)
+              break;
+            f = 2.0 * pow (10.0 / fmax (mag, 1e-300), 1.0 / n_int);
+          }
+        else
+          {
+            if (mag <= 0.1)
+              break;
+            f = 2.0 * pow (mag / 0.1, 1.0 / -n_int);
+          }
+        wlo = fmax (wlo / fmin (f, 1e30), wfloor);
       }
 
   size_t per_res = 0;
@@ -376,13 +520,40 @@ build_grid (const Loop *lp, const LwModel *plant_s, int n_int, size_t n_points, 
   if (n_extra > n_points / 2)
     n_extra = 0, per_res = 0;
   size_t n_base = n_points - n_extra;
-  double *g = calloc (n_points, sizeof *g);
-  if (g == NULL)
+  double l0 = log (wlo), l1 = log (wn_top);
+
+  /* the delay's phase ωTD moves by ωTD·Δ(ln ω) between log-spaced points: above ω_d, where
+   * that exceeds LW_DELAY_STEP_RAD, add points every LW_DELAY_STEP_RAD/(TD) rad/s (at most
+   * LW_DELAY_POINTS_MAX; beyond that the spacing widens) */
+  size_t n_dly = 0;
+  double wd0 = 0.0, dwd = 0.0;
+  if (lp->delay > 0)
+    {
+      double td = lp->t * (double) lp->delay, dl = (l1 - l0) / (double) (n_base - 1);
+      wd0 = LW_DELAY_STEP_RAD / (td * dl);
+      if (wd0 < wn_top)
+        {
+          wd0 = fmax (wd0, wlo);
+          dwd = LW_DELAY_STEP_RAD / td;
+          double cnt = ceil ((wn_top - wd0) / dwd);
+          if (cnt > LW_DELAY_POINTS_MAX)
+            {
+              cnt = LW_DELAY_POINTS_MAX;
+              dwd = (wn_top - wd0) / cnt;
+            }
+          n_dly = cnt > 1 ? (size_t) cnt - 1 : 0;
+        }
+    }
+
+  size_t total = n_points + n_dly;
+  double *g = calloc (total, sizeof *g), *merged = malloc (total * sizeof *merged);
+  if (g == NULL || merged == NULL)
     {
       free (corners);
+      free (g);
+      free (merged);
       return lw_error_set (err, LW_ERR_NOMEM, -1, "out of memory for the frequency grid");
     }
-  double l0 = log (wlo), l1 = log (wn_top);
   for (size_t i = 0; i < n_base; i++)
     g[i] = exp (l0 + (l1 - l0) * (double) i / (double) (n_base - 1));
   g[0] = wlo;
@@ -405,22 +576,17 @@ build_grid (const Loop *lp, const LwModel *plant_s, int n_int, size_t n_points, 
   /* the base grid is sorted; sort the clustered points (few) and merge them in */
   size_t ne = k - n_base;
   qsort (g + n_base, ne, sizeof *g, cmp_double);
-  double *merged = malloc ((k == 0 ? 1 : k) * sizeof *merged);
-  if (merged == NULL)
+  size_t m = merge_sorted (g, n_base, g + n_base, ne, merged);
+  if (n_dly > 0)
     {
-      free (g);
-      return lw_error_set (err, LW_ERR_NOMEM, -1, "out of memory for the frequency grid");
-    }
-  size_t ia = 0, ib = n_base, m = 0;
-  while (ia < n_base || ib < k)
-    {
-      double v = (ib >= k || (ia < n_base && g[ia] <= g[ib])) ? g[ia++] : g[ib++];
-      if (m == 0 || v > merged[m - 1])
-        merged[m++] = v;
+      /* the delay points (ascending) go after the merged ones in g, then one more merge */
+      for (size_t i = 0; i < n_dly; i++)
+        g[i] = fmin (wd0 + dwd * (double) (i + 1), wn_top);
+      memcpy (g + n_dly, merged, m * sizeof *g);
+      m = merge_sorted (g + n_dly, m, g, n_dly, merged);
     }
   free (g);
-  g = merged;
-  *grid_out = g;
+  *grid_out = merged;
   *n_out = m;
   return LW_OK;
 }
@@ -1137,18 +1303,32 @@ lw_step_figures (LwStep *s, double period_s)
 /* ---------------------------------------------------------------------------------------- */
 /* Margins                                                                                    */
 
+/* Sorts crossover frequencies ascending and drops exact duplicates; returns the new count. */
+static size_t
+sort_unique (double *v, size_t n)
+{
+  qsort (v, n, sizeof *v, cmp_double);
+  size_t m = 0;
+  for (size_t i = 0; i < n; i++)
+    if (m == 0 || v[i] > v[m - 1])
+      v[m++] = v[i];
+  return m;
+}
+
 static LwStatus
-find_margins (const Loop *lp, const double *mag_db, const double complex *full, LwMargins *mg,
-              LwError *err)
+find_margins (const Loop *lp, const double *mag_db, const double complex *full, int n_int,
+              LwMargins *mg, LwError *err)
 {
   size_t n = lp->n;
   const double *w = lp->grid;
-  size_t cap = 16, ngc = 0, npc = 0;
+  const double *rel = lp->rel;
+  size_t cap = 16, ngc = 0, npc = 0, nb = 0;
   double *gc = malloc (cap * sizeof *gc), *pc = malloc (cap * sizeof *pc);
-  size_t capg = cap, capp = cap;
-  if (gc == NULL || pc == NULL)
+  double *bands = malloc (cap * sizeof *bands);
+  size_t capg = cap, capp = cap, capb = cap;
+  if (gc == NULL || pc == NULL || bands == NULL)
     {
-      free (gc); free (pc);
+      free (gc); free (pc); free (bands);
       return lw_error_set (err, LW_ERR_NOMEM, -1, "out of memory for the margins");
     }
 #define PUSH(arr, cnt, capv, val)                                             \
@@ -1156,37 +1336,43 @@ find_margins (const Loop *lp, const double *mag_db, const double complex *full, 
     if ((cnt) == (capv))                                                      \
       {                                                                       \
         double *nw = realloc ((arr), 2 * (capv) * sizeof *(arr));             \
-        if (nw == NULL) { free (gc); free (pc);                               \
+        if (nw == NULL) { free (gc); free (pc); free (bands);                 \
           return lw_error_set (err, LW_ERR_NOMEM, -1, "out of memory"); }     \
         (arr) = nw; (capv) *= 2;                                              \
       }                                                                       \
     (arr)[(cnt)++] = (val);                                                   \
   } while (0)
+#define OK(i) (rel[(i)] <= LW_REL_RESOLVED && isfinite (mag_db[(i)]))
 
-  /* gain crossovers: sign changes of ln|L| between grid points (a grid value of exactly 0 dB
-   * counts once, at that point) */
+  /* gain crossovers: sign changes of ln|L| between resolved grid points (a grid value of
+   * exactly 0 dB counts once, at that point), each refined and kept when resolved there */
   for (size_t i = 0; i + 1 < n; i++)
     {
-      double f0 = mag_db[i], f1 = mag_db[i + 1];
-      if (!isfinite (f0) || !isfinite (f1))
+      if (!OK (i) || !OK (i + 1))
         continue;
+      double f0 = mag_db[i], f1 = mag_db[i + 1];
       if (f0 == 0.0)
         PUSH (gc, ngc, capg, w[i]);
       else if ((f0 > 0) != (f1 > 0) && f1 != 0.0)
         {
-          double a = log (10.0) / 20.0;
-          PUSH (gc, ngc, capg, brent_root (fn_log_mag, (void *) lp, w[i], w[i + 1], f0 * a, f1 * a));
+          double a = log (10.0) / 20.0, r;
+          double x = brent_root (fn_log_mag, (void *) lp, w[i], w[i + 1], f0 * a, f1 * a);
+          loop_core_rel (lp, x, &r);
+          if (r <= LW_REL_RESOLVED)
+            PUSH (gc, ngc, capg, x);
+          else
+            mg->n_unresolved_gain_crossovers++;
         }
     }
-  if (n > 0 && mag_db[n - 1] == 0.0)
+  if (n > 0 && OK (n - 1) && mag_db[n - 1] == 0.0)
     PUSH (gc, ngc, capg, w[n - 1]);
 
   /* phase crossovers: the unwrapped phase passes an odd multiple of 180° strictly inside an
-   * interval; the Nyquist end point is handled on its own below */
+   * interval between resolved points; the Nyquist end point is handled on its own below */
   double nyq_phase = lp->core_phase[n - 1] + delay_phase_deg (lp, w[n - 1]);
   for (size_t i = 0; i + 1 < n; i++)
     {
-      if (!isfinite (mag_db[i]) || !isfinite (mag_db[i + 1]))
+      if (!OK (i) || !OK (i + 1))
         continue;
       double p0 = lp->core_phase[i] + delay_phase_deg (lp, w[i]);
       double p1 = lp->core_phase[i + 1] + delay_phase_deg (lp, w[i + 1]);
@@ -1201,15 +1387,82 @@ find_margins (const Loop *lp, const double *mag_db, const double complex *full, 
           if (p0 == c && i > 0)
             continue;                        /* counted at the end of the previous interval */
           PhaseTarget pt = { lp, c };
-          PUSH (pc, npc, capp, brent_root (fn_phase, &pt, w[i], w[i + 1], p0 - c, p1 - c));
+          double r, x = brent_root (fn_phase, &pt, w[i], w[i + 1], p0 - c, p1 - c);
+          loop_core_rel (lp, x, &r);
+          if (r <= LW_REL_RESOLVED)
+            PUSH (pc, npc, capp, x);
+          else
+            mg->n_unresolved_phase_crossovers++;
         }
     }
+  /* at π/T, where L is real: a phase crossover when L is negative there and resolved — not where
+   * L is zero within its error (e.g. a zero at z = −1) */
   {
     double m = round ((nyq_phase - 180.0) / 360.0);
-    if (isfinite (mag_db[n - 1]) && fabs (nyq_phase - (180.0 + 360.0 * m)) <= 1e-9)
+    if (OK (n - 1) && fabs (nyq_phase - (180.0 + 360.0 * m)) <= 1e-9)
       PUSH (pc, npc, capp, w[n - 1]);
   }
+
+  /* runs of grid points where L is not resolved: each is a band; it counts one unresolved gain
+   * crossover when |L| = 1 is possible in it (within the error, or between its resolved
+   * neighbours), and one unresolved phase crossover when its phase is unknown (relative error
+   * >= 0.5) or passes an odd multiple of 180° — unless |L| is certainly below
+   * LW_MAG_IRRELEVANT there (a gain margin above 120 dB) */
+  for (size_t i = 0; i < n;)
+    {
+      if (OK (i))
+        {
+          i++;
+          continue;
+        }
+      size_t a = i, b = i;
+      while (b + 1 < n && !OK (b + 1))
+        b++;
+      i = b + 1;
+      double lo_mag = INFINITY, hi_mag = 0.0;
+      bool phase_unknown = false, phase_passes = false;
+      size_t from = a > 0 ? a - 1 : a, to = b + 1 < n ? b + 1 : b;
+      double pprev = 0.0;
+      for (size_t j = from; j <= to; j++)
+        {
+          double mag = pow (10.0, mag_db[j] / 20.0), r = rel[j];
+          if (!isfinite (mag_db[j]))
+            mag = mag_db[j] > 0 ? INFINITY : 0.0, r = INFINITY;
+          double e = isfinite (r) ? r * mag : INFINITY;
+          lo_mag = fmin (lo_mag, fmax (mag - e, 0.0));
+          hi_mag = fmax (hi_mag, mag + e);
+          if (j >= a && j <= b && !(r < 0.5))
+            phase_unknown = true;
+          double p = lp->core_phase[j] + delay_phase_deg (lp, w[j]);
+          if (j > from
+              && floor ((fmax (p, pprev) - 180.0) / 360.0) != floor ((fmin (p, pprev) - 180.0) / 360.0))
+            phase_passes = true;
+          pprev = p;
+        }
+      bool any = false;
+      if (lo_mag <= 1.0 && hi_mag >= 1.0)
+        {
+          mg->n_unresolved_gain_crossovers++;
+          any = true;
+        }
+      if (hi_mag >= LW_MAG_IRRELEVANT && (phase_unknown || phase_passes))
+        {
+          mg->n_unresolved_phase_crossovers++;
+          any = true;
+        }
+      (void) any;
+      PUSH (bands, nb, capb, w[a]);
+      PUSH (bands, nb, capb, w[b]);
+    }
+#undef OK
 #undef PUSH
+
+  /* a crossover refined from a neighbouring interval can land in another's place; keep the
+   * lists ascending (docs/cli.md) */
+  ngc = sort_unique (gc, ngc);
+  npc = sort_unique (pc, npc);
+  mg->n_unresolved_bands = nb / 2;
+  mg->unresolved_bands_rad_s = bands;
 
   mg->n_gain_crossovers = ngc;
   mg->gain_crossovers_rad_s = gc;
@@ -1280,6 +1533,33 @@ find_margins (const Loop *lp, const double *mag_db, const double complex *full, 
           {
             wbest = w[imax];
             fbest = smax;
+          }
+        /* the supremum may lie at ω → 0, below the grid (an unstable plant: |S| rises to
+         * 1/|1 + L(1)|): the limit is L at z = 1 when the loop has no integrator or
+         * differentiator (with k > 0 integrators S → 0, with k < 0, S → 1) */
+        double s0 = -1.0;
+        if (n_int > 0)
+          s0 = 0.0;
+        else if (n_int < 0)
+          s0 = 1.0;
+        else if (lp->plant->n_integrators == 0)
+          {
+            const LwModel *c = lp->ctrl;
+            double nr = c->gain, ni = 0.0, dr = 1.0, di = 0.0;
+            root_product (c->zeros, c->n_zeros, 0.0, 0.0, &nr, &ni);
+            root_product (c->poles, c->n_poles, 0.0, 0.0, &dr, &di);
+            double complex h = lw_schur_eval_unit (lp->plant->eval, 1.0, 0.0);
+            double cr = nr / dr;   /* C(1) is real */
+            if (dr != 0.0 && isfinite (cr) && isfinite (creal (h)))
+              {
+                double l0 = cr * creal (h);   /* z^-d is 1 at z = 1 */
+                s0 = 1.0 / fabs (1.0 + l0);
+              }
+          }
+        if (s0 > fbest && isfinite (s0))
+          {
+            fbest = s0;
+            wbest = 0.0;
           }
         mg->has_sensitivity = true;
         mg->sensitivity_peak = fbest;
@@ -1377,6 +1657,7 @@ lw_evaluation_free (LwEvaluation *ev)
   free (ev->margins.phase_margins_deg);
   free (ev->margins.phase_crossovers_rad_s);
   free (ev->margins.gain_margins_db);
+  free (ev->margins.unresolved_bands_rad_s);
   free (ev->closed_loop_poles);
   free (ev->step.samples);
   free (ev);
@@ -1412,7 +1693,8 @@ lw_evaluate (const LwSampledPlant *plant, const LwModel *controller_z,
   LwSs *css = NULL;
   ClosedLoop cl = { 0 };
   double complex *core = NULL;
-  double *core_phase = NULL;
+  double *core_phase = NULL, *rel = NULL;
+  bool *plain_ok = NULL;
 
   ev->period_s = t;
   ev->compute_delay = opts->compute_delay;
@@ -1432,7 +1714,7 @@ lw_evaluate (const LwSampledPlant *plant, const LwModel *controller_z,
     }
 
   Loop lp = { .plant = plant, .ctrl = ev->controller_z, .t = t, .omega_n = LW_PI / t,
-              .delay = plant->whole_delay + opts->compute_delay };
+              .delay = plant->whole_delay + opts->compute_delay, .order = plant->core->n };
   int n_int = plant->n_integrators
               + count_unit_roots (controller_z->poles, controller_z->n_poles)
               - count_unit_roots (controller_z->zeros, controller_z->n_zeros);
@@ -1447,14 +1729,57 @@ lw_evaluate (const LwSampledPlant *plant, const LwModel *controller_z,
   ev->loop_phase_deg = calloc (n, sizeof (double));
   core = calloc (n, sizeof *core);
   core_phase = calloc (n, sizeof (double));
-  if (ev->loop_mag_db == NULL || ev->loop_phase_deg == NULL || core == NULL || core_phase == NULL)
+  rel = calloc (n, sizeof (double));
+  plain_ok = calloc (n, sizeof (bool));
+  if (plain_ok == NULL || ev->loop_mag_db == NULL || ev->loop_phase_deg == NULL || core == NULL || core_phase == NULL
+      || rel == NULL)
     {
       st = lw_error_set (err, LW_ERR_NOMEM, -1, "out of memory for the frequency response");
       goto fail;
     }
+  /* the response with an estimate of its relative error at every point: the error-aware
+   * evaluation (running bound, and the aliasing sum where the state space is not accurate
+   * enough) on every LW_GRID_STRIDE-th point and at π/T; between them the absolute error, which
+   * varies slowly with ω, is taken as the larger of theirs and divided by the local |L|, and a
+   * point whose estimate so found is above LW_REL_QUIET (or whose neighbours were not plainly
+   * resolved) gets the error-aware evaluation of its own */
   for (size_t i = 0; i < n; i++)
     {
-      core[i] = loop_core (&lp, ev->omega_rad_s[i]);
+      bool full = i % LW_GRID_STRIDE == 0 || i + 1 == n;
+      plain_ok[i] = false;
+      core[i] = loop_core_eval (&lp, ev->omega_rad_s[i], full ? &rel[i] : NULL,
+                                full ? &plain_ok[i] : NULL);
+      if (!full)
+        rel[i] = NAN;
+      else if (!(rel[i] <= INFINITY))
+        rel[i] = INFINITY;
+    }
+  for (size_t i = 0; i < n; i++)
+    {
+      if (!isnan (rel[i]))
+        continue;
+      size_t a = i - i % LW_GRID_STRIDE, b = a + LW_GRID_STRIDE < n ? a + LW_GRID_STRIDE : n - 1;
+      bool need = !(plain_ok[a] && plain_ok[b]);
+      if (!need)
+        {
+          double ea = rel[a] * cabs_fast (core[a]), eb = rel[b] * cabs_fast (core[b]);
+          double ri = fmax (ea, eb) / cabs_fast (core[i]);
+          need = !(ri <= LW_REL_QUIET);
+          if (!need)
+            {
+              rel[i] = ri;
+              plain_ok[i] = true;
+            }
+        }
+      if (need)
+        {
+          core[i] = loop_core_eval (&lp, ev->omega_rad_s[i], &rel[i], &plain_ok[i]);
+          if (!(rel[i] <= INFINITY))
+            rel[i] = INFINITY;
+        }
+    }
+  for (size_t i = 0; i < n; i++)
+    {
       double re = creal (core[i]), im = cimag (core[i]);
       ev->loop_mag_db[i] = (10.0 / LW_LN10) * log (re * re + im * im);
     }
@@ -1467,10 +1792,11 @@ lw_evaluate (const LwSampledPlant *plant, const LwModel *controller_z,
       ph = nearest_branch (ph, expect - 180.0);
     core_phase[0] = ph;
     /* at a zero of L on the unit circle (e.g. z = −1 from a controller that is strictly proper
-     * in w) the phase is undefined: hold the previous value there; the magnitude is −∞ dB and
-     * no crossover is placed at or next to such a point */
+     * in w) the phase is undefined, and where the error of L is half its size or more it is
+     * unknown: hold the previous value there; no crossover is placed at such a point */
     for (size_t i = 1; i < n; i++)
-      core_phase[i] = (ev->loop_mag_db[i] > -HUGE_VAL && isfinite (ev->loop_mag_db[i]))
+      core_phase[i] = (ev->loop_mag_db[i] > -HUGE_VAL && isfinite (ev->loop_mag_db[i])
+                       && rel[i] < 0.5)
                         ? nearest_branch (carg (core[i]) * RAD2DEG, core_phase[i - 1])
                         : core_phase[i - 1];
     for (size_t i = 0; i < n; i++)
@@ -1478,6 +1804,8 @@ lw_evaluate (const LwSampledPlant *plant, const LwModel *controller_z,
   }
   lp.grid = ev->omega_rad_s;
   lp.core_phase = core_phase;
+  lp.rel = rel;
+  lp.plain_ok = plain_ok;
   lp.n = n;
   /* the full loop on the grid, for the sensitivity and bandwidth scans (reuses core[]) */
   for (size_t i = 0; i < n; i++)
@@ -1496,7 +1824,7 @@ lw_evaluate (const LwSampledPlant *plant, const LwModel *controller_z,
           core[i] = (re * c - im * sn) + (re * sn + im * c) * I;
         }
     }
-  st = find_margins (&lp, ev->loop_mag_db, core, &ev->margins, err);
+  st = find_margins (&lp, ev->loop_mag_db, core, n_int, &ev->margins, err);
   if (st != LW_OK)
     goto fail;
 
@@ -1601,6 +1929,8 @@ lw_evaluate (const LwSampledPlant *plant, const LwModel *controller_z,
 
   free (core);
   free (core_phase);
+  free (rel);
+  free (plain_ok);
   lw_ss_free (css);
   closed_loop_free (&cl);
   *out = ev;
@@ -1609,6 +1939,8 @@ lw_evaluate (const LwSampledPlant *plant, const LwModel *controller_z,
 fail:
   free (core);
   free (core_phase);
+  free (rel);
+  free (plain_ok);
   lw_ss_free (css);
   closed_loop_free (&cl);
   lw_evaluation_free (ev);

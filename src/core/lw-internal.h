@@ -24,6 +24,18 @@ LwStatus lw_zoh_blocks (const LwSs *c, double h, double *phi, double *gam, LwErr
 LwStatus lw_check_loop_controller (const LwSampledPlant *plant, const LwModel *controller_z,
                                    int compute_delay, LwError *err);
 
+/* P_core(e^{jωT}) — the sampled plant with its fractional dead time θ, without the whole-sample
+ * delay — from the factored continuous plant through the aliasing (Poisson) sum
+ *   P_core(e^{jωT}) = (1 − e^{−jωT})/T · Σ_k P(jΩ_k)·e^{−jΩ_kθ}/(jΩ_k),  Ω_k = ω + 2πk/T,
+ * each term to full relative accuracy from the factors, summed until the tail (terms fall like
+ * |k|^−(r+1), r the relative degree, once |Ω| > 4·max|root|) is below rel_target/10 of the sum;
+ * NaN where that needs more than 2048 pairs of terms.
+ * *err_abs: an estimate of the absolute error (the terms' roundings, the summation and the
+ * tail). Needs relative degree >= 2 (the tail converges too slowly otherwise): NaN and
+ * *err_abs = ∞ where it does not apply. ω in rad/s. */
+double complex lw_sampled_plant_alias_eval (const LwSampledPlant *p, double omega_rad_s,
+                                            double rel_target, double *err_abs);
+
 struct LwSampledPlant {
   double period_s;
   double dead_time_s;
@@ -33,5 +45,8 @@ struct LwSampledPlant {
   LwSs *core;               /* ZOH of plant with θ, balanced, real Schur form; order n or n+1 */
   LwSchurEval *eval;        /* evaluator for core (not thread-safe: one per plant) */
   int n_integrators;        /* plant poles at s = 0 minus zeros at s = 0 */
+  double realization_rel;   /* factor by which the state space's error exceeds its back
+                               substitution's running bound, measured against the aliasing sum
+                               (0: never, or not measurable); docs/conventions.md */
   LwModel *model;               /* the sampled plant factored, for display (computed once) */
 };

@@ -203,6 +203,8 @@ static LwStatus
 balance_scaling (LwSs *s, LwError *err)
 {
   size_t n = s->n;
+  if (n == 0)
+    return LW_OK;
   lapack_int ilo, ihi;
   double *scale = alloc_doubles (n);
   if (scale == NULL)
@@ -222,6 +224,12 @@ balance_scaling (LwSs *s, LwError *err)
     }
   free (scale);
   return LW_OK;
+}
+
+LwStatus
+lw_ss_balance (LwSs *s, LwError *err)
+{
+  return balance_scaling (s, err);
 }
 
 /* After A ← Qᵀ A Q (done by the caller): B ← Qᵀ B, C ← C Q, and the entries below the first
@@ -515,6 +523,7 @@ struct LwSchurEval {
   double *xr, *xi;
   double *wr, *wi;          /* second solve, for the derivative */
   double *one_minus_diag;   /* 1 − T_ii, exact for T_ii in [0.5, 2] (Sterbenz) */
+  double *t_abs;            /* |T| row-major, for the running error bound */
 };
 
 LwSchurEval *
@@ -535,7 +544,8 @@ lw_schur_eval_new (const LwSs *s)
   h->wr = alloc_doubles (n);
   h->wi = alloc_doubles (n);
   h->one_minus_diag = alloc_doubles (n);
-  if (h->one_minus_diag == NULL || h->t_rows == NULL || h->b == NULL || h->c == NULL || h->xr == NULL || h->xi == NULL
+  h->t_abs = alloc_doubles (n * n);
+  if (h->t_abs == NULL || h->one_minus_diag == NULL || h->t_rows == NULL || h->b == NULL || h->c == NULL || h->xr == NULL || h->xi == NULL
       || h->block == NULL || h->wr == NULL || h->wi == NULL)
     {
       lw_schur_eval_free (h);
@@ -543,7 +553,10 @@ lw_schur_eval_new (const LwSs *s)
     }
   for (size_t i = 0; i < n; i++)
     for (size_t j = 0; j < n; j++)
-      h->t_rows[i * n + j] = s->a[i + j * n];
+      {
+        h->t_rows[i * n + j] = s->a[i + j * n];
+        h->t_abs[i * n + j] = fabs (s->a[i + j * n]);
+      }
   memcpy (h->b, s->b, n * sizeof (double));
   memcpy (h->c, s->c, n * sizeof (double));
   for (size_t i = 0; i < n; i++)
@@ -576,6 +589,7 @@ lw_schur_eval_free (LwSchurEval *h)
   free (h->wr);
   free (h->wi);
   free (h->one_minus_diag);
+  free (h->t_abs);
   free (h);
 }
 
@@ -666,7 +680,6 @@ lw_schur_eval_unit (LwSchurEval *h, double cos_wt, double sin_wt)
   double yr = h->d, yi = 0.0;
   if (n == 0)
     return yr;
-  /* cos θ − 1 = −sin²θ / (1 + cos θ) without cancellation when cos θ > 0 */
   double zm1 = cos_wt > 0.0 ? -(sin_wt * sin_wt) / (1.0 + cos_wt) : cos_wt - 1.0;
   if (!schur_solve (h, zm1, sin_wt, h->b, NULL, h->xr, h->xi))
     return NAN + NAN * I;
@@ -675,6 +688,99 @@ lw_schur_eval_unit (LwSchurEval *h, double cos_wt, double sin_wt)
       yr += h->c[i] * h->xr[i];
       yi += h->c[i] * h->xi[i];
     }
+  return yr + yi * I;
+}
+
+/* cos θ − 1 = −sin²θ / (1 + cos θ) without cancellation when cos θ > 0 */
+static double
+unit_zm1 (double cos_wt, double sin_wt)
+{
+  return cos_wt > 0.0 ? -(sin_wt * sin_wt) / (1.0 + cos_wt) : cos_wt - 1.0;
+}
+
+/* |a + jb| without the overflow guard of hypot (a libm call per element); the magnitudes here
+ * stay far inside the double range or the bound is meaningless anyway */
+static inline double
+cabs_fast (double a, double b)
+{
+  return sqrt (a * a + b * b);
+}
+
+double complex
+lw_schur_eval_unit_err (LwSchurEval *h, double cos_wt, double sin_wt, double *err_abs)
+{
+  size_t n = h->n;
+  const double u = 1.1102230246251565e-16;
+  if (n == 0)
+    {
+      *err_abs = u * fabs (h->d);
+      return h->d;
+    }
+  double zm1 = unit_zm1 (cos_wt, sin_wt);
+  if (!schur_solve (h, zm1, sin_wt, h->b, NULL, h->xr, h->xi))
+    {
+      *err_abs = INFINITY;
+      return NAN + NAN * I;
+    }
+  const double *omt = h->one_minus_diag, *ta = h->t_abs;
+  double *av = h->wr, *q = h->wi;      /* |v_j|, and γ|v_j| + (bound on |δv_j|) */
+  double gam = u * (double) (n + 4);
+  double dp = u * fabs (zm1);          /* rounding of x − t_ii = zm1 + (1 − t_ii) */
+  double s2 = sin_wt * sin_wt;
+  for (size_t ii = n; ii-- > 0;)
+    {
+      if (h->block[ii] == 0)
+        continue;
+      size_t i = ii, j0 = i + h->block[i];
+      const double *ti = ta + i * n;
+      /* bound on the error of s_i = b_i + Σ T_ij v_j: the sum's rounding, each entry of T and B
+       * perturbed by γ relative, and the errors of the v_j already solved */
+      double g1 = gam * fabs (h->b[i]);
+      for (size_t j = j0; j < n; j++)
+        g1 += ti[j] * q[j];
+      if (h->block[i] == 1)
+        {
+          double pr = zm1 + omt[i], pm = cabs_fast (pr, sin_wt);
+          /* the stored T_ii (e^{λT} near 1 when sampling fast) carries a rounding of u·|T_ii|,
+           * which is large against 1 − T_ii: perturb the diagonal by that, not by u·|1 − T_ii| */
+          double dpi = dp + gam * (fabs (1.0 - omt[i]) + fabs (omt[i])) + gam * pm;
+          av[i] = cabs_fast (h->xr[i], h->xi[i]);
+          q[i] = gam * av[i] + (g1 + dpi * av[i]) / pm;
+        }
+      else
+        {
+          const double *tn = ta + (i + 1) * n;
+          double g2 = gam * fabs (h->b[i + 1]);
+          for (size_t j = j0; j < n; j++)
+            g2 += tn[j] * q[j];
+          double ar = zm1 + omt[i], dr = zm1 + omt[i + 1];
+          double am = sqrt (ar * ar + s2), dm = sqrt (dr * dr + s2);
+          const double *tr = h->t_rows;
+          double t12 = ti[i + 1], t21 = tn[i];
+          double detr = ar * dr - s2 - tr[i * n + i + 1] * tr[(i + 1) * n + i];
+          double deti = sin_wt * (ar + dr);
+          double det = cabs_fast (detr, deti);
+          double a1 = cabs_fast (h->xr[i], h->xi[i]), a2 = cabs_fast (h->xr[i + 1], h->xi[i + 1]);
+          /* the determinant's own rounding and that of the block's entries */
+          double ddet = gam * (am * dm + t12 * t21)
+                        + (dp + gam * (fabs (1.0 - omt[i]) + fabs (omt[i]))) * dm
+                        + (dp + gam * (fabs (1.0 - omt[i + 1]) + fabs (omt[i + 1]))) * am;
+          double r1 = g1 + gam * (am * a1 + t12 * a2);
+          double r2 = g2 + gam * (t21 * a1 + dm * a2);
+          av[i] = a1;
+          av[i + 1] = a2;
+          q[i] = gam * a1 + (dm * r1 + t12 * r2 + ddet * a1) / det;
+          q[i + 1] = gam * a2 + (t21 * r1 + am * r2 + ddet * a2) / det;
+        }
+    }
+  double err = gam * fabs (h->d), yr = h->d, yi = 0.0;
+  for (size_t i = 0; i < n; i++)
+    {
+      err += fabs (h->c[i]) * q[i];
+      yr += h->c[i] * h->xr[i];
+      yi += h->c[i] * h->xi[i];
+    }
+  *err_abs = err;
   return yr + yi * I;
 }
 
@@ -763,7 +869,7 @@ lw_ss_zeros (const LwSs *s, double complex *zeros, size_t *n_zeros, LwError *err
   size_t k = 0;
   for (size_t i = 0; i < m; i++)
     {
-      double mag = hypot (ar[i], ai[i]);
+      double mag = cabs_fast (ar[i], ai[i]);
       if (fabs (be[i]) > 1e-10 * mag / anorm && fabs (be[i]) > 0.0 && k < n)
         zeros[k++] = (ar[i] + ai[i] * I) / be[i];
     }

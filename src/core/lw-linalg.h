@@ -37,6 +37,10 @@ LwSs *lw_ss_new (size_t n);
 void lw_ss_free (LwSs *s);
 LwSs *lw_ss_copy (const LwSs *s);
 
+/* Balances A by a diagonal similarity (LAPACK dgebal, scaling only); B and C are scaled with
+ * it, so the transfer function is unchanged. */
+LwStatus lw_ss_balance (LwSs *s, LwError *err);
+
 /* Balances A by a diagonal similarity (LAPACK dgebal, scaling only) and reduces it to upper
  * Hessenberg form by an orthogonal similarity (dgehrd/dorghr); B and C are transformed with it,
  * so the transfer function is unchanged. Entries below the first subdiagonal are set to 0. */
@@ -57,6 +61,15 @@ double complex lw_schur_eval (LwSchurEval *h, double complex x);
 /* The same at x = cos ωT + j sin ωT on the unit circle, given cos and sin: the real part of
  * x − 1 is formed without cancellation, which keeps full relative accuracy near z = 1. */
 double complex lw_schur_eval_unit (LwSchurEval *h, double cos_wt, double sin_wt);
+/* lw_schur_eval_unit, with a running (componentwise) bound on its absolute rounding error in
+ * *err_abs: the back substitution repeated on absolute values, every stored entry of T, B, C, D
+ * perturbed by u·(n + 4) relative (u = 2⁻⁵³; the diagonal by that of T_ii, not of the exactly
+ * stored 1 − T_ii) and every error already made carried along. It
+ * treats the realization's entries as exact to their own rounding; it is an estimate, a few
+ * times above the error seen against 50-digit arithmetic (tests/core/test-evaluate.c). About one
+ * and a half back substitutions; NaN value and INFINITY bound where xI − T is singular. */
+double complex lw_schur_eval_unit_err (LwSchurEval *h, double cos_wt, double sin_wt,
+                                       double *err_abs);
 /* The same value, and its derivative d/dx in *deriv (two back substitutions). */
 double complex lw_schur_eval_deriv (LwSchurEval *h, double complex x, double complex *deriv);
 

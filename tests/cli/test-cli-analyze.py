@@ -181,7 +181,8 @@ MODEL_KEYS = {"gain", "zeros", "poles"}
 LOOP = {"gain_crossovers_rad_s", "phase_margins_deg", "phase_crossovers_rad_s",
         "gain_margins_db", "phase_margin_deg", "gain_crossover_rad_s", "gain_margin_db",
         "phase_crossover_rad_s", "delay_margin_s", "delay_margin_samples", "sensitivity_peak",
-        "sensitivity_peak_rad_s"}
+        "sensitivity_peak_rad_s", "unresolved_gain_crossovers", "unresolved_phase_crossovers",
+        "unresolved_bands_rad_s"}
 CLOSED = {"stable", "poles", "poles_complete", "order", "unstable_poles"}
 STEP = {"final_value", "overshoot_pct", "rise_time_s", "settling_time_s", "samples",
         "actuator", "saturated_samples", "held_samples", "continuous", "intersample_ripple"}

@@ -172,6 +172,7 @@ test_loop_nulls (void **state)
     "gain_crossovers_rad_s", "phase_margins_deg", "phase_crossovers_rad_s", "gain_margins_db",
     "phase_margin_deg", "gain_crossover_rad_s", "gain_margin_db", "phase_crossover_rad_s",
     "delay_margin_s", "delay_margin_samples", "sensitivity_peak", "sensitivity_peak_rad_s",
+    "unresolved_gain_crossovers", "unresolved_phase_crossovers", "unresolved_bands_rad_s",
   };
   assert_int_equal (json_object_get_size (o), G_N_ELEMENTS (keys));
   for (size_t i = 0; i < G_N_ELEMENTS (keys); i++)

@@ -526,6 +526,190 @@ test_unstable (void **state)
   lw_evaluation_free (ev);
 }
 
+/* ---- the frequency-domain figures at the extremes (docs/conventions.md) -------------------- */
+
+/* Reference values below come from tests/reference/lwzoh.py: the ZOH loop by partial fractions
+ * in mpmath (50 digits plus those the residues cost, checked against 20 digits more), each
+ * crossover by mp.findroot, a sensitivity peak by golden-section search in mpmath. */
+
+/* true when some unresolved band of m contains w */
+static bool
+in_unresolved_band (const LwMargins *m, double w)
+{
+  for (size_t i = 0; i < m->n_unresolved_bands; i++)
+    if (w >= m->unresolved_bands_rad_s[2 * i] && w <= m->unresolved_bands_rad_s[2 * i + 1])
+      return true;
+  return false;
+}
+
+/* A gain crossover far below the fixed fraction of π/T the grid used to start at: a slow vessel
+ * 50/((1000s+1)(100s+1)) sampled at T = 1e-4 s (π/T = 31416 rad/s, crossover 6.8e-7 of it).
+ * mpmath: ω_gc = 0.02125898105547635 rad/s, PM = 27.884762471805573°, Ms = 2.29619590729566
+ * at 0.02380185058 rad/s. Tolerances: ω_gc 1e-10 relative and PM 1e-7° (the evaluation is good
+ * to ~1e-13 here; the crossover's slope is ~1), Ms 1e-9 relative (golden section to 1e-10 in ω
+ * on a flat maximum). */
+static void
+test_low_crossover (void **state)
+{
+  (void) state;
+  LwEvaluation *ev = run ("50/((1000*s+1)*(100*s+1))", 1e-4, 0.0, 1, "1", false, 10);
+  const LwMargins *m = &ev->margins;
+  assert_int_equal (m->n_gain_crossovers, 1);
+  assert_close (m->gain_crossovers_rad_s[0] / 0.02125898105547635, 1.0, 1e-10, "w_gc");
+  assert_close (m->phase_margins_deg[0], 27.884762471805573, 1e-7, "PM");
+  assert_true (m->has_sensitivity);
+  assert_close (m->sensitivity_peak / 2.29619590729566, 1.0, 1e-9, "Ms");
+  assert_close (m->sensitivity_peak_rad_s / 0.02380185058, 1.0, 1e-6, "Ms frequency");
+  /* the grid starts on the low-frequency asymptote, below the slowest corner 0.001 rad/s */
+  assert_true (ev->omega_rad_s[0] <= 0.001 / 10);
+  assert_int_equal (m->n_unresolved_bands, 0);
+  lw_evaluation_free (ev);
+}
+
+/* A long computation delay (200 samples): the delay turns the phase by 0.2 rad per rad/s, and
+ * a crossover just below π/T must not fall between grid points. 2/((s+1)(0.1s+1)), T = 1 ms,
+ * C(w) = 0.3(w + 0.5)/w. mpmath: phase crossovers at 3102.8922598447003 rad/s (GM
+ * 150.70302860663425 dB) and 3137.262825066295 rad/s (GM 167.4213650533038 dB), and L(π/T) =
+ * −2.75e-9 (a phase crossover exactly at π/T). Tolerances 1e-9 relative in ω, 1e-7 dB. With
+ * 1000 samples the lists stay ascending (docs/cli.md). */
+static void
+test_long_delay_crossovers (void **state)
+{
+  (void) state;
+  LwEvaluation *ev = run ("2/((s+1)*(0.1*s+1))", 1e-3, 0.0, 200, "0.3*(w+0.5)/w", false, 10);
+  const LwMargins *m = &ev->margins;
+  size_t np = m->n_phase_crossovers;
+  assert_true (np >= 3);
+  assert_close (m->phase_crossovers_rad_s[np - 1], LW_PI / 1e-3, 0.0, "pi/T");
+  assert_close (m->phase_crossovers_rad_s[np - 2] / 3137.262825066295, 1.0, 1e-9, "w_pc[-2]");
+  assert_close (m->gain_margins_db[np - 2], 167.4213650533038, 1e-7, "GM[-2]");
+  assert_close (m->phase_crossovers_rad_s[np - 3] / 3102.8922598447003, 1.0, 1e-9, "w_pc[-3]");
+  assert_close (m->gain_margins_db[np - 3], 150.70302860663425, 1e-7, "GM[-3]");
+  /* one phase crossover per turn of the delay: the phase falls by 0.2·ω rad in total up to
+   * π/T, about 200·π/2π = 100 turns, so about 100 crossovers (common practice, no source) */
+  assert_true (np > 90 && np < 110);
+  lw_evaluation_free (ev);
+
+  ev = run ("2/((s+1)*(0.1*s+1))", 1e-3, 0.0, 1000, "0.3*(w+0.5)/w", false, 10);
+  m = &ev->margins;
+  for (size_t i = 1; i < m->n_phase_crossovers; i++)
+    assert_true (m->phase_crossovers_rad_s[i] > m->phase_crossovers_rad_s[i - 1]);
+  for (size_t i = 1; i < m->n_gain_crossovers; i++)
+    assert_true (m->gain_crossovers_rad_s[i] > m->gain_crossovers_rad_s[i - 1]);
+  assert_true (m->n_phase_crossovers > 450 && m->n_phase_crossovers < 550);
+  lw_evaluation_free (ev);
+}
+
+/* A zero of L exactly at z = −1: the ZOH of 1/s^4 is T⁴/24·(z³ + 11z² + 11z + 1)/(z − 1)⁴ and
+ * z³ + 11z² + 11z + 1 = (z + 1)(z² + 10z + 1) (the Euler–Frobenius polynomial; Åström &
+ * Wittenmark, Computer-Controlled Systems, sampling zeros; from memory, checked by expanding).
+ * No phase crossover where L is zero (docs/conventions.md), so no gain margin at all; the
+ * Nyquist point is marked unresolved. Gain crossover by mpmath on that closed form:
+ * 0.17781329874469248 rad/s, PM 177.45301211015757° (tolerances 1e-10 relative, 1e-7°). The
+ * same for 1/s^10 (a zero at −1 for every even power): no phase crossover at π/T. */
+static void
+test_zero_at_nyquist (void **state)
+{
+  (void) state;
+  LwEvaluation *ev = run ("1/s^4", 0.5, 0.0, 0, "0.001", true, 10);
+  const LwMargins *m = &ev->margins;
+  assert_int_equal (m->n_phase_crossovers, 0);
+  assert_false (m->has_gain_margin);
+  assert_int_equal (m->n_gain_crossovers, 1);
+  assert_close (m->gain_crossovers_rad_s[0] / 0.17781329874469248, 1.0, 1e-10, "w_gc");
+  assert_close (m->phase_margins_deg[0], 177.45301211015757, 1e-7, "PM");
+  assert_true (in_unresolved_band (m, LW_PI / 0.5));
+  /* |L| there is far below −120 dB: no unresolved crossover is counted for it */
+  assert_int_equal (m->n_unresolved_phase_crossovers, 0);
+  assert_int_equal (m->n_unresolved_gain_crossovers, 0);
+  lw_evaluation_free (ev);
+
+  ev = run ("1/s^10", 0.5, 0.0, 0, "0.001", true, 10);
+  m = &ev->margins;
+  for (size_t i = 0; i < m->n_phase_crossovers; i++)
+    assert_true (m->phase_crossovers_rad_s[i] < LW_PI / 0.5 * (1 - 1e-6));
+  assert_true (in_unresolved_band (m, LW_PI / 0.5));
+  lw_evaluation_free (ev);
+}
+
+/* Large dynamic range: 1e30·(s+3)/(eight lightly to well damped pairs), T = 1 ms, |L| spans
+ * ~330 dB between ω → 0 and π/T. The state space alone is good to only ~1e-3 at the crossover;
+ * the aliasing sum of the factored plant keeps full relative accuracy. mpmath: ω_gc =
+ * 105.05104840842944 rad/s, PM −52.388133316451974°; phase crossovers 2.1397807285528778,
+ * 9.6118320524419185, 36.391783260761702, 72.59788774126593 rad/s (GM −265.85391036347973,
+ * −223.27357762874414, −139.91237921753493, −55.826470058848865 dB) and π/T, where L =
+ * −4.4452e-23 (GM 447.04207685632409 dB); the true phase at 2467.55 rad/s is −120.53°, no
+ * crossover there. Tolerances: ω 1e-10 relative, PM 1e-7°, GM 1e-7 dB. */
+static void
+test_large_dynamic_range (void **state)
+{
+  (void) state;
+  LwEvaluation *ev = run ("1e30*(s+3)/((s^2+0.5*s+0.3)*(s^2+2*s+20)*(s^2+5*s+400)*(s^2+8*s+1600)"
+                          "*(s^2+20*s+2500)*(s^2+1*s+9)*(s^2+3*s+100)*(s^2+30*s+3600))",
+                          1e-3, 0.0, 1, "1", false, 10);
+  const LwMargins *m = &ev->margins;
+  assert_int_equal (m->n_gain_crossovers, 1);
+  assert_close (m->gain_crossovers_rad_s[0] / 105.05104840842944, 1.0, 1e-10, "w_gc");
+  assert_close (m->phase_margins_deg[0], -52.388133316451974, 1e-7, "PM");
+  const double pc[] = { 2.1397807285528778, 9.6118320524419185, 36.391783260761702,
+                        72.59788774126593, LW_PI / 1e-3 };
+  const double gm[] = { -265.85391036347973, -223.27357762874414, -139.91237921753493,
+                        -55.826470058848865, 447.04207685632409 };
+  assert_int_equal (m->n_phase_crossovers, 5);
+  for (size_t i = 0; i < 5; i++)
+    {
+      assert_close (m->phase_crossovers_rad_s[i] / pc[i], 1.0, 1e-10, "w_pc");
+      assert_close (m->gain_margins_db[i], gm[i], 1e-7, "GM");
+    }
+  assert_int_equal (m->n_unresolved_bands, 0);
+  lw_evaluation_free (ev);
+}
+
+/* The running error bound of the state-space evaluation covers its actual error: at the
+ * 50-digit gain crossover of the case above |L| = 1 exactly, and the back substitution's
+ * |P(e^{jωT})| misses 1 by ~6.5e-4 (measured); the bound must be at least that and not absurdly
+ * larger (at most 100 times: a running bound is a few times pessimistic). */
+static void
+test_error_bound_covers (void **state)
+{
+  (void) state;
+  LwModel *p = parse ("1e30*(s+3)/((s^2+0.5*s+0.3)*(s^2+2*s+20)*(s^2+5*s+400)*(s^2+8*s+1600)"
+                      "*(s^2+20*s+2500)*(s^2+1*s+9)*(s^2+3*s+100)*(s^2+30*s+3600))",
+                      LW_DOMAIN_S, 0);
+  LwSampledPlant *sp = NULL;
+  LwError err;
+  assert_int_equal (lw_sampled_plant_new (p, 0.0, 1e-3, &sp, &err), LW_OK);
+  double w = 105.05104840842944, e;
+  double complex h = lw_schur_eval_unit_err (sp->eval, cos (w * 1e-3), sin (w * 1e-3), &e);
+  double actual = fabs (cabs (h) - 1.0);
+  assert_true (actual > 1e-5);           /* the case does lose digits in the state space */
+  assert_true (e >= actual);
+  assert_true (e <= 100.0 * actual);
+  /* the aliasing sum: within its own estimate of 1, and that estimate near rounding */
+  double ea;
+  double complex ha = lw_sampled_plant_alias_eval (sp, w, 1e-13, &ea);
+  assert_true (ea < 1e-12);
+  assert_close (cabs (ha), 1.0, 1e-12, "|P| at the crossover by the aliasing sum");
+  lw_sampled_plant_free (sp);
+  lw_model_free (p);
+}
+
+/* The sensitivity peak at the end of the range: an unstable plant 2/(s − 1) with C = 5/6, T =
+ * 10 ms. The ZOH keeps the DC gain, L(1) = −5/3, so |S| → 1/|1 − 5/3| = 1.5 as ω → 0, and a
+ * 3000-point mpmath scan finds nothing larger (max 1.499999999999146 at 1e-6 rad/s). Reported:
+ * 1.5 at 0 rad/s, tolerance 1e-12 (one evaluation at z = 1). */
+static void
+test_sensitivity_at_dc (void **state)
+{
+  (void) state;
+  LwEvaluation *ev = run ("2/(s-1)", 0.01, 0.0, 1, "5/6", true, 10);
+  assert_true (ev->stable);
+  assert_true (ev->margins.has_sensitivity);
+  assert_close (ev->margins.sensitivity_peak, 1.5, 1e-12, "Ms at omega -> 0");
+  assert_close (ev->margins.sensitivity_peak_rad_s, 0.0, 0.0, "Ms frequency");
+  lw_evaluation_free (ev);
+}
+
 int
 main (void)
 {
@@ -540,6 +724,12 @@ main (void)
     cmocka_unit_test (test_algebraic_loop),
     cmocka_unit_test (test_nyquist_matches_eigenvalues),
     cmocka_unit_test (test_long_delay_closed_forms),
+    cmocka_unit_test (test_low_crossover),
+    cmocka_unit_test (test_long_delay_crossovers),
+    cmocka_unit_test (test_zero_at_nyquist),
+    cmocka_unit_test (test_large_dynamic_range),
+    cmocka_unit_test (test_error_bound_covers),
+    cmocka_unit_test (test_sensitivity_at_dc),
   };
   return cmocka_run_group_tests (tests, NULL, NULL);
 }

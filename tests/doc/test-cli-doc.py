@@ -343,6 +343,31 @@ with tempfile.TemporaryDirectory() as tmp:
         except subprocess.TimeoutExpired:
             check(False, f"{cmd[0]} on a FIFO hangs")
 
+# a gain crossover far below the old fixed grid start (1e-6·π/T): a slow vessel sampled fast,
+# P = 50/((1000s + 1)(100s + 1)) at T = 1e-4 s. Its sensitivity peak is 2.2962 at 0.0238 rad/s
+# (tests/reference/lwzoh.py, partial fractions in mpmath at 60 digits, golden-section search),
+# so a requirement max |S| <= 2 must fail (exit 3, docs/cli.md) and <= 2.5 must pass
+with tempfile.TemporaryDirectory() as tmp:
+    for limit, want in (("2", 3), ("2.5", 0)):
+        doc = os.path.join(tmp, f"vessel-{limit}.lwd")
+        with open(doc, "w") as f:
+            f.write(f"""<?xml version="1.0" encoding="UTF-8"?>
+<design xmlns="urn:loopwright:design" version="1">
+  <title>slow vessel</title>
+  <plant dead_time_s="0">50/((1000*s+1)*(100*s+1))</plant>
+  <sampling period_s="0.0001" hold="zero-order" compute_delay_samples="1"/>
+  <requirements>
+    <sensitivity-peak max_ratio="{limit}"/>
+  </requirements>
+  <variants active="initial">
+    <variant name="initial"/>
+  </variants>
+</design>
+""")
+        rc, out, err = run(["check", doc])
+        check(rc == want, f"check slow vessel with max |S| <= {limit}: exit {rc}, want {want}: "
+                          f"{out} {err}")
+
 if failures:
     print(f"{len(failures)} failure(s)")
     sys.exit(1)
