@@ -43,7 +43,7 @@ struct LwSampledPlant {
   double frac_delay_s;      /* θ in [0, T): the fractional part, inside core */
   LwModel *plant_s;           /* the continuous model as typed */
   LwSs *core;               /* ZOH of plant with θ, balanced, real Schur form; order n or n+1 */
-  LwSchurEval *eval;        /* evaluator for core (not thread-safe: one per plant) */
+  LwSchurEval *eval;        /* evaluator for core (read-only: thread-safe) */
   int n_integrators;        /* plant poles at s = 0 minus zeros at s = 0 */
   double realization_rel;   /* factor by which the state space's error exceeds its back
                                substitution's running bound, measured against the aliasing sum

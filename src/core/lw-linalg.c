@@ -520,8 +520,6 @@ struct LwSchurEval {
   double *b, *c, d;
   unsigned char *block;     /* block[i] = 2 when rows i, i+1 form a 2×2 block, 1 for 1×1, 0 for the
                                second row of a 2×2 block */
-  double *xr, *xi;
-  double *wr, *wi;          /* second solve, for the derivative */
   double *one_minus_diag;   /* 1 − T_ii, exact for T_ii in [0.5, 2] (Sterbenz) */
   double *t_abs;            /* |T| row-major, for the running error bound */
 };
@@ -538,15 +536,11 @@ lw_schur_eval_new (const LwSs *s)
   h->t_rows = alloc_doubles (n * n);
   h->b = alloc_doubles (n);
   h->c = alloc_doubles (n);
-  h->xr = alloc_doubles (n);
-  h->xi = alloc_doubles (n);
   h->block = calloc (n + 1, 1);
-  h->wr = alloc_doubles (n);
-  h->wi = alloc_doubles (n);
   h->one_minus_diag = alloc_doubles (n);
   h->t_abs = alloc_doubles (n * n);
-  if (h->t_abs == NULL || h->one_minus_diag == NULL || h->t_rows == NULL || h->b == NULL || h->c == NULL || h->xr == NULL || h->xi == NULL
-      || h->block == NULL || h->wr == NULL || h->wi == NULL)
+  if (h->t_abs == NULL || h->one_minus_diag == NULL || h->t_rows == NULL || h->b == NULL
+      || h->c == NULL || h->block == NULL)
     {
       lw_schur_eval_free (h);
       return NULL;
@@ -583,11 +577,7 @@ lw_schur_eval_free (LwSchurEval *h)
   free (h->t_rows);
   free (h->b);
   free (h->c);
-  free (h->xr);
-  free (h->xi);
   free (h->block);
-  free (h->wr);
-  free (h->wi);
   free (h->one_minus_diag);
   free (h->t_abs);
   free (h);
@@ -656,39 +646,90 @@ schur_solve (const LwSchurEval *h, double zm1, double zi, const double *rr, cons
   return true;
 }
 
-double complex
-lw_schur_eval (LwSchurEval *h, double complex xpt)
+/* The solves' vectors, per call: the evaluator itself is read-only once made, so one sampled
+ * plant can be evaluated from several threads at once (the window's worker and its main
+ * thread). Up to WORK_STACK states on the stack, beyond that on the heap. */
+#define WORK_STACK 96
+
+typedef struct
 {
-  size_t n = h->n;
-  double yr = h->d, yi = 0.0;
-  if (n == 0)
-    return yr;
-  if (!schur_solve (h, creal (xpt) - 1.0, cimag (xpt), h->b, NULL, h->xr, h->xi))
-    return NAN + NAN * I;
-  for (size_t i = 0; i < n; i++)
+  double *xr, *xi, *wr, *wi;
+  double *heap;
+  double stack[4 * WORK_STACK];
+} Work;
+
+static bool
+work_init (Work *w, size_t n)
+{
+  w->heap = NULL;
+  double *base = w->stack;
+  if (n > WORK_STACK)
     {
-      yr += h->c[i] * h->xr[i];
-      yi += h->c[i] * h->xi[i];
+      size_t nn = lw_mul_size (n, 4);
+      w->heap = nn != 0 ? malloc (nn * sizeof (double)) : NULL;
+      if (w->heap == NULL)
+        return false;
+      base = w->heap;
+    }
+  w->xr = base;
+  w->xi = base + n;
+  w->wr = base + 2 * n;
+  w->wi = base + 3 * n;
+  return true;
+}
+
+static void
+work_clear (Work *w)
+{
+  free (w->heap);
+  w->heap = NULL;
+}
+
+/* C v + D with v in w->xr, w->xi */
+static double complex
+output (const LwSchurEval *h, const Work *w)
+{
+  double yr = h->d, yi = 0.0;
+  for (size_t i = 0; i < h->n; i++)
+    {
+      yr += h->c[i] * w->xr[i];
+      yi += h->c[i] * w->xi[i];
     }
   return yr + yi * I;
 }
 
 double complex
-lw_schur_eval_unit (LwSchurEval *h, double cos_wt, double sin_wt)
+lw_schur_eval (const LwSchurEval *h, double complex xpt)
 {
   size_t n = h->n;
-  double yr = h->d, yi = 0.0;
   if (n == 0)
-    return yr;
-  double zm1 = cos_wt > 0.0 ? -(sin_wt * sin_wt) / (1.0 + cos_wt) : cos_wt - 1.0;
-  if (!schur_solve (h, zm1, sin_wt, h->b, NULL, h->xr, h->xi))
+    return h->d;
+  Work w;
+  if (!work_init (&w, n))
     return NAN + NAN * I;
-  for (size_t i = 0; i < n; i++)
-    {
-      yr += h->c[i] * h->xr[i];
-      yi += h->c[i] * h->xi[i];
-    }
-  return yr + yi * I;
+  double complex y = NAN + NAN * I;
+  if (schur_solve (h, creal (xpt) - 1.0, cimag (xpt), h->b, NULL, w.xr, w.xi))
+    y = output (h, &w);
+  work_clear (&w);
+  return y;
+}
+
+double complex
+lw_schur_eval_unit (const LwSchurEval *h, double cos_wt, double sin_wt)
+{
+  size_t n = h->n;
+  if (n == 0)
+    return h->d;
+  /* cos θ − 1 = −sin²θ / (1 + cos θ) without cancellation when cos θ > 0 */
+  double zm1 = cos_wt > 0.0 ? -(sin_wt * sin_wt) / (1.0 + cos_wt) : cos_wt - 1.0;
+  Work w;
+  if (!work_init (&w, n))
+    return NAN + NAN * I;
+  double complex y = NAN + NAN * I;
+  if (schur_solve (h, zm1, sin_wt, h->b, NULL, w.xr, w.xi))
+    y = output (h, &w);
+  work_clear (&w);
+  return y;
 }
 
 /* cos θ − 1 = −sin²θ / (1 + cos θ) without cancellation when cos θ > 0 */
@@ -707,7 +748,7 @@ cabs_fast (double a, double b)
 }
 
 double complex
-lw_schur_eval_unit_err (LwSchurEval *h, double cos_wt, double sin_wt, double *err_abs)
+lw_schur_eval_unit_err (const LwSchurEval *h, double cos_wt, double sin_wt, double *err_abs)
 {
   size_t n = h->n;
   const double u = 1.1102230246251565e-16;
@@ -717,13 +758,15 @@ lw_schur_eval_unit_err (LwSchurEval *h, double cos_wt, double sin_wt, double *er
       return h->d;
     }
   double zm1 = unit_zm1 (cos_wt, sin_wt);
-  if (!schur_solve (h, zm1, sin_wt, h->b, NULL, h->xr, h->xi))
+  Work w;
+  if (!work_init (&w, n) || !schur_solve (h, zm1, sin_wt, h->b, NULL, w.xr, w.xi))
     {
+      work_clear (&w);
       *err_abs = INFINITY;
       return NAN + NAN * I;
     }
   const double *omt = h->one_minus_diag, *ta = h->t_abs;
-  double *av = h->wr, *q = h->wi;      /* |v_j|, and γ|v_j| + (bound on |δv_j|) */
+  double *av = w.wr, *q = w.wi;        /* |v_j|, and γ|v_j| + (bound on |δv_j|) */
   double gam = u * (double) (n + 4);
   double dp = u * fabs (zm1);          /* rounding of x − t_ii = zm1 + (1 − t_ii) */
   double s2 = sin_wt * sin_wt;
@@ -744,7 +787,7 @@ lw_schur_eval_unit_err (LwSchurEval *h, double cos_wt, double sin_wt, double *er
           /* the stored T_ii (e^{λT} near 1 when sampling fast) carries a rounding of u·|T_ii|,
            * which is large against 1 − T_ii: perturb the diagonal by that, not by u·|1 − T_ii| */
           double dpi = dp + gam * (fabs (1.0 - omt[i]) + fabs (omt[i])) + gam * pm;
-          av[i] = cabs_fast (h->xr[i], h->xi[i]);
+          av[i] = cabs_fast (w.xr[i], w.xi[i]);
           q[i] = gam * av[i] + (g1 + dpi * av[i]) / pm;
         }
       else
@@ -760,7 +803,7 @@ lw_schur_eval_unit_err (LwSchurEval *h, double cos_wt, double sin_wt, double *er
           double detr = ar * dr - s2 - tr[i * n + i + 1] * tr[(i + 1) * n + i];
           double deti = sin_wt * (ar + dr);
           double det = cabs_fast (detr, deti);
-          double a1 = cabs_fast (h->xr[i], h->xi[i]), a2 = cabs_fast (h->xr[i + 1], h->xi[i + 1]);
+          double a1 = cabs_fast (w.xr[i], w.xi[i]), a2 = cabs_fast (w.xr[i + 1], w.xi[i + 1]);
           /* the determinant's own rounding and that of the block's entries */
           double ddet = gam * (am * dm + t12 * t21)
                         + (dp + gam * (fabs (1.0 - omt[i]) + fabs (omt[i]))) * dm
@@ -777,32 +820,39 @@ lw_schur_eval_unit_err (LwSchurEval *h, double cos_wt, double sin_wt, double *er
   for (size_t i = 0; i < n; i++)
     {
       err += fabs (h->c[i]) * q[i];
-      yr += h->c[i] * h->xr[i];
-      yi += h->c[i] * h->xi[i];
+      yr += h->c[i] * w.xr[i];
+      yi += h->c[i] * w.xi[i];
     }
+  work_clear (&w);
   *err_abs = err;
   return yr + yi * I;
 }
 
 double complex
-lw_schur_eval_deriv (LwSchurEval *h, double complex xpt, double complex *deriv)
+lw_schur_eval_deriv (const LwSchurEval *h, double complex xpt, double complex *deriv)
 {
   size_t n = h->n;
   *deriv = 0.0;
   if (n == 0)
     return h->d;
-  double complex y = lw_schur_eval (h, xpt);
-  double *wr = h->wr, *wi = h->wi;
-  /* d/dx C (xI − T)⁻¹ B = −C (xI − T)⁻² B */
-  if (!schur_solve (h, creal (xpt) - 1.0, cimag (xpt), h->xr, h->xi, wr, wi))
+  Work w;
+  if (!work_init (&w, n))
     return NAN + NAN * I;
-  double dr = 0.0, di = 0.0;
-  for (size_t i = 0; i < n; i++)
+  double complex y = NAN + NAN * I;
+  /* v = (xI − T)⁻¹ B, then d/dx C (xI − T)⁻¹ B = −C (xI − T)⁻² B = −C (xI − T)⁻¹ v */
+  if (schur_solve (h, creal (xpt) - 1.0, cimag (xpt), h->b, NULL, w.xr, w.xi)
+      && schur_solve (h, creal (xpt) - 1.0, cimag (xpt), w.xr, w.xi, w.wr, w.wi))
     {
-      dr -= h->c[i] * wr[i];
-      di -= h->c[i] * wi[i];
+      y = output (h, &w);
+      double dr = 0.0, di = 0.0;
+      for (size_t i = 0; i < n; i++)
+        {
+          dr -= h->c[i] * w.wr[i];
+          di -= h->c[i] * w.wi[i];
+        }
+      *deriv = dr + di * I;
     }
-  *deriv = dr + di * I;
+  work_clear (&w);
   return y;
 }
 

@@ -52,15 +52,16 @@ LwStatus lw_ss_balance_hessenberg (LwSs *s, LwError *err);
 LwStatus lw_ss_balance_schur (LwSs *s, LwError *err);
 
 /* Workspace for repeated evaluations of a quasi-upper-triangular (real Schur) system. */
+/* Read-only once made: evaluations may run on one evaluator from several threads at once. */
 typedef struct LwSchurEval LwSchurEval;
 LwSchurEval *lw_schur_eval_new (const LwSs *s);  /* s must already be in real Schur form */
 void lw_schur_eval_free (LwSchurEval *h);
 /* C (xI − T)^{−1} B + D at a complex point x by block back substitution: about 2n² real
  * multiply-adds and n divisions. NaN+NaN·i if xI − T is singular. */
-double complex lw_schur_eval (LwSchurEval *h, double complex x);
+double complex lw_schur_eval (const LwSchurEval *h, double complex x);
 /* The same at x = cos ωT + j sin ωT on the unit circle, given cos and sin: the real part of
  * x − 1 is formed without cancellation, which keeps full relative accuracy near z = 1. */
-double complex lw_schur_eval_unit (LwSchurEval *h, double cos_wt, double sin_wt);
+double complex lw_schur_eval_unit (const LwSchurEval *h, double cos_wt, double sin_wt);
 /* lw_schur_eval_unit, with a running (componentwise) bound on its absolute rounding error in
  * *err_abs: the back substitution repeated on absolute values, every stored entry of T, B, C, D
  * perturbed by u·(n + 4) relative (u = 2⁻⁵³; the diagonal by that of T_ii, not of the exactly
@@ -68,10 +69,10 @@ double complex lw_schur_eval_unit (LwSchurEval *h, double cos_wt, double sin_wt)
  * treats the realization's entries as exact to their own rounding; it is an estimate, a few
  * times above the error seen against 50-digit arithmetic (tests/core/test-evaluate.c). About one
  * and a half back substitutions; NaN value and INFINITY bound where xI − T is singular. */
-double complex lw_schur_eval_unit_err (LwSchurEval *h, double cos_wt, double sin_wt,
+double complex lw_schur_eval_unit_err (const LwSchurEval *h, double cos_wt, double sin_wt,
                                        double *err_abs);
 /* The same value, and its derivative d/dx in *deriv (two back substitutions). */
-double complex lw_schur_eval_deriv (LwSchurEval *h, double complex x, double complex *deriv);
+double complex lw_schur_eval_deriv (const LwSchurEval *h, double complex x, double complex *deriv);
 
 /* Workspace for repeated evaluations of an upper-Hessenberg system (plan/execute). */
 typedef struct LwHessEval LwHessEval;
