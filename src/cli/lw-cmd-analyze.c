@@ -209,10 +209,26 @@ print_verification (const LwSimOptions *so, const LwSimResponse *ref, const LwSi
   print_disturbance ("unit output-disturbance step (at the plant output)", dout);
 }
 
+/* The remark on a factored form of the plant that is not the plant (lw_sampled_plant_form_error
+ * above LW_FORM_TOLERANCE) or could not be checked (NAN); `otherwise` when it is. g_free. */
+static char *
+form_remark (double form_error, const char *otherwise)
+{
+  if (isnan (form_error))
+    return g_strdup ("(NOT VERIFIED: the plant's own response could not be resolved to check "
+                     "this factored form against; every figure comes from that response)");
+  if (!(form_error > LW_FORM_TOLERANCE))
+    return g_strdup (otherwise);
+  return g_strdup_printf ("(ILL-CONDITIONED: this factored form differs from the plant by up "
+                          "to %.2g relative; every figure comes from the plant's own "
+                          "response)", form_error);
+}
+
 static void
 print_report (const LwModel *plant_s, double dead_time_s, const LwEvaluation *ev,
               const LwStep *step, const LwSimOptions *so, const LwSimResponse *ref,
-              const LwSimResponse *din, const LwSimResponse *dout)
+              const LwSimResponse *din, const LwSimResponse *dout, double z_form_error,
+              double w_form_error)
 {
   double T = ev->period_s;
   printf ("Sampled loop: period T = %.6g s (%.6g Hz), computation delay %d sample(s), "
@@ -220,8 +236,10 @@ print_report (const LwModel *plant_s, double dead_time_s, const LwEvaluation *ev
 
   printf ("\nPlant\n");
   print_model ("in s:", plant_s, NULL);
-  print_model ("in z:", ev->plant_z, "(zero-order hold, with dead time)");
-  print_model ("in w:", ev->plant_w, NULL);
+  g_autofree char *rz = form_remark (z_form_error, "(zero-order hold, with dead time)");
+  g_autofree char *rw = form_remark (w_form_error, NULL);
+  print_model ("in z:", ev->plant_z, rz);
+  print_model ("in w:", ev->plant_w, rw);
   printf ("\nController\n");
   print_model ("in w:", ev->controller_w, NULL);
   print_model ("in z:", ev->controller_z, NULL);
@@ -423,6 +441,16 @@ analyze_loop_run (const AnalyzeArgs *a, const AnalyzeSpec *spec, const LwVariant
   if (a->json)
     {
       JsonNode *root = lw_cli_json_analysis (ev, &e->step, e->sim_ref, e->sim_in, e->sim_out);
+      /* how far the factored plant_z and plant_w are from the plant (docs/cli.md) */
+      JsonObject *o = json_node_get_object (root);
+      if (isfinite (e->plant_z_form_error))
+        json_object_set_double_member (o, "plant_z_form_error", e->plant_z_form_error);
+      else
+        json_object_set_null_member (o, "plant_z_form_error");
+      if (isfinite (e->plant_w_form_error))
+        json_object_set_double_member (o, "plant_w_form_error", e->plant_w_form_error);
+      else
+        json_object_set_null_member (o, "plant_w_form_error");
       if (design != NULL)
         {
           /* the document's requirements, as "requirements": [...] */
@@ -440,7 +468,7 @@ analyze_loop_run (const AnalyzeArgs *a, const AnalyzeSpec *spec, const LwVariant
         printf ("Design '%s' (%s), variant '%s'\n\n", design->title, a->files[0],
                 design->variants[index].name);
       print_report (e->plant_s, e->dead_time_s, ev, &e->step, &spec->so, e->sim_ref, e->sim_in,
-                    e->sim_out);
+                    e->sim_out, e->plant_z_form_error, e->plant_w_form_error);
       if (design != NULL)
         {
           printf ("\nRequirements of the design\n");

@@ -38,6 +38,16 @@ double lw_sampled_plant_period (const LwSampledPlant *p);
  * computation delay. New model; caller frees. */
 LwModel *lw_sampled_plant_model (const LwSampledPlant *p);
 
+/* How far a factored form m of the sampled plant (in z, as lw_sampled_plant_model gives it, or
+ * in w after lw_model_z_to_w) is from the plant itself: the largest relative difference
+ * |m − P| / |P| at 24 frequencies from a decade below the slowest corner to just below π/T,
+ * against the plant's own resolved response (state space, or the aliasing sum of the factored
+ * continuous plant). The factored forms are for display: their roots are ill-conditioned at
+ * high relative degree and fast sampling, and a form off by more than LW_FORM_TOLERANCE is not
+ * the plant (docs/conventions.md). NAN when no frequency could be checked. */
+#define LW_FORM_TOLERANCE 1e-6
+double lw_sampled_plant_form_error (const LwSampledPlant *p, const LwModel *m);
+
 /* P(e^{jωT}) from the state space (one O(n²) back substitution on its real Schur form), times
  * the whole-sample dead time. */
 double complex lw_sampled_plant_response (const LwSampledPlant *p, double omega_rad_s);

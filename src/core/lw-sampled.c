@@ -619,6 +619,68 @@ realization_check (const LwSampledPlant *p)
   return worst;
 }
 
+double
+lw_sampled_plant_form_error (const LwSampledPlant *p, const LwModel *m)
+{
+  if (p == NULL || m == NULL || (m->domain != LW_DOMAIN_Z && m->domain != LW_DOMAIN_W))
+    return NAN;
+  const LwModel *ps = p->plant_s;
+  double t = p->period_s, wn = LW_PI / t, wlo = wn;
+  for (size_t i = 0; i < ps->n_zeros; i++)
+    if (cabs (ps->zeros[i]) > 0.0)
+      wlo = fmin (wlo, cabs (ps->zeros[i]));
+  for (size_t i = 0; i < ps->n_poles; i++)
+    if (cabs (ps->poles[i]) > 0.0)
+      wlo = fmin (wlo, cabs (ps->poles[i]));
+  wlo = fmin (wlo / 10.0, 1e-3 * wn);
+  /* FORM_POINTS frequencies, log-spaced from a decade below the slowest corner to just below
+   * π/T; at each the plant's own response is the reference where it is resolved to 1e-7
+   * (an order below the tolerance checked): the state space where its running bound, scaled
+   * by what the realization check found it to miss, says so, else the aliasing sum of the
+   * factored plant where it converges */
+  enum { FORM_POINTS = 24 };
+  double complex ref[FORM_POINTS], got[FORM_POINTS];
+  bool ok[FORM_POINTS];
+  double peak = 0.0;
+  for (int k = 0; k < FORM_POINTS; k++)
+    {
+      double w = wlo * pow (0.999 * wn / wlo, (double) k / (FORM_POINTS - 1)), wt = w * t;
+      double es = INFINITY, ea = INFINITY;
+      double complex h = lw_schur_eval_unit_err (p->eval, cos (wt), sin (wt), &es);
+      ok[k] = false;
+      /* the state space's bound, scaled by what the realization check found it to miss */
+      double scale = fmax (1.0, p->realization_rel);
+      if (isfinite (cabs (h)) && es * scale <= 1e-7 * cabs (h))
+        ok[k] = true;
+      else
+        {
+          h = lw_sampled_plant_alias_eval (p, w, 1e-10, &ea);
+          ok[k] = isfinite (ea) && isfinite (cabs (h)) && ea <= 1e-7 * cabs (h);
+        }
+      if (!ok[k])
+        continue;
+      if (p->whole_delay > 0)
+        h *= cexp (-I * wt * p->whole_delay);
+      ref[k] = h;
+      peak = fmax (peak, cabs (h));
+      double complex x = m->domain == LW_DOMAIN_Z ? cexp (I * wt)
+                                                  : I * (2.0 / t) * tan (0.5 * wt);
+      got[k] = lw_model_eval (m, x);
+    }
+  double worst = NAN;
+  for (int k = 0; k < FORM_POINTS; k++)
+    {
+      /* points where the plant is 180 dB below its largest value say nothing relative */
+      if (!ok[k] || !(cabs (ref[k]) > 1e-9 * peak))
+        continue;
+      double e = cabs (got[k] - ref[k]) / cabs (ref[k]);
+      if (!isfinite (e))
+        e = INFINITY;
+      worst = isnan (worst) ? e : fmax (worst, e);
+    }
+  return worst;
+}
+
 LwModel *
 lw_sampled_plant_model (const LwSampledPlant *p)
 {

@@ -274,6 +274,8 @@ eval_new (void)
 {
   EvalPrivate *p = g_atomic_rc_box_new0 (EvalPrivate);
   p->pub.error_position = -1;
+  p->pub.plant_z_form_error = NAN;
+  p->pub.plant_w_form_error = NAN;
   return p;
 }
 
@@ -326,6 +328,8 @@ eval_loop (EvalPrivate *p, const LwEngineOptions *opts)
   if (lw_evaluate (e->sampled, e->controller_z, &ao, &e->ev, &err) != LW_OK)
     return eval_fail (p, LW_EVAL_FAILED_LOOP, &err);
   e->step = e->ev->step;
+  e->plant_z_form_error = lw_sampled_plant_form_error (e->sampled, e->ev->plant_z);
+  e->plant_w_form_error = lw_sampled_plant_form_error (e->sampled, e->ev->plant_w);
 
   /* the simulated steps; a failure leaves them out, not the loop */
   LwSimOptions so = opts->sim;

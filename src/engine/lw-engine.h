@@ -110,6 +110,11 @@ typedef struct
   LwModel *controller_z;          /* NULL when the compensator failed */
   const LwSampledPlant *sampled;  /* held by the evaluation; NULL on a plant/sampling failure */
   LwEvaluation *ev;               /* NULL on any failure */
+  /* how far the factored forms ev->plant_z and ev->plant_w (for display) are from the plant
+   * (lw_sampled_plant_form_error): above LW_FORM_TOLERANCE they are not the plant and are
+   * shown as such; NAN when it could not be checked */
+  double plant_z_form_error;
+  double plant_w_form_error;
 
   /* the step whose figures are reported: ev->step, or with actuator limits the limited
    * loop's (samples of sim_ref, figures against the linear loop's final value; see

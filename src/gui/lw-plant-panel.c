@@ -3,6 +3,7 @@
  */
 #include "config.h"
 
+#include <math.h>
 #include <string.h>
 
 #include <glib/gi18n.h>
@@ -179,10 +180,31 @@ lw_plant_panel_show_eval (LwPlantPanel *self, LwVariantEval *eval)
     }
 
   const LwEvaluation *ev = eval->ev;
+  /* The factored forms are for display; where their roots are ill-conditioned they are not
+   * the plant (lw_sampled_plant_form_error), and the label says so instead of passing them
+   * off as it. */
+  gboolean z_bad = ev != NULL && !(eval->plant_z_form_error <= LW_FORM_TOLERANCE);
+  gboolean w_bad = ev != NULL && !(eval->plant_w_form_error <= LW_FORM_TOLERANCE);
   /* TRANSLATORS: the discretized plant in z, as factors */
-  lw_gui_label_show_model (self->plant_z_label, _("P(z)"), ev != NULL ? ev->plant_z : NULL);
+  lw_gui_label_show_model (self->plant_z_label, z_bad ? _("P(z), ill-conditioned factors (not "
+                                                          "the plant), ≈")
+                                                      : _("P(z)"),
+                           ev != NULL ? ev->plant_z : NULL);
   /* TRANSLATORS: the discretized plant in the w-plane, as factors */
-  lw_gui_label_show_model (self->plant_w_label, _("P(w)"), ev != NULL ? ev->plant_w : NULL);
+  lw_gui_label_show_model (self->plant_w_label, w_bad ? _("P(w), ill-conditioned factors (not "
+                                                          "the plant), ≈")
+                                                      : _("P(w)"),
+                           ev != NULL ? ev->plant_w : NULL);
+  g_autofree char *tip = NULL;
+  if (z_bad || w_bad)
+    tip = g_strdup_printf (_("These factors differ from the sampled plant by up to %.2g "
+                             "(relative): their roots are ill-conditioned at this relative "
+                             "degree and sample period. Every margin and figure is computed "
+                             "from the plant's own response, not from them."),
+                           /* NAN (printed "nan") when they could not be checked at all */
+                           fmax (eval->plant_z_form_error, eval->plant_w_form_error));
+  lw_gui_set_tooltip (GTK_WIDGET (self->plant_z_label), tip);
+  lw_gui_set_tooltip (GTK_WIDGET (self->plant_w_label), tip);
   show_sampling_note (self, ev);
 }
 

@@ -114,6 +114,18 @@ section_plant (LwReport *r, const LwDesign *d, const RVar *v0)
   lwr_formula (r, "P(s) = ", v0->e->plant_s);
   lwr_formula (r, "P(z) = ", ev->plant_z);
   lwr_formula (r, "P(w) = ", ev->plant_w);
+  double form_error = fmax (v0->e->plant_z_form_error, v0->e->plant_w_form_error);
+  if (isnan (v0->e->plant_z_form_error) || isnan (v0->e->plant_w_form_error))
+    lwr_para (r, "Caution: the factored forms P(z) and P(w) above could not be checked against "
+              "the sampled plant (its own response is not resolved in double precision here); "
+              "do not use them for implementation. Every margin, response and figure in this "
+              "report is computed from the plant's own response.");
+  else if (form_error > LW_FORM_TOLERANCE)
+    lwr_para (r, "Caution: the factored forms P(z) and P(w) above are ill-conditioned here (high "
+              "relative degree, fast sampling or stiff scaling): they differ from the sampled "
+              "plant by up to %.2g relative, so they are not the plant and must not be used "
+              "for implementation. Every margin, response and figure in this report is "
+              "computed from the plant's own response, not from these factors.", form_error);
   TableFill t = lwr_table_begin (r, "sampling", NULL, 2, (const char *const[]) { "item", "value" });
   lwr_cellf (&t, "sample period T");
   lwr_cellf (&t, "%.6g s (%.6g Hz)", d->period_s, 1.0 / d->period_s);

@@ -176,7 +176,7 @@ check(rc == 0, f"--json run: exit {rc}, stderr {err!r}")
 doc = json.loads(out)   # raises (test fails) when the text is not valid JSON
 
 TOP = {"sample_period_s", "plant_z", "plant_w", "loop", "closed_loop", "step", "disturbance",
-       "indices"}
+       "indices", "plant_z_form_error", "plant_w_form_error"}
 MODEL_KEYS = {"gain", "zeros", "poles"}
 LOOP = {"gain_crossovers_rad_s", "phase_margins_deg", "phase_crossovers_rad_s",
         "gain_margins_db", "phase_margin_deg", "gain_crossover_rad_s", "gain_margin_db",
@@ -192,6 +192,18 @@ DIST_RESPONSE = {"samples", "actuator", "peak", "peak_time_s", "last_value", "sa
                  "held_samples", "intersample_ripple", "continuous_peak", "indices"}
 INDICES = {"iae", "ise", "itae", "control_effort"}
 check(set(doc) == TOP, f"top-level keys {sorted(doc)}")
+# the factored plant checked against the plant (docs/conventions.md, "Factored forms"): the
+# issue's 1/(s+1)^9 at T = 0.01 s has a plant_z off by a factor ~2 and must be marked, the
+# camera slider's is the plant to rounding
+check(doc["plant_z_form_error"] is not None and doc["plant_z_form_error"] < 1e-10,
+      f"plant_z_form_error {doc['plant_z_form_error']}")
+bad = json.loads(subprocess.run([CLI, "analyze", "--plant", "1/(s+1)^9", "--period", "0.01",
+                                 "--json"], capture_output=True, text=True, check=True).stdout)
+check(bad["plant_z_form_error"] is None or bad["plant_z_form_error"] > 1e-6,
+      f"1/(s+1)^9: plant_z_form_error {bad['plant_z_form_error']} not marked")
+text = subprocess.run([CLI, "analyze", "--plant", "1/(s+1)^9", "--period", "0.01"],
+                      capture_output=True, text=True, check=True).stdout
+check("ILL-CONDITIONED" in text or "NOT VERIFIED" in text, "the text report marks P(z)")
 check(set(doc["plant_z"]) == MODEL_KEYS, f"plant_z keys {sorted(doc['plant_z'])}")
 check(set(doc["plant_w"]) == MODEL_KEYS, f"plant_w keys {sorted(doc['plant_w'])}")
 check(set(doc["loop"]) == LOOP, f"loop keys {sorted(doc['loop'])}")

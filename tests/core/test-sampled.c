@@ -247,6 +247,34 @@ test_bad_input (void **state)
   lw_model_free (imp);
 }
 
+/* The factored display form against the plant (lw_sampled_plant_form_error). */
+static void
+test_form_error (void **state)
+{
+  (void) state;
+  LwModel *ps = parse ("180/(s*(s+12))", LW_DOMAIN_S, 0.0);
+  LwSampledPlant *p = NULL;
+  LwError err;
+  assert_int_equal (lw_sampled_plant_new (ps, 0.0, 0.002, &p, &err), LW_OK);
+  LwModel *mz = lw_sampled_plant_model (p);
+  LwModel *mw = lw_model_z_to_w (mz);
+  /* a well-conditioned second-order plant: the factors are the plant to rounding (1e-10 leaves
+   * room for the roots' own rounding, far below the tolerance of 1e-6) */
+  double ez = lw_sampled_plant_form_error (p, mz), ew = lw_sampled_plant_form_error (p, mw);
+  assert_true (ez <= 1e-10);
+  assert_true (ew <= 1e-10);
+  /* the same form with its gain off by 0.1 %: the check sees 1e-3 (to its rounding) */
+  mz->gain *= 1.001;
+  assert_close (lw_sampled_plant_form_error (p, mz), 1e-3, 1e-9, "form error of a gain off by 0.1 %");
+  /* a zero moved by 1e-3: seen well above the tolerance */
+  mw->zeros[0] += 1e-3 * cabs (mw->zeros[0]);
+  assert_true (lw_sampled_plant_form_error (p, mw) > LW_FORM_TOLERANCE);
+  lw_model_free (mz);
+  lw_model_free (mw);
+  lw_sampled_plant_free (p);
+  lw_model_free (ps);
+}
+
 int
 main (void)
 {
@@ -259,6 +287,7 @@ main (void)
     cmocka_unit_test (test_bilinear_map),
     cmocka_unit_test (test_realize),
     cmocka_unit_test (test_bad_input),
+    cmocka_unit_test (test_form_error),
   };
   return cmocka_run_group_tests (tests, NULL, NULL);
 }

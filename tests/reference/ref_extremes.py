@@ -37,13 +37,14 @@ import mpmath as mp
 import numpy as np
 
 sys.path.insert(0, os.path.dirname(os.path.abspath(__file__)))
-from lwref import Checker, _num, poly_text, run_analyze, wrap180  # noqa: E402
+from lwref import Checker, _num, model_eval, model_of, poly_text, run_analyze, wrap180  # noqa: E402
 from lwzoh import ZohLoop  # noqa: E402
 
 TOL_W = 1e-6          # crossover frequency, relative (the brief)
 TOL_DEG = 1e-4        # phase margin, degrees (the brief)
 TOL_DB = 1e-4         # gain margin, dB (the brief)
 RANGE_DB = 120.0      # phase crossovers checked for presence where |L| is within this of 1
+TOL_FORM = 1e-6       # plant_z / plant_w against the plant, relative, unless marked (the brief)
 
 
 def draw_plant(rng):
@@ -282,6 +283,36 @@ def check_case(chk, cli, case):
           f"band(s); reference {len(gb)} / {len(pb) + nyq}", flush=True)
     chk.true(f"{tag}: lists ascending", all(a < b for a, b in zip(gcs, gcs[1:]))
              and all(a < b for a, b in zip(pcs, pcs[1:])))
+
+    # the factored plant_z and plant_w: the plant to 1e-6 relative at random points on the
+    # unit circle (and the matching w = j(2/T)tan(ωT/2)), or marked ill-conditioned by a
+    # plant_*_form_error above 1e-6, or null: not verifiable (docs/cli.md)
+    rng = random.Random(case.idx)
+    marked_z = js.get("plant_z_form_error")
+    marked_w = js.get("plant_w_form_error")
+    mz, mw = model_of(js["plant_z"]), model_of(js["plant_w"])
+    worst_z = worst_w = 0.0
+    with mp.workdps(lp.dps):
+        peak = 0.0
+        pts = []
+        for _ in range(5):
+            w = wn * 10 ** rng.uniform(-3, math.log10(0.999))
+            ref = lp.core(w) * mp.exp(-mp.mpc(0, 1) * mp.mpf(w) * lp.T * lp.d) / lp.k * mp.mpf(_num(case.gain))
+            pts.append((w, complex(ref)))
+            peak = max(peak, abs(complex(ref)))
+    for w, ref in pts:
+        if not abs(ref) > 1e-9 * peak:
+            continue
+        z = complex(math.cos(w * case.T), math.sin(w * case.T))
+        wv = complex(0, (2 / case.T) * math.tan(w * case.T / 2))
+        worst_z = max(worst_z, abs(complex(model_eval(mz, z)) - ref) / abs(ref))
+        worst_w = max(worst_w, abs(complex(model_eval(mw, wv)) - ref) / abs(ref))
+    chk.true(f"{tag}: plant_z is the plant to {TOL_FORM:g} or marked ill-conditioned "
+             f"(worst {worst_z:.2g}, marked {marked_z})",
+             worst_z <= TOL_FORM or marked_z is None or marked_z > TOL_FORM)
+    chk.true(f"{tag}: plant_w is the plant to {TOL_FORM:g} or marked ill-conditioned "
+             f"(worst {worst_w:.2g}, marked {marked_w})",
+             worst_w <= TOL_FORM or marked_w is None or marked_w > TOL_FORM)
 
     # reference crossovers
     ref_gc = [r for r in (refine(lp, fgain(lp), a, b) for a, b in gb) if r is not None]
