@@ -42,6 +42,12 @@ struct _LwPlotPane
   int sel_stage, sel_corner;
   int dragging;                 /* handle index under drag, or −1 */
   double drag_start_x, drag_start_y;
+  /* the pixel ↔ value mapping as the drag began, kept for the whole drag: figures arrive
+   * while it goes on (from the evaluation worker, whenever it finishes) and may lay their
+   * panel out a little differently (tick labels of another width), which must not move the
+   * corner under a pointer that stands still */
+  LwPlotAxis drag_xa, drag_ya;
+  double drag_left, drag_top, drag_w, drag_h;
   char *drag_label;
   GtkGesture *drag;
 
@@ -271,6 +277,15 @@ values_at (LwPlotPane *self, double px, double py, double *x, double *y)
   return isfinite (*x) && isfinite (*y);
 }
 
+/* values_at with the mapping kept when the drag began */
+static gboolean
+drag_values_at (LwPlotPane *self, double px, double py, double *x, double *y)
+{
+  *x = lw_plot_axis_unmap (&self->drag_xa, (px - self->drag_left) / self->drag_w);
+  *y = lw_plot_axis_unmap (&self->drag_ya, 1.0 - (py - self->drag_top) / self->drag_h);
+  return isfinite (*x) && isfinite (*y);
+}
+
 static void
 drag_begin (GtkGestureDrag *g, double x, double y, LwPlotPane *self)
 {
@@ -299,6 +314,11 @@ drag_begin (GtkGestureDrag *g, double x, double y, LwPlotPane *self)
   self->dragging = i;
   self->drag_start_x = x;
   self->drag_start_y = y;
+  /* values_at succeeded: the panel has both axes and a rect */
+  self->drag_xa = *lw_plot_panel_x_axis (self->plot, 0);
+  self->drag_ya = *lw_plot_panel_y_axis (self->plot, 0);
+  lw_plot_panel_rect (self->plot, 0, &self->drag_left, &self->drag_top, &self->drag_w,
+                      &self->drag_h);
   g_signal_emit (self, signals[SIGNAL_DRAG_BEGIN], 0, (guint) i, vx, vy);
 }
 
@@ -317,7 +337,7 @@ drag_update (GtkGestureDrag *g, double dx, double dy, LwPlotPane *self)
   self->hover_x = px;
   self->hover_y = py;
   double x, y;
-  if (values_at (self, px, py, &x, &y))
+  if (drag_values_at (self, px, py, &x, &y))
     {
       GdkModifierType mods =
         gtk_event_controller_get_current_event_state (GTK_EVENT_CONTROLLER (g));

@@ -42,6 +42,23 @@ def wait_for(pred, what, timeout=20.0):
     fail('timed out waiting for ' + what)
 
 
+def settle(path, quiet=1.0, timeout=30.0):
+    """Waits until the window's log at path has printed nothing new for `quiet` seconds: its
+    evaluations run in a worker and their figures arrive when they finish, so a layout read
+    before that may be replaced by a later one."""
+    deadline = time.monotonic() + timeout
+    last, since = None, time.monotonic()
+    while time.monotonic() < deadline:
+        with open(path, 'rb') as f:
+            size = len(f.read())
+        if size != last:
+            last, since = size, time.monotonic()
+        elif time.monotonic() - since >= quiet:
+            return
+        time.sleep(0.1)
+    fail('the window did not settle within %g s' % timeout)
+
+
 def find_window(name):
     out = run('xdotool', 'search', '--onlyvisible', '--name', name, check=False)
     return out.split()[0] if out else None

@@ -24,7 +24,7 @@ import xml.etree.ElementTree as ET
 
 sys.path.insert(0, os.path.dirname(os.path.abspath(__file__)))
 import lwgui  # noqa: E402
-from lwgui import (fail, find_window, key, kill_window, quit_window, run,  # noqa: E402
+from lwgui import (fail, find_window, key, kill_window, quit_window, run, settle,  # noqa: E402
                    saved_after)
 
 NS = '{urn:loopwright:design}'
@@ -94,7 +94,7 @@ def inner(app, cli, schema_dir, example, artefacts):
                        'the window on design.lwd', 30)
         wait_for(lambda: log.last('LW-HANDLE', view='bode-w', stage=1, corner=0),
                  'the handles of the w-plane Bode view')
-        time.sleep(1.0)
+        settle(log_path)
         run('import', '-window', 'root', os.path.join(artefacts, 'edit-before.png'))
 
         # The canonical form of the document as opened, and its analysis.

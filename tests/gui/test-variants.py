@@ -118,7 +118,9 @@ def inner(app, schema_dir, example, artefacts):
         if copy_a.replace(b'notched copy', b'notched') != ref0:
             fail('the copy\'s stages differ from the original\'s')
 
-        # Drag the copy's lead zero to the right.
+        # Drag the copy's lead zero to the right, once the window has settled (its figures
+        # arrive from the evaluation worker).
+        lwgui.settle(log_path)
         geo = run('xdotool', 'getwindowgeometry', wid)
         m = re.search(r'Position: (-?\d+),(-?\d+)', geo)
         wx, wy = int(m.group(1)), int(m.group(2))
