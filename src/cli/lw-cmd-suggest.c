@@ -12,6 +12,7 @@
 #include "lw-cli-common.h"
 #include "lw-cli-doc.h"
 #include "lw-cli-json.h"
+#include "lw-cmd-suggest-helper.h"
 #include "lw-require.h"
 #include "lw-stage.h"
 #include "lw-synth.h"
@@ -249,6 +250,8 @@ static const char suggest_help[] =
   "       (--crossover RAD_S | --rise-time SECONDS) [options]\n"
   "       " LW_CLI_PROG " suggest FILE.lwd --phase-margin DEG (--crossover RAD_S |\n"
   "       --rise-time SECONDS) [options]\n"
+  "       " LW_CLI_PROG " suggest (FILE.lwd | --plant EXPR --period SECONDS)\n"
+  "       --helper NAME [options]\n"
   "\n"
   "Given a design document (FILE.lwd), the plant, dead time, period and computation delay\n"
   "come from it (its stages are not used: the controller is what is proposed); the loop\n"
@@ -269,6 +272,19 @@ static const char suggest_help[] =
   "  --safety DEG             phase added to the lead and kept as a reserve, 0 to 90\n"
   "                           (default 5)\n"
   "  --json                   print the results as JSON instead of a report\n"
+  "\n"
+  "With --helper, one formula helper, its targets taken from the options or else from\n"
+  "the document's requirements (docs/design-helpers.md):\n"
+  "  --helper NAME            crossover-gain, lead, lag, pi, notch, or meet (gain + lead,\n"
+  "                           + PI or lag for an error requirement, checked and adjusted\n"
+  "                           until the requirements pass; replaces the variant's stages);\n"
+  "                           the others add stages after the variant's\n"
+  "  --variant NAME           the variant to work on (default: the active one)\n"
+  "  --ratio R                lag: low-frequency gain ratio, > 1 (default: from the\n"
+  "                           step- or ramp-error requirement)\n"
+  "  --decades-below D        lag: its zero D decades below the crossover (default 1)\n"
+  "  --zero-fraction F        PI: its zero at F times the crossover, 0 < F < 1 (default 0.1)\n"
+  "  --output FILE.lwd        also save the document with the proposal applied\n"
   "  -h, --help               show this help\n"
   "\n"
   "Exit status: 0 success, 2 bad input (or a design that needs more than 120 degrees of\n"
@@ -282,6 +298,12 @@ typedef struct
   char *crossover;
   char *rise_time;
   char *safety;
+  char *helper;
+  char *variant;
+  char *ratio;
+  char *decades;
+  char *fraction;
+  char *output;
   gboolean json;
   gboolean help;
 } SuggestArgs;
@@ -318,6 +340,21 @@ static int
 suggest_run (void *data)
 {
   const SuggestArgs *a = data;
+  if (a->helper != NULL)
+    {
+      LwSuggestHelperArgs h = { &a->loop, a->files, a->helper, a->variant, a->phase_margin,
+                                a->crossover, a->rise_time, a->safety, a->ratio, a->decades,
+                                a->fraction, a->output, a->json };
+      return lw_cmd_suggest_helper (&h);
+    }
+  const char *only_helper = a->variant ? "--variant" : a->ratio ? "--ratio"
+                            : a->decades ? "--decades-below" : a->fraction ? "--zero-fraction"
+                            : a->output ? "--output" : NULL;
+  if (only_helper != NULL)
+    {
+      lw_cli_bad_input (only_helper, "needs --helper (see '" LW_CLI_PROG " suggest --help')");
+      return LW_EXIT_BAD_INPUT;
+    }
   g_auto (LwCliLoopArgs) loop_args = { 0 };
   int status = suggest_loop_args (a, &loop_args);
   if (status != LW_EXIT_OK)
@@ -469,6 +506,12 @@ lw_cmd_suggest (int argc, char **argv)
     { "crossover", 0, 0, G_OPTION_ARG_STRING, &a.crossover, NULL, NULL },
     { "rise-time", 0, 0, G_OPTION_ARG_STRING, &a.rise_time, NULL, NULL },
     { "safety", 0, 0, G_OPTION_ARG_STRING, &a.safety, NULL, NULL },
+    { "helper", 0, 0, G_OPTION_ARG_STRING, &a.helper, NULL, NULL },
+    { "variant", 0, 0, G_OPTION_ARG_STRING, &a.variant, NULL, NULL },
+    { "ratio", 0, 0, G_OPTION_ARG_STRING, &a.ratio, NULL, NULL },
+    { "decades-below", 0, 0, G_OPTION_ARG_STRING, &a.decades, NULL, NULL },
+    { "zero-fraction", 0, 0, G_OPTION_ARG_STRING, &a.fraction, NULL, NULL },
+    { "output", 0, 0, G_OPTION_ARG_FILENAME, &a.output, NULL, NULL },
     { "json", 0, 0, G_OPTION_ARG_NONE, &a.json, NULL, NULL },
     { "help", 'h', 0, G_OPTION_ARG_NONE, &a.help, NULL, NULL },
     { G_OPTION_REMAINING, 0, 0, G_OPTION_ARG_FILENAME_ARRAY, &a.files, NULL, NULL },
@@ -481,6 +524,12 @@ lw_cmd_suggest (int argc, char **argv)
   g_free (a.crossover);
   g_free (a.rise_time);
   g_free (a.safety);
+  g_free (a.helper);
+  g_free (a.variant);
+  g_free (a.ratio);
+  g_free (a.decades);
+  g_free (a.fraction);
+  g_free (a.output);
   g_strfreev (a.files);
   return status;
 }

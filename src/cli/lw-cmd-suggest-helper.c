@@ -1,0 +1,302 @@
+/* lw-cmd-suggest-helper.c — `loopwright-cli suggest --helper NAME`: one of the formula helpers
+ * of the engine (lw-proposal.h) applied to a design variant or to the loop of the options,
+ * reported with the variant as it would be with the proposal (docs/cli.md).
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ */
+#include "config.h"
+
+#include <math.h>
+#include <stdio.h>
+#include <string.h>
+
+#include "lw-cli-common.h"
+#include "lw-cli-doc.h"
+#include "lw-cli-json.h"
+#include "lw-cmd-suggest-helper.h"
+#include "lw-proposal.h"
+
+static void
+print_stage (size_t k, const LwStage *st)
+{
+  LwStageParam p[LW_STAGE_MAX_PARAMS];
+  size_t np = lw_stage_params (st, p);
+  printf ("  %zu. %-16s %-9s", k + 1, st->label, lw_stage_kind_name (st->kind));
+  for (size_t i = 0; i < np; i++)
+    {
+      bool unit = p[i].unit[0] != '\0' && strcmp (p[i].unit, "ratio") != 0;
+      printf ("%s%s %.6g%s%s", i == 0 ? " " : ", ", p[i].name, p[i].value, unit ? " " : "",
+              unit ? p[i].unit : "");
+    }
+  printf ("\n");
+}
+
+static void
+print_margins (const LwVariantEval *e)
+{
+  const LwMargins *m = &e->ev->margins;
+  if (m->has_phase_margin)
+    printf ("  %-24s %.4g deg at %.6g rad/s\n", "phase margin", m->phase_margin_deg,
+            m->gain_crossover_rad_s);
+  else
+    printf ("  %-24s none (no gain crossover)\n", "phase margin");
+  if (m->has_gain_margin)
+    printf ("  %-24s %.4g dB at %.6g rad/s\n", "gain margin", m->gain_margin_db,
+            m->phase_crossover_rad_s);
+  else
+    printf ("  %-24s none (no phase crossover)\n", "gain margin");
+  if (m->has_sensitivity)
+    printf ("  %-24s %.4g (%.3g dB) at %.6g rad/s\n", "sensitivity peak |S|",
+            m->sensitivity_peak, 20.0 * log10 (m->sensitivity_peak), m->sensitivity_peak_rad_s);
+  printf ("  %-24s %s\n", "closed loop", e->ev->stable ? "stable" : "UNSTABLE");
+}
+
+static void
+print_report (const LwDesign *d, size_t variant, const LwProposal *p, gboolean with_doc)
+{
+  const LwVariantEval *e = p->preview;
+  printf ("%s", lw_helper_title (p->kind));
+  if (with_doc)
+    printf (" for variant '%s'", d->variants[variant].name);
+  printf ("\n");
+  for (guint i = 0; i < p->lines->len; i++)
+    printf ("  %s\n", (const char *) g_ptr_array_index (p->lines, i));
+  size_t kept = p->replaces ? 0 : d->variants[variant].n_stages;
+  if (p->replaces)
+    printf ("\nStages replacing the variant's (w-plane; frequencies are nu in rad/s)\n");
+  else
+    printf ("\nStages added after the variant's %zu (w-plane; frequencies are nu in rad/s)\n",
+            kept);
+  for (size_t k = 0; k < p->n_stages; k++)
+    print_stage (kept + k, &p->stages[k]);
+  if (e->failure != LW_EVAL_OK)
+    {
+      printf ("\nThe variant with these stages does not evaluate: %s\n", e->error->message);
+      return;
+    }
+  if (e->controller_w != NULL)
+    {
+      char *cw = lw_model_text (e->controller_w);
+      printf ("\nController in w, with the proposal:\n  C(w) = %s\n", cw);
+      g_free (cw);
+    }
+  printf ("\nReached, loop L(z) = z^-%d C(z) P(z)\n", e->compute_delay);
+  print_margins (e);
+  if (with_doc && d->n_requirements > 0)
+    {
+      printf ("\nRequirements\n");
+      lw_cli_doc_print_requirements (d, e->requirements);
+      if (p->n_unmet == 0)
+        printf ("\nEvery requirement passes.\n");
+      else
+        {
+          printf ("\nNot met:\n");
+          for (size_t i = 0; i < p->n_unmet; i++)
+            printf ("  %s\n", p->unmet[i].reason);
+        }
+    }
+  printf ("\ncaution: simulation is not validation; commission with safe limits; follow the "
+          "applicable functional-safety standards and qualified review; local codes prevail.\n");
+}
+
+static void
+json_stage (JsonBuilder *b, const LwStage *st)
+{
+  LwStageParam p[LW_STAGE_MAX_PARAMS];
+  size_t np = lw_stage_params (st, p);
+  json_builder_begin_object (b);
+  json_builder_set_member_name (b, "kind");
+  json_builder_add_string_value (b, lw_stage_kind_name (st->kind));
+  json_builder_set_member_name (b, "label");
+  json_builder_add_string_value (b, st->label);
+  json_builder_set_member_name (b, "params");
+  json_builder_begin_object (b);
+  for (size_t i = 0; i < np; i++)
+    {
+      json_builder_set_member_name (b, p[i].name);
+      lw_cli_json_add_number (b, p[i].value);
+    }
+  json_builder_end_object (b);
+  json_builder_end_object (b);
+}
+
+static void
+print_json (const LwDesign *d, const LwProposal *p, gboolean with_doc)
+{
+  const LwVariantEval *e = p->preview;
+  JsonBuilder *b = json_builder_new ();
+  json_builder_begin_object (b);
+  json_builder_set_member_name (b, "helper");
+  json_builder_add_string_value (b, lw_helper_name (p->kind));
+  json_builder_set_member_name (b, "replaces_stages");
+  json_builder_add_boolean_value (b, p->replaces);
+  json_builder_set_member_name (b, "stages");
+  json_builder_begin_array (b);
+  for (size_t k = 0; k < p->n_stages; k++)
+    json_stage (b, &p->stages[k]);
+  json_builder_end_array (b);
+  json_builder_set_member_name (b, "steps");
+  json_builder_begin_array (b);
+  for (guint i = 0; i < p->lines->len; i++)
+    json_builder_add_string_value (b, g_ptr_array_index (p->lines, i));
+  json_builder_end_array (b);
+  json_builder_set_member_name (b, "crossover_target_rad_s");
+  lw_cli_json_add_optional (b, isfinite (p->crossover_rad_s), p->crossover_rad_s);
+  json_builder_set_member_name (b, "phase_margin_target_deg");
+  lw_cli_json_add_optional (b, isfinite (p->phase_margin_deg), p->phase_margin_deg);
+  if (e->failure == LW_EVAL_OK)
+    {
+      if (e->controller_w != NULL)
+        {
+          json_builder_set_member_name (b, "controller_w");
+          lw_cli_json_add_model (b, e->controller_w);
+        }
+      json_builder_set_member_name (b, "loop");
+      lw_cli_json_add_loop (b, &e->ev->margins);
+      json_builder_set_member_name (b, "stable");
+      json_builder_add_boolean_value (b, e->ev->stable);
+      if (with_doc)
+        {
+          json_builder_set_member_name (b, "requirements");
+          lw_cli_doc_json_requirements (b, d, e->requirements);
+          json_builder_set_member_name (b, "not_met");
+          json_builder_begin_array (b);
+          for (size_t i = 0; i < p->n_unmet; i++)
+            {
+              json_builder_begin_object (b);
+              json_builder_set_member_name (b, "requirement");
+              json_builder_add_int_value (b, (gint64) p->unmet[i].index + 1);
+              json_builder_set_member_name (b, "reason");
+              json_builder_add_string_value (b, p->unmet[i].reason);
+              json_builder_end_object (b);
+            }
+          json_builder_end_array (b);
+        }
+    }
+  else
+    {
+      json_builder_set_member_name (b, "error");
+      json_builder_add_string_value (b, e->error->message);
+    }
+  json_builder_end_object (b);
+  JsonNode *root = json_builder_get_root (b);
+  char *text = lw_cli_json_to_text (root);
+  fputs (text, stdout);
+  g_free (text);
+  json_node_unref (root);
+  g_object_unref (b);
+}
+
+/* A number option: NAN when not given, else parsed and checked to be finite. */
+static gboolean
+number_option (const char *option, const char *text, double *out)
+{
+  *out = NAN;
+  if (text == NULL)
+    return TRUE;
+  if (!lw_cli_parse_double (option, text, out))
+    return FALSE;
+  if (!isfinite (*out))
+    {
+      lw_cli_bad_input (option, "must be a finite number, got %s", text);
+      return FALSE;
+    }
+  return TRUE;
+}
+
+int
+lw_cmd_suggest_helper (const LwSuggestHelperArgs *a)
+{
+  LwHelperKind kind;
+  if (!lw_helper_from_name (a->helper, &kind))
+    {
+      GString *names = g_string_new (NULL);
+      for (int k = 0; k < LW_HELPER_COUNT; k++)
+        g_string_append_printf (names, "%s%s", k ? ", " : "", lw_helper_name (k));
+      lw_cli_bad_input ("--helper", "unknown helper '%s' (one of: %s)", a->helper, names->str);
+      g_string_free (names, TRUE);
+      return LW_EXIT_BAD_INPUT;
+    }
+  LwHelperOptions o;
+  lw_helper_options_init (&o, kind);
+  double safety, decades, fraction;
+  if (!number_option ("--crossover", a->crossover, &o.crossover_rad_s)
+      || !number_option ("--rise-time", a->rise_time, &o.rise_time_s)
+      || !number_option ("--phase-margin", a->phase_margin, &o.phase_margin_deg)
+      || !number_option ("--safety", a->safety, &safety)
+      || !number_option ("--ratio", a->ratio, &o.lag_ratio)
+      || !number_option ("--decades-below", a->decades, &decades)
+      || !number_option ("--zero-fraction", a->fraction, &fraction))
+    return LW_EXIT_BAD_INPUT;
+  if (!isnan (safety))
+    o.safety_deg = safety;
+  if (!isnan (decades))
+    o.lag_decades = decades;
+  if (!isnan (fraction))
+    o.pi_fraction = fraction;
+  if (a->crossover != NULL && a->rise_time != NULL)
+    {
+      lw_cli_bad_input ("suggest", "give at most one of --crossover and --rise-time");
+      return LW_EXIT_BAD_INPUT;
+    }
+
+  g_autoptr (LwDesign) d = NULL;
+  size_t variant = 0;
+  const char *place = "suggest";
+  gboolean with_doc = a->files != NULL && a->files[0] != NULL;
+  int status;
+  if (with_doc)
+    {
+      status = lw_cli_doc_one_file ("suggest", a->files, &place);
+      if (status == LW_EXIT_OK)
+        status = lw_cli_doc_refuse_loop_options ("suggest", place, a->loop);
+      if (status == LW_EXIT_OK)
+        status = lw_cli_doc_load (place, &d);
+      if (status == LW_EXIT_OK)
+        status = lw_cli_doc_variant (d, "--variant", a->variant, &variant);
+      if (status != LW_EXIT_OK)
+        return status;
+    }
+  else
+    {
+      if (a->variant != NULL)
+        {
+          lw_cli_bad_input ("--variant", "needs a design document");
+          return LW_EXIT_BAD_INPUT;
+        }
+      LwCliLoop lp;
+      status = lw_cli_loop_build ("suggest", a->loop, &lp);
+      if (status != LW_EXIT_OK)
+        return status;
+      if (a->loop->controller != NULL || a->loop->controller_z != NULL)
+        {
+          lw_cli_loop_clear (&lp);
+          lw_cli_bad_input ("suggest", "--helper works on a design document's stages; without "
+                            "one, the loop starts from no controller (give no --controller)");
+          return LW_EXIT_BAD_INPUT;
+        }
+      d = lw_design_new (a->loop->plant, lp.period_s);
+      d->dead_time_s = lp.dead_time_s;
+      d->compute_delay = lp.compute_delay;
+      lw_cli_loop_clear (&lp);
+    }
+
+  g_autoptr (GError) error = NULL;
+  g_autoptr (LwProposal) p = lw_proposal_make (d, variant, &o, NULL, &error);
+  if (p == NULL)
+    return lw_cli_report_gerror (with_doc ? place : "suggest", error);
+
+  if (a->output != NULL)
+    {
+      g_autoptr (LwDesign) applied = lw_proposal_apply (d, variant, p);
+      if (!lw_design_save_file (applied, a->output, &error))
+        {
+          lw_cli_bad_input ("--output", "%s", error->message);
+          return LW_EXIT_INTERNAL;
+        }
+    }
+  if (a->json)
+    print_json (d, p, with_doc);
+  else
+    print_report (d, variant, p, with_doc);
+  return LW_EXIT_OK;
+}
