@@ -16,84 +16,14 @@
 #include "lw-proposal.h"
 
 static void
-print_stage (size_t k, const LwStage *st)
-{
-  LwStageParam p[LW_STAGE_MAX_PARAMS];
-  size_t np = lw_stage_params (st, p);
-  printf ("  %zu. %-16s %-9s", k + 1, st->label, lw_stage_kind_name (st->kind));
-  for (size_t i = 0; i < np; i++)
-    {
-      bool unit = p[i].unit[0] != '\0' && strcmp (p[i].unit, "ratio") != 0;
-      printf ("%s%s %.6g%s%s", i == 0 ? " " : ", ", p[i].name, p[i].value, unit ? " " : "",
-              unit ? p[i].unit : "");
-    }
-  printf ("\n");
-}
-
-static void
-print_margins (const LwVariantEval *e)
-{
-  const LwMargins *m = &e->ev->margins;
-  if (m->has_phase_margin)
-    printf ("  %-24s %.4g deg at %.6g rad/s\n", "phase margin", m->phase_margin_deg,
-            m->gain_crossover_rad_s);
-  else
-    printf ("  %-24s none (no gain crossover)\n", "phase margin");
-  if (m->has_gain_margin)
-    printf ("  %-24s %.4g dB at %.6g rad/s\n", "gain margin", m->gain_margin_db,
-            m->phase_crossover_rad_s);
-  else
-    printf ("  %-24s none (no phase crossover)\n", "gain margin");
-  if (m->has_sensitivity)
-    printf ("  %-24s %.4g (%.3g dB) at %.6g rad/s\n", "sensitivity peak |S|",
-            m->sensitivity_peak, 20.0 * log10 (m->sensitivity_peak), m->sensitivity_peak_rad_s);
-  printf ("  %-24s %s\n", "closed loop", e->ev->stable ? "stable" : "UNSTABLE");
-}
-
-static void
 print_report (const LwDesign *d, size_t variant, const LwProposal *p, gboolean with_doc)
 {
-  const LwVariantEval *e = p->preview;
   printf ("%s", lw_helper_title (p->kind));
   if (with_doc)
     printf (" for variant '%s'", d->variants[variant].name);
   printf ("\n");
-  for (guint i = 0; i < p->lines->len; i++)
-    printf ("  %s\n", (const char *) g_ptr_array_index (p->lines, i));
-  size_t kept = p->replaces ? 0 : d->variants[variant].n_stages;
-  if (p->replaces)
-    printf ("\nStages replacing the variant's (w-plane; frequencies are nu in rad/s)\n");
-  else
-    printf ("\nStages added after the variant's %zu (w-plane; frequencies are nu in rad/s)\n",
-            kept);
-  for (size_t k = 0; k < p->n_stages; k++)
-    print_stage (kept + k, &p->stages[k]);
-  if (e->failure != LW_EVAL_OK)
-    {
-      printf ("\nThe variant with these stages does not evaluate: %s\n", e->error->message);
-      return;
-    }
-  if (e->controller_w != NULL)
-    {
-      char *cw = lw_model_text (e->controller_w);
-      printf ("\nController in w, with the proposal:\n  C(w) = %s\n", cw);
-      g_free (cw);
-    }
-  printf ("\nReached, loop L(z) = z^-%d C(z) P(z)\n", e->compute_delay);
-  print_margins (e);
-  if (with_doc && d->n_requirements > 0)
-    {
-      printf ("\nRequirements\n");
-      lw_cli_doc_print_requirements (d, e->requirements);
-      if (p->n_unmet == 0)
-        printf ("\nEvery requirement passes.\n");
-      else
-        {
-          printf ("\nNot met:\n");
-          for (size_t i = 0; i < p->n_unmet; i++)
-            printf ("  %s\n", p->unmet[i].reason);
-        }
-    }
+  g_autofree char *text = lw_proposal_describe (d, variant, p);
+  fputs (text, stdout);
   printf ("\ncaution: simulation is not validation; commission with safe limits; follow the "
           "applicable functional-safety standards and qualified review; local codes prevail.\n");
 }

@@ -98,6 +98,11 @@ typedef struct
 LwProposal *lw_proposal_make (const LwDesign *d, size_t variant, const LwHelperOptions *o,
                               LwPlantCache *cache, GError **error);
 
+/* The proposal in words, as the CLI prints it and the window previews it: how the targets
+ * were found, the stages, the controller in w, the margins reached and each requirement's
+ * verdict with those not met. g_free it. */
+char *lw_proposal_describe (const LwDesign *d, size_t variant, const LwProposal *p);
+
 /* A copy of d with the proposal applied to variant `variant`. */
 LwDesign *lw_proposal_apply (const LwDesign *d, size_t variant, const LwProposal *p);
 

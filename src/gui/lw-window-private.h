@@ -10,6 +10,7 @@
  *   lw-window-variants.c the variant actions and which variants are compared
  *   lw-window-drag.c     drag handles on the Bode views and their keyboard moves
  *   lw-window-export.c   Export Figure
+ *   lw-window-helpers.c  the formula helpers (lw-helper-dialog) applied as one undo step
  *   lw-window-theme.c    the plots' colours following the dark style
  *   lw-window-testing.c  the drag benchmark and the test hook of Export Figure
  *
@@ -144,6 +145,9 @@ void lw_window_class_init_export (GtkWidgetClass *widget_class);
 /* The figure of view for Export Figure: the variants on show (LwExportBuildFunc). */
 LwPlot *lw_window_build_export_plot (LwPlotView view, gpointer user_data, char *err,
                                      size_t err_size);
+
+/* lw-window-helpers.c */
+void lw_window_class_init_helpers (GtkWidgetClass *widget_class);
 
 /* lw-window-theme.c */
 void lw_window_init_theme (LwWindow *self);
