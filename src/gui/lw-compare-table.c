@@ -25,7 +25,7 @@ struct _LwCompareTable
 
 G_DEFINE_FINAL_TYPE (LwCompareTable, lw_compare_table, GTK_TYPE_WIDGET)
 
-typedef enum { BETTER_HIGHER, BETTER_LOWER } Better;
+typedef enum { BETTER_NONE, BETTER_HIGHER, BETTER_LOWER } Better;
 
 typedef struct
 {
@@ -33,35 +33,69 @@ typedef struct
   const char *label;           /* translatable */
   const char *unit;
   Better better;
+  /* a variant is marked the best of a row only when it beats every other by more than
+   * max(abs_tol, rel_tol·|value|): smaller differences are within what a model, a
+   * measurement or the grid can tell apart (choices of the project, common practice, no
+   * source) */
+  double abs_tol, rel_tol;
 } Row;
 
 enum
 {
-  ROW_PM, ROW_GM, ROW_WC, ROW_DM, ROW_MS, ROW_OS, ROW_RISE, ROW_SETTLE, ROW_IAE, ROW_ISE,
-  ROW_ITAE, ROW_EFFORT, ROW_UPEAK, N_ROWS
+  ROW_PERIOD, ROW_PM, ROW_GM, ROW_WC, ROW_DM, ROW_MS, ROW_OS, ROW_RISE, ROW_SETTLE, ROW_IAE,
+  ROW_ISE, ROW_ITAE, ROW_EFFORT, ROW_UPEAK, N_ROWS
 };
 
+/* Units of the time-domain indices: for a reference step of 1, the error is in units of the
+ * step (lw-simulate.h): IAE = T Σ|e| in s, ISE = T Σe² in s, ITAE = T Σ kT|e| in s²; the
+ * control effort T Σu² in (actuator units)²·s. */
 static const Row rows[N_ROWS] = {
-  { "phase-margin", N_("Phase margin"), "°", BETTER_HIGHER },
-  { "gain-margin", N_("Gain margin"), "dB", BETTER_HIGHER },
-  { "crossover", N_("Crossover ω"), "rad/s", BETTER_HIGHER },
-  { "delay-margin", N_("Delay margin"), "s", BETTER_HIGHER },
-  { "sensitivity-peak", N_("Sensitivity peak Ms"), "", BETTER_LOWER },
-  { "overshoot", N_("Overshoot"), "%", BETTER_LOWER },
-  { "rise-time", N_("Rise time"), "s", BETTER_LOWER },
-  { "settling-time", N_("Settling time"), "s", BETTER_LOWER },
-  { "iae", N_("IAE"), "s", BETTER_LOWER },
-  { "ise", N_("ISE"), "s", BETTER_LOWER },
-  { "itae", N_("ITAE"), "s²", BETTER_LOWER },
-  { "control-effort", N_("Control effort"), "s", BETTER_LOWER },
-  { "actuator-peak", N_("Peak actuator output"), "", BETTER_LOWER },
+  { "period", N_("Sample period"), "s", BETTER_NONE, 0, 0 },
+  { "phase-margin", N_("Phase margin"), "°", BETTER_HIGHER, 0.5, 0 },
+  { "gain-margin", N_("Gain margin"), "dB", BETTER_HIGHER, 0.2, 0 },
+  { "crossover", N_("Crossover ω"), "rad/s", BETTER_HIGHER, 0, 0.01 },
+  { "delay-margin", N_("Delay margin"), "s", BETTER_HIGHER, 0, 0.01 },
+  { "sensitivity-peak", N_("Sensitivity peak Ms"), "", BETTER_LOWER, 0.02, 0 },
+  { "overshoot", N_("Overshoot"), "%", BETTER_LOWER, 0.5, 0 },
+  { "rise-time", N_("Rise time"), "s", BETTER_LOWER, 0, 0.01 },
+  { "settling-time", N_("Settling time"), "s", BETTER_LOWER, 0, 0.01 },
+  { "iae", N_("IAE"), "s", BETTER_LOWER, 0, 0.01 },
+  { "ise", N_("ISE"), "s", BETTER_LOWER, 0, 0.01 },
+  { "itae", N_("ITAE"), "s²", BETTER_LOWER, 0, 0.01 },
+  { "control-effort", N_("Control effort"), "u²·s", BETTER_LOWER, 0, 0.01 },
+  { "actuator-peak", N_("Peak actuator output"), "", BETTER_LOWER, 0, 0.01 },
 };
+
+/* The index of the variant that is best in row by a meaningful difference, or −1. */
+static int
+best_of (int row, const double *vals, guint n)
+{
+  if (rows[row].better == BETTER_NONE)
+    return -1;
+  int best = -1;
+  for (guint j = 0; j < n; j++)
+    if (!isnan (vals[j])
+        && (best < 0 || (rows[row].better == BETTER_HIGHER ? vals[j] > vals[best]
+                                                            : vals[j] < vals[best])))
+      best = (int) j;
+  if (best < 0)
+    return -1;
+  double tol = fmax (rows[row].abs_tol, rows[row].rel_tol * fabs (vals[best]));
+  for (guint j = 0; j < n; j++)
+    if ((int) j != best && !isnan (vals[j]) && !(fabs (vals[j] - vals[best]) > tol))
+      return -1;
+  return best;
+}
 
 /* The figure of a row for an evaluation; NaN when it has none. */
 static double
 row_value (int row, const LwVariantEval *e)
 {
-  if (e == NULL || e->ev == NULL)
+  if (e == NULL)
+    return NAN;
+  if (row == ROW_PERIOD)
+    return e->period_s;
+  if (e->ev == NULL)
     return NAN;
   const LwMargins *m = &e->ev->margins;
   const LwStep *s = &e->ev->step;
@@ -171,15 +205,10 @@ lw_compare_table_show (LwCompareTable *self, const char *const *names,
   for (int row = 0; row < N_ROWS; row++, r++)
     {
       double vals[LW_DESIGN_MAX_VARIANTS];
-      int best = -1;
-      for (guint j = 0; j < n && j < LW_DESIGN_MAX_VARIANTS; j++)
-        {
-          vals[j] = row_value (row, evals[j]);
-          if (!isnan (vals[j])
-              && (best < 0 || (rows[row].better == BETTER_HIGHER ? vals[j] > vals[best]
-                                                                  : vals[j] < vals[best])))
-            best = (int) j;
-        }
+      guint nv = MIN (n, LW_DESIGN_MAX_VARIANTS);
+      for (guint j = 0; j < nv; j++)
+        vals[j] = row_value (row, evals[j]);
+      int best = best_of (row, vals, nv);
       g_autofree char *label = rows[row].unit[0] != '\0'
                                  ? g_strdup_printf ("%s (%s)", _(rows[row].label),
                                                     rows[row].unit)
@@ -187,14 +216,14 @@ lw_compare_table_show (LwCompareTable *self, const char *const *names,
       put (self, 0, r, label, 0, FALSE);
       g_string_append_printf (dbg, "LW-METRIC row=%s active=%u best=%d values=", rows[row].key,
                               active, best);
-      for (guint j = 0; j < n && j < LW_DESIGN_MAX_VARIANTS; j++)
+      for (guint j = 0; j < nv; j++)
         {
           /* 17 significant digits: the double itself, for tests against analyze --json */
           g_string_append_printf (dbg, "%s%.17g", j > 0 ? "," : "", vals[j]);
           g_autofree char *text = NULL;
           if (isnan (vals[j]))
             text = g_strdup ("—");
-          else if (j == active || isnan (vals[active]))
+          else if (j == active || isnan (vals[active]) || row == ROW_PERIOD)
             text = g_strdup_printf ("%.4g", vals[j]);
           else
             /* TRANSLATORS: a value and its difference to the active variant's */
@@ -205,8 +234,10 @@ lw_compare_table_show (LwCompareTable *self, const char *const *names,
           GtkWidget *c = put (self, (int) j + 1, r, markup, 1, FALSE);
           const char *tip = (int) j != best ? NULL
                             : rows[row].better == BETTER_HIGHER
-                                ? _("The highest of the variants compared")
-                                : _("The lowest of the variants compared");
+                                ? _("The highest of the variants compared, by a meaningful "
+                                    "difference")
+                                : _("The lowest of the variants compared, by a meaningful "
+                                    "difference");
           lw_gui_set_tooltip (c, tip);
         }
       g_string_append_c (dbg, '\n');
@@ -215,7 +246,8 @@ lw_compare_table_show (LwCompareTable *self, const char *const *names,
   for (guint i = 0; i < n_req; i++, r++)
     {
       const LwDesignRequirement *q = &reqs[i];
-      g_autofree char *title = g_markup_escape_text (lw_design_requirement_title (q), -1);
+      g_autofree char *words = lw_gui_requirement_title (q);
+      g_autofree char *title = g_markup_escape_text (words, -1);
       put (self, 0, r, title, 0, TRUE);
       if (lw_requirement_check (&q->req, NULL) != LW_OK)
         continue;

@@ -3,17 +3,10 @@
  */
 #include "config.h"
 
-#include "lw-gui-util.h"
+#include <glib/gi18n.h>
 
-static char *
-format_model (const LwModel *m)
-{
-  g_return_val_if_fail (m != NULL, NULL);
-  size_t need = lw_model_format (m, 6, NULL, 0);
-  char *text = g_malloc (need + 1);
-  lw_model_format (m, 6, text, need + 1);
-  return text;
-}
+#include "lw-engine.h"
+#include "lw-gui-util.h"
 
 void
 lw_gui_label_show_model (GtkLabel *label, const char *prefix, const LwModel *m)
@@ -24,7 +17,7 @@ lw_gui_label_show_model (GtkLabel *label, const char *prefix, const LwModel *m)
       gtk_label_set_text (label, "");
       return;
     }
-  g_autofree char *text = format_model (m);
+  g_autofree char *text = lw_model_text (m);
   g_autofree char *line = g_strdup_printf ("%s = %s", prefix, text);
   gtk_label_set_text (label, line);
 }
@@ -53,4 +46,32 @@ lw_gui_spin_wheel_off (GtkSpinButton *spin)
       g_object_unref (c);
     }
   g_object_unref (cs);
+}
+
+static const char *
+requirement_kind_words (LwReqKind kind)
+{
+  switch (kind)
+    {
+    case LW_REQ_MIN_PHASE_MARGIN: return _("Phase margin");
+    case LW_REQ_MIN_GAIN_MARGIN: return _("Gain margin");
+    case LW_REQ_MAX_SENSITIVITY: return _("Sensitivity peak");
+    case LW_REQ_CROSSOVER_RANGE: return _("Crossover");
+    case LW_REQ_MAX_STEP_ERROR: return _("Step error");
+    case LW_REQ_MAX_RAMP_ERROR: return _("Ramp error");
+    case LW_REQ_MAX_OVERSHOOT: return _("Overshoot");
+    case LW_REQ_MAX_RISE_TIME: return _("Rise time");
+    case LW_REQ_MAX_SETTLING_TIME: return _("Settling time");
+    case LW_REQ_MAX_ACTUATOR: return _("Actuator peak");
+    }
+  return _("Requirement");
+}
+
+char *
+lw_gui_requirement_title (const LwDesignRequirement *r)
+{
+  if (r->name != NULL && r->name[0] != '\0')
+    return g_strdup (r->name);
+  g_autofree char *target = lw_requirement_target_text (&r->req);
+  return g_strdup_printf ("%s %s", requirement_kind_words (r->req.kind), target);
 }

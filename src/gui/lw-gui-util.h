@@ -5,6 +5,7 @@
 
 #include <gtk/gtk.h>
 
+#include "lw-design.h"
 #include "lw-model.h"
 
 G_BEGIN_DECLS
@@ -21,5 +22,9 @@ void lw_gui_set_tooltip (GtkWidget *widget, const char *text);
  * that was under the pointer before the panels moved). The arrow keys, Page Up/Down and the
  * field's − and + buttons still step it. */
 void lw_gui_spin_wheel_off (GtkSpinButton *spin);
+
+/* A requirement in words for the window: its name when it has one, else its kind and target
+ * ("Phase margin at least 45 deg"). g_free it. */
+char *lw_gui_requirement_title (const LwDesignRequirement *r);
 
 G_END_DECLS
