@@ -350,6 +350,7 @@ typedef struct
 {
   LwAnalysisOptions opts;
   LwSimOptions so;
+  gboolean steps_given;         /* --steps: else the engine chooses the horizon */
 } AnalyzeSpec;
 
 static int
@@ -358,6 +359,7 @@ analyze_spec (const AnalyzeArgs *a, AnalyzeSpec *sp)
   gint64 v;
   lw_analysis_options_init (&sp->opts);
   lw_sim_options_init (&sp->so);
+  sp->steps_given = FALSE;
   if (a->points != NULL)
     {
       if (!lw_cli_parse_integer ("--points", a->points, 16, LW_CLI_MAX_POINTS, &v))
@@ -369,6 +371,7 @@ analyze_spec (const AnalyzeArgs *a, AnalyzeSpec *sp)
       if (!lw_cli_parse_integer ("--steps", a->steps, 2, LW_CLI_MAX_STEPS, &v))
         return LW_EXIT_BAD_INPUT;
       sp->opts.n_steps = (size_t) v;
+      sp->steps_given = TRUE;
     }
   sp->so.n_steps = sp->opts.n_steps;
   if (a->saturation != NULL)
@@ -425,7 +428,8 @@ engine_options (const AnalyzeSpec *spec, LwEngineOptions *eo)
 {
   lw_engine_options_init (eo);
   eo->n_points = spec->opts.n_points;
-  eo->n_steps = spec->opts.n_steps;
+  /* without --steps the engine chooses: 500 samples, longer when the step has not settled */
+  eo->n_steps = spec->steps_given ? spec->opts.n_steps : 0;
   eo->sim = spec->so;
   eo->disturbances = TRUE;
 }

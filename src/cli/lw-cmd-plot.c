@@ -346,7 +346,7 @@ plot_run_document (const PlotArgs *a)
   LwEngineOptions eo;
   lw_engine_options_init (&eo);
   eo.n_points = opts.n_points;
-  eo.n_steps = opts.n_steps;
+  eo.n_steps = a->steps != NULL ? opts.n_steps : 0;   /* else the engine chooses */
   LwVariantEval *e[LW_PLOT_MAX_VARIANTS] = { NULL };
   PlotVariantSource src[LW_PLOT_MAX_VARIANTS] = { { 0 } };
   size_t built = 0;
@@ -394,7 +394,7 @@ plot_run (void *data)
   LwEngineOptions eo;
   lw_engine_options_init (&eo);
   eo.n_points = opts.n_points;
-  eo.n_steps = opts.n_steps;
+  eo.n_steps = a->steps != NULL ? opts.n_steps : 0;   /* else the engine chooses */
   status = lw_cli_loop_evaluate ("plot", &lp, &eo, FALSE, &e);
   if (status != LW_EXIT_OK)
     goto out;

@@ -3,6 +3,7 @@
  */
 #include "config.h"
 
+#include <complex.h>
 #include <math.h>
 #include <string.h>
 
@@ -303,6 +304,25 @@ lw_variant_eval_ok (const LwVariantEval *e, GError **error)
   return FALSE;
 }
 
+size_t
+lw_engine_step_horizon (const LwEvaluation *ev)
+{
+  if (ev == NULL || !ev->stable || ev->n_closed_loop_poles == 0)
+    return 0;
+  double r = 0.0;
+  for (size_t i = 0; i < ev->n_closed_loop_poles; i++)
+    r = fmax (r, cabs (ev->closed_loop_poles[i]));
+  if (!(r > 0.0 && r < 1.0))
+    return 0;
+  /* the slowest mode decays to 2 % in ln(0.02)/ln(r) samples; half as much again for what
+   * a slow mode's amplitude and a repeated pole add (common practice, no source), and the
+   * delays before anything moves */
+  double k = 1.5 * log (0.02) / log (r) + ev->closed_loop_order + 10.0;
+  if (!(k < (double) LW_ENGINE_STEP_HORIZON_MAX))
+    return LW_ENGINE_STEP_HORIZON_MAX;
+  return (size_t) ceil (k);
+}
+
 /* Evaluation, simulation and achieved figures of a loop whose plant, sampled plant and
  * controllers are in e (the common path of both entry points). */
 static LwVariantEval *
@@ -327,6 +347,21 @@ eval_loop (EvalPrivate *p, const LwEngineOptions *opts)
   lw_error_clear (&err);
   if (lw_evaluate (e->sampled, e->controller_z, &ao, &e->ev, &err) != LW_OK)
     return eval_fail (p, LW_EVAL_FAILED_LOOP, &err);
+  if (opts->n_steps == 0 && e->ev->stable && !e->ev->step.has_settling)
+    {
+      /* the horizon follows the loop: long enough for its slowest pole to settle */
+      size_t want = lw_engine_step_horizon (e->ev);
+      /* and the continuous output between samples stays within its bound */
+      if (opts->sim.substeps > 0)
+        want = MIN (want, 1 + (size_t) (LW_ENGINE_CONTINUOUS_MAX / (double) opts->sim.substeps));
+      if (want > ao.n_steps)
+        {
+          ao.n_steps = want;
+          g_clear_pointer (&e->ev, lw_evaluation_free);
+          if (lw_evaluate (e->sampled, e->controller_z, &ao, &e->ev, &err) != LW_OK)
+            return eval_fail (p, LW_EVAL_FAILED_LOOP, &err);
+        }
+    }
   e->step = e->ev->step;
   e->plant_z_form_error = lw_sampled_plant_form_error (e->sampled, e->ev->plant_z);
   e->plant_w_form_error = lw_sampled_plant_form_error (e->sampled, e->ev->plant_w);

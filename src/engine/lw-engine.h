@@ -67,10 +67,25 @@ G_DEFINE_AUTOPTR_CLEANUP_FUNC (LwPlantCache, lw_plant_cache_unref)
 
 /* ---- options ------------------------------------------------------------------------------ */
 
+/* The longest step the engine chooses by itself (samples): 20 000 samples of a few series are
+ * a few hundred kB and a few ms to simulate. */
+#define LW_ENGINE_STEP_HORIZON_MAX 20000
+/* With the continuous output between samples (substeps M > 0), the horizon chosen keeps
+ * (n − 1)·M within this many points, so that every sample written as JSON (6 series of n
+ * and (t, y) of the continuous output: at most 6·20 000 + 2·900 001 numbers) stays within
+ * the CLI's 2 000 000 (docs/cli.md, Limits). */
+#define LW_ENGINE_CONTINUOUS_MAX 900000.0
+
+/* Step samples long enough for a stable loop's slowest closed-loop pole r to settle:
+ * 1.5·ln(0.02)/ln r + the closed-loop order + 10, at most LW_ENGINE_STEP_HORIZON_MAX;
+ * 0 when the loop is not stable or has no pole to go by. */
+size_t lw_engine_step_horizon (const LwEvaluation *ev);
+
 typedef struct
 {
   size_t n_points;          /* frequency points up to π/T, >= 16; 0: lw_analysis_options_init */
-  size_t n_steps;           /* step samples, >= 2; 0: lw_analysis_options_init */
+  size_t n_steps;           /* step samples, >= 2; 0: lw_analysis_options_init's 500, longer
+                               (lw_engine_step_horizon) when the step has not settled by then */
   LwSimOptions sim;         /* limits, anti-windup, substeps; compute_delay and n_steps are
                                set from the loop and n_steps above */
   gboolean disturbances;    /* also simulate the input- and output-disturbance steps */

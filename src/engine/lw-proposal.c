@@ -22,6 +22,10 @@
 #define MEET_ROUNDS 8
 #define MEET_PM_STEP_DEG 5.0
 #define MEET_CROSSOVER_STEP 1.15
+/* A PI zero raised by this fraction of ν_c per round where settling fails, up to the maximum
+ * (atan(0.4) = 21.8° of phase at ν_c; the lead pays it back). */
+#define MEET_PI_STEP 0.1
+#define MEET_PI_MAX 0.4
 /* The crossover is kept below this fraction of the Nyquist frequency π/T. */
 #define MEET_CROSSOVER_NYQUIST 0.5
 
@@ -671,6 +675,7 @@ propose_meet (Work *w, LwProposal *p, GError **error)
     say (w, "one PI adds one integrator only: requirement %zu will not be met",
          REQ_NO (which));
   double lag_ratio = 1.0;
+  double pi_fraction = o->pi_fraction;
 
   /* a lightly damped resonance above the crossover is notched first: the lead's gain would
    * lift its peak through 0 dB (gain stabilization, common practice, no source) */
@@ -712,7 +717,7 @@ propose_meet (Work *w, LwProposal *p, GError **error)
         fixed[nf++] = nd.notch;
       if (use_pi)
         {
-          fixed[nf] = lw_stage_pi (1.0, o->pi_fraction * nu);
+          fixed[nf] = lw_stage_pi (1.0, pi_fraction * nu);
           lw_stage_set_label (&fixed[nf], "PI");
           nf++;
         }
@@ -785,6 +790,15 @@ propose_meet (Work *w, LwProposal *p, GError **error)
                 pm += MEET_PM_STEP_DEG;
                 say (w, "round %d: requirement %zu (%s) fails: phase margin aimed at %.4g deg",
                      round + 1, REQ_NO (i), req_title (w->d, i), pm);
+                changed = TRUE;
+              }
+            else if (q->kind == LW_REQ_MAX_SETTLING_TIME && use_pi
+                     && pi_fraction + MEET_PI_STEP <= MEET_PI_MAX)
+              {
+                /* the PI zero's slow closed-loop pole is the long tail: move it up */
+                pi_fraction += MEET_PI_STEP;
+                say (w, "round %d: requirement %zu (%s) fails: the PI zero moved up to %.3g nu_c",
+                     round + 1, REQ_NO (i), req_title (w->d, i), pi_fraction);
                 changed = TRUE;
               }
             else if ((q->kind == LW_REQ_MAX_RISE_TIME || q->kind == LW_REQ_MAX_SETTLING_TIME)

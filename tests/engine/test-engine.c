@@ -199,6 +199,41 @@ test_threads_agree (void **state)
     }
 }
 
+/* The horizon follows the loop. P(s) = a/(s + a) with a = 0.5 rad/s, T = 1 ms, no
+ * computation delay, unity gain: the ZOH equivalent is b/(z − e) with e = e^{−aT}, b = 1 − e
+ * (first-order ZOH equivalent, Franklin, Powell & Workman, from memory, and rederived as
+ * (1 − z⁻¹) Z{a/(s(s + a))}); the closed loop b/(z − p), p = 2e − 1, steps as
+ * y_k = ½ (1 − p^k). It enters the ±2 % band of ½ for good at the first k with p^k <= 0.02,
+ * k = ⌈ln 0.02 / ln p⌉ = 3912, far beyond the 500 samples of the default; the settling time
+ * must be found, within one sample (the figures interpolate between samples). */
+static void
+test_horizon_follows_loop (void **state)
+{
+  (void) state;
+  const double a = 0.5, T = 0.001;
+  LwDesign *d = lw_design_new ("0.5/(s+0.5)", T);
+  d->compute_delay = 0;
+  g_autoptr (LwVariantEval) e = lw_engine_evaluate_variant (d, 0, NULL, NULL);
+  assert_int_equal (e->failure, LW_EVAL_OK);
+  double p = 2.0 * exp (-a * T) - 1.0;
+  double k_settle = ceil (log (0.02) / log (p));
+  assert_true (e->ev->step.n > (size_t) k_settle);
+  assert_true (e->step.has_settling);
+  assert_true (fabs (e->step.settling_time_s - k_settle * T) <= T);
+  /* the last sample against the closed form, to 1e-9 (the state-space step against the
+   * formula: rounding only) */
+  double k_last = (double) (e->step.n - 1);
+  assert_true (fabs (e->step.samples[e->step.n - 1] - 0.5 * (1.0 - pow (p, k_last))) < 1e-9);
+  /* a horizon given is kept as given */
+  LwEngineOptions o;
+  lw_engine_options_init (&o);
+  o.n_steps = 600;
+  g_autoptr (LwVariantEval) e2 = lw_engine_evaluate_variant (d, 0, &o, NULL);
+  assert_int_equal (e2->ev->step.n, 600);
+  assert_false (e2->step.has_settling);
+  lw_design_free (d);
+}
+
 static void
 test_verdicts (void **state)
 {
@@ -237,6 +272,7 @@ main (void)
     cmocka_unit_test (test_cache_shares_sampled_plant),
     cmocka_unit_test (test_threads_agree),
     cmocka_unit_test (test_verdicts),
+    cmocka_unit_test (test_horizon_follows_loop),
   };
   return cmocka_run_group_tests (tests, NULL, NULL);
 }

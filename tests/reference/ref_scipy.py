@@ -533,8 +533,21 @@ def check_case(chk, cli, case):
     scale = max(1.0, float(np.max(np.abs(yref))))
     chk.le(f"{name}: step samples ({len(y)}) vs dstep, max abs / max(1,|y|max)",
            float(np.max(np.abs(y - yref))) / scale, TOL_STEP)
-    chk.true(f"{name}: step sample count {len(y)} == requested",
-             len(y) == (case.get("steps") or 500))
+    if case.get("steps"):
+        chk.true(f"{name}: step sample count {len(y)} == requested",
+                 len(y) == case["steps"])
+    elif len(y) == 500:
+        chk.true(f"{name}: 500 samples: the step settled within them or the loop is unstable",
+                 st["settling_time_s"] is not None or not stable_ref)
+    else:
+        # the engine's horizon (src/engine/lw-engine.h, lw_engine_step_horizon): 1.5 ln 0.02 /
+        # ln r + the closed-loop order + 10 samples for the slowest closed-loop pole r, here
+        # from scipy's eigenvalues of the closed-loop state space; at most 20000 (±1: the
+        # ceiling of a float computed two ways)
+        r = float(np.max(np.abs(np.linalg.eigvals(Acl))))
+        want = min(20000, math.ceil(1.5 * math.log(0.02) / math.log(r) + Acl.shape[0] + 10))
+        chk.true(f"{name}: step horizon {len(y)} follows the slowest pole (|z| {r:.6g}): {want}",
+                 stable_ref and abs(len(y) - want) <= 1)
     if not stable_ref:
         # docs/cli.md: null for a value that does not exist (unstable loop: no final value,
         # and the other step figures are defined relative to it)
