@@ -264,6 +264,11 @@ print_report (const LwModel *plant_s, double dead_time_s, const LwEvaluation *ev
     case LW_SAMPLING_ADVICE_NONE:
       break;
     }
+  double ring;
+  if (lw_engine_ringing_pole (ev->controller_z, &ring))
+    printf ("note: the controller has a pole at z = %.6g on the negative real axis: it rings "
+            "at half the sample rate (pi/T = %.6g rad/s); a filter faster than the loop can "
+            "sample (e.g. N/Td > 2/T) belongs at a lower frequency\n", ring, G_PI / T);
   printf ("caution: simulation is not validation; commission with safe limits.\n");
 }
 

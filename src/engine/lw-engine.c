@@ -304,6 +304,26 @@ lw_variant_eval_ok (const LwVariantEval *e, GError **error)
   return FALSE;
 }
 
+gboolean
+lw_engine_ringing_pole (const LwModel *controller_z, double *pole)
+{
+  gboolean found = FALSE;
+  double worst = 0.0;
+  if (controller_z == NULL)
+    return FALSE;
+  for (size_t i = 0; i < controller_z->n_poles; i++)
+    {
+      double complex p = controller_z->poles[i];
+      /* real: exactly, or within rounding of a real root of a polynomial */
+      if (fabs (cimag (p)) <= 1e-9 * fmax (1.0, cabs (p)) && creal (p) <= LW_RINGING_POLE_LIMIT
+          && creal (p) < worst)
+        worst = creal (p), found = TRUE;
+    }
+  if (found && pole != NULL)
+    *pole = worst;
+  return found;
+}
+
 size_t
 lw_engine_step_horizon (const LwEvaluation *ev)
 {

@@ -53,6 +53,14 @@ typedef enum
 LwSamplingAdvice lw_engine_sampling_advice (const LwStep *step, double period_s,
                                             double *per_rise);
 
+/* A controller pole on the negative real axis near z = −1 alternates its sign every sample:
+ * the controller rings at half the sample rate (a filter faster than the loop can sample,
+ * e.g. a derivative filter with N/Td > 2/T, whose Tustin image lies left of z = 0). TRUE with
+ * the pole in *pole when controller_z has a real pole at or left of this (common practice, no
+ * source: it then loses less than half its amplitude per sample). */
+#define LW_RINGING_POLE_LIMIT (-0.5)
+gboolean lw_engine_ringing_pole (const LwModel *controller_z, double *pole);
+
 /* ---- the sampled-plant cache ------------------------------------------------------------ */
 
 /* Sampled plants by (plant text, dead time, period). A new plant or dead time drops the

@@ -22,6 +22,7 @@ struct _LwCompensatorPanel
   GtkLabel *error_label;
   GtkLabel *controller_w_label;
   GtkLabel *controller_z_label;
+  GtkLabel *ringing_label;      /* a controller pole near z = −1 */
   GtkDropDown *variant_dropdown;
   GtkMenuButton *variant_button;
   GtkEntry *name_entry;
@@ -213,6 +214,19 @@ lw_compensator_panel_show_eval (LwCompensatorPanel *self, LwVariantEval *eval)
   lw_gui_label_show_model (self->controller_z_label, _("C(z)"),
                    eval->ev != NULL ? eval->ev->controller_z : NULL);
 
+  double ring;
+  gboolean rings = eval->ev != NULL && lw_engine_ringing_pole (eval->ev->controller_z, &ring);
+  if (rings)
+    {
+      g_autofree char *text
+        = g_strdup_printf (_("The controller has a pole at z = %.4g, on the negative real axis: "
+                             "it rings at half the sample rate. A filter faster than the loop "
+                             "can sample (a derivative filter with N/Td > 2/T) belongs at a "
+                             "lower frequency."), ring);
+      gtk_label_set_text (self->ringing_label, text);
+    }
+  gtk_widget_set_visible (GTK_WIDGET (self->ringing_label), rings);
+
   if (eval->ev != NULL && eval->ev->margins.has_phase_margin)
     self->place_nu_rad_s = lw_warp_omega_to_nu (eval->ev->margins.gain_crossover_rad_s,
                                                 eval->ev->period_s);
@@ -320,6 +334,7 @@ lw_compensator_panel_class_init (LwCompensatorPanelClass *klass)
   gtk_widget_class_bind_template_child (widget_class, LwCompensatorPanel, error_label);
   gtk_widget_class_bind_template_child (widget_class, LwCompensatorPanel, controller_w_label);
   gtk_widget_class_bind_template_child (widget_class, LwCompensatorPanel, controller_z_label);
+  gtk_widget_class_bind_template_child (widget_class, LwCompensatorPanel, ringing_label);
   gtk_widget_class_bind_template_child (widget_class, LwCompensatorPanel, variant_dropdown);
   gtk_widget_class_bind_template_child (widget_class, LwCompensatorPanel, variant_button);
   gtk_widget_class_bind_template_child (widget_class, LwCompensatorPanel, name_entry);

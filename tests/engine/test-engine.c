@@ -234,6 +234,30 @@ test_horizon_follows_loop (void **state)
   lw_design_free (d);
 }
 
+/* A real w-plane pole at a maps by Tustin to z = (1 − aT/2)/(1 + aT/2) (the bilinear map,
+ * Franklin, Powell & Workman): a = 3000 rad/s at T = 2 ms gives z = −0.5, at the limit, so
+ * it is flagged with that pole (1e-12: the map is exact up to rounding); a = 3500 gives
+ * z = −0.5556, flagged; a = 500 gives z = 1/3, not flagged. */
+static void
+test_ringing_pole (void **state)
+{
+  (void) state;
+  const double T = 0.002;
+  const double cases[][2] = { { 3000.0, -0.5 }, { 3500.0, -2.5 / 4.5 }, { 500.0, NAN } };
+  for (size_t i = 0; i < G_N_ELEMENTS (cases); i++)
+    {
+      LwStage st = lw_stage_real_pole (cases[i][0]);
+      LwModel *cz = NULL;
+      assert_int_equal (lw_compensator_z (&st, 1, T, &cz, NULL), LW_OK);
+      double pole = 0.0;
+      gboolean rings = lw_engine_ringing_pole (cz, &pole);
+      assert_int_equal (rings, !isnan (cases[i][1]));
+      if (rings)
+        assert_true (fabs (pole - cases[i][1]) < 1e-12);
+      lw_model_free (cz);
+    }
+}
+
 static void
 test_verdicts (void **state)
 {
@@ -273,6 +297,7 @@ main (void)
     cmocka_unit_test (test_threads_agree),
     cmocka_unit_test (test_verdicts),
     cmocka_unit_test (test_horizon_follows_loop),
+    cmocka_unit_test (test_ringing_pole),
   };
   return cmocka_run_group_tests (tests, NULL, NULL);
 }
