@@ -174,6 +174,35 @@ lw_design_model_set_plant_text (LwDesignModel *self, const char *text)
   emit_changed (self);
 }
 
+/* The document's own words: title (never NULL), author and notes (NULL or empty: none). */
+const char *
+lw_design_model_get_text_field (LwDesignModel *self, LwDesignTextField field)
+{
+  g_return_val_if_fail (LW_IS_DESIGN_MODEL (self), NULL);
+  switch (field)
+    {
+    case LW_DESIGN_TEXT_TITLE: return self->doc->title;
+    case LW_DESIGN_TEXT_AUTHOR: return self->doc->author;
+    case LW_DESIGN_TEXT_NOTES: return self->doc->notes;
+    }
+  return NULL;
+}
+
+void
+lw_design_model_set_text_field (LwDesignModel *self, LwDesignTextField field, const char *text)
+{
+  g_return_if_fail (LW_IS_DESIGN_MODEL (self));
+  char **slot = field == LW_DESIGN_TEXT_TITLE ? &self->doc->title
+                : field == LW_DESIGN_TEXT_AUTHOR ? &self->doc->author : &self->doc->notes;
+  /* the title is required (may be empty); author and notes are left out when empty */
+  const char *value = field == LW_DESIGN_TEXT_TITLE ? (text != NULL ? text : "")
+                      : (text != NULL && text[0] != '\0' ? text : NULL);
+  if (g_strcmp0 (*slot, value) == 0)
+    return;
+  lw_design_set_string (slot, value);
+  emit_changed (self);
+}
+
 double
 lw_design_model_get_dead_time_s (LwDesignModel *self)
 {

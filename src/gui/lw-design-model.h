@@ -54,6 +54,19 @@ LwDesign *lw_design_model_example_design (void);
  * margin >= 6 dB, sensitivity peak <= 2, overshoot <= 25 %. */
 LwDesignModel *lw_design_model_new_example (void);
 
+typedef enum
+{
+  LW_DESIGN_TEXT_TITLE,
+  LW_DESIGN_TEXT_AUTHOR,
+  LW_DESIGN_TEXT_NOTES
+} LwDesignTextField;
+
+/* The document's title, author and notes (the report shows them). The title is never NULL;
+ * an empty author or notes is left out of the document. */
+const char *lw_design_model_get_text_field (LwDesignModel *self, LwDesignTextField field);
+void lw_design_model_set_text_field (LwDesignModel *self, LwDesignTextField field,
+                                     const char *text);
+
 const char *lw_design_model_get_plant_text (LwDesignModel *self);
 void lw_design_model_set_plant_text (LwDesignModel *self, const char *text);
 double lw_design_model_get_dead_time_s (LwDesignModel *self);

@@ -20,7 +20,11 @@ lw_window_document_name (LwWindow *self)
 {
   if (self->file != NULL)
     return g_file_get_basename (self->file);
-  return g_strdup (_("New design"));
+  /* never saved: its title, as the report names it */
+  const char *title = lw_design_model_get_text_field (self->model, LW_DESIGN_TEXT_TITLE);
+  if (title != NULL && title[0] != '\0')
+    return g_strdup (title);
+  return g_strdup (_("Untitled design"));
 }
 
 void

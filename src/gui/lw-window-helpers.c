@@ -1,12 +1,14 @@
 /* lw-window-helpers.c — the formula helpers in the window: window.helper("NAME") opens the
  * helper's dialog (lw-helper-dialog.h) on the active variant, and its Apply puts the proposal
- * into the design as one undo step.
+ * into the design as one undo step; window.details opens the design's title, author and notes
+ * (lw-details-dialog.h).
  * SPDX-License-Identifier: GPL-3.0-or-later
  */
 #include "config.h"
 
 #include <glib/gi18n.h>
 
+#include "lw-details-dialog.h"
 #include "lw-helper-dialog.h"
 #include "lw-window-private.h"
 
@@ -47,10 +49,20 @@ helper_activated (GtkWidget *widget, const char *action_name, GVariant *paramete
   gtk_window_present (GTK_WINDOW (dialog));
 }
 
+static void
+details_activated (GtkWidget *widget, const char *action_name, GVariant *parameter)
+{
+  (void) action_name, (void) parameter;
+  LwWindow *self = LW_WINDOW (widget);
+  lw_history_commit (self->history);
+  gtk_window_present (GTK_WINDOW (lw_details_dialog_new (GTK_WINDOW (self), self->model)));
+}
+
 void
 lw_window_class_init_helpers (GtkWidgetClass *widget_class)
 {
   gtk_widget_class_install_action (widget_class, "window.helper", "s", helper_activated);
+  gtk_widget_class_install_action (widget_class, "window.details", NULL, details_activated);
   gtk_widget_class_add_binding_action (widget_class, GDK_KEY_m, GDK_CONTROL_MASK, "window.helper",
                                        "s", "meet");
 }

@@ -110,7 +110,7 @@ void lw_window_init_actions (LwWindow *self);
 void lw_window_start_history (LwWindow *self);
 
 /* lw-window-files.c */
-/* The file's name, or "New design". g_free it. */
+/* The file's name, or (never saved) the design's title, or "Untitled design". g_free it. */
 char *lw_window_document_name (LwWindow *self);
 void lw_window_update_title (LwWindow *self);
 /* Whether the document differs from what was opened or saved; the title follows. */

@@ -415,6 +415,8 @@ model_changed (LwWindow *self)
 {
   schedule_eval (self);
   lw_window_update_dirty (self);
+  if (self->file == NULL)
+    lw_window_update_title (self);   /* a design never saved is named by its title */
 }
 
 static void

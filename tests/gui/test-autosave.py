@@ -69,7 +69,7 @@ def inner(app, schema_dir, example, artefacts):
         p1, w1 = lwgui.start_window(app, design, env, files[0])
         procs.append(p1)
         key(w1, 'ctrl+n')
-        w2 = wait_for(lambda: find_window('^New design — Loopwright$'), 'the second window')
+        w2 = wait_for(lambda: find_window('^Untitled design — Loopwright$'), 'the second window')
         key(w1, 'ctrl+shift+n')
         key(w2, 'ctrl+shift+n')
 
@@ -142,7 +142,7 @@ def inner(app, schema_dir, example, artefacts):
             fail('restored %s, expected %s' % (sorted(by_source), offered))
         r1 = wait_for(lambda: window_of(p3.pid, '^• slider.lwd — Loopwright$'),
                       'the restored window on slider.lwd')
-        wait_for(lambda: window_of(p3.pid, '^• New design — Loopwright$'),
+        wait_for(lambda: window_of(p3.pid, '^• Untitled design — Loopwright$'),
                  'the restored new design')
         for p in offered:
             if os.path.exists(p):

@@ -4,7 +4,7 @@ requirements" (Ctrl+M) opens its dialog with a proposal; Return applies it; the 
 is byte for byte what `loopwright-cli suggest FILE --helper meet --output OUT` writes (one
 engine behind both); one Ctrl+Z brings back the document as it was (one undo step). Then the
 dialog again with its crossover typed wrong ("4O", a letter O for a zero): the dialog refuses
-it, Return applies nothing, and the window quits without asking to save (nothing changed).
+it, Return applies nothing. Design Details: a title typed there is saved in the document.
 
 Usage: test-helpers.py LOOPWRIGHT CLI SCHEMA_DIR EXAMPLE ARTEFACT_DIR
 Re-runs itself under `xvfb-run -a` (exit 77, skipped, when xvfb-run, xdotool or import is
@@ -95,8 +95,21 @@ def main(argv):
                 fail('a refused field still applied a proposal')
             subprocess.run(['xdotool', 'key', '--clearmodifiers', 'Escape'], check=True)
             time.sleep(0.5)
-            # unchanged since the last save: Ctrl+Q quits without asking (quit_window fails
-            # when the window is still there 15 s later)
+            # the design's title through Design Details (F10, D): typed over the old one,
+            # saved in the document
+            key(wid, 'F10')
+            time.sleep(0.7)
+            subprocess.run(['xdotool', 'key', '--clearmodifiers', 'd'], check=True)
+            time.sleep(0.8)
+            subprocess.run(['xdotool', 'type', '--delay', '30', 'Slider axis rev B'], check=True)
+            time.sleep(0.5)
+            subprocess.run(['xdotool', 'key', '--clearmodifiers', 'Escape'], check=True)
+            time.sleep(0.5)
+            titled = saved_after(wid, design)
+            if b'<title>Slider axis rev B</title>' not in titled:
+                fail('the title typed in Design Details is not in the saved document')
+            # saved: Ctrl+Q quits without asking (quit_window fails when the window is still
+            # there 15 s later)
             quit_window(proc, wid)
         finally:
             if proc is not None:
