@@ -203,10 +203,14 @@ static const Binding bindings[] = {
 
 /* Shortcuts that must win over the focused widget: a GtkPaned takes F6 and F8 and a text field
  * its own keys before a binding of the window's class is asked, so these are taken in the
- * capture phase. */
+ * capture phase. Undo and redo are the design's everywhere: a focused text field would
+ * otherwise undo its own text (and could empty the plant behind the design's back). */
 static const Binding early[] = {
   { GDK_KEY_b, CTRL_SHIFT, "window.split" },
   { GDK_KEY_v, CTRL_SHIFT, "window.variants" },
+  { GDK_KEY_z, CTRL, "window.undo" },
+  { GDK_KEY_z, CTRL_SHIFT, "window.redo" },
+  { GDK_KEY_Z, CTRL_SHIFT, "window.redo" },
 };
 
 void

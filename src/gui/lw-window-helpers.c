@@ -63,6 +63,10 @@ lw_window_class_init_helpers (GtkWidgetClass *widget_class)
 {
   gtk_widget_class_install_action (widget_class, "window.helper", "s", helper_activated);
   gtk_widget_class_install_action (widget_class, "window.details", NULL, details_activated);
+  /* Alt+Return, the usual key for the properties of what is open (Ctrl+Shift+D is GTK's
+   * inspector) */
+  gtk_widget_class_add_binding_action (widget_class, GDK_KEY_Return, GDK_ALT_MASK,
+                                       "window.details", NULL);
   gtk_widget_class_add_binding_action (widget_class, GDK_KEY_m, GDK_CONTROL_MASK, "window.helper",
                                        "s", "meet");
 }

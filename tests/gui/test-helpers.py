@@ -80,7 +80,7 @@ def main(argv):
                 fail('one Ctrl+Z did not bring back the document as it was')
 
             # the lead helper with a field typed wrong: refused, nothing applied
-            subprocess.run(['xdotool', 'key', '--window', wid, 'ctrl+m'], check=True)
+            key(wid, 'ctrl+m')
             lwgui.wait_for(lambda: len(log_has(log_path, 'helper-open meet')) >= 2,
                            'the meet dialog again')
             time.sleep(0.3)
@@ -95,11 +95,9 @@ def main(argv):
                 fail('a refused field still applied a proposal')
             subprocess.run(['xdotool', 'key', '--clearmodifiers', 'Escape'], check=True)
             time.sleep(0.5)
-            # the design's title through Design Details (F10, D): typed over the old one,
-            # saved in the document
-            key(wid, 'F10')
-            time.sleep(0.7)
-            subprocess.run(['xdotool', 'key', '--clearmodifiers', 'd'], check=True)
+            # the design's title through Design Details (Alt+Return): typed over the old
+            # one, saved in the document
+            key(wid, 'alt+Return')
             time.sleep(0.8)
             subprocess.run(['xdotool', 'type', '--delay', '30', 'Slider axis rev B'], check=True)
             time.sleep(0.5)
@@ -107,7 +105,9 @@ def main(argv):
             time.sleep(0.5)
             titled = saved_after(wid, design)
             if b'<title>Slider axis rev B</title>' not in titled:
-                fail('the title typed in Design Details is not in the saved document')
+                m = re.search(rb'<title>[^<]*</title>', titled)
+                fail('the title typed in Design Details is not in the saved document: %r'
+                     % (m.group(0) if m else None))
             # saved: Ctrl+Q quits without asking (quit_window fails when the window is still
             # there 15 s later)
             quit_window(proc, wid)
