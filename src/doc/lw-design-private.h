@@ -37,6 +37,8 @@ typedef struct
 
 extern const LwDocReqKind lw_doc_req_kinds[];
 extern const size_t lw_doc_n_req_kinds;
+/* The row of a requirement kind, or NULL. */
+const LwDocReqKind *lw_doc_req_kind (LwReqKind kind);
 
 /* The phrase for a rule in messages ("a finite number > 0"). */
 const char *lw_doc_rule_phrase (LwNumRule rule);
