@@ -257,20 +257,20 @@ plot_write (const PlotSpec *s, const PlotVariantSource *src, size_t n)
       if (!(q->kind == LW_REQ_MIN_PHASE_MARGIN && s->has_min_pm))
         lw_figure_requirements_add (&in.req, src[0].ev->period_s, q);
     }
-  char msg[256];
-  LwPlot *plot = lw_plot_new (&in, msg, sizeof msg);
+  g_autoptr (GError) error = NULL;
+  LwPlot *plot = lw_plot_new (&in, &error);
   if (plot == NULL)
     {
-      lw_cli_bad_input ("--view", "%s", msg);
+      lw_cli_bad_input ("--view", "%s", error->message);
       status = LW_EXIT_BAD_INPUT;
       goto out;
     }
   lw_plot_set_theme (plot, s->theme);
   LwPlotExportOptions eo = { .pdf_date = s->pdf_date, .pdf_title = s->title,
                              .pdf_creator = LW_CLI_PROG " " PACKAGE_VERSION };
-  if (!lw_plot_export (plot, s->format, s->out, s->width, s->height, &eo, msg, sizeof msg))
+  if (!lw_plot_export (plot, s->format, s->out, s->width, s->height, &eo, &error))
     {
-      g_printerr ("%s: %s: %s\n", LW_CLI_PROG, s->out, msg);
+      g_printerr ("%s: %s: %s\n", LW_CLI_PROG, s->out, error->message);
       status = LW_EXIT_INTERNAL;
     }
   lw_plot_free (plot);

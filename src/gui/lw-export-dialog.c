@@ -52,22 +52,21 @@ file_response (GtkNativeDialog *native, int response, gpointer user_data)
       LwPlotFormat format = (LwPlotFormat) gtk_drop_down_get_selected (e->format);
       LwPlotTheme theme = gtk_drop_down_get_selected (e->theme) == 1 ? LW_PLOT_THEME_DARK
                                                                      : LW_PLOT_THEME_LIGHT;
-      char err[256] = "";
+      g_autoptr (GError) error = NULL;
       if (path == NULL)
         show_failure (e->parent, "?", _("Only local files can be written."));
       else
         {
-          LwPlot *plot = e->build (view, e->user_data, err, sizeof err);
+          LwPlot *plot = e->build (view, e->user_data, &error);
           if (plot == NULL)
-            show_failure (e->parent, path, err);
+            show_failure (e->parent, path, error->message);
           else
             {
               lw_plot_set_theme (plot, theme);
               LwPlotExportOptions eo = { .pdf_creator = "loopwright " PACKAGE_VERSION };
               if (!lw_plot_export (plot, format, path, gtk_spin_button_get_value (e->width),
-                                   gtk_spin_button_get_value (e->height), &eo, err,
-                                   sizeof err))
-                show_failure (e->parent, path, err);
+                                   gtk_spin_button_get_value (e->height), &eo, &error))
+                show_failure (e->parent, path, error->message);
               lw_plot_free (plot);
               g_autoptr (GFile) parent = g_file_get_parent (file);
               if (e->settings != NULL && parent != NULL && g_file_peek_path (parent) != NULL)

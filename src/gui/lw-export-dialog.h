@@ -13,9 +13,8 @@
 
 G_BEGIN_DECLS
 
-/* Builds the figure of view for export (NULL with a message in err). */
-typedef LwPlot *(*LwExportBuildFunc) (LwPlotView view, gpointer user_data, char *err,
-                                      size_t err_size);
+/* Builds the figure of view for export (NULL with an error). */
+typedef LwPlot *(*LwExportBuildFunc) (LwPlotView view, gpointer user_data, GError **error);
 
 /* Shows the dialog over parent; base_name suggests the file name ("NAME-VIEW.EXT"). settings
  * may be NULL. user_data must live as long as parent. */

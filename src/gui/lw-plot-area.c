@@ -301,8 +301,8 @@ drop_unused_figures (LwPlotArea *self)
  * view's own. */
 static LwPlot *
 build_view (LwPlotView view, const LwPlotVariant *vars, guint n, double nyquist_rad_s,
-            const LwPlotRequirements *req, const LwPlot *axes_of, const char *title, char *msg,
-            size_t msg_size)
+            const LwPlotRequirements *req, const LwPlot *axes_of, const char *title,
+            GError **error)
 {
   LwPlotVariant unnamed[LW_PLOT_MAX_VARIANTS];
   n = MIN (n, LW_PLOT_MAX_VARIANTS);
@@ -321,7 +321,7 @@ build_view (LwPlotView view, const LwPlotVariant *vars, guint n, double nyquist_
   };
   if (req != NULL)
     in.req = *req;
-  return lw_plot_new (&in, msg, msg_size);
+  return lw_plot_new (&in, error);
 }
 
 /* The key's height for the variants it names at width, from a scratch surface. */
@@ -441,7 +441,7 @@ lw_plot_area_show_variants (LwPlotArea *self, const LwAreaVariant *vs, guint n, 
 
   for (guint i = 0; i < n_area_views; i++)
     {
-      char msg[256] = "";
+      g_autoptr (GError) error = NULL;
       LwPlotPane *pane = self->panes[i];
       gboolean split_row_view = self->split && split_row (area_views[i]) >= 0;
       /* the split view's left column shows the active variant alone */
@@ -452,9 +452,8 @@ lw_plot_area_show_variants (LwPlotArea *self, const LwAreaVariant *vs, guint n, 
                                                   vars[moving].name)
                                : NULL;
       LwPlot *plot = build_view (area_views[i], pv, pn, nyq, req,
-                                 keep_axes ? lw_plot_pane_get_plot (pane) : NULL, title, msg,
-                                 sizeof msg);
-      lw_plot_pane_set_plot_moving (pane, plot, plot == NULL ? msg : NULL,
+                                 keep_axes ? lw_plot_pane_get_plot (pane) : NULL, title, &error);
+      lw_plot_pane_set_plot_moving (pane, plot, plot == NULL ? error->message : NULL,
                                     split_row_view ? 0 : (int) moving);
       if (self->debug)
         {
@@ -465,7 +464,7 @@ lw_plot_area_show_variants (LwPlotArea *self, const LwAreaVariant *vs, guint n, 
     }
   for (guint k = 0; k < n_split_views && self->split; k++)
     {
-      char msg[256] = "";
+      g_autoptr (GError) error = NULL;
       LwPlotPane *left = lw_plot_area_get_pane (self, split_views[k]);
       LwPlot *plot = NULL;
       if (other != NULL)
@@ -476,12 +475,14 @@ lw_plot_area_show_variants (LwPlotArea *self, const LwAreaVariant *vs, guint n, 
                                                       other->name)
                                    : NULL;
           plot = build_view (split_views[k], other, 1, nyq, req, lw_plot_pane_get_plot (left),
-                             title, msg, sizeof msg);
+                             title, &error);
         }
-      else
-        g_snprintf (msg, sizeof msg, "%s", _("Choose a second variant to compare for the split view."));
       /* a reference: its whole figure is static */
-      lw_plot_pane_set_plot_moving (self->split_panes[k], plot, plot == NULL ? msg : NULL, -1);
+      lw_plot_pane_set_plot_moving (self->split_panes[k], plot,
+                                    plot != NULL ? NULL
+                                    : error != NULL ? error->message
+                                    : _("Choose a second variant to compare for the split view."),
+                                    -1);
       double lo, hi;
       if (plot != NULL && lw_plot_pane_get_x_view (left, &lo, &hi))
         lw_plot_pane_set_x_view (self->split_panes[k], lo, hi);
@@ -557,7 +558,7 @@ lw_plot_area_get_pane (LwPlotArea *self, LwPlotView view)
 
 LwPlot *
 lw_plot_area_build_plot (const LwAreaVariant *vs, guint n, const LwPlotRequirements *req,
-                         LwPlotView view, const char *title, char *err, size_t err_size)
+                         LwPlotView view, const char *title, GError **error)
 {
   g_return_val_if_fail (vs != NULL && n >= 1, NULL);
   n = MIN (n, LW_PLOT_MAX_VARIANTS);
@@ -571,14 +572,15 @@ lw_plot_area_build_plot (const LwAreaVariant *vs, guint n, const LwPlotRequireme
       LwError e;
       if (eval == NULL || eval->ev == NULL)
         {
-          g_snprintf (err, err_size, "%s: %s", vs[filled].name ? vs[filled].name : "loop",
-                      eval != NULL ? eval->error->message : "not evaluated");
+          g_set_error (error, LW_PLOT_ERROR, LW_PLOT_ERROR_INPUT, "%s: %s",
+                       vs[filled].name ? vs[filled].name : "loop",
+                       eval != NULL ? eval->error->message : "not evaluated");
           goto out;
         }
       if (lw_figure_variant_fill (&fv[filled], vs[filled].name, eval->sampled, eval->ev, &e)
           != LW_OK)
         {
-          g_snprintf (err, err_size, "%s", e.message);
+          g_set_error_literal (error, LW_PLOT_ERROR, LW_PLOT_ERROR_INPUT, e.message);
           lw_figure_variant_clear (&fv[filled]);
           goto out;
         }
@@ -594,7 +596,7 @@ lw_plot_area_build_plot (const LwAreaVariant *vs, guint n, const LwPlotRequireme
   };
   if (req != NULL)
     in.req = *req;
-  plot = lw_plot_new (&in, err, err_size);
+  plot = lw_plot_new (&in, error);
 out:
   for (guint i = 0; i < filled; i++)
     lw_figure_variant_clear (&fv[i]);

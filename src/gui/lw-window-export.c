@@ -13,12 +13,12 @@
 #include "lw-window-private.h"
 
 LwPlot *
-lw_window_build_export_plot (LwPlotView view, gpointer user_data, char *err, size_t err_size)
+lw_window_build_export_plot (LwPlotView view, gpointer user_data, GError **error)
 {
   LwWindow *self = LW_WINDOW (user_data);
   if (self->eval == NULL)
     {
-      g_snprintf (err, err_size, "%s", _("Nothing evaluated yet."));
+      g_set_error_literal (error, LW_PLOT_ERROR, LW_PLOT_ERROR_INPUT, _("Nothing evaluated yet."));
       return NULL;
     }
   LwPlotRequirements req = { 0 };
@@ -42,10 +42,10 @@ lw_window_build_export_plot (LwPlotView view, gpointer user_data, char *err, siz
     }
   if (n == 0)
     {
-      g_snprintf (err, err_size, "%s", _("Nothing evaluated yet."));
+      g_set_error_literal (error, LW_PLOT_ERROR, LW_PLOT_ERROR_INPUT, _("Nothing evaluated yet."));
       return NULL;
     }
-  return lw_plot_area_build_plot (vs, n, &req, view, NULL, err, err_size);
+  return lw_plot_area_build_plot (vs, n, &req, view, NULL, error);
 }
 
 static void

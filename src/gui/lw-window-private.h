@@ -143,8 +143,7 @@ void lw_window_end_drag (LwWindow *self, gboolean cancel);
 /* lw-window-export.c */
 void lw_window_class_init_export (GtkWidgetClass *widget_class);
 /* The figure of view for Export Figure: the variants on show (LwExportBuildFunc). */
-LwPlot *lw_window_build_export_plot (LwPlotView view, gpointer user_data, char *err,
-                                     size_t err_size);
+LwPlot *lw_window_build_export_plot (LwPlotView view, gpointer user_data, GError **error);
 
 /* lw-window-helpers.c */
 void lw_window_class_init_helpers (GtkWidgetClass *widget_class);

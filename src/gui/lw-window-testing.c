@@ -28,13 +28,13 @@ lw_window_export_figure_for_test (LwWindow *self)
   const char *vname = g_getenv ("LW_TEST_FIGURE_VIEW");
   int view = lw_plot_view_from_name (vname != NULL ? vname : "bode-w");
   int format = lw_plot_format_from_path (path);
-  char err[256] = "";
+  g_autoptr (GError) error = NULL;
   LwPlot *plot = view >= 0 && format >= 0
-                   ? lw_window_build_export_plot ((LwPlotView) view, self, err, sizeof err) : NULL;
+                   ? lw_window_build_export_plot ((LwPlotView) view, self, &error) : NULL;
   LwPlotExportOptions eo = { .pdf_creator = "loopwright " PACKAGE_VERSION };
-  if (plot == NULL || !lw_plot_export (plot, (LwPlotFormat) format, path, 800, 600, &eo, err,
-                                       sizeof err))
-    g_printerr ("LW-TEST export of %s failed: %s\n", path, err[0] ? err : "bad view or format");
+  if (plot == NULL || !lw_plot_export (plot, (LwPlotFormat) format, path, 800, 600, &eo, &error))
+    g_printerr ("LW-TEST export of %s failed: %s\n", path,
+                error != NULL ? error->message : "bad view or format");
   lw_plot_free (plot);
   return TRUE;
 }

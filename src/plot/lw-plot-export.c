@@ -13,6 +13,8 @@
 
 #define FIXED_PDF_DATE "2000-01-01T00:00:00Z"
 
+G_DEFINE_QUARK (lw-plot-error-quark, lw_plot_error)
+
 int
 lw_plot_format_from_path (const char *path)
 {
@@ -35,32 +37,25 @@ append_bytes (void *closure, const unsigned char *data, unsigned int length)
   return CAIRO_STATUS_SUCCESS;
 }
 
-static void
-set_err (char *err, size_t size, const char *what, cairo_status_t st)
-{
-  if (err)
-    snprintf (err, size, "%s: %s", what, cairo_status_to_string (st));
-}
 
 bool
 lw_plot_render (LwPlot *p, LwPlotFormat format, double width, double height,
                 const LwPlotExportOptions *opts, unsigned char **out, size_t *out_len,
-                char *err, size_t err_size)
+                GError **error)
 {
   g_return_val_if_fail (p != NULL && out != NULL && out_len != NULL, false);
   if (!(width >= 16 && height >= 16 && width <= LW_PLOT_MAX_SIDE && height <= LW_PLOT_MAX_SIDE))
     {
-      if (err)
-        snprintf (err, err_size, "the size %gx%g is outside 16 to %d", width, height,
-                  LW_PLOT_MAX_SIDE);
+      g_set_error (error, LW_PLOT_ERROR, LW_PLOT_ERROR_SIZE,
+                   "the size %gx%g is outside 16 to %d", width, height, LW_PLOT_MAX_SIDE);
       return false;
     }
   if (format == LW_PLOT_FORMAT_PNG && width * height > LW_PLOT_MAX_PNG_PIXELS)
     {
-      if (err)
-        snprintf (err, err_size, "a PNG of %gx%g pixels is more than the limit of %.0f pixels "
-                  "(e.g. 5000x5000); use SVG or PDF for larger figures", width, height,
-                  LW_PLOT_MAX_PNG_PIXELS);
+      g_set_error (error, LW_PLOT_ERROR, LW_PLOT_ERROR_SIZE,
+                   "a PNG of %gx%g pixels is more than the limit of %.0f pixels "
+                   "(e.g. 5000x5000); use SVG or PDF for larger figures", width, height,
+                   LW_PLOT_MAX_PNG_PIXELS);
       return false;
     }
   GByteArray *bytes = g_byte_array_new ();
@@ -85,8 +80,8 @@ lw_plot_render (LwPlot *p, LwPlotFormat format, double width, double height,
       break;
     default:
       g_byte_array_unref (bytes);
-      if (err)
-        snprintf (err, err_size, "unknown figure format %d", (int) format);
+      g_set_error (error, LW_PLOT_ERROR, LW_PLOT_ERROR_INPUT, "unknown figure format %d",
+                   (int) format);
       return false;
     }
   cairo_status_t st = cairo_surface_status (s);
@@ -105,7 +100,8 @@ lw_plot_render (LwPlot *p, LwPlotFormat format, double width, double height,
   cairo_surface_destroy (s);
   if (st != CAIRO_STATUS_SUCCESS)
     {
-      set_err (err, err_size, "cannot render the figure", st);
+      g_set_error (error, LW_PLOT_ERROR, LW_PLOT_ERROR_RENDER, "cannot render the figure: %s",
+                   cairo_status_to_string (st));
       g_byte_array_unref (bytes);
       return false;
     }
@@ -116,18 +112,17 @@ lw_plot_render (LwPlot *p, LwPlotFormat format, double width, double height,
 
 bool
 lw_plot_export (LwPlot *p, LwPlotFormat format, const char *path, double width, double height,
-                const LwPlotExportOptions *opts, char *err, size_t err_size)
+                const LwPlotExportOptions *opts, GError **error)
 {
   unsigned char *data = NULL;
   size_t len = 0;
-  if (!lw_plot_render (p, format, width, height, opts, &data, &len, err, err_size))
+  if (!lw_plot_render (p, format, width, height, opts, &data, &len, error))
     return false;
   GError *gerr = NULL;
   bool ok = lw_file_replace (path, data, len, &gerr);
   if (!ok)
     {
-      if (err)
-        snprintf (err, err_size, "%s", gerr->message);
+      g_set_error_literal (error, LW_PLOT_ERROR, LW_PLOT_ERROR_WRITE, gerr->message);
       g_error_free (gerr);
     }
   g_free (data);

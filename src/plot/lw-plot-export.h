@@ -46,15 +46,15 @@ typedef struct {
 } LwPlotExportOptions;
 
 /* Draws the static layer of p at width × height (pixels for PNG, points for SVG and PDF) and
- * writes it to path. opts may be NULL. false with a one-sentence message in err (may be NULL)
- * when rendering or writing failed. */
+ * writes it to path. opts may be NULL. false with a one-sentence error (LW_PLOT_ERROR) when
+ * rendering or writing failed; the file is then left as it was. */
 bool lw_plot_export (LwPlot *p, LwPlotFormat format, const char *path, double width,
-                     double height, const LwPlotExportOptions *opts, char *err, size_t err_size);
+                     double height, const LwPlotExportOptions *opts, GError **error);
 
 /* The same into memory: *out (g_free) and *out_len. */
 bool lw_plot_render (LwPlot *p, LwPlotFormat format, double width, double height,
                      const LwPlotExportOptions *opts, unsigned char **out, size_t *out_len,
-                     char *err, size_t err_size);
+                     GError **error);
 
 #ifdef __cplusplus
 }

@@ -295,28 +295,27 @@ lwp_add_phase_references (Panel *pn, const LwPlotAxis *a, bool vertical)
 /* ---- construction ---------------------------------------------------------------------- */
 
 LwPlot *
-lw_plot_new (const LwPlotInput *in, char *err_msg, size_t err_size)
+lw_plot_new (const LwPlotInput *in, GError **error)
 {
   g_return_val_if_fail (in != NULL, NULL);
   if (in->n_variants == 0 || in->n_variants > LW_PLOT_MAX_VARIANTS || in->variants == NULL)
     {
-      if (err_msg)
-        snprintf (err_msg, err_size, "a figure takes 1 to %d variants, not %zu",
-                  LW_PLOT_MAX_VARIANTS, in->n_variants);
+      g_set_error (error, LW_PLOT_ERROR, LW_PLOT_ERROR_INPUT,
+                   "a figure takes 1 to %d variants, not %zu", LW_PLOT_MAX_VARIANTS,
+                   in->n_variants);
       return NULL;
     }
   const LwPlotViewInfo *info = lw_plot_view_info (in->view);
   if (info == NULL || !lwp_view_has_data (in))
     {
-      if (err_msg)
-        snprintf (err_msg, err_size, "nothing to draw for the view '%s'",
-                  lw_plot_view_name (in->view));
+      g_set_error (error, LW_PLOT_ERROR, LW_PLOT_ERROR_INPUT, "nothing to draw for the view '%s'",
+                   lw_plot_view_name (in->view));
       return NULL;
     }
   if ((info->needs & LW_PLOT_NEEDS_NYQUIST_RATE) && !(in->nyquist_rad_s > 0.0))
     {
-      if (err_msg)
-        snprintf (err_msg, err_size, "the view '%s' needs the Nyquist frequency", info->name);
+      g_set_error (error, LW_PLOT_ERROR, LW_PLOT_ERROR_INPUT,
+                   "the view '%s' needs the Nyquist frequency", info->name);
       return NULL;
     }
   LwPlot *pl = g_new0 (LwPlot, 1);

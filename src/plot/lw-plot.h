@@ -31,6 +31,7 @@
 #include <stddef.h>
 
 #include <cairo.h>
+#include <glib.h>
 
 #include "lw-plot-axis.h"
 #include "lw-plot-view.h"   /* LwPlotView and the view table */
@@ -154,9 +155,20 @@ typedef struct {
 #define LW_PLOT_MAX_VARIANTS 6
 
 
-/* Builds the figure: chooses axis ranges, maps every series once. NULL with a message in
- * err_msg (one sentence, may be NULL) when the input has nothing to draw for the view. */
-LwPlot *lw_plot_new (const LwPlotInput *in, char *err_msg, size_t err_size);
+/* The renderer's errors (GError domain LW_PLOT_ERROR). */
+#define LW_PLOT_ERROR (lw_plot_error_quark ())
+typedef enum
+{
+  LW_PLOT_ERROR_INPUT,     /* nothing to draw, or the input does not suit the view */
+  LW_PLOT_ERROR_SIZE,      /* a figure size outside the limits */
+  LW_PLOT_ERROR_RENDER,    /* cairo could not draw or encode the figure */
+  LW_PLOT_ERROR_WRITE      /* the file could not be written */
+} LwPlotError;
+GQuark lw_plot_error_quark (void);
+
+/* Builds the figure: chooses axis ranges, maps every series once. NULL with a one-sentence
+ * error (LW_PLOT_ERROR_INPUT) when the input has nothing to draw for the view. */
+LwPlot *lw_plot_new (const LwPlotInput *in, GError **error);
 void lw_plot_free (LwPlot *p);
 
 void lw_plot_set_theme (LwPlot *p, LwPlotTheme theme);

@@ -70,12 +70,12 @@ lwr_add_figures (LwReport *r, const LwDesign *d, RVar *rv, size_t n, GError **er
       in.n_variants = n;
       in.variants = pv;
       in.req = marks;
-      char msg[256];
-      LwPlot *p = lw_plot_new (&in, msg, sizeof msg);
+      g_autoptr (GError) ferr = NULL;
+      LwPlot *p = lw_plot_new (&in, &ferr);
       if (p == NULL)
         {
           g_set_error (error, LW_REPORT_ERROR, LW_REPORT_ERROR_FAILED, "report: figure '%s': %s",
-                       lw_plot_view_name (figs[f].view), msg);
+                       lw_plot_view_name (figs[f].view), ferr->message);
           ok = FALSE;
           goto out;
         }

@@ -187,16 +187,16 @@ lw_report_html (const LwReport *r, size_t *len)
           {
             unsigned char *svg = NULL;
             size_t svg_len = 0;
-            char msg[256];
+            g_autoptr (GError) ferr = NULL;
             fig++;
             g_string_append_printf (s, "<figure id=\"figure-%s\">\n", b->id ? b->id : "plot");
             if (lw_plot_render (b->plot, LW_PLOT_FORMAT_SVG, b->fig_width, b->fig_height, NULL,
-                                &svg, &svg_len, msg, sizeof msg))
+                                &svg, &svg_len, &ferr))
               append_svg (s, (const char *) svg, svg_len, fig);
             else
               {
                 g_string_append (s, "<p>The figure could not be drawn: ");
-                esc (s, msg, false);
+                esc (s, ferr->message, false);
                 g_string_append (s, "</p>\n");
               }
             g_free (svg);

@@ -62,10 +62,10 @@ build (LwPlotView view, const LwPlotVariant *vs, size_t n, const LwPlot *axes_of
 {
   LwPlotInput in = { .view = view, .title = "reuse", .n_variants = n, .variants = vs,
                      .axes_of = axes_of };
-  char msg[256] = "";
-  LwPlot *p = lw_plot_new (&in, msg, sizeof msg);
+  g_autoptr (GError) error = NULL;
+  LwPlot *p = lw_plot_new (&in, &error);
   if (p == NULL)
-    fail_msg ("lw_plot_new: %s", msg);
+    fail_msg ("lw_plot_new: %s", error->message);
   return p;
 }
 

@@ -76,7 +76,15 @@ build (LwPlotView view, unsigned needs, char *msg, size_t size)
   if (needs & LW_PLOT_NEEDS_NYQUIST_RATE)
     in.nyquist_rad_s = 1000.0;
   msg[0] = '\0';
-  return lw_plot_new (&in, msg, size);
+  g_autoptr (GError) error = NULL;
+  LwPlot *p = lw_plot_new (&in, &error);
+  if (p == NULL)
+    {
+      assert_true (error != NULL && error->domain == LW_PLOT_ERROR
+                   && error->code == LW_PLOT_ERROR_INPUT);
+      g_strlcpy (msg, error->message, size);
+    }
+  return p;
 }
 
 /* The figure at 320 × 240 (light theme). */
