@@ -39,6 +39,7 @@ struct _LwCompensatorPanel
   guint debug_same;             /* frames the position stayed the same */
 
   LwDesignModel *model;
+  GSignalGroup *model_signals;   /* the model's signals, following self->model */
   /* where new stages go: the w-plane frequency ν (rad/s) of the last gain crossover, or a
    * tenth of 2/T when there is none */
   double place_nu_rad_s;
@@ -190,12 +191,9 @@ lw_compensator_panel_set_model (LwCompensatorPanel *self, LwDesignModel *model)
   g_return_if_fail (LW_IS_COMPENSATOR_PANEL (self));
   g_return_if_fail (LW_IS_DESIGN_MODEL (model));
 
-  if (self->model != NULL)
-    g_signal_handlers_disconnect_by_data (self->model, self);
   g_set_object (&self->model, model);
+  g_signal_group_set_target (self->model_signals, model);
   self->place_nu_rad_s = 0.1 * 2.0 / lw_design_model_get_period_s (model);
-  g_signal_connect_swapped (model, "stages-changed", G_CALLBACK (rebuild_rows), self);
-  g_signal_connect_swapped (model, "variants-changed", G_CALLBACK (rebuild_variants), self);
   rebuild_rows (self);
   rebuild_variants (self);
 }
@@ -309,8 +307,7 @@ lw_compensator_panel_dispose (GObject *object)
 {
   LwCompensatorPanel *self = LW_COMPENSATOR_PANEL (object);
 
-  if (self->model != NULL)
-    g_signal_handlers_disconnect_by_data (self->model, self);
+  g_clear_object (&self->model_signals);
   g_clear_object (&self->model);
   g_clear_pointer (&self->compared, g_ptr_array_unref);
   g_clear_pointer (&self->debug_last, g_free);
@@ -352,6 +349,11 @@ static void
 lw_compensator_panel_init (LwCompensatorPanel *self)
 {
   gtk_widget_init_template (GTK_WIDGET (self));
+  self->model_signals = g_signal_group_new (LW_TYPE_DESIGN_MODEL);
+  g_signal_group_connect_swapped (self->model_signals, "stages-changed",
+                                  G_CALLBACK (rebuild_rows), self);
+  g_signal_group_connect_swapped (self->model_signals, "variants-changed",
+                                  G_CALLBACK (rebuild_variants), self);
   g_autoptr (GMenuModel) add_menu = add_stage_menu_new ();
   gtk_menu_button_set_menu_model (self->add_button, add_menu);
   lw_gui_spin_wheel_off (self->period_spin);

@@ -12,6 +12,7 @@ struct _LwDetailsDialog
   GtkWindow parent_instance;
 
   LwDesignModel *model;
+  GSignalGroup *model_signals;   /* the model's signals, following self->model */
   GtkEntry *title;
   GtkEntry *author;
   GtkTextView *notes;
@@ -92,8 +93,7 @@ static void
 lw_details_dialog_dispose (GObject *object)
 {
   LwDetailsDialog *self = LW_DETAILS_DIALOG (object);
-  if (self->model != NULL)
-    g_signal_handlers_disconnect_by_data (self->model, self);
+  g_clear_object (&self->model_signals);
   g_clear_object (&self->model);
   G_OBJECT_CLASS (lw_details_dialog_parent_class)->dispose (object);
 }
@@ -183,6 +183,8 @@ lw_details_dialog_new (GtkWindow *parent, LwDesignModel *model)
   g_signal_connect_swapped (self->author, "changed", G_CALLBACK (author_changed), self);
   g_signal_connect_swapped (gtk_text_view_get_buffer (self->notes), "changed",
                             G_CALLBACK (notes_changed), self);
-  g_signal_connect_swapped (model, "replaced", G_CALLBACK (fill), self);
+  self->model_signals = g_signal_group_new (LW_TYPE_DESIGN_MODEL);
+  g_signal_group_connect_swapped (self->model_signals, "replaced", G_CALLBACK (fill), self);
+  g_signal_group_set_target (self->model_signals, model);
   return self;
 }

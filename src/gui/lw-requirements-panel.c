@@ -18,6 +18,7 @@ struct _LwRequirementsPanel
   GtkGrid *figure_grid;
 
   LwDesignModel *model;
+  GSignalGroup *model_signals;   /* the model's signals, following self->model */
   GPtrArray *achieved_labels;   /* per requirement */
   GPtrArray *result_labels;
   GtkLabel *figure_values[16];
@@ -322,11 +323,8 @@ lw_requirements_panel_set_model (LwRequirementsPanel *self, LwDesignModel *model
   g_return_if_fail (LW_IS_REQUIREMENTS_PANEL (self));
   g_return_if_fail (LW_IS_DESIGN_MODEL (model));
 
-  if (self->model != NULL)
-    g_signal_handlers_disconnect_by_data (self->model, self);
   g_set_object (&self->model, model);
-  g_signal_connect_swapped (model, "requirements-changed", G_CALLBACK (requirements_changed),
-                            self);
+  g_signal_group_set_target (self->model_signals, model);
   rebuild_requirements (self);
 }
 
@@ -361,8 +359,7 @@ lw_requirements_panel_dispose (GObject *object)
 {
   LwRequirementsPanel *self = LW_REQUIREMENTS_PANEL (object);
 
-  if (self->model != NULL)
-    g_signal_handlers_disconnect_by_data (self->model, self);
+  g_clear_object (&self->model_signals);
   g_clear_object (&self->model);
   g_clear_pointer (&self->achieved_labels, g_ptr_array_unref);
   g_clear_pointer (&self->result_labels, g_ptr_array_unref);
@@ -391,6 +388,9 @@ static void
 lw_requirements_panel_init (LwRequirementsPanel *self)
 {
   gtk_widget_init_template (GTK_WIDGET (self));
+  self->model_signals = g_signal_group_new (LW_TYPE_DESIGN_MODEL);
+  g_signal_group_connect_swapped (self->model_signals, "requirements-changed",
+                                  G_CALLBACK (requirements_changed), self);
   self->achieved_labels = g_ptr_array_new ();
   self->result_labels = g_ptr_array_new ();
   build_figures (self);

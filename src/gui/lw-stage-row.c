@@ -23,6 +23,7 @@ struct _LwStageRow
   GtkLabel *derived_label;
 
   LwDesignModel *model;
+  GSignalGroup *model_signals;   /* the model's signals, following self->model */
   guint index;
   gboolean filling;
   GPtrArray *spins;             /* the spin button of each stored parameter, in order */
@@ -185,8 +186,7 @@ lw_stage_row_dispose (GObject *object)
 {
   LwStageRow *self = LW_STAGE_ROW (object);
 
-  if (self->model != NULL)
-    g_signal_handlers_disconnect_by_data (self->model, self);
+  g_clear_object (&self->model_signals);
   g_clear_object (&self->model);
   g_clear_pointer (&self->spins, g_ptr_array_unref);
   gtk_widget_dispose_template (GTK_WIDGET (self), LW_TYPE_STAGE_ROW);
@@ -223,6 +223,8 @@ lw_stage_row_init (LwStageRow *self)
 {
   gtk_widget_init_template (GTK_WIDGET (self));
   self->spins = g_ptr_array_new ();
+  self->model_signals = g_signal_group_new (LW_TYPE_DESIGN_MODEL);
+  g_signal_group_connect_swapped (self->model_signals, "changed", G_CALLBACK (refresh), self);
 }
 
 LwStageRow *
@@ -235,6 +237,6 @@ lw_stage_row_new (LwDesignModel *model, guint index)
   self->model = g_object_ref (model);
   self->index = index;
   fill (self);
-  g_signal_connect_swapped (model, "changed", G_CALLBACK (refresh), self);
+  g_signal_group_set_target (self->model_signals, model);
   return self;
 }
