@@ -28,7 +28,7 @@ static double
 pane_x_to_nu (LwWindow *self, LwPlotPane *pane, double x)
 {
   double period = lw_design_model_get_active_period_s (self->model);
-  if (lw_plot_pane_get_view (pane) == LW_PLOT_VIEW_BODE_W)
+  if (lw_plot_view_has (lw_plot_pane_get_view (pane), LW_PLOT_VIEW_W_PLANE))
     return x;
   double omax = G_PI / period * (1.0 - 1e-9);
   return lw_warp_omega_to_nu (CLAMP (x, 1e-12, omax), period);
@@ -47,7 +47,7 @@ set_drag_label (LwWindow *self, const LwStage *s)
       double nu = 0;
       LwHandleKind kind;
       lw_stage_corner_get (s, (size_t) self->drag_corner, &nu, &kind, NULL);
-      if (lw_plot_pane_get_view (self->drag_pane) == LW_PLOT_VIEW_BODE_W)
+      if (lw_plot_view_has (lw_plot_pane_get_view (self->drag_pane), LW_PLOT_VIEW_W_PLANE))
         text = g_strdup_printf (_("ν = %.4g rad/s"), nu);
       else
         text = g_strdup_printf (_("ω = %.4g rad/s (ν = %.4g rad/s)"),
@@ -95,7 +95,7 @@ lw_window_update_drag (LwWindow *self, double x, double y_db, gboolean keep_rati
       if (lw_stage_corner_get (&s, (size_t) self->drag_corner, &nu0, &kind, NULL) != LW_OK)
         return;
       double nu;
-      if (lw_plot_pane_get_view (self->drag_pane) == LW_PLOT_VIEW_BODE_W)
+      if (lw_plot_view_has (lw_plot_pane_get_view (self->drag_pane), LW_PLOT_VIEW_W_PLANE))
         nu = nu0 * x / self->drag_start_x;
       else
         {
@@ -166,11 +166,23 @@ window_key_pressed (GtkEventControllerKey *c, guint keyval, guint keycode,
   return FALSE;
 }
 
+/* The first pane of the window with handles over ν (the w-plane): its order of the handles
+ * is the one the keyboard walks. */
+static LwPlotPane *
+handle_pane (LwWindow *self)
+{
+  for (int v = 0; v < LW_PLOT_N_VIEWS; v++)
+    if (lw_plot_view_has ((LwPlotView) v, LW_PLOT_VIEW_HANDLES | LW_PLOT_VIEW_W_PLANE
+                                          | LW_PLOT_VIEW_IN_WINDOW))
+      return lw_plot_area_get_pane (self->plot_area, (LwPlotView) v);
+  return NULL;
+}
+
 /* Handles in the order the w-plane view lists them. */
 static void
 select_handle (LwWindow *self, int delta)
 {
-  LwPlotPane *pane = lw_plot_area_get_pane (self->plot_area, LW_PLOT_VIEW_BODE_W);
+  LwPlotPane *pane = handle_pane (self);
   guint n = pane != NULL ? lw_plot_pane_get_n_handles (pane) : 0;
   if (n == 0 || self->dragging)
     return;
@@ -276,8 +288,10 @@ lw_window_class_init_drag (GtkWidgetClass *widget_class)
 void
 lw_window_init_drag (LwWindow *self)
 {
-  connect_pane (self, LW_PLOT_VIEW_BODE_W);
-  connect_pane (self, LW_PLOT_VIEW_BODE_Z);
+  /* every pane that carries the stages' handles */
+  for (int v = 0; v < LW_PLOT_N_VIEWS; v++)
+    if (lw_plot_view_has ((LwPlotView) v, LW_PLOT_VIEW_HANDLES | LW_PLOT_VIEW_IN_WINDOW))
+      connect_pane (self, (LwPlotView) v);
 
   GtkEventController *k = gtk_event_controller_key_new ();
   gtk_event_controller_set_propagation_phase (k, GTK_PHASE_CAPTURE);
