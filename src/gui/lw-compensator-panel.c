@@ -10,6 +10,8 @@
 
 #include "lw-compensator-panel.h"
 #include "lw-gui-util.h"
+#include "lw-number-field.h"
+#include "lw-number.h"
 #include "lw-stage-kinds.h"
 #include "lw-stage-row.h"
 
@@ -357,6 +359,10 @@ lw_compensator_panel_init (LwCompensatorPanel *self)
   g_autoptr (GMenuModel) add_menu = add_stage_menu_new ();
   gtk_menu_button_set_menu_model (self->add_button, add_menu);
   lw_gui_spin_wheel_off (self->period_spin);
+  GtkAdjustment *pa = gtk_spin_button_get_adjustment (self->period_spin);
+  gtk_adjustment_set_lower (pa, LW_PERIOD_MIN_S);
+  gtk_adjustment_set_upper (pa, LW_PERIOD_MAX_S);
+  lw_number_field_setup (self->period_spin, _("Own sample period"), self->name_problem);
   self->compared = g_ptr_array_new_with_free_func (g_free);
   g_signal_connect (self->variant_dropdown, "notify::selected", G_CALLBACK (variant_selected),
                     self);

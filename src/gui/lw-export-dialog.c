@@ -6,6 +6,7 @@
 #include <glib/gi18n.h>
 
 #include "lw-export-dialog.h"
+#include "lw-number-field.h"
 #include "lw-plot-export.h"
 
 typedef struct
@@ -166,6 +167,8 @@ lw_export_dialog_show (GtkWindow *parent, GSettings *settings, const char *base_
   e->height = GTK_SPIN_BUTTON (gtk_spin_button_new_with_range (16, 20000, 10));
   gtk_spin_button_set_value (e->width, 800);
   gtk_spin_button_set_value (e->height, 600);
+  lw_number_field_setup (e->width, _("Width"), NULL);
+  lw_number_field_setup (e->height, _("Height"), NULL);
 
   gtk_grid_attach (GTK_GRID (grid), row_label (_("_View")), 0, 0, 1, 1);
   gtk_grid_attach (GTK_GRID (grid), GTK_WIDGET (e->view), 1, 0, 1, 1);

@@ -9,6 +9,8 @@
 #include <glib/gi18n.h>
 
 #include "lw-gui-util.h"
+#include "lw-number-field.h"
+#include "lw-number.h"
 #include "lw-plant-panel.h"
 
 struct _LwPlantPanel
@@ -22,6 +24,7 @@ struct _LwPlantPanel
   GtkLabel *plant_z_label;
   GtkLabel *plant_w_label;
   GtkLabel *sampling_note;
+  GtkLabel *field_problem;       /* a refused number in one of the fields */
 
   LwDesignModel *model;
   gboolean filling;             /* showing the model: do not write back */
@@ -236,6 +239,7 @@ lw_plant_panel_class_init (LwPlantPanelClass *klass)
   gtk_widget_class_bind_template_child (widget_class, LwPlantPanel, plant_z_label);
   gtk_widget_class_bind_template_child (widget_class, LwPlantPanel, plant_w_label);
   gtk_widget_class_bind_template_child (widget_class, LwPlantPanel, sampling_note);
+  gtk_widget_class_bind_template_child (widget_class, LwPlantPanel, field_problem);
   gtk_widget_class_bind_template_callback (widget_class, plant_entry_changed);
   gtk_widget_class_bind_template_callback (widget_class, sampling_changed);
   gtk_widget_class_set_layout_manager_type (widget_class, GTK_TYPE_BIN_LAYOUT);
@@ -248,4 +252,11 @@ lw_plant_panel_init (LwPlantPanel *self)
   lw_gui_spin_wheel_off (self->dead_time_spin);
   lw_gui_spin_wheel_off (self->period_spin);
   lw_gui_spin_wheel_off (self->delay_spin);
+  /* the period's own range, as documents and the command line take it (lw-number.h) */
+  GtkAdjustment *pa = gtk_spin_button_get_adjustment (self->period_spin);
+  gtk_adjustment_set_lower (pa, LW_PERIOD_MIN_S);
+  gtk_adjustment_set_upper (pa, LW_PERIOD_MAX_S);
+  lw_number_field_setup (self->dead_time_spin, _("Dead time"), self->field_problem);
+  lw_number_field_setup (self->period_spin, _("Sample period"), self->field_problem);
+  lw_number_field_setup (self->delay_spin, _("Computation delay"), self->field_problem);
 }

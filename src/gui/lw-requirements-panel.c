@@ -8,6 +8,7 @@
 #include <glib/gi18n.h>
 
 #include "lw-gui-util.h"
+#include "lw-number-field.h"
 #include "lw-requirements-panel.h"
 
 struct _LwRequirementsPanel
@@ -84,12 +85,13 @@ target_changed (GtkSpinButton *spin, LwRequirementsPanel *self)
 }
 
 static GtkWidget *
-target_spin (LwRequirementsPanel *self, guint i, double value, gboolean hi)
+target_spin (LwRequirementsPanel *self, guint i, double value, gboolean hi, GtkLabel *problem,
+             const char *name)
 {
   GtkAdjustment *adj = gtk_adjustment_new (value, -1e9, 1e9, 0.1, 1.0, 0.0);
   GtkWidget *spin = gtk_spin_button_new (adj, 0.0, 3);
   lw_gui_spin_wheel_off (GTK_SPIN_BUTTON (spin));
-  gtk_spin_button_set_numeric (GTK_SPIN_BUTTON (spin), TRUE);
+  lw_number_field_setup (GTK_SPIN_BUTTON (spin), name, problem);
   gtk_editable_set_width_chars (GTK_EDITABLE (spin), 7);
   g_object_set_data (G_OBJECT (spin), "lw-req-index", GUINT_TO_POINTER (i));
   if (hi)
@@ -116,6 +118,56 @@ clear_grid (GtkGrid *grid)
     gtk_grid_remove (grid, child);
 }
 
+/* Requirements of the same kind more than once, and ranges that hold nothing: said in words
+ * (NULL when the list is fine); g_free it. */
+static char *
+list_problems (LwRequirementsPanel *self)
+{
+  GString *s = g_string_new (NULL);
+  guint n = lw_design_model_get_n_requirements (self->model);
+  for (guint i = 0; i < n; i++)
+    {
+      const LwRequirement *r = lw_design_model_get_requirement (self->model, i);
+      gboolean first = TRUE;
+      for (guint j = 0; j < i; j++)
+        if (lw_design_model_get_requirement (self->model, j)->kind == r->kind)
+          first = FALSE;
+      if (!first)
+        continue;
+      GString *same = g_string_new (NULL);
+      guint count = 0;
+      for (guint j = i; j < n; j++)
+        if (lw_design_model_get_requirement (self->model, j)->kind == r->kind)
+          {
+            g_string_append_printf (same, "%s%u", count > 0 ? ", " : "", j + 1);
+            count++;
+          }
+      if (count > 1)
+        {
+          /* TRANSLATORS: requirement kind, how often, then the rows (1-based) */
+          g_autofree char *line = g_strdup_printf (_("“%s” appears %u times (rows %s): each is "
+                                                     "judged on its own, the strictest "
+                                                     "decides."),
+                                                   req_title (r->kind), count, same->str);
+          g_string_append_printf (s, "%s%s", s->len > 0 ? "\n" : "", line);
+        }
+      g_string_free (same, TRUE);
+    }
+  for (guint i = 0; i < n; i++)
+    {
+      const LwRequirement *r = lw_design_model_get_requirement (self->model, i);
+      if (r->kind == LW_REQ_CROSSOVER_RANGE && !(r->limit < r->limit_hi))
+        {
+          g_autofree char *line = g_strdup_printf (_("Row %u: the crossover range %g … %g "
+                                                     "rad/s holds no frequency; no loop can "
+                                                     "meet it."),
+                                                   i + 1, r->limit, r->limit_hi);
+          g_string_append_printf (s, "%s%s", s->len > 0 ? "\n" : "", line);
+        }
+    }
+  return g_string_free (s, s->len == 0);
+}
+
 static void
 rebuild_requirements (LwRequirementsPanel *self)
 {
@@ -130,17 +182,29 @@ rebuild_requirements (LwRequirementsPanel *self)
 
   self->filling = TRUE;
   guint n = lw_design_model_get_n_requirements (self->model);
+  /* under the rows: a refused target, then what is wrong with the list itself */
+  GtkLabel *problem = GTK_LABEL (cell (NULL, 0, "error"));
+  gtk_label_set_wrap (problem, TRUE);
+  gtk_widget_set_visible (GTK_WIDGET (problem), FALSE);
+  gtk_grid_attach (self->req_grid, GTK_WIDGET (problem), 0, (int) n + 1, 5, 1);
+  g_autofree char *list_note = list_problems (self);
+  GtkWidget *note = cell (list_note, 0, "warning");
+  gtk_label_set_wrap (GTK_LABEL (note), TRUE);
+  gtk_widget_set_visible (note, list_note != NULL);
+  gtk_grid_attach (self->req_grid, note, 0, (int) n + 2, 5, 1);
   for (guint i = 0; i < n; i++)
     {
       const LwRequirement *r = lw_design_model_get_requirement (self->model, i);
       int row = (int) i + 1;
       gtk_grid_attach (self->req_grid, cell (req_title (r->kind), 0, NULL), 0, row, 1, 1);
       GtkWidget *targets = gtk_box_new (GTK_ORIENTATION_HORIZONTAL, 4);
-      gtk_box_append (GTK_BOX (targets), target_spin (self, i, r->limit, FALSE));
+      gtk_box_append (GTK_BOX (targets),
+                      target_spin (self, i, r->limit, FALSE, problem, req_title (r->kind)));
       if (r->kind == LW_REQ_CROSSOVER_RANGE)
         {
           gtk_box_append (GTK_BOX (targets), cell ("…", 0, NULL));
-          gtk_box_append (GTK_BOX (targets), target_spin (self, i, r->limit_hi, TRUE));
+          gtk_box_append (GTK_BOX (targets),
+                          target_spin (self, i, r->limit_hi, TRUE, problem, req_title (r->kind)));
         }
       gtk_grid_attach (self->req_grid, targets, 1, row, 1, 1);
       gtk_grid_attach (self->req_grid, cell (lw_req_kind_unit (r->kind), 0, "dim-label"), 2,

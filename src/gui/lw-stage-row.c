@@ -10,6 +10,7 @@
 #include <glib/gi18n.h>
 
 #include "lw-gui-util.h"
+#include "lw-number-field.h"
 #include "lw-stage-kinds.h"
 #include "lw-stage-row.h"
 
@@ -99,6 +100,14 @@ fill (LwStageRow *self)
     gtk_label_set_text (self->kind_label, lw_stage_kind_title (s->kind));
   gtk_switch_set_active (self->enabled_switch, s->enabled);
 
+  /* a refused number in one of the fields, under them */
+  GtkLabel *problem = GTK_LABEL (gtk_label_new (NULL));
+  gtk_label_set_xalign (problem, 0.0);
+  gtk_label_set_wrap (problem, TRUE);
+  gtk_label_set_wrap_mode (problem, PANGO_WRAP_WORD_CHAR);
+  gtk_widget_add_css_class (GTK_WIDGET (problem), "error");
+  gtk_widget_set_visible (GTK_WIDGET (problem), FALSE);
+  gtk_grid_attach (self->param_grid, GTK_WIDGET (problem), 0, (int) kind->n_params, 3, 1);
   for (guint row = 0; row < kind->n_params; row++)
     {
       const LwStageParamInfo *ui = &kind->params[row];
@@ -110,7 +119,7 @@ fill (LwStageRow *self)
                                                step * 10.0, 0.0);
       GtkWidget *spin = gtk_spin_button_new (adj, 0.0, (guint) ui->digits);
       lw_gui_spin_wheel_off (GTK_SPIN_BUTTON (spin));
-      gtk_spin_button_set_numeric (GTK_SPIN_BUTTON (spin), TRUE);
+      lw_number_field_setup (GTK_SPIN_BUTTON (spin), _(ui->title), problem);
       gtk_widget_set_hexpand (spin, TRUE);
       gtk_accessible_update_relation (GTK_ACCESSIBLE (spin), GTK_ACCESSIBLE_RELATION_LABELLED_BY,
                                       label, NULL, -1);
