@@ -11,6 +11,7 @@
 
 #include "lw-cli-commands.h"
 #include "lw-cli-common.h"
+#include "lw-implementation.h"
 #include "lw-file-write.h"
 #include "lw-cli-doc.h"
 #include "lw-cli-json.h"
@@ -107,161 +108,19 @@ emit_loop (const EmitArgs *a, LwCliLoop *lp, LwVariantEval **e, char **ctl_place
   return status;
 }
 
-/* ---- warnings --------------------------------------------------------------------------- */
-
-/* Relative error of a quantized coefficient above which a warning is printed: 1 %, a rule of
- * our own (common practice, no source): beyond it the section's roots and gain move visibly. */
-#define COEFF_REL_WARN 0.01
-
-/* The warnings about a quantized design, one sentence each (g_ptr_array_unref the result). */
-static GPtrArray *
-fixed_warnings (const LwSos *sos, const LwSosFixed *fx, const LwEvaluation *ev,
-                const LwEvaluation *evq)
-{
-  GPtrArray *w = g_ptr_array_new_with_free_func (g_free);
-  static const char *const names[5] = { "b0", "b1", "b2", "a1", "a2" };
-  for (size_t k = 0; k < fx->n; k++)
-    {
-      for (int i = 0; i < 5; i++)
-        {
-          double c = i < 3 ? sos->s[k].b[i] : sos->s[k].a[i - 2];
-          int32_t v = i < 3 ? fx->s[k].b[i] : fx->s[k].a[i - 2];
-          double cq = ldexp ((double) v, -fx->q.frac_bits);
-          if (c != 0.0 && fabs (cq - c) > COEFF_REL_WARN * fabs (c))
-            g_ptr_array_add (w, g_strdup_printf (
-              "section %zu: %s = %.6g becomes %.6g in Q%d.%d (%.3g %% off); scale the "
-              "controller's signals or use more fraction bits", k + 1, names[i], c, cq,
-              fx->q.int_bits, fx->q.frac_bits, 100.0 * fabs (cq - c) / fabs (c)));
-        }
-      for (size_t i = 0; i < fx->s[k].n_poles; i++)
-        {
-          double rq = cabs (fx->s[k].poles_quant[i]);
-          double re = cabs (fx->s[k].poles_exact[i]);
-          if (rq >= 1.0)
-            g_ptr_array_add (w, g_strdup_printf (
-              "section %zu: quantized pole |z| = %.10g is %s the unit circle%s", k + 1, rq,
-              rq == 1.0 ? "on" : "outside",
-              re >= 1.0 ? " (as designed: the exact pole is too)" : ""));
-        }
-    }
-  if (evq != NULL && !evq->stable)
-    g_ptr_array_add (w, g_strdup_printf ("the loop with the quantized controller is NOT "
-                                         "stable%s", ev->stable ? " (the exact design is)" : ""));
-  return w;
-}
-
 /* ---- summary as text -------------------------------------------------------------------- */
 
 static void
-print_complex (double complex r, int digits)
-{
-  if (cimag (r) == 0.0)
-    printf ("%.*g", digits, creal (r));
-  else
-    printf ("%.*g %c %.*gj", digits, creal (r), cimag (r) < 0 ? '-' : '+', digits,
-            fabs (cimag (r)));
-}
-
-static void
-print_margin_line (const char *label, const LwEvaluation *ev)
-{
-  const LwMargins *m = &ev->margins;
-  printf ("  %-10s", label);
-  if (m->has_phase_margin)
-    printf ("  PM %.4g deg at %.6g rad/s", m->phase_margin_deg, m->gain_crossover_rad_s);
-  else
-    printf ("  PM none");
-  if (m->has_gain_margin)
-    printf (", GM %.4g dB at %.6g rad/s", m->gain_margin_db, m->phase_crossover_rad_s);
-  else
-    printf (", GM none");
-  if (m->has_sensitivity)
-    printf (", max|S| %.4g", m->sensitivity_peak);
-  printf (", %s\n", ev->stable ? "stable" : "NOT STABLE");
-}
-
-static void
 print_summary (const char *hpath, const char *cpath, const char *form_name,
-               const LwQFormat *q, const LwVariantEval *lp, const LwDiffEq *de, const LwSos *sos,
-               const LwSosFixed *fx, const LwEvaluation *ev, const LwEvaluation *evq)
+               const LwImplementation *im)
 {
   printf ("Wrote %s\n  and %s\n  (C99, form %s, %s)\n", hpath, cpath, form_name,
-          fx != NULL ? "fixed point" : "double");
-  if (fx != NULL)
+          im->fixed != NULL ? "fixed point" : "double");
+  if (im->fixed != NULL)
     printf ("  fixed point Q%d.%d: int16_t coefficients (value = integer / 2^%d), int16_t e "
-            "and u, int32_t states\n", q->int_bits, q->frac_bits, q->frac_bits);
-  g_autofree char *cz = lw_model_text (lp->controller_z);
-  printf ("\nController C(z) = %s\n", cz);
-  printf ("Period %.6g s; computation delay %d sample(s), realized by the firmware's timing "
-          "(not in the coefficients)\n", lp->period_s, lp->compute_delay);
-
-  printf ("\nDifference equation, order %zu: u[k] = sum b[i] e[k-i] - sum a[i] u[k-i]\n",
-          de->order);
-  for (size_t i = 0; i <= de->order; i++)
-    printf ("  b[%zu] = %-25.17g a[%zu] = %.17g\n", i, de->b[i], i, de->a[i]);
-
-  printf ("\nSections, in cascade order: H = (b0 + b1 z^-1 + b2 z^-2) / (1 + a1 z^-1 + a2 z^-2)\n");
-  for (size_t k = 0; k < sos->n; k++)
-    {
-      const LwSection *s = &sos->s[k];
-      printf ("  section %zu (order %d): b = [%.17g, %.17g, %.17g]  a = [1, %.17g, %.17g]\n",
-              k + 1, s->order, s->b[0], s->b[1], s->b[2], s->a[1], s->a[2]);
-      printf ("    poles");
-      for (size_t i = 0; i < s->n_poles; i++)
-        {
-          printf (i ? ", " : " ");
-          print_complex (s->poles[i], 8);
-          printf (" (|z| %.8g)", cabs (s->poles[i]));
-        }
-      if (s->n_poles == 0)
-        printf (" none");
-      printf ("; zeros");
-      for (size_t i = 0; i < s->n_zeros; i++)
-        {
-          printf (i ? ", " : " ");
-          print_complex (s->zeros[i], 8);
-        }
-      if (s->n_zeros == 0)
-        printf (" none");
-      if (isfinite (s->peak_gain))
-        printf ("; peak gain %.6g\n", s->peak_gain);
-      else
-        printf ("; peak gain unbounded (pole on the unit circle)\n");
-    }
-
-  if (fx != NULL)
-    {
-      printf ("\nQuantized to Q%d.%d (integers; value = integer / 2^%d)\n", q->int_bits,
-              q->frac_bits, q->frac_bits);
-      for (size_t k = 0; k < fx->n; k++)
-        {
-          const LwSectionQ *t = &fx->s[k];
-          printf ("  section %zu: b = [%ld, %ld, %ld]  a = [1, %ld, %ld]\n", k + 1,
-                  (long) t->b[0], (long) t->b[1], (long) t->b[2], (long) t->a[1],
-                  (long) t->a[2]);
-          for (size_t i = 0; i < t->n_poles; i++)
-            {
-              printf ("    pole ");
-              print_complex (t->poles_exact[i], 10);
-              printf (" -> ");
-              print_complex (t->poles_quant[i], 10);
-              printf ("  shift %.3g, |z| %.10g -> %.10g\n",
-                      cabs (t->poles_quant[i] - t->poles_exact[i]), cabs (t->poles_exact[i]),
-                      cabs (t->poles_quant[i]));
-            }
-        }
-      GPtrArray *w = fixed_warnings (sos, fx, ev, evq);
-      for (guint i = 0; i < w->len; i++)
-        printf ("warning: %s\n", (const char *) g_ptr_array_index (w, i));
-      g_ptr_array_unref (w);
-    }
-
-  printf ("\nMargins of L(z) = z^-%d C(z) P(z)\n", lp->compute_delay);
-  print_margin_line ("design", ev);
-  if (evq != NULL)
-    print_margin_line ("quantized", evq);
-  printf ("caution: simulation is not validation; commission with safe limits; follow the "
-          "applicable functional-safety standards and qualified review; local codes prevail.\n");
+            "and u, int32_t states\n", im->o.q.int_bits, im->o.q.frac_bits, im->o.q.frac_bits);
+  g_autofree char *text = lw_implementation_describe (im);
+  fputs (text, stdout);
 }
 
 /* ---- summary as JSON -------------------------------------------------------------------- */
@@ -307,11 +166,17 @@ json_evaluation (JsonBuilder *b, const LwEvaluation *ev)
 
 static char *
 summary_json (const char *hpath, const char *cpath, const char *form_name,
-              const LwVariantEval *lp,
-              const LwDiffEq *de, const LwSos *sos, const LwSosFixed *fx, const LwModel *czq,
-              const LwEvaluation *ev, const LwEvaluation *evq, const double *h,
-              const int16_t *hq)
+              const LwImplementation *im)
 {
+  const LwVariantEval *lp = im->eval;
+  const LwDiffEq *de = im->diffeq;
+  const LwSos *sos = im->sos;
+  const LwSosFixed *fx = im->fixed;
+  const LwModel *czq = im->controller_zq;
+  const LwEvaluation *ev = lp->ev;
+  const LwEvaluation *evq = im->quantized != NULL ? im->quantized->ev : NULL;
+  const double *h = im->impulse;
+  const int16_t *hq = im->impulse_counts;
   JsonBuilder *b = json_builder_new ();
   json_builder_begin_object (b);
   json_builder_set_member_name (b, "files");
@@ -389,10 +254,8 @@ summary_json (const char *hpath, const char *cpath, const char *form_name,
       json_evaluation (b, evq);
       json_builder_set_member_name (b, "warnings");
       json_builder_begin_array (b);
-      GPtrArray *w = fixed_warnings (sos, fx, ev, evq);
-      for (guint i = 0; i < w->len; i++)
-        json_builder_add_string_value (b, g_ptr_array_index (w, i));
-      g_ptr_array_unref (w);
+      for (guint i = 0; i < im->warnings->len; i++)
+        json_builder_add_string_value (b, g_ptr_array_index (im->warnings, i));
       json_builder_end_array (b);
       json_builder_end_object (b);
     }
@@ -405,25 +268,6 @@ summary_json (const char *hpath, const char *cpath, const char *form_name,
 }
 
 /* ---- run -------------------------------------------------------------------------------- */
-
-/* The header and the source as a pair: both replaced or neither, also under kill -9
- * (lw_files_replace: synced temporary files, backups, a commit journal; docs/cli.md). */
-static bool
-write_pair (const char *hpath, const LwText *hdr, const char *cpath, const LwText *src)
-{
-  const LwFileContents files[2] = {
-    { hpath, hdr->data ? hdr->data : "", hdr->len },
-    { cpath, src->data ? src->data : "", src->len },
-  };
-  GError *gerr = NULL;
-  if (!lw_files_replace (files, 2, &gerr))
-    {
-      lw_cli_bad_input ("--out", "%s; neither file was changed", gerr->message);
-      g_error_free (gerr);
-      return false;
-    }
-  return true;
-}
 
 static int
 emit_run (void *data)
@@ -490,83 +334,35 @@ emit_run (void *data)
       return status;
     }
 
-  LwDiffEq *de = NULL;
-  LwSos *sos = NULL;
-  LwSosFixed *fx = NULL;
-  LwModel *czq = NULL;
-  const LwEvaluation *ev = e->ev, *evq = NULL;
-  LwVariantEval *eq = NULL;
-  LwText hdr, src;
-  lw_text_init (&hdr);
-  lw_text_init (&src);
-  char *hpath = NULL, *cpath = NULL;
-
-  if (lw_diffeq_from_model (e->controller_z, &de, &err) != LW_OK
-      || lw_sos_from_model (e->controller_z, &sos, &err) != LW_OK)
+  /* declared before the first goto: their cleanup runs at out */
+  g_autofree char *hpath = NULL, *cpath = NULL;
+  g_autoptr (GError) werr = NULL;
+  LwImplOptions io = { .form = form, .fixed = a->fixed != NULL, .q = q, .prefix = prefix };
+  LwImplStep step = LW_IMPL_STEP_CONTROLLER;
+  g_autoptr (GError) ierr = NULL;
+  g_autoptr (LwImplementation) im = lw_implementation_make (e, &io, &step, &ierr);
+  if (im == NULL)
     {
-      status = lw_cli_report_core_error (ctl_opt, &err);
+      const char *place = step == LW_IMPL_STEP_CONTROLLER ? ctl_opt
+                          : step == LW_IMPL_STEP_FIXED ? "--fixed" : "emit";
+      if (ierr->domain != LW_IMPL_ERROR)
+        status = lw_cli_report_gerror (place, ierr);
+      else if (ierr->code == LW_IMPL_ERROR_INPUT)
+        {
+          lw_cli_bad_input (place, "%s", ierr->message);
+          status = LW_EXIT_BAD_INPUT;
+        }
+      else
+        {
+          lw_cli_bad_input (place, "internal failure: %s", ierr->message);
+          status = LW_EXIT_INTERNAL;
+        }
       goto out;
     }
-  if (a->fixed != NULL)
+  if (!lw_implementation_write (im, a->out, &hpath, &cpath, &werr))
     {
-      if (lw_sos_quantize (sos, q, &fx, &err) != LW_OK)
-        {
-          status = lw_cli_report_core_error ("--fixed", &err);
-          goto out;
-        }
-      if (lw_sos_fixed_model (fx, e->period_s, &czq, &err) != LW_OK)
-        {
-          status = lw_cli_report_core_error ("--fixed", &err);
-          goto out;
-        }
-      /* the quantized controller's loop, by the same evaluation */
-      LwEngineLoop ql = { .plant_s = e->plant_s, .sampled = e->sampled, .controller_z = czq,
-                          .dead_time_s = e->dead_time_s, .compute_delay = e->compute_delay };
-      LwEngineOptions qo;
-      lw_engine_options_init (&qo);
-      eq = lw_engine_evaluate_loop (&ql, &qo);
-      g_autoptr (GError) qerr = NULL;
-      if (!lw_variant_eval_ok (eq, &qerr))
-        {
-          status = lw_cli_report_gerror ("--fixed", qerr);
-          goto out;
-        }
-      evq = eq->ev;
-    }
-
-  LwEmitInput in = {
-    .prefix = prefix,
-    .form = form,
-    .period_s = e->period_s,
-    .compute_delay = e->compute_delay,
-    .dead_time_s = e->dead_time_s,
-    .plant_s = e->plant_s,
-    .controller_w = e->controller_w,
-    .controller_z = e->controller_z,
-    .margins = &ev->margins,
-    .margins_fixed = evq != NULL ? &evq->margins : NULL,
-    .stable = ev->stable,
-    .stable_fixed = evq != NULL && evq->stable,
-    .diffeq = de,
-    .sos = sos,
-    .fixed = fx,
-  };
-  double h[LW_EMIT_SELFTEST_LEN];
-  int16_t hq[LW_EMIT_SELFTEST_LEN] = { 0 };
-  if (lw_emit_c (&in, &hdr, &src, &err) != LW_OK
-      || lw_emit_selftest_vectors (&in, h, hq, &err) != LW_OK)
-    {
-      status = lw_cli_report_core_error ("emit", &err);
-      goto out;
-    }
-  char *hname = g_strdup_printf ("%scontroller.h", prefix);
-  char *cname = g_strdup_printf ("%scontroller.c", prefix);
-  hpath = g_build_filename (a->out, hname, NULL);
-  cpath = g_build_filename (a->out, cname, NULL);
-  g_free (hname);
-  g_free (cname);
-  if (!write_pair (hpath, &hdr, cpath, &src))
-    {
+      /* both files or neither (lw_files_replace) */
+      lw_cli_bad_input ("--out", "%s; neither file was changed", werr->message);
       status = LW_EXIT_INTERNAL;
       goto out;
     }
@@ -574,24 +370,15 @@ emit_run (void *data)
   const char *form_name = form == LW_FORM_DIFFERENCE ? "difference" : "sections";
   if (a->json)
     {
-      char *text = summary_json (hpath, cpath, form_name, e, de, sos, fx, czq, ev, evq, h, hq);
+      char *text = summary_json (hpath, cpath, form_name, im);
       fputs (text, stdout);
       g_free (text);
     }
   else
-    print_summary (hpath, cpath, form_name, &q, e, de, sos, fx, ev, evq);
+    print_summary (hpath, cpath, form_name, im);
 
 out:
-  g_free (hpath);
-  g_free (cpath);
-  lw_text_clear (&hdr);
-  lw_text_clear (&src);
-  lw_variant_eval_unref (eq);
   lw_variant_eval_unref (e);
-  lw_model_free (czq);
-  lw_sos_fixed_free (fx);
-  lw_sos_free (sos);
-  lw_diffeq_free (de);
   lw_cli_loop_clear (&lp);
   return status;
 }

@@ -1,7 +1,8 @@
 /* lw-window-helpers.c — the formula helpers in the window: window.helper("NAME") opens the
  * helper's dialog (lw-helper-dialog.h) on the active variant, and its Apply puts the proposal
  * into the design as one undo step; window.details opens the design's title, author and notes
- * (lw-details-dialog.h).
+ * (lw-details-dialog.h); window.implementation (Ctrl+I) the active variant's C code and
+ * coefficients (lw-implementation-dialog.h).
  * SPDX-License-Identifier: GPL-3.0-or-later
  */
 #include "config.h"
@@ -10,6 +11,7 @@
 
 #include "lw-details-dialog.h"
 #include "lw-helper-dialog.h"
+#include "lw-implementation-dialog.h"
 #include "lw-window-private.h"
 
 static void
@@ -58,11 +60,43 @@ details_activated (GtkWidget *widget, const char *action_name, GVariant *paramet
   gtk_window_present (GTK_WINDOW (lw_details_dialog_new (GTK_WINDOW (self), self->model)));
 }
 
+static void
+implementation_activated (GtkWidget *widget, const char *action_name, GVariant *parameter)
+{
+  (void) action_name, (void) parameter;
+  LwWindow *self = LW_WINDOW (widget);
+  g_autoptr (GError) error = NULL;
+  if (self->eval == NULL || !lw_variant_eval_ok (self->eval, &error))
+    {
+      GtkWidget *d = gtk_message_dialog_new (GTK_WINDOW (self), GTK_DIALOG_MODAL,
+                                             GTK_MESSAGE_INFO, GTK_BUTTONS_CLOSE, "%s",
+                                             _("The active variant has no evaluated loop yet"));
+      gtk_message_dialog_format_secondary_text (GTK_MESSAGE_DIALOG (d), "%s",
+                                                error != NULL ? error->message
+                                                : _("Wait for the evaluation to finish."));
+      g_signal_connect (d, "response", G_CALLBACK (gtk_window_destroy), NULL);
+      gtk_window_present (GTK_WINDOW (d));
+      return;
+    }
+  guint active = lw_design_model_get_active (self->model);
+  LwImplementationDialog *dialog
+    = lw_implementation_dialog_new (GTK_WINDOW (self), self->eval,
+                                    lw_design_model_get_variant_name (self->model, active),
+                                    lw_window_get_settings (self));
+  if (self->debug)
+    g_printerr ("implementation-open\n");
+  gtk_window_present (GTK_WINDOW (dialog));
+}
+
 void
 lw_window_class_init_helpers (GtkWidgetClass *widget_class)
 {
   gtk_widget_class_install_action (widget_class, "window.helper", "s", helper_activated);
   gtk_widget_class_install_action (widget_class, "window.details", NULL, details_activated);
+  gtk_widget_class_install_action (widget_class, "window.implementation", NULL,
+                                   implementation_activated);
+  gtk_widget_class_add_binding_action (widget_class, GDK_KEY_i, GDK_CONTROL_MASK,
+                                       "window.implementation", NULL);
   /* Alt+Return, the usual key for the properties of what is open (Ctrl+Shift+D is GTK's
    * inspector) */
   gtk_widget_class_add_binding_action (widget_class, GDK_KEY_Return, GDK_ALT_MASK,
