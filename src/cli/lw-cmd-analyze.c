@@ -476,7 +476,7 @@ analyze_loop_run (const AnalyzeArgs *a, const AnalyzeSpec *spec, const LwVariant
       if (design != NULL)
         printf ("Design '%s' (%s), variant '%s'\n\n", design->title, a->files[0],
                 design->variants[index].name);
-      print_report (e->plant_s, e->dead_time_s, ev, &e->step, &spec->so, e->sim_ref, e->sim_in,
+      print_report (e->plant_s, e->dead_time_s, ev, &e->step, &e->sim_options, e->sim_ref, e->sim_in,
                     e->sim_out, e->plant_z_form_error, e->plant_w_form_error);
       if (design != NULL)
         {

@@ -173,6 +173,14 @@ lw_design_validate (const LwDesign *d, GError **error)
                        d->dead_time_s / v->period_s, v->period_s, LW_DEAD_TIME_MAX_SAMPLES);
           return FALSE;
         }
+      if (v->has_actuator
+          && !(isfinite (v->u_low) && isfinite (v->u_high) && v->u_low < v->u_high))
+        {
+          g_set_error (error, LW_DESIGN_ERROR, LW_DESIGN_ERROR_VALUE,
+                       "variant '%s': the actuator limits must be finite with low < high, got "
+                       "%g and %g", v->name, v->u_low, v->u_high);
+          return FALSE;
+        }
       if (v->n_stages > LW_DESIGN_MAX_STAGES)
         {
           g_set_error (error, LW_DESIGN_ERROR, LW_DESIGN_ERROR_LIMIT,

@@ -108,6 +108,29 @@ read_stage (Reader *r, const xmlNode *e, const LwDesignVariant *v, size_t index,
   return true;
 }
 
+/* <actuator low="…" high="…" anti_windup="true|false"/> of a variant */
+static bool
+read_actuator (Reader *r, const xmlNode *e, LwDesignVariant *v)
+{
+  static const char *const allowed[] = { "low", "high", "anti_windup", NULL };
+  g_autofree char *where = g_strdup_printf (" of variant '%s'", v->name);
+  if (!lw_load_check_attributes (r, e, where, allowed) || !lw_load_no_children (r, e, where))
+    return false;
+  if (!lw_load_number_attr (r, e, where, "low", LW_NUM_FINITE, true, &v->u_low, NULL)
+      || !lw_load_number_attr (r, e, where, "high", LW_NUM_FINITE, true, &v->u_high, NULL))
+    return false;
+  if (!(v->u_low < v->u_high))
+    return lw_load_fail (r, e, LW_DESIGN_ERROR_VALUE, "%s: attribute 'low' (%g) must be below "
+                         "'high' (%g)", where, v->u_low, v->u_high);
+  g_autofree char *aw = lw_load_attribute (e, "anti_windup");
+  if (aw != NULL && strcmp (aw, "true") != 0 && strcmp (aw, "false") != 0)
+    return lw_load_fail (r, e, LW_DESIGN_ERROR_VALUE, "%s: attribute 'anti_windup' must be "
+                         "'true' or 'false', got '%s'", where, aw);
+  v->anti_windup = aw != NULL && strcmp (aw, "true") == 0;
+  v->has_actuator = true;
+  return true;
+}
+
 static bool
 read_variant (Reader *r, const xmlNode *e, LwDesign *d)
 {
@@ -149,6 +172,12 @@ read_variant (Reader *r, const xmlNode *e, LwDesign *d)
       const char *problem = lw_design_text_problem (v->notes);
       if (problem != NULL)
         return lw_load_fail (r, c, LW_DESIGN_ERROR_VALUE, ": %s", problem);
+      c = lw_load_next_element (r, e, c->next);
+    }
+  if (lw_load_is_element (c, "actuator"))
+    {
+      if (!read_actuator (r, c, v))
+        return false;
       c = lw_load_next_element (r, e, c->next);
     }
   for (; c != NULL; c = lw_load_next_element (r, e, c->next))

@@ -167,7 +167,7 @@ lw_design_to_text (const LwDesign *d, size_t *len_out, GError **error)
       attr_text (o, "name", v->name);
       if (v->has_period)
         attr_number (o, "period_s", v->period_s);
-      if (v->notes == NULL && v->n_stages == 0)
+      if (v->notes == NULL && v->n_stages == 0 && !v->has_actuator)
         {
           g_string_append (o, "/>\n");
           continue;
@@ -175,6 +175,16 @@ lw_design_to_text (const LwDesign *d, size_t *len_out, GError **error)
       g_string_append (o, ">\n");
       if (v->notes != NULL)
         text_element (o, 3, "notes", v->notes);
+      if (v->has_actuator)
+        {
+          indent (o, 3);
+          g_string_append (o, "<actuator");
+          attr_number (o, "low", v->u_low);
+          attr_number (o, "high", v->u_high);
+          if (v->anti_windup)
+            attr_text (o, "anti_windup", "true");
+          g_string_append (o, "/>\n");
+        }
       for (size_t j = 0; j < v->n_stages; j++)
         {
           const LwStage *s = &v->stages[j];

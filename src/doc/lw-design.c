@@ -185,6 +185,10 @@ lw_design_copy (const LwDesign *d)
       c->variants[i].notes = g_strdup (v->notes);
       c->variants[i].has_period = v->has_period;
       c->variants[i].period_s = v->period_s;
+      c->variants[i].has_actuator = v->has_actuator;
+      c->variants[i].u_low = v->u_low;
+      c->variants[i].u_high = v->u_high;
+      c->variants[i].anti_windup = v->anti_windup;
       c->variants[i].n_stages = v->n_stages;
       c->variants[i].stages = g_memdup2 (v->stages, v->n_stages * sizeof *v->stages);
     }
@@ -292,6 +296,9 @@ lw_design_equal (const LwDesign *a, const LwDesign *b)
       const LwDesignVariant *x = &a->variants[i], *y = &b->variants[i];
       if (!str_equal (x->name, y->name) || !str_equal (x->notes, y->notes)
           || x->has_period != y->has_period || (x->has_period && x->period_s != y->period_s)
+          || x->has_actuator != y->has_actuator
+          || (x->has_actuator && (x->u_low != y->u_low || x->u_high != y->u_high
+                                  || x->anti_windup != y->anti_windup))
           || x->n_stages != y->n_stages)
         return false;
       for (size_t j = 0; j < x->n_stages; j++)

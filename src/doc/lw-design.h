@@ -87,6 +87,12 @@ typedef struct
   char *notes;                /* optional */
   bool has_period;            /* the variant overrides the design's sample period */
   double period_s;            /* its sample period T, > 0, s (when has_period) */
+  /* the actuator this variant drives: limits on the controller output in the actuator's
+   * units (finite, u_low < u_high) and whether the integrating states are held while the
+   * output is limited; used by every simulation of the variant */
+  bool has_actuator;
+  double u_low, u_high;
+  bool anti_windup;
   size_t n_stages;
   LwStage *stages;            /* n_stages, in order (the compensator is their product) */
 } LwDesignVariant;

@@ -390,6 +390,7 @@ eval_loop (EvalPrivate *p, const LwEngineOptions *opts)
   LwSimOptions so = opts->sim;
   so.compute_delay = e->compute_delay;
   so.n_steps = ao.n_steps;
+  e->sim_options = so;
   LwSimPlan *plan = NULL;
   if (lw_sim_plan_new (e->sampled, e->controller_z, &so, &plan, &err) != LW_OK
       || lw_sim_run (plan, LW_SIM_REFERENCE_STEP, 1.0, &e->sim_ref, &err) != LW_OK
@@ -470,7 +471,20 @@ lw_engine_evaluate_variant (const LwDesign *d, size_t variant, const LwEngineOpt
       g_clear_pointer (&e->controller_z, lw_model_free);
       return eval_fail (p, LW_EVAL_FAILED_COMPENSATOR, &err);
     }
-  eval_loop (p, opts);
+  /* the variant's actuator, unless the caller gives limits of its own */
+  LwEngineOptions vo;
+  if (opts != NULL)
+    vo = *opts;
+  else
+    lw_engine_options_init (&vo);
+  if (v->has_actuator && !vo.sim.has_limits)
+    {
+      vo.sim.has_limits = true;
+      vo.sim.u_low = v->u_low;
+      vo.sim.u_high = v->u_high;
+      vo.sim.anti_windup = v->anti_windup;
+    }
+  eval_loop (p, &vo);
   if (e->failure != LW_EVAL_OK)
     return e;
 

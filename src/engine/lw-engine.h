@@ -161,10 +161,14 @@ typedef struct
   size_t n_requirements;
   LwReqResult *requirements;      /* n_requirements verdicts; NULL without a document */
   size_t n_not_passing;           /* failed or not available */
+  /* the simulations' options as run: the caller's actuator limits, else the variant's
+   * (LwDesignVariant.has_actuator) */
+  LwSimOptions sim_options;
 } LwVariantEval;
 
 /* Evaluates variant `variant` of d. cache (may be NULL) keeps the sampled plant between
- * calls; opts NULL means lw_engine_options_init. Never NULL: a failure is in ->failure and
+ * calls; opts NULL means lw_engine_options_init. The simulations use the actuator limits of
+ * opts->sim when it has some, else the variant's own (its <actuator> element). Never NULL: a failure is in ->failure and
  * ->error. */
 LwVariantEval *lw_engine_evaluate_variant (const LwDesign *d, size_t variant,
                                            const LwEngineOptions *opts, LwPlantCache *cache);

@@ -286,6 +286,54 @@ test_round_trip_variant_period (void **state)
   g_clear_error (&error);
 }
 
+/* A variant's actuator: written as its literal element after the notes (docs/file-format.md),
+ * read back to the same numbers, anti-windup only when on, absent when there is none; a copy
+ * keeps it; limits that hold nothing are refused before saving. */
+static void
+test_round_trip_actuator (void **state)
+{
+  (void) state;
+  g_autoptr (LwDesign) d = lw_design_new ("1/(s*(s+1))", 0.1);
+  LwStage g = lw_stage_gain (0.5);
+  lw_design_variant_add_stage (&d->variants[0], &g);
+  LwDesignVariant *v = &d->variants[0];
+  v->has_actuator = true;
+  v->u_low = -2.5;
+  v->u_high = 0.1;
+  v->anti_windup = true;
+  LwDesignVariant *w = lw_design_add_variant (d, "loose");
+  w->has_actuator = true;
+  w->u_low = -10;
+  w->u_high = 10;
+
+  size_t len = 0, len2 = 0;
+  g_autofree char *t = text_ok (d, &len);
+  assert_non_null (strstr (t, "<variant name=\"initial\">\n      <actuator low=\"-2.5\" "
+                              "high=\"0.1\" anti_windup=\"true\"/>\n      <gain"));
+  assert_non_null (strstr (t, "<variant name=\"loose\">\n      <actuator low=\"-10\" "
+                              "high=\"10\"/>\n    </variant>"));
+  GError *error = NULL;
+  g_autoptr (LwDesign) back = lw_design_load_data (t, len, "actuator", &error);
+  if (back == NULL)
+    fail_msg ("%s\n%s", error->message, t);
+  assert_true (lw_design_equal (d, back));
+  assert_true (back->variants[0].has_actuator && back->variants[0].anti_windup);
+  assert_true (back->variants[0].u_low == -2.5 && back->variants[0].u_high == 0.1);
+  assert_true (back->variants[1].has_actuator && !back->variants[1].anti_windup);
+  g_autofree char *t2 = text_ok (back, &len2);
+  assert_int_equal (len, len2);
+  assert_memory_equal (t, t2, len);
+
+  g_autoptr (LwDesign) c = lw_design_copy (d);
+  assert_true (lw_design_equal (d, c));
+  c->variants[1].anti_windup = true;
+  assert_false (lw_design_equal (d, c));
+  c->variants[1].u_low = 10;
+  assert_false (lw_design_validate (c, &error));
+  assert_non_null (strstr (error->message, "variant 'loose': the actuator limits"));
+  g_clear_error (&error);
+}
+
 /* ---- numbers ------------------------------------------------------------------------------ */
 
 /* Every finite double is written so that the C library's strtod reads back the same value
@@ -910,6 +958,7 @@ main (int argc, char **argv)
     cmocka_unit_test (test_round_trip_everything),
     cmocka_unit_test (test_literal_document),
     cmocka_unit_test (test_round_trip_variant_period),
+    cmocka_unit_test (test_round_trip_actuator),
     cmocka_unit_test (test_view_names_as_text),
     cmocka_unit_test (test_numbers_round_trip),
     cmocka_unit_test (test_numbers_locale),

@@ -287,6 +287,47 @@ test_verdicts (void **state)
   assert_int_equal (lw_engine_sampling_advice (&s, T_S, NULL), LW_SAMPLING_ADVICE_TOO_MANY);
 }
 
+/* A variant's actuator (its <actuator> element) limits every simulation of it: the applied
+ * u never leaves [low, high] (clipping is exact, so no tolerance) and some samples sit at the
+ * limit, where the unlimited loop's first sample is far above it: u[0] = C(z → ∞)·e[0] with
+ * e[0] = 1, and z → ∞ is w = 2/T = 1000 rad/s, so C = 2.5 (1 + 100)/(1 + 12.5) = 18.7037…
+ * (Tustin's map, worked by hand; 1e-9 relative for the rounding of the realization). Limits
+ * the caller gives take the place of the variant's. */
+static void
+test_variant_actuator (void **state)
+{
+  (void) state;
+  g_autoptr (LwDesign) d = slider_design ();
+  g_autoptr (LwVariantEval) free_run = lw_engine_evaluate_variant (d, 0, NULL, NULL);
+  assert_false (free_run->sim_options.has_limits);
+  const double u0 = 2.5 * 101.0 / 13.5;
+  if (!(fabs (free_run->actuator_peak - u0) < 1e-9 * u0))
+    fail_msg ("unlimited peak %.17g, expected %.17g", free_run->actuator_peak, u0);
+
+  d->variants[0].has_actuator = true;
+  d->variants[0].u_low = -5.0;
+  d->variants[0].u_high = 5.0;
+  d->variants[0].anti_windup = true;
+  g_autoptr (LwVariantEval) e = lw_engine_evaluate_variant (d, 0, NULL, NULL);
+  assert_true (e->sim_options.has_limits && e->sim_options.anti_windup);
+  assert_true (e->sim_options.u_low == -5.0 && e->sim_options.u_high == 5.0);
+  assert_non_null (e->sim_ref);
+  for (size_t k = 0; k < e->sim_ref->n; k++)
+    assert_true (e->sim_ref->u[k] >= -5.0 && e->sim_ref->u[k] <= 5.0);
+  assert_true (e->sim_ref->n_saturated > 0);
+  assert_true (e->actuator_peak == 5.0);
+
+  LwEngineOptions o;
+  lw_engine_options_init (&o);
+  o.sim.has_limits = true;
+  o.sim.u_low = -100.0;
+  o.sim.u_high = 100.0;
+  g_autoptr (LwVariantEval) wide = lw_engine_evaluate_variant (d, 0, &o, NULL);
+  assert_true (wide->sim_options.u_high == 100.0 && !wide->sim_options.anti_windup);
+  assert_int_equal (wide->sim_ref->n_saturated, 0);
+  assert_true (fabs (wide->actuator_peak - u0) < 1e-9 * u0);
+}
+
 int
 main (void)
 {
@@ -298,6 +339,7 @@ main (void)
     cmocka_unit_test (test_verdicts),
     cmocka_unit_test (test_horizon_follows_loop),
     cmocka_unit_test (test_ringing_pole),
+    cmocka_unit_test (test_variant_actuator),
   };
   return cmocka_run_group_tests (tests, NULL, NULL);
 }
