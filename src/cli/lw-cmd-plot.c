@@ -214,6 +214,7 @@ typedef struct
   const LwSampledPlant *plant;
   const LwEvaluation *ev;
   unsigned style;   /* LwPlotVariant.style: the variant's place in the document + 1 */
+  const LwVariantEval *eval;   /* its simulations (limited step, actuator) */
 } PlotVariantSource;
 
 /* Draws the variants with the spec and writes the file. */
@@ -240,6 +241,10 @@ plot_write (const PlotSpec *s, const PlotVariantSource *src, size_t n)
           status = lw_cli_report_core_error ("plot", &err);
           goto out;
         }
+      /* a limited actuator: the limited step and u(kT) with its limits */
+      if (src[filled].eval != NULL)
+        lw_figure_variant_set_response (&fv[filled], src[filled].eval->sim_ref,
+                                        &src[filled].eval->sim_options, false);
       pv[filled] = fv[filled].v;
       pv[filled].style = n > 1 ? src[filled].style : 0;   /* one variant: the first colour */
     }
@@ -357,7 +362,8 @@ plot_run_document (const PlotArgs *a)
         goto out;
       src[built] = (PlotVariantSource) { d->variants[which[built]].name, e[built]->sampled,
                                          e[built]->ev,
-                                         (unsigned) (which[built] % LW_PLOT_MAX_VARIANTS) + 1 };
+                                         (unsigned) (which[built] % LW_PLOT_MAX_VARIANTS) + 1,
+                                         e[built] };
     }
   status = plot_write (&spec, src, n);
 out:
@@ -398,7 +404,7 @@ plot_run (void *data)
   status = lw_cli_loop_evaluate ("plot", &lp, &eo, FALSE, &e);
   if (status != LW_EXIT_OK)
     goto out;
-  PlotVariantSource src = { a->name ? a->name : "loop", lp.sampled, e->ev, 0 };
+  PlotVariantSource src = { a->name ? a->name : "loop", lp.sampled, e->ev, 0, e };
   status = plot_write (&spec, &src, 1);
 out:
   lw_variant_eval_unref (e);

@@ -32,6 +32,12 @@ struct _LwCompensatorPanel
   GtkLabel *name_problem;
   GtkCheckButton *period_check;
   GtkSpinButton *period_spin;
+  GtkBox *actuator_box;
+  GtkCheckButton *actuator_check;
+  GtkSpinButton *actuator_low;
+  GtkSpinButton *actuator_high;
+  GtkCheckButton *anti_windup_check;
+  GtkLabel *actuator_problem;
   GtkBox *compare_box;
   gboolean updating;            /* the variant widgets are being filled from the model */
   GPtrArray *compared;          /* names of the variants compared (shown as checked) */
@@ -93,6 +99,98 @@ compare_toggled (GtkCheckButton *b, LwCompensatorPanel *self)
 }
 
 static void
+show_actuator_sensitivity (LwCompensatorPanel *self)
+{
+  gboolean on = gtk_check_button_get_active (self->actuator_check);
+  gtk_widget_set_sensitive (GTK_WIDGET (self->actuator_low), on);
+  gtk_widget_set_sensitive (GTK_WIDGET (self->actuator_high), on);
+  gtk_widget_set_sensitive (GTK_WIDGET (self->anti_windup_check), on);
+}
+
+/* The actuator's check buttons or limits: one window action (one undo step) with the state of
+ * all four; limits that hold nothing are said and not taken. */
+static void
+actuator_edited (LwCompensatorPanel *self)
+{
+  if (self->updating || self->model == NULL)
+    return;
+  show_actuator_sensitivity (self);
+  gboolean on = gtk_check_button_get_active (self->actuator_check);
+  double low = gtk_spin_button_get_value (self->actuator_low);
+  double high = gtk_spin_button_get_value (self->actuator_high);
+  if (on && !(low < high))
+    {
+      g_autofree char *msg = g_strdup_printf (_("Actuator limits: the low limit (%g) must be "
+                                                "below the high limit (%g); not taken."),
+                                              low, high);
+      gtk_label_set_text (self->actuator_problem, msg);
+      gtk_widget_set_visible (GTK_WIDGET (self->actuator_problem), TRUE);
+      return;
+    }
+  if (lw_number_field_get_problem (self->actuator_low) == NULL
+      && lw_number_field_get_problem (self->actuator_high) == NULL)
+    gtk_widget_set_visible (GTK_WIDGET (self->actuator_problem), FALSE);
+  gtk_widget_activate_action (GTK_WIDGET (self), "window.variant-actuator", "(bddb)", on, low,
+                              high, gtk_check_button_get_active (self->anti_windup_check));
+}
+
+/* The actuator row under the variant: limits on the controller output and anti-windup. */
+static void
+build_actuator_row (LwCompensatorPanel *self)
+{
+  GtkWidget *row = gtk_box_new (GTK_ORIENTATION_HORIZONTAL, 6);
+  self->actuator_check = GTK_CHECK_BUTTON (gtk_check_button_new_with_mnemonic (
+    _("Actuator _limits")));
+  gtk_widget_set_tooltip_text (GTK_WIDGET (self->actuator_check),
+                               _("Limits on the controller output, in the actuator's units: "
+                                 "the simulated responses of this variant are clipped to them"));
+  self->actuator_low = GTK_SPIN_BUTTON (gtk_spin_button_new_with_range (-1e12, 1e12, 0.1));
+  self->actuator_high = GTK_SPIN_BUTTON (gtk_spin_button_new_with_range (-1e12, 1e12, 0.1));
+  gtk_spin_button_set_digits (self->actuator_low, 3);
+  gtk_spin_button_set_digits (self->actuator_high, 3);
+  gtk_spin_button_set_value (self->actuator_low, -1.0);
+  gtk_spin_button_set_value (self->actuator_high, 1.0);
+  self->actuator_problem = GTK_LABEL (gtk_label_new (NULL));
+  gtk_label_set_xalign (self->actuator_problem, 0.0);
+  gtk_label_set_wrap (self->actuator_problem, TRUE);
+  gtk_widget_add_css_class (GTK_WIDGET (self->actuator_problem), "error");
+  gtk_widget_set_visible (GTK_WIDGET (self->actuator_problem), FALSE);
+  for (int i = 0; i < 2; i++)
+    {
+      GtkSpinButton *s = i == 0 ? self->actuator_low : self->actuator_high;
+      lw_gui_spin_wheel_off (s);
+      lw_number_field_setup (s, i == 0 ? _("Actuator low") : _("Actuator high"),
+                             self->actuator_problem);
+      gtk_editable_set_width_chars (GTK_EDITABLE (s), 7);
+      gtk_widget_set_hexpand (GTK_WIDGET (s), TRUE);
+    }
+  gtk_accessible_update_property (GTK_ACCESSIBLE (self->actuator_low),
+                                  GTK_ACCESSIBLE_PROPERTY_LABEL, _("Actuator low limit"), -1);
+  gtk_accessible_update_property (GTK_ACCESSIBLE (self->actuator_high),
+                                  GTK_ACCESSIBLE_PROPERTY_LABEL, _("Actuator high limit"), -1);
+  self->anti_windup_check = GTK_CHECK_BUTTON (gtk_check_button_new_with_mnemonic (
+    _("Anti-_windup")));
+  gtk_widget_set_tooltip_text (GTK_WIDGET (self->anti_windup_check),
+                               _("Hold the controller's integrating states while the output is "
+                                 "at a limit (clamping)"));
+  gtk_box_append (GTK_BOX (row), GTK_WIDGET (self->actuator_check));
+  gtk_box_append (GTK_BOX (row), GTK_WIDGET (self->actuator_low));
+  gtk_box_append (GTK_BOX (row), gtk_label_new ("…"));
+  gtk_box_append (GTK_BOX (row), GTK_WIDGET (self->actuator_high));
+  gtk_box_append (GTK_BOX (row), GTK_WIDGET (self->anti_windup_check));
+  gtk_box_append (self->actuator_box, row);
+  gtk_box_append (self->actuator_box, GTK_WIDGET (self->actuator_problem));
+  g_signal_connect_swapped (self->actuator_check, "toggled", G_CALLBACK (actuator_edited), self);
+  g_signal_connect_swapped (self->anti_windup_check, "toggled", G_CALLBACK (actuator_edited),
+                            self);
+  g_signal_connect_swapped (self->actuator_low, "value-changed", G_CALLBACK (actuator_edited),
+                            self);
+  g_signal_connect_swapped (self->actuator_high, "value-changed", G_CALLBACK (actuator_edited),
+                            self);
+  show_actuator_sensitivity (self);
+}
+
+static void
 rebuild_variants (LwCompensatorPanel *self)
 {
   if (self->model == NULL)
@@ -113,6 +211,17 @@ rebuild_variants (LwCompensatorPanel *self)
   gtk_check_button_set_active (self->period_check, own);
   gtk_spin_button_set_value (self->period_spin, period_s);
   gtk_widget_set_sensitive (GTK_WIDGET (self->period_spin), own);
+  double low = -1.0, high = 1.0;
+  gboolean aw = FALSE;
+  gboolean limited = lw_design_model_get_variant_actuator (self->model, active, &low, &high, &aw);
+  gtk_check_button_set_active (self->actuator_check, limited);
+  if (limited)
+    {
+      gtk_spin_button_set_value (self->actuator_low, low);
+      gtk_spin_button_set_value (self->actuator_high, high);
+    }
+  gtk_check_button_set_active (self->anti_windup_check, limited && aw);
+  show_actuator_sensitivity (self);
 
   GtkWidget *c;
   while ((c = gtk_widget_get_first_child (GTK_WIDGET (self->compare_box))) != NULL)
@@ -342,6 +451,7 @@ lw_compensator_panel_class_init (LwCompensatorPanelClass *klass)
   gtk_widget_class_bind_template_child (widget_class, LwCompensatorPanel, compare_box);
   gtk_widget_class_bind_template_child (widget_class, LwCompensatorPanel, period_check);
   gtk_widget_class_bind_template_child (widget_class, LwCompensatorPanel, period_spin);
+  gtk_widget_class_bind_template_child (widget_class, LwCompensatorPanel, actuator_box);
   gtk_widget_class_install_action (widget_class, "compensator.add-stage", "s",
                                    add_stage_activated);
   gtk_widget_class_set_layout_manager_type (widget_class, GTK_TYPE_BIN_LAYOUT);
@@ -363,6 +473,7 @@ lw_compensator_panel_init (LwCompensatorPanel *self)
   gtk_adjustment_set_lower (pa, LW_PERIOD_MIN_S);
   gtk_adjustment_set_upper (pa, LW_PERIOD_MAX_S);
   lw_number_field_setup (self->period_spin, _("Own sample period"), self->name_problem);
+  build_actuator_row (self);
   self->compared = g_ptr_array_new_with_free_func (g_free);
   g_signal_connect (self->variant_dropdown, "notify::selected", G_CALLBACK (variant_selected),
                     self);

@@ -491,6 +491,44 @@ lw_design_model_set_variant_period (LwDesignModel *self, guint i, gboolean overr
 }
 
 gboolean
+lw_design_model_get_variant_actuator (LwDesignModel *self, guint i, double *low, double *high,
+                                      gboolean *anti_windup)
+{
+  g_return_val_if_fail (LW_IS_DESIGN_MODEL (self), FALSE);
+  g_return_val_if_fail (i < self->doc->n_variants, FALSE);
+  const LwDesignVariant *v = &self->doc->variants[i];
+  if (low != NULL)
+    *low = v->u_low;
+  if (high != NULL)
+    *high = v->u_high;
+  if (anti_windup != NULL)
+    *anti_windup = v->anti_windup;
+  return v->has_actuator;
+}
+
+gboolean
+lw_design_model_set_variant_actuator (LwDesignModel *self, guint i, gboolean has, double low,
+                                      double high, gboolean anti_windup)
+{
+  g_return_val_if_fail (LW_IS_DESIGN_MODEL (self), FALSE);
+  g_return_val_if_fail (i < self->doc->n_variants, FALSE);
+  if (has && !(isfinite (low) && isfinite (high) && low < high))
+    return FALSE;
+  LwDesignVariant *v = &self->doc->variants[i];
+  if (!has && !v->has_actuator)
+    return TRUE;
+  if (has && v->has_actuator && v->u_low == low && v->u_high == high
+      && v->anti_windup == (bool) anti_windup)
+    return TRUE;
+  v->has_actuator = has;
+  v->u_low = has ? low : 0.0;
+  v->u_high = has ? high : 0.0;
+  v->anti_windup = has && anti_windup;
+  emit_variants_changed (self, FALSE);
+  return TRUE;
+}
+
+gboolean
 lw_design_model_rename_variant (LwDesignModel *self, guint i, const char *name)
 {
   g_return_val_if_fail (LW_IS_DESIGN_MODEL (self), FALSE);

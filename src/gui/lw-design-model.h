@@ -122,6 +122,14 @@ double lw_design_model_get_active_period_s (LwDesignModel *self);
  * (nothing changed) for a bad period. */
 gboolean lw_design_model_set_variant_period (LwDesignModel *self, guint i, gboolean overrides,
                                              double period_s);
+/* Variant i's actuator: TRUE when it has limits, with them in *low, *high and whether the
+ * integrators are held (*anti_windup); each pointer may be NULL. */
+gboolean lw_design_model_get_variant_actuator (LwDesignModel *self, guint i, double *low,
+                                               double *high, gboolean *anti_windup);
+/* Sets (has TRUE: finite, low < high) or clears variant i's actuator limits; FALSE (nothing
+ * changed) for limits that hold nothing. */
+gboolean lw_design_model_set_variant_actuator (LwDesignModel *self, guint i, gboolean has,
+                                               double low, double high, gboolean anti_windup);
 /* Removes variant i; FALSE for the last one left. The active index follows its variant, or
  * moves to the neighbour when the active one goes. */
 gboolean lw_design_model_remove_variant (LwDesignModel *self, guint i);

@@ -275,6 +275,8 @@ figure_for (LwPlotArea *self, LwVariantEval *eval, const char *name, LwError *er
       figure_entry_free (e);
       return NULL;
     }
+  /* the step as simulated (with the variant's actuator limits) and u(kT) under it */
+  lw_figure_variant_set_response (&e->fv, eval->sim_ref, &eval->sim_options, true);
   e->fv.v.name = e->name;
   /* the entry's arrays do not change while it lives: a key of its own lets a figure rebuilt
    * during a drag copy this variant's mapped curves from the one before */
@@ -584,6 +586,7 @@ lw_plot_area_build_plot (const LwAreaVariant *vs, guint n, const LwPlotRequireme
           lw_figure_variant_clear (&fv[filled]);
           goto out;
         }
+      lw_figure_variant_set_response (&fv[filled], eval->sim_ref, &eval->sim_options, true);
       pv[filled] = fv[filled].v;
       pv[filled].style = n > 1 ? vs[filled].style : 0;   /* one variant: the first colour */
     }

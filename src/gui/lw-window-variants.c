@@ -140,6 +140,20 @@ variant_period_activated (GtkWidget *widget, const char *action, GVariant *param
 }
 
 static void
+variant_actuator_activated (GtkWidget *widget, const char *action, GVariant *param)
+{
+  LwWindow *self = LW_WINDOW (widget);
+  gboolean has = FALSE, anti_windup = FALSE;
+  double low = 0.0, high = 0.0;
+  g_variant_get (param, "(bddb)", &has, &low, &high, &anti_windup);
+  if (!variant_action_begin (self))
+    return;
+  lw_design_model_set_variant_actuator (self->model, lw_design_model_get_active (self->model),
+                                        has, low, high, anti_windup);
+  variant_action_end (self);
+}
+
+static void
 variant_switch_to (LwWindow *self, guint i)
 {
   if (i >= lw_design_model_get_n_variants (self->model) || !variant_action_begin (self))
@@ -215,6 +229,8 @@ lw_window_class_init_variants (GtkWidgetClass *widget_class)
 {
   gtk_widget_class_install_action (widget_class, "window.variant-period", "(bd)",
                                    variant_period_activated);
+  gtk_widget_class_install_action (widget_class, "window.variant-actuator", "(bddb)",
+                                   variant_actuator_activated);
   gtk_widget_class_install_action (widget_class, "window.variant-copy", NULL,
                                    variant_copy_activated);
   gtk_widget_class_install_action (widget_class, "window.variant-new", NULL,

@@ -395,3 +395,29 @@ lw_figure_requirements_add (LwPlotRequirements *r, double period_s, const LwRequ
       break;
     }
 }
+
+void
+lw_figure_variant_set_response (LwFigureVariant *fv, const LwSimResponse *ref,
+                                const LwSimOptions *so, bool show_actuator)
+{
+  if (fv == NULL || ref == NULL || ref->n < 2)
+    return;
+  LwPlotStepData *st = &fv->v.step;
+  bool limited = so != NULL && so->has_limits;
+  if (limited)
+    {
+      st->y = ref->y;
+      st->n = ref->n;
+      st->has_limits = true;
+      st->u_low = so->u_low;
+      st->u_high = so->u_high;
+    }
+  if (ref->has_continuous && ref->n == st->n)
+    {
+      st->n_fine = ref->n_fine;
+      st->t_fine_s = ref->t_fine_s;
+      st->y_fine = ref->y_fine;
+    }
+  if ((show_actuator || limited) && ref->n == st->n)
+    st->u = ref->u;
+}

@@ -14,6 +14,7 @@
 #include "lw-model.h"
 #include "lw-plot.h"
 #include "lw-require.h"
+#include "lw-simulate.h"
 
 #ifdef __cplusplus
 extern "C" {
@@ -45,6 +46,14 @@ LwStatus lw_figure_variant_fill (LwFigureVariant *fv, const char *name,
                                  const LwSampledPlant *plant, const LwEvaluation *ev,
                                  LwError *err);
 void lw_figure_variant_clear (LwFigureVariant *fv);
+
+/* The simulated reference step into fv's step series (ref and so borrowed, may be NULL):
+ * with actuator limits (so->has_limits) the limited output replaces the linear step and the
+ * limits are drawn; the continuous output between samples when ref has it; the actuator
+ * signal u(kT) when show_actuator or when limited. The window, the report and `plot` draw a
+ * variant's step this way. */
+void lw_figure_variant_set_response (LwFigureVariant *fv, const LwSimResponse *ref,
+                                     const LwSimOptions *so, bool show_actuator);
 
 /* The loop in the w-plane, factored: C(w)·P(w)·((1 − wT/2)/(1 + wT/2))^N — the computation
  * delay z^−N mapped by the bilinear transform. New model or NULL. */

@@ -42,14 +42,9 @@ lwr_add_figures (LwReport *r, const LwDesign *d, RVar *rv, size_t n, GError **er
                                              % LW_PLOT_MAX_VARIANTS) + 1
                                : 0;
       /* the continuous output between samples and the actuator signal, from the simulation */
-      const LwSimResponse *s = rv[filled].ref;
-      if (s->has_continuous)
-        {
-          pv[filled].step.n_fine = s->n_fine;
-          pv[filled].step.t_fine_s = s->t_fine_s;
-          pv[filled].step.y_fine = s->y_fine;
-        }
-      pv[filled].step.u = s->u;
+      lw_figure_variant_set_response (&fv[filled], rv[filled].ref, &rv[filled].e->sim_options,
+                                      true);
+      pv[filled].step = fv[filled].v.step;
     }
   /* the design's requirement marks, as the window and `plot` draw them */
   LwPlotRequirements marks;
