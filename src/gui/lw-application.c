@@ -324,7 +324,20 @@ new_window_activated (GSimpleAction *action, GVariant *param, gpointer user_data
   gtk_window_present (GTK_WINDOW (win));
 }
 
+/* A bundled example: in the active window when it shows an untouched new design, else in a
+ * new window. */
+static void
+open_example_activated (GSimpleAction *action, GVariant *param, gpointer user_data)
+{
+  GtkWindow *active = gtk_application_get_active_window (GTK_APPLICATION (user_data));
+  LwWindow *win = LW_IS_WINDOW (active) && lw_window_is_pristine (LW_WINDOW (active))
+                    ? LW_WINDOW (active) : lw_window_new (LW_APPLICATION (user_data));
+  lw_window_show_example (win, g_variant_get_string (param, NULL));
+  gtk_window_present (GTK_WINDOW (win));
+}
+
 static const GActionEntry app_actions[] = {
+  { .name = "open-example", .activate = open_example_activated, .parameter_type = "s" },
   { .name = "quit", .activate = quit_activated },
   { .name = "about", .activate = about_activated },
   { .name = "new-window", .activate = new_window_activated },

@@ -116,6 +116,13 @@ lw_design_model_example_design (void)
 }
 
 LwDesignModel *
+lw_design_model_new_blank (void)
+{
+  /* the plant to fill; 1 ms, a common loop rate to start from (common practice, no source) */
+  return lw_design_model_new (lw_design_new ("", 0.001));
+}
+
+LwDesignModel *
 lw_design_model_new_example (void)
 {
   return lw_design_model_new (lw_design_model_example_design ());

@@ -45,6 +45,10 @@ const LwDesign *lw_design_model_get_design (LwDesignModel *self);
  * "requirements-changed" and "changed", in that order. */
 void lw_design_model_replace (LwDesignModel *self, LwDesign *design);
 
+/* A blank design: no plant yet (to be typed), period 1 ms, computation delay 1, one variant
+ * without stages, no requirements. */
+LwDesignModel *lw_design_model_new_blank (void);
+
 /* The starting design of a new window, as a document (see lw_design_model_new_example). */
 LwDesign *lw_design_model_example_design (void);
 

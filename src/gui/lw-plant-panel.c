@@ -166,7 +166,10 @@ lw_plant_panel_show_eval (LwPlantPanel *self, LwVariantEval *eval)
   g_return_if_fail (LW_IS_PLANT_PANEL (self));
   g_return_if_fail (eval != NULL);
 
-  if (eval->failure == LW_EVAL_FAILED_PLANT)
+  /* an empty plant is a design still to be begun, not an error to mark */
+  const char *plant = gtk_editable_get_text (GTK_EDITABLE (self->plant_entry));
+  gboolean empty = plant[strspn (plant, " \t")] == '\0';
+  if (eval->failure == LW_EVAL_FAILED_PLANT && !empty)
     mark_plant_error (self, eval);
   else
     clear_plant_error (self);

@@ -393,7 +393,13 @@ lw_plot_area_show_variants (LwPlotArea *self, const LwAreaVariant *vs, guint n, 
   LwVariantEval *eval = vs[active].eval;
   if (eval->ev == NULL)
     {
-      g_autofree char *msg = g_strdup_printf (_("No loop to draw: %s"), eval->error->message);
+      g_autofree char *msg
+        = eval->failure == LW_EVAL_FAILED_PLANT && eval->error_position == 0
+            && g_str_has_prefix (eval->error->message, "empty")
+            ? g_strdup (_("A new design: type the plant P(s) on the left (for example "
+                          "5/(s*(s+2))) and its sample period, or open an example from the "
+                          "menu."))
+            : g_strdup_printf (_("No loop to draw: %s"), eval->error->message);
       show_message (self, msg);
       return;
     }

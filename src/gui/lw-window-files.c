@@ -193,6 +193,37 @@ lw_window_is_pristine (LwWindow *self)
 }
 
 gboolean
+lw_window_show_example (LwWindow *self, const char *name)
+{
+  g_return_val_if_fail (LW_IS_WINDOW (self), FALSE);
+  g_autofree char *path = g_strdup_printf ("/org/loopwright/Designer/examples/%s.lwd", name);
+  g_autoptr (GError) error = NULL;
+  g_autoptr (GBytes) bytes = g_resources_lookup_data (path, G_RESOURCE_LOOKUP_FLAGS_NONE,
+                                                      &error);
+  LwDesign *d = NULL;
+  if (bytes != NULL)
+    {
+      gsize len = 0;
+      const char *data = g_bytes_get_data (bytes, &len);
+      g_autofree char *label = g_strdup_printf ("%s.lwd", name);
+      d = lw_design_load_data (data, len, label, &error);
+    }
+  if (d == NULL)
+    {
+      lw_window_show_error (self, _("Could not open the example"), error->message);
+      return FALSE;
+    }
+  set_file (self, NULL);
+  g_clear_pointer (&self->saved, lw_design_free);
+  lw_design_model_replace (self->model, d);
+  lw_history_reset (self->history);
+  self->dirty = FALSE;
+  lw_window_update_dirty (self);
+  lw_window_update_title (self);
+  return TRUE;
+}
+
+gboolean
 lw_window_restore_autosave (LwWindow *self, LwAutosaveStale *stale)
 {
   g_return_val_if_fail (LW_IS_WINDOW (self), FALSE);

@@ -597,7 +597,7 @@ start (LwWindow *self)
                                                                  : LW_PLOT_LAYOUT_GRID);
     }
 
-  g_autoptr (LwDesignModel) model = lw_design_model_new_example ();
+  g_autoptr (LwDesignModel) model = lw_design_model_new_blank ();
   set_model (self, model);
   lw_window_update_dirty (self);
   lw_window_update_title (self);

@@ -28,6 +28,10 @@ LwWindow *lw_window_new (LwApplication *app);
  * and the design on show stays as it was. Returns whether it was opened. */
 gboolean lw_window_open_file (LwWindow *self, GFile *file);
 
+/* Shows the bundled example NAME ("camera-slider", "kiln", "pump-pressure") as a new design
+ * that has no file yet. FALSE (with a dialog) when there is no such example. */
+gboolean lw_window_show_example (LwWindow *self, const char *name);
+
 /* Whether the window shows an untouched new design (no file, no edit): then opening a file
  * replaces it instead of opening another window. */
 gboolean lw_window_is_pristine (LwWindow *self);

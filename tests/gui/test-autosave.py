@@ -70,6 +70,10 @@ def inner(app, schema_dir, example, artefacts):
         procs.append(p1)
         key(w1, 'ctrl+n')
         w2 = wait_for(lambda: find_window('^Untitled design — Loopwright$'), 'the second window')
+        # a new window shows a blank design: its plant first (a design without one cannot be
+        # written, so there would be nothing to autosave)
+        key(w2, 'ctrl+l')
+        run('xdotool', 'type', '--delay', '20', '1/(s*(s+1))')
         key(w1, 'ctrl+shift+n')
         key(w2, 'ctrl+shift+n')
 

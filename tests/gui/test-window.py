@@ -1,8 +1,9 @@
 #!/usr/bin/python3
-"""The designer window in a real X server (Xvfb): start loopwright, wait for its window, take
-screenshots, check that the panels and the plots are drawn, quit with Ctrl+Q.
+"""The designer window in a real X server (Xvfb): start loopwright on a bundled example (a
+window started without a file shows a blank design, whose plots are empty), wait for its
+window, take screenshots, check that the panels and the plots are drawn, quit with Ctrl+Q.
 
-Usage: test-window.py LOOPWRIGHT SCHEMA_DIR ARTEFACT_DIR
+Usage: test-window.py LOOPWRIGHT SCHEMA_DIR EXAMPLE ARTEFACT_DIR
 Re-runs itself under `xvfb-run -a` (exit 77, skipped, when xvfb-run is missing). Screenshots
 stay in ARTEFACT_DIR (screen.png, window.png, plots.png).
 """
@@ -34,7 +35,7 @@ def outer(argv):
                 tools=('xvfb-run', 'xdotool', 'import', 'convert'))
 
 
-def inner(app, schema_dir, artefacts):
+def inner(app, schema_dir, example, artefacts):
     os.makedirs(artefacts, exist_ok=True)
     env = dict(os.environ, GTK_A11Y='none', GSK_RENDERER='cairo', GDK_DEBUG='gl-disable',
                GSETTINGS_SCHEMA_DIR=schema_dir, GSETTINGS_BACKEND='memory', LANGUAGE='C',
@@ -46,7 +47,7 @@ def inner(app, schema_dir, artefacts):
                                                  'suppressions=' + supp,
                                                  'print_suppressions=0']))
     log = open(os.path.join(artefacts, 'loopwright.log'), 'w')
-    proc = subprocess.Popen([app], env=env, stdout=log, stderr=subprocess.STDOUT)
+    proc = subprocess.Popen([app, example], env=env, stdout=log, stderr=subprocess.STDOUT)
     try:
         wid = None
         deadline = time.monotonic() + 30
@@ -114,7 +115,7 @@ def inner(app, schema_dir, artefacts):
 
 
 def main():
-    if len(sys.argv) != 4:
+    if len(sys.argv) != 5:
         print(__doc__, file=sys.stderr)
         sys.exit(2)
     if os.environ.get('LW_TEST_WINDOW_INNER') != '1':
