@@ -70,6 +70,15 @@ debug_tick (GtkWidget *widget, GdkFrameClock *clock, gpointer data)
   return G_SOURCE_REMOVE;
 }
 
+static void debug_watch_positions (void);
+
+void
+lw_number_field_watch_positions (void)
+{
+  if (debugging ())
+    debug_watch_positions ();
+}
+
 static void
 debug_watch_positions (void)
 {

@@ -24,6 +24,10 @@ G_BEGIN_DECLS
  * spin button's adjustment's [lower, upper]; whole numbers when its digits are 0. */
 void lw_number_field_setup (GtkSpinButton *spin, const char *name, GtkLabel *problem);
 
+/* LW_DEBUG_HANDLES=1: print every field's position again while it moves (the window calls
+ * this when a new evaluation is shown, as labels above the fields change); else nothing. */
+void lw_number_field_watch_positions (void);
+
 /* The reason the field's text is refused, or NULL when it shows a value. */
 const char *lw_number_field_get_problem (GtkSpinButton *spin);
 

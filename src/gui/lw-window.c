@@ -28,6 +28,7 @@
 #include "lw-design.h"
 #include "lw-report.h"
 #include "lw-figure-data.h"
+#include "lw-number-field.h"
 #include "lw-window-private.h"
 
 #define DRAG_POINTS 512
@@ -175,6 +176,8 @@ show_eval (LwWindow *self, LwVariantEval *eval)
   lw_compensator_panel_show_eval (self->compensator_panel, self->eval);
   lw_requirements_panel_show_eval (self->requirements_panel, self->eval);
   show_handles_and_plots (self);
+  if (self->debug)
+    lw_number_field_watch_positions ();   /* labels above the fields may have changed */
 
   if (self->debug && self->eval->ev != NULL)
     {
