@@ -134,6 +134,38 @@ actuator_edited (LwCompensatorPanel *self)
                               high, gtk_check_button_get_active (self->anti_windup_check));
 }
 
+/* The variant drop-down shows a long name ellipsized, so the panel keeps its width; its list
+ * shows names whole. */
+static void
+name_setup (GtkSignalListItemFactory *f, GtkListItem *item, gpointer ellipsize)
+{
+  GtkWidget *label = gtk_label_new (NULL);
+  gtk_label_set_xalign (GTK_LABEL (label), 0.0);
+  if (ellipsize != NULL)
+    {
+      gtk_label_set_ellipsize (GTK_LABEL (label), PANGO_ELLIPSIZE_END);
+      gtk_label_set_width_chars (GTK_LABEL (label), 8);
+    }
+  gtk_list_item_set_child (item, label);
+}
+
+static void
+name_bind (GtkSignalListItemFactory *f, GtkListItem *item, gpointer data)
+{
+  GtkStringObject *s = gtk_list_item_get_item (item);
+  gtk_label_set_text (GTK_LABEL (gtk_list_item_get_child (item)),
+                      s != NULL ? gtk_string_object_get_string (s) : "");
+}
+
+static GtkListItemFactory *
+name_factory (gboolean ellipsize)
+{
+  GtkListItemFactory *f = gtk_signal_list_item_factory_new ();
+  g_signal_connect (f, "setup", G_CALLBACK (name_setup), ellipsize ? f : NULL);
+  g_signal_connect (f, "bind", G_CALLBACK (name_bind), NULL);
+  return f;
+}
+
 /* The actuator row under the variant: limits on the controller output and anti-windup. */
 static void
 build_actuator_row (LwCompensatorPanel *self)
@@ -173,12 +205,16 @@ build_actuator_row (LwCompensatorPanel *self)
   gtk_widget_set_tooltip_text (GTK_WIDGET (self->anti_windup_check),
                                _("Hold the controller's integrating states while the output is "
                                  "at a limit (clamping)"));
+  /* two lines, so the panel keeps its width: the switches, then the limits */
+  GtkWidget *limits = gtk_box_new (GTK_ORIENTATION_HORIZONTAL, 6);
+  gtk_widget_set_hexpand (GTK_WIDGET (self->actuator_check), TRUE);
   gtk_box_append (GTK_BOX (row), GTK_WIDGET (self->actuator_check));
-  gtk_box_append (GTK_BOX (row), GTK_WIDGET (self->actuator_low));
-  gtk_box_append (GTK_BOX (row), gtk_label_new ("…"));
-  gtk_box_append (GTK_BOX (row), GTK_WIDGET (self->actuator_high));
   gtk_box_append (GTK_BOX (row), GTK_WIDGET (self->anti_windup_check));
+  gtk_box_append (GTK_BOX (limits), GTK_WIDGET (self->actuator_low));
+  gtk_box_append (GTK_BOX (limits), gtk_label_new ("…"));
+  gtk_box_append (GTK_BOX (limits), GTK_WIDGET (self->actuator_high));
   gtk_box_append (self->actuator_box, row);
+  gtk_box_append (self->actuator_box, limits);
   gtk_box_append (self->actuator_box, GTK_WIDGET (self->actuator_problem));
   g_signal_connect_swapped (self->actuator_check, "toggled", G_CALLBACK (actuator_edited), self);
   g_signal_connect_swapped (self->anti_windup_check, "toggled", G_CALLBACK (actuator_edited),
@@ -474,6 +510,10 @@ lw_compensator_panel_init (LwCompensatorPanel *self)
   gtk_adjustment_set_upper (pa, LW_PERIOD_MAX_S);
   lw_number_field_setup (self->period_spin, _("Own sample period"), self->name_problem);
   build_actuator_row (self);
+  g_autoptr (GtkListItemFactory) shown = name_factory (TRUE);
+  g_autoptr (GtkListItemFactory) listed = name_factory (FALSE);
+  gtk_drop_down_set_factory (self->variant_dropdown, shown);
+  gtk_drop_down_set_list_factory (self->variant_dropdown, listed);
   self->compared = g_ptr_array_new_with_free_func (g_free);
   g_signal_connect (self->variant_dropdown, "notify::selected", G_CALLBACK (variant_selected),
                     self);

@@ -196,13 +196,18 @@ rebuild_requirements (LwRequirementsPanel *self)
     {
       const LwRequirement *r = lw_design_model_get_requirement (self->model, i);
       int row = (int) i + 1;
-      gtk_grid_attach (self->req_grid, cell (req_title (r->kind), 0, NULL), 0, row, 1, 1);
-      GtkWidget *targets = gtk_box_new (GTK_ORIENTATION_HORIZONTAL, 4);
+      GtkWidget *title = cell (req_title (r->kind), 0, NULL);
+      gtk_label_set_wrap (GTK_LABEL (title), TRUE);
+      gtk_grid_attach (self->req_grid, title, 0, row, 1, 1);
+      /* a range's two ends one above the other: the column stays one field wide, so the
+       * panel keeps its width */
+      GtkWidget *targets = gtk_box_new (r->kind == LW_REQ_CROSSOVER_RANGE
+                                        ? GTK_ORIENTATION_VERTICAL : GTK_ORIENTATION_HORIZONTAL,
+                                        2);
       gtk_box_append (GTK_BOX (targets),
                       target_spin (self, i, r->limit, FALSE, problem, req_title (r->kind)));
       if (r->kind == LW_REQ_CROSSOVER_RANGE)
         {
-          gtk_box_append (GTK_BOX (targets), cell ("…", 0, NULL));
           gtk_box_append (GTK_BOX (targets),
                           target_spin (self, i, r->limit_hi, TRUE, problem, req_title (r->kind)));
         }
@@ -211,6 +216,9 @@ rebuild_requirements (LwRequirementsPanel *self)
                        row, 1, 1);
       GtkWidget *achieved = cell ("—", 1, "numeric");
       GtkWidget *result = cell ("—", 0, NULL);
+      /* texts that change with every evaluation wrap instead of widening the panel */
+      gtk_label_set_wrap (GTK_LABEL (achieved), TRUE);
+      gtk_label_set_wrap (GTK_LABEL (result), TRUE);
       gtk_grid_attach (self->req_grid, achieved, 3, row, 1, 1);
       gtk_grid_attach (self->req_grid, result, 4, row, 1, 1);
       g_ptr_array_add (self->achieved_labels, achieved);

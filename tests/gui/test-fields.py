@@ -3,7 +3,7 @@
 bad input of the issue is typed into its field and Tab pressed: "-0.01" as the sample period
 (it used to become 1e-9 s), "abc" as the gain (it used to become 0), "0,5" as the lead's zero
 in the C locale (it used to become 1e-6), "1e999" as the dead time, "1.5" as the computation
-delay, and "−3" with a typographic minus as the notch depth. Each must be refused at its field
+delay, and "−3" with a typographic minus as the lead's pole. Each must be refused at its field
 with the reason (the window's debug line LW-FIELD-REFUSED names the field and the reason), and
 the saved document must then be byte for byte the one before: nothing was converted into the
 design. Then a small number, 0.00025 as the lead's zero, is taken exactly (it used to show as
@@ -49,7 +49,7 @@ BAD = [
     ('Zero', '0,5', 'decimal point'),
     ('Dead-time', '1e999', 'too large'),
     ('Computation-delay', '1.5', 'not a whole number'),
-    ('Depth', '\u22123', 'typographic minus'),
+    ('Pole', '\u22123', 'typographic minus'),
 ]
 
 
