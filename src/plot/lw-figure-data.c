@@ -386,10 +386,19 @@ lw_figure_requirements_add (LwPlotRequirements *r, double period_s, const LwRequ
           double pm_deg = r->min_phase_margin_deg;
           bool gm = r->has_min_gain_margin;
           double gm_db = r->min_gain_margin_db;
+          bool ms = r->has_max_sensitivity;
+          double ms_bound = r->max_sensitivity;
           lw_figure_requirements (r, period_s, true, sqrt (req->limit * req->limit_hi), pm, pm_deg);
           r->has_min_gain_margin = gm;
           r->min_gain_margin_db = gm_db;
+          r->has_max_sensitivity = ms;
+          r->max_sensitivity = ms_bound;
         }
+      break;
+    case LW_REQ_MAX_SENSITIVITY:
+      if (!r->has_max_sensitivity || req->limit < r->max_sensitivity)
+        r->max_sensitivity = req->limit;
+      r->has_max_sensitivity = true;
       break;
     default:
       break;

@@ -48,6 +48,10 @@ static const ViewRow views[LW_PLOT_N_VIEWS] = {
       "closed-loop poles and the loop's poles and zeros in z",
       LW_PLOT_NEEDS_POLES, 0 },
     lwp_build_poles },
+  { { LW_PLOT_VIEW_SENSITIVITY, "sensitivity", N_("Sensitivity |S| and |T|"),
+      "|S| = 1/|1+L| and |T| = |L/(1+L)| in dB over omega up to pi/T, the peak Ms marked",
+      LW_PLOT_NEEDS_Z | LW_PLOT_NEEDS_NYQUIST_RATE, FREQ },
+    lwp_build_sensitivity },
 };
 
 const LwPlotViewInfo *

@@ -26,6 +26,7 @@ typedef enum {
   LW_PLOT_VIEW_NYQUIST,       /* Im L over Re L, unit circle, critical point −1 */
   LW_PLOT_VIEW_NICHOLS,       /* |L| (dB) over ∠L (°) */
   LW_PLOT_VIEW_POLES,         /* pole-zero map in z with the unit circle */
+  LW_PLOT_VIEW_SENSITIVITY,   /* |S| and |T| in dB over ω up to π/T */
   LW_PLOT_N_VIEWS
 } LwPlotView;
 

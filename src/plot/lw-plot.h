@@ -135,6 +135,8 @@ typedef struct {
   double min_phase_margin_deg;
   bool has_min_gain_margin;
   double min_gain_margin_db;
+  bool has_max_sensitivity;        /* the strictest bound on the peak of |S| (ratio) */
+  double max_sensitivity;
 } LwPlotRequirements;
 
 typedef struct LwPlot LwPlot;

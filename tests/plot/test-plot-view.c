@@ -110,7 +110,7 @@ same_pixels (cairo_surface_t *a, cairo_surface_t *b)
 
 /* The names `loopwright-cli plot --view` accepts (docs/plot.md), in the order listed. */
 static const char *const cli_names[] = { "bode-z", "bode-w", "step", "nyquist", "nichols",
-                                         "poles" };
+                                         "poles", "sensitivity" };
 
 static void
 test_rows (void **state)
@@ -145,7 +145,7 @@ test_rows (void **state)
   assert_int_equal (lw_plot_view_from_name (NULL), -1);
   assert_false (lw_plot_view_has (LW_PLOT_N_VIEWS, 0));
   g_autofree char *joined = lw_plot_view_names_joined (" or ");
-  assert_string_equal (joined, "bode-z, bode-w, step, nyquist, nichols or poles");
+  assert_string_equal (joined, "bode-z, bode-w, step, nyquist, nichols, poles or sensitivity");
 }
 
 /* Each view draws from what its row needs, and nothing less: given only those series it draws
