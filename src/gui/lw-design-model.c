@@ -196,6 +196,20 @@ lw_design_model_get_text_field (LwDesignModel *self, LwDesignTextField field)
 }
 
 void
+lw_design_model_set_views (LwDesignModel *self, const char *const *names)
+{
+  g_return_if_fail (LW_IS_DESIGN_MODEL (self));
+  gboolean empty = names == NULL || names[0] == NULL;
+  if ((empty && self->doc->views == NULL)
+      || (!empty && self->doc->views != NULL
+          && g_strv_equal ((const char *const *) self->doc->views, names)))
+    return;
+  g_strfreev (self->doc->views);
+  self->doc->views = empty ? NULL : g_strdupv ((char **) names);
+  emit_changed (self);
+}
+
+void
 lw_design_model_set_text_field (LwDesignModel *self, LwDesignTextField field, const char *text)
 {
   g_return_if_fail (LW_IS_DESIGN_MODEL (self));

@@ -68,6 +68,8 @@ typedef enum
 /* The document's title, author and notes (the report shows them). The title is never NULL;
  * an empty author or notes is left out of the document. */
 const char *lw_design_model_get_text_field (LwDesignModel *self, LwDesignTextField field);
+/* The views the design shows, in pane order (its <view shows="…">; NULL: none given). */
+void lw_design_model_set_views (LwDesignModel *self, const char *const *names);
 void lw_design_model_set_text_field (LwDesignModel *self, LwDesignTextField field,
                                      const char *text);
 

@@ -74,6 +74,16 @@ LwPlotPane *lw_plot_area_get_split_pane (LwPlotArea *self, LwPlotView view);
  * pane of a view follows the one the user zoomed or panned). */
 void lw_plot_area_reset_view (LwPlotArea *self);
 
+/* The panes of the grid, in their places (row by row), whatever view each shows. */
+guint lw_plot_area_get_n_panes (LwPlotArea *self);
+LwPlotPane *lw_plot_area_get_nth_pane (LwPlotArea *self, guint i);
+/* Each pane's view by name, in pane order (g_strfreev). */
+char **lw_plot_area_get_views (LwPlotArea *self);
+/* Shows the named views in the panes in order (unknown names skipped; NULL or empty: the
+ * default arrangement). TRUE when a pane changed. The user picks a pane's view from its
+ * context menu (secondary button), which emits "views-changed". */
+gboolean lw_plot_area_set_views (LwPlotArea *self, const char *const *names);
+
 /* The pane of a view shown by the area (NULL when the area does not show it). */
 LwPlotPane *lw_plot_area_get_pane (LwPlotArea *self, LwPlotView view);
 

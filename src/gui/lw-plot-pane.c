@@ -448,6 +448,20 @@ lw_plot_pane_new (LwPlotView view)
   return self;
 }
 
+void
+lw_plot_pane_set_view (LwPlotPane *self, LwPlotView view)
+{
+  g_return_if_fail (LW_IS_PLOT_PANE (self));
+  g_return_if_fail (lw_plot_view_info (view) != NULL);
+  if (self->view == view)
+    return;
+  /* another view: nothing of the old figure (its zoom, handles) carries over */
+  lw_plot_pane_set_handles (self, NULL, 0, -1, -1);
+  lw_plot_pane_set_plot (self, NULL, "");
+  self->has_view = FALSE;
+  self->view = view;
+}
+
 LwPlotView
 lw_plot_pane_get_view (LwPlotPane *self)
 {

@@ -41,6 +41,8 @@ typedef struct
 } LwPaneHandle;
 
 LwPlotPane *lw_plot_pane_new (LwPlotView view);
+/* Shows another view: the figure, its zoom and its handles are dropped until the next one. */
+void lw_plot_pane_set_view (LwPlotPane *self, LwPlotView view);
 LwPlotView lw_plot_pane_get_view (LwPlotPane *self);
 
 /* Takes the figure (may be NULL: then `message` is shown instead, may be NULL). */

@@ -263,11 +263,8 @@ pane_key_pressed (GtkEventControllerKey *c, guint keyval, guint keycode, GdkModi
 }
 
 static void
-connect_pane (LwWindow *self, LwPlotView view)
+connect_pane (LwWindow *self, LwPlotPane *pane)
 {
-  LwPlotPane *pane = lw_plot_area_get_pane (self->plot_area, view);
-  if (pane == NULL)
-    return;
   g_signal_connect (pane, "handle-drag-begin", G_CALLBACK (pane_drag_begin), self);
   g_signal_connect (pane, "handle-drag-update", G_CALLBACK (pane_drag_update), self);
   g_signal_connect (pane, "handle-drag-end", G_CALLBACK (pane_drag_end), self);
@@ -288,10 +285,9 @@ lw_window_class_init_drag (GtkWidgetClass *widget_class)
 void
 lw_window_init_drag (LwWindow *self)
 {
-  /* every pane that carries the stages' handles */
-  for (int v = 0; v < LW_PLOT_N_VIEWS; v++)
-    if (lw_plot_view_has ((LwPlotView) v, LW_PLOT_VIEW_HANDLES | LW_PLOT_VIEW_IN_WINDOW))
-      connect_pane (self, (LwPlotView) v);
+  /* every pane of the grid: whichever shows a view with handles carries them */
+  for (guint i = 0; i < lw_plot_area_get_n_panes (self->plot_area); i++)
+    connect_pane (self, lw_plot_area_get_nth_pane (self->plot_area, i));
 
   GtkEventController *k = gtk_event_controller_key_new ();
   gtk_event_controller_set_propagation_phase (k, GTK_PHASE_CAPTURE);

@@ -156,6 +156,8 @@ show_handles_and_plots (LwWindow *self)
       vs[0].style = 0;
     }
 
+  /* the document's arrangement of the panes (its <view shows="…">) */
+  lw_plot_area_set_views (self->plot_area, (const char *const *) d->views);
   lw_plot_area_show_variants (self->plot_area, vs, n, active, &req, v->stages,
                               (guint) v->n_stages, self->gain_pin_nu, self->sel_stage,
                               self->sel_corner, self->dragging);
@@ -668,6 +670,18 @@ lw_window_class_init (LwWindowClass *klass)
   lw_window_class_init_actions (widget_class);   /* the keyboard shortcuts of them all */
 }
 
+/* A pane given another view from its menu: the design's arrangement, one undo step. */
+static void
+pane_views_changed (LwWindow *self)
+{
+  if (self->dragging)
+    return;
+  g_auto (GStrv) names = lw_plot_area_get_views (self->plot_area);
+  lw_history_commit (self->history);
+  lw_design_model_set_views (self->model, (const char *const *) names);
+  lw_history_commit (self->history);
+}
+
 static void
 lw_window_init (LwWindow *self)
 {
@@ -685,6 +699,8 @@ lw_window_init (LwWindow *self)
   g_signal_group_connect_swapped (self->model_signals, "replaced", G_CALLBACK (model_replaced),
                                   self);
 
+  g_signal_connect_object (self->plot_area, "views-changed", G_CALLBACK (pane_views_changed),
+                           self, G_CONNECT_SWAPPED);
   lw_window_init_theme (self);
   lw_window_init_drag (self);
   lw_window_init_actions (self);

@@ -1,0 +1,124 @@
+#!/usr/bin/python3
+"""Any view in any pane (Xvfb): on a copy of the camera slider, the secondary button on the
+Nyquist pane opens its menu of views; the last item (Up from the first wraps to it) is the
+sensitivity view, which takes the pane (the window's debug line LW-ARRANGE shows it at the
+pane's place and Nyquist nowhere); the saved document lists it in <view shows="…">, in pane
+order; one Ctrl+Z brings the Nyquist pane back and the document as it was. A design whose
+<view shows> starts with the pole-zero map opens with it in the first pane.
+
+Usage: test-pane-views.py LOOPWRIGHT SCHEMA_DIR EXAMPLE ARTEFACT_DIR
+Re-runs itself under `xvfb-run -a` (exit 77, skipped, when xvfb-run or xdotool is missing).
+The window's output goes to ARTEFACT_DIR/pane-views.log; a screenshot to
+ARTEFACT_DIR/pane-views.png.
+"""
+import os
+import re
+import shutil
+import subprocess
+import sys
+import tempfile
+import time
+
+sys.path.insert(0, os.path.dirname(os.path.abspath(__file__)))
+from lwgui import (debug_lines, fail, key, kill_window, outer, quit_window, run,  # noqa: E402
+                   saved_after, settle, start_window, wait_for, window_env)
+
+
+def arrangement(log_path):
+    lines = list(debug_lines(log_path, 'LW-ARRANGE'))
+    if not lines:
+        return None
+    return dict((v.split(':')[0], tuple(v.split(':')[1:])) for v in lines[-1]['views'].split(','))
+
+
+def last_panel(log_path, view):
+    found = None
+    for f in debug_lines(log_path, 'LW-PANEL'):
+        if f.get('view') == view:
+            found = f
+    return found
+
+
+def inner(app, schema_dir, example, artefacts):
+    os.makedirs(artefacts, exist_ok=True)
+    tmp = tempfile.mkdtemp(prefix='lw-test-panes-')
+    try:
+        design = os.path.join(tmp, 'panes.lwd')
+        shutil.copyfile(example, design)
+        log_path = os.path.join(artefacts, 'pane-views.log')
+        with open(log_path, 'w') as log_file:
+            proc, wid = start_window(app, design, window_env(schema_dir, tmp), log_file)
+            try:
+                wait_for(lambda: last_panel(log_path, 'nyquist'), 'the Nyquist pane')
+                settle(log_path)
+                doc0 = saved_after(wid, design)
+                where = arrangement(log_path).get('nyquist')
+                if where is None:
+                    fail('no Nyquist pane at first: %s' % arrangement(log_path))
+                p = last_panel(log_path, 'nyquist')
+                geo = run('xdotool', 'getwindowgeometry', wid)
+                m = re.search(r'Position: (-?\d+),(-?\d+)', geo)
+                x = int(m.group(1)) + round(float(p['left']) + float(p['width']) / 2)
+                y = int(m.group(2)) + round(float(p['top']) + float(p['height']) / 2)
+                run('xdotool', 'mousemove', '--sync', str(x), str(y))
+                run('xdotool', 'click', '3')
+                time.sleep(0.8)
+                run('xdotool', 'key', '--clearmodifiers', 'Up')
+                time.sleep(0.2)
+                run('xdotool', 'key', '--clearmodifiers', 'Return')
+                got = wait_for(lambda: (arrangement(log_path) or {}).get('sensitivity'),
+                               'the sensitivity view in a pane')
+                if got != where or 'nyquist' in arrangement(log_path):
+                    fail('after the menu: %s (the Nyquist pane was at %s)'
+                         % (arrangement(log_path), where))
+                settle(log_path)
+                subprocess.run(['import', '-window', 'root',
+                                os.path.join(artefacts, 'pane-views.png')], check=False)
+                doc1 = saved_after(wid, design)
+                m = re.search(rb'shows="([^"]*)"', doc1)
+                if m is None or m.group(1).split()[-1] != b'sensitivity' \
+                        or b'nyquist' in m.group(1):
+                    fail('the saved arrangement: %s' % (m.group(0) if m else doc1))
+                key(wid, 'ctrl+z')
+                wait_for(lambda: (arrangement(log_path) or {}).get('nyquist') == where,
+                         'the Nyquist pane back after one undo')
+                if saved_after(wid, design) != doc0:
+                    fail('one undo does not give the document as it was')
+                quit_window(proc, wid)
+            finally:
+                kill_window(proc)
+
+        # a document that asks for the pole-zero map first
+        text = open(example, encoding='utf-8').read()
+        text = re.sub(r'shows="[^"]*"', 'shows="poles step"', text)
+        with open(design, 'w', encoding='utf-8') as f:
+            f.write(text)
+        with open(log_path, 'a') as log_file:
+            log_file.write('---- second window\n')
+            log_file.flush()
+            proc, wid = start_window(app, design, window_env(schema_dir, tmp), log_file)
+            try:
+                got = wait_for(lambda: (arrangement(log_path) or {}).get('poles'),
+                               'the pole-zero map from the document')
+                if got != ('0', '0'):
+                    fail('the pole-zero map is at %s, not in the first pane' % (got,))
+                quit_window(proc, wid)
+            finally:
+                kill_window(proc)
+    finally:
+        shutil.rmtree(tmp, ignore_errors=True)
+    print('ok: a pane shows the view picked from its menu, saved in the document, one undo '
+          'step; a document\'s arrangement opens as saved')
+
+
+def main():
+    if len(sys.argv) != 5:
+        print(__doc__, file=sys.stderr)
+        sys.exit(2)
+    if os.environ.get('LW_TEST_PANES_INNER') != '1':
+        outer(__file__, 'LW_TEST_PANES_INNER', sys.argv[1:])
+    inner(*sys.argv[1:])
+
+
+if __name__ == '__main__':
+    main()
