@@ -68,6 +68,13 @@ file_response (GtkNativeDialog *native, int response, gpointer user_data)
               if (!lw_plot_export (plot, format, path, gtk_spin_button_get_value (e->width),
                                    gtk_spin_button_get_value (e->height), &eo, &error))
                 show_failure (e->parent, path, error->message);
+              else
+                {
+                  g_autofree char *shown = g_filename_display_name (path);
+                  g_autofree char *msg = g_strdup_printf (_("Figure written to %s"), shown);
+                  /* the window says so, if it listens (window.notify) */
+                  gtk_widget_activate_action (GTK_WIDGET (e->parent), "window.notify", "s", msg);
+                }
               lw_plot_free (plot);
               g_autoptr (GFile) parent = g_file_get_parent (file);
               if (e->settings != NULL && parent != NULL && g_file_peek_path (parent) != NULL)

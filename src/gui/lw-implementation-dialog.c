@@ -132,6 +132,9 @@ write_to (LwImplementationDialog *self, const char *dir)
   set_problem (self, NULL);
   g_autofree char *msg = g_strdup_printf (_("Wrote %s and %s."), hpath, cpath);
   gtk_label_set_text (self->status, msg);
+  GtkWindow *parent = gtk_window_get_transient_for (GTK_WINDOW (self));
+  if (parent != NULL)
+    gtk_widget_activate_action (GTK_WIDGET (parent), "window.notify", "s", msg);
   if (self->settings != NULL)
     g_settings_set_string (self->settings, "last-folder", dir);
   if (debugging ())

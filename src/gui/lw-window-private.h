@@ -41,6 +41,9 @@ struct _LwWindow
   LwRequirementsPanel *requirements_panel;
   LwPlotArea *plot_area;
   LwCompareTable *compare_table;
+  GtkRevealer *notice;          /* what was just written, for a few seconds */
+  GtkLabel *notice_label;
+  guint notice_timeout;
   GMenu *recent_menu;
 
   /* variants shown beside the active one (names; the active one is always shown) */
@@ -91,6 +94,9 @@ struct _LwWindow
 };
 
 /* lw-window.c */
+/* Shows text over the foot of the plots for a few seconds (a file written, where). With
+ * LW_DEBUG_HANDLES=1 also prints "LW-NOTICE TEXT". Also the action window.notify("s"). */
+void lw_window_notify (LwWindow *self, const char *text);
 GSettings *lw_window_get_settings (LwWindow *self);
 /* The evaluation (lw-window.c): shows the evaluation on show and the references' on the
  * plots and in the metrics table; evaluates now; evaluates on the next frame. */

@@ -478,8 +478,13 @@ write_report (LwWindow *self, const char *path)
   size_t len = 0;
   if (r == NULL || !lw_report_write_file (r, path, &len, &error))
     show_error (self, primary, error->message);
-  else if (self->debug)
-    g_print ("LW-REPORT path=%s bytes=%zu variants=%zu\n", path, len, n);
+  else
+    {
+      g_autofree char *msg = g_strdup_printf (_("Report written to %s"), shown);
+      lw_window_notify (self, msg);
+      if (self->debug)
+        g_print ("LW-REPORT path=%s bytes=%zu variants=%zu\n", path, len, n);
+    }
 }
 
 static void
@@ -508,6 +513,36 @@ report_response (GtkNativeDialog *native, int response, gpointer user_data)
     }
   g_object_unref (native);
   g_object_unref (self);
+}
+
+static gboolean
+notice_expired (gpointer data)
+{
+  LwWindow *self = data;
+  self->notice_timeout = 0;
+  gtk_revealer_set_reveal_child (self->notice, FALSE);
+  return G_SOURCE_REMOVE;
+}
+
+void
+lw_window_notify (LwWindow *self, const char *text)
+{
+  g_return_if_fail (LW_IS_WINDOW (self));
+  gtk_label_set_text (self->notice_label, text);
+  gtk_revealer_set_reveal_child (self->notice, TRUE);
+  g_clear_handle_id (&self->notice_timeout, g_source_remove);
+  self->notice_timeout = g_timeout_add_seconds (6, notice_expired, self);
+  if (self->debug)
+    {
+      printf ("LW-NOTICE %s\n", text);
+      fflush (stdout);
+    }
+}
+
+static void
+notify_activated (GtkWidget *widget, const char *action, GVariant *param)
+{
+  lw_window_notify (LW_WINDOW (widget), g_variant_get_string (param, NULL));
 }
 
 /* Test hook: with LW_TEST_REPORT_PATH set, Export Report writes there at once, without the
@@ -616,6 +651,7 @@ lw_window_dispose (GObject *object)
   LwWindow *self = LW_WINDOW (object);
 
   lw_window_finish_theme (self);
+  g_clear_handle_id (&self->notice_timeout, g_source_remove);
   g_clear_object (&self->model_signals);
   if (self->autosave != NULL)
     lw_autosave_remove (self->autosave, self->autosave_slot);
@@ -658,6 +694,9 @@ lw_window_class_init (LwWindowClass *klass)
   gtk_widget_class_bind_template_child (widget_class, LwWindow, requirements_panel);
   gtk_widget_class_bind_template_child (widget_class, LwWindow, plot_area);
   gtk_widget_class_bind_template_child (widget_class, LwWindow, compare_table);
+  gtk_widget_class_bind_template_child (widget_class, LwWindow, notice);
+  gtk_widget_class_bind_template_child (widget_class, LwWindow, notice_label);
+  gtk_widget_class_install_action (widget_class, "window.notify", "s", notify_activated);
   gtk_widget_class_bind_template_child (widget_class, LwWindow, recent_menu);
 
   gtk_widget_class_install_action (widget_class, "window.export-report", NULL,

@@ -46,6 +46,10 @@ def window_report(app, schema_dir, design, out, compare_all, log_path, tmp):
             key(wid, 'ctrl+shift+e')
             wait_for(lambda: log_has(log_path, 'LW-REPORT', path=out, variants=n),
                      'the report to be written')
+            # the window says where it wrote (the notice over the plots)
+            with open(log_path, encoding='utf-8', errors='replace') as f:
+                if ('LW-NOTICE Report written to ' + out) not in f.read():
+                    fail('no notice of where the report was written')
             quit_window(proc, wid)
         finally:
             kill_window(proc)
