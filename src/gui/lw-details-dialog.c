@@ -6,6 +6,7 @@
 #include <glib/gi18n.h>
 
 #include "lw-details-dialog.h"
+#include "lw-gui-util.h"
 
 struct _LwDetailsDialog
 {
@@ -112,15 +113,6 @@ lw_details_dialog_init (LwDetailsDialog *self)
   (void) self;
 }
 
-static GtkWidget *
-row_label (const char *text, GtkWidget *target)
-{
-  GtkWidget *l = gtk_label_new_with_mnemonic (text);
-  gtk_label_set_xalign (GTK_LABEL (l), 0.0);
-  gtk_label_set_yalign (GTK_LABEL (l), 0.0);
-  gtk_label_set_mnemonic_widget (GTK_LABEL (l), target);
-  return l;
-}
 
 LwDetailsDialog *
 lw_details_dialog_new (GtkWindow *parent, LwDesignModel *model)
@@ -131,13 +123,7 @@ lw_details_dialog_new (GtkWindow *parent, LwDesignModel *model)
                                         "title", _("Design Details"), NULL);
   self->model = g_object_ref (model);
 
-  GtkWidget *grid = gtk_grid_new ();
-  gtk_grid_set_row_spacing (GTK_GRID (grid), 8);
-  gtk_grid_set_column_spacing (GTK_GRID (grid), 12);
-  gtk_widget_set_margin_start (grid, 18);
-  gtk_widget_set_margin_end (grid, 18);
-  gtk_widget_set_margin_top (grid, 18);
-  gtk_widget_set_margin_bottom (grid, 18);
+  GtkWidget *grid = lw_gui_dialog_grid ();
 
   self->title = GTK_ENTRY (gtk_entry_new ());
   gtk_entry_set_placeholder_text (self->title, _("What the loop controls"));
@@ -150,12 +136,12 @@ lw_details_dialog_new (GtkWindow *parent, LwDesignModel *model)
   gtk_widget_set_vexpand (scroll, TRUE);
   gtk_widget_add_css_class (scroll, "frame");
 
-  gtk_grid_attach (GTK_GRID (grid), row_label (_("_Title"), GTK_WIDGET (self->title)), 0, 0, 1, 1);
+  gtk_grid_attach (GTK_GRID (grid), lw_gui_row_label (0.0f, 0.0f, _("_Title"), GTK_WIDGET (self->title)), 0, 0, 1, 1);
   gtk_grid_attach (GTK_GRID (grid), GTK_WIDGET (self->title), 1, 0, 1, 1);
-  gtk_grid_attach (GTK_GRID (grid), row_label (_("_Author"), GTK_WIDGET (self->author)), 0, 1, 1,
+  gtk_grid_attach (GTK_GRID (grid), lw_gui_row_label (0.0f, 0.0f, _("_Author"), GTK_WIDGET (self->author)), 0, 1, 1,
                    1);
   gtk_grid_attach (GTK_GRID (grid), GTK_WIDGET (self->author), 1, 1, 1, 1);
-  gtk_grid_attach (GTK_GRID (grid), row_label (_("_Notes"), GTK_WIDGET (self->notes)), 0, 2, 1, 1);
+  gtk_grid_attach (GTK_GRID (grid), lw_gui_row_label (0.0f, 0.0f, _("_Notes"), GTK_WIDGET (self->notes)), 0, 2, 1, 1);
   gtk_grid_attach (GTK_GRID (grid), scroll, 1, 2, 1, 1);
 
   self->problem = GTK_LABEL (gtk_label_new (NULL));

@@ -75,3 +75,26 @@ lw_gui_requirement_title (const LwDesignRequirement *r)
   g_autofree char *target = lw_requirement_target_text (&r->req);
   return g_strdup_printf ("%s %s", requirement_kind_words (r->req.kind), target);
 }
+
+GtkWidget *
+lw_gui_dialog_grid (void)
+{
+  GtkWidget *grid = gtk_grid_new ();
+  gtk_grid_set_row_spacing (GTK_GRID (grid), 8);
+  gtk_grid_set_column_spacing (GTK_GRID (grid), 12);
+  gtk_widget_set_margin_start (grid, 18);
+  gtk_widget_set_margin_end (grid, 18);
+  gtk_widget_set_margin_top (grid, 18);
+  gtk_widget_set_margin_bottom (grid, 18);
+  return grid;
+}
+
+GtkWidget *
+lw_gui_row_label (float xalign, float yalign, const char *mnemonic, GtkWidget *target)
+{
+  GtkWidget *l = gtk_label_new_with_mnemonic (mnemonic);
+  gtk_label_set_xalign (GTK_LABEL (l), xalign);
+  gtk_label_set_yalign (GTK_LABEL (l), yalign);
+  gtk_label_set_mnemonic_widget (GTK_LABEL (l), target);
+  return l;
+}

@@ -27,4 +27,11 @@ void lw_gui_spin_wheel_off (GtkSpinButton *spin);
  * ("Phase margin at least 45 deg"). g_free it. */
 char *lw_gui_requirement_title (const LwDesignRequirement *r);
 
+/* The grid of a small dialog: 8 px between rows, 12 between columns, 18 around. */
+GtkWidget *lw_gui_dialog_grid (void);
+
+/* A row's label with its mnemonic for target, aligned at xalign and yalign (0: the top, for
+ * a target taller than one line). */
+GtkWidget *lw_gui_row_label (float xalign, float yalign, const char *mnemonic, GtkWidget *target);
+
 G_END_DECLS

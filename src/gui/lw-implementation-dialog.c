@@ -5,6 +5,7 @@
 
 #include <glib/gi18n.h>
 
+#include "lw-gui-util.h"
 #include "lw-implementation-dialog.h"
 #include "lw-implementation.h"
 
@@ -211,14 +212,6 @@ lw_implementation_dialog_init (LwImplementationDialog *self)
   (void) self;
 }
 
-static GtkWidget *
-row_label (const char *mnemonic, GtkWidget *target)
-{
-  GtkWidget *l = gtk_label_new_with_mnemonic (mnemonic);
-  gtk_label_set_mnemonic_widget (GTK_LABEL (l), target);
-  gtk_label_set_xalign (GTK_LABEL (l), 1.0);
-  return l;
-}
 
 LwImplementationDialog *
 lw_implementation_dialog_new (GtkWindow *parent, LwVariantEval *eval, const char *variant_name,
@@ -236,13 +229,7 @@ lw_implementation_dialog_new (GtkWindow *parent, LwVariantEval *eval, const char
   self->eval = lw_variant_eval_ref (eval);
   self->settings = settings != NULL ? g_object_ref (settings) : NULL;
 
-  GtkWidget *grid = gtk_grid_new ();
-  gtk_grid_set_row_spacing (GTK_GRID (grid), 8);
-  gtk_grid_set_column_spacing (GTK_GRID (grid), 12);
-  gtk_widget_set_margin_start (grid, 18);
-  gtk_widget_set_margin_end (grid, 18);
-  gtk_widget_set_margin_top (grid, 18);
-  gtk_widget_set_margin_bottom (grid, 18);
+  GtkWidget *grid = lw_gui_dialog_grid ();
 
   const char *forms[] = { N_("Difference equation (direct form I)"),
                           N_("Second-order sections (cascade)"), NULL };
@@ -257,11 +244,11 @@ lw_implementation_dialog_new (GtkWindow *parent, LwVariantEval *eval, const char
   gtk_editable_set_text (GTK_EDITABLE (self->prefix), LW_EMIT_DEFAULT_PREFIX);
   gtk_editable_set_width_chars (GTK_EDITABLE (self->prefix), 16);
 
-  gtk_grid_attach (GTK_GRID (grid), row_label (_("F_orm"), GTK_WIDGET (self->form)), 0, 0, 1, 1);
+  gtk_grid_attach (GTK_GRID (grid), lw_gui_row_label (1.0f, 0.5f, _("F_orm"), GTK_WIDGET (self->form)), 0, 0, 1, 1);
   gtk_grid_attach (GTK_GRID (grid), GTK_WIDGET (self->form), 1, 0, 2, 1);
   gtk_grid_attach (GTK_GRID (grid), GTK_WIDGET (self->fixed), 1, 1, 1, 1);
   gtk_grid_attach (GTK_GRID (grid), GTK_WIDGET (self->qformat), 2, 1, 1, 1);
-  gtk_grid_attach (GTK_GRID (grid), row_label (_("Name _prefix"), GTK_WIDGET (self->prefix)), 0,
+  gtk_grid_attach (GTK_GRID (grid), lw_gui_row_label (1.0f, 0.5f, _("Name _prefix"), GTK_WIDGET (self->prefix)), 0,
                    2, 1, 1);
   gtk_grid_attach (GTK_GRID (grid), GTK_WIDGET (self->prefix), 1, 2, 2, 1);
 
