@@ -9,7 +9,7 @@
  *                        (LwAutosave) and restoring it
  *   lw-window-variants.c the variant actions and which variants are compared
  *   lw-window-drag.c     drag handles on the Bode views and their keyboard moves
- *   lw-window-export.c   Export Figure
+ *   lw-window-export.c   Export Figure, Export Report, the notice of what was written
  *   lw-window-helpers.c  the formula helpers (lw-helper-dialog) applied as one undo step
  *   lw-window-theme.c    the plots' colours following the dark style
  *   lw-window-testing.c  the drag benchmark and the test hook of Export Figure
