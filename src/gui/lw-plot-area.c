@@ -8,56 +8,16 @@
 
 #include <glib/gi18n.h>
 
-#include "lw-figure-data.h"
-#include "lw-plot-area.h"
-#include "lw-plot-pane.h"
+#include "lw-plot-area-private.h"
 
-/* The panes, from the view table (lw-plot-view.h) in its order: the views shown in the window
- * at first (LW_PLOT_VIEW_IN_WINDOW; each pane can be given any view, self->views), and those
- * of the split view (LW_PLOT_VIEW_IN_SPLIT), each shown twice: the active variant left, the
- * other right. Filled once, by class_init. */
-static LwPlotView area_views[LW_PLOT_N_VIEWS];
-static guint n_area_views;
-static LwPlotView split_views[LW_PLOT_N_VIEWS];
-static guint n_split_views;
-
-/* A variant's figure data, kept while the same evaluation is shown: a reference variant's
- * curves are filled once, not again each frame of a drag. */
-typedef struct
-{
-  LwVariantEval *eval;             /* a reference */
-  LwFigureVariant fv;
-  char *name;
-  gboolean used;
-} FigureEntry;
-
-struct _LwPlotArea
-{
-  GtkWidget parent_instance;
-
-  GtkGrid *grid;
-  GtkDrawingArea *key;                /* one key to the variants over every view */
-  char *key_names[LW_PLOT_MAX_VARIANTS];
-  unsigned key_styles[LW_PLOT_MAX_VARIANTS];
-  guint key_n, key_active;
-  LwPlotTheme theme;
-  LwPlotPane *panes[LW_PLOT_N_VIEWS];
-  LwPlotView views[LW_PLOT_N_VIEWS];  /* each pane's view, distinct (n_area_views of them) */
-  LwPlotPane *split_panes[LW_PLOT_N_VIEWS];   /* the right column of the split view */
-  LwPlotLayout layout;
-  gboolean split;
-  GPtrArray *figures;                 /* of FigureEntry *, each on its own (stable address) */
-  unsigned long next_data_key;        /* the last LwPlotVariant.data_key given to an entry */
-  gboolean debug;                     /* LW_DEBUG_HANDLES=1: print the series shown */
-  gboolean linking;
-};
+LwPlotView lwpa_area_views[LW_PLOT_N_VIEWS];
+guint lwpa_n_area_views;
+LwPlotView lwpa_split_views[LW_PLOT_N_VIEWS];
+guint lwpa_n_split_views;
+guint lwpa_signals[LWPA_N_SIGNALS];
 
 G_DEFINE_FINAL_TYPE (LwPlotArea, lw_plot_area, GTK_TYPE_WIDGET)
 
-enum { SIGNAL_VIEWS_CHANGED, N_SIGNALS };
-static guint signals[N_SIGNALS];
-
-static void arrange (LwPlotArea *self);
 
 static const char *
 view_title (LwPlotView v)
@@ -75,20 +35,20 @@ detach (LwPlotArea *self, GtkWidget *p)
 static int
 split_row (LwPlotView v)
 {
-  for (guint k = 0; k < n_split_views; k++)
-    if (split_views[k] == v)
+  for (guint k = 0; k < lwpa_n_split_views; k++)
+    if (lwpa_split_views[k] == v)
       return (int) k;
   return -1;
 }
 
-static void
-arrange (LwPlotArea *self)
+void
+lwpa_arrange (LwPlotArea *self)
 {
-  for (guint i = 0; i < n_area_views; i++)
+  for (guint i = 0; i < lwpa_n_area_views; i++)
     g_object_ref (self->panes[i]), detach (self, GTK_WIDGET (self->panes[i]));
-  for (guint k = 0; k < n_split_views; k++)
+  for (guint k = 0; k < lwpa_n_split_views; k++)
     g_object_ref (self->split_panes[k]), detach (self, GTK_WIDGET (self->split_panes[k]));
-  for (guint i = 0; i < n_area_views; i++)
+  for (guint i = 0; i < lwpa_n_area_views; i++)
     {
       GtkWidget *p = GTK_WIDGET (self->panes[i]);
       if (self->split)
@@ -105,7 +65,7 @@ arrange (LwPlotArea *self)
         }
       g_object_unref (p);
     }
-  for (guint k = 0; k < n_split_views; k++)
+  for (guint k = 0; k < lwpa_n_split_views; k++)
     {
       if (self->split)
         gtk_grid_attach (self->grid, GTK_WIDGET (self->split_panes[k]), 1, (int) k, 1, 1);
@@ -136,7 +96,7 @@ lw_plot_area_set_split (LwPlotArea *self, gboolean split)
   if (self->split == split)
     return;
   self->split = split;
-  arrange (self);
+  lwpa_arrange (self);
 }
 
 gboolean
@@ -153,7 +113,7 @@ lw_plot_area_set_layout (LwPlotArea *self, LwPlotLayout layout)
   if (self->layout == layout)
     return;
   self->layout = layout;
-  arrange (self);
+  lwpa_arrange (self);
 }
 
 LwPlotLayout
@@ -199,7 +159,7 @@ set_handles (LwPlotArea *self, LwVariantEval *eval, const LwFigureVariant *fv,
                 ? lw_warp_omega_to_nu (eval->ev->margins.gain_crossover_rad_s, period_s)
                 : (fv->v.w.n > 0 ? fv->v.w.freq_rad_s[fv->v.w.n / 2] : 1.0);
 
-  for (guint k = 0; k < n_area_views; k++)
+  for (guint k = 0; k < lwpa_n_area_views; k++)
     {
       LwPlotView view = self->views[k];
       if (!lw_plot_view_has (view, LW_PLOT_VIEW_HANDLES))
@@ -240,12 +200,12 @@ set_handles (LwPlotArea *self, LwVariantEval *eval, const LwFigureVariant *fv,
 static void
 show_message (LwPlotArea *self, const char *msg)
 {
-  for (guint i = 0; i < n_area_views; i++)
+  for (guint i = 0; i < lwpa_n_area_views; i++)
     {
       lw_plot_pane_set_plot (self->panes[i], NULL, msg);
       lw_plot_pane_set_handles (self->panes[i], NULL, 0, -1, -1);
     }
-  for (guint k = 0; k < n_split_views; k++)
+  for (guint k = 0; k < lwpa_n_split_views; k++)
     lw_plot_pane_set_plot (self->split_panes[k], NULL, msg);
 }
 
@@ -454,7 +414,7 @@ lw_plot_area_show_variants (LwPlotArea *self, const LwAreaVariant *vs, guint n, 
   else
     set_key (self, vars, nv, moving);
 
-  for (guint i = 0; i < n_area_views; i++)
+  for (guint i = 0; i < lwpa_n_area_views; i++)
     {
       g_autoptr (GError) error = NULL;
       LwPlotPane *pane = self->panes[i];
@@ -477,19 +437,19 @@ lw_plot_area_show_variants (LwPlotArea *self, const LwAreaVariant *vs, guint n, 
           fflush (stdout);
         }
     }
-  for (guint k = 0; k < n_split_views && self->split; k++)
+  for (guint k = 0; k < lwpa_n_split_views && self->split; k++)
     {
       g_autoptr (GError) error = NULL;
-      LwPlotPane *left = lw_plot_area_get_pane (self, split_views[k]);
+      LwPlotPane *left = lw_plot_area_get_pane (self, lwpa_split_views[k]);
       LwPlot *plot = NULL;
       if (other != NULL)
         /* the same axes as the left column, so the two can be read side by side */
         {
           g_autofree char *title = other->name != NULL
-                                   ? g_strdup_printf ("%s \u2014 %s", view_title (split_views[k]),
+                                   ? g_strdup_printf ("%s \u2014 %s", view_title (lwpa_split_views[k]),
                                                       other->name)
                                    : NULL;
-          plot = build_view (split_views[k], other, 1, nyq, req, lw_plot_pane_get_plot (left),
+          plot = build_view (lwpa_split_views[k], other, 1, nyq, req, lw_plot_pane_get_plot (left),
                              title, &error);
         }
       /* a reference: its whole figure is static */
@@ -534,11 +494,11 @@ pane_view_changed (LwPlotPane *pane, double lo, double hi, LwPlotArea *self)
     return;
   self->linking = TRUE;
   LwPlotView v = lw_plot_pane_get_view (pane);
-  for (guint i = 0; i < n_area_views; i++)
+  for (guint i = 0; i < lwpa_n_area_views; i++)
     if (self->panes[i] != pane && self->views[i] == v)
       lw_plot_pane_set_x_view (self->panes[i], lo, hi);
-  for (guint k = 0; k < n_split_views; k++)
-    if (self->split_panes[k] != pane && split_views[k] == v)
+  for (guint k = 0; k < lwpa_n_split_views; k++)
+    if (self->split_panes[k] != pane && lwpa_split_views[k] == v)
       lw_plot_pane_set_x_view (self->split_panes[k], lo, hi);
   self->linking = FALSE;
 }
@@ -547,9 +507,9 @@ void
 lw_plot_area_reset_view (LwPlotArea *self)
 {
   g_return_if_fail (LW_IS_PLOT_AREA (self));
-  for (guint i = 0; i < n_area_views; i++)
+  for (guint i = 0; i < lwpa_n_area_views; i++)
     lw_plot_pane_reset_view (self->panes[i]);
-  for (guint k = 0; k < n_split_views; k++)
+  for (guint k = 0; k < lwpa_n_split_views; k++)
     lw_plot_pane_reset_view (self->split_panes[k]);
 }
 
@@ -565,7 +525,7 @@ LwPlotPane *
 lw_plot_area_get_pane (LwPlotArea *self, LwPlotView view)
 {
   g_return_val_if_fail (LW_IS_PLOT_AREA (self), NULL);
-  for (guint i = 0; i < n_area_views; i++)
+  for (guint i = 0; i < lwpa_n_area_views; i++)
     if (self->views[i] == view)
       return self->panes[i];
   return NULL;
@@ -623,9 +583,9 @@ void
 lw_plot_area_set_theme (LwPlotArea *self, LwPlotTheme theme)
 {
   g_return_if_fail (LW_IS_PLOT_AREA (self));
-  for (guint i = 0; i < n_area_views; i++)
+  for (guint i = 0; i < lwpa_n_area_views; i++)
     lw_plot_pane_set_theme (self->panes[i], theme);
-  for (guint k = 0; k < n_split_views; k++)
+  for (guint k = 0; k < lwpa_n_split_views; k++)
     lw_plot_pane_set_theme (self->split_panes[k], theme);
   self->theme = theme;
   key_measure (self, gtk_widget_get_width (GTK_WIDGET (self->key)));
@@ -650,176 +610,12 @@ lw_plot_area_dispose (GObject *object)
   for (guint i = 0; i < LW_PLOT_MAX_VARIANTS; i++)
     g_clear_pointer (&self->key_names[i], g_free);
   /* the area's own references (see init), after the grid let go of its children */
-  for (guint k = 0; k < n_split_views; k++)
+  for (guint k = 0; k < lwpa_n_split_views; k++)
     g_clear_object (&self->split_panes[k]);
-  for (guint i = 0; i < n_area_views; i++)
+  for (guint i = 0; i < lwpa_n_area_views; i++)
     g_clear_object (&self->panes[i]);
   g_clear_pointer (&self->figures, g_ptr_array_unref);
   G_OBJECT_CLASS (lw_plot_area_parent_class)->dispose (object);
-}
-
-/* ---- which view each pane shows ------------------------------------------------------- */
-
-static gboolean
-unparent_later (gpointer data)
-{
-  GtkWidget *popover = data;
-  if (gtk_widget_get_parent (popover) != NULL)
-    gtk_widget_unparent (popover);
-  g_object_unref (popover);
-  return G_SOURCE_REMOVE;
-}
-
-static void
-menu_closed (GtkPopover *popover)
-{
-  g_idle_add (unparent_later, g_object_ref (popover));
-}
-
-/* A menu of every view on the pane, to show one of them there. */
-static void
-pane_menu_open (LwPlotPane *pane, double x)
-{
-  guint index = GPOINTER_TO_UINT (g_object_get_data (G_OBJECT (pane), "lw-pane-index"));
-  g_autoptr (GMenu) menu = g_menu_new ();
-  g_autoptr (GMenu) section = g_menu_new ();
-  for (int v = 0; v < LW_PLOT_N_VIEWS; v++)
-    {
-      g_autoptr (GMenuItem) item = g_menu_item_new (_(lw_plot_view_info ((LwPlotView) v)->title),
-                                                    NULL);
-      g_menu_item_set_action_and_target (item, "area.pane-view", "(us)", index,
-                                         lw_plot_view_name ((LwPlotView) v));
-      g_menu_append_item (section, item);
-    }
-  g_menu_append_section (menu, NULL, G_MENU_MODEL (section));
-  GtkWidget *popover = gtk_popover_menu_new_from_model (G_MENU_MODEL (menu));
-  gtk_widget_set_parent (popover, GTK_WIDGET (pane));
-  /* from the top of the pane, where the whole list has room */
-  gtk_popover_set_pointing_to (GTK_POPOVER (popover), &(GdkRectangle) { (int) x, 8, 1, 1 });
-  gtk_popover_set_has_arrow (GTK_POPOVER (popover), FALSE);
-  g_signal_connect (popover, "closed", G_CALLBACK (menu_closed), NULL);
-  gtk_popover_popup (GTK_POPOVER (popover));
-}
-
-/* The secondary button on a pane opens its menu of views */
-static void
-pane_menu_pressed (GtkGestureClick *gesture, int n_press, double x, double y, gpointer data)
-{
-  (void) y;
-  gtk_gesture_set_state (GTK_GESTURE (gesture), GTK_EVENT_SEQUENCE_CLAIMED);
-  pane_menu_open (LW_PLOT_PANE (data), x);
-}
-
-/* … and so do the Menu key and Shift+F10 while the pane has the focus */
-static gboolean
-pane_menu_key (GtkEventControllerKey *k, guint keyval, guint keycode, GdkModifierType state,
-               gpointer data)
-{
-  if (keyval == GDK_KEY_Menu || (keyval == GDK_KEY_F10 && (state & GDK_SHIFT_MASK)))
-    {
-      GtkWidget *pane = GTK_WIDGET (data);
-      pane_menu_open (LW_PLOT_PANE (pane), gtk_widget_get_width (pane) / 2.0);
-      return TRUE;
-    }
-  return FALSE;
-}
-
-/* Shows view in pane index; a pane that showed it already takes the pane's old view, so
- * every view is in one pane at most. */
-static gboolean
-set_pane_view (LwPlotArea *self, guint index, LwPlotView view)
-{
-  if (index >= n_area_views || lw_plot_view_info (view) == NULL || self->views[index] == view)
-    return FALSE;
-  LwPlotView old = self->views[index];
-  for (guint i = 0; i < n_area_views; i++)
-    if (i != index && self->views[i] == view)
-      {
-        self->views[i] = old;
-        lw_plot_pane_set_view (self->panes[i], old);
-      }
-  self->views[index] = view;
-  lw_plot_pane_set_view (self->panes[index], view);
-  arrange (self);
-  return TRUE;
-}
-
-static void
-pane_view_activated (GtkWidget *widget, const char *action, GVariant *param)
-{
-  LwPlotArea *self = LW_PLOT_AREA (widget);
-  guint index = 0;
-  const char *name = NULL;
-  g_variant_get (param, "(u&s)", &index, &name);
-  int view = lw_plot_view_from_name (name);
-  if (view >= 0 && set_pane_view (self, index, (LwPlotView) view))
-    g_signal_emit (self, signals[SIGNAL_VIEWS_CHANGED], 0);
-}
-
-guint
-lw_plot_area_get_n_panes (LwPlotArea *self)
-{
-  g_return_val_if_fail (LW_IS_PLOT_AREA (self), 0);
-  return n_area_views;
-}
-
-LwPlotPane *
-lw_plot_area_get_nth_pane (LwPlotArea *self, guint i)
-{
-  g_return_val_if_fail (LW_IS_PLOT_AREA (self), NULL);
-  return i < n_area_views ? self->panes[i] : NULL;
-}
-
-char **
-lw_plot_area_get_views (LwPlotArea *self)
-{
-  g_return_val_if_fail (LW_IS_PLOT_AREA (self), NULL);
-  char **names = g_new0 (char *, n_area_views + 1);
-  for (guint i = 0; i < n_area_views; i++)
-    names[i] = g_strdup (lw_plot_view_name (self->views[i]));
-  return names;
-}
-
-gboolean
-lw_plot_area_set_views (LwPlotArea *self, const char *const *names)
-{
-  g_return_val_if_fail (LW_IS_PLOT_AREA (self), FALSE);
-  /* the panes in order take the known names in order (each once); the panes left take the
-   * default views not named, in the default order */
-  LwPlotView target[LW_PLOT_N_VIEWS];
-  gboolean used[LW_PLOT_N_VIEWS] = { FALSE };
-  guint k = 0;
-  for (guint i = 0; names != NULL && names[i] != NULL && k < n_area_views; i++)
-    {
-      int view = lw_plot_view_from_name (names[i]);
-      if (view < 0 || used[view])
-        continue;   /* a view of another version: kept in the document, not shown */
-      target[k++] = (LwPlotView) view;
-      used[view] = TRUE;
-    }
-  for (guint i = 0; i < n_area_views && k < n_area_views; i++)
-    if (!used[area_views[i]])
-      {
-        target[k++] = area_views[i];
-        used[area_views[i]] = TRUE;
-      }
-  for (LwPlotView v = 0; v < LW_PLOT_N_VIEWS && k < n_area_views; v++)
-    if (!used[v])
-      {
-        target[k++] = v;
-        used[v] = TRUE;
-      }
-  gboolean changed = FALSE;
-  for (guint i = 0; i < n_area_views; i++)
-    if (self->views[i] != target[i])
-      {
-        self->views[i] = target[i];
-        lw_plot_pane_set_view (self->panes[i], target[i]);
-        changed = TRUE;
-      }
-  if (changed)
-    arrange (self);
-  return changed;
 }
 
 static void
@@ -829,13 +625,13 @@ lw_plot_area_class_init (LwPlotAreaClass *klass)
   for (LwPlotView v = 0; v < LW_PLOT_N_VIEWS; v++)
     {
       if (lw_plot_view_has (v, LW_PLOT_VIEW_IN_WINDOW))
-        area_views[n_area_views++] = v;
+        lwpa_area_views[lwpa_n_area_views++] = v;
       if (lw_plot_view_has (v, LW_PLOT_VIEW_IN_WINDOW | LW_PLOT_VIEW_IN_SPLIT))
-        split_views[n_split_views++] = v;
+        lwpa_split_views[lwpa_n_split_views++] = v;
     }
   gtk_widget_class_install_action (GTK_WIDGET_CLASS (klass), "area.pane-view", "(us)",
-                                   pane_view_activated);
-  signals[SIGNAL_VIEWS_CHANGED] = g_signal_new ("views-changed", G_TYPE_FROM_CLASS (klass),
+                                   lwpa_pane_view_activated);
+  lwpa_signals[LWPA_SIGNAL_VIEWS_CHANGED] = g_signal_new ("views-changed", G_TYPE_FROM_CLASS (klass),
                                                 G_SIGNAL_RUN_LAST, 0, NULL, NULL, NULL,
                                                 G_TYPE_NONE, 0);
   gtk_widget_class_set_layout_manager_type (GTK_WIDGET_CLASS (klass), GTK_TYPE_BOX_LAYOUT);
@@ -863,26 +659,26 @@ lw_plot_area_init (LwPlotArea *self)
   self->figures = g_ptr_array_new_with_free_func (figure_entry_free);
   self->debug = g_strcmp0 (g_getenv ("LW_DEBUG_HANDLES"), "1") == 0;
   /* every pane is held by the area too, so the ones off the grid (split view) live on */
-  for (guint i = 0; i < n_area_views; i++)
+  for (guint i = 0; i < lwpa_n_area_views; i++)
     {
-      self->views[i] = area_views[i];
-      self->panes[i] = g_object_ref_sink (lw_plot_pane_new (area_views[i]));
+      self->views[i] = lwpa_area_views[i];
+      self->panes[i] = g_object_ref_sink (lw_plot_pane_new (lwpa_area_views[i]));
       g_object_set_data (G_OBJECT (self->panes[i]), "lw-pane-index", GUINT_TO_POINTER (i));
       GtkGesture *menu_click = gtk_gesture_click_new ();
       gtk_gesture_single_set_button (GTK_GESTURE_SINGLE (menu_click), GDK_BUTTON_SECONDARY);
-      g_signal_connect (menu_click, "pressed", G_CALLBACK (pane_menu_pressed), self->panes[i]);
+      g_signal_connect (menu_click, "pressed", G_CALLBACK (lwpa_pane_menu_pressed), self->panes[i]);
       gtk_widget_add_controller (GTK_WIDGET (self->panes[i]), GTK_EVENT_CONTROLLER (menu_click));
       GtkEventController *menu_key = gtk_event_controller_key_new ();
-      g_signal_connect (menu_key, "key-pressed", G_CALLBACK (pane_menu_key), self->panes[i]);
+      g_signal_connect (menu_key, "key-pressed", G_CALLBACK (lwpa_pane_menu_key), self->panes[i]);
       gtk_widget_add_controller (GTK_WIDGET (self->panes[i]), menu_key);
       g_signal_connect (self->panes[i], "x-view-changed", G_CALLBACK (pane_view_changed), self);
     }
-  for (guint k = 0; k < n_split_views; k++)
+  for (guint k = 0; k < lwpa_n_split_views; k++)
     {
-      self->split_panes[k] = g_object_ref_sink (lw_plot_pane_new (split_views[k]));
+      self->split_panes[k] = g_object_ref_sink (lw_plot_pane_new (lwpa_split_views[k]));
       g_signal_connect (self->split_panes[k], "x-view-changed", G_CALLBACK (pane_view_changed),
                         self);
     }
   self->layout = LW_PLOT_LAYOUT_GRID;
-  arrange (self);
+  lwpa_arrange (self);
 }

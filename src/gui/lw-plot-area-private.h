@@ -1,0 +1,62 @@
+/* lw-plot-area-private.h — what the files of the plot area share (lw-plot-area.c, the grid
+ * and its figures; lw-plot-area-views.c, which view each pane shows); not used elsewhere.
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ */
+#pragma once
+
+#include "lw-figure-data.h"
+#include "lw-plot-area.h"
+#include "lw-plot-pane.h"
+
+/* The panes, from the view table (lw-plot-view.h) in its order: the views shown in the window
+ * at first (LW_PLOT_VIEW_IN_WINDOW; each pane can be given any view, self->views), and those
+ * of the split view (LW_PLOT_VIEW_IN_SPLIT), each shown twice: the active variant left, the
+ * other right. Filled once, by class_init. */
+extern LwPlotView lwpa_area_views[LW_PLOT_N_VIEWS];
+extern guint lwpa_n_area_views;
+extern LwPlotView lwpa_split_views[LW_PLOT_N_VIEWS];
+extern guint lwpa_n_split_views;
+
+/* A variant's figure data, kept while the same evaluation is shown: a reference variant's
+ * curves are filled once, not again each frame of a drag. */
+typedef struct
+{
+  LwVariantEval *eval;             /* a reference */
+  LwFigureVariant fv;
+  char *name;
+  gboolean used;
+} FigureEntry;
+
+struct _LwPlotArea
+{
+  GtkWidget parent_instance;
+
+  GtkGrid *grid;
+  GtkDrawingArea *key;                /* one key to the variants over every view */
+  char *key_names[LW_PLOT_MAX_VARIANTS];
+  unsigned key_styles[LW_PLOT_MAX_VARIANTS];
+  guint key_n, key_active;
+  LwPlotTheme theme;
+  LwPlotPane *panes[LW_PLOT_N_VIEWS];
+  LwPlotView views[LW_PLOT_N_VIEWS];  /* each pane's view, distinct (n_area_views of them) */
+  LwPlotPane *split_panes[LW_PLOT_N_VIEWS];   /* the right column of the split view */
+  LwPlotLayout layout;
+  gboolean split;
+  GPtrArray *figures;                 /* of FigureEntry *, each on its own (stable address) */
+  unsigned long next_data_key;        /* the last LwPlotVariant.data_key given to an entry */
+  gboolean debug;                     /* LW_DEBUG_HANDLES=1: print the series shown */
+  gboolean linking;
+};
+
+enum { LWPA_SIGNAL_VIEWS_CHANGED, LWPA_N_SIGNALS };
+extern guint lwpa_signals[LWPA_N_SIGNALS];
+
+/* Puts the panes on the grid for the layout and the split view (lw-plot-area.c). */
+void lwpa_arrange (LwPlotArea *self);
+
+/* lw-plot-area-views.c: the pane menu's handlers and action, for init and class_init */
+void lwpa_pane_menu_pressed (GtkGestureClick *gesture, int n_press, double x, double y,
+                             gpointer data);
+gboolean lwpa_pane_menu_key (GtkEventControllerKey *k, guint keyval, guint keycode,
+                             GdkModifierType state, gpointer data);
+void lwpa_pane_view_activated (GtkWidget *widget, const char *action, GVariant *param);

@@ -1,0 +1,173 @@
+/* lw-plot-area-views.c — which view each pane of the plot area shows: the pane's menu of
+ * every view (secondary button, Menu key, Shift+F10), one view in one pane at most, and the
+ * arrangement by name (the document's <view shows>).
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ */
+#include "config.h"
+
+#include <glib/gi18n.h>
+
+#include "lw-plot-area-private.h"
+
+static gboolean
+unparent_later (gpointer data)
+{
+  GtkWidget *popover = data;
+  if (gtk_widget_get_parent (popover) != NULL)
+    gtk_widget_unparent (popover);
+  g_object_unref (popover);
+  return G_SOURCE_REMOVE;
+}
+
+static void
+menu_closed (GtkPopover *popover)
+{
+  g_idle_add (unparent_later, g_object_ref (popover));
+}
+
+/* A menu of every view on the pane, to show one of them there. */
+static void
+pane_menu_open (LwPlotPane *pane, double x)
+{
+  guint index = GPOINTER_TO_UINT (g_object_get_data (G_OBJECT (pane), "lw-pane-index"));
+  g_autoptr (GMenu) menu = g_menu_new ();
+  g_autoptr (GMenu) section = g_menu_new ();
+  for (int v = 0; v < LW_PLOT_N_VIEWS; v++)
+    {
+      g_autoptr (GMenuItem) item = g_menu_item_new (_(lw_plot_view_info ((LwPlotView) v)->title),
+                                                    NULL);
+      g_menu_item_set_action_and_target (item, "area.pane-view", "(us)", index,
+                                         lw_plot_view_name ((LwPlotView) v));
+      g_menu_append_item (section, item);
+    }
+  g_menu_append_section (menu, NULL, G_MENU_MODEL (section));
+  GtkWidget *popover = gtk_popover_menu_new_from_model (G_MENU_MODEL (menu));
+  gtk_widget_set_parent (popover, GTK_WIDGET (pane));
+  /* from the top of the pane, where the whole list has room */
+  gtk_popover_set_pointing_to (GTK_POPOVER (popover), &(GdkRectangle) { (int) x, 8, 1, 1 });
+  gtk_popover_set_has_arrow (GTK_POPOVER (popover), FALSE);
+  g_signal_connect (popover, "closed", G_CALLBACK (menu_closed), NULL);
+  gtk_popover_popup (GTK_POPOVER (popover));
+}
+
+/* The secondary button on a pane opens its menu of views */
+void
+lwpa_pane_menu_pressed (GtkGestureClick *gesture, int n_press, double x, double y, gpointer data)
+{
+  (void) y;
+  gtk_gesture_set_state (GTK_GESTURE (gesture), GTK_EVENT_SEQUENCE_CLAIMED);
+  pane_menu_open (LW_PLOT_PANE (data), x);
+}
+
+/* … and so do the Menu key and Shift+F10 while the pane has the focus */
+gboolean
+lwpa_pane_menu_key (GtkEventControllerKey *k, guint keyval, guint keycode, GdkModifierType state,
+               gpointer data)
+{
+  if (keyval == GDK_KEY_Menu || (keyval == GDK_KEY_F10 && (state & GDK_SHIFT_MASK)))
+    {
+      GtkWidget *pane = GTK_WIDGET (data);
+      pane_menu_open (LW_PLOT_PANE (pane), gtk_widget_get_width (pane) / 2.0);
+      return TRUE;
+    }
+  return FALSE;
+}
+
+/* Shows view in pane index; a pane that showed it already takes the pane's old view, so
+ * every view is in one pane at most. */
+static gboolean
+set_pane_view (LwPlotArea *self, guint index, LwPlotView view)
+{
+  if (index >= lwpa_n_area_views || lw_plot_view_info (view) == NULL || self->views[index] == view)
+    return FALSE;
+  LwPlotView old = self->views[index];
+  for (guint i = 0; i < lwpa_n_area_views; i++)
+    if (i != index && self->views[i] == view)
+      {
+        self->views[i] = old;
+        lw_plot_pane_set_view (self->panes[i], old);
+      }
+  self->views[index] = view;
+  lw_plot_pane_set_view (self->panes[index], view);
+  lwpa_arrange (self);
+  return TRUE;
+}
+
+void
+lwpa_pane_view_activated (GtkWidget *widget, const char *action, GVariant *param)
+{
+  LwPlotArea *self = LW_PLOT_AREA (widget);
+  guint index = 0;
+  const char *name = NULL;
+  g_variant_get (param, "(u&s)", &index, &name);
+  int view = lw_plot_view_from_name (name);
+  if (view >= 0 && set_pane_view (self, index, (LwPlotView) view))
+    g_signal_emit (self, lwpa_signals[LWPA_SIGNAL_VIEWS_CHANGED], 0);
+}
+
+guint
+lw_plot_area_get_n_panes (LwPlotArea *self)
+{
+  g_return_val_if_fail (LW_IS_PLOT_AREA (self), 0);
+  return lwpa_n_area_views;
+}
+
+LwPlotPane *
+lw_plot_area_get_nth_pane (LwPlotArea *self, guint i)
+{
+  g_return_val_if_fail (LW_IS_PLOT_AREA (self), NULL);
+  return i < lwpa_n_area_views ? self->panes[i] : NULL;
+}
+
+char **
+lw_plot_area_get_views (LwPlotArea *self)
+{
+  g_return_val_if_fail (LW_IS_PLOT_AREA (self), NULL);
+  char **names = g_new0 (char *, lwpa_n_area_views + 1);
+  for (guint i = 0; i < lwpa_n_area_views; i++)
+    names[i] = g_strdup (lw_plot_view_name (self->views[i]));
+  return names;
+}
+
+gboolean
+lw_plot_area_set_views (LwPlotArea *self, const char *const *names)
+{
+  g_return_val_if_fail (LW_IS_PLOT_AREA (self), FALSE);
+  /* the panes in order take the known names in order (each once); the panes left take the
+   * default views not named, in the default order */
+  LwPlotView target[LW_PLOT_N_VIEWS];
+  gboolean used[LW_PLOT_N_VIEWS] = { FALSE };
+  guint k = 0;
+  for (guint i = 0; names != NULL && names[i] != NULL && k < lwpa_n_area_views; i++)
+    {
+      int view = lw_plot_view_from_name (names[i]);
+      if (view < 0 || used[view])
+        continue;   /* a view of another version: kept in the document, not shown */
+      target[k++] = (LwPlotView) view;
+      used[view] = TRUE;
+    }
+  for (guint i = 0; i < lwpa_n_area_views && k < lwpa_n_area_views; i++)
+    if (!used[lwpa_area_views[i]])
+      {
+        target[k++] = lwpa_area_views[i];
+        used[lwpa_area_views[i]] = TRUE;
+      }
+  for (LwPlotView v = 0; v < LW_PLOT_N_VIEWS && k < lwpa_n_area_views; v++)
+    if (!used[v])
+      {
+        target[k++] = v;
+        used[v] = TRUE;
+      }
+  gboolean changed = FALSE;
+  for (guint i = 0; i < lwpa_n_area_views; i++)
+    if (self->views[i] != target[i])
+      {
+        self->views[i] = target[i];
+        lw_plot_pane_set_view (self->panes[i], target[i]);
+        changed = TRUE;
+      }
+  if (changed)
+    lwpa_arrange (self);
+  return changed;
+}
+
