@@ -243,8 +243,12 @@ plot_write (const PlotSpec *s, const PlotVariantSource *src, size_t n)
         }
       /* a limited actuator: the limited step and u(kT) with its limits */
       if (src[filled].eval != NULL)
-        lw_figure_variant_set_response (&fv[filled], src[filled].eval->sim_ref,
-                                        &src[filled].eval->sim_options, false);
+        {
+          lw_figure_variant_set_response (&fv[filled], src[filled].eval->sim_ref,
+                                          &src[filled].eval->sim_options, false);
+          lw_figure_variant_set_disturbances (&fv[filled], src[filled].eval->sim_in,
+                                              src[filled].eval->sim_out);
+        }
       pv[filled] = fv[filled].v;
       pv[filled].style = n > 1 ? src[filled].style : 0;   /* one variant: the first colour */
     }
@@ -352,6 +356,7 @@ plot_run_document (const PlotArgs *a)
   lw_engine_options_init (&eo);
   eo.n_points = opts.n_points;
   eo.n_steps = a->steps != NULL ? opts.n_steps : 0;   /* else the engine chooses */
+  eo.disturbances = (lw_plot_view_info (spec.view)->needs & LW_PLOT_NEEDS_DISTURBANCE) != 0;
   LwVariantEval *e[LW_PLOT_MAX_VARIANTS] = { NULL };
   PlotVariantSource src[LW_PLOT_MAX_VARIANTS] = { { 0 } };
   size_t built = 0;
@@ -401,6 +406,7 @@ plot_run (void *data)
   lw_engine_options_init (&eo);
   eo.n_points = opts.n_points;
   eo.n_steps = a->steps != NULL ? opts.n_steps : 0;   /* else the engine chooses */
+  eo.disturbances = (lw_plot_view_info (spec.view)->needs & LW_PLOT_NEEDS_DISTURBANCE) != 0;
   status = lw_cli_loop_evaluate ("plot", &lp, &eo, FALSE, &e);
   if (status != LW_EXIT_OK)
     goto out;

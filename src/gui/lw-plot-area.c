@@ -244,6 +244,7 @@ figure_for (LwPlotArea *self, LwVariantEval *eval, const char *name, LwError *er
     }
   /* the step as simulated (with the variant's actuator limits) and u(kT) under it */
   lw_figure_variant_set_response (&e->fv, eval->sim_ref, &eval->sim_options, true);
+  lw_figure_variant_set_disturbances (&e->fv, eval->sim_in, eval->sim_out);
   e->fv.v.name = e->name;
   /* the entry's arrays do not change while it lives: a key of its own lets a figure rebuilt
    * during a drag copy this variant's mapped curves from the one before */
@@ -560,6 +561,7 @@ lw_plot_area_build_plot (const LwAreaVariant *vs, guint n, const LwPlotRequireme
           goto out;
         }
       lw_figure_variant_set_response (&fv[filled], eval->sim_ref, &eval->sim_options, true);
+      lw_figure_variant_set_disturbances (&fv[filled], eval->sim_in, eval->sim_out);
       pv[filled] = fv[filled].v;
       pv[filled].style = n > 1 ? vs[filled].style : 0;   /* one variant: the first colour */
     }

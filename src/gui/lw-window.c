@@ -257,6 +257,7 @@ eval_job_run (EvalJob *job)
       LwEngineOptions opts;
       lw_engine_options_init (&opts);
       opts.n_points = k == 0 ? job->n_points : 0;
+      opts.disturbances = TRUE;   /* for the disturbance view, wherever a pane shows it */
       job->result[k] = lw_engine_evaluate_variant (job->doc, job->index[k], &opts, job->cache);
     }
 }

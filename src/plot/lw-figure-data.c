@@ -430,3 +430,15 @@ lw_figure_variant_set_response (LwFigureVariant *fv, const LwSimResponse *ref,
   if ((show_actuator || limited) && ref->n == st->n)
     st->u = ref->u;
 }
+
+void
+lw_figure_variant_set_disturbances (LwFigureVariant *fv, const LwSimResponse *in,
+                                    const LwSimResponse *out)
+{
+  if (fv == NULL)
+    return;
+  if (in != NULL && in->n >= 2)
+    fv->v.dist_in = (LwPlotStepData) { .period_s = in->period_s, .n = in->n, .y = in->y };
+  if (out != NULL && out->n >= 2)
+    fv->v.dist_out = (LwPlotStepData) { .period_s = out->period_s, .n = out->n, .y = out->y };
+}

@@ -55,6 +55,11 @@ void lw_figure_variant_clear (LwFigureVariant *fv);
 void lw_figure_variant_set_response (LwFigureVariant *fv, const LwSimResponse *ref,
                                      const LwSimOptions *so, bool show_actuator);
 
+/* The simulated disturbance steps (at the plant input, at its output; each may be NULL,
+ * borrowed) into fv's disturbance series. */
+void lw_figure_variant_set_disturbances (LwFigureVariant *fv, const LwSimResponse *in,
+                                         const LwSimResponse *out);
+
 /* The loop in the w-plane, factored: C(w)·P(w)·((1 − wT/2)/(1 + wT/2))^N — the computation
  * delay z^−N mapped by the bilinear transform. New model or NULL. */
 LwModel *lw_figure_loop_w (const LwEvaluation *ev);

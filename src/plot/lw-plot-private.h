@@ -210,6 +210,7 @@ void lwp_build_nichols (LwPlot *pl, const LwPlotInput *in);
 void lwp_build_step (LwPlot *pl, const LwPlotInput *in);
 void lwp_build_poles (LwPlot *pl, const LwPlotInput *in);
 void lwp_build_sensitivity (LwPlot *pl, const LwPlotInput *in);
+void lwp_build_disturbance (LwPlot *pl, const LwPlotInput *in);
 
 /* ---- drawing (lw-plot-draw.c) ---------------------------------------------------------- */
 

@@ -1,5 +1,6 @@
-/* lw-plot-view-step.c — the step view: output samples held, the continuous output between
- * samples, the actuator panel.
+/* lw-plot-view-step.c — the time responses: the step view (output samples held, the
+ * continuous output between samples, the actuator panel) and the disturbance view (the output
+ * after a unit step disturbance at the plant's input, and at its output).
  *
  * SPDX-License-Identifier: GPL-3.0-or-later
  */
@@ -138,4 +139,60 @@ lwp_build_step (LwPlot *pl, const LwPlotInput *in)
             }
         }
     }
+}
+
+/* The output after a unit disturbance step at the plant input (upper panel) and at the plant
+ * output (lower panel), samples held, 0 as the reference each returns to. */
+void
+lwp_build_disturbance (LwPlot *pl, const LwPlotInput *in)
+{
+  Panel *pi = &pl->panels[0], *po = &pl->panels[1];
+  pl->n_panels = 2;
+  Extent et = { 0 }, ei = { 0 }, eo = { 0 };
+  lwp_extent_add (&et, 0.0);
+  lwp_extent_add (&ei, 0.0);
+  lwp_extent_add (&eo, 0.0);
+  for (size_t v = 0; v < in->n_variants; v++)
+    {
+      const LwPlotStepData *a = &in->variants[v].dist_in, *b = &in->variants[v].dist_out;
+      if (a->n >= 2)
+        lwp_extent_add (&et, (double) (a->n - 1) * a->period_s);
+      if (b->n >= 2)
+        lwp_extent_add (&et, (double) (b->n - 1) * b->period_s);
+      for (size_t k = 0; k < a->n; k++)
+        lwp_extent_add (&ei, a->y[k]);
+      for (size_t k = 0; k < b->n; k++)
+        lwp_extent_add (&eo, b->y[k]);
+    }
+  ei.hi += 0.06 * (ei.hi - ei.lo);
+  ei.lo -= 0.06 * (ei.hi - ei.lo);
+  eo.hi += 0.06 * (eo.hi - eo.lo);
+  eo.lo -= 0.06 * (eo.hi - eo.lo);
+  lwp_axis_from_extent (&pi->x, LW_PLOT_SCALE_LINEAR, LW_PLOT_TICKS_PLAIN, et, 8);
+  if (et.hi > 0.0)
+    pi->x.hi = et.hi;
+  po->x = pi->x;
+  lwp_axis_from_extent (&pi->y, LW_PLOT_SCALE_LINEAR, LW_PLOT_TICKS_PLAIN, ei, 5);
+  lwp_axis_from_extent (&po->y, LW_PLOT_SCALE_LINEAR, LW_PLOT_TICKS_PLAIN, eo, 5);
+  pi->x_tick_labels = false;
+  pi->y_label = "y, input dist.";
+  po->y_label = "y, output dist.";
+  po->x_label = "t (s)";
+  pi->x_name = po->x_name = "t";
+  pi->x_unit = po->x_unit = "s";
+  pi->y_name = po->y_name = "y";
+  pi->y_unit = po->y_unit = "";
+  lwp_keep_axes (pl, in);
+  lwp_add_hline (pi, 0.0);
+  lwp_add_hline (po, 0.0);
+  for (size_t v = 0; v < in->n_variants; v++)
+    for (int k = 0; k < 2; k++)
+      {
+        const LwPlotStepData *s = k == 0 ? &in->variants[v].dist_in : &in->variants[v].dist_out;
+        if (s->n < 2)
+          continue;
+        Prim *st = add_staircase (pl, k == 0 ? pi : po, v, s->n, s->y, s->period_s);
+        lwp_style_variant (st, v, LW_PLOT_CURVE_WIDTH);
+        st->dash = DASH_VARIANT;
+      }
 }

@@ -52,6 +52,10 @@ static const ViewRow views[LW_PLOT_N_VIEWS] = {
       "|S| = 1/|1+L| and |T| = |L/(1+L)| in dB over omega up to pi/T, the peak Ms marked",
       LW_PLOT_NEEDS_Z | LW_PLOT_NEEDS_NYQUIST_RATE, FREQ },
     lwp_build_sensitivity },
+  { { LW_PLOT_VIEW_DISTURBANCE, "disturbance", N_("Disturbance steps"),
+      "the output after a unit step disturbance at the plant input and at its output",
+      LW_PLOT_NEEDS_DISTURBANCE, 0 },
+    lwp_build_disturbance },
 };
 
 const LwPlotViewInfo *
@@ -113,6 +117,9 @@ lwp_view_has_data (const LwPlotInput *in)
           || ((needs & LW_PLOT_NEEDS_W) && x->w.n >= 2)
           || ((needs & LW_PLOT_NEEDS_NYQUIST) && x->nyquist.n >= 2)
           || ((needs & LW_PLOT_NEEDS_STEP) && x->step.n >= 2 && x->step.period_s > 0.0)
+          || ((needs & LW_PLOT_NEEDS_DISTURBANCE)
+              && ((x->dist_in.n >= 2 && x->dist_in.period_s > 0.0)
+                  || (x->dist_out.n >= 2 && x->dist_out.period_s > 0.0)))
           || ((needs & LW_PLOT_NEEDS_POLES)
               && x->poles.n_closed_loop + x->poles.n_loop_poles + x->poles.n_loop_zeros > 0))
         return true;

@@ -27,6 +27,7 @@ typedef enum {
   LW_PLOT_VIEW_NICHOLS,       /* |L| (dB) over ∠L (°) */
   LW_PLOT_VIEW_POLES,         /* pole-zero map in z with the unit circle */
   LW_PLOT_VIEW_SENSITIVITY,   /* |S| and |T| in dB over ω up to π/T */
+  LW_PLOT_VIEW_DISTURBANCE,   /* the output after input and output disturbance steps */
   LW_PLOT_N_VIEWS
 } LwPlotView;
 
@@ -38,7 +39,8 @@ typedef enum {
   LW_PLOT_NEEDS_NYQUIST = 1u << 2,      /* .nyquist, at least 2 points */
   LW_PLOT_NEEDS_STEP = 1u << 3,         /* .step, at least 2 samples and a period > 0 */
   LW_PLOT_NEEDS_POLES = 1u << 4,        /* .poles, at least one root */
-  LW_PLOT_NEEDS_NYQUIST_RATE = 1u << 5  /* LwPlotInput.nyquist_rad_s > 0 */
+  LW_PLOT_NEEDS_NYQUIST_RATE = 1u << 5, /* LwPlotInput.nyquist_rad_s > 0 */
+  LW_PLOT_NEEDS_DISTURBANCE = 1u << 6   /* .dist_in or .dist_out, at least 2 samples */
 } LwPlotNeeds;
 
 /* What the view is to its users. */

@@ -114,6 +114,9 @@ typedef struct {
   LwPlotFreqCurve w;           /* over ν */
   LwPlotComplexCurve nyquist;
   LwPlotStepData step;
+  /* the output after a unit step disturbance at the plant's input and at its output
+   * (period_s, n, y; optional) */
+  LwPlotStepData dist_in, dist_out;
   LwPlotPoleData poles;
   /* optional (0: none): a key for the data above. A caller that gives the same nonzero key
    * to a variant of this figure and of its axes_of promises the same arrays with the same

@@ -63,6 +63,11 @@ variant_with (unsigned needs)
     v.nyquist = (LwPlotComplexCurve) { .n = N, .re = re, .im = im };
   if (needs & LW_PLOT_NEEDS_STEP)
     v.step = (LwPlotStepData) { .period_s = 0.1, .n = N, .y = y };
+  if (needs & LW_PLOT_NEEDS_DISTURBANCE)
+    {
+      v.dist_in = (LwPlotStepData) { .period_s = 0.1, .n = N, .y = y };
+      v.dist_out = (LwPlotStepData) { .period_s = 0.1, .n = N, .y = re };
+    }
   if (needs & LW_PLOT_NEEDS_POLES)
     v.poles = (LwPlotPoleData) { .n_closed_loop = 2, .cl_re = pole_re, .cl_im = pole_im };
   return v;
@@ -110,7 +115,7 @@ same_pixels (cairo_surface_t *a, cairo_surface_t *b)
 
 /* The names `loopwright-cli plot --view` accepts (docs/plot.md), in the order listed. */
 static const char *const cli_names[] = { "bode-z", "bode-w", "step", "nyquist", "nichols",
-                                         "poles", "sensitivity" };
+                                         "poles", "sensitivity", "disturbance" };
 
 static void
 test_rows (void **state)
@@ -145,7 +150,7 @@ test_rows (void **state)
   assert_int_equal (lw_plot_view_from_name (NULL), -1);
   assert_false (lw_plot_view_has (LW_PLOT_N_VIEWS, 0));
   g_autofree char *joined = lw_plot_view_names_joined (" or ");
-  assert_string_equal (joined, "bode-z, bode-w, step, nyquist, nichols, poles or sensitivity");
+  assert_string_equal (joined, "bode-z, bode-w, step, nyquist, nichols, poles, sensitivity or disturbance");
 }
 
 /* Each view draws from what its row needs, and nothing less: given only those series it draws
@@ -165,7 +170,8 @@ test_needs (void **state)
         fail_msg ("%s: %s", info->name, msg);
       assert_true (lw_plot_n_panels (p) >= 1);
       unsigned all = LW_PLOT_NEEDS_Z | LW_PLOT_NEEDS_W | LW_PLOT_NEEDS_NYQUIST
-                     | LW_PLOT_NEEDS_STEP | LW_PLOT_NEEDS_POLES | LW_PLOT_NEEDS_NYQUIST_RATE;
+                     | LW_PLOT_NEEDS_STEP | LW_PLOT_NEEDS_POLES | LW_PLOT_NEEDS_NYQUIST_RATE
+                     | LW_PLOT_NEEDS_DISTURBANCE;
       LwPlot *full = build ((LwPlotView) v, all, msg, sizeof msg);
       assert_non_null (full);
       cairo_surface_t *a = render (p), *b = render (full);
