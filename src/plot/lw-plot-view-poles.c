@@ -6,6 +6,58 @@
 #include "lw-plot-private.h"
 
 #include <math.h>
+#include <stdio.h>
+
+#include <glib.h>
+
+/* Roots that coincide on the map (closer than a 300th of the axis span: one marker over the
+ * other) are counted, and a group of more than one is labelled "×N" beside it — six poles at
+ * z = 0 from a dead time of six samples show as one marker with "×6". Each set (zeros, loop
+ * poles, closed-loop poles) is counted on its own; groups by grid cells of that size (O(n)). */
+static void
+label_multiplicities (Panel *pn, size_t v, size_t n, const double *re, const double *im,
+                      double dy)
+{
+  if (n < 2)
+    return;
+  double cell = fmax (pn->x.hi - pn->x.lo, pn->y.hi - pn->y.lo) / 300.0;
+  if (!(cell > 0.0))
+    return;
+  GHashTable *count = g_hash_table_new_full (g_str_hash, g_str_equal, g_free, NULL);
+  GHashTable *first = g_hash_table_new (g_str_hash, g_str_equal);
+  for (size_t i = 0; i < n; i++)
+    {
+      if (re[i] < pn->x.lo || re[i] > pn->x.hi || im[i] < pn->y.lo || im[i] > pn->y.hi)
+        continue;   /* off the map: no label */
+      char key[64];
+      snprintf (key, sizeof key, "%.0f:%.0f", floor (re[i] / cell + 0.5),
+                floor (im[i] / cell + 0.5));
+      gpointer old = g_hash_table_lookup (count, key);
+      if (old == NULL)
+        {
+          char *k = g_strdup (key);
+          g_hash_table_insert (count, k, GSIZE_TO_POINTER (1));
+          g_hash_table_insert (first, k, GSIZE_TO_POINTER (i));
+        }
+      else
+        g_hash_table_replace (count, g_strdup (key), GSIZE_TO_POINTER (GPOINTER_TO_SIZE (old) + 1));
+    }
+  GHashTableIter it;
+  gpointer k, c;
+  g_hash_table_iter_init (&it, count);
+  while (g_hash_table_iter_next (&it, &k, &c))
+    {
+      size_t m = GPOINTER_TO_SIZE (c);
+      if (m < 2)
+        continue;
+      size_t i = GPOINTER_TO_SIZE (g_hash_table_lookup (first, k));
+      char buf[32];
+      snprintf (buf, sizeof buf, "\u00d7%zu", m);
+      lwp_style_variant (lwp_add_text (pn, re[i], im[i], buf, 7, dy, 0.0, 0.5), v, 1.0);
+    }
+  g_hash_table_destroy (first);
+  g_hash_table_destroy (count);
+}
 
 void
 lwp_build_poles (LwPlot *pl, const LwPlotInput *in)
@@ -60,6 +112,11 @@ lwp_build_poles (LwPlot *pl, const LwPlotInput *in)
       for (size_t i = 0; i < d->n_closed_loop; i++)
         lwp_style_variant (lwp_add_mark (pn, d->cl_re[i], d->cl_im[i], MARK_DIAMOND, 9), v, 1.5)
           ->shape = MARK_DIAMOND;
+      /* the count of coincident roots, beside them (zeros above, poles level, closed-loop
+       * poles below, so the three counts of one place do not cover each other) */
+      label_multiplicities (pn, v, d->n_loop_zeros, d->zero_re, d->zero_im, -9);
+      label_multiplicities (pn, v, d->n_loop_poles, d->pole_re, d->pole_im, 0);
+      label_multiplicities (pn, v, d->n_closed_loop, d->cl_re, d->cl_im, 9);
     }
   /* key of the marker shapes, bottom left inside the plot area */
   static const struct { MarkShape s; const char *t; } key[3] = {
