@@ -23,8 +23,9 @@ label_multiplicities (Panel *pn, size_t v, size_t n, const double *re, const dou
   double cell = fmax (pn->x.hi - pn->x.lo, pn->y.hi - pn->y.lo) / 300.0;
   if (!(cell > 0.0))
     return;
-  GHashTable *count = g_hash_table_new_full (g_str_hash, g_str_equal, g_free, NULL);
-  GHashTable *first = g_hash_table_new (g_str_hash, g_str_equal);
+  typedef struct { size_t count, first; } Group;
+  GHashTable *groups = g_hash_table_new_full (g_str_hash, g_str_equal, g_free, g_free);
+  GPtrArray *order = g_ptr_array_new ();   /* the groups as first met: a fixed drawing order */
   for (size_t i = 0; i < n; i++)
     {
       if (re[i] < pn->x.lo || re[i] > pn->x.hi || im[i] < pn->y.lo || im[i] > pn->y.hi)
@@ -32,31 +33,28 @@ label_multiplicities (Panel *pn, size_t v, size_t n, const double *re, const dou
       char key[64];
       snprintf (key, sizeof key, "%.0f:%.0f", floor (re[i] / cell + 0.5),
                 floor (im[i] / cell + 0.5));
-      gpointer old = g_hash_table_lookup (count, key);
-      if (old == NULL)
+      Group *g = g_hash_table_lookup (groups, key);
+      if (g == NULL)
         {
-          char *k = g_strdup (key);
-          g_hash_table_insert (count, k, GSIZE_TO_POINTER (1));
-          g_hash_table_insert (first, k, GSIZE_TO_POINTER (i));
+          g = g_new0 (Group, 1);
+          g->first = i;
+          g_hash_table_insert (groups, g_strdup (key), g);
+          g_ptr_array_add (order, g);
         }
-      else
-        g_hash_table_replace (count, g_strdup (key), GSIZE_TO_POINTER (GPOINTER_TO_SIZE (old) + 1));
+      g->count++;
     }
-  GHashTableIter it;
-  gpointer k, c;
-  g_hash_table_iter_init (&it, count);
-  while (g_hash_table_iter_next (&it, &k, &c))
+  for (guint k = 0; k < order->len; k++)
     {
-      size_t m = GPOINTER_TO_SIZE (c);
-      if (m < 2)
+      const Group *g = g_ptr_array_index (order, k);
+      if (g->count < 2)
         continue;
-      size_t i = GPOINTER_TO_SIZE (g_hash_table_lookup (first, k));
       char buf[32];
-      snprintf (buf, sizeof buf, "\u00d7%zu", m);
-      lwp_style_variant (lwp_add_text (pn, re[i], im[i], buf, 7, dy, 0.0, 0.5), v, 1.0);
+      snprintf (buf, sizeof buf, "\u00d7%zu", g->count);
+      lwp_style_variant (lwp_add_text (pn, re[g->first], im[g->first], buf, 7, dy, 0.0, 0.5), v,
+                         1.0);
     }
-  g_hash_table_destroy (first);
-  g_hash_table_destroy (count);
+  g_ptr_array_free (order, TRUE);
+  g_hash_table_destroy (groups);
 }
 
 void
