@@ -18,6 +18,7 @@ import shutil
 import subprocess
 import sys
 import tempfile
+import time
 
 sys.path.insert(0, os.path.dirname(os.path.abspath(__file__)))
 import lwgui  # noqa: E402
@@ -81,6 +82,22 @@ def inner(app, schema_dir, example, artefacts):
             a = autosave_lines(logs[0], event='wrote', source=design_uri)
             b = autosave_lines(logs[0], event='wrote', source='-')
             return (a[-1], b[-1]) if a and b else None
+
+        def wrote_copies():
+            # the newest autosave of each window, once both hold their copies (a slow run may
+            # write the second window's plant before its copy)
+            got = wrote_both()
+            if got is None or got[0]['path'] == got[1]['path']:
+                return got
+            try:
+                counts = (n_variants(read(got[0]['path'])), n_variants(read(got[1]['path'])))
+            except OSError:
+                return None
+            return got if counts == (3, 2) else None
+        deadline = time.monotonic() + 20.0
+        while time.monotonic() < deadline and not wrote_copies():
+            time.sleep(0.1)
+        # then the newest of each, copies or not: the checks below say what is wrong
         a, b = wait_for(wrote_both, 'an autosave of each window')
         if a['slot'] == b['slot'] or a['path'] == b['path']:
             fail('the two windows share an autosave: %s and %s' % (a, b))
