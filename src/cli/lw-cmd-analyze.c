@@ -179,8 +179,8 @@ print_disturbance (const char *title, const LwSimResponse *r)
 
 /* The time-domain verification section (docs/simulation.md). */
 static void
-print_verification (const LwSimOptions *so, const LwSimResponse *ref, const LwSimResponse *din,
-                    const LwSimResponse *dout)
+print_verification (const LwSimOptions *so, double reference_step, const LwSimResponse *ref,
+                    const LwSimResponse *din, const LwSimResponse *dout)
 {
   printf ("\nTime-domain verification (docs/simulation.md)\n");
   if (so->has_limits)
@@ -192,7 +192,10 @@ print_verification (const LwSimOptions *so, const LwSimResponse *ref, const LwSi
   for (size_t k = 0; k < ref->n; k++)
     if (fabs (ref->u[k]) > fabs (umax))
       umax = ref->u[k];
-  printf ("  unit reference step\n");
+  if (reference_step == 1.0)
+    printf ("  unit reference step\n");
+  else
+    printf ("  reference step of %.6g (output in units of r)\n", reference_step);
   printf ("    %-22s %.6g\n", "peak actuator", umax);
   if (so->has_limits)
     printf ("    %-22s %zu (integrators held at %zu)\n", "samples at the limit",
@@ -226,9 +229,9 @@ form_remark (double form_error, const char *otherwise)
 
 static void
 print_report (const LwModel *plant_s, double dead_time_s, const LwEvaluation *ev,
-              const LwStep *step, const LwSimOptions *so, const LwSimResponse *ref,
-              const LwSimResponse *din, const LwSimResponse *dout, double z_form_error,
-              double w_form_error)
+              const LwStep *step, const LwSimOptions *so, double reference_step,
+              const LwSimResponse *ref, const LwSimResponse *din, const LwSimResponse *dout,
+              double z_form_error, double w_form_error)
 {
   double T = ev->period_s;
   printf ("Sampled loop: period T = %.6g s (%.6g Hz), computation delay %d sample(s), "
@@ -247,7 +250,7 @@ print_report (const LwModel *plant_s, double dead_time_s, const LwEvaluation *ev
   print_margins (ev);
   print_closed_loop (ev);
   print_step (ev, step, dead_time_s);
-  print_verification (so, ref, din, dout);
+  print_verification (so, reference_step, ref, din, dout);
 
   printf ("\n");
   double per_rise;
@@ -476,8 +479,9 @@ analyze_loop_run (const AnalyzeArgs *a, const AnalyzeSpec *spec, const LwVariant
       if (design != NULL)
         printf ("Design '%s' (%s), variant '%s'\n\n", design->title, a->files[0],
                 design->variants[index].name);
-      print_report (e->plant_s, e->dead_time_s, ev, &e->step, &e->sim_options, e->sim_ref, e->sim_in,
-                    e->sim_out, e->plant_z_form_error, e->plant_w_form_error);
+      print_report (e->plant_s, e->dead_time_s, ev, &e->step, &e->sim_options,
+                    e->reference_step, e->sim_ref, e->sim_in, e->sim_out,
+                    e->plant_z_form_error, e->plant_w_form_error);
       if (design != NULL)
         {
           printf ("\nRequirements of the design\n");

@@ -174,11 +174,13 @@ lw_design_validate (const LwDesign *d, GError **error)
           return FALSE;
         }
       if (v->has_actuator
-          && !(isfinite (v->u_low) && isfinite (v->u_high) && v->u_low < v->u_high))
+          && !(isfinite (v->u_low) && isfinite (v->u_high) && v->u_low < v->u_high
+               && isfinite (v->reference_step) && v->reference_step >= 0.0))
         {
           g_set_error (error, LW_DESIGN_ERROR, LW_DESIGN_ERROR_VALUE,
-                       "variant '%s': the actuator limits must be finite with low < high, got "
-                       "%g and %g", v->name, v->u_low, v->u_high);
+                       "variant '%s': the actuator limits must be finite with low < high (got "
+                       "%g and %g), and the reference step finite and positive (got %g)",
+                       v->name, v->u_low, v->u_high, v->reference_step);
           return FALSE;
         }
       if (v->n_stages > LW_DESIGN_MAX_STAGES)

@@ -112,7 +112,7 @@ read_stage (Reader *r, const xmlNode *e, const LwDesignVariant *v, size_t index,
 static bool
 read_actuator (Reader *r, const xmlNode *e, LwDesignVariant *v)
 {
-  static const char *const allowed[] = { "low", "high", "anti_windup", NULL };
+  static const char *const allowed[] = { "low", "high", "anti_windup", "reference_step", NULL };
   g_autofree char *where = g_strdup_printf (" of variant '%s'", v->name);
   if (!lw_load_check_attributes (r, e, where, allowed) || !lw_load_no_children (r, e, where))
     return false;
@@ -127,6 +127,9 @@ read_actuator (Reader *r, const xmlNode *e, LwDesignVariant *v)
     return lw_load_fail (r, e, LW_DESIGN_ERROR_VALUE, "%s: attribute 'anti_windup' must be "
                          "'true' or 'false', got '%s'", where, aw);
   v->anti_windup = aw != NULL && strcmp (aw, "true") == 0;
+  if (!lw_load_number_attr (r, e, where, "reference_step", LW_NUM_POSITIVE, false,
+                            &v->reference_step, NULL))
+    return false;
   v->has_actuator = true;
   return true;
 }

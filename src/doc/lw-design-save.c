@@ -183,6 +183,8 @@ lw_design_to_text (const LwDesign *d, size_t *len_out, GError **error)
           attr_number (o, "high", v->u_high);
           if (v->anti_windup)
             attr_text (o, "anti_windup", "true");
+          if (v->reference_step > 0.0)
+            attr_number (o, "reference_step", v->reference_step);
           g_string_append (o, "/>\n");
         }
       for (size_t j = 0; j < v->n_stages; j++)

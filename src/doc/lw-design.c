@@ -189,6 +189,7 @@ lw_design_copy (const LwDesign *d)
       c->variants[i].u_low = v->u_low;
       c->variants[i].u_high = v->u_high;
       c->variants[i].anti_windup = v->anti_windup;
+      c->variants[i].reference_step = v->reference_step;
       c->variants[i].n_stages = v->n_stages;
       c->variants[i].stages = g_memdup2 (v->stages, v->n_stages * sizeof *v->stages);
     }
@@ -298,7 +299,8 @@ lw_design_equal (const LwDesign *a, const LwDesign *b)
           || x->has_period != y->has_period || (x->has_period && x->period_s != y->period_s)
           || x->has_actuator != y->has_actuator
           || (x->has_actuator && (x->u_low != y->u_low || x->u_high != y->u_high
-                                  || x->anti_windup != y->anti_windup))
+                                  || x->anti_windup != y->anti_windup
+                                  || x->reference_step != y->reference_step))
           || x->n_stages != y->n_stages)
         return false;
       for (size_t j = 0; j < x->n_stages; j++)

@@ -93,6 +93,9 @@ typedef struct
   bool has_actuator;
   double u_low, u_high;
   bool anti_windup;
+  /* the size of the reference step the limits are checked with, in the output's units
+   * (> 0, finite; 0: not given, a unit step) */
+  double reference_step;
   size_t n_stages;
   LwStage *stages;            /* n_stages, in order (the compensator is their product) */
 } LwDesignVariant;

@@ -391,9 +391,11 @@ eval_loop (EvalPrivate *p, const LwEngineOptions *opts)
   so.compute_delay = e->compute_delay;
   so.n_steps = ao.n_steps;
   e->sim_options = so;
+  e->reference_step = opts->reference_step > 0.0 && isfinite (opts->reference_step)
+                        ? opts->reference_step : 1.0;
   LwSimPlan *plan = NULL;
   if (lw_sim_plan_new (e->sampled, e->controller_z, &so, &plan, &err) != LW_OK
-      || lw_sim_run (plan, LW_SIM_REFERENCE_STEP, 1.0, &e->sim_ref, &err) != LW_OK
+      || lw_sim_run (plan, LW_SIM_REFERENCE_STEP, e->reference_step, &e->sim_ref, &err) != LW_OK
       || (opts->disturbances
           && (lw_sim_run (plan, LW_SIM_INPUT_DISTURBANCE_STEP, 1.0, &e->sim_in, &err) != LW_OK
               || lw_sim_run (plan, LW_SIM_OUTPUT_DISTURBANCE_STEP, 1.0, &e->sim_out, &err)
@@ -407,6 +409,21 @@ eval_loop (EvalPrivate *p, const LwEngineOptions *opts)
       g_clear_pointer (&e->sim_out, lw_sim_response_free);
     }
   lw_sim_plan_free (plan);
+  if (e->sim_ref != NULL && e->reference_step != 1.0)
+    {
+      /* the output in units of r: a step of size r0 drove the loop (it matters with limits) */
+      LwSimResponse *r = e->sim_ref;
+      for (size_t k = 0; k < r->n; k++)
+        {
+          r->y[k] /= e->reference_step;
+          r->e[k] /= e->reference_step;
+        }
+      for (size_t j = 0; r->has_continuous && j < r->n_fine; j++)
+        r->y_fine[j] /= e->reference_step;
+      r->peak /= e->reference_step;
+      r->continuous_peak /= e->reference_step;
+      r->intersample_ripple /= e->reference_step;
+    }
   if (e->sim_ref != NULL)
     {
       e->has_sim = TRUE;
@@ -483,6 +500,7 @@ lw_engine_evaluate_variant (const LwDesign *d, size_t variant, const LwEngineOpt
       vo.sim.u_low = v->u_low;
       vo.sim.u_high = v->u_high;
       vo.sim.anti_windup = v->anti_windup;
+      vo.reference_step = v->reference_step;
     }
   eval_loop (p, &vo);
   if (e->failure != LW_EVAL_OK)

@@ -97,6 +97,10 @@ typedef struct
   LwSimOptions sim;         /* limits, anti-windup, substeps; compute_delay and n_steps are
                                set from the loop and n_steps above */
   gboolean disturbances;    /* also simulate the input- and output-disturbance steps */
+  double reference_step;    /* the reference step's size in the output's units (0: 1); with
+                               limits the response depends on it. The simulated y (and the
+                               continuous output) are given in units of r, divided by it;
+                               u in the actuator's units */
 } LwEngineOptions;
 
 /* Default points and steps, no limits, no continuous output (substeps 0), reference step
@@ -164,6 +168,7 @@ typedef struct
   /* the simulations' options as run: the caller's actuator limits, else the variant's
    * (LwDesignVariant.has_actuator) */
   LwSimOptions sim_options;
+  double reference_step;          /* the size of the reference step simulated (1: a unit step) */
 } LwVariantEval;
 
 /* Evaluates variant `variant` of d. cache (may be NULL) keeps the sampled plant between

@@ -37,6 +37,7 @@ struct _LwCompensatorPanel
   GtkSpinButton *actuator_low;
   GtkSpinButton *actuator_high;
   GtkCheckButton *anti_windup_check;
+  GtkSpinButton *reference_step;
   GtkLabel *actuator_problem;
   GtkBox *compare_box;
   gboolean updating;            /* the variant widgets are being filled from the model */
@@ -105,6 +106,7 @@ show_actuator_sensitivity (LwCompensatorPanel *self)
   gtk_widget_set_sensitive (GTK_WIDGET (self->actuator_low), on);
   gtk_widget_set_sensitive (GTK_WIDGET (self->actuator_high), on);
   gtk_widget_set_sensitive (GTK_WIDGET (self->anti_windup_check), on);
+  gtk_widget_set_sensitive (GTK_WIDGET (self->reference_step), on);
 }
 
 /* The actuator's check buttons or limits: one window action (one undo step) with the state of
@@ -166,6 +168,15 @@ name_factory (gboolean ellipsize)
   return f;
 }
 
+static void
+reference_step_edited (LwCompensatorPanel *self)
+{
+  if (self->updating || self->model == NULL)
+    return;
+  gtk_widget_activate_action (GTK_WIDGET (self), "window.variant-reference-step", "d",
+                              gtk_spin_button_get_value (self->reference_step));
+}
+
 /* The actuator row under the variant: limits on the controller output and anti-windup. */
 static void
 build_actuator_row (LwCompensatorPanel *self)
@@ -213,8 +224,25 @@ build_actuator_row (LwCompensatorPanel *self)
   gtk_box_append (GTK_BOX (limits), GTK_WIDGET (self->actuator_low));
   gtk_box_append (GTK_BOX (limits), gtk_label_new ("…"));
   gtk_box_append (GTK_BOX (limits), GTK_WIDGET (self->actuator_high));
+  /* the reference step the limits are checked with */
+  GtkWidget *step_row = gtk_box_new (GTK_ORIENTATION_HORIZONTAL, 6);
+  self->reference_step = GTK_SPIN_BUTTON (gtk_spin_button_new_with_range (1e-12, 1e12, 0.1));
+  gtk_spin_button_set_digits (self->reference_step, 3);
+  gtk_spin_button_set_value (self->reference_step, 1.0);
+  lw_gui_spin_wheel_off (self->reference_step);
+  lw_number_field_setup (self->reference_step, _("Reference step"), self->actuator_problem);
+  gtk_widget_set_hexpand (GTK_WIDGET (self->reference_step), TRUE);
+  gtk_widget_set_tooltip_text (GTK_WIDGET (self->reference_step),
+                               _("The size of the reference step the limits are checked with, "
+                                 "in the output's units: with limits the response depends on "
+                                 "it (shown in units of r)"));
+  GtkWidget *step_label = lw_gui_row_label (0.0f, 0.5f, _("Re_ference step"),
+                                            GTK_WIDGET (self->reference_step));
+  gtk_box_append (GTK_BOX (step_row), step_label);
+  gtk_box_append (GTK_BOX (step_row), GTK_WIDGET (self->reference_step));
   gtk_box_append (self->actuator_box, row);
   gtk_box_append (self->actuator_box, limits);
+  gtk_box_append (self->actuator_box, step_row);
   gtk_box_append (self->actuator_box, GTK_WIDGET (self->actuator_problem));
   g_signal_connect_swapped (self->actuator_check, "toggled", G_CALLBACK (actuator_edited), self);
   g_signal_connect_swapped (self->anti_windup_check, "toggled", G_CALLBACK (actuator_edited),
@@ -223,6 +251,8 @@ build_actuator_row (LwCompensatorPanel *self)
                             self);
   g_signal_connect_swapped (self->actuator_high, "value-changed", G_CALLBACK (actuator_edited),
                             self);
+  g_signal_connect_swapped (self->reference_step, "value-changed",
+                            G_CALLBACK (reference_step_edited), self);
   show_actuator_sensitivity (self);
 }
 
@@ -257,6 +287,8 @@ rebuild_variants (LwCompensatorPanel *self)
       gtk_spin_button_set_value (self->actuator_high, high);
     }
   gtk_check_button_set_active (self->anti_windup_check, limited && aw);
+  gtk_spin_button_set_value (self->reference_step,
+                             lw_design_model_get_variant_reference_step (self->model, active));
   show_actuator_sensitivity (self);
 
   GtkWidget *c;

@@ -541,10 +541,37 @@ lw_design_model_set_variant_actuator (LwDesignModel *self, guint i, gboolean has
   if (has && v->has_actuator && v->u_low == low && v->u_high == high
       && v->anti_windup == (bool) anti_windup)
     return TRUE;
+  if (!has)
+    v->reference_step = 0.0;
   v->has_actuator = has;
   v->u_low = has ? low : 0.0;
   v->u_high = has ? high : 0.0;
   v->anti_windup = has && anti_windup;
+  emit_variants_changed (self, FALSE);
+  return TRUE;
+}
+
+double
+lw_design_model_get_variant_reference_step (LwDesignModel *self, guint i)
+{
+  g_return_val_if_fail (LW_IS_DESIGN_MODEL (self), 1.0);
+  g_return_val_if_fail (i < self->doc->n_variants, 1.0);
+  double r = self->doc->variants[i].reference_step;
+  return r > 0.0 ? r : 1.0;
+}
+
+gboolean
+lw_design_model_set_variant_reference_step (LwDesignModel *self, guint i, double r)
+{
+  g_return_val_if_fail (LW_IS_DESIGN_MODEL (self), FALSE);
+  g_return_val_if_fail (i < self->doc->n_variants, FALSE);
+  LwDesignVariant *v = &self->doc->variants[i];
+  if (!v->has_actuator || !(r > 0.0 && isfinite (r)))
+    return FALSE;
+  double stored = r == 1.0 ? 0.0 : r;   /* a unit step is the default: not written */
+  if (v->reference_step == stored)
+    return TRUE;
+  v->reference_step = stored;
   emit_variants_changed (self, FALSE);
   return TRUE;
 }

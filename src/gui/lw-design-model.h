@@ -136,6 +136,10 @@ gboolean lw_design_model_get_variant_actuator (LwDesignModel *self, guint i, dou
  * changed) for limits that hold nothing. */
 gboolean lw_design_model_set_variant_actuator (LwDesignModel *self, guint i, gboolean has,
                                                double low, double high, gboolean anti_windup);
+/* The reference step variant i's limits are checked with (output units; 1 when not given),
+ * and setting it (> 0, finite; only with limits; FALSE: nothing changed). */
+double lw_design_model_get_variant_reference_step (LwDesignModel *self, guint i);
+gboolean lw_design_model_set_variant_reference_step (LwDesignModel *self, guint i, double r);
 /* Removes variant i; FALSE for the last one left. The active index follows its variant, or
  * moves to the neighbour when the active one goes. */
 gboolean lw_design_model_remove_variant (LwDesignModel *self, guint i);

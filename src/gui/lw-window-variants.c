@@ -154,6 +154,18 @@ variant_actuator_activated (GtkWidget *widget, const char *action, GVariant *par
 }
 
 static void
+variant_reference_step_activated (GtkWidget *widget, const char *action, GVariant *param)
+{
+  LwWindow *self = LW_WINDOW (widget);
+  if (!variant_action_begin (self))
+    return;
+  lw_design_model_set_variant_reference_step (self->model,
+                                              lw_design_model_get_active (self->model),
+                                              g_variant_get_double (param));
+  variant_action_end (self);
+}
+
+static void
 variant_switch_to (LwWindow *self, guint i)
 {
   if (i >= lw_design_model_get_n_variants (self->model) || !variant_action_begin (self))
@@ -231,6 +243,8 @@ lw_window_class_init_variants (GtkWidgetClass *widget_class)
                                    variant_period_activated);
   gtk_widget_class_install_action (widget_class, "window.variant-actuator", "(bddb)",
                                    variant_actuator_activated);
+  gtk_widget_class_install_action (widget_class, "window.variant-reference-step", "d",
+                                   variant_reference_step_activated);
   gtk_widget_class_install_action (widget_class, "window.variant-copy", NULL,
                                    variant_copy_activated);
   gtk_widget_class_install_action (widget_class, "window.variant-new", NULL,

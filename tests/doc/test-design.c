@@ -305,13 +305,14 @@ test_round_trip_actuator (void **state)
   w->has_actuator = true;
   w->u_low = -10;
   w->u_high = 10;
+  w->reference_step = 0.05;
 
   size_t len = 0, len2 = 0;
   g_autofree char *t = text_ok (d, &len);
   assert_non_null (strstr (t, "<variant name=\"initial\">\n      <actuator low=\"-2.5\" "
                               "high=\"0.1\" anti_windup=\"true\"/>\n      <gain"));
   assert_non_null (strstr (t, "<variant name=\"loose\">\n      <actuator low=\"-10\" "
-                              "high=\"10\"/>\n    </variant>"));
+                              "high=\"10\" reference_step=\"0.05\"/>\n    </variant>"));
   GError *error = NULL;
   g_autoptr (LwDesign) back = lw_design_load_data (t, len, "actuator", &error);
   if (back == NULL)
@@ -320,6 +321,7 @@ test_round_trip_actuator (void **state)
   assert_true (back->variants[0].has_actuator && back->variants[0].anti_windup);
   assert_true (back->variants[0].u_low == -2.5 && back->variants[0].u_high == 0.1);
   assert_true (back->variants[1].has_actuator && !back->variants[1].anti_windup);
+  assert_true (back->variants[1].reference_step == 0.05 && back->variants[0].reference_step == 0);
   g_autofree char *t2 = text_ok (back, &len2);
   assert_int_equal (len, len2);
   assert_memory_equal (t, t2, len);

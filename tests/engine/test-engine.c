@@ -326,6 +326,22 @@ test_variant_actuator (void **state)
   assert_true (wide->sim_options.u_high == 100.0 && !wide->sim_options.anti_windup);
   assert_int_equal (wide->sim_ref->n_saturated, 0);
   assert_true (fabs (wide->actuator_peak - u0) < 1e-9 * u0);
+
+  /* a reference step of 0.1 (output units) with the same ±5 limits: u peaks at 0.1·u0 = 1.87,
+   * inside the limits, so the loop stays linear and y in units of r is the unit step's
+   * (superposition; 1e-12 absolute for rounding in the simulation), u one tenth of it */
+  d->variants[0].reference_step = 0.1;
+  g_autoptr (LwVariantEval) small = lw_engine_evaluate_variant (d, 0, NULL, NULL);
+  assert_true (small->reference_step == 0.1);
+  assert_int_equal (small->sim_ref->n_saturated, 0);
+  assert_true (fabs (small->actuator_peak - 0.1 * u0) < 1e-9 * u0);
+  assert_int_equal (small->sim_ref->n, free_run->sim_ref->n);
+  for (size_t k = 0; k < small->sim_ref->n; k++)
+    if (!(fabs (small->sim_ref->y[k] - free_run->sim_ref->y[k]) < 1e-12))
+      fail_msg ("y[%zu] in units of r: %.17g with a step of 0.1, %.17g with a unit step", k,
+                small->sim_ref->y[k], free_run->sim_ref->y[k]);
+  /* the figures are the linear loop's, as without limits */
+  assert_true (fabs (small->step.overshoot_pct - free_run->step.overshoot_pct) < 1e-9);
 }
 
 int
