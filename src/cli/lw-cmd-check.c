@@ -22,7 +22,8 @@ static const char check_help[] =
   "  --all-variants           check every variant in the document\n"
   "  -h, --help               show this help\n"
   "\n"
-  "The actuator peak is max |u| of the unit reference step without limits.\n"
+  "The actuator peak is max |u| of the reference step: a unit step without limits, or the\n"
+  "variant's own <actuator> limits and reference step when it has them.\n"
   "Exit status: 0 every requirement passes, 3 a requirement fails (or cannot be evaluated),\n"
   "2 bad input or a bad document, 1 internal failure.\n";
 
