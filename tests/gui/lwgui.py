@@ -2,6 +2,7 @@
 xvfb-run, waiting, keys through xdotool, the window's environment, saving, and reading its
 debug lines (LW_DEBUG_HANDLES=1)."""
 import os
+import re
 import shutil
 import subprocess
 import sys
@@ -94,6 +95,42 @@ def debug_lines(log_path, prefix):
         for line in f.read().splitlines():
             if line.startswith(prefix + ' '):
                 yield dict(kv.split('=', 1) for kv in line.split()[1:] if '=' in kv)
+
+
+def last_line(log_path, prefix, **match):
+    """The fields of the newest line of prefix whose fields include match (None: no such line);
+    positions are printed again when things move, so the newest one counts."""
+    found = None
+    for f in debug_lines(log_path, prefix):
+        if all(f.get(k) == str(v) for k, v in match.items()):
+            found = f
+    return found
+
+
+def window_origin(wid):
+    """The window's top left on the screen, to add to the window-surface positions of the
+    debug lines."""
+    m = re.search(r'Position: (-?\d+),(-?\d+)', run('xdotool', 'getwindowgeometry', wid))
+    return int(m.group(1)), int(m.group(2))
+
+
+def click_field(wid, log_path, name):
+    """Clicks into the number field NAME at its newest LW-FIELD position."""
+    f = wait_for(lambda: last_line(log_path, 'LW-FIELD', name=name), 'the field ' + name)
+    x0, y0 = window_origin(wid)
+    run('xdotool', 'mousemove', '--sync', str(x0 + round(float(f['sx']))),
+        str(y0 + round(float(f['sy']))))
+    run('xdotool', 'click', '1')
+    time.sleep(0.3)
+
+
+def type_field(wid, log_path, name, text):
+    """Replaces the text of the number field NAME with text and leaves it with Tab."""
+    click_field(wid, log_path, name)
+    run('xdotool', 'key', '--clearmodifiers', 'ctrl+a')
+    run('xdotool', 'type', '--delay', '20', '--', text)
+    run('xdotool', 'key', '--clearmodifiers', 'Tab')
+    time.sleep(1.0)   # a refusal shown above other fields moves them: let the lines follow
 
 
 def start_window(app, design, env, log_file):

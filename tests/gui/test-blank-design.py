@@ -17,7 +17,6 @@ ARTEFACT_DIR/blank-design-*.png. The code folder is given by the test hook LW_TE
 (the folder chooser is GTK's own and not under test here).
 """
 import os
-import re
 import shutil
 import subprocess
 import sys
@@ -26,42 +25,15 @@ import time
 import xml.etree.ElementTree as ET
 
 sys.path.insert(0, os.path.dirname(os.path.abspath(__file__)))
-from lwgui import (debug_lines, fail, find_window, key, kill_window, outer,  # noqa: E402
-                   quit_window, run, saved_after, settle, wait_for, window_env)
+from lwgui import (fail, find_window, key, kill_window, outer, quit_window,  # noqa: E402
+                   run, saved_after, settle, type_field, wait_for, window_env)
 
 NS = '{urn:loopwright:design}'
-
-
-def last(log_path, prefix, **match):
-    found = None
-    for f in debug_lines(log_path, prefix):
-        if all(f.get(k) == str(v) for k, v in match.items()):
-            found = f
-    return found
 
 
 def log_has(path, text):
     with open(path, encoding='utf-8', errors='replace') as f:
         return text in f.read()
-
-
-def click_field(wid, log_path, name):
-    f = wait_for(lambda: last(log_path, 'LW-FIELD', name=name), 'the field ' + name)
-    geo = run('xdotool', 'getwindowgeometry', wid)
-    m = re.search(r'Position: (-?\d+),(-?\d+)', geo)
-    x = int(m.group(1)) + round(float(f['sx']))
-    y = int(m.group(2)) + round(float(f['sy']))
-    run('xdotool', 'mousemove', '--sync', str(x), str(y))
-    run('xdotool', 'click', '1')
-    time.sleep(0.3)
-
-
-def type_field(wid, log_path, name, text):
-    click_field(wid, log_path, name)
-    run('xdotool', 'key', '--clearmodifiers', 'ctrl+a')
-    run('xdotool', 'type', '--delay', '20', '--', text)
-    run('xdotool', 'key', '--clearmodifiers', 'Tab')
-    time.sleep(0.8)
 
 
 def shot(artefacts, name):

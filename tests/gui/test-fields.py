@@ -16,7 +16,6 @@ The window's output goes to ARTEFACT_DIR/fields.log; a screenshot of a refusal t
 ARTEFACT_DIR/fields-refused.png.
 """
 import os
-import re
 import shutil
 import subprocess
 import sys
@@ -24,17 +23,9 @@ import tempfile
 import time
 
 sys.path.insert(0, os.path.dirname(os.path.abspath(__file__)))
-from lwgui import (debug_lines, fail, key, kill_window, outer, quit_window, run,  # noqa: E402
-                   saved_after, settle, start_window, wait_for, window_env)
-
-
-def last(log_path, prefix, **match):
-    """The newest line of prefix matching: fields move when a refusal appears above them."""
-    found = None
-    for f in debug_lines(log_path, prefix):
-        if all(f.get(k) == str(v) for k, v in match.items()):
-            found = f
-    return found
+from lwgui import (click_field, fail, key, kill_window, last_line, outer,  # noqa: E402
+                   quit_window, run, saved_after, settle, start_window, type_field, wait_for,
+                   window_env)
 
 
 def refusals(log_path):
@@ -53,27 +44,6 @@ BAD = [
 ]
 
 
-def click_into(wid, log_path, field):
-    f = last(log_path, 'LW-FIELD', name=field)
-    if f is None:
-        fail('no LW-FIELD line for %s' % field)
-    geo = run('xdotool', 'getwindowgeometry', wid)
-    m = re.search(r'Position: (-?\d+),(-?\d+)', geo)
-    x = int(m.group(1)) + round(float(f['sx']))
-    y = int(m.group(2)) + round(float(f['sy']))
-    run('xdotool', 'mousemove', '--sync', str(x), str(y))
-    run('xdotool', 'click', '1')
-    time.sleep(0.3)
-
-
-def type_into(wid, log_path, field, text):
-    click_into(wid, log_path, field)
-    run('xdotool', 'key', '--clearmodifiers', 'ctrl+a')
-    run('xdotool', 'type', '--delay', '20', '--', text)
-    run('xdotool', 'key', '--clearmodifiers', 'Tab')
-    time.sleep(1.0)   # a refusal shown above other fields moves them: let the lines follow
-
-
 def inner(app, schema_dir, example, artefacts):
     os.makedirs(artefacts, exist_ok=True)
     tmp = tempfile.mkdtemp(prefix='lw-test-fields-')
@@ -85,7 +55,7 @@ def inner(app, schema_dir, example, artefacts):
             proc, wid = start_window(app, design, window_env(schema_dir, tmp), log_file)
             try:
                 for name, _, _ in BAD:
-                    wait_for(lambda: last(log_path, 'LW-FIELD', name=name),
+                    wait_for(lambda: last_line(log_path, 'LW-FIELD', name=name),
                              'the position of the field %s' % name)
                 settle(log_path)
                 doc0 = saved_after(wid, design)
@@ -94,7 +64,7 @@ def inner(app, schema_dir, example, artefacts):
                     mine = lambda: [r for r in refusals(log_path)  # noqa: E731
                                     if r.startswith('LW-FIELD-REFUSED %s: ' % label)]
                     before = len(mine())
-                    type_into(wid, log_path, name, text)
+                    type_field(wid, log_path, name, text)
                     # a field still holding a refused text says so again when it loses the
                     # focus: only this field's newest line counts
                     got = wait_for(lambda: len(mine()) > before and mine()[-1],
@@ -114,8 +84,8 @@ def inner(app, schema_dir, example, artefacts):
                 zero_refusals = lambda: [r for r in refusals(log_path)  # noqa: E731
                                          if r.startswith('LW-FIELD-REFUSED Zero: ')]
                 n_zero = len(zero_refusals())
-                type_into(wid, log_path, 'Zero', '0.00025')
-                click_into(wid, log_path, 'Zero')     # in and out again, text untouched
+                type_field(wid, log_path, 'Zero', '0.00025')
+                click_field(wid, log_path, 'Zero')     # in and out again, text untouched
                 run('xdotool', 'key', '--clearmodifiers', 'Tab')
                 time.sleep(0.5)
                 if len(zero_refusals()) != n_zero:

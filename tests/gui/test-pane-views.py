@@ -20,8 +20,9 @@ import tempfile
 import time
 
 sys.path.insert(0, os.path.dirname(os.path.abspath(__file__)))
-from lwgui import (debug_lines, fail, key, kill_window, outer, quit_window, run,  # noqa: E402
-                   saved_after, settle, start_window, wait_for, window_env)
+from lwgui import (debug_lines, fail, key, kill_window, last_line, outer,  # noqa: E402
+                   quit_window, run, saved_after, settle, start_window, wait_for, window_env,
+                   window_origin)
 
 
 def arrangement(log_path):
@@ -29,14 +30,6 @@ def arrangement(log_path):
     if not lines:
         return None
     return dict((v.split(':')[0], tuple(v.split(':')[1:])) for v in lines[-1]['views'].split(','))
-
-
-def last_panel(log_path, view):
-    found = None
-    for f in debug_lines(log_path, 'LW-PANEL'):
-        if f.get('view') == view:
-            found = f
-    return found
 
 
 def inner(app, schema_dir, example, artefacts):
@@ -49,17 +42,16 @@ def inner(app, schema_dir, example, artefacts):
         with open(log_path, 'w') as log_file:
             proc, wid = start_window(app, design, window_env(schema_dir, tmp), log_file)
             try:
-                wait_for(lambda: last_panel(log_path, 'nyquist'), 'the Nyquist pane')
+                wait_for(lambda: last_line(log_path, 'LW-PANEL', view='nyquist'), 'the Nyquist pane')
                 settle(log_path)
                 doc0 = saved_after(wid, design)
                 where = arrangement(log_path).get('nyquist')
                 if where is None:
                     fail('no Nyquist pane at first: %s' % arrangement(log_path))
-                p = last_panel(log_path, 'nyquist')
-                geo = run('xdotool', 'getwindowgeometry', wid)
-                m = re.search(r'Position: (-?\d+),(-?\d+)', geo)
-                x = int(m.group(1)) + round(float(p['left']) + float(p['width']) / 2)
-                y = int(m.group(2)) + round(float(p['top']) + float(p['height']) / 2)
+                p = last_line(log_path, 'LW-PANEL', view='nyquist')
+                x0, y0 = window_origin(wid)
+                x = x0 + round(float(p['left']) + float(p['width']) / 2)
+                y = y0 + round(float(p['top']) + float(p['height']) / 2)
                 run('xdotool', 'mousemove', '--sync', str(x), str(y))
                 run('xdotool', 'click', '3')
                 time.sleep(0.8)

@@ -18,16 +18,8 @@ import tempfile
 import time
 
 sys.path.insert(0, os.path.dirname(os.path.abspath(__file__)))
-from lwgui import (debug_lines, fail, key, kill_window, outer, quit_window, run,  # noqa: E402
-                   saved_after, start_window, wait_for, window_env)
-
-
-def last(log_path, prefix, **match):
-    found = None
-    for f in debug_lines(log_path, prefix):
-        if all(f.get(k) == str(v) for k, v in match.items()):
-            found = f
-    return found
+from lwgui import (fail, key, kill_window, last_line, outer, quit_window, run,  # noqa: E402
+                   saved_after, start_window, wait_for, window_env, window_origin)
 
 
 def inner(app, schema_dir, example, artefacts):
@@ -44,15 +36,14 @@ def inner(app, schema_dir, example, artefacts):
         with open(log_path, 'w') as log_file:
             proc, wid = start_window(app, design, window_env(schema_dir, tmp), log_file)
             try:
-                b = wait_for(lambda: last(log_path, 'LW-WIDGET', name='variants-button'),
+                b = wait_for(lambda: last_line(log_path, 'LW-WIDGET', name='variants-button'),
                              'the position of the Variants button')
                 time.sleep(0.5)
                 doc0 = saved_after(wid, design)
-                b = last(log_path, 'LW-WIDGET', name='variants-button')
-                geo = run('xdotool', 'getwindowgeometry', wid)
-                m = re.search(r'Position: (-?\d+),(-?\d+)', geo)
-                x = int(m.group(1)) + round(float(b['sx']))
-                y = int(m.group(2)) + round(float(b['sy']))
+                b = last_line(log_path, 'LW-WIDGET', name='variants-button')
+                x0, y0 = window_origin(wid)
+                x = x0 + round(float(b['sx']))
+                y = y0 + round(float(b['sy']))
                 run('xdotool', 'mousemove', '--sync', str(x), str(y))
                 run('xdotool', 'click', '1')
                 time.sleep(0.8)
