@@ -6,6 +6,7 @@
 #include <glib/gi18n.h>
 
 #include "lw-export-dialog.h"
+#include "lw-gui-util.h"
 #include "lw-number-field.h"
 #include "lw-plot-export.h"
 
@@ -120,14 +121,6 @@ dialog_response (GtkDialog *dialog, int response, gpointer user_data)
   gtk_native_dialog_show (GTK_NATIVE_DIALOG (native));
 }
 
-static GtkWidget *
-row_label (const char *text)
-{
-  GtkWidget *l = gtk_label_new_with_mnemonic (text);
-  gtk_label_set_xalign (GTK_LABEL (l), 1.0);
-  return l;
-}
-
 void
 lw_export_dialog_show (GtkWindow *parent, GSettings *settings, const char *base_name,
                        LwExportBuildFunc build, gpointer user_data)
@@ -151,13 +144,7 @@ lw_export_dialog_show (GtkWindow *parent, GSettings *settings, const char *base_
   gtk_dialog_set_default_response (GTK_DIALOG (dialog), GTK_RESPONSE_ACCEPT);
   GtkWidget *content = gtk_dialog_get_content_area (GTK_DIALOG (dialog));
 
-  GtkWidget *grid = gtk_grid_new ();
-  gtk_grid_set_row_spacing (GTK_GRID (grid), 6);
-  gtk_grid_set_column_spacing (GTK_GRID (grid), 12);
-  gtk_widget_set_margin_start (grid, 18);
-  gtk_widget_set_margin_end (grid, 18);
-  gtk_widget_set_margin_top (grid, 18);
-  gtk_widget_set_margin_bottom (grid, 18);
+  GtkWidget *grid = lw_gui_dialog_grid ();
   gtk_box_append (GTK_BOX (content), grid);
 
   /* every view of the table, in its order: item i is LwPlotView i */
@@ -177,18 +164,28 @@ lw_export_dialog_show (GtkWindow *parent, GSettings *settings, const char *base_
   lw_number_field_setup (e->width, _("Width"), NULL);
   lw_number_field_setup (e->height, _("Height"), NULL);
 
-  gtk_grid_attach (GTK_GRID (grid), row_label (_("_View")), 0, 0, 1, 1);
+  gtk_grid_attach (GTK_GRID (grid),
+                   lw_gui_row_label (1.0f, 0.5f, _("_View"), GTK_WIDGET (e->view)), 0, 0,
+                   1, 1);
   gtk_grid_attach (GTK_GRID (grid), GTK_WIDGET (e->view), 1, 0, 1, 1);
-  gtk_grid_attach (GTK_GRID (grid), row_label (_("_Width")), 0, 1, 1, 1);
+  gtk_grid_attach (GTK_GRID (grid),
+                   lw_gui_row_label (1.0f, 0.5f, _("_Width"), GTK_WIDGET (e->width)), 0, 1,
+                   1, 1);
   gtk_grid_attach (GTK_GRID (grid), GTK_WIDGET (e->width), 1, 1, 1, 1);
-  gtk_grid_attach (GTK_GRID (grid), row_label (_("_Height")), 0, 2, 1, 1);
+  gtk_grid_attach (GTK_GRID (grid),
+                   lw_gui_row_label (1.0f, 0.5f, _("_Height"), GTK_WIDGET (e->height)), 0, 2,
+                   1, 1);
   gtk_grid_attach (GTK_GRID (grid), GTK_WIDGET (e->height), 1, 2, 1, 1);
   GtkWidget *unit = gtk_label_new (_("pixels for PNG, points for SVG and PDF"));
   gtk_widget_add_css_class (unit, "dim-label");
   gtk_grid_attach (GTK_GRID (grid), unit, 1, 3, 1, 1);
-  gtk_grid_attach (GTK_GRID (grid), row_label (_("_Format")), 0, 4, 1, 1);
+  gtk_grid_attach (GTK_GRID (grid),
+                   lw_gui_row_label (1.0f, 0.5f, _("_Format"), GTK_WIDGET (e->format)), 0, 4,
+                   1, 1);
   gtk_grid_attach (GTK_GRID (grid), GTK_WIDGET (e->format), 1, 4, 1, 1);
-  gtk_grid_attach (GTK_GRID (grid), row_label (_("_Theme")), 0, 5, 1, 1);
+  gtk_grid_attach (GTK_GRID (grid),
+                   lw_gui_row_label (1.0f, 0.5f, _("_Theme"), GTK_WIDGET (e->theme)), 0, 5,
+                   1, 1);
   gtk_grid_attach (GTK_GRID (grid), GTK_WIDGET (e->theme), 1, 5, 1, 1);
 
   g_signal_connect (dialog, "response", G_CALLBACK (dialog_response), e);
