@@ -8,74 +8,14 @@
 
 #include <glib/gi18n.h>
 
-#include "lw-plot-pane.h"
-
-struct _LwPlotPane
-{
-  GtkDrawingArea parent_instance;
-
-  LwPlotView view;
-  LwPlotTheme theme;
-  LwPlot *plot;
-  char *message;
-  LwPlotTextCache *text_cache;  /* layouts of the figures' texts, kept across figures */
-
-  /* the static layer (or, with a moving variant, the base layer without it), at device
-   * resolution, valid for cache_width × cache_height */
-  cairo_surface_t *cache;
-  int cache_width, cache_height, cache_scale;
-  int moving;                   /* variant drawn per frame over the cached base, or −1 */
-
-  /* zoom and pan of the frequency axis (Bode views), kept across figures */
-  gboolean has_view;
-  double view_lo, view_hi;
-  gboolean panning;
-  double pan_lo, pan_hi, pan_start_x;
-  GtkGesture *pan;
-
-  guint64 n_base_draws;         /* LW_DEBUG_HANDLES: how often the base layer was drawn */
-
-  gboolean has_hover;
-  double hover_x, hover_y;
-
-  GArray *handles;              /* of LwPaneHandle */
-  int sel_stage, sel_corner;
-  int dragging;                 /* handle index under drag, or −1 */
-  double drag_start_x, drag_start_y;
-  /* the pixel ↔ value mapping as the drag began, kept for the whole drag: figures arrive
-   * while it goes on (from the evaluation worker, whenever it finishes) and may lay their
-   * panel out a little differently (tick labels of another width), which must not move the
-   * corner under a pointer that stands still */
-  LwPlotAxis drag_xa, drag_ya;
-  double drag_left, drag_top, drag_w, drag_h;
-  char *drag_label;
-  GtkGesture *drag;
-
-  gboolean debug_handles;
-  char *debug_last;
-};
+#include "lw-plot-pane-private.h"
 
 G_DEFINE_FINAL_TYPE (LwPlotPane, lw_plot_pane, GTK_TYPE_DRAWING_AREA)
 
-enum
-{
-  SIGNAL_DRAG_BEGIN,
-  SIGNAL_DRAG_UPDATE,
-  SIGNAL_DRAG_END,
-  SIGNAL_VIEW_CHANGED,
-  N_SIGNALS
-};
-static guint signals[N_SIGNALS];
+guint lwpp_signals[LWPP_N_SIGNALS];
 
-static void pan_begin_at (LwPlotPane *self, double x);
-static void pan_to (LwPlotPane *self, double x);
-static gboolean scrolled (GtkEventControllerScroll *c, double dx, double dy, LwPlotPane *self);
-static void pan_gesture_begin (GtkGestureDrag *g, double x, double y, LwPlotPane *self);
-static void pan_gesture_update (GtkGestureDrag *g, double dx, double dy, LwPlotPane *self);
-static void pan_gesture_end (GtkGestureDrag *g, double dx, double dy, LwPlotPane *self);
-
-static void
-invalidate_cache (LwPlotPane *self)
+void
+lwpp_invalidate_cache (LwPlotPane *self)
 {
   g_clear_pointer (&self->cache, cairo_surface_destroy);
   gtk_widget_queue_draw (GTK_WIDGET (self));
@@ -294,7 +234,7 @@ drag_begin (GtkGestureDrag *g, double x, double y, LwPlotPane *self)
   if ((mods & GDK_CONTROL_MASK) && lw_plot_view_has (self->view, LW_PLOT_VIEW_FREQUENCY_AXIS))
     {
       gtk_gesture_set_state (GTK_GESTURE (g), GTK_EVENT_SEQUENCE_CLAIMED);
-      pan_begin_at (self, x);
+      lwpp_pan_begin_at (self, x);
       return;
     }
   int i = handle_at (self, x, y);
@@ -319,7 +259,7 @@ drag_begin (GtkGestureDrag *g, double x, double y, LwPlotPane *self)
   self->drag_ya = *lw_plot_panel_y_axis (self->plot, 0);
   lw_plot_panel_rect (self->plot, 0, &self->drag_left, &self->drag_top, &self->drag_w,
                       &self->drag_h);
-  g_signal_emit (self, signals[SIGNAL_DRAG_BEGIN], 0, (guint) i, vx, vy);
+  g_signal_emit (self, lwpp_signals[LWPP_SIGNAL_DRAG_BEGIN], 0, (guint) i, vx, vy);
 }
 
 static void
@@ -327,7 +267,7 @@ drag_update (GtkGestureDrag *g, double dx, double dy, LwPlotPane *self)
 {
   if (self->panning)
     {
-      pan_to (self, self->pan_start_x + dx);
+      lwpp_pan_to (self, self->pan_start_x + dx);
       return;
     }
   if (self->dragging < 0 || self->plot == NULL)
@@ -341,7 +281,7 @@ drag_update (GtkGestureDrag *g, double dx, double dy, LwPlotPane *self)
     {
       GdkModifierType mods =
         gtk_event_controller_get_current_event_state (GTK_EVENT_CONTROLLER (g));
-      g_signal_emit (self, signals[SIGNAL_DRAG_UPDATE], 0, (guint) self->dragging, x, y,
+      g_signal_emit (self, lwpp_signals[LWPP_SIGNAL_DRAG_UPDATE], 0, (guint) self->dragging, x, y,
                      (guint) mods);
     }
   gtk_widget_queue_draw (GTK_WIDGET (self));
@@ -354,7 +294,7 @@ drag_end (GtkGestureDrag *g, double dx, double dy, LwPlotPane *self)
   if (self->dragging < 0)
     return;
   self->dragging = -1;
-  g_signal_emit (self, signals[SIGNAL_DRAG_END], 0);
+  g_signal_emit (self, lwpp_signals[LWPP_SIGNAL_DRAG_END], 0);
   gtk_widget_queue_draw (GTK_WIDGET (self));
 }
 
@@ -380,21 +320,21 @@ lw_plot_pane_class_init (LwPlotPaneClass *klass)
   gtk_widget_class_set_css_name (GTK_WIDGET_CLASS (klass), "plotpane");
 
   /* (guint handle, double x, double y_db): the axis values where the button went down */
-  signals[SIGNAL_DRAG_BEGIN] = g_signal_new ("handle-drag-begin", G_TYPE_FROM_CLASS (klass),
+  lwpp_signals[LWPP_SIGNAL_DRAG_BEGIN] = g_signal_new ("handle-drag-begin", G_TYPE_FROM_CLASS (klass),
                                              G_SIGNAL_RUN_LAST, 0, NULL, NULL, NULL,
                                              G_TYPE_NONE, 3, G_TYPE_UINT, G_TYPE_DOUBLE,
                                              G_TYPE_DOUBLE);
   /* (guint handle, double x, double y_db, guint GdkModifierType) */
-  signals[SIGNAL_DRAG_UPDATE] = g_signal_new ("handle-drag-update", G_TYPE_FROM_CLASS (klass),
+  lwpp_signals[LWPP_SIGNAL_DRAG_UPDATE] = g_signal_new ("handle-drag-update", G_TYPE_FROM_CLASS (klass),
                                               G_SIGNAL_RUN_LAST, 0, NULL, NULL, NULL,
                                               G_TYPE_NONE, 4, G_TYPE_UINT, G_TYPE_DOUBLE,
                                               G_TYPE_DOUBLE, G_TYPE_UINT);
-  signals[SIGNAL_DRAG_END] = g_signal_new ("handle-drag-end", G_TYPE_FROM_CLASS (klass),
+  lwpp_signals[LWPP_SIGNAL_DRAG_END] = g_signal_new ("handle-drag-end", G_TYPE_FROM_CLASS (klass),
                                            G_SIGNAL_RUN_LAST, 0, NULL, NULL, NULL,
                                            G_TYPE_NONE, 0);
   /* (double lo, double hi): the visible frequency range (rad/s), zoomed or panned by the
    * user */
-  signals[SIGNAL_VIEW_CHANGED] = g_signal_new ("x-view-changed", G_TYPE_FROM_CLASS (klass),
+  lwpp_signals[LWPP_SIGNAL_VIEW_CHANGED] = g_signal_new ("x-view-changed", G_TYPE_FROM_CLASS (klass),
                                                G_SIGNAL_RUN_LAST, 0, NULL, NULL, NULL,
                                                G_TYPE_NONE, 2, G_TYPE_DOUBLE, G_TYPE_DOUBLE);
 }
@@ -428,14 +368,14 @@ lw_plot_pane_init (LwPlotPane *self)
 
   GtkEventController *sc = gtk_event_controller_scroll_new (GTK_EVENT_CONTROLLER_SCROLL_VERTICAL
                                                             | GTK_EVENT_CONTROLLER_SCROLL_DISCRETE);
-  g_signal_connect (sc, "scroll", G_CALLBACK (scrolled), self);
+  g_signal_connect (sc, "scroll", G_CALLBACK (lwpp_scrolled), self);
   gtk_widget_add_controller (GTK_WIDGET (self), sc);
 
   self->pan = gtk_gesture_drag_new ();
   gtk_gesture_single_set_button (GTK_GESTURE_SINGLE (self->pan), GDK_BUTTON_MIDDLE);
-  g_signal_connect (self->pan, "drag-begin", G_CALLBACK (pan_gesture_begin), self);
-  g_signal_connect (self->pan, "drag-update", G_CALLBACK (pan_gesture_update), self);
-  g_signal_connect (self->pan, "drag-end", G_CALLBACK (pan_gesture_end), self);
+  g_signal_connect (self->pan, "drag-begin", G_CALLBACK (lwpp_pan_gesture_begin), self);
+  g_signal_connect (self->pan, "drag-update", G_CALLBACK (lwpp_pan_gesture_update), self);
+  g_signal_connect (self->pan, "drag-end", G_CALLBACK (lwpp_pan_gesture_end), self);
   gtk_widget_add_controller (GTK_WIDGET (self), GTK_EVENT_CONTROLLER (self->pan));
   self->moving = -1;
 }
@@ -500,7 +440,7 @@ lw_plot_pane_set_plot_moving (LwPlotPane *self, LwPlot *plot, const char *messag
   if (keep)
     gtk_widget_queue_draw (GTK_WIDGET (self));
   else
-    invalidate_cache (self);
+    lwpp_invalidate_cache (self);
 }
 
 guint64
@@ -508,129 +448,6 @@ lw_plot_pane_get_n_base_draws (LwPlotPane *self)
 {
   g_return_val_if_fail (LW_IS_PLOT_PANE (self), 0);
   return self->n_base_draws;
-}
-
-/* ---- zoom and pan ---------------------------------------------------------------------- */
-
-static void
-apply_view (LwPlotPane *self, double lo, double hi, gboolean notify)
-{
-  if (self->plot == NULL || !lw_plot_set_x_view (self->plot, lo, hi))
-    return;
-  self->has_view = TRUE;
-  self->view_lo = lo;
-  self->view_hi = hi;
-  invalidate_cache (self);
-  if (notify)
-    g_signal_emit (self, signals[SIGNAL_VIEW_CHANGED], 0, lo, hi);
-}
-
-void
-lw_plot_pane_set_x_view (LwPlotPane *self, double lo, double hi)
-{
-  g_return_if_fail (LW_IS_PLOT_PANE (self));
-  apply_view (self, lo, hi, FALSE);
-}
-
-void
-lw_plot_pane_reset_view (LwPlotPane *self)
-{
-  g_return_if_fail (LW_IS_PLOT_PANE (self));
-  if (!self->has_view)
-    return;
-  self->has_view = FALSE;
-  if (self->plot != NULL)
-    {
-      double lo, hi;
-      lw_plot_full_x_range (self->plot, &lo, &hi);
-      lw_plot_set_x_view (self->plot, lo, hi);
-    }
-  invalidate_cache (self);
-}
-
-gboolean
-lw_plot_pane_get_x_view (LwPlotPane *self, double *lo, double *hi)
-{
-  g_return_val_if_fail (LW_IS_PLOT_PANE (self), FALSE);
-  return self->plot != NULL && lw_plot_get_x_view (self->plot, lo, hi);
-}
-
-/* Pixel x → log10 of the frequency under it, on the visible axis of the magnitude panel. */
-static gboolean
-pixel_log_f (LwPlotPane *self, double px, double *log_f, double *left, double *width)
-{
-  double top, h, lo, hi;
-  if (self->plot == NULL || !lw_plot_panel_rect (self->plot, 0, left, &top, width, &h)
-      || *width <= 0 || !lw_plot_get_x_view (self->plot, &lo, &hi))
-    return FALSE;
-  double t = (px - *left) / *width;
-  *log_f = log10 (lo) + t * (log10 (hi) - log10 (lo));
-  return TRUE;
-}
-
-static gboolean
-scrolled (GtkEventControllerScroll *c, double dx, double dy, LwPlotPane *self)
-{
-  double lf, left, width, lo, hi;
-  if (dy == 0 || !self->has_hover || !pixel_log_f (self, self->hover_x, &lf, &left, &width)
-      || !lw_plot_get_x_view (self->plot, &lo, &hi))
-    return FALSE;
-  /* zoom about the frequency under the pointer: 1.25× per scroll step */
-  double k = pow (1.25, dy);
-  double a = log10 (lo), b = log10 (hi);
-  double na = lf + (a - lf) * k, nb = lf + (b - lf) * k;
-  if (nb - na < 0.05 || nb - na > 12)
-    return TRUE;
-  apply_view (self, pow (10.0, na), pow (10.0, nb), TRUE);
-  return TRUE;
-}
-
-static void
-pan_begin_at (LwPlotPane *self, double x)
-{
-  double lo, hi;
-  if (self->plot == NULL || !lw_plot_get_x_view (self->plot, &lo, &hi))
-    return;
-  self->panning = TRUE;
-  self->pan_lo = lo;
-  self->pan_hi = hi;
-  self->pan_start_x = x;
-}
-
-static void
-pan_to (LwPlotPane *self, double x)
-{
-  double left, top, w, h;
-  if (!self->panning || !lw_plot_panel_rect (self->plot, 0, &left, &top, &w, &h) || w <= 0)
-    return;
-  double decades = log10 (self->pan_hi / self->pan_lo);
-  double shift = -(x - self->pan_start_x) / w * decades;
-  double f = pow (10.0, shift);
-  apply_view (self, self->pan_lo * f, self->pan_hi * f, TRUE);
-}
-
-static void
-pan_gesture_begin (GtkGestureDrag *g, double x, double y, LwPlotPane *self)
-{
-  if (!lw_plot_view_has (self->view, LW_PLOT_VIEW_FREQUENCY_AXIS))
-    {
-      gtk_gesture_set_state (GTK_GESTURE (g), GTK_EVENT_SEQUENCE_DENIED);
-      return;
-    }
-  gtk_gesture_set_state (GTK_GESTURE (g), GTK_EVENT_SEQUENCE_CLAIMED);
-  pan_begin_at (self, x);
-}
-
-static void
-pan_gesture_update (GtkGestureDrag *g, double dx, double dy, LwPlotPane *self)
-{
-  pan_to (self, self->pan_start_x + dx);
-}
-
-static void
-pan_gesture_end (GtkGestureDrag *g, double dx, double dy, LwPlotPane *self)
-{
-  self->panning = FALSE;
 }
 
 LwPlot *
@@ -649,7 +466,7 @@ lw_plot_pane_set_theme (LwPlotPane *self, LwPlotTheme theme)
   self->theme = theme;
   if (self->plot != NULL)
     lw_plot_set_theme (self->plot, theme);
-  invalidate_cache (self);
+  lwpp_invalidate_cache (self);
 }
 
 void
