@@ -8,6 +8,7 @@
 #include <math.h>
 
 #include "lw-helper-dialog.h"
+#include "lw-number-field.h"
 #include "lw-number.h"
 
 /* The pause after a keystroke before the proposal is made again. */
@@ -80,16 +81,13 @@ read_fields (LwHelperDialog *self, LwHelperOptions *o, char **why)
       gtk_widget_remove_css_class (GTK_WIDGET (self->entries[i]), "error");
       if (trimmed[0] == '\0' && fields[i].empty != NULL)
         continue;
+      /* the window's one reading of a typed number (lw-number-field.h) */
       double v;
-      if (lw_number_parse (trimmed, &v) != LW_NUMBER_OK)
+      g_autofree char *reason = NULL;
+      if (!lw_number_field_parse (trimmed, -G_MAXDOUBLE, G_MAXDOUBLE, FALSE, &v, &reason))
         {
           gtk_widget_add_css_class (GTK_WIDGET (self->entries[i]), "error");
-          gboolean comma = strchr (trimmed, ',') != NULL;
-          *why = g_strdup_printf (comma ? _("%s: “%s” is not a number; write the decimal "
-                                            "point as “.”")
-                                        : _("%s: “%s” is not a number (for example 25, 0.5 "
-                                            "or 1e-3)"),
-                                  _(fields[i].title), trimmed);
+          *why = g_strdup_printf ("%s: %s", _(fields[i].title), reason);
           return FALSE;
         }
       *slot = v;
