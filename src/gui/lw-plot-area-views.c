@@ -5,6 +5,8 @@
  */
 #include "config.h"
 
+#include <stdio.h>
+
 #include <glib/gi18n.h>
 
 #include "lw-plot-area-private.h"
@@ -48,6 +50,12 @@ pane_menu_open (LwPlotPane *pane, double x)
   gtk_popover_set_has_arrow (GTK_POPOVER (popover), FALSE);
   g_signal_connect (popover, "closed", G_CALLBACK (menu_closed), NULL);
   gtk_popover_popup (GTK_POPOVER (popover));
+  if (g_strcmp0 (g_getenv ("LW_DEBUG_HANDLES"), "1") == 0)
+    {
+      /* for the window tests: the menu is up and takes the keys */
+      printf ("LW-PANE-MENU pane=%u\n", index);
+      fflush (stdout);
+    }
 }
 
 /* The secondary button on a pane opens its menu of views */

@@ -1,10 +1,11 @@
 #!/usr/bin/python3
 """Any view in any pane (Xvfb): on a copy of the camera slider, the secondary button on the
-Nyquist pane opens its menu of views; the last item (Up from the first wraps to it) is the
-sensitivity view, which takes the pane (the window's debug line LW-ARRANGE shows it at the
-pane's place and Nyquist nowhere); the saved document lists it in <view shows="…">, in pane
-order; one Ctrl+Z brings the Nyquist pane back and the document as it was. A design whose
-<view shows> starts with the pole-zero map opens with it in the first pane.
+Nyquist pane opens its menu of views; with the pointer off the menu, Up twice reaches the
+sensitivity view (the last item but one), which takes the pane (the window's debug line
+LW-ARRANGE shows it at the pane's place and Nyquist nowhere); the saved document lists it in
+<view shows="…">, in pane order; one Ctrl+Z brings the Nyquist pane back and the document
+as it was. A design whose <view shows> starts with the pole-zero map opens with it in the
+first pane.
 
 Usage: test-pane-views.py LOOPWRIGHT SCHEMA_DIR EXAMPLE ARTEFACT_DIR
 Re-runs itself under `xvfb-run -a` (exit 77, skipped, when xvfb-run or xdotool is missing).
@@ -51,12 +52,20 @@ def inner(app, schema_dir, example, artefacts):
                 p = last_line(log_path, 'LW-PANEL', view='nyquist')
                 x0, y0 = window_origin(wid)
                 x = x0 + round(float(p['left']) + float(p['width']) / 2)
-                y = y0 + round(float(p['top']) + float(p['height']) / 2)
+                # low in the pane: the menu drops from the pane's top, so it opens with no
+                # item under the pointer (a hovered item would take the keys)
+                y = y0 + round(float(p['top']) + 0.9 * float(p['height']))
                 run('xdotool', 'mousemove', '--sync', str(x), str(y))
                 run('xdotool', 'click', '3')
-                time.sleep(0.8)
-                run('xdotool', 'key', '--clearmodifiers', 'Up')
-                time.sleep(0.2)
+                wait_for(lambda: last_line(log_path, 'LW-PANE-MENU'), 'the pane\'s menu')
+                time.sleep(0.5)
+                # the pointer off the menu (a hovered item would take the keys), then from no
+                # item Up goes to the last, disturbance, and once more to sensitivity
+                run('xdotool', 'mousemove', '--sync', str(x0 + 20), str(y0 + 20))
+                time.sleep(0.3)
+                for _ in range(2):
+                    run('xdotool', 'key', '--clearmodifiers', 'Up')
+                    time.sleep(0.2)
                 run('xdotool', 'key', '--clearmodifiers', 'Return')
                 got = wait_for(lambda: (arrangement(log_path) or {}).get('sensitivity'),
                                'the sensitivity view in a pane')
