@@ -255,6 +255,16 @@ lw_cli_doc_select (const LwDesign *d, const char *name, bool all, const char *al
 }
 
 void
+lw_cli_doc_shown (const LwDesign *d, size_t **indices, size_t *n)
+{
+  *indices = g_new (size_t, d->n_variants);
+  *n = 0;
+  for (size_t i = 0; i < d->n_variants; i++)
+    if (i == d->active || d->variants[i].compared)
+      (*indices)[(*n)++] = i;
+}
+
+void
 lw_cli_doc_loop_args (const LwDesign *d, LwCliLoopArgs *out)
 {
   char buf[G_ASCII_DTOSTR_BUF_SIZE];

@@ -69,6 +69,10 @@ int lw_cli_doc_refuse_loop_options (const char *cmd, const char *file, const LwC
  * document's order) or, with neither, the active one. `all_option` names the option in the
  * message when both are given. *indices is new (g_free), *n >= 1. Returns LW_EXIT_OK or
  * LW_EXIT_BAD_INPUT after printing the message. */
+/* What the window shows of the document: the active variant and those marked compared, in the
+ * document's order (--compared). *indices is new (g_free), *n >= 1. */
+void lw_cli_doc_shown (const LwDesign *d, size_t **indices, size_t *n);
+
 int lw_cli_doc_select (const LwDesign *d, const char *name, bool all, const char *all_option,
                        size_t **indices, size_t *n);
 

@@ -23,7 +23,8 @@
 /* The help is put together at run time: its list of views is the view table's. */
 static const char plot_help_head[] =
   "Usage: " LW_CLI_PROG " plot --plant EXPR --period SECONDS --view VIEW --out FILE [options]\n"
-  "       " LW_CLI_PROG " plot FILE.lwd [--variant NAME | --all-variants] --view VIEW\n"
+  "       " LW_CLI_PROG " plot FILE.lwd [--variant NAME | --all-variants | --compared]\n"
+  "       --view VIEW"
   "       --out FILE [options]\n"
   "\n"
   "Draws one view of a sampled loop and writes it as a PNG, SVG or PDF file (by the\n"
@@ -31,7 +32,8 @@ static const char plot_help_head[] =
   "\n"
   "Given a design document (FILE.lwd), the loop comes from it: the active variant, or\n"
   "--variant NAME, or with --all-variants every variant overlaid (at most 6), each named\n"
-  "in the legend; the document's phase-margin requirement is marked unless\n"
+  "in the legend, or with --compared the active variant and those the document marks\n"
+  "compared (what the window shows); the document's phase-margin requirement is marked unless\n"
   "--min-phase-margin is given. The loop options and --name are then not accepted.\n"
   "\n"
   "Views:\n";
@@ -47,6 +49,7 @@ static const char plot_help_tail[] =
   "  --controller-z EXPR      controller C(z), proper, in z (instead of --controller)\n"
   "  --variant NAME           the variant of FILE.lwd to draw (default: the active one)\n"
   "  --all-variants           every variant of FILE.lwd, overlaid\n"
+  "  --compared               the active variant of FILE.lwd and those marked compared\n"
   "  --view VIEW              one of the views above (required)\n"
   "  --out FILE               FILE.png, FILE.svg or FILE.pdf (required)\n"
   "  --size WxH               width and height, 16 to 20000 (pixels for PNG, points for\n"
@@ -71,6 +74,7 @@ typedef struct
   char **files;
   char *variant;
   gboolean all;
+  gboolean compared;
   gboolean help;
 } PlotArgs;
 
@@ -241,13 +245,13 @@ plot_write (const PlotSpec *s, const PlotVariantSource *src, size_t n)
           status = lw_cli_report_core_error ("plot", &err);
           goto out;
         }
-      /* a limited actuator: the limited step and u(kT) with its limits */
+      /* the time responses the variant shows (a limited actuator: the limited step and
+         u(kT) with its limits) */
       if (src[filled].eval != NULL)
         {
-          lw_figure_variant_set_response (&fv[filled], src[filled].eval->sim_ref,
-                                          &src[filled].eval->sim_options, false);
-          lw_figure_variant_set_disturbances (&fv[filled], src[filled].eval->sim_in,
-                                              src[filled].eval->sim_out);
+          const LwVariantEval *ve = src[filled].eval;
+          lw_figure_variant_set_responses (&fv[filled], ve->sim_ref, &ve->sim_options,
+                                           ve->sim_in, ve->sim_out, ve->responses);
         }
       pv[filled] = fv[filled].v;
       pv[filled].style = n > 1 ? src[filled].style : 0;   /* one variant: the first colour */
@@ -256,6 +260,11 @@ plot_write (const PlotSpec *s, const PlotVariantSource *src, size_t n)
   in.view = s->view;
   in.nyquist_rad_s = G_PI / src[0].ev->period_s;
   in.title = s->title;
+  if (src[0].eval != NULL)
+    {
+      in.input_unit = src[0].eval->input_unit;
+      in.output_unit = src[0].eval->output_unit;
+    }
   in.n_variants = n;
   in.variants = pv;
   lw_figure_requirements (&in.req, src[0].ev->period_s, s->has_target, s->target_rad_s,
@@ -333,8 +342,16 @@ plot_run_document (const PlotArgs *a)
     return status;
   g_autofree size_t *which = NULL;
   size_t n = 0;
-  status = lw_cli_doc_select (d, a->variant, a->all, "--all-variants", &which, &n);
-  if (status != LW_EXIT_OK)
+  if (a->compared && (a->variant != NULL || a->all))
+    {
+      lw_cli_bad_input ("--compared", "cannot be combined with %s; give one of them",
+                        a->all ? "--all-variants" : "--variant");
+      return LW_EXIT_BAD_INPUT;
+    }
+  if (a->compared)
+    lw_cli_doc_shown (d, &which, &n);
+  else if ((status = lw_cli_doc_select (d, a->variant, a->all, "--all-variants", &which, &n))
+           != LW_EXIT_OK)
     return status;
   if (n > LW_PLOT_MAX_VARIANTS)
     {
@@ -383,9 +400,9 @@ plot_run (void *data)
   const PlotArgs *a = data;
   if (a->files != NULL && a->files[0] != NULL)
     return plot_run_document (a);
-  if (a->variant != NULL || a->all)
+  if (a->variant != NULL || a->all || a->compared)
     {
-      lw_cli_bad_input (a->all ? "--all-variants" : "--variant",
+      lw_cli_bad_input (a->all ? "--all-variants" : a->compared ? "--compared" : "--variant",
                         "needs a design document (FILE.lwd) to pick from");
       return LW_EXIT_BAD_INPUT;
     }
@@ -437,6 +454,7 @@ lw_cmd_plot (int argc, char **argv)
     { "steps", 0, 0, G_OPTION_ARG_STRING, &a.steps, NULL, NULL },
     { "variant", 0, 0, G_OPTION_ARG_STRING, &a.variant, NULL, NULL },
     { "all-variants", 0, 0, G_OPTION_ARG_NONE, &a.all, NULL, NULL },
+    { "compared", 0, 0, G_OPTION_ARG_NONE, &a.compared, NULL, NULL },
     { "help", 'h', 0, G_OPTION_ARG_NONE, &a.help, NULL, NULL },
     { G_OPTION_REMAINING, 0, 0, G_OPTION_ARG_FILENAME_ARRAY, &a.files, NULL, NULL },
     { NULL, 0, 0, 0, NULL, NULL, NULL }

@@ -16,8 +16,8 @@
 #include "lw-report.h"
 
 static const char report_help[] =
-  "Usage: " LW_CLI_PROG " report FILE.lwd --out REPORT.html|REPORT.pdf [--variants A,B]\n"
-  "       [--date YYYY-MM-DD]\n"
+  "Usage: " LW_CLI_PROG " report FILE.lwd --out REPORT.html|REPORT.pdf\n"
+  "       [--variants A,B | --compared] [--date YYYY-MM-DD]\n"
   "\n"
   "Writes the design report of a document: title, author, date and notes; the plant in s,\n"
   "z and w; sampling and delays; for each variant its stages, the controller in w and z,\n"
@@ -30,6 +30,8 @@ static const char report_help[] =
   "                           (A4 pages) (required)\n"
   "  --variants A,B,...       the variants to report and compare, by name, separated by\n"
   "                           commas (default: every variant; at most 6)\n"
+  "  --compared               the active variant and those the document marks compared\n"
+  "                           (what the window shows)\n"
   "  --date YYYY-MM-DD        the date printed in the report and written as the PDF's\n"
   "                           creation date (default: SOURCE_DATE_EPOCH when set, else\n"
   "                           \"not stated\"); the same document and date give the same bytes\n"
@@ -43,6 +45,7 @@ typedef struct
   char **files;
   char *out;
   char *variants;
+  gboolean compared;
   char *date;
   gboolean help;
 } ReportArgs;
@@ -157,8 +160,14 @@ report_run (void *data)
     return status;
   g_autofree size_t *which = NULL;
   size_t n = 0;
-  status = select_variants (d, a->variants, &which, &n);
-  if (status != LW_EXIT_OK)
+  if (a->compared && a->variants != NULL)
+    {
+      lw_cli_bad_input ("--compared", "cannot be combined with --variants; give one of them");
+      return LW_EXIT_BAD_INPUT;
+    }
+  if (a->compared)
+    lw_cli_doc_shown (d, &which, &n);
+  else if ((status = select_variants (d, a->variants, &which, &n)) != LW_EXIT_OK)
     return status;
   if (n > LW_PLOT_MAX_VARIANTS)
     {
@@ -190,6 +199,7 @@ lw_cmd_report (int argc, char **argv)
   const GOptionEntry entries[] = {
     { "out", 0, 0, G_OPTION_ARG_FILENAME, &a.out, NULL, NULL },
     { "variants", 0, 0, G_OPTION_ARG_STRING, &a.variants, NULL, NULL },
+    { "compared", 0, 0, G_OPTION_ARG_NONE, &a.compared, NULL, NULL },
     { "date", 0, 0, G_OPTION_ARG_STRING, &a.date, NULL, NULL },
     { "help", 'h', 0, G_OPTION_ARG_NONE, &a.help, NULL, NULL },
     { G_OPTION_REMAINING, 0, 0, G_OPTION_ARG_FILENAME_ARRAY, &a.files, NULL, NULL },

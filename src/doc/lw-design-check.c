@@ -50,6 +50,15 @@ lw_design_validate (const LwDesign *d, GError **error)
   if (!check_text ("the title", d->title, error) || !check_text ("the author", d->author, error)
       || !check_text ("the notes", d->notes, error) || !check_text ("the plant", d->plant, error))
     return FALSE;
+  const char *const unit_names[2] = { "the plant's input unit", "the plant's output unit" };
+  const char *const units[2] = { d->input_unit, d->output_unit };
+  for (int i = 0; i < 2; i++)
+    if (units[i] != NULL && lw_design_unit_problem (units[i]) != NULL)
+      {
+        g_set_error (error, LW_DESIGN_ERROR, LW_DESIGN_ERROR_VALUE, "%s '%s' cannot be saved: %s",
+                     unit_names[i], units[i], lw_design_unit_problem (units[i]));
+        return FALSE;
+      }
   if (d->plant == NULL)
     {
       g_set_error (error, LW_DESIGN_ERROR, LW_DESIGN_ERROR_VALUE, "the design has no plant");
@@ -181,6 +190,13 @@ lw_design_validate (const LwDesign *d, GError **error)
                        "variant '%s': the actuator limits must be finite with low < high (got "
                        "%g and %g), and the reference step finite and positive (got %g)",
                        v->name, v->u_low, v->u_high, v->reference_step);
+          return FALSE;
+        }
+      if ((v->responses & ~LW_DESIGN_RESPONSES_ALL) != 0)
+        {
+          g_set_error (error, LW_DESIGN_ERROR, LW_DESIGN_ERROR_VALUE,
+                       "variant '%s': unknown responses to show (flags 0x%x)", v->name,
+                       v->responses);
           return FALSE;
         }
       if (v->n_stages > LW_DESIGN_MAX_STAGES)

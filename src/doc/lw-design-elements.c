@@ -108,6 +108,19 @@ read_stage (Reader *r, const xmlNode *e, const LwDesignVariant *v, size_t index,
   return true;
 }
 
+/* A unit attribute of <plant> (lw_design_unit_problem) */
+static bool
+read_unit (Reader *r, const xmlNode *e, const char *name, char **out)
+{
+  if (!lw_load_text_attr (r, e, "", name, false, out))
+    return false;
+  const char *problem = *out != NULL ? lw_design_unit_problem (*out) : NULL;
+  if (problem != NULL)
+    return lw_load_fail (r, e, LW_DESIGN_ERROR_VALUE, ": attribute '%s' ('%s'): %s", name, *out,
+                         problem);
+  return true;
+}
+
 /* <actuator low="…" high="…" anti_windup="true|false"/> of a variant */
 static bool
 read_actuator (Reader *r, const xmlNode *e, LwDesignVariant *v)
@@ -134,10 +147,44 @@ read_actuator (Reader *r, const xmlNode *e, LwDesignVariant *v)
   return true;
 }
 
+/* <responses shows="reference actuator input-disturbance output-disturbance"/> of a variant:
+ * the time responses drawn for it (any of the four, in any order, each once; may be empty) */
+static bool
+read_responses (Reader *r, const xmlNode *e, LwDesignVariant *v)
+{
+  static const char *const allowed[] = { "shows", NULL };
+  g_autofree char *where = g_strdup_printf (" of variant '%s'", v->name);
+  if (!lw_load_check_attributes (r, e, where, allowed) || !lw_load_no_children (r, e, where))
+    return false;
+  g_autofree char *shows = NULL;
+  if (!lw_load_text_attr (r, e, where, "shows", true, &shows))
+    return false;
+  g_auto (GStrv) words = g_strsplit_set (shows, " \t\r\n", -1);
+  unsigned mask = 0;
+  for (size_t i = 0; words[i] != NULL; i++)
+    {
+      if (words[i][0] == '\0')
+        continue;
+      unsigned k = 0;
+      while (lw_design_response_name (k) != NULL && strcmp (lw_design_response_name (k), words[i]) != 0)
+        k++;
+      if (lw_design_response_name (k) == NULL)
+        return lw_load_fail (r, e, LW_DESIGN_ERROR_VALUE, "%s: attribute 'shows': '%s' is not a "
+                             "response; expected any of reference, actuator, input-disturbance, "
+                             "output-disturbance", where, words[i]);
+      if (mask & (1u << k))
+        return lw_load_fail (r, e, LW_DESIGN_ERROR_VALUE, "%s: attribute 'shows': '%s' is "
+                             "listed twice", where, words[i]);
+      mask |= 1u << k;
+    }
+  v->responses = mask;
+  return true;
+}
+
 static bool
 read_variant (Reader *r, const xmlNode *e, LwDesign *d)
 {
-  static const char *const allowed[] = { "name", "period_s", NULL };
+  static const char *const allowed[] = { "name", "period_s", "compared", NULL };
   if (!lw_load_check_attributes (r, e, "", allowed))
     return false;
   g_autofree char *name = NULL;
@@ -161,7 +208,12 @@ read_variant (Reader *r, const xmlNode *e, LwDesign *d)
   if (d->n_variants >= LW_DESIGN_MAX_VARIANTS)
     return lw_load_fail (r, e, LW_DESIGN_ERROR_LIMIT, ": more than %d variants",
                  LW_DESIGN_MAX_VARIANTS);
+  g_autofree char *compared = lw_load_attribute (e, "compared");
+  if (compared != NULL && strcmp (compared, "true") != 0 && strcmp (compared, "false") != 0)
+    return lw_load_fail (r, e, LW_DESIGN_ERROR_VALUE, "%s: attribute 'compared' must be 'true' or "
+                         "'false', got '%s'", where, compared);
   LwDesignVariant *v = lw_design_add_variant (d, name);
+  v->compared = compared != NULL && strcmp (compared, "true") == 0;
   v->has_period = has_period;
   v->period_s = has_period ? period_s : 0.0;
   const xmlNode *c = lw_load_next_element (r, e, e->children);
@@ -180,6 +232,12 @@ read_variant (Reader *r, const xmlNode *e, LwDesign *d)
   if (lw_load_is_element (c, "actuator"))
     {
       if (!read_actuator (r, c, v))
+        return false;
+      c = lw_load_next_element (r, e, c->next);
+    }
+  if (lw_load_is_element (c, "responses"))
+    {
+      if (!read_responses (r, c, v))
         return false;
       c = lw_load_next_element (r, e, c->next);
     }
@@ -341,11 +399,13 @@ lw_load_read_design (Reader *r, const xmlNode *root)
   /* <plant dead_time_s="…">expression</plant> */
   if (!lw_load_is_element (c, "plant"))
     return lw_load_missing (r, root, c, "plant", "<title>, <author> and <notes>"), NULL;
-  static const char *const plant_attrs[] = { "dead_time_s", NULL };
+  static const char *const plant_attrs[] = { "dead_time_s", "input_unit", "output_unit", NULL };
   const xmlNode *plant_el = c;
   if (!lw_load_check_attributes (r, c, "", plant_attrs)
       || !lw_load_number_attr (r, c, "", "dead_time_s", LW_NUM_NONNEGATIVE, false, &d->dead_time_s,
-                       NULL))
+                       NULL)
+      || !read_unit (r, c, "input_unit", &d->input_unit)
+      || !read_unit (r, c, "output_unit", &d->output_unit))
     return NULL;
   d->dead_time_s += 0.0;   /* -0 becomes +0 */
   d->plant = lw_load_element_text (r, c);

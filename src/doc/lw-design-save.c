@@ -123,6 +123,10 @@ lw_design_to_text (const LwDesign *d, size_t *len_out, GError **error)
   indent (o, 1);
   g_string_append (o, "<plant");
   attr_number (o, "dead_time_s", d->dead_time_s);
+  if (d->input_unit != NULL)
+    attr_text (o, "input_unit", d->input_unit);
+  if (d->output_unit != NULL)
+    attr_text (o, "output_unit", d->output_unit);
   g_string_append_c (o, '>');
   append_escaped (o, d->plant, FALSE);
   g_string_append (o, "</plant>\n");
@@ -167,7 +171,10 @@ lw_design_to_text (const LwDesign *d, size_t *len_out, GError **error)
       attr_text (o, "name", v->name);
       if (v->has_period)
         attr_number (o, "period_s", v->period_s);
-      if (v->notes == NULL && v->n_stages == 0 && !v->has_actuator)
+      if (v->compared)
+        attr_text (o, "compared", "true");
+      bool all_responses = v->responses == LW_DESIGN_RESPONSES_ALL;
+      if (v->notes == NULL && v->n_stages == 0 && !v->has_actuator && all_responses)
         {
           g_string_append (o, "/>\n");
           continue;
@@ -186,6 +193,19 @@ lw_design_to_text (const LwDesign *d, size_t *len_out, GError **error)
           if (v->reference_step > 0.0)
             attr_number (o, "reference_step", v->reference_step);
           g_string_append (o, "/>\n");
+        }
+      if (!all_responses)
+        {
+          GString *list = g_string_new (NULL);
+          for (unsigned k = 0; k < LW_DESIGN_N_RESPONSES; k++)
+            if (v->responses & (1u << k))
+              g_string_append_printf (list, "%s%s", list->len > 0 ? " " : "",
+                                      lw_design_response_name (k));
+          indent (o, 3);
+          g_string_append (o, "<responses");
+          attr_text (o, "shows", list->str);
+          g_string_append (o, "/>\n");
+          g_string_free (list, TRUE);
         }
       for (size_t j = 0; j < v->n_stages; j++)
         {

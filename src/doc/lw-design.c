@@ -110,6 +110,33 @@ lw_design_view_name_problem (const char *name)
   return NULL;
 }
 
+const char *
+lw_design_unit_problem (const char *s)
+{
+  size_t n = strlen (s);
+  if (n == 0)
+    return "it is empty";
+  if (n > LW_DESIGN_UNIT_MAX)
+    return "it is longer than 32 bytes";
+  const char *problem = lw_design_text_problem (s);
+  if (problem != NULL)
+    return problem;
+  if (strpbrk (s, "\t\n\r") != NULL)
+    return "it holds a tab or a line break";
+  if (s[0] == ' ' || s[n - 1] == ' ')
+    return "it starts or ends with a space";
+  return NULL;
+}
+
+const char *
+lw_design_response_name (unsigned i)
+{
+  static const char *const names[LW_DESIGN_N_RESPONSES] = {
+    "reference", "actuator", "input-disturbance", "output-disturbance"
+  };
+  return i < LW_DESIGN_N_RESPONSES ? names[i] : NULL;
+}
+
 /* ---- the model ---------------------------------------------------------------------------- */
 
 void
@@ -150,6 +177,8 @@ lw_design_free (LwDesign *d)
   g_free (d->author);
   g_free (d->notes);
   g_free (d->plant);
+  g_free (d->input_unit);
+  g_free (d->output_unit);
   for (size_t i = 0; i < d->n_requirements; i++)
     g_free (d->requirements[i].name);
   g_free (d->requirements);
@@ -170,6 +199,8 @@ lw_design_copy (const LwDesign *d)
   c->author = g_strdup (d->author);
   c->notes = g_strdup (d->notes);
   c->plant = g_strdup (d->plant);
+  c->input_unit = g_strdup (d->input_unit);
+  c->output_unit = g_strdup (d->output_unit);
   c->views = g_strdupv (d->views);
   c->requirements = g_new0 (LwDesignRequirement, d->n_requirements);
   for (size_t i = 0; i < d->n_requirements; i++)
@@ -190,6 +221,8 @@ lw_design_copy (const LwDesign *d)
       c->variants[i].u_high = v->u_high;
       c->variants[i].anti_windup = v->anti_windup;
       c->variants[i].reference_step = v->reference_step;
+      c->variants[i].responses = v->responses;
+      c->variants[i].compared = v->compared;
       c->variants[i].n_stages = v->n_stages;
       c->variants[i].stages = g_memdup2 (v->stages, v->n_stages * sizeof *v->stages);
     }
@@ -204,6 +237,7 @@ lw_design_add_variant (LwDesign *d, const char *name)
   LwDesignVariant *v = &d->variants[d->n_variants++];
   memset (v, 0, sizeof *v);
   v->name = g_strdup (name != NULL ? name : "");
+  v->responses = LW_DESIGN_RESPONSES_ALL;
   return v;
 }
 
@@ -274,6 +308,7 @@ lw_design_equal (const LwDesign *a, const LwDesign *b)
     return a == b;
   if (!str_equal (a->title, b->title) || !str_equal (a->author, b->author)
       || !str_equal (a->notes, b->notes) || !str_equal (a->plant, b->plant)
+      || !str_equal (a->input_unit, b->input_unit) || !str_equal (a->output_unit, b->output_unit)
       || a->dead_time_s != b->dead_time_s || a->period_s != b->period_s || a->hold != b->hold
       || a->compute_delay != b->compute_delay || a->n_requirements != b->n_requirements
       || a->n_variants != b->n_variants || a->active != b->active
@@ -301,6 +336,7 @@ lw_design_equal (const LwDesign *a, const LwDesign *b)
           || (x->has_actuator && (x->u_low != y->u_low || x->u_high != y->u_high
                                   || x->anti_windup != y->anti_windup
                                   || x->reference_step != y->reference_step))
+          || x->responses != y->responses || x->compared != y->compared
           || x->n_stages != y->n_stages)
         return false;
       for (size_t j = 0; j < x->n_stages; j++)

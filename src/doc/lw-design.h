@@ -72,6 +72,31 @@ typedef enum
   LW_HOLD_ZERO_ORDER = 0      /* "zero-order" */
 } LwHold;
 
+/* The time responses a variant can show (LwDesignVariant.responses): the reference step,
+ * the actuator signal u(t) under it, the steps of a disturbance at the plant's input and at
+ * its output. Their names in the document: lw_design_response_name. */
+typedef enum
+{
+  LW_DESIGN_RESPONSE_REFERENCE = 1u << 0,
+  LW_DESIGN_RESPONSE_ACTUATOR = 1u << 1,
+  LW_DESIGN_RESPONSE_INPUT_DISTURBANCE = 1u << 2,
+  LW_DESIGN_RESPONSE_OUTPUT_DISTURBANCE = 1u << 3
+} LwDesignResponse;
+#define LW_DESIGN_N_RESPONSES 4
+#define LW_DESIGN_RESPONSES_ALL 0xfu
+
+/* The document's name of response flag i (0 … LW_DESIGN_N_RESPONSES − 1, in flag order:
+ * "reference", "actuator", "input-disturbance", "output-disturbance"); NULL past the end. */
+const char *lw_design_response_name (unsigned i);
+
+/* Longest unit text a document holds, in bytes. */
+#define LW_DESIGN_UNIT_MAX 32
+
+/* NULL when s can be a unit of the plant's input or output: 1 … LW_DESIGN_UNIT_MAX bytes of
+ * text (lw_design_text_problem) without line breaks or tabs and without spaces at either end;
+ * else a sentence saying what is wrong (a static string). */
+const char *lw_design_unit_problem (const char *s);
+
 /* Longest view name a document holds, in bytes. */
 #define LW_DESIGN_VIEW_NAME_MAX 32
 
@@ -96,6 +121,12 @@ typedef struct
   /* the size of the reference step the limits are checked with, in the output's units
    * (> 0, finite; 0: not given, a unit step) */
   double reference_step;
+  /* which time responses are drawn for this variant (LW_DESIGN_RESPONSE_* flags; a new
+   * variant shows all of them) */
+  unsigned responses;
+  /* compared with the active variant where the design is shown (the window's choice, kept
+   * with the document so that it opens as it was left) */
+  bool compared;
   size_t n_stages;
   LwStage *stages;            /* n_stages, in order (the compensator is their product) */
 } LwDesignVariant;
@@ -107,6 +138,10 @@ typedef struct
   char *notes;                /* optional */
   char *plant;                /* P(s) as typed: a proper rational expression in s (lw-expr.h) */
   double dead_time_s;         /* plant input dead time, >= 0, s */
+  /* the units of the plant's input (the actuator's, u) and output (the measured quantity,
+   * y), as short free texts ("V", "mm"); NULL: not given (lw_design_unit_problem) */
+  char *input_unit;
+  char *output_unit;
   double period_s;            /* sample period T, > 0, s */
   LwHold hold;
   int compute_delay;          /* computation delay N, whole samples, 0 … 1000 */

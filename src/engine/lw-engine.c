@@ -252,6 +252,8 @@ eval_clear (gpointer data)
   g_clear_pointer (&e->sim_in, lw_sim_response_free);
   g_clear_pointer (&e->sim_out, lw_sim_response_free);
   g_clear_pointer (&e->requirements, g_free);
+  g_clear_pointer (&e->input_unit, g_free);
+  g_clear_pointer (&e->output_unit, g_free);
   e->sampled = NULL;
   g_clear_pointer (&p->shared, shared_plant_release);
 }
@@ -275,6 +277,7 @@ eval_new (void)
 {
   EvalPrivate *p = g_atomic_rc_box_new0 (EvalPrivate);
   p->pub.error_position = -1;
+  p->pub.responses = LW_DESIGN_RESPONSES_ALL;
   p->pub.plant_z_form_error = NAN;
   p->pub.plant_w_form_error = NAN;
   return p;
@@ -468,6 +471,9 @@ lw_engine_evaluate_variant (const LwDesign *d, size_t variant, const LwEngineOpt
   LwVariantEval *e = &p->pub;
   const LwDesignVariant *v = &d->variants[variant];
   e->variant = variant;
+  e->responses = d->variants[variant].responses;
+  e->input_unit = g_strdup (d->input_unit);
+  e->output_unit = g_strdup (d->output_unit);
   e->period_s = lw_design_variant_period_s (d, variant);   /* its own, or the design's */
   e->dead_time_s = d->dead_time_s;
   e->compute_delay = d->compute_delay;

@@ -169,6 +169,13 @@ typedef struct
    * (LwDesignVariant.has_actuator) */
   LwSimOptions sim_options;
   double reference_step;          /* the size of the reference step simulated (1: a unit step) */
+  /* the time responses the variant shows (LwDesignVariant.responses; all of them for a loop
+   * without a document) */
+  unsigned responses;
+  /* the units of the plant's input and output (LwDesign.input_unit, .output_unit), copies;
+   * NULL when not given or without a document */
+  char *input_unit;
+  char *output_unit;
 } LwVariantEval;
 
 /* Evaluates variant `variant` of d. cache (may be NULL) keeps the sampled plant between

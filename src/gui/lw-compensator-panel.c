@@ -41,7 +41,7 @@ struct _LwCompensatorPanel
   GtkLabel *actuator_problem;
   GtkBox *compare_box;
   gboolean updating;            /* the variant widgets are being filled from the model */
-  GPtrArray *compared;          /* names of the variants compared (shown as checked) */
+  GtkCheckButton *shows[LW_DESIGN_N_RESPONSES];   /* the responses the variant shows */
 
   gboolean debug;               /* LW_DEBUG_HANDLES=1: print where the Variants button is */
   char *debug_last;
@@ -81,12 +81,10 @@ rebuild_rows (LwCompensatorPanel *self)
 /* ---- variants ---------------------------------------------------------------------------- */
 
 static gboolean
-is_compared (LwCompensatorPanel *self, const char *name)
+is_compared (LwCompensatorPanel *self, guint i)
 {
-  for (guint i = 0; i < self->compared->len; i++)
-    if (g_strcmp0 (self->compared->pdata[i], name) == 0)
-      return TRUE;
-  return FALSE;
+  const LwDesign *d = lw_design_model_get_design (self->model);
+  return i < d->n_variants && d->variants[i].compared;
 }
 
 static void
@@ -177,6 +175,51 @@ reference_step_edited (LwCompensatorPanel *self)
                               gtk_spin_button_get_value (self->reference_step));
 }
 
+static void
+shows_toggled (LwCompensatorPanel *self)
+{
+  if (self->updating || self->model == NULL)
+    return;
+  unsigned mask = 0;
+  for (unsigned k = 0; k < LW_DESIGN_N_RESPONSES; k++)
+    if (gtk_check_button_get_active (self->shows[k]))
+      mask |= 1u << k;
+  gtk_widget_activate_action (GTK_WIDGET (self), "window.variant-responses", "u", mask);
+}
+
+/* The time responses the variant shows, one switch each, two by two (the panel keeps its
+ * width). */
+static GtkWidget *
+build_shows_row (LwCompensatorPanel *self)
+{
+  static const struct { const char *label, *tip; } what[LW_DESIGN_N_RESPONSES] = {
+    { N_("St_ep"), N_("The reference step response in the step view") },
+    { N_("_u(t)"), N_("The actuator signal under the reference step") },
+    { N_("_Input dist."), N_("The output after a unit step disturbance at the plant's "
+                             "input, in the disturbance view") },
+    { N_("_Output dist."), N_("The output after a unit step disturbance at the plant's "
+                              "output, in the disturbance view") },
+  };
+  GtkWidget *grid = gtk_grid_new ();
+  gtk_grid_set_column_spacing (GTK_GRID (grid), 12);
+  gtk_grid_set_column_homogeneous (GTK_GRID (grid), FALSE);
+  GtkWidget *head = gtk_label_new (_("Shows:"));
+  gtk_label_set_xalign (GTK_LABEL (head), 0.0f);
+  gtk_widget_set_valign (head, GTK_ALIGN_START);
+  gtk_widget_set_margin_top (head, 4);
+  gtk_grid_attach (GTK_GRID (grid), head, 0, 0, 1, 2);
+  for (unsigned k = 0; k < LW_DESIGN_N_RESPONSES; k++)
+    {
+      self->shows[k] = GTK_CHECK_BUTTON (gtk_check_button_new_with_mnemonic (_(what[k].label)));
+      gtk_widget_set_tooltip_text (GTK_WIDGET (self->shows[k]), _(what[k].tip));
+      gtk_widget_set_hexpand (GTK_WIDGET (self->shows[k]), TRUE);
+      g_signal_connect_swapped (self->shows[k], "toggled", G_CALLBACK (shows_toggled), self);
+      gtk_grid_attach (GTK_GRID (grid), GTK_WIDGET (self->shows[k]), 1 + (int) (k % 2),
+                       (int) (k / 2), 1, 1);
+    }
+  return grid;
+}
+
 /* The actuator row under the variant: limits on the controller output and anti-windup. */
 static void
 build_actuator_row (LwCompensatorPanel *self)
@@ -243,6 +286,7 @@ build_actuator_row (LwCompensatorPanel *self)
   gtk_box_append (self->actuator_box, row);
   gtk_box_append (self->actuator_box, limits);
   gtk_box_append (self->actuator_box, step_row);
+  gtk_box_append (self->actuator_box, build_shows_row (self));
   gtk_box_append (self->actuator_box, GTK_WIDGET (self->actuator_problem));
   g_signal_connect_swapped (self->actuator_check, "toggled", G_CALLBACK (actuator_edited), self);
   g_signal_connect_swapped (self->anti_windup_check, "toggled", G_CALLBACK (actuator_edited),
@@ -290,6 +334,9 @@ rebuild_variants (LwCompensatorPanel *self)
   gtk_spin_button_set_value (self->reference_step,
                              lw_design_model_get_variant_reference_step (self->model, active));
   show_actuator_sensitivity (self);
+  unsigned responses = lw_design_model_get_design (self->model)->variants[active].responses;
+  for (unsigned k = 0; k < LW_DESIGN_N_RESPONSES; k++)
+    gtk_check_button_set_active (self->shows[k], (responses & (1u << k)) != 0);
 
   GtkWidget *c;
   while ((c = gtk_widget_get_first_child (GTK_WIDGET (self->compare_box))) != NULL)
@@ -299,24 +346,13 @@ rebuild_variants (LwCompensatorPanel *self)
       const char *name = lw_design_model_get_variant_name (self->model, i);
       GtkWidget *b = gtk_check_button_new_with_label (name);
       g_object_set_data_full (G_OBJECT (b), "lw-variant", g_strdup (name), g_free);
-      gtk_check_button_set_active (GTK_CHECK_BUTTON (b), i == active || is_compared (self, name));
+      gtk_check_button_set_active (GTK_CHECK_BUTTON (b), i == active || is_compared (self, i));
       /* the active variant is always shown */
       gtk_widget_set_sensitive (b, i != active);
       g_signal_connect (b, "toggled", G_CALLBACK (compare_toggled), self);
       gtk_box_append (self->compare_box, b);
     }
   self->updating = FALSE;
-}
-
-void
-lw_compensator_panel_set_compared (LwCompensatorPanel *self, const char *const *names,
-                                   guint n)
-{
-  g_return_if_fail (LW_IS_COMPENSATOR_PANEL (self));
-  g_ptr_array_set_size (self->compared, 0);
-  for (guint i = 0; i < n; i++)
-    g_ptr_array_add (self->compared, g_strdup (names[i]));
-  rebuild_variants (self);
 }
 
 static void
@@ -488,7 +524,6 @@ lw_compensator_panel_dispose (GObject *object)
 
   g_clear_object (&self->model_signals);
   g_clear_object (&self->model);
-  g_clear_pointer (&self->compared, g_ptr_array_unref);
   g_clear_pointer (&self->debug_last, g_free);
   gtk_widget_dispose_template (GTK_WIDGET (self), LW_TYPE_COMPENSATOR_PANEL);
   GtkWidget *child;
@@ -534,6 +569,8 @@ lw_compensator_panel_init (LwCompensatorPanel *self)
                                   G_CALLBACK (rebuild_rows), self);
   g_signal_group_connect_swapped (self->model_signals, "variants-changed",
                                   G_CALLBACK (rebuild_variants), self);
+  g_signal_group_connect_swapped (self->model_signals, "replaced",
+                                  G_CALLBACK (rebuild_variants), self);
   g_autoptr (GMenuModel) add_menu = add_stage_menu_new ();
   gtk_menu_button_set_menu_model (self->add_button, add_menu);
   lw_gui_spin_wheel_off (self->period_spin);
@@ -546,7 +583,6 @@ lw_compensator_panel_init (LwCompensatorPanel *self)
   g_autoptr (GtkListItemFactory) listed = name_factory (FALSE);
   gtk_drop_down_set_factory (self->variant_dropdown, shown);
   gtk_drop_down_set_list_factory (self->variant_dropdown, listed);
-  self->compared = g_ptr_array_new_with_free_func (g_free);
   g_signal_connect (self->variant_dropdown, "notify::selected", G_CALLBACK (variant_selected),
                     self);
   g_signal_connect_swapped (self->rename_button, "clicked", G_CALLBACK (rename_clicked), self);

@@ -24,9 +24,9 @@ void lw_compensator_panel_show_eval (LwCompensatorPanel *self, LwVariantEval *ev
  * Variants popover renames it (window.variant-rename, s), makes a copy or an empty one,
  * deletes and reorders it (window.variant-copy, -new, -delete, -up, -down), chooses the
  * variants compared with it (check boxes, window.variant-compare (sb): name, shown) and the
- * split view (window.split). The window tells the panel which variants are compared. */
-void lw_compensator_panel_set_compared (LwCompensatorPanel *self, const char *const *names,
-                                        guint n);
+ * split view (window.split); which are compared is read from the document. Under the
+ * actuator, the time responses the active variant shows (window.variant-responses, u: the
+ * LW_DESIGN_RESPONSE_* flags). */
 void lw_compensator_panel_popup_variants (LwCompensatorPanel *self);
 /* Opens the add-stage menu. */
 void lw_compensator_panel_popup_add_menu (LwCompensatorPanel *self);

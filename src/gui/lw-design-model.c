@@ -8,19 +8,9 @@
 
 #include <glib/gi18n.h>
 
-#include "lw-design-model.h"
+#include "lw-design-model-private.h"
 #include "lw-expr.h"
 
-struct _LwDesignModel
-{
-  GObject parent_instance;
-
-  LwDesign *doc;                /* the document being edited (owned) */
-
-  /* the sampled plants of the last evaluations, one per sample period (variants may have
-   * their own) */
-  LwPlantCache *cache;
-};
 
 G_DEFINE_FINAL_TYPE (LwDesignModel, lw_design_model, G_TYPE_OBJECT)
 
@@ -157,8 +147,8 @@ active_variant (LwDesignModel *self)
   return &self->doc->variants[self->doc->active];
 }
 
-static void
-emit_changed (LwDesignModel *self)
+void
+lw_design_model_emit_changed (LwDesignModel *self)
 {
   g_signal_emit (self, signals[SIGNAL_CHANGED], 0);
 }
@@ -178,7 +168,7 @@ lw_design_model_set_plant_text (LwDesignModel *self, const char *text)
   if (g_strcmp0 (self->doc->plant, text) == 0)
     return;
   lw_design_set_string (&self->doc->plant, text);
-  emit_changed (self);
+  lw_design_model_emit_changed (self);
 }
 
 /* The document's own words: title (never NULL), author and notes (NULL or empty: none). */
@@ -206,7 +196,7 @@ lw_design_model_set_views (LwDesignModel *self, const char *const *names)
     return;
   g_strfreev (self->doc->views);
   self->doc->views = empty ? NULL : g_strdupv ((char **) names);
-  emit_changed (self);
+  lw_design_model_emit_changed (self);
 }
 
 void
@@ -221,7 +211,7 @@ lw_design_model_set_text_field (LwDesignModel *self, LwDesignTextField field, co
   if (g_strcmp0 (*slot, value) == 0)
     return;
   lw_design_set_string (slot, value);
-  emit_changed (self);
+  lw_design_model_emit_changed (self);
 }
 
 double
@@ -238,7 +228,7 @@ lw_design_model_set_dead_time_s (LwDesignModel *self, double dead_time_s)
   if (self->doc->dead_time_s == dead_time_s)
     return;
   self->doc->dead_time_s = dead_time_s;
-  emit_changed (self);
+  lw_design_model_emit_changed (self);
 }
 
 double
@@ -255,7 +245,7 @@ lw_design_model_set_period_s (LwDesignModel *self, double period_s)
   if (self->doc->period_s == period_s)
     return;
   self->doc->period_s = period_s;
-  emit_changed (self);
+  lw_design_model_emit_changed (self);
 }
 
 int
@@ -273,7 +263,7 @@ lw_design_model_set_compute_delay (LwDesignModel *self, int samples)
   if (self->doc->compute_delay == samples)
     return;
   self->doc->compute_delay = samples;
-  emit_changed (self);
+  lw_design_model_emit_changed (self);
 }
 
 guint
@@ -301,7 +291,7 @@ lw_design_model_set_stage (LwDesignModel *self, guint i, const LwStage *stage)
   if (memcmp (s, stage, sizeof *s) == 0)
     return;
   *s = *stage;
-  emit_changed (self);
+  lw_design_model_emit_changed (self);
 }
 
 void
@@ -311,7 +301,7 @@ lw_design_model_append_stage (LwDesignModel *self, const LwStage *stage)
   g_return_if_fail (stage != NULL);
   lw_design_variant_add_stage (active_variant (self), stage);
   g_signal_emit (self, signals[SIGNAL_STAGES_CHANGED], 0);
-  emit_changed (self);
+  lw_design_model_emit_changed (self);
 }
 
 void
@@ -323,7 +313,7 @@ lw_design_model_remove_stage (LwDesignModel *self, guint i)
   memmove (&v->stages[i], &v->stages[i + 1], (v->n_stages - i - 1) * sizeof *v->stages);
   v->n_stages--;
   g_signal_emit (self, signals[SIGNAL_STAGES_CHANGED], 0);
-  emit_changed (self);
+  lw_design_model_emit_changed (self);
 }
 
 void
@@ -339,7 +329,7 @@ lw_design_model_move_stage (LwDesignModel *self, guint i, int delta)
   v->stages[i] = v->stages[j];
   v->stages[j] = tmp;
   g_signal_emit (self, signals[SIGNAL_STAGES_CHANGED], 0);
-  emit_changed (self);
+  lw_design_model_emit_changed (self);
 }
 
 guint
@@ -367,7 +357,7 @@ lw_design_model_set_requirement (LwDesignModel *self, guint i, const LwRequireme
   if (memcmp (t, r, sizeof *t) == 0)
     return;
   *t = *r;
-  emit_changed (self);
+  lw_design_model_emit_changed (self);
 }
 
 void
@@ -377,257 +367,18 @@ lw_design_model_append_requirement (LwDesignModel *self, const LwRequirement *r)
   g_return_if_fail (r != NULL);
   lw_design_add_requirement (self->doc, NULL, r);
   g_signal_emit (self, signals[SIGNAL_REQUIREMENTS_CHANGED], 0);
-  emit_changed (self);
+  lw_design_model_emit_changed (self);
 }
 
-/* ---- variants ------------------------------------------------------------------------------ */
-
-static void
-emit_variants_changed (LwDesignModel *self, gboolean stages_too)
+void
+lw_design_model_emit_variants_changed (LwDesignModel *self, gboolean stages_too)
 {
   g_signal_emit (self, signals[SIGNAL_VARIANTS_CHANGED], 0);
   if (stages_too)
     g_signal_emit (self, signals[SIGNAL_STAGES_CHANGED], 0);
-  emit_changed (self);
+  lw_design_model_emit_changed (self);
 }
 
-guint
-lw_design_model_get_n_variants (LwDesignModel *self)
-{
-  g_return_val_if_fail (LW_IS_DESIGN_MODEL (self), 0);
-  return (guint) self->doc->n_variants;
-}
-
-guint
-lw_design_model_get_active (LwDesignModel *self)
-{
-  g_return_val_if_fail (LW_IS_DESIGN_MODEL (self), 0);
-  return (guint) self->doc->active;
-}
-
-const char *
-lw_design_model_get_variant_name (LwDesignModel *self, guint i)
-{
-  g_return_val_if_fail (LW_IS_DESIGN_MODEL (self), NULL);
-  g_return_val_if_fail (i < self->doc->n_variants, NULL);
-  return self->doc->variants[i].name;
-}
-
-void
-lw_design_model_set_active (LwDesignModel *self, guint i)
-{
-  g_return_if_fail (LW_IS_DESIGN_MODEL (self));
-  g_return_if_fail (i < self->doc->n_variants);
-  if (self->doc->active == i)
-    return;
-  self->doc->active = i;
-  emit_variants_changed (self, TRUE);
-}
-
-char *
-lw_design_model_unused_variant_name (LwDesignModel *self, const char *base)
-{
-  g_return_val_if_fail (LW_IS_DESIGN_MODEL (self), NULL);
-  g_return_val_if_fail (base != NULL && base[0] != '\0', NULL);
-  if (lw_design_find_variant (self->doc, base) < 0)
-    return g_strdup (base);
-  for (guint k = 2;; k++)
-    {
-      char *name = g_strdup_printf ("%s %u", base, k);
-      if (lw_design_find_variant (self->doc, name) < 0)
-        return name;
-      g_free (name);
-    }
-}
-
-const char *
-lw_design_model_variant_name_problem (LwDesignModel *self, guint i, const char *name)
-{
-  g_return_val_if_fail (LW_IS_DESIGN_MODEL (self), NULL);
-  if (name == NULL || name[0] == '\0')
-    return _("A variant needs a name.");
-  if (lw_design_text_problem (name) != NULL)
-    return lw_design_text_problem (name);
-  gssize j = lw_design_find_variant (self->doc, name);
-  if (j >= 0 && (guint) j != i)
-    return _("Another variant has this name.");
-  return NULL;
-}
-
-gboolean
-lw_design_model_add_variant (LwDesignModel *self, const char *name, gboolean copy_active)
-{
-  g_return_val_if_fail (LW_IS_DESIGN_MODEL (self), FALSE);
-  if (lw_design_model_variant_name_problem (self, G_MAXUINT, name) != NULL
-      || self->doc->n_variants >= LW_DESIGN_MAX_VARIANTS)
-    return FALSE;
-  size_t from = self->doc->active;
-  LwDesignVariant *v = lw_design_add_variant (self->doc, name);
-  if (copy_active)
-    {
-      const LwDesignVariant *src = &self->doc->variants[from];
-      lw_design_set_string (&v->notes, src->notes);
-      v->has_period = src->has_period;
-      v->period_s = src->period_s;
-      for (size_t k = 0; k < src->n_stages; k++)
-        lw_design_variant_add_stage (v, &src->stages[k]);
-    }
-  self->doc->active = self->doc->n_variants - 1;
-  emit_variants_changed (self, TRUE);
-  return TRUE;
-}
-
-double
-lw_design_model_get_variant_period_s (LwDesignModel *self, guint i, gboolean *overrides)
-{
-  g_return_val_if_fail (LW_IS_DESIGN_MODEL (self), NAN);
-  g_return_val_if_fail (i < self->doc->n_variants, NAN);
-  if (overrides != NULL)
-    *overrides = self->doc->variants[i].has_period;
-  return lw_design_variant_period_s (self->doc, i);
-}
-
-double
-lw_design_model_get_active_period_s (LwDesignModel *self)
-{
-  g_return_val_if_fail (LW_IS_DESIGN_MODEL (self), NAN);
-  return lw_design_variant_period_s (self->doc, self->doc->active);
-}
-
-gboolean
-lw_design_model_set_variant_period (LwDesignModel *self, guint i, gboolean overrides,
-                                    double period_s)
-{
-  g_return_val_if_fail (LW_IS_DESIGN_MODEL (self), FALSE);
-  g_return_val_if_fail (i < self->doc->n_variants, FALSE);
-  if (overrides && !(period_s > 0.0 && isfinite (period_s)))
-    return FALSE;
-  LwDesignVariant *v = &self->doc->variants[i];
-  if (v->has_period == overrides && (!overrides || v->period_s == period_s))
-    return TRUE;
-  v->has_period = overrides;
-  v->period_s = overrides ? period_s : 0.0;
-  emit_variants_changed (self, FALSE);
-  return TRUE;
-}
-
-gboolean
-lw_design_model_get_variant_actuator (LwDesignModel *self, guint i, double *low, double *high,
-                                      gboolean *anti_windup)
-{
-  g_return_val_if_fail (LW_IS_DESIGN_MODEL (self), FALSE);
-  g_return_val_if_fail (i < self->doc->n_variants, FALSE);
-  const LwDesignVariant *v = &self->doc->variants[i];
-  if (low != NULL)
-    *low = v->u_low;
-  if (high != NULL)
-    *high = v->u_high;
-  if (anti_windup != NULL)
-    *anti_windup = v->anti_windup;
-  return v->has_actuator;
-}
-
-gboolean
-lw_design_model_set_variant_actuator (LwDesignModel *self, guint i, gboolean has, double low,
-                                      double high, gboolean anti_windup)
-{
-  g_return_val_if_fail (LW_IS_DESIGN_MODEL (self), FALSE);
-  g_return_val_if_fail (i < self->doc->n_variants, FALSE);
-  if (has && !(isfinite (low) && isfinite (high) && low < high))
-    return FALSE;
-  LwDesignVariant *v = &self->doc->variants[i];
-  if (!has && !v->has_actuator)
-    return TRUE;
-  if (has && v->has_actuator && v->u_low == low && v->u_high == high
-      && v->anti_windup == (bool) anti_windup)
-    return TRUE;
-  if (!has)
-    v->reference_step = 0.0;
-  v->has_actuator = has;
-  v->u_low = has ? low : 0.0;
-  v->u_high = has ? high : 0.0;
-  v->anti_windup = has && anti_windup;
-  emit_variants_changed (self, FALSE);
-  return TRUE;
-}
-
-double
-lw_design_model_get_variant_reference_step (LwDesignModel *self, guint i)
-{
-  g_return_val_if_fail (LW_IS_DESIGN_MODEL (self), 1.0);
-  g_return_val_if_fail (i < self->doc->n_variants, 1.0);
-  double r = self->doc->variants[i].reference_step;
-  return r > 0.0 ? r : 1.0;
-}
-
-gboolean
-lw_design_model_set_variant_reference_step (LwDesignModel *self, guint i, double r)
-{
-  g_return_val_if_fail (LW_IS_DESIGN_MODEL (self), FALSE);
-  g_return_val_if_fail (i < self->doc->n_variants, FALSE);
-  LwDesignVariant *v = &self->doc->variants[i];
-  if (!v->has_actuator || !(r > 0.0 && isfinite (r)))
-    return FALSE;
-  double stored = r == 1.0 ? 0.0 : r;   /* a unit step is the default: not written */
-  if (v->reference_step == stored)
-    return TRUE;
-  v->reference_step = stored;
-  emit_variants_changed (self, FALSE);
-  return TRUE;
-}
-
-gboolean
-lw_design_model_rename_variant (LwDesignModel *self, guint i, const char *name)
-{
-  g_return_val_if_fail (LW_IS_DESIGN_MODEL (self), FALSE);
-  g_return_val_if_fail (i < self->doc->n_variants, FALSE);
-  if (lw_design_model_variant_name_problem (self, i, name) != NULL)
-    return FALSE;
-  if (g_strcmp0 (self->doc->variants[i].name, name) == 0)
-    return TRUE;
-  lw_design_set_string (&self->doc->variants[i].name, name);
-  emit_variants_changed (self, FALSE);
-  return TRUE;
-}
-
-gboolean
-lw_design_model_remove_variant (LwDesignModel *self, guint i)
-{
-  g_return_val_if_fail (LW_IS_DESIGN_MODEL (self), FALSE);
-  LwDesign *d = self->doc;
-  if (i >= d->n_variants || d->n_variants <= 1)
-    return FALSE;
-  LwDesignVariant *v = &d->variants[i];
-  g_free (v->name);
-  g_free (v->notes);
-  g_free (v->stages);
-  memmove (&d->variants[i], &d->variants[i + 1], (d->n_variants - i - 1) * sizeof *v);
-  d->n_variants--;
-  gboolean was_active = d->active == i;
-  if (d->active > i || d->active >= d->n_variants)
-    d->active--;
-  emit_variants_changed (self, was_active);
-  return TRUE;
-}
-
-void
-lw_design_model_move_variant (LwDesignModel *self, guint i, int delta)
-{
-  g_return_if_fail (LW_IS_DESIGN_MODEL (self));
-  g_return_if_fail (delta == -1 || delta == 1);
-  LwDesign *d = self->doc;
-  if (i >= d->n_variants || (delta < 0 && i == 0) || (delta > 0 && i + 1 >= d->n_variants))
-    return;
-  guint j = delta < 0 ? i - 1 : i + 1;
-  LwDesignVariant tmp = d->variants[i];
-  d->variants[i] = d->variants[j];
-  d->variants[j] = tmp;
-  if (d->active == i)
-    d->active = j;
-  else if (d->active == j)
-    d->active = i;
-  emit_variants_changed (self, FALSE);
-}
 
 /* ---- evaluation --------------------------------------------------------------------------- */
 

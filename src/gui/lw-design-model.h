@@ -140,6 +140,14 @@ gboolean lw_design_model_set_variant_actuator (LwDesignModel *self, guint i, gbo
  * and setting it (> 0, finite; only with limits; FALSE: nothing changed). */
 double lw_design_model_get_variant_reference_step (LwDesignModel *self, guint i);
 gboolean lw_design_model_set_variant_reference_step (LwDesignModel *self, guint i, double r);
+/* Variant i's time responses shown (LW_DESIGN_RESPONSE_* flags) and whether it is compared
+ * with the active one (both kept in the document); FALSE (nothing changed) for unknown flags. */
+gboolean lw_design_model_set_variant_shown (LwDesignModel *self, guint i, unsigned responses,
+                                            gboolean compared);
+/* The units of the plant's input and output (NULL or empty: none); FALSE (nothing changed)
+ * when one cannot be a unit (lw_design_unit_problem). */
+gboolean lw_design_model_set_units (LwDesignModel *self, const char *input_unit,
+                                    const char *output_unit);
 /* Removes variant i; FALSE for the last one left. The active index follows its variant, or
  * moves to the neighbour when the active one goes. */
 gboolean lw_design_model_remove_variant (LwDesignModel *self, guint i);

@@ -4,6 +4,7 @@
 #include "config.h"
 
 #include <math.h>
+#include <stdio.h>
 #include <string.h>
 
 #include <glib/gi18n.h>
@@ -25,6 +26,8 @@ struct _LwPlantPanel
   GtkLabel *plant_w_label;
   GtkLabel *sampling_note;
   GtkLabel *field_problem;       /* a refused number in one of the fields */
+  GtkEntry *input_unit_entry;
+  GtkEntry *output_unit_entry;
 
   LwDesignModel *model;
   gboolean filling;             /* showing the model: do not write back */
@@ -53,6 +56,49 @@ sampling_changed (LwPlantPanel *self, GtkSpinButton *spin)
     lw_design_model_set_compute_delay (self->model, gtk_spin_button_get_value_as_int (spin));
 }
 
+/* The units: taken when both can be units (empty: none); a refused one is said under the
+ * fields and the design keeps its last good units. */
+static void
+units_changed (LwPlantPanel *self, GtkEditable *editable)
+{
+  if (self->filling || self->model == NULL)
+    return;
+  const char *in = gtk_editable_get_text (GTK_EDITABLE (self->input_unit_entry));
+  const char *out = gtk_editable_get_text (GTK_EDITABLE (self->output_unit_entry));
+  const char *problem = NULL;
+  GtkEntry *bad = NULL;
+  if (in[0] != '\0' && (problem = lw_design_unit_problem (in)) != NULL)
+    bad = self->input_unit_entry;
+  else if (out[0] != '\0' && (problem = lw_design_unit_problem (out)) != NULL)
+    bad = self->output_unit_entry;
+  for (int k = 0; k < 2; k++)
+    {
+      GtkWidget *e = GTK_WIDGET (k == 0 ? self->input_unit_entry : self->output_unit_entry);
+      if (e == GTK_WIDGET (bad))
+        gtk_widget_add_css_class (e, "error");
+      else
+        gtk_widget_remove_css_class (e, "error");
+    }
+  if (bad != NULL)
+    {
+      const char *text = gtk_editable_get_text (GTK_EDITABLE (bad));
+      g_autofree char *msg = bad == self->input_unit_entry
+                             ? g_strdup_printf (_("Input unit “%s”: %s; not taken."), text, problem)
+                             : g_strdup_printf (_("Output unit “%s”: %s; not taken."), text, problem);
+      gtk_label_set_text (self->field_problem, msg);
+      gtk_widget_set_visible (GTK_WIDGET (self->field_problem), TRUE);
+      if (g_strcmp0 (g_getenv ("LW_DEBUG_HANDLES"), "1") == 0)   /* for the window tests */
+        {
+          printf ("LW-FIELD-REFUSED %s unit: %s\n",
+                  bad == self->input_unit_entry ? "Input" : "Output", problem);
+          fflush (stdout);
+        }
+      return;
+    }
+  gtk_widget_set_visible (GTK_WIDGET (self->field_problem), FALSE);
+  lw_design_model_set_units (self->model, in, out);
+}
+
 void
 lw_plant_panel_set_model (LwPlantPanel *self, LwDesignModel *model)
 {
@@ -66,6 +112,11 @@ lw_plant_panel_set_model (LwPlantPanel *self, LwDesignModel *model)
   gtk_spin_button_set_value (self->dead_time_spin, lw_design_model_get_dead_time_s (model));
   gtk_spin_button_set_value (self->period_spin, lw_design_model_get_period_s (model));
   gtk_spin_button_set_value (self->delay_spin, lw_design_model_get_compute_delay (model));
+  const LwDesign *d = lw_design_model_get_design (model);
+  gtk_editable_set_text (GTK_EDITABLE (self->input_unit_entry),
+                         d->input_unit != NULL ? d->input_unit : "");
+  gtk_editable_set_text (GTK_EDITABLE (self->output_unit_entry),
+                         d->output_unit != NULL ? d->output_unit : "");
   self->filling = FALSE;
 }
 
@@ -245,6 +296,9 @@ lw_plant_panel_class_init (LwPlantPanelClass *klass)
   gtk_widget_class_bind_template_child (widget_class, LwPlantPanel, field_problem);
   gtk_widget_class_bind_template_callback (widget_class, plant_entry_changed);
   gtk_widget_class_bind_template_callback (widget_class, sampling_changed);
+  gtk_widget_class_bind_template_child (widget_class, LwPlantPanel, input_unit_entry);
+  gtk_widget_class_bind_template_child (widget_class, LwPlantPanel, output_unit_entry);
+  gtk_widget_class_bind_template_callback (widget_class, units_changed);
   gtk_widget_class_set_layout_manager_type (widget_class, GTK_TYPE_BIN_LAYOUT);
 }
 

@@ -243,8 +243,8 @@ figure_for (LwPlotArea *self, LwVariantEval *eval, const char *name, LwError *er
       return NULL;
     }
   /* the step as simulated (with the variant's actuator limits) and u(kT) under it */
-  lw_figure_variant_set_response (&e->fv, eval->sim_ref, &eval->sim_options, true);
-  lw_figure_variant_set_disturbances (&e->fv, eval->sim_in, eval->sim_out);
+  lw_figure_variant_set_responses (&e->fv, eval->sim_ref, &eval->sim_options, eval->sim_in,
+                                   eval->sim_out, eval->responses);
   e->fv.v.name = e->name;
   /* the entry's arrays do not change while it lives: a key of its own lets a figure rebuilt
    * during a drag copy this variant's mapped curves from the one before */
@@ -271,8 +271,8 @@ drop_unused_figures (LwPlotArea *self)
  * view's own. */
 static LwPlot *
 build_view (LwPlotView view, const LwPlotVariant *vars, guint n, double nyquist_rad_s,
-            const LwPlotRequirements *req, const LwPlot *axes_of, const char *title,
-            GError **error)
+            const LwPlotRequirements *req, const LwVariantEval *units_of,
+            const LwPlot *axes_of, const char *title, GError **error)
 {
   LwPlotVariant unnamed[LW_PLOT_MAX_VARIANTS];
   n = MIN (n, LW_PLOT_MAX_VARIANTS);
@@ -288,6 +288,8 @@ build_view (LwPlotView view, const LwPlotVariant *vars, guint n, double nyquist_
     .n_variants = n,
     .variants = unnamed,
     .axes_of = axes_of,
+    .input_unit = units_of->input_unit,
+    .output_unit = units_of->output_unit,
   };
   if (req != NULL)
     in.req = *req;
@@ -427,7 +429,7 @@ lw_plot_area_show_variants (LwPlotArea *self, const LwAreaVariant *vs, guint n, 
                                ? g_strdup_printf ("%s \u2014 %s", view_title (self->views[i]),
                                                   vars[moving].name)
                                : NULL;
-      LwPlot *plot = build_view (self->views[i], pv, pn, nyq, req,
+      LwPlot *plot = build_view (self->views[i], pv, pn, nyq, req, eval,
                                  keep_axes ? lw_plot_pane_get_plot (pane) : NULL, title, &error);
       lw_plot_pane_set_plot_moving (pane, plot, plot == NULL ? error->message : NULL,
                                     split_row_view ? 0 : (int) moving);
@@ -450,7 +452,8 @@ lw_plot_area_show_variants (LwPlotArea *self, const LwAreaVariant *vs, guint n, 
                                    ? g_strdup_printf ("%s \u2014 %s", view_title (lwpa_split_views[k]),
                                                       other->name)
                                    : NULL;
-          plot = build_view (lwpa_split_views[k], other, 1, nyq, req, lw_plot_pane_get_plot (left),
+          plot = build_view (lwpa_split_views[k], other, 1, nyq, req, eval,
+                             lw_plot_pane_get_plot (left),
                              title, &error);
         }
       /* a reference: its whole figure is static */
@@ -560,8 +563,8 @@ lw_plot_area_build_plot (const LwAreaVariant *vs, guint n, const LwPlotRequireme
           lw_figure_variant_clear (&fv[filled]);
           goto out;
         }
-      lw_figure_variant_set_response (&fv[filled], eval->sim_ref, &eval->sim_options, true);
-      lw_figure_variant_set_disturbances (&fv[filled], eval->sim_in, eval->sim_out);
+      lw_figure_variant_set_responses (&fv[filled], eval->sim_ref, &eval->sim_options,
+                                       eval->sim_in, eval->sim_out, eval->responses);
       pv[filled] = fv[filled].v;
       pv[filled].style = n > 1 ? vs[filled].style : 0;   /* one variant: the first colour */
     }
@@ -571,6 +574,8 @@ lw_plot_area_build_plot (const LwAreaVariant *vs, guint n, const LwPlotRequireme
     .title = title,
     .n_variants = n,
     .variants = pv,
+    .input_unit = vs[0].eval->input_unit,
+    .output_unit = vs[0].eval->output_unit,
   };
   if (req != NULL)
     in.req = *req;

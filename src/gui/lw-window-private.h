@@ -47,7 +47,6 @@ struct _LwWindow
   GMenu *recent_menu;
 
   /* variants shown beside the active one (names; the active one is always shown) */
-  GPtrArray *compared;
   gboolean split;
   GHashTable *ref_evals;        /* variant name → RefEval: references, evaluated once */
 
@@ -135,8 +134,6 @@ void lw_window_ask_before_close (LwWindow *self);
 
 /* lw-window-variants.c */
 void lw_window_class_init_variants (GtkWidgetClass *widget_class);
-/* Shows the compared variants' switches in the compensator panel. */
-void lw_window_refresh_compared (LwWindow *self);
 
 /* lw-window-drag.c */
 void lw_window_class_init_drag (GtkWidgetClass *widget_class);

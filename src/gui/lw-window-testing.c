@@ -159,11 +159,9 @@ lw_window_start_bench_drag (LwWindow *self, guint n_frames)
   /* every variant of the document shown (compare), the first corner of the active one
    * dragged */
   const LwDesign *d = lw_design_model_get_design (self->model);
-  g_ptr_array_set_size (self->compared, 0);
   for (size_t i = 0; i < d->n_variants; i++)
     if (i != d->active)
-      g_ptr_array_add (self->compared, g_strdup (d->variants[i].name));
-  lw_window_refresh_compared (self);
+      lw_design_model_set_variant_shown (self->model, (guint) i, d->variants[i].responses, TRUE);
   lw_window_show_variants (self);
   g_array_set_size (self->bench_paint, 0);
   gtk_window_set_default_size (GTK_WINDOW (self), 1600, 1000);

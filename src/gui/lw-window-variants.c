@@ -1,7 +1,7 @@
 /* lw-window-variants.c — the variants of the design in the window: new, copy, rename,
  * delete, move, an own sample period, switching the active one (each one undo step of its
- * own), and which variants are compared with the active one (a choice of the window, not of
- * the document: no undo step).
+ * own), which variants are compared with the active one and which time responses it shows
+ * (both kept in the document).
  *
  * SPDX-License-Identifier: GPL-3.0-or-later
  */
@@ -11,27 +11,14 @@
 
 #include "lw-window-private.h"
 
-void
-lw_window_refresh_compared (LwWindow *self)
-{
-  lw_compensator_panel_set_compared (self->compensator_panel,
-                                     (const char *const *) self->compared->pdata,
-                                     self->compared->len);
-}
-
+/* Marks variant `name` compared (or not) in the document. */
 static void
 set_compared (LwWindow *self, const char *name, gboolean shown)
 {
-  for (guint i = 0; i < self->compared->len; i++)
-    if (g_strcmp0 (self->compared->pdata[i], name) == 0)
-      {
-        if (shown)
-          return;
-        g_ptr_array_remove_index (self->compared, i);
-        return;
-      }
-  if (shown)
-    g_ptr_array_add (self->compared, g_strdup (name));
+  const LwDesign *d = lw_design_model_get_design (self->model);
+  gssize i = lw_design_find_variant (d, name);
+  if (i >= 0)
+    lw_design_model_set_variant_shown (self->model, (guint) i, d->variants[i].responses, shown);
 }
 
 /* Before and after each variant action: it is one undo step of its own. */
@@ -49,7 +36,6 @@ static void
 variant_action_end (LwWindow *self)
 {
   lw_history_commit (self->history);
-  lw_window_refresh_compared (self);
 }
 
 static void
@@ -63,6 +49,8 @@ variant_add (LwWindow *self, gboolean copy)
   g_autofree char *name = lw_design_model_unused_variant_name (self->model, base);
   if (lw_design_model_add_variant (self->model, name, copy) && copy)
     set_compared (self, from, TRUE);   /* the original stays in view as the reference */
+  if (copy)   /* the copy starts as the active one, not compared with itself */
+    set_compared (self, name, FALSE);
   variant_action_end (self);
 }
 
@@ -84,10 +72,7 @@ variant_delete_activated (GtkWidget *widget, const char *action, GVariant *param
   LwWindow *self = LW_WINDOW (widget);
   if (!variant_action_begin (self))
     return;
-  guint active = lw_design_model_get_active (self->model);
-  g_autofree char *name = g_strdup (lw_design_model_get_variant_name (self->model, active));
-  if (lw_design_model_remove_variant (self->model, active))
-    set_compared (self, name, FALSE);
+  lw_design_model_remove_variant (self->model, lw_design_model_get_active (self->model));
   variant_action_end (self);
 }
 
@@ -200,7 +185,7 @@ variant_previous_activated (GtkWidget *widget, const char *action, GVariant *par
   variant_step (LW_WINDOW (widget), -1);
 }
 
-/* Which variants are compared is a choice of the window, not of the document: no undo step. */
+/* Which variants are compared is kept with the document: one undo step. */
 static void
 variant_compare_activated (GtkWidget *widget, const char *action, GVariant *param)
 {
@@ -208,9 +193,24 @@ variant_compare_activated (GtkWidget *widget, const char *action, GVariant *para
   const char *name = NULL;
   gboolean shown = FALSE;
   g_variant_get (param, "(&sb)", &name, &shown);
+  if (!variant_action_begin (self))
+    return;
   set_compared (self, name, shown);
-  lw_window_refresh_compared (self);
-  lw_window_show_variants (self);
+  variant_action_end (self);
+}
+
+/* The time responses the active variant shows (LW_DESIGN_RESPONSE_* flags): one undo step. */
+static void
+variant_responses_activated (GtkWidget *widget, const char *action, GVariant *param)
+{
+  LwWindow *self = LW_WINDOW (widget);
+  if (!variant_action_begin (self))
+    return;
+  guint active = lw_design_model_get_active (self->model);
+  const LwDesign *d = lw_design_model_get_design (self->model);
+  lw_design_model_set_variant_shown (self->model, active, g_variant_get_uint32 (param),
+                                     d->variants[active].compared);
+  variant_action_end (self);
 }
 
 static void
@@ -222,12 +222,12 @@ compare_all_activated (GtkWidget *widget, const char *action, GVariant *param)
   for (size_t i = 0; i < d->n_variants; i++)
     if (i != d->active && !lw_window_is_compared (self, d->variants[i].name))
       all = FALSE;
-  g_ptr_array_set_size (self->compared, 0);
-  for (size_t i = 0; !all && i < d->n_variants; i++)
+  if (!variant_action_begin (self))
+    return;
+  for (size_t i = 0; i < d->n_variants; i++)
     if (i != d->active)
-      g_ptr_array_add (self->compared, g_strdup (d->variants[i].name));
-  lw_window_refresh_compared (self);
-  lw_window_show_variants (self);
+      lw_design_model_set_variant_shown (self->model, (guint) i, d->variants[i].responses, !all);
+  variant_action_end (self);
 }
 
 static void
@@ -264,6 +264,8 @@ lw_window_class_init_variants (GtkWidgetClass *widget_class)
                                    variant_previous_activated);
   gtk_widget_class_install_action (widget_class, "window.variant-compare", "(sb)",
                                    variant_compare_activated);
+  gtk_widget_class_install_action (widget_class, "window.variant-responses", "u",
+                                   variant_responses_activated);
   gtk_widget_class_install_action (widget_class, "window.compare-all", NULL,
                                    compare_all_activated);
   gtk_widget_class_install_action (widget_class, "window.variants", NULL,

@@ -88,13 +88,14 @@ variant_key (const LwDesign *d, guint i)
   return g_byte_array_free_to_bytes (b);
 }
 
+/* The compared set is the document's (LwDesignVariant.compared): saved with it, one undo
+ * step when changed. */
 static gboolean
 is_compared (LwWindow *self, const char *name)
 {
-  for (guint i = 0; i < self->compared->len; i++)
-    if (g_strcmp0 (self->compared->pdata[i], name) == 0)
-      return TRUE;
-  return FALSE;
+  const LwDesign *d = lw_design_model_get_design (self->model);
+  gssize i = lw_design_find_variant (d, name);
+  return i >= 0 && d->variants[i].compared;
 }
 
 static void
@@ -500,7 +501,6 @@ lw_window_dispose (GObject *object)
   g_clear_pointer (&self->eval, lw_variant_eval_unref);
   g_clear_pointer (&self->saved, lw_design_free);
   g_clear_pointer (&self->bench_paint, g_array_unref);
-  g_clear_pointer (&self->compared, g_ptr_array_unref);
   g_clear_pointer (&self->ref_evals, g_hash_table_unref);
   if (self->eval_cancel != NULL)
     g_cancellable_cancel (self->eval_cancel);
@@ -561,7 +561,6 @@ lw_window_init (LwWindow *self)
 {
   gtk_widget_init_template (GTK_WIDGET (self));
   self->bench_paint = g_array_new (FALSE, FALSE, sizeof (double));
-  self->compared = g_ptr_array_new_with_free_func (g_free);
   self->ref_evals = g_hash_table_new_full (g_str_hash, g_str_equal, g_free, ref_eval_free);
   self->eval_cancel = g_cancellable_new ();
   self->sel_stage = -1;

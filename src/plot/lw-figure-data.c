@@ -405,11 +405,11 @@ lw_figure_requirements_add (LwPlotRequirements *r, double period_s, const LwRequ
     }
 }
 
-void
-lw_figure_variant_set_response (LwFigureVariant *fv, const LwSimResponse *ref,
-                                const LwSimOptions *so, bool show_actuator)
+static void
+set_reference (LwFigureVariant *fv, const LwSimResponse *ref, const LwSimOptions *so,
+               bool show_actuator)
 {
-  if (fv == NULL || ref == NULL || ref->n < 2)
+  if (ref == NULL || ref->n < 2)
     return;
   LwPlotStepData *st = &fv->v.step;
   bool limited = so != NULL && so->has_limits;
@@ -427,18 +427,23 @@ lw_figure_variant_set_response (LwFigureVariant *fv, const LwSimResponse *ref,
       st->t_fine_s = ref->t_fine_s;
       st->y_fine = ref->y_fine;
     }
-  if ((show_actuator || limited) && ref->n == st->n)
+  if (show_actuator && ref->n == st->n)
     st->u = ref->u;
 }
 
 void
-lw_figure_variant_set_disturbances (LwFigureVariant *fv, const LwSimResponse *in,
-                                    const LwSimResponse *out)
+lw_figure_variant_set_responses (LwFigureVariant *fv, const LwSimResponse *ref,
+                                 const LwSimOptions *so, const LwSimResponse *in,
+                                 const LwSimResponse *out, unsigned shows)
 {
   if (fv == NULL)
     return;
-  if (in != NULL && in->n >= 2)
+  if (shows & LW_FIGURE_SHOW_REFERENCE)
+    set_reference (fv, ref, so, (shows & LW_FIGURE_SHOW_ACTUATOR) != 0);
+  else
+    fv->v.step = (LwPlotStepData) { .period_s = fv->v.step.period_s };
+  if ((shows & LW_FIGURE_SHOW_INPUT_DISTURBANCE) && in != NULL && in->n >= 2)
     fv->v.dist_in = (LwPlotStepData) { .period_s = in->period_s, .n = in->n, .y = in->y };
-  if (out != NULL && out->n >= 2)
+  if ((shows & LW_FIGURE_SHOW_OUTPUT_DISTURBANCE) && out != NULL && out->n >= 2)
     fv->v.dist_out = (LwPlotStepData) { .period_s = out->period_s, .n = out->n, .y = out->y };
 }

@@ -47,18 +47,25 @@ LwStatus lw_figure_variant_fill (LwFigureVariant *fv, const char *name,
                                  LwError *err);
 void lw_figure_variant_clear (LwFigureVariant *fv);
 
-/* The simulated reference step into fv's step series (ref and so borrowed, may be NULL):
- * with actuator limits (so->has_limits) the limited output replaces the linear step and the
- * limits are drawn; the continuous output between samples when ref has it; the actuator
- * signal u(kT) when show_actuator or when limited. The window, the report and `plot` draw a
- * variant's step this way. */
-void lw_figure_variant_set_response (LwFigureVariant *fv, const LwSimResponse *ref,
-                                     const LwSimOptions *so, bool show_actuator);
+/* Which time responses a variant shows: the same bits as a design variant's responses
+ * (LW_DESIGN_RESPONSE_* in lw-design.h, which this layer does not include; the report, which
+ * includes both, asserts at compile time that they agree), so a variant's choice is passed as it is. */
+#define LW_FIGURE_SHOW_REFERENCE 0x1u          /* the reference step */
+#define LW_FIGURE_SHOW_ACTUATOR 0x2u           /* u(kT) under it */
+#define LW_FIGURE_SHOW_INPUT_DISTURBANCE 0x4u  /* a unit step disturbance at the plant input */
+#define LW_FIGURE_SHOW_OUTPUT_DISTURBANCE 0x8u /* … at its output */
+#define LW_FIGURE_SHOW_ALL 0xfu
 
-/* The simulated disturbance steps (at the plant input, at its output; each may be NULL,
- * borrowed) into fv's disturbance series. */
-void lw_figure_variant_set_disturbances (LwFigureVariant *fv, const LwSimResponse *in,
-                                         const LwSimResponse *out);
+/* The simulated responses into fv's time series, as `shows` chooses (all borrowed, each may
+ * be NULL): the reference step ref — with actuator limits (so->has_limits) the limited output
+ * replacing the linear step, the limits drawn with u; the continuous output between samples
+ * when ref has it; the actuator signal u(kT) under it — and the disturbance steps in and
+ * out. A response not shown is left out of the figure (the reference step's samples too,
+ * so u goes with it). The window, the report and `plot` draw a variant's time responses this
+ * way. */
+void lw_figure_variant_set_responses (LwFigureVariant *fv, const LwSimResponse *ref,
+                                      const LwSimOptions *so, const LwSimResponse *in,
+                                      const LwSimResponse *out, unsigned shows);
 
 /* The loop in the w-plane, factored: C(w)·P(w)·((1 − wT/2)/(1 + wT/2))^N — the computation
  * delay z^−N mapped by the bilinear transform. New model or NULL. */

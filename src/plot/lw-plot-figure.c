@@ -3,6 +3,8 @@
  *
  * SPDX-License-Identifier: GPL-3.0-or-later
  */
+#include <stdarg.h>
+
 #include "lw-plot-private.h"
 
 #include <math.h>
@@ -353,9 +355,24 @@ lw_plot_free (LwPlot *p)
     g_ptr_array_unref (p->panels[k].prims);
   for (size_t v = 0; v < p->n_variants; v++)
     g_free (p->names[v]);
+  if (p->strings != NULL)
+    g_ptr_array_unref (p->strings);
   g_free (p->title);
   g_free (p->clear);
   g_free (p);
+}
+
+const char *
+lwp_label (LwPlot *pl, const char *fmt, ...)
+{
+  va_list ap;
+  va_start (ap, fmt);
+  char *text = g_strdup_vprintf (fmt, ap);
+  va_end (ap);
+  if (pl->strings == NULL)
+    pl->strings = g_ptr_array_new_with_free_func (g_free);
+  g_ptr_array_add (pl->strings, text);
+  return text;
 }
 
 void
@@ -408,7 +425,8 @@ lw_plot_base_equal (const LwPlot *a, const LwPlot *b, size_t variant)
     {
       const Panel *pa = &a->panels[k], *pb = &b->panels[k];
       if (!axis_equal (&pa->x, &pb->x) || !axis_equal (&pa->y, &pb->y)
-          || !axis_equal (&pa->xv, &pb->xv) || pa->wu0 != pb->wu0 || pa->wu1 != pb->wu1)
+          || !axis_equal (&pa->xv, &pb->xv) || pa->wu0 != pb->wu0 || pa->wu1 != pb->wu1
+          || g_strcmp0 (pa->x_label, pb->x_label) != 0 || g_strcmp0 (pa->y_label, pb->y_label) != 0)
         return false;
       guint i = 0, j = 0;
       for (;;)

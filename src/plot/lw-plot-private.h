@@ -87,7 +87,7 @@ typedef struct {
 
 typedef struct {
   LwPlotAxis x, y;
-  const char *x_label, *y_label;   /* static strings */
+  const char *x_label, *y_label;   /* static strings, or the figure's own (lwp_label) */
   const char *x_name, *x_unit, *y_name, *y_unit;
   bool x_tick_labels;
   bool equal_aspect;
@@ -119,7 +119,12 @@ struct LwPlot {
    * each variant's data key */
   const LwPlot *reuse;
   unsigned long keys[LW_PLOT_MAX_VARIANTS];
+  GPtrArray *strings;               /* texts the figure made (lwp_label), freed with it */
 };
+
+/* A text made for this figure (an axis label with a unit): formatted, kept until the figure
+ * is freed. */
+const char *lwp_label (LwPlot *pl, const char *fmt, ...) G_GNUC_PRINTF (2, 3);
 
 /* Which primitives a layer holds: everything, everything but variant `v`'s, or only its. */
 typedef enum { LAYER_ALL, LAYER_BASE, LAYER_VARIANT } Layer;

@@ -85,11 +85,12 @@ lwp_build_step (LwPlot *pl, const LwPlotInput *in)
       act->x = out->x;
       lwp_axis_from_extent (&act->y, LW_PLOT_SCALE_LINEAR, LW_PLOT_TICKS_PLAIN, eu, 5);
       act->x_label = "t (s)";
-      act->y_label = "u (actuator)";
+      act->y_label = in->input_unit != NULL ? lwp_label (pl, "u (%s)", in->input_unit)
+                                            : "u (actuator)";
       act->x_name = "t";
       act->x_unit = "s";
       act->y_name = "u";
-      act->y_unit = "";
+      act->y_unit = in->input_unit != NULL ? in->input_unit : "";
     }
   lwp_keep_axes (pl, in);
   if (any_u)
@@ -175,13 +176,21 @@ lwp_build_disturbance (LwPlot *pl, const LwPlotInput *in)
   lwp_axis_from_extent (&pi->y, LW_PLOT_SCALE_LINEAR, LW_PLOT_TICKS_PLAIN, ei, 5);
   lwp_axis_from_extent (&po->y, LW_PLOT_SCALE_LINEAR, LW_PLOT_TICKS_PLAIN, eo, 5);
   pi->x_tick_labels = false;
-  pi->y_label = "y, input dist.";
-  po->y_label = "y, output dist.";
+  if (in->output_unit != NULL)
+    {
+      pi->y_label = lwp_label (pl, "y (%s), input dist.", in->output_unit);
+      po->y_label = lwp_label (pl, "y (%s), output dist.", in->output_unit);
+    }
+  else
+    {
+      pi->y_label = "y, input dist.";
+      po->y_label = "y, output dist.";
+    }
   po->x_label = "t (s)";
   pi->x_name = po->x_name = "t";
   pi->x_unit = po->x_unit = "s";
   pi->y_name = po->y_name = "y";
-  pi->y_unit = po->y_unit = "";
+  pi->y_unit = po->y_unit = in->output_unit != NULL ? in->output_unit : "";
   lwp_keep_axes (pl, in);
   lwp_add_hline (pi, 0.0);
   lwp_add_hline (po, 0.0);

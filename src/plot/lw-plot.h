@@ -155,6 +155,10 @@ typedef struct {
    * of ranges chosen from the data, when it has as many panels — a figure rebuilt during a
    * drag keeps its frame, so its grid and the other variants' curves stay in place */
   const LwPlot *axes_of;
+  /* optional: the units of the plant's input (u, the actuator's) and output (y), short texts
+   * ("V", "mm"); the time views label their axes with them */
+  const char *input_unit;
+  const char *output_unit;
 } LwPlotInput;
 
 #define LW_PLOT_MAX_VARIANTS 6

@@ -137,6 +137,13 @@ section_plant (LwReport *r, const LwDesign *d, const RVar *v0)
   lwr_cellf (&t, "%d sample(s) = %.6g s", d->compute_delay, d->compute_delay * d->period_s);
   lwr_cellf (&t, "plant dead time");
   lwr_cellf (&t, "%.6g s = %.6g sample(s)", d->dead_time_s, d->dead_time_s / d->period_s);
+  if (d->input_unit != NULL || d->output_unit != NULL)
+    {
+      lwr_cellf (&t, "plant units");
+      lwr_cellf (&t, "input u in %s, output y in %s",
+                 d->input_unit != NULL ? d->input_unit : "(not given)",
+                 d->output_unit != NULL ? d->output_unit : "(not given)");
+    }
   lwr_cellf (&t, "loop");
   lwr_cellf (&t, "L(z) = z^−%d · C(z) · P(z), unity negative feedback", d->compute_delay);
   lwr_table_end (&t);

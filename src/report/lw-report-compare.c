@@ -11,6 +11,14 @@
 #include "lw-figure-data.h"
 #include "lw-report-private.h"
 
+/* A variant's responses (lw-design.h) are passed to the figure as they are (lw-figure-data.h):
+ * the two layers must agree on the bits. */
+G_STATIC_ASSERT (LW_FIGURE_SHOW_REFERENCE == LW_DESIGN_RESPONSE_REFERENCE);
+G_STATIC_ASSERT (LW_FIGURE_SHOW_ACTUATOR == LW_DESIGN_RESPONSE_ACTUATOR);
+G_STATIC_ASSERT (LW_FIGURE_SHOW_INPUT_DISTURBANCE == LW_DESIGN_RESPONSE_INPUT_DISTURBANCE);
+G_STATIC_ASSERT (LW_FIGURE_SHOW_OUTPUT_DISTURBANCE == LW_DESIGN_RESPONSE_OUTPUT_DISTURBANCE);
+G_STATIC_ASSERT (LW_FIGURE_SHOW_ALL == LW_DESIGN_RESPONSES_ALL);
+
 /* ---- figures ---------------------------------------------------------------------------- */
 
 gboolean
@@ -42,8 +50,8 @@ lwr_add_figures (LwReport *r, const LwDesign *d, RVar *rv, size_t n, GError **er
                                              % LW_PLOT_MAX_VARIANTS) + 1
                                : 0;
       /* the continuous output between samples and the actuator signal, from the simulation */
-      lw_figure_variant_set_response (&fv[filled], rv[filled].ref, &rv[filled].e->sim_options,
-                                      true);
+      lw_figure_variant_set_responses (&fv[filled], rv[filled].ref, &rv[filled].e->sim_options,
+                                       NULL, NULL, rv[filled].e->responses);
       pv[filled].step = fv[filled].v.step;
     }
   /* the design's requirement marks, as the window and `plot` draw them */
@@ -65,6 +73,8 @@ lwr_add_figures (LwReport *r, const LwDesign *d, RVar *rv, size_t n, GError **er
       in.n_variants = n;
       in.variants = pv;
       in.req = marks;
+      in.input_unit = rv[0].e->input_unit;
+      in.output_unit = rv[0].e->output_unit;
       g_autoptr (GError) ferr = NULL;
       LwPlot *p = lw_plot_new (&in, &ferr);
       if (p == NULL)

@@ -29,6 +29,7 @@ What is checked, and against what:
 import json
 import os
 import re
+import shutil
 import subprocess
 import sys
 import tempfile
@@ -83,7 +84,7 @@ for name in NAMES:
 # ---- 2. plot overlays ---------------------------------------------------------------------
 
 # Curves per variant at width 1.75 (curves + one legend sample), as in test-cli-plot.py.
-CURVES = {"bode-z": 3, "bode-w": 3, "nyquist": 2, "nichols": 2, "step": 2, "poles": 1}
+CURVES = {"bode-z": 3, "bode-w": 3, "nyquist": 2, "nichols": 2, "step": 3, "poles": 1}
 # light palette, first four (PALETTE_LIGHT in src/plot/lw-plot-draw.c)
 COLOURS = [(0x00, 0x72, 0xb2), (0xd5, 0x5e, 0x00), (0x00, 0x9e, 0x73), (0xcc, 0x79, 0xa7)]
 
@@ -136,6 +137,54 @@ if rc == 0:
         got = svg_curve_counts(ET.fromstring(svg.group(0)), 4)
         want = [0, 0, CURVES["bode-z"], CURVES["bode-z"]]
         check(got == want, f"bode-z of variants 3 and 4: curves per colour {want}, got {got}")
+
+# The document's own choices (docs/file-format.md): a variant marked compared is drawn beside
+# the active one by `plot --compared` and `report --compared` (what the window shows), and a
+# variant whose <responses> leave out the actuator has no u(kT) curve in the step view: the
+# active variant shows the reference step only (2 strokes: output and legend), the compared
+# one all (3). The plant's units (the example's: A in, m out) label the actuator axis and
+# the disturbance axes, read back with pdftotext.
+with open(EX, encoding="utf-8") as f:
+    text = f.read()
+chosen = (text.replace(f'<variant name="{NAMES[1]}">', f'<variant name="{NAMES[1]}" compared="true">')
+          .replace("<gain label", '<responses shows="reference"/>\n      <gain label', 1))
+check(chosen.count("compared=") == 1 and "<responses" in chosen and 'input_unit="A"' in chosen,
+      "the example could be marked up")
+CHOSEN = os.path.join(TMP, "chosen.lwd")
+with open(CHOSEN, "w", encoding="utf-8") as f:
+    f.write(chosen)
+svg = os.path.join(TMP, "compared-step.svg")
+rc, _, err = run(["plot", CHOSEN, "--compared", "--view", "step", "--out", svg])
+check(rc == 0, f"plot --compared exits 0 (got {rc}: {err.strip()})")
+if rc == 0:
+    got = curve_counts(svg)
+    check(got == [2, 3], f"step of the compared set: [2, 3] curves per colour, got {got}")
+rc, _, err = run(["plot", EX, "--compared", "--view", "step", "--out", svg])
+if rc == 0:
+    got = curve_counts(svg)
+    check(got == [3, 0], f"nothing marked compared: the active variant alone, got {got}")
+rc, _, err = run(["plot", CHOSEN, "--compared", "--all-variants", "--view", "step", "--out", svg])
+check(rc == 2 and "--compared" in err and "--all-variants" in err,
+      f"--compared with --all-variants is refused naming both (got {rc}: {err.strip()})")
+rc, _, err = run(["report", CHOSEN, "--compared", "--variants", NAMES[0], "--out", svg + ".html"])
+check(rc == 2 and "--compared" in err, f"report --compared with --variants is refused ({rc})")
+html = os.path.join(TMP, "compared.html")
+rc, out, err = run(["report", CHOSEN, "--compared", "--out", html])
+check(rc == 0 and "2 variant(s)" in out, f"report --compared reports the two shown ({rc}: {out}{err})")
+if shutil.which("pdftotext"):
+    pdf = os.path.join(TMP, "units.pdf")
+    rc, _, err = run(["plot", CHOSEN, "--compared", "--view", "step", "--out", pdf])
+    words = subprocess.run(["pdftotext", pdf, "-"], capture_output=True, text=True,
+                           timeout=60).stdout if rc == 0 else ""
+    check("u (A)" in words, f"the actuator axis is labelled with the input unit: {words!r:.300}")
+    rc, _, err = run(["plot", CHOSEN, "--variant", NAMES[1], "--view", "disturbance", "--out", pdf])
+    words = subprocess.run(["pdftotext", pdf, "-"], capture_output=True, text=True,
+                           timeout=60).stdout if rc == 0 else ""
+    check("y (m), input dist." in words, f"the disturbance axes carry the output unit: {words!r:.300}")
+
+rc, _, err = run(["plot", CHOSEN, "--view", "disturbance", "--out", svg])
+check(rc == 2 and "nothing to draw" in err,
+      f"a variant that shows no disturbance has no disturbance figure, said so ({rc}: {err.strip()})")
 
 # ---- 3. emit FILE -------------------------------------------------------------------------
 

@@ -336,6 +336,58 @@ test_round_trip_actuator (void **state)
   g_clear_error (&error);
 }
 
+/* The plant's units, the compared set and a variant's responses: written in their places
+ * (docs/file-format.md), read back the same, left out when they say the default; a copy keeps
+ * them; a unit that cannot be saved is refused with its name. */
+static void
+test_round_trip_view_choices (void **state)
+{
+  (void) state;
+  g_autoptr (LwDesign) d = lw_design_new ("1/(s*(s+1))", 0.1);
+  lw_design_set_string (&d->input_unit, "V");
+  lw_design_set_string (&d->output_unit, "µm");
+  LwDesignVariant *w = lw_design_add_variant (d, "slow");
+  w->compared = true;
+  w->responses = LW_DESIGN_RESPONSE_REFERENCE | LW_DESIGN_RESPONSE_OUTPUT_DISTURBANCE;
+  LwDesignVariant *x = lw_design_add_variant (d, "none");
+  x->responses = 0;
+  assert_int_equal (d->variants[0].responses, LW_DESIGN_RESPONSES_ALL);
+
+  size_t len = 0, len2 = 0;
+  g_autofree char *t = text_ok (d, &len);
+  assert_non_null (strstr (t, "<plant dead_time_s=\"0\" input_unit=\"V\" output_unit=\"µm\">"));
+  assert_non_null (strstr (t, "<variant name=\"initial\"/>"));
+  assert_non_null (strstr (t, "<variant name=\"slow\" compared=\"true\">\n      <responses "
+                              "shows=\"reference output-disturbance\"/>\n    </variant>"));
+  assert_non_null (strstr (t, "<variant name=\"none\">\n      <responses shows=\"\"/>"));
+  GError *error = NULL;
+  g_autoptr (LwDesign) back = lw_design_load_data (t, len, "choices", &error);
+  if (back == NULL)
+    fail_msg ("%s\n%s", error->message, t);
+  assert_true (lw_design_equal (d, back));
+  assert_true (back->variants[1].compared && !back->variants[0].compared);
+  assert_int_equal (back->variants[2].responses, 0);
+  assert_string_equal (back->output_unit, "µm");
+  g_autofree char *t2 = text_ok (back, &len2);
+  assert_int_equal (len, len2);
+  assert_memory_equal (t, t2, len);
+
+  g_autoptr (LwDesign) c = lw_design_copy (d);
+  assert_true (lw_design_equal (d, c));
+  c->variants[1].compared = false;
+  assert_false (lw_design_equal (d, c));
+  c->variants[1].compared = true;
+  lw_design_set_string (&c->input_unit, " V");
+  assert_false (lw_design_equal (d, c));
+  assert_false (lw_design_validate (c, &error));
+  assert_non_null (strstr (error->message, "the plant's input unit ' V'"));
+  g_clear_error (&error);
+  lw_design_set_string (&c->input_unit, "a unit longer than thirty-two bytes");
+  assert_false (lw_design_validate (c, &error));
+  assert_non_null (strstr (error->message, "longer than 32 bytes"));
+  g_clear_error (&error);
+}
+
 /* ---- numbers ------------------------------------------------------------------------------ */
 
 /* Every finite double is written so that the C library's strtod reads back the same value
@@ -961,6 +1013,7 @@ main (int argc, char **argv)
     cmocka_unit_test (test_literal_document),
     cmocka_unit_test (test_round_trip_variant_period),
     cmocka_unit_test (test_round_trip_actuator),
+    cmocka_unit_test (test_round_trip_view_choices),
     cmocka_unit_test (test_view_names_as_text),
     cmocka_unit_test (test_numbers_round_trip),
     cmocka_unit_test (test_numbers_locale),

@@ -1,5 +1,5 @@
-"""Helpers shared by the window tests that drive a real window under Xvfb: re-running under
-xvfb-run, waiting, keys through xdotool, the window's environment, saving, and reading its
+"""Helpers shared by the window tests that drive a real window under Xvfb: re-running on an
+Xvfb server of its own, waiting, keys through xdotool, the window's environment, saving, and reading its
 debug lines (LW_DEBUG_HANDLES=1)."""
 import os
 import re
@@ -20,16 +20,52 @@ def run(*cmd, check=True):
     return subprocess.run(cmd, check=check, capture_output=True, text=True).stdout.strip()
 
 
-def outer(script, inner_var, argv, tools=('xvfb-run', 'xdotool')):
-    """Runs script again under `xvfb-run -a` with inner_var=1; exit 77 (skipped) when a tool
-    is missing."""
+def x_server():
+    """Starts an Xvfb server of its own and returns (process, DISPLAY). The server picks a
+    free display itself and writes its number to a pipe (-displayfd): two tests starting at
+    once cannot pick the same display, as they can with `xvfb-run -a` (a check-then-start race
+    that lost a window's display under load). -noreset: the server stays up when its last
+    client leaves, so a test's second window finds it (a reset in between refused it)."""
+    rfd, wfd = os.pipe()
+    server = subprocess.Popen(['Xvfb', '-displayfd', str(wfd), '-screen', '0', SCREEN,
+                               '-nolisten', 'tcp', '-noreset'], pass_fds=(wfd,),
+                              stdout=subprocess.DEVNULL, stderr=subprocess.DEVNULL)
+    os.close(wfd)
+    number = b''
+    with os.fdopen(rfd, 'rb') as r:
+        while not number.endswith(b'\n'):
+            chunk = r.read(1)
+            if not chunk:
+                break
+            number += chunk
+    if not number.strip().isdigit():
+        server.kill()
+        fail('Xvfb did not start (no display number)')
+    return server, ':' + number.strip().decode()
+
+
+def stop_x_server(server):
+    server.terminate()
+    try:
+        server.wait(timeout=10)
+    except subprocess.TimeoutExpired:
+        server.kill()
+
+
+def outer(script, inner_var, argv, tools=('Xvfb', 'xdotool')):
+    """Runs script again on an X server of its own (x_server) with inner_var=1; exit 77
+    (skipped) when a tool is missing."""
     for tool in tools:
         if shutil.which(tool) is None:
             print(tool + ' not found: skipped')
             sys.exit(77)
-    env = dict(os.environ, **{inner_var: '1'})
-    r = subprocess.run(['xvfb-run', '-a', '-s', '-screen 0 ' + SCREEN, sys.executable,
-                        os.path.abspath(script)] + argv, env=env)
+    server, display = x_server()
+    env = dict(os.environ, **{inner_var: '1', 'DISPLAY': display})
+    env.pop('WAYLAND_DISPLAY', None)
+    try:
+        r = subprocess.run([sys.executable, os.path.abspath(script)] + argv, env=env)
+    finally:
+        stop_x_server(server)
     sys.exit(r.returncode)
 
 

@@ -7,7 +7,7 @@ crossover the window shows (centre 0.3·ν_c, peak 20 dB, width 0.1·ν_c, ν_c 
 `loopwright-cli analyze --json` of the design as opened).
 
 Usage: test-add-stage.py LOOPWRIGHT LOOPWRIGHT_CLI SCHEMA_DIR ARTEFACT_DIR
-Re-runs itself under `xvfb-run -a` (exit 77, skipped, when xvfb-run or xdotool is missing).
+Re-runs itself on an Xvfb server of its own (lwgui.outer; exit 77, skipped, when Xvfb or xdotool is missing).
 Screenshots stay in ARTEFACT_DIR: add-stage-menu.png, add-stage-after.png.
 """
 import json
@@ -41,7 +41,7 @@ DESIGN = """<?xml version="1.0" encoding="UTF-8"?>
 
 
 def outer(argv):
-    lwgui.outer(__file__, 'LW_TEST_ADD_STAGE_INNER', argv, tools=('xvfb-run', 'xdotool', 'import'))
+    lwgui.outer(__file__, 'LW_TEST_ADD_STAGE_INNER', argv, tools=('Xvfb', 'xdotool', 'import'))
 
 
 def stages(path):

@@ -11,7 +11,7 @@ LW_DEBUG_HANDLES=1 (src/gui/lw-autosave.h); LW_TEST_AUTOSAVE_INTERVAL_MS makes a
 300 ms instead of 30 s.
 
 Usage: test-autosave.py LOOPWRIGHT SCHEMA_DIR EXAMPLE.lwd ARTEFACT_DIR
-Re-runs itself under `xvfb-run -a` (exit 77, skipped, when xvfb-run or xdotool is missing).
+Re-runs itself on an Xvfb server of its own (lwgui.outer; exit 77, skipped, when Xvfb or xdotool is missing).
 """
 import os
 import shutil
@@ -191,7 +191,7 @@ def main():
         sys.exit(2)
     if os.environ.get('LW_TEST_AUTOSAVE_INNER') != '1':
         lwgui.outer(__file__, 'LW_TEST_AUTOSAVE_INNER', sys.argv[1:],
-                    tools=('xvfb-run', 'xdotool', 'import'))
+                    tools=('Xvfb', 'xdotool', 'import'))
     inner(*sys.argv[1:])
 
 

@@ -11,7 +11,7 @@ through xdotool), the whole job end to end:
   byte with what `loopwright-cli emit --form sections` writes from the saved document.
 
 Usage: test-blank-design.py LOOPWRIGHT CLI SCHEMA_DIR ARTEFACT_DIR
-Re-runs itself under `xvfb-run -a` (exit 77, skipped, when xvfb-run or xdotool is missing).
+Re-runs itself on an Xvfb server of its own (lwgui.outer; exit 77, skipped, when Xvfb or xdotool is missing).
 The window's output goes to ARTEFACT_DIR/blank-design.log, screenshots to
 ARTEFACT_DIR/blank-design-*.png. The code folder is given by the test hook LW_TEST_CODE_DIR
 (the folder chooser is GTK's own and not under test here).

@@ -7,7 +7,7 @@ document is restored byte for byte; open a broken document and check the error i
 nothing is lost.
 
 Usage: test-edit.py LOOPWRIGHT LOOPWRIGHT_CLI SCHEMA_DIR EXAMPLE ARTEFACT_DIR
-Re-runs itself under `xvfb-run -a` (exit 77, skipped, when xvfb-run or xdotool is missing).
+Re-runs itself on an Xvfb server of its own (lwgui.outer; exit 77, skipped, when Xvfb or xdotool is missing).
 The window prints its handle positions with LW_DEBUG_HANDLES=1 (src/gui/lw-plot-pane.h).
 Screenshots stay in ARTEFACT_DIR: edit-before.png, edit-dragged.png, edit-broken.png.
 """
@@ -32,7 +32,7 @@ TARGET_RATIO = 2.5    # about how far the drag moves the zero (it must stay belo
 
 
 def outer(argv):
-    lwgui.outer(__file__, 'LW_TEST_EDIT_INNER', argv, tools=('xvfb-run', 'xdotool', 'import'))
+    lwgui.outer(__file__, 'LW_TEST_EDIT_INNER', argv, tools=('Xvfb', 'xdotool', 'import'))
 
 
 def wait_for(pred, what, timeout=15.0):

@@ -8,10 +8,12 @@ with the reason (the window's debug line LW-FIELD-REFUSED names the field and th
 the saved document must then be byte for byte the one before: nothing was converted into the
 design. Then a small number, 0.00025 as the lead's zero, is taken exactly (it used to show as
 "0.000" and be read back as such), survives moving the focus through the field again, and
-one Ctrl+Z gives the first document back.
+one Ctrl+Z gives the first document back. The plant's input unit typed as "mA " is taken up to
+"mA" and the space at its end refused (the document keeps "mA"); Alt+U switches u(t) off for the variant, saved as its
+<responses>, and one undo takes it back.
 
 Usage: test-fields.py LOOPWRIGHT SCHEMA_DIR EXAMPLE ARTEFACT_DIR
-Re-runs itself under `xvfb-run -a` (exit 77, skipped, when xvfb-run or xdotool is missing).
+Re-runs itself on an Xvfb server of its own (lwgui.outer; exit 77, skipped, when Xvfb or xdotool is missing).
 The window's output goes to ARTEFACT_DIR/fields.log; a screenshot of a refusal to
 ARTEFACT_DIR/fields-refused.png.
 """
@@ -98,6 +100,41 @@ def inner(app, schema_dir, example, artefacts):
                 time.sleep(0.4)
                 if saved_after(wid, design) != doc0:
                     fail('one undo does not give the document before the small zero')
+
+                # The units (Alt+N): typing "mA " — the unit is taken as typed until the space
+                # at its end, which is refused (the document keeps "mA"). A response switch (Alt+U, u(t)) is the variant's,
+                # saved as <responses>; both are undone one step each.
+                n_unit = len([r for r in refusals(log_path) if 'Input unit: ' in r])
+                key(wid, 'alt+n')
+                run('xdotool', 'key', '--clearmodifiers', 'ctrl+a')
+                run('xdotool', 'type', '--delay', '20', '--', 'mA ')
+                time.sleep(0.8)
+                got = wait_for(lambda: [r for r in refusals(log_path)
+                                        if 'Input unit: ' in r][n_unit:],
+                               'the refusal of a unit ending in a space')
+                if 'space' not in got[-1]:
+                    fail('a unit ending in a space: expected a refusal naming the space, got %r'
+                         % got[-1])
+                # the entry is read as it is typed: "mA" was taken before the space came
+                doc3 = saved_after(wid, design)
+                if b'input_unit="mA" output_unit="m"' not in doc3:
+                    fail('the last good unit mA is not the saved one:\n%s'
+                         % doc3.decode(errors='replace'))
+                run('xdotool', 'key', '--clearmodifiers', 'BackSpace')
+                time.sleep(0.8)
+                if saved_after(wid, design) != doc3:
+                    fail('taking the space away changed the document again')
+                key(wid, 'alt+u')
+                time.sleep(0.8)
+                doc4 = saved_after(wid, design)
+                want = (b'<responses shows="reference input-disturbance output-disturbance"/>')
+                if want not in doc4:
+                    fail('Alt+U (u(t) off) was not saved as %r:\n%s'
+                         % (want, doc4.decode(errors='replace')))
+                key(wid, 'ctrl+z')
+                time.sleep(0.4)
+                if saved_after(wid, design) != doc3:
+                    fail('one undo does not take the response switch back')
                 quit_window(proc, wid)
             finally:
                 kill_window(proc)

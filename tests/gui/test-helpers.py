@@ -7,7 +7,7 @@ dialog again with its crossover typed wrong ("4O", a letter O for a zero): the d
 it, Return applies nothing. Design Details: a title typed there is saved in the document.
 
 Usage: test-helpers.py LOOPWRIGHT CLI SCHEMA_DIR EXAMPLE ARTEFACT_DIR
-Re-runs itself under `xvfb-run -a` (exit 77, skipped, when xvfb-run, xdotool or import is
+Re-runs itself on an Xvfb server of its own (lwgui.outer; exit 77, skipped, when Xvfb, xdotool or import is
 missing). Screenshots in ARTEFACT_DIR: helpers-meet.png, helpers-refused.png.
 """
 import os
@@ -121,5 +121,5 @@ def main(argv):
 if __name__ == '__main__':
     if os.environ.get('LW_TEST_HELPERS_INNER') != '1':
         lwgui.outer(__file__, 'LW_TEST_HELPERS_INNER', sys.argv[1:],
-                    tools=('xvfb-run', 'xdotool', 'import'))
+                    tools=('Xvfb', 'xdotool', 'import'))
     main(sys.argv[1:])

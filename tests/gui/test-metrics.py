@@ -11,7 +11,7 @@ digits; 1e-9 leaves room for a different order of floating-point sums, not for a
 loop (the period override alone moves the margins by degrees).
 
 Usage: test-metrics.py LOOPWRIGHT LOOPWRIGHT-CLI SCHEMA_DIR EXAMPLE ARTEFACT_DIR
-Re-runs itself under `xvfb-run -a` (exit 77, skipped, when xvfb-run or xdotool is missing).
+Re-runs itself on an Xvfb server of its own (lwgui.outer; exit 77, skipped, when Xvfb or xdotool is missing).
 The window's output goes to ARTEFACT_DIR/metrics.log.
 """
 import json
@@ -99,6 +99,10 @@ def inner(app, cli, schema_dir, example, artefacts):
                 time.sleep(0.5)
                 key(wid, 'ctrl+shift+k')
                 table = wait_for(lambda: metrics(log_path, 3), 'the metrics table of three')
+                # the compared set is part of the document (docs/file-format.md): save it, so
+                # that Ctrl+Q closes without asking
+                key(wid, 'ctrl+s')
+                time.sleep(0.5)
                 quit_window(proc, wid)
             finally:
                 kill_window(proc)

@@ -8,7 +8,7 @@ as it was. A design whose <view shows> starts with the pole-zero map opens with 
 first pane.
 
 Usage: test-pane-views.py LOOPWRIGHT SCHEMA_DIR EXAMPLE ARTEFACT_DIR
-Re-runs itself under `xvfb-run -a` (exit 77, skipped, when xvfb-run or xdotool is missing).
+Re-runs itself on an Xvfb server of its own (lwgui.outer; exit 77, skipped, when Xvfb or xdotool is missing).
 The window's output goes to ARTEFACT_DIR/pane-views.log; a screenshot to
 ARTEFACT_DIR/pane-views.png.
 """

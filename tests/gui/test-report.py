@@ -9,7 +9,7 @@ The file chooser is bypassed by the test hook LW_TEST_REPORT_PATH (Export Report
 there at once); the date comes from SOURCE_DATE_EPOCH, which the window reads like the CLI.
 
 Usage: test-report.py LOOPWRIGHT LOOPWRIGHT-CLI SCHEMA_DIR EXAMPLE ARTEFACT_DIR
-Re-runs itself under `xvfb-run -a` (exit 77, skipped, when xvfb-run or xdotool is missing).
+Re-runs itself on an Xvfb server of its own (lwgui.outer; exit 77, skipped, when Xvfb or xdotool is missing).
 The window's output goes to ARTEFACT_DIR/report-*.log.
 """
 import os
@@ -17,6 +17,7 @@ import shutil
 import subprocess
 import sys
 import tempfile
+import time
 
 EPOCH = '1768435200'          # 2026-01-15T00:00:00Z
 DATE = '2026-01-15'
@@ -50,6 +51,10 @@ def window_report(app, schema_dir, design, out, compare_all, log_path, tmp):
             with open(log_path, encoding='utf-8', errors='replace') as f:
                 if ('LW-NOTICE Report written to ' + out) not in f.read():
                     fail('no notice of where the report was written')
+            # the compared set is part of the document (docs/file-format.md): save it, so
+            # that Ctrl+Q closes without asking
+            key(wid, 'ctrl+s')
+            time.sleep(0.5)
             quit_window(proc, wid)
         finally:
             kill_window(proc)
@@ -67,8 +72,9 @@ def keep(artefacts, name_a, a, name_b, b):
 def cli_report(cli, design, out, variants):
     # the CLI too keeps fontconfig's cache until exit (lsan.supp, for the ASan pass)
     lsan = lsan_options()
-    p = subprocess.run([cli, 'report', design, '--out', out, '--variants', variants,
-                        '--date', DATE], capture_output=True, text=True, timeout=60,
+    which = ['--variants', variants] if variants is not None else ['--compared']
+    p = subprocess.run([cli, 'report', design, '--out', out] + which +
+                       ['--date', DATE], capture_output=True, text=True, timeout=60,
                        env=dict(os.environ, LC_ALL='C.UTF-8', LSAN_OPTIONS=lsan))
     if p.returncode != 0:
         fail('loopwright-cli report: exit %d: %s' % (p.returncode, p.stderr))
@@ -102,9 +108,18 @@ def inner(app, cli, schema_dir, example, artefacts):
             if n.encode() not in html:
                 fail('the HTML report does not name variant %s' % n)
 
-        pdf = window_report(app, schema_dir, design, os.path.join(tmp, 'window.pdf'), False,
+        # the first window saved its compared set with the document: the CLI's --compared
+        # reads it back
+        ref2 = cli_report(cli, design, os.path.join(tmp, 'cli2.html'), None)
+        if ref2 != html:
+            fail('report --compared on the saved document differs from the window\'s report')
+
+        # the PDF of the active variant alone, from a fresh copy (nothing compared)
+        single = os.path.join(tmp, 'slider-single.lwd')
+        shutil.copyfile(example, single)
+        pdf = window_report(app, schema_dir, single, os.path.join(tmp, 'window.pdf'), False,
                             os.path.join(artefacts, 'report-pdf.log'), tmp)
-        ref = cli_report(cli, design, os.path.join(tmp, 'cli.pdf'), active)
+        ref = cli_report(cli, single, os.path.join(tmp, 'cli.pdf'), active)
         if not pdf.startswith(b'%PDF-'):
             fail('the window\'s PDF report is not a PDF')
         if pdf != ref:

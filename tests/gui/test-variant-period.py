@@ -7,7 +7,7 @@ design's period (the spin starts at it) and leaves the other variant alone; one 
 away again (one undo step), and the saved document is then byte for byte the first one.
 
 Usage: test-variant-period.py LOOPWRIGHT SCHEMA_DIR EXAMPLE ARTEFACT_DIR
-Re-runs itself under `xvfb-run -a` (exit 77, skipped, when xvfb-run or xdotool is missing).
+Re-runs itself on an Xvfb server of its own (lwgui.outer; exit 77, skipped, when Xvfb or xdotool is missing).
 The window's output goes to ARTEFACT_DIR/variant-period.log.
 """
 import os

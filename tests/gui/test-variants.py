@@ -8,7 +8,7 @@ theme), and that the window reports three series per view and a metrics table wi
 columns; undo twice (the drag, then the copy: one step each) and redo.
 
 Usage: test-variants.py LOOPWRIGHT SCHEMA_DIR EXAMPLE ARTEFACT_DIR
-Re-runs itself under `xvfb-run -a` (exit 77, skipped, when xvfb-run, xdotool, import or
+Re-runs itself on an Xvfb server of its own (lwgui.outer; exit 77, skipped, when Xvfb, xdotool, import or
 convert is missing). Screenshots stay in ARTEFACT_DIR: variants-copy-dragged.png,
 variants-compare.png; the window's output in variants.log.
 """
@@ -38,7 +38,7 @@ MIN_PIXELS = 150
 
 
 def outer(argv):
-    lwgui.outer(__file__, 'LW_TEST_VARIANTS_INNER', argv, tools=('xvfb-run', 'xdotool', 'import', 'convert'))
+    lwgui.outer(__file__, 'LW_TEST_VARIANTS_INNER', argv, tools=('Xvfb', 'xdotool', 'import', 'convert'))
 
 
 def wait_for(pred, what, timeout=15.0):
@@ -64,12 +64,13 @@ class Log:
 
 
 def variant_xml(doc, name):
-    """The bytes of <variant name="NAME"> … </variant> in a saved (canonical) document."""
-    m = re.search(rb'<variant name="' + re.escape(name.encode()) + rb'">.*?</variant>', doc,
-                  re.S)
+    """The bytes of <variant name="NAME"> … </variant> in a saved (canonical) document, without
+    its compared="true" (whether it is compared is the window's choice, kept in the document)."""
+    m = re.search(rb'<variant name="' + re.escape(name.encode()) + rb'"( compared="true")?>.*?</variant>',
+                  doc, re.S)
     if m is None:
         fail('no variant "%s" in the saved document' % name)
-    return m.group(0)
+    return m.group(0).replace(b' compared="true"', b'', 1)
 
 
 def lead_zero(xml):
@@ -174,15 +175,23 @@ def inner(app, schema_dir, example, artefacts):
             fail('a fourth variant colour shows (%d pixels) with three variants'
                  % counts[3])
 
-        # Undo: the drag, then the copy, each one step (comparing is not a document change).
+        # Undo: comparing every variant (kept in the document), the drag, then the copy, each
+        # one step.
+        doc_c = saved_after(wid, design)
+        if doc_c.count(b'compared="true"') != 2:
+            fail('the saved document does not mark the two other variants compared')
+        key(wid, 'ctrl+z')
+        time.sleep(0.4)
+        if saved_after(wid, design) != doc_b:
+            fail('one undo after comparing does not give the document after the drag')
         key(wid, 'ctrl+z')
         time.sleep(0.4)
         if saved_after(wid, design) != doc_a:
-            fail('one undo after the drag does not give the document after the copy')
+            fail('a second undo does not give the document after the copy')
         key(wid, 'ctrl+z')
         time.sleep(0.4)
         if saved_after(wid, design) != doc0:
-            fail('a second undo does not give the document before the copy')
+            fail('a third undo does not give the document before the copy')
         key(wid, 'ctrl+shift+z')
         time.sleep(0.4)
         if saved_after(wid, design) != doc_a:

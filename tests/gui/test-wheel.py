@@ -8,7 +8,7 @@ changed. Without lw_gui_spin_wheel_off a number field that passes under the stil
 takes a notch as one step of its value (checked: the test then fails on the title).
 
 Usage: test-wheel.py LOOPWRIGHT SCHEMA_DIR EXAMPLE
-Re-runs itself under `xvfb-run -a` (exit 77, skipped, when xvfb-run or xdotool is missing).
+Re-runs itself on an Xvfb server of its own (lwgui.outer; exit 77, skipped, when Xvfb or xdotool is missing).
 """
 import os
 import re

@@ -4,7 +4,7 @@ window started without a file shows a blank design, whose plots are empty), wait
 window, take screenshots, check that the panels and the plots are drawn, quit with Ctrl+Q.
 
 Usage: test-window.py LOOPWRIGHT SCHEMA_DIR EXAMPLE ARTEFACT_DIR
-Re-runs itself under `xvfb-run -a` (exit 77, skipped, when xvfb-run is missing). Screenshots
+Re-runs itself on an Xvfb server of its own (lwgui.outer; exit 77, skipped, when Xvfb is missing). Screenshots
 stay in ARTEFACT_DIR (screen.png, window.png, plots.png).
 """
 import os
@@ -32,7 +32,7 @@ def image_figure(path, fx, crop=None):
 
 def outer(argv):
     lwgui.outer(__file__, 'LW_TEST_WINDOW_INNER', argv,
-                tools=('xvfb-run', 'xdotool', 'import', 'convert'))
+                tools=('Xvfb', 'xdotool', 'import', 'convert'))
 
 
 def inner(app, schema_dir, example, artefacts):

@@ -46,8 +46,10 @@ LOOP = ["--plant", "40/(s*(s+8))", "--period", "0.02", "--controller", "5*(w+4)/
 T = 0.02
 VIEWS = ["bode-z", "bode-w", "nyquist", "nichols", "step", "poles"]
 # Curves drawn at the curve width per variant (+1 legend sample): two panels for Bode, one
-# curve for Nyquist (its mirror is thinner), Nichols and step; none for the pole map.
-CURVES = {"bode-z": 3, "bode-w": 3, "nyquist": 2, "nichols": 2, "step": 2, "poles": 1}
+# curve for Nyquist (its mirror is thinner) and Nichols, the output and u(kT) under it for
+# step (every response is shown unless a document's variant says otherwise); none for the
+# pole map.
+CURVES = {"bode-z": 3, "bode-w": 3, "nyquist": 2, "nichols": 2, "step": 3, "poles": 1}
 BLUE = (0x00, 0x72, 0xb2)        # first colour of the light palette (lw-plot-draw.c)
 NYQUIST_GREY = (0x3a, 0x3a, 0x3a)
 LIGHT_BG = (0xff, 0xff, 0xff)
