@@ -528,9 +528,22 @@ draw_layer (LwPlot *p, cairo_t *cr, double width, double height, Layer layer, si
                        t->text, NULL, 0);
       }
       if (pn->y_label)
-        lwp_draw_text (p->text_cache, cr, pn->y_label, FONT_LABEL, pn->rx - 62,
-                   pn->ry + 0.5 * pn->rh, 0.5, 0.5,
-                   t->text, NULL, -G_PI / 2);
+        {
+          /* a title longer than its panel is high would run into the next panel's: the
+           * short form (the quantity and its unit) then */
+          g_autofree char *brief = NULL;
+          const char *title = pn->y_label;
+          PangoLayout *lay = lwp_text_layout (p->text_cache, cr, title, FONT_LABEL);
+          int lw_, lh_;
+          pango_layout_get_size (lay, &lw_, &lh_);
+          g_object_unref (lay);
+          if ((double) lw_ / PANGO_SCALE > pn->rh && pn->y_name != NULL)
+            title = brief = pn->y_unit != NULL && pn->y_unit[0] != '\0'
+                            ? g_strdup_printf ("%s (%s)", pn->y_name, pn->y_unit)
+                            : g_strdup (pn->y_name);
+          lwp_draw_text (p->text_cache, cr, title, FONT_LABEL, pn->rx - 62,
+                         pn->ry + 0.5 * pn->rh, 0.5, 0.5, t->text, NULL, -G_PI / 2);
+        }
       if (pn->x_label && pn->x_tick_labels)
         lwp_draw_text (p->text_cache, cr, pn->x_label, FONT_LABEL, pn->rx + 0.5 * pn->rw,
                    pn->ry + pn->rh + 22,

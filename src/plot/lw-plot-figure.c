@@ -103,6 +103,7 @@ lwp_add_text_uv (Panel *pn, double u, double v, const char *text, double dx, dou
   p->ax = ax;
   p->ay = ay;
   p->colour = COL_TEXT;
+  p->plate = true;   /* every text on the background's colour: no grid line crosses it */
   return p;
 }
 
@@ -133,6 +134,29 @@ lwp_margin_label (Panel *pn, double x, double y, const char *text, double dx, do
   t->plate = true;
   t->label = true;
   return t;
+}
+
+void
+lwp_choose_labels (const LwPlotCrossover *x, size_t n, double within, bool *label)
+{
+  double best = INFINITY;
+  for (size_t i = 0; i < n; i++)
+    {
+      label[i] = false;
+      if (isfinite (x[i].margin))
+        best = fmin (best, fabs (x[i].margin));
+    }
+  for (int k = 0; k < MAX_LABELLED_CROSSOVERS; k++)
+    {
+      size_t pick = n;
+      for (size_t i = 0; i < n; i++)
+        if (!label[i] && isfinite (x[i].margin) && fabs (x[i].margin) <= best + within
+            && (pick == n || fabs (x[i].margin) < fabs (x[pick].margin)))
+          pick = i;
+      if (pick == n)
+        break;
+      label[pick] = true;
+    }
 }
 
 /* A curve of variant v made from the arrays src_x, src_y (tag tells apart curves made from

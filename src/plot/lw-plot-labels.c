@@ -5,6 +5,7 @@
 #include "lw-plot-private.h"
 
 #include <math.h>
+#include <stdio.h>
 
 typedef struct { double x0, y0, x1, y1; } Box;
 
@@ -40,8 +41,9 @@ text_size (LwPlot *p, cairo_t *cr, const char *text, double *w, double *h)
 
 /* Puts text q at the first free place of: where it prefers, mirrored about its anchor, then
  * a row down or up (one text height at a time, up to LABEL_ROWS rows each way), inside its
- * panel's height and the figure's width; with must_show, where it prefers (moved inside the
- * figure) when no place is free. Its box joins taken. */
+ * panel's plot area; with must_show, where it prefers (moved inside the plot area) when no
+ * place is free. A text whose anchor is outside the plot area (a marker zoomed or scrolled
+ * out of view, a crossing beyond the phase axis) is left out. Its box joins taken. */
 #define LABEL_ROWS 8
 static void
 place_text (LwPlot *p, cairo_t *cr, const Panel *pn, Prim *q, GArray *taken, bool must_show)
@@ -52,10 +54,14 @@ place_text (LwPlot *p, cairo_t *cr, const Panel *pn, Prim *q, GArray *taken, boo
   double tw, th;
   text_size (p, cr, q->text, &tw, &th);
   double axp = px_of (pn, q->u[0]), ayp = py_of (pn, q->v[0]);
+  const double edge = 0.5;   /* px: an anchor on the frame is inside */
+  if (axp < pn->rx - edge || axp > pn->rx + pn->rw + edge || ayp < pn->ry - edge
+      || ayp > pn->ry + pn->rh + edge)
+    return;
   /* the preferred and the mirrored left edge; the preferred top edge */
   double xs[2] = { axp + q->dx - q->ax * tw, axp - q->dx - (1.0 - q->ax) * tw };
   double y0 = ayp + q->dy - q->ay * th;
-  double ylo = pn->ry, yhi = pn->ry + pn->rh, xhi = p->width - 1.0;
+  double ylo = pn->ry, yhi = pn->ry + pn->rh, xlo = pn->rx, xhi = pn->rx + pn->rw;
   for (int row = 0; row <= 2 * LABEL_ROWS; row++)
     {
       /* rows 0, +1, −1, +2, −2, … */
@@ -64,10 +70,12 @@ place_text (LwPlot *p, cairo_t *cr, const Panel *pn, Prim *q, GArray *taken, boo
         {
           double x = xs[side], y = y0 + dy;
           Box b = text_box (x, y, tw, th);
-          if (b.x0 < 0.0 || b.x1 > xhi || y < ylo || y + th > yhi || !box_free (&b, taken))
+          if (b.x0 < xlo || b.x1 > xhi || y < ylo || y + th > yhi || !box_free (&b, taken))
             continue;
           q->lx = x;
           q->ly = y;
+          q->lw = tw;
+          q->lh = th;
           q->shown = true;
           g_array_append_val (taken, b);
           return;
@@ -75,8 +83,10 @@ place_text (LwPlot *p, cairo_t *cr, const Panel *pn, Prim *q, GArray *taken, boo
     }
   if (must_show)
     {
-      q->lx = fmin (fmax (xs[0], 2.0), fmax (xhi - tw - 2.0, 2.0));
+      q->lx = fmin (fmax (xs[0], xlo + 2.0), fmax (xhi - tw - 2.0, xlo + 2.0));
       q->ly = fmin (fmax (y0, ylo), fmax (yhi - th, ylo));
+      q->lw = tw;
+      q->lh = th;
       q->shown = true;
       Box b = text_box (q->lx, q->ly, tw, th);
       g_array_append_val (taken, b);
@@ -126,4 +136,19 @@ lwp_place_labels (LwPlot *p, cairo_t *cr, size_t first)
         }
     }
   g_array_free (taken, TRUE);
+  /* LW_DEBUG_TEXT=1: each text drawn in a plot area with its box and the area's, in the
+   * figure's units, for the label gallery test (tests/plot/test-label-gallery.py) */
+  if (g_strcmp0 (g_getenv ("LW_DEBUG_TEXT"), "1") == 0)
+    for (size_t k = 0; k < p->n_panels; k++)
+      {
+        const Panel *pn = &p->panels[k];
+        for (guint i = 0; i < pn->prims->len; i++)
+          {
+            const Prim *q = pn->prims->pdata[i];
+            if (q->kind == PRIM_TEXT && q->shown)
+              fprintf (stderr, "LW-TEXT panel=%zu box=%.2f,%.2f,%.2f,%.2f area=%.2f,%.2f,%.2f,%.2f "
+                       "text=%s\n", k, q->lx, q->ly, q->lx + q->lw, q->ly + q->lh, pn->rx,
+                       pn->ry, pn->rx + pn->rw, pn->ry + pn->rh, q->text);
+          }
+      }
 }

@@ -27,6 +27,15 @@
 #define DROP_WIDTH 0.8
 #define THIN_WIDTH 1.0
 #define MAX_LABELLED_CROSSOVERS 3
+/* A margin is labelled when it is the governing one (the smallest in magnitude) or within
+ * this much of it; the rest are marked, and read in the hover and the metrics table. Common
+ * practice, no source: a crossing more than a few dB or tens of degrees further from
+ * instability than the governing one does not decide the design. */
+#define LABEL_WITHIN_GM_DB 6.0
+#define LABEL_WITHIN_PM_DEG 30.0
+/* The default phase axis ends about this factor above the highest gain crossover (a decade,
+ * issue 13's "about a decade past the last crossover"). */
+#define PHASE_BRANCH_SPAN 10.0
 /* Nyquist diagram and pole map: points with |L| (or |z|) beyond this are left out of the
  * automatic range (the curve is clipped, not dropped). Common practice, no source. */
 #define NYQUIST_RANGE_CAP 2.0
@@ -75,7 +84,7 @@ typedef struct {
    * place was found */
   bool label;
   bool shown;
-  double lx, ly;
+  double lx, ly, lw, lh;         /* lw, lh: the size of its text */
   double r_units, a0, a1;
   long owner;            /* the variant the primitive belongs to (its layer), or −1 */
   /* a variant's curve: where its points came from (LwPlotVariant.data_key, the input arrays
@@ -182,6 +191,11 @@ Prim *lwp_add_text_uv (Panel *pn, double u, double v, const char *text, double d
 Prim *lwp_add_text (Panel *pn, double x, double y, const char *text, double dx, double dy,
                     double ax, double ay);
 Prim *lwp_style_variant (Prim *p, size_t variant, double width);
+/* Which of the n crossovers x get a margin label (label[i]): the governing one (the
+ * smallest |margin|) and those whose |margin| is within `within` of it, at most
+ * MAX_LABELLED_CROSSOVERS of them, the smallest first; non-finite margins never. */
+void lwp_choose_labels (const LwPlotCrossover *x, size_t n, double within, bool *label);
+
 Prim *lwp_margin_label (Panel *pn, double x, double y, const char *text, double dx, double dy,
                         double ax, double ay, size_t v);
 Prim *lwp_curve_reuse (LwPlot *pl, Panel *pn, size_t v, const void *src_x, const void *src_y,

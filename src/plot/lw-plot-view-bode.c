@@ -20,12 +20,56 @@ floor_125 (double v)
   return d;
 }
 
+/* Where the phase branch the eye needs ends: PHASE_BRANCH_SPAN above the highest gain
+ * crossover of any variant; +∞ (the whole curve) when there is none. */
+static double
+branch_end (const LwPlotInput *in, bool w_plane)
+{
+  double top = 0.0;
+  for (size_t v = 0; v < in->n_variants; v++)
+    {
+      const LwPlotFreqCurve *c = w_plane ? &in->variants[v].w : &in->variants[v].z;
+      for (size_t i = 0; i < c->n_gain_crossovers; i++)
+        top = fmax (top, c->gain_crossovers[i].freq_rad_s);
+    }
+  return top > 0.0 ? PHASE_BRANCH_SPAN * top : INFINITY;
+}
+
+/* The −180° + k·360° levels the phase margins are measured from (one per branch holding a
+ * gain crossover of some variant), at most n of them, distinct; −180° when no variant
+ * crosses 0 dB. Returns how many. */
+static size_t
+margin_branches (const LwPlotInput *in, bool w_plane, double *refs, size_t n)
+{
+  size_t k = 0;
+  for (size_t v = 0; v < in->n_variants; v++)
+    {
+      const LwPlotFreqCurve *c = w_plane ? &in->variants[v].w : &in->variants[v].z;
+      for (size_t i = 0; i < c->n_gain_crossovers; i++)
+        {
+          const LwPlotCrossover *x = &c->gain_crossovers[i];
+          double ref = 180.0 + 360.0 * round ((x->phase_deg - x->margin - 180.0) / 360.0);
+          bool seen = false;
+          for (size_t j = 0; j < k; j++)
+            seen = seen || refs[j] == ref;
+          if (!seen && k < n && isfinite (ref))
+            refs[k++] = ref;
+        }
+    }
+  if (k == 0 && n > 0)
+    refs[k++] = -180.0;
+  return k;
+}
+
 static void
 build_bode (LwPlot *pl, const LwPlotInput *in, bool w_plane)
 {
   Panel *mag = &pl->panels[0], *ph = &pl->panels[1];
   pl->n_panels = 2;
-  Extent ex = { 0 }, em = { 0 }, ep = { 0 };
+  Extent ex = { 0 }, em = { 0 }, ep = { 0 }, ep_all = { 0 };
+  double f_end = in->phase_full_range ? INFINITY : branch_end (in, w_plane);
+  double refs[16];
+  size_t n_refs = margin_branches (in, w_plane, refs, G_N_ELEMENTS (refs));
   /* the data's extents choose the axes, unless those of axes_of are kept (lwp_keep_axes) */
   size_t n_extent = lwp_axes_kept (pl, in) ? 0 : in->n_variants;
   for (size_t v = 0; v < n_extent; v++)
@@ -41,7 +85,9 @@ build_bode (LwPlot *pl, const LwPlotInput *in, bool w_plane)
       for (size_t i = 0; i < c->n; i++)
         {
           lwp_extent_add (&em, c->mag_db[i]);
-          lwp_extent_add (&ep, c->phase_deg[i]);
+          lwp_extent_add (&ep_all, c->phase_deg[i]);
+          if (c->freq_rad_s[i] <= f_end)
+            lwp_extent_add (&ep, c->phase_deg[i]);
         }
     }
   /* the magnitude axis keeps 0 dB in view and at most MAG_DEPTH_DB below the top */
@@ -49,7 +95,14 @@ build_bode (LwPlot *pl, const LwPlotInput *in, bool w_plane)
   lwp_extent_add (&em, -10.0);
   if (em.lo < em.hi - MAG_DEPTH_DB)
     em.lo = em.hi - MAG_DEPTH_DB;
-  lwp_extent_add (&ep, -180.0);
+  /* the phase axis: the branch from the low end to a decade past the last gain crossover,
+   * with the levels the margins are measured from; the whole curve when it goes little
+   * further (less than 90° more) */
+  for (size_t k = 0; k < n_refs; k++)
+    lwp_extent_add (&ep, refs[k]);
+  if (ep_all.any && ep.any && ep_all.lo >= ep.lo - 90.0 && ep_all.hi <= ep.hi + 90.0)
+    ep = ep_all;
+  bool phase_cut = ep_all.any && ep.any && (ep_all.lo < ep.lo || ep_all.hi > ep.hi);
 
   lwp_axis_from_extent (&mag->x, LW_PLOT_SCALE_LOG, LW_PLOT_TICKS_PLAIN, ex, 6);
   if (ex.any && ex.lo > 0.0)
@@ -78,12 +131,25 @@ build_bode (LwPlot *pl, const LwPlotInput *in, bool w_plane)
   p->width = 1.2;
   lwp_add_phase_references (ph, &ph->y, false);
 
-  /* requirement marks */
+  /* the curve goes on past the axis: say where to */
+  if (phase_cut && lwp_axes_kept (pl, in) == false)
+    {
+      char buf[64];
+      double to = ep_all.lo < ep.lo ? ep_all.lo : ep_all.hi;
+      snprintf (buf, sizeof buf, "\u2220L continues to %s%.0f\u00b0 %s", to < 0 ? "\u2212" : "",
+                fabs (to), ep_all.lo < ep.lo ? "\u2193" : "\u2191");
+      Prim *t = lwp_add_text_uv (ph, 1.0, ep_all.lo < ep.lo ? 0.0 : 1.0, buf, -5,
+                                 ep_all.lo < ep.lo ? -3 : 3, 1.0, ep_all.lo < ep.lo ? 1.0 : 0.0);
+      t->plate = true;
+      t->colour = COL_REF;
+    }
+
+  /* requirement marks: at the branches the margins are measured from */
   const LwPlotRequirements *rq = &in->req;
   if (rq->has_min_phase_margin)
-    for (int k = -8; k <= 8; k++)
+    for (size_t k = 0; k < n_refs; k++)
       {
-        double ref = 180.0 + 360.0 * k;
+        double ref = refs[k];
         double top = ref + rq->min_phase_margin_deg;
         if (ref < ph->y.lo || ref > ph->y.hi)
           continue;
@@ -147,10 +213,15 @@ build_bode (LwPlot *pl, const LwPlotInput *in, bool w_plane)
       pc->dash = DASH_VARIANT;
     }
 
-  /* margin annotations: drop line, gauge bar, label on a plate */
+  /* margin annotations: drop line, gauge bar, label on a plate (the governing margins and
+   * those near them: lwp_choose_labels) */
   for (size_t v = 0; v < in->n_variants; v++)
     {
       const LwPlotFreqCurve *c = w_plane ? &in->variants[v].w : &in->variants[v].z;
+      bool *pm_label = g_new0 (bool, c->n_gain_crossovers + 1);
+      bool *gm_label = g_new0 (bool, c->n_phase_crossovers + 1);
+      lwp_choose_labels (c->gain_crossovers, c->n_gain_crossovers, LABEL_WITHIN_PM_DEG, pm_label);
+      lwp_choose_labels (c->phase_crossovers, c->n_phase_crossovers, LABEL_WITHIN_GM_DB, gm_label);
       for (size_t i = 0; i < c->n_gain_crossovers; i++)
         {
           const LwPlotCrossover *x = &c->gain_crossovers[i];
@@ -162,7 +233,7 @@ build_bode (LwPlot *pl, const LwPlotInput *in, bool w_plane)
           lwp_style_variant (lwp_add_segment (ph, f, ref, f, x->phase_deg), v, GAUGE_WIDTH);
           lwp_style_variant (lwp_add_mark (mag, f, 0.0, MARK_CIRCLE, 7), v, 1.3);
           lwp_style_variant (lwp_add_mark (ph, f, x->phase_deg, MARK_DISC, 5), v, 1.0);
-          if (i < MAX_LABELLED_CROSSOVERS)
+          if (pm_label[i])
             {
               char buf[48];
               lwp_format_margin (buf, sizeof buf, "PM", x->margin, "\u00b0");
@@ -173,19 +244,25 @@ build_bode (LwPlot *pl, const LwPlotInput *in, bool w_plane)
         {
           const LwPlotCrossover *x = &c->phase_crossovers[i];
           double f = x->freq_rad_s;
+          /* a crossing beyond the phase axis (the curve continues off it) is not marked:
+           * with long dead times there are hundreds; the hover and the table have them */
+          if (x->phase_deg < ph->y.lo || x->phase_deg > ph->y.hi)
+            continue;
           lwp_style_variant (lwp_add_segment (ph, f, x->phase_deg, f, ph->y.hi), v,
                              DROP_WIDTH)->dash = DASH_DOTTED;
           lwp_style_variant (lwp_add_segment (mag, f, mag->y.lo, f, x->mag_db), v,
                              DROP_WIDTH)->dash = DASH_DOTTED;
           lwp_style_variant (lwp_add_segment (mag, f, x->mag_db, f, 0.0), v, GAUGE_WIDTH);
           lwp_style_variant (lwp_add_mark (ph, f, x->phase_deg, MARK_DIAMOND, 7), v, 1.3);
-          if (i < MAX_LABELLED_CROSSOVERS)
+          if (gm_label[i])
             {
               char buf[48];
               lwp_format_margin (buf, sizeof buf, "GM", x->margin, " dB");
               lwp_margin_label (mag, f, 0.5 * x->mag_db, buf, 6, 0, 0.0, 0.5, v);
             }
         }
+      g_free (pm_label);
+      g_free (gm_label);
     }
 }
 

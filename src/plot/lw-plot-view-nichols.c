@@ -54,6 +54,12 @@ lwp_build_nichols (LwPlot *pl, const LwPlotInput *in)
     {
       const LwPlotFreqCurve *c = &in->variants[v].z;
       Prim *l = lwp_add_curve (pl, pn, v, c->n, c->phase_deg, c->mag_db);
+      bool *pm_label = g_new0 (bool, c->n_gain_crossovers + 1);
+      bool *gm_label = g_new0 (bool, c->n_phase_crossovers + 1);
+      lwp_choose_labels (c->gain_crossovers, c->n_gain_crossovers, LABEL_WITHIN_PM_DEG,
+                         pm_label);
+      lwp_choose_labels (c->phase_crossovers, c->n_phase_crossovers, LABEL_WITHIN_GM_DB,
+                         gm_label);
       lwp_style_variant (l, v, LW_PLOT_CURVE_WIDTH);
       l->dash = DASH_VARIANT;
       for (size_t i = 0; i < c->n_gain_crossovers; i++)
@@ -63,7 +69,7 @@ lwp_build_nichols (LwPlot *pl, const LwPlotInput *in)
                                              0.0),
                              v, GAUGE_WIDTH);
           lwp_style_variant (lwp_add_mark (pn, x->phase_deg, 0.0, MARK_DISC, 5), v, 1.0);
-          if (i < MAX_LABELLED_CROSSOVERS)
+          if (pm_label[i])
             {
               char buf[48];
               lwp_format_margin (buf, sizeof buf, "PM", x->margin, "\u00b0");
@@ -77,13 +83,15 @@ lwp_build_nichols (LwPlot *pl, const LwPlotInput *in)
           lwp_style_variant (lwp_add_segment (pn, x->phase_deg, x->mag_db, x->phase_deg, 0.0), v,
                          GAUGE_WIDTH);
           lwp_style_variant (lwp_add_mark (pn, x->phase_deg, x->mag_db, MARK_DIAMOND, 7), v, 1.3);
-          if (i < MAX_LABELLED_CROSSOVERS)
+          if (gm_label[i])
             {
               char buf[48];
               lwp_format_margin (buf, sizeof buf, "GM", x->margin, " dB");
               lwp_margin_label (pn, x->phase_deg, 0.5 * x->mag_db, buf, 6, 0, 0.0, 0.5, v);
             }
         }
+      g_free (pm_label);
+      g_free (gm_label);
     }
   for (int k = -8; k <= 8; k++)
     {

@@ -71,6 +71,12 @@ lwp_build_nyquist (LwPlot *pl, const LwPlotInput *in)
       l->dash = DASH_VARIANT;
 
       const LwPlotFreqCurve *z = &in->variants[v].z;
+      bool *pm_label = g_new0 (bool, z->n_gain_crossovers + 1);
+      bool *gm_label = g_new0 (bool, z->n_phase_crossovers + 1);
+      lwp_choose_labels (z->gain_crossovers, z->n_gain_crossovers, LABEL_WITHIN_PM_DEG,
+                         pm_label);
+      lwp_choose_labels (z->phase_crossovers, z->n_phase_crossovers, LABEL_WITHIN_GM_DB,
+                         gm_label);
       for (size_t i = 0; i < z->n_gain_crossovers; i++)
         {
           const LwPlotCrossover *x = &z->gain_crossovers[i];
@@ -88,7 +94,7 @@ lwp_build_nyquist (LwPlot *pl, const LwPlotInput *in)
           arc->a1 = a0 - x->margin;
           lwp_style_variant (arc, v, GAUGE_WIDTH);
           lwp_style_variant (lwp_add_mark (pn, x->re, x->im, MARK_DISC, 5), v, 1.0);
-          if (i < MAX_LABELLED_CROSSOVERS)
+          if (pm_label[i])
             {
               char buf[48];
               lwp_format_margin (buf, sizeof buf, "PM", x->margin, "\u00b0");
@@ -101,13 +107,15 @@ lwp_build_nyquist (LwPlot *pl, const LwPlotInput *in)
         {
           const LwPlotCrossover *x = &z->phase_crossovers[i];
           lwp_style_variant (lwp_add_mark (pn, x->re, x->im, MARK_DIAMOND, 7), v, 1.3);
-          if (i < MAX_LABELLED_CROSSOVERS)
+          if (gm_label[i])
             {
               char buf[48];
               lwp_format_margin (buf, sizeof buf, "GM", x->margin, " dB");
               lwp_margin_label (pn, x->re, x->im, buf, 0, 8, 0.5, 0.0, v);
             }
         }
+      g_free (pm_label);
+      g_free (gm_label);
     }
   Prim *cp = lwp_add_mark (pn, -1.0, 0.0, MARK_PLUS, 11);
   cp->colour = COL_TEXT;

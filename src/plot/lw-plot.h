@@ -159,6 +159,10 @@ typedef struct {
    * ("V", "mm"); the time views label their axes with them */
   const char *input_unit;
   const char *output_unit;
+  /* the Bode views' phase axis: false (default) the branch around the gain crossovers, from
+   * the low end to about a decade past the last one, the curve continuing off the axis with
+   * a note saying where to; true the whole unwrapped range of the curve */
+  bool phase_full_range;
 } LwPlotInput;
 
 #define LW_PLOT_MAX_VARIANTS 6
