@@ -46,6 +46,7 @@ struct _LwPlotArea
   unsigned long next_data_key;        /* the last LwPlotVariant.data_key given to an entry */
   gboolean debug;                     /* LW_DEBUG_HANDLES=1: print the series shown */
   gboolean linking;
+  double period_s;                    /* the active variant's, for linking ω and ν axes */
 };
 
 enum { LWPA_SIGNAL_VIEWS_CHANGED, LWPA_N_SIGNALS };

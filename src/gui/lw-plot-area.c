@@ -408,6 +408,7 @@ lw_plot_area_show_variants (LwPlotArea *self, const LwAreaVariant *vs, guint n, 
     }
   g_assert (active_fv != NULL);
   double nyq = G_PI / eval->ev->period_s;
+  self->period_s = eval->ev->period_s;
   if (self->split && other != NULL)
     {
       /* the split view shows two: the active variant and the first other one */
@@ -490,7 +491,38 @@ lw_plot_area_show_eval (LwPlotArea *self, LwVariantEval *eval, const LwPlotRequi
                               sel_stage, sel_corner, FALSE);
 }
 
-/* Zoom and pan: every Bode pane of the same view follows the one the user moved. */
+/* The frequency range [lo, hi] of a pane of view `from` on the axis of view `to`: the same
+ * on the same kind of axis, through ν = (2/T)·tan(ωT/2) from ω (z) to ν (w-plane) and back
+ * (ω at most π/T); FALSE when either view has no frequency axis. */
+static gboolean
+map_range (LwPlotView from, LwPlotView to, double period_s, double *lo, double *hi)
+{
+  if (!lw_plot_view_has (from, LW_PLOT_VIEW_FREQUENCY_AXIS)
+      || !lw_plot_view_has (to, LW_PLOT_VIEW_FREQUENCY_AXIS))
+    return FALSE;
+  gboolean w_from = lw_plot_view_has (from, LW_PLOT_VIEW_W_PLANE);
+  gboolean w_to = lw_plot_view_has (to, LW_PLOT_VIEW_W_PLANE);
+  if (w_from == w_to)
+    return TRUE;
+  if (!(period_s > 0.0))
+    return FALSE;
+  if (w_to)
+    {
+      double top = 0.999999 * G_PI / period_s;   /* tan(π/2) is the end of the ν axis */
+      *lo = lw_warp_omega_to_nu (fmin (*lo, top), period_s);
+      *hi = lw_warp_omega_to_nu (fmin (*hi, top), period_s);
+    }
+  else
+    {
+      *lo = lw_warp_nu_to_omega (*lo, period_s);
+      *hi = lw_warp_nu_to_omega (*hi, period_s);
+    }
+  return *lo > 0.0 && *hi > *lo;
+}
+
+/* Zoom and pan: every pane with a frequency axis follows the one the user moved — the same
+ * range on an axis of the same kind, mapped through the warping between ω and ν (so the z
+ * and w views show the same stretch of the loop). */
 static void
 pane_view_changed (LwPlotPane *pane, double lo, double hi, LwPlotArea *self)
 {
@@ -498,12 +530,15 @@ pane_view_changed (LwPlotPane *pane, double lo, double hi, LwPlotArea *self)
     return;
   self->linking = TRUE;
   LwPlotView v = lw_plot_pane_get_view (pane);
-  for (guint i = 0; i < lwpa_n_area_views; i++)
-    if (self->panes[i] != pane && self->views[i] == v)
-      lw_plot_pane_set_x_view (self->panes[i], lo, hi);
-  for (guint k = 0; k < lwpa_n_split_views; k++)
-    if (self->split_panes[k] != pane && lwpa_split_views[k] == v)
-      lw_plot_pane_set_x_view (self->split_panes[k], lo, hi);
+  for (guint i = 0; i < lwpa_n_area_views + lwpa_n_split_views; i++)
+    {
+      gboolean split = i >= lwpa_n_area_views;
+      LwPlotPane *other = split ? self->split_panes[i - lwpa_n_area_views] : self->panes[i];
+      LwPlotView ov = split ? lwpa_split_views[i - lwpa_n_area_views] : self->views[i];
+      double a = lo, b = hi;
+      if (other != pane && other != NULL && map_range (v, ov, self->period_s, &a, &b))
+        lw_plot_pane_set_x_view (other, a, b);
+    }
   self->linking = FALSE;
 }
 

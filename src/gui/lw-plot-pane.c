@@ -157,8 +157,18 @@ draw (GtkDrawingArea *area, cairo_t *cr, int width, int height, gpointer user_da
   /* lw_plot_draw_overlay uses the layout of the last draw, which was for this size. */
   LwPlotOverlay ov = { .has_hover = self->has_hover && self->dragging < 0,
                        .hover_x = self->hover_x, .hover_y = self->hover_y,
-                       .n_handles = n, .handles = ph };
+                       .n_handles = n, .handles = ph,
+                       .readout_variant = self->moving >= 0 ? (size_t) self->moving : 0 };
   lw_plot_draw_overlay (self->plot, cr, &ov);
+  if (self->debug_handles && ov.has_hover)
+    {
+      char buf[128];
+      if (lw_plot_readout (self->plot, &ov, buf, sizeof buf))
+        {
+          printf ("LW-READOUT view=%s %s\n", lw_plot_view_name (self->view), buf);
+          fflush (stdout);
+        }
+    }
   if (self->dragging >= 0 && self->drag_label != NULL)
     draw_drag_label (self, cr, width);
   if (self->debug_handles)

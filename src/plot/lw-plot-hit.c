@@ -75,6 +75,60 @@ lw_plot_pixel_of_value (const LwPlot *p, size_t panel, double x, double y, doubl
   return true;
 }
 
+/* The value of variant v's curve in panel pn at u (its axis fraction), from the curve drawn
+ * at the curve width: the first segment that spans u, interpolated in the mapped
+ * coordinates (linear in what the axis shows, so log frequency and dB); NAN where the
+ * curve does not reach u. Only for views whose curves are functions of the abscissa. */
+static double
+curve_value_at (const LwPlot *p, const Panel *pn, size_t v, double u)
+{
+  if (p->view != LW_PLOT_VIEW_BODE_Z && p->view != LW_PLOT_VIEW_BODE_W
+      && p->view != LW_PLOT_VIEW_SENSITIVITY && p->view != LW_PLOT_VIEW_STEP
+      && p->view != LW_PLOT_VIEW_DISTURBANCE)
+    return NAN;
+  for (guint i = 0; i < pn->prims->len; i++)
+    {
+      const Prim *q = pn->prims->pdata[i];
+      if (q->kind != PRIM_LINE || q->variant != v || q->colour != COL_VARIANT
+          || q->width != LW_PLOT_CURVE_WIDTH || q->n < 2)
+        continue;
+      for (size_t k = 0; k + 1 < q->n; k++)
+        {
+          double u0 = q->u[k], u1 = q->u[k + 1];
+          if (!isfinite (u0) || !isfinite (u1) || !isfinite (q->v[k]) || !isfinite (q->v[k + 1]))
+            continue;
+          if ((u0 <= u && u <= u1) || (u1 <= u && u <= u0))
+            {
+              double t = u1 != u0 ? (u - u0) / (u1 - u0) : 1.0;
+              return lw_plot_axis_unmap (&pn->y, q->v[k] + t * (q->v[k + 1] - q->v[k]));
+            }
+        }
+    }
+  return NAN;
+}
+
+bool
+lw_plot_readout (const LwPlot *p, const LwPlotOverlay *ov, char *buf, size_t size)
+{
+  size_t k;
+  double vx, vy;
+  if (p == NULL || ov == NULL || !ov->has_hover
+      || !lw_plot_value_at_pixel (p, ov->hover_x, ov->hover_y, &k, &vx, &vy))
+    return false;
+  const Panel *pn = &p->panels[k];
+  /* where the curve is a function of the abscissa, the read-out is the curve's value at the
+   * pointer's abscissa (|L| at that frequency), not the pointer's height */
+  double u = pn->wu0 + (ov->hover_x - pn->rx) / pn->rw * (pn->wu1 - pn->wu0);
+  double cv = curve_value_at (p, pn, ov->readout_variant < p->n_variants
+                                     ? ov->readout_variant : 0, u);
+  if (isfinite (cv))
+    vy = cv;
+  snprintf (buf, size, "%s %.4g %s   %s %.4g %s", pn->x_name ? pn->x_name : "x", vx,
+            pn->x_unit ? pn->x_unit : "", pn->y_name ? pn->y_name : "y", vy,
+            pn->y_unit ? pn->y_unit : "");
+  return true;
+}
+
 void
 lw_plot_draw_overlay (LwPlot *p, cairo_t *cr, const LwPlotOverlay *ov)
 {
@@ -98,9 +152,11 @@ lw_plot_draw_overlay (LwPlot *p, cairo_t *cr, const LwPlotOverlay *ov)
       cairo_stroke (cr);
     }
   size_t k;
-  double vx, vy;
-  if (ov->has_hover && lw_plot_value_at_pixel (p, ov->hover_x, ov->hover_y, &k, &vx, &vy))
+  double vx, vy, cy;
+  char buf[128];
+  if (lw_plot_readout (p, ov, buf, sizeof buf))
     {
+      lw_plot_value_at_pixel (p, ov->hover_x, ov->hover_y, &k, &vx, &vy);
       const Panel *pn = &p->panels[k];
       lwp_set_rgb (cr, t->ref, 0.8);
       cairo_set_line_width (cr, 0.8);
@@ -109,14 +165,21 @@ lw_plot_draw_overlay (LwPlot *p, cairo_t *cr, const LwPlotOverlay *ov)
       cairo_move_to (cr, pn->rx, ov->hover_y);
       cairo_line_to (cr, pn->rx + pn->rw, ov->hover_y);
       cairo_stroke (cr);
-      char buf[128];
-      snprintf (buf, sizeof buf, "%s %.4g %s   %s %.4g %s", pn->x_name ? pn->x_name : "x", vx,
-                pn->x_unit ? pn->x_unit : "", pn->y_name ? pn->y_name : "y", vy,
-                pn->y_unit ? pn->y_unit : "");
+      /* the point of the curve read, when the read-out is the curve's */
+      double u = pn->wu0 + (ov->hover_x - pn->rx) / pn->rw * (pn->wu1 - pn->wu0);
+      double cv = curve_value_at (p, pn, ov->readout_variant < p->n_variants
+                                         ? ov->readout_variant : 0, u);
+      double cx;
+      if (isfinite (cv) && lw_plot_pixel_of_value (p, k, vx, cv, &cx, &cy) && cy >= pn->ry
+          && cy <= pn->ry + pn->rh)
+        {
+          cairo_new_path (cr);
+          cairo_arc (cr, ov->hover_x, cy, 3.5, 0, 2 * G_PI);
+          cairo_stroke (cr);
+        }
       bool right_half = ov->hover_x > pn->rx + 0.5 * pn->rw;
       lwp_draw_text (p->text_cache, cr, buf, FONT_NOTE, ov->hover_x + (right_half ? -8 : 8),
-                 ov->hover_y - 6,
-                 right_half ? 1.0 : 0.0, 1.0, t->text, t->bg, 0);
+                     ov->hover_y - 6, right_half ? 1.0 : 0.0, 1.0, t->text, t->bg, 0);
     }
   cairo_restore (cr);
 }

@@ -138,8 +138,10 @@ build_bode (LwPlot *pl, const LwPlotInput *in, bool w_plane)
       double to = ep_all.lo < ep.lo ? ep_all.lo : ep_all.hi;
       snprintf (buf, sizeof buf, "\u2220L continues to %s%.0f\u00b0 %s", to < 0 ? "\u2212" : "",
                 fabs (to), ep_all.lo < ep.lo ? "\u2193" : "\u2191");
-      Prim *t = lwp_add_text_uv (ph, 1.0, ep_all.lo < ep.lo ? 0.0 : 1.0, buf, -5,
-                                 ep_all.lo < ep.lo ? -3 : 3, 1.0, ep_all.lo < ep.lo ? 1.0 : 0.0);
+      /* bottom (top) left: the phase falls (rises) with frequency, so the curve leaves the
+       * axis on the right, where a note would lie across it */
+      Prim *t = lwp_add_text_uv (ph, 0.0, ep_all.lo < ep.lo ? 0.0 : 1.0, buf, 5,
+                                 ep_all.lo < ep.lo ? -3 : 3, 0.0, ep_all.lo < ep.lo ? 1.0 : 0.0);
       t->plate = true;
       t->colour = COL_REF;
     }

@@ -242,7 +242,14 @@ typedef struct {
   double hover_x, hover_y;     /* pointer, user units */
   size_t n_handles;
   const LwPlotHandle *handles;
+  /* the variant whose curve the read-out gives at the pointer's abscissa (in the views whose
+   * curves are functions of it: Bode, sensitivity, time responses); 0 for the first */
+  size_t readout_variant;
 } LwPlotOverlay;
+
+/* The read-out lw_plot_draw_overlay writes by the pointer ("ω 40.5 rad/s   |L| 0.02 dB"),
+ * for the layout of the last draw; false when there is no hover or it is off every panel. */
+bool lw_plot_readout (const LwPlot *p, const LwPlotOverlay *ov, char *buf, size_t size);
 
 /* A key to the variants shown, in a row that wraps at width (one curve sample and name each,
  * in each variant's colour and dash: styles as LwPlotVariant.style, NULL: by position; the

@@ -25,6 +25,7 @@ convert is missing). The screenshot stays in ARTEFACT_DIR/split.png, the figures
 ARTEFACT_DIR/compare-window.svg and compare-cli.svg, the window's output in
 ARTEFACT_DIR/split.log.
 """
+import math
 import os
 import re
 import shutil
@@ -47,6 +48,7 @@ from lwgui import (debug_lines, fail, key, kill_window, lsan_options, outer,  # 
 PALETTE = [(0x00, 0x72, 0xb2), (0xd5, 0x5e, 0x00)]
 COLOUR_TOL = 6
 MIN_PIXELS = 80
+T = 0.002   # the sample period of tests/gui/four-variants.lwd (its <sampling>)
 SPLIT_VIEWS = ('bode-z', 'bode-w', 'step')
 
 
@@ -205,6 +207,21 @@ def inner(app, cli, schema_dir, design, artefacts):
             if not float(l['xhi']) / float(l['xlo']) < hi0 / lo0:
                 fail('the scroll wheel did not zoom in (%s … %s, was %g … %g)'
                      % (l['xlo'], l['xhi'], lo0, hi0))
+
+            # ... and the z-plane panes show the same stretch of the loop: their ω range is the
+            # w-plane range unwarped, ω = (2/T)·atan(νT/2) (the bilinear map; T = 2 ms of the
+            # document), to 1e-9 relative (both computed in double)
+            want_lo = 2 / T * math.atan(float(l['xlo']) * T / 2)
+            want_hi = 2 / T * math.atan(float(l['xhi']) * T / 2)
+
+            def z_followed():
+                c = columns(log_path, 'bode-z', mark)
+                return c if c is not None and all(
+                    abs(float(p['xlo']) - want_lo) <= 1e-9 * want_lo
+                    and abs(float(p['xhi']) - want_hi) <= 1e-9 * want_hi for p in c) else None
+            zl, zr = wait_for(z_followed, 'the z-plane panes to follow the w-plane zoom '
+                              '(ω %g … %g)' % (want_lo, want_hi))
+            print('z-plane panes: %s … %s rad/s' % (zl['xlo'], zl['xhi']))
 
             key(wid, 'ctrl+shift+b')
             wait_for(lambda: split_line(log_path, 0), 'the split view off (LW-SPLIT on=0)')
