@@ -71,13 +71,30 @@ lw_plot_layout (LwPlot *p, double width, double height)
   double bottom = height - LW_PLOT_MARGIN_BOTTOM;
   double gap = LW_PLOT_PANEL_GAP;
   double ph = (bottom - top - gap * (double) (p->n_panels - 1)) / (double) p->n_panels;
+  /* side by side (a map and its zoom): the first panel 60 % of the width, each keeping a
+   * left margin of its own for its tick labels */
+  double cols = right - left - LW_PLOT_MARGIN_LEFT * (double) (p->n_panels - 1);
+  double colx = left;
   for (size_t k = 0; k < p->n_panels; k++)
     {
       Panel *pn = &p->panels[k];
-      pn->rx = left;
-      pn->rw = fmax (right - left, 1.0);
-      pn->ry = top + (double) k * (ph + gap);
-      pn->rh = fmax (ph, 1.0);
+      if (p->side_by_side)
+        {
+          double share = p->n_panels == 1 ? 1.0
+                         : k == 0 ? 0.6 : 0.4 / (double) (p->n_panels - 1);
+          pn->rx = colx;
+          pn->rw = fmax (share * cols, 1.0);
+          pn->ry = top;
+          pn->rh = fmax (bottom - top, 1.0);
+          colx += share * cols + LW_PLOT_MARGIN_LEFT;
+        }
+      else
+        {
+          pn->rx = left;
+          pn->rw = fmax (right - left, 1.0);
+          pn->ry = top + (double) k * (ph + gap);
+          pn->rh = fmax (ph, 1.0);
+        }
       if (pn->equal_aspect)
         {
           double sx = pn->rw / (pn->x.hi - pn->x.lo), sy = pn->rh / (pn->y.hi - pn->y.lo);

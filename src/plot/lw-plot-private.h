@@ -129,6 +129,8 @@ struct LwPlot {
   const LwPlot *reuse;
   unsigned long keys[LW_PLOT_MAX_VARIANTS];
   GPtrArray *strings;               /* texts the figure made (lwp_label), freed with it */
+  bool side_by_side;                /* panels in a row (the pole-zero map and its zoom),
+                                       not stacked */
 };
 
 /* A text made for this figure (an axis label with a unit): formatted, kept until the figure
