@@ -242,10 +242,16 @@ lw_plant_panel_show_eval (LwPlantPanel *self, LwVariantEval *eval)
    * off as it. */
   gboolean z_bad = ev != NULL && !(eval->plant_z_form_error <= LW_FORM_TOLERANCE);
   gboolean w_bad = ev != NULL && !(eval->plant_w_form_error <= LW_FORM_TOLERANCE);
+  /* the active variant may be sampled at a period of its own: P(z) is at that period */
+  g_autofree char *z_title = NULL;
+  if (ev != NULL && self->model != NULL
+      && eval->period_s != lw_design_model_get_period_s (self->model))
+    /* TRANSLATORS: the discretized plant at the active variant's own sample period */
+    z_title = g_strdup_printf (_("P(z) at the variant's own T = %g s"), eval->period_s);
   /* TRANSLATORS: the discretized plant in z, as factors */
   lw_gui_label_show_model (self->plant_z_label, z_bad ? _("P(z), ill-conditioned factors (not "
                                                           "the plant), ≈")
-                                                      : _("P(z)"),
+                           : z_title != NULL ? z_title : _("P(z)"),
                            ev != NULL ? ev->plant_z : NULL);
   /* TRANSLATORS: the discretized plant in the w-plane, as factors */
   lw_gui_label_show_model (self->plant_w_label, w_bad ? _("P(w), ill-conditioned factors (not "

@@ -193,12 +193,34 @@ lw_plot_format_tick (double v, double step, bool log_scale, char *buf, size_t si
           av = 0.0;
           negative = false;
         }
-      int decimals = 0;
-      if (step > 0.0 && step < 1.0)
-        decimals = (int) ceil (-log10 (step) - 1e-9);
-      if (decimals > 12)
-        decimals = 12;
-      snprintf (num, sizeof num, "%.*f", decimals, av);
+      if (av >= 1e5 || (av > 0.0 && av < 1e-4))
+        {
+          /* far from 1 (a diverging response, a tiny signal): m·10ⁿ, as on log axes, so a
+           * label never runs into the next panel or out of the figure */
+          int d = (int) floor (log10 (av) * (1.0 + 1e-15) + 1e-12);
+          double m = av / decade (d);
+          char mant[12];
+          snprintf (mant, sizeof mant, "%.3g", m);
+          if (strcmp (mant, "10") == 0)
+            {
+              snprintf (mant, sizeof mant, "1");
+              d++;
+            }
+          if (strcmp (mant, "1") == 0)
+            snprintf (num, sizeof num, "10");
+          else
+            snprintf (num, sizeof num, "%s\u00b710", mant);
+          append_superscript (d, num, sizeof num);
+        }
+      else
+        {
+          int decimals = 0;
+          if (step > 0.0 && step < 1.0)
+            decimals = (int) ceil (-log10 (step) - 1e-9);
+          if (decimals > 12)
+            decimals = 12;
+          snprintf (num, sizeof num, "%.*f", decimals, av);
+        }
     }
   snprintf (buf, size, "%s%s", negative ? "\u2212" : "", num);
 }

@@ -167,17 +167,29 @@ my (const Panel *pn, double y)
   return lw_plot_axis_map (&pn->y, y);
 }
 
-/* u, v → pixels of the last layout, through the visible part of the x axis */
+/* u, v → pixels of the last layout, through the visible part of the x axis. A point mapped
+ * far outside the plot area (a diverging response on an axis chosen for another) is held at
+ * twice the area's size beyond it: cairo keeps coordinates in 24.8 fixed point, and its
+ * vector surfaces clip and dash whole segments, so a segment millions of pixels long makes
+ * them fail ("out of memory"). What is visible stays exact when only one coordinate is held
+ * (the usual case: a curve far above or below the axis). */
+static inline double
+lwp_hold_px (double p, double lo, double size)
+{
+  double m = 2.0 * size + 100.0;
+  return p < lo - m ? lo - m : p > lo + size + m ? lo + size + m : p;
+}
+
 static inline double
 px_of (const Panel *pn, double u)
 {
-  return pn->rx + (u - pn->wu0) / (pn->wu1 - pn->wu0) * pn->rw;
+  return lwp_hold_px (pn->rx + (u - pn->wu0) / (pn->wu1 - pn->wu0) * pn->rw, pn->rx, pn->rw);
 }
 
 static inline double
 py_of (const Panel *pn, double v)
 {
-  return pn->ry + (1.0 - v) * pn->rh;
+  return lwp_hold_px (pn->ry + (1.0 - v) * pn->rh, pn->ry, pn->rh);
 }
 
 /* ---- primitives and ranges (lw-plot-figure.c), for the builders ------------------------ */

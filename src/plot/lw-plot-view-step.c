@@ -6,6 +6,9 @@
  */
 #include "lw-plot-private.h"
 
+#include <math.h>
+#include <stdio.h>
+
 /* Staircase of samples s[k] held over [kT, (k+1)T), k = 0 … n−1, ending at (n−1)T. */
 static Prim *
 add_staircase (LwPlot *pl, Panel *pn, size_t v, size_t n, const double *s, double T)
@@ -31,6 +34,46 @@ add_staircase (LwPlot *pl, Panel *pn, size_t v, size_t n, const double *s, doubl
   return p;
 }
 
+/* Compared variants with very different horizons (their own sample periods, a slow and a
+ * fast loop): the time axis ends at TIME_CUT_RATIO times the shortest horizon, so the fast
+ * one keeps a quarter of the width instead of a sliver, and each variant cut there says how
+ * far it runs. Common practice, no source. */
+#define TIME_CUT_RATIO 4.0
+
+/* The end of the time axis for horizons h[0 … n−1] (0: none): the longest, or
+ * TIME_CUT_RATIO × the shortest when that is less. */
+static double
+time_axis_end (const double *h, size_t n)
+{
+  double lo = INFINITY, hi = 0.0;
+  for (size_t v = 0; v < n; v++)
+    if (h[v] > 0.0)
+      {
+        lo = fmin (lo, h[v]);
+        hi = fmax (hi, h[v]);
+      }
+  return hi > TIME_CUT_RATIO * lo ? TIME_CUT_RATIO * lo : hi;
+}
+
+/* A note at the top right of pn for each variant whose horizon runs past the axis' end. */
+static void
+note_cut (Panel *pn, const double *h, size_t n, const LwPlotInput *in)
+{
+  int row = 0;
+  for (size_t v = 0; v < n; v++)
+    if (h[v] > pn->x.hi * (1.0 + 1e-9))
+      {
+        char buf[96];
+        snprintf (buf, sizeof buf, "%s%sruns to %.3g s \u2192",
+                  in->variants[v].name != NULL ? in->variants[v].name : "",
+                  in->variants[v].name != NULL ? ": " : "", h[v]);
+        Prim *t = lwp_style_variant (lwp_add_text_uv (pn, 1.0, 0.0, buf, -5, -4 - 15.0 * row,
+                                                      1.0, 1.0), v, 1.0);
+        t->plate = true;
+        row++;
+      }
+}
+
 void
 lwp_build_step (LwPlot *pl, const LwPlotInput *in)
 {
@@ -40,22 +83,32 @@ lwp_build_step (LwPlot *pl, const LwPlotInput *in)
   lwp_extent_add (&et, 0.0);
   lwp_extent_add (&ey, 0.0);
   lwp_extent_add (&eu, 0.0);
+  double horizon[LW_PLOT_MAX_VARIANTS] = { 0 };
+  for (size_t v = 0; v < in->n_variants && v < LW_PLOT_MAX_VARIANTS; v++)
+    {
+      const LwPlotStepData *s = &in->variants[v].step;
+      horizon[v] = s->n >= 2 ? (double) (s->n - 1) * s->period_s : 0.0;
+    }
+  double t_cut = time_axis_end (horizon, in->n_variants);
   for (size_t v = 0; v < in->n_variants; v++)
     {
       const LwPlotStepData *s = &in->variants[v].step;
       if (s->n >= 2)
-        lwp_extent_add (&et, (double) (s->n - 1) * s->period_s);
+        lwp_extent_add (&et, fmin ((double) (s->n - 1) * s->period_s, t_cut));
       for (size_t k = 0; k < s->n; k++)
-        lwp_extent_add (&ey, s->y[k]);
+        if ((double) k * s->period_s <= t_cut)
+          lwp_extent_add (&ey, s->y[k]);
       for (size_t j = 0; j < s->n_fine && s->y_fine; j++)
-        lwp_extent_add (&ey, s->y_fine[j]);
+        if (s->t_fine_s[j] <= t_cut)
+          lwp_extent_add (&ey, s->y_fine[j]);
       if (s->has_final)
         lwp_extent_add (&ey, s->final_value);
       if (s->u)
         {
           any_u = true;
           for (size_t k = 0; k < s->n; k++)
-            lwp_extent_add (&eu, s->u[k]);
+            if ((double) k * s->period_s <= t_cut)
+              lwp_extent_add (&eu, s->u[k]);
           if (s->has_limits)
             {
               lwp_extent_add (&eu, s->u_low);
@@ -96,6 +149,7 @@ lwp_build_step (LwPlot *pl, const LwPlotInput *in)
   if (any_u)
     lwp_add_hline (act, 0.0);
   lwp_add_hline (out, 0.0);
+  note_cut (out, horizon, in->n_variants, in);
   for (size_t v = 0; v < in->n_variants; v++)
     {
       const LwPlotStepData *s = &in->variants[v].step;
@@ -153,17 +207,25 @@ lwp_build_disturbance (LwPlot *pl, const LwPlotInput *in)
   lwp_extent_add (&et, 0.0);
   lwp_extent_add (&ei, 0.0);
   lwp_extent_add (&eo, 0.0);
+  double horizon[LW_PLOT_MAX_VARIANTS] = { 0 };
+  for (size_t v = 0; v < in->n_variants && v < LW_PLOT_MAX_VARIANTS; v++)
+    {
+      const LwPlotStepData *a = &in->variants[v].dist_in, *b = &in->variants[v].dist_out;
+      horizon[v] = fmax (a->n >= 2 ? (double) (a->n - 1) * a->period_s : 0.0,
+                         b->n >= 2 ? (double) (b->n - 1) * b->period_s : 0.0);
+    }
+  double t_cut = time_axis_end (horizon, in->n_variants);
   for (size_t v = 0; v < in->n_variants; v++)
     {
       const LwPlotStepData *a = &in->variants[v].dist_in, *b = &in->variants[v].dist_out;
-      if (a->n >= 2)
-        lwp_extent_add (&et, (double) (a->n - 1) * a->period_s);
-      if (b->n >= 2)
-        lwp_extent_add (&et, (double) (b->n - 1) * b->period_s);
+      if (horizon[v] > 0.0)
+        lwp_extent_add (&et, fmin (horizon[v], t_cut));
       for (size_t k = 0; k < a->n; k++)
-        lwp_extent_add (&ei, a->y[k]);
+        if ((double) k * a->period_s <= t_cut)
+          lwp_extent_add (&ei, a->y[k]);
       for (size_t k = 0; k < b->n; k++)
-        lwp_extent_add (&eo, b->y[k]);
+        if ((double) k * b->period_s <= t_cut)
+          lwp_extent_add (&eo, b->y[k]);
     }
   ei.hi += 0.06 * (ei.hi - ei.lo);
   ei.lo -= 0.06 * (ei.hi - ei.lo);
@@ -194,6 +256,7 @@ lwp_build_disturbance (LwPlot *pl, const LwPlotInput *in)
   lwp_keep_axes (pl, in);
   lwp_add_hline (pi, 0.0);
   lwp_add_hline (po, 0.0);
+  note_cut (pi, horizon, in->n_variants, in);
   for (size_t v = 0; v < in->n_variants; v++)
     for (int k = 0; k < 2; k++)
       {

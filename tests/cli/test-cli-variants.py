@@ -182,6 +182,25 @@ if shutil.which("pdftotext"):
                            timeout=60).stdout if rc == 0 else ""
     check("y (m), input dist." in words, f"the disturbance axes carry the output unit: {words!r:.300}")
 
+# Variants sampled at very different periods: the step's time axis is cut at 4 times the
+# shorter horizon (the fast loop keeps a quarter of the width), and the cut variant says how
+# far it runs (docs/plot.md).
+if shutil.which("pdftotext"):
+    slow = text.replace(f'<variant name="{NAMES[1]}">', f'<variant name="{NAMES[1]}" period_s="0.05">')
+    SLOW = os.path.join(TMP, "slow.lwd")
+    with open(SLOW, "w", encoding="utf-8") as f:
+        f.write(slow)
+    pdf = os.path.join(TMP, "rates.pdf")
+    rc, _, err = run(["plot", SLOW, "--all-variants", "--view", "step", "--out", pdf])
+    words = subprocess.run(["pdftotext", pdf, "-"], capture_output=True, text=True,
+                           timeout=60).stdout if rc == 0 else ""
+    check(f"{NAMES[1]}: runs to" in words,
+          f"the slow variant's step is cut with a note saying how far it runs: {words!r:.300}")
+    rc, _, err = run(["plot", EX, "--all-variants", "--view", "step", "--out", pdf])
+    words = subprocess.run(["pdftotext", pdf, "-"], capture_output=True, text=True,
+                           timeout=60).stdout if rc == 0 else ""
+    check("runs to" not in words, "variants at one period: no cut, no note")
+
 rc, _, err = run(["plot", CHOSEN, "--view", "disturbance", "--out", svg])
 check(rc == 2 and "nothing to draw" in err,
       f"a variant that shows no disturbance has no disturbance figure, said so ({rc}: {err.strip()})")
