@@ -55,6 +55,12 @@ static const char plot_help_tail[] =
   "  --size WxH               width and height, 16 to 20000 (pixels for PNG, points for\n"
   "                           SVG and PDF; default 800x600)\n"
   "  --theme light|dark       colours (default light)\n"
+  "  --phase-range crossovers|whole\n"
+  "                           Bode views: the phase around the gain crossovers, to a decade\n"
+  "                           past the last (default), or the whole unwrapped curve\n"
+  "  --nyquist-scale linear|compressed\n"
+  "                           Nyquist: linear near the unit circle (default), or compressed\n"
+  "                           beyond it (|L| = r at radius 1 + log10 r) to show it whole\n"
   "  --title TEXT             a title above the figure\n"
   "  --name TEXT              legend text of the loop (default \"loop\")\n"
   "  --target-crossover RAD_S mark a target gain crossover omega (rad/s) on the Bode views\n"
@@ -71,6 +77,7 @@ typedef struct
 {
   LwCliLoopArgs loop;
   char *view, *out, *size, *theme, *title, *name, *target, *min_pm, *pdf_date, *points, *steps;
+  char *phase_range, *nyquist_scale;
   char **files;
   char *variant;
   gboolean all;
@@ -86,6 +93,7 @@ typedef struct
   const char *out;
   double width, height;
   LwPlotTheme theme;
+  bool phase_full_range, nyquist_compressed;
   const char *title;
   bool has_target;  double target_rad_s;
   const LwDesign *design;   /* its requirements are marked too (the options win); or NULL */
@@ -178,6 +186,26 @@ plot_options_check (const PlotArgs *a, PlotSpec *s)
       lw_cli_bad_input ("--theme", "unknown theme '%s' (light or dark)", a->theme);
       return LW_EXIT_BAD_INPUT;
     }
+  if (a->phase_range == NULL || strcmp (a->phase_range, "crossovers") == 0)
+    s->phase_full_range = false;
+  else if (strcmp (a->phase_range, "whole") == 0)
+    s->phase_full_range = true;
+  else
+    {
+      lw_cli_bad_input ("--phase-range", "'%s' is not a phase range (crossovers or whole)",
+                        a->phase_range);
+      return LW_EXIT_BAD_INPUT;
+    }
+  if (a->nyquist_scale == NULL || strcmp (a->nyquist_scale, "linear") == 0)
+    s->nyquist_compressed = false;
+  else if (strcmp (a->nyquist_scale, "compressed") == 0)
+    s->nyquist_compressed = true;
+  else
+    {
+      lw_cli_bad_input ("--nyquist-scale", "'%s' is not a scale (linear or compressed)",
+                        a->nyquist_scale);
+      return LW_EXIT_BAD_INPUT;
+    }
   s->title = a->title;
   if (a->target)
     {
@@ -260,6 +288,8 @@ plot_write (const PlotSpec *s, const PlotVariantSource *src, size_t n)
   in.view = s->view;
   in.nyquist_rad_s = G_PI / src[0].ev->period_s;
   in.title = s->title;
+  in.phase_full_range = s->phase_full_range;
+  in.nyquist_compressed = s->nyquist_compressed;
   if (src[0].eval != NULL)
     {
       in.input_unit = src[0].eval->input_unit;
@@ -445,6 +475,8 @@ lw_cmd_plot (int argc, char **argv)
     { "out", 0, 0, G_OPTION_ARG_FILENAME, &a.out, NULL, NULL },
     { "size", 0, 0, G_OPTION_ARG_STRING, &a.size, NULL, NULL },
     { "theme", 0, 0, G_OPTION_ARG_STRING, &a.theme, NULL, NULL },
+    { "phase-range", 0, 0, G_OPTION_ARG_STRING, &a.phase_range, NULL, NULL },
+    { "nyquist-scale", 0, 0, G_OPTION_ARG_STRING, &a.nyquist_scale, NULL, NULL },
     { "title", 0, 0, G_OPTION_ARG_STRING, &a.title, NULL, NULL },
     { "name", 0, 0, G_OPTION_ARG_STRING, &a.name, NULL, NULL },
     { "target-crossover", 0, 0, G_OPTION_ARG_STRING, &a.target, NULL, NULL },
@@ -471,7 +503,8 @@ lw_cmd_plot (int argc, char **argv)
   g_string_free (help, TRUE);
   lw_cli_loop_args_clear (&a.loop);
   char **strs[] = { &a.view, &a.out, &a.size, &a.theme, &a.title, &a.name, &a.target,
-                    &a.min_pm, &a.pdf_date, &a.points, &a.steps };
+                    &a.min_pm, &a.pdf_date, &a.points, &a.steps, &a.phase_range,
+                    &a.nyquist_scale };
   for (size_t i = 0; i < G_N_ELEMENTS (strs); i++)
     g_free (*strs[i]);
   g_strfreev (a.files);

@@ -47,13 +47,18 @@ struct _LwPlotArea
   gboolean debug;                     /* LW_DEBUG_HANDLES=1: print the series shown */
   gboolean linking;
   double period_s;                    /* the active variant's, for linking ω and ν axes */
+  gboolean phase_whole;               /* Bode phase axes: the whole curve (pane menu) */
+  gboolean nyquist_compressed;        /* Nyquist: compressed beyond |L| = 1 (pane menu) */
 };
 
-enum { LWPA_SIGNAL_VIEWS_CHANGED, LWPA_N_SIGNALS };
+enum { LWPA_SIGNAL_VIEWS_CHANGED, LWPA_SIGNAL_DISPLAY_CHANGED, LWPA_N_SIGNALS };
 extern guint lwpa_signals[LWPA_N_SIGNALS];
 
 /* Puts the panes on the grid for the layout and the split view (lw-plot-area.c). */
 void lwpa_arrange (LwPlotArea *self);
+
+/* lw-plot-area-views.c: the display options of the pane menu (phase range, Nyquist scale) */
+void lwpa_display_activated (GtkWidget *widget, const char *action, GVariant *param);
 
 /* lw-plot-area-views.c: the pane menu's handlers and action, for init and class_init */
 void lwpa_pane_menu_pressed (GtkGestureClick *gesture, int n_press, double x, double y,

@@ -42,6 +42,19 @@ pane_menu_open (LwPlotPane *pane, double x)
                                          lw_plot_view_name ((LwPlotView) v));
       g_menu_append_item (section, item);
     }
+  /* the display options, above the views (whose order the keyboard relies on from the end) */
+  LwPlotArea *area = LW_PLOT_AREA (gtk_widget_get_ancestor (GTK_WIDGET (pane), LW_TYPE_PLOT_AREA));
+  g_autoptr (GMenu) display = g_menu_new ();
+  if (area != NULL)
+    {
+      g_menu_append (display, area->phase_whole ? _("_Phase around the Crossovers")
+                                                : _("_Whole Phase Range"),
+                     "area.display::phase");
+      g_menu_append (display, area->nyquist_compressed ? _("Linear N_yquist Scale")
+                                                       : _("Compressed N_yquist Scale"),
+                     "area.display::nyquist");
+      g_menu_append_section (menu, NULL, G_MENU_MODEL (display));
+    }
   g_menu_append_section (menu, NULL, G_MENU_MODEL (section));
   GtkWidget *popover = gtk_popover_menu_new_from_model (G_MENU_MODEL (menu));
   gtk_widget_set_parent (popover, GTK_WIDGET (pane));
@@ -111,6 +124,22 @@ lwpa_pane_view_activated (GtkWidget *widget, const char *action, GVariant *param
   int view = lw_plot_view_from_name (name);
   if (view >= 0 && set_pane_view (self, index, (LwPlotView) view))
     g_signal_emit (self, lwpa_signals[LWPA_SIGNAL_VIEWS_CHANGED], 0);
+}
+
+/* A display option toggled from a pane's menu: every pane is drawn again by the window
+ * ("display-changed"). */
+void
+lwpa_display_activated (GtkWidget *widget, const char *action, GVariant *param)
+{
+  LwPlotArea *self = LW_PLOT_AREA (widget);
+  const char *which = g_variant_get_string (param, NULL);
+  if (g_strcmp0 (which, "phase") == 0)
+    self->phase_whole = !self->phase_whole;
+  else if (g_strcmp0 (which, "nyquist") == 0)
+    self->nyquist_compressed = !self->nyquist_compressed;
+  else
+    return;
+  g_signal_emit (self, lwpa_signals[LWPA_SIGNAL_DISPLAY_CHANGED], 0);
 }
 
 guint

@@ -272,7 +272,7 @@ drop_unused_figures (LwPlotArea *self)
 static LwPlot *
 build_view (LwPlotView view, const LwPlotVariant *vars, guint n, double nyquist_rad_s,
             const LwPlotRequirements *req, const LwVariantEval *units_of,
-            const LwPlot *axes_of, const char *title, GError **error)
+            const LwPlotArea *opts, const LwPlot *axes_of, const char *title, GError **error)
 {
   LwPlotVariant unnamed[LW_PLOT_MAX_VARIANTS];
   n = MIN (n, LW_PLOT_MAX_VARIANTS);
@@ -290,6 +290,8 @@ build_view (LwPlotView view, const LwPlotVariant *vars, guint n, double nyquist_
     .axes_of = axes_of,
     .input_unit = units_of->input_unit,
     .output_unit = units_of->output_unit,
+    .phase_full_range = opts != NULL && opts->phase_whole,
+    .nyquist_compressed = opts != NULL && opts->nyquist_compressed,
   };
   if (req != NULL)
     in.req = *req;
@@ -430,7 +432,7 @@ lw_plot_area_show_variants (LwPlotArea *self, const LwAreaVariant *vs, guint n, 
                                ? g_strdup_printf ("%s \u2014 %s", view_title (self->views[i]),
                                                   vars[moving].name)
                                : NULL;
-      LwPlot *plot = build_view (self->views[i], pv, pn, nyq, req, eval,
+      LwPlot *plot = build_view (self->views[i], pv, pn, nyq, req, eval, self,
                                  keep_axes ? lw_plot_pane_get_plot (pane) : NULL, title, &error);
       lw_plot_pane_set_plot_moving (pane, plot, plot == NULL ? error->message : NULL,
                                     split_row_view ? 0 : (int) moving);
@@ -453,7 +455,7 @@ lw_plot_area_show_variants (LwPlotArea *self, const LwAreaVariant *vs, guint n, 
                                    ? g_strdup_printf ("%s \u2014 %s", view_title (lwpa_split_views[k]),
                                                       other->name)
                                    : NULL;
-          plot = build_view (lwpa_split_views[k], other, 1, nyq, req, eval,
+          plot = build_view (lwpa_split_views[k], other, 1, nyq, req, eval, self,
                              lw_plot_pane_get_plot (left),
                              title, &error);
         }
@@ -571,8 +573,9 @@ lw_plot_area_get_pane (LwPlotArea *self, LwPlotView view)
 }
 
 LwPlot *
-lw_plot_area_build_plot (const LwAreaVariant *vs, guint n, const LwPlotRequirements *req,
-                         LwPlotView view, const char *title, GError **error)
+lw_plot_area_build_plot (LwPlotArea *area, const LwAreaVariant *vs, guint n,
+                         const LwPlotRequirements *req, LwPlotView view, const char *title,
+                         GError **error)
 {
   g_return_val_if_fail (vs != NULL && n >= 1, NULL);
   n = MIN (n, LW_PLOT_MAX_VARIANTS);
@@ -611,6 +614,8 @@ lw_plot_area_build_plot (const LwAreaVariant *vs, guint n, const LwPlotRequireme
     .variants = pv,
     .input_unit = vs[0].eval->input_unit,
     .output_unit = vs[0].eval->output_unit,
+    .phase_full_range = area != NULL && area->phase_whole,
+    .nyquist_compressed = area != NULL && area->nyquist_compressed,
   };
   if (req != NULL)
     in.req = *req;
@@ -673,6 +678,12 @@ lw_plot_area_class_init (LwPlotAreaClass *klass)
     }
   gtk_widget_class_install_action (GTK_WIDGET_CLASS (klass), "area.pane-view", "(us)",
                                    lwpa_pane_view_activated);
+  gtk_widget_class_install_action (GTK_WIDGET_CLASS (klass), "area.display", "s",
+                                   lwpa_display_activated);
+  /* a display option changed (phase range, Nyquist scale): show the variants again */
+  lwpa_signals[LWPA_SIGNAL_DISPLAY_CHANGED] =
+    g_signal_new ("display-changed", G_TYPE_FROM_CLASS (klass), G_SIGNAL_RUN_LAST, 0, NULL,
+                  NULL, NULL, G_TYPE_NONE, 0);
   lwpa_signals[LWPA_SIGNAL_VIEWS_CHANGED] = g_signal_new ("views-changed", G_TYPE_FROM_CLASS (klass),
                                                 G_SIGNAL_RUN_LAST, 0, NULL, NULL, NULL,
                                                 G_TYPE_NONE, 0);

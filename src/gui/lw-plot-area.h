@@ -89,10 +89,12 @@ LwPlotPane *lw_plot_area_get_pane (LwPlotArea *self, LwPlotView view);
 
 /* A figure of one view of the variants vs (in this order, each named for the legend and in
  * its style; one variant alone in the first style), as the CLI's plot builds it (no title
- * unless given), for export. The Nyquist line is the first variant's. NULL with an error
+ * unless given), for export, with area's display options (phase range, Nyquist scale; area
+ * may be NULL for the defaults, as `plot` without --phase-range and --nyquist-scale). The Nyquist line is the first variant's. NULL with an error
  * (LW_PLOT_ERROR). */
-LwPlot *lw_plot_area_build_plot (const LwAreaVariant *vs, guint n, const LwPlotRequirements *req,
-                                 LwPlotView view, const char *title, GError **error);
+LwPlot *lw_plot_area_build_plot (LwPlotArea *area, const LwAreaVariant *vs, guint n,
+                                 const LwPlotRequirements *req, LwPlotView view,
+                                 const char *title, GError **error);
 
 void lw_plot_area_set_theme (LwPlotArea *self, LwPlotTheme theme);
 

@@ -89,6 +89,14 @@ debug_print_handles (LwPlotPane *self)
                             name, ox + px, oy + py, pw, ph, lw_plot_axis_unmap (xa, 0.0),
                             lw_plot_axis_unmap (xa, 1.0), lw_plot_axis_unmap (ya, 0.0),
                             lw_plot_axis_unmap (ya, 1.0));
+  /* the second panel's y range (the phase of the Bode views), when there is one */
+  const LwPlotAxis *y2 = lw_plot_panel_y_axis (self->plot, 1);
+  if (y2 != NULL && s->len > 0)
+    {
+      g_string_truncate (s, s->len - 1);
+      g_string_append_printf (s, " y2lo=%.17g y2hi=%.17g\n", lw_plot_axis_unmap (y2, 0.0),
+                              lw_plot_axis_unmap (y2, 1.0));
+    }
   for (guint i = 0; i < self->handles->len; i++)
     {
       const LwPaneHandle *h = &g_array_index (self->handles, LwPaneHandle, i);

@@ -47,7 +47,7 @@ lw_window_build_export_plot (LwPlotView view, gpointer user_data, GError **error
       g_set_error_literal (error, LW_PLOT_ERROR, LW_PLOT_ERROR_INPUT, _("Nothing evaluated yet."));
       return NULL;
     }
-  return lw_plot_area_build_plot (vs, n, &req, view, NULL, error);
+  return lw_plot_area_build_plot (self->plot_area, vs, n, &req, view, NULL, error);
 }
 
 static void

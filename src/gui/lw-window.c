@@ -572,6 +572,8 @@ lw_window_init (LwWindow *self)
   g_signal_group_connect_swapped (self->model_signals, "replaced", G_CALLBACK (model_replaced),
                                   self);
 
+  g_signal_connect_object (self->plot_area, "display-changed",
+                           G_CALLBACK (lw_window_show_variants), self, G_CONNECT_SWAPPED);
   g_signal_connect_object (self->plot_area, "views-changed", G_CALLBACK (pane_views_changed),
                            self, G_CONNECT_SWAPPED);
   lw_window_init_theme (self);

@@ -111,7 +111,7 @@ lwp_place_labels (LwPlot *p, cairo_t *cr, size_t first)
       for (guint i = 0; i < pn->prims->len; i++)
         {
           Prim *q = pn->prims->pdata[i];
-          if (q->kind == PRIM_TEXT && !q->label)
+          if (q->kind == PRIM_TEXT && !q->label && !q->optional)
             place_text (p, cr, pn, q, taken, true);
         }
       for (size_t i = 0; i < p->n_clear; i++)
@@ -133,6 +133,12 @@ lwp_place_labels (LwPlot *p, cairo_t *cr, size_t first)
               if (q->label && q->variant == v)
                 place_text (p, cr, pn, q, taken, pass == 0);
             }
+        }
+      for (guint i = 0; i < pn->prims->len; i++)
+        {
+          Prim *q = pn->prims->pdata[i];
+          if (q->kind == PRIM_TEXT && q->optional)
+            place_text (p, cr, pn, q, taken, false);
         }
     }
   g_array_free (taken, TRUE);

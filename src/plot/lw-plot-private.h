@@ -83,6 +83,8 @@ typedef struct {
    * (place_labels); lx, ly: the top left corner of its text there; shown: false when no free
    * place was found */
   bool label;
+  bool optional;         /* a text that may be left out when it finds no free place (placed
+                            after every other: the compressed Nyquist circles' values) */
   bool shown;
   double lx, ly, lw, lh;         /* lw, lh: the size of its text */
   double r_units, a0, a1;

@@ -6,10 +6,32 @@
 #include "lw-plot-private.h"
 
 #include <math.h>
+#include <stdio.h>
+
+/* How far the compressed view reaches: |L| up to 10^NYQ_DECADES (radius 1 + NYQ_DECADES). */
+#define NYQ_DECADES 3.0
+
+/* The compressed radial scale (LwPlotInput.nyquist_compressed): radius r ≤ 1 as it is,
+ * beyond it 1 + log10 r, the angle kept. */
+static void
+compress (double re, double im, double *cre, double *cim)
+{
+  double r = hypot (re, im);
+  if (!(r > 1.0) || !isfinite (r))
+    {
+      *cre = re;
+      *cim = im;
+      return;
+    }
+  double k = (1.0 + log10 (r)) / r;
+  *cre = re * k;
+  *cim = im * k;
+}
 
 void
 lwp_build_nyquist (LwPlot *pl, const LwPlotInput *in)
 {
+  bool cz = in->nyquist_compressed;
   Panel *pn = &pl->panels[0];
   pl->n_panels = 1;
   pn->equal_aspect = true;
@@ -24,19 +46,24 @@ lwp_build_nyquist (LwPlot *pl, const LwPlotInput *in)
     {
       const LwPlotComplexCurve *c = &in->variants[v].nyquist;
       for (size_t i = 0; i < c->n; i++)
-        if (hypot (c->re[i], c->im[i]) <= NYQUIST_RANGE_CAP)
-          {
-            lwp_extent_add (&ex, c->re[i]);
-            lwp_extent_add (&ey, c->im[i]);
-            lwp_extent_add (&ey, -c->im[i]);
-          }
+        {
+          double re = c->re[i], im = c->im[i];
+          if (cz)
+            compress (c->re[i], c->im[i], &re, &im);
+          if (hypot (re, im) <= (cz ? 1.0 + NYQ_DECADES : NYQUIST_RANGE_CAP))
+            {
+              lwp_extent_add (&ex, re);
+              lwp_extent_add (&ey, im);
+              lwp_extent_add (&ey, -im);
+            }
+        }
     }
   lwp_widen_to_aspect (&ex, &ey);
   lwp_axis_from_extent (&pn->x, LW_PLOT_SCALE_LINEAR, LW_PLOT_TICKS_PLAIN, ex, 6);
   lwp_axis_from_extent (&pn->y, LW_PLOT_SCALE_LINEAR, LW_PLOT_TICKS_PLAIN, ey, 6);
   lwp_keep_axes (pl, in);
-  pn->x_label = "Re L";
-  pn->y_label = "Im L";
+  pn->x_label = cz ? "Re L (compressed beyond |L| = 1)" : "Re L";
+  pn->y_label = cz ? "Im L (compressed)" : "Im L";
   pn->x_name = "Re";
   pn->y_name = "Im";
   pn->x_unit = pn->y_unit = "";
@@ -50,23 +77,55 @@ lwp_build_nyquist (LwPlot *pl, const LwPlotInput *in)
   uc->dash = DASH_DASHED;
   uc->width = 1.2;
   lwp_add_text (pn, 0.7071, 0.7071, "|L| = 1", 4, -2, 0.0, 1.0)->colour = COL_REF;
+  /* compressed: the circles |L| = 10, 100, … where they fall */
+  for (int d = 1; cz && d <= (int) NYQ_DECADES; d++)
+    {
+      Prim *c = lwp_prim_add (pn, PRIM_CIRCLE, 1);
+      c->u[0] = mx (pn, 0.0);
+      c->v[0] = my (pn, 0.0);
+      c->r_units = 1.0 + d;
+      c->dash = DASH_DOTTED;
+      c->width = 0.8;
+      c->colour = COL_REF;
+      char buf[32];
+      snprintf (buf, sizeof buf, "|L| = %g", pow (10.0, d));
+      Prim *t = lwp_add_text (pn, 0.7071 * (1.0 + d), 0.7071 * (1.0 + d), buf, 4, -2, 0.0, 1.0);
+      t->colour = COL_REF;
+      t->optional = true;
+    }
 
   for (size_t v = 0; v < in->n_variants; v++)
     {
       const LwPlotComplexCurve *c = &in->variants[v].nyquist;
-      Prim *m = lwp_curve_reuse (pl, pn, v, c->re, c->im, 1, c->n);
+      /* compressed: copies of the points on the compressed scale (a tag of their own, so a
+       * figure reuses only a compressed curve) */
+      double *cre = NULL, *cim = NULL;
+      if (cz)
+        {
+          cre = g_new (double, c->n > 0 ? c->n : 1);
+          cim = g_new (double, c->n > 0 ? c->n : 1);
+          for (size_t i = 0; i < c->n; i++)
+            compress (c->re[i], c->im[i], &cre[i], &cim[i]);
+        }
+      const double *xr = cz ? cre : c->re, *xi = cz ? cim : c->im;
+      int tag = cz ? 3 : 1;
+      Prim *m = lwp_curve_reuse (pl, pn, v, c->re, c->im, tag, c->n);
       if (m == NULL)
         {
           double *mirror = g_new (double, c->n > 0 ? c->n : 1);
           for (size_t i = 0; i < c->n; i++)
-            mirror[i] = -c->im[i];
-          m = lwp_curve_mark (pl, lwp_add_line (pn, c->n, c->re, mirror), v, c->re, c->im, 1);
+            mirror[i] = -xi[i];
+          m = lwp_curve_mark (pl, lwp_add_line (pn, c->n, xr, mirror), v, c->re, c->im, tag);
           g_free (mirror);
         }
       lwp_style_variant (m, v, THIN_WIDTH);
       m->alpha = 0.45;
       m->dash = DASH_VARIANT;
-      Prim *l = lwp_add_curve (pl, pn, v, c->n, c->re, c->im);
+      Prim *l = lwp_curve_reuse (pl, pn, v, c->re, c->im, cz ? 4 : 0, c->n);
+      if (l == NULL)
+        l = lwp_curve_mark (pl, lwp_add_line (pn, c->n, xr, xi), v, c->re, c->im, cz ? 4 : 0);
+      g_free (cre);
+      g_free (cim);
       lwp_style_variant (l, v, LW_PLOT_CURVE_WIDTH);
       l->dash = DASH_VARIANT;
 
@@ -93,7 +152,9 @@ lwp_build_nyquist (LwPlot *pl, const LwPlotInput *in)
           arc->a0 = a0;
           arc->a1 = a0 - x->margin;
           lwp_style_variant (arc, v, GAUGE_WIDTH);
-          lwp_style_variant (lwp_add_mark (pn, x->re, x->im, MARK_DISC, 5), v, 1.0);
+          double gre, gim;
+          compress (x->re, x->im, &gre, &gim);   /* on the unit circle: unchanged */
+          lwp_style_variant (lwp_add_mark (pn, gre, gim, MARK_DISC, 5), v, 1.0);
           if (pm_label[i])
             {
               char buf[48];
@@ -106,12 +167,15 @@ lwp_build_nyquist (LwPlot *pl, const LwPlotInput *in)
       for (size_t i = 0; i < z->n_phase_crossovers; i++)
         {
           const LwPlotCrossover *x = &z->phase_crossovers[i];
-          lwp_style_variant (lwp_add_mark (pn, x->re, x->im, MARK_DIAMOND, 7), v, 1.3);
+          double pre = x->re, pim = x->im;
+          if (cz)
+            compress (x->re, x->im, &pre, &pim);
+          lwp_style_variant (lwp_add_mark (pn, pre, pim, MARK_DIAMOND, 7), v, 1.3);
           if (gm_label[i])
             {
               char buf[48];
               lwp_format_margin (buf, sizeof buf, "GM", x->margin, " dB");
-              lwp_margin_label (pn, x->re, x->im, buf, 0, 8, 0.5, 0.0, v);
+              lwp_margin_label (pn, pre, pim, buf, 0, 8, 0.5, 0.0, v);
             }
         }
       g_free (pm_label);

@@ -163,6 +163,11 @@ typedef struct {
    * the low end to about a decade past the last one, the curve continuing off the axis with
    * a note saying where to; true the whole unwrapped range of the curve */
   bool phase_full_range;
+  /* the Nyquist diagram's radial scale: false (default) linear, the view capped near the
+   * unit circle; true compressed beyond the unit circle, |L| = r drawn at radius
+   * 1 + log10 r (each decade one unit), so a loop with a large low-frequency gain
+   * (integrators) shows whole with the region around −1 at its true scale */
+  bool nyquist_compressed;
 } LwPlotInput;
 
 #define LW_PLOT_MAX_VARIANTS 6

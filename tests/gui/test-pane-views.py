@@ -85,6 +85,30 @@ def inner(app, schema_dir, example, artefacts):
                          'the Nyquist pane back after one undo')
                 if saved_after(wid, design) != doc0:
                     fail('one undo does not give the document as it was')
+
+                # the menu's first item, _Whole Phase Range: the Bode phase axis then reaches
+                # the whole curve (the camera slider's runs past −600°; by default the axis
+                # ends at −450°, the curve continuing off it)
+                settle(log_path)
+                b = last_line(log_path, 'LW-PANEL', view='bode-z')
+                lo0 = float(b['y2lo'])
+                run('xdotool', 'mousemove', '--sync',
+                    str(x0 + round(float(b['left']) + float(b['width']) / 2)),
+                    str(y0 + round(float(b['top']) + 0.9 * float(b['height']))))
+                run('xdotool', 'click', '3')
+                wait_for(lambda: len(list(debug_lines(log_path, 'LW-PANE-MENU'))) >= 2,
+                         'the Bode pane\'s menu')
+                time.sleep(0.5)
+                run('xdotool', 'mousemove', '--sync', str(x0 + 20), str(y0 + 20))
+                time.sleep(0.3)
+                run('xdotool', 'key', '--clearmodifiers', 'w')   # its mnemonic
+                got = wait_for(lambda: float(last_line(log_path, 'LW-PANEL', view='bode-z')
+                                             ['y2lo']) < lo0 - 100
+                               and last_line(log_path, 'LW-PANEL', view='bode-z'),
+                               'the whole phase range (below %g°)' % lo0)
+                print('phase axis: %g° by default, %s° with the whole range' % (lo0, got['y2lo']))
+                if saved_after(wid, design) != doc0:
+                    fail('a display option changed the document')
                 quit_window(proc, wid)
             finally:
                 kill_window(proc)

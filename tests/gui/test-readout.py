@@ -20,6 +20,7 @@ import shutil
 import subprocess
 import sys
 import tempfile
+import time
 
 sys.path.insert(0, os.path.dirname(os.path.abspath(__file__)))
 from lwgui import (fail, kill_window, last_line, outer, quit_window, run,  # noqa: E402
@@ -58,8 +59,9 @@ def inner(app, cli, schema_dir, example, artefacts):
                 n0 = len(readouts(log_path))
                 run('xdotool', 'mousemove', '--sync', str(x - 3), str(y))
                 run('xdotool', 'mousemove', '--sync', str(x), str(y))
-                line = wait_for(lambda: readouts(log_path)[n0:] and readouts(log_path)[-1],
-                                'the read-out over the Bode pane')
+                wait_for(lambda: readouts(log_path)[n0:], 'the read-out over the Bode pane')
+                time.sleep(0.6)   # the read-out of the last position, not of the one before
+                line = readouts(log_path)[-1]
                 m = re.search(r'ω (\S+) rad/s\s+\|L\| (\S+) dB', line)
                 if m is None:
                     fail('the read-out %r does not give ω and |L|' % line)

@@ -7,7 +7,8 @@ Usage: test-label-gallery.py PATH-TO-loopwright-cli SOURCE-ROOT ARTEFACT_DIR
 The stress cases: the kiln (3.75 samples of dead time: the phase runs to −1080° and crosses
 −180° + k·360° again and again), four compared variants (tests/gui/four-variants.lwd), a
 loop whose crossovers crowd below π/T, and a loop with 200 samples of dead time (hundreds of
-phase crossings); each in the Bode views in z and w, Nyquist, Nichols (and for the variants
+phase crossings); each in the Bode views (and with the whole phase range, and the compressed
+Nyquist scale) in z and w, Nyquist, Nichols (and for the variants
 the step, sensitivity and pole-zero views), at the export size 800×600 and at a pane's size
 420×300.
 
@@ -45,7 +46,13 @@ CASES = ([("kiln", [KILN], v) for v in LOOP_VIEWS]
          + [("four", [FOUR, "--all-variants"], v)
             for v in LOOP_VIEWS + ["step", "sensitivity", "poles"]]
          + [("near", NEAR, v) for v in LOOP_VIEWS]
-         + [("dead", DEAD, v) for v in LOOP_VIEWS])
+         + [("dead", DEAD, v) for v in LOOP_VIEWS]
+         # the display options: the whole phase range, the compressed Nyquist scale
+         + [("kiln-whole", [KILN, "--phase-range", "whole"], "bode-z"),
+            ("dead-whole", DEAD + ["--phase-range", "whole"], "bode-w"),
+            ("four-compressed", [FOUR, "--all-variants", "--nyquist-scale", "compressed"],
+             "nyquist"),
+            ("near-compressed", NEAR + ["--nyquist-scale", "compressed"], "nyquist")])
 SIZES = ["800x600", "420x300", "330x240"]
 SHRINK = 0.15
 EDGE = 0.5
