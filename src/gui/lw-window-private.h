@@ -73,6 +73,7 @@ struct _LwWindow
 
   /* drag */
   gboolean dragging;
+  gint64 panels_shown_us;          /* when the panels last followed an evaluation (drag) */
   LwPlotPane *drag_pane;
   guint drag_stage;
   int drag_corner;              /* −1: gain */

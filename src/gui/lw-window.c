@@ -99,7 +99,7 @@ is_compared (LwWindow *self, const char *name)
 }
 
 static void
-show_handles_and_plots (LwWindow *self)
+show_handles_and_plots (LwWindow *self, gboolean panels)
 {
   LwPlotRequirements req = { 0 };
   plot_requirements (self, &req);
@@ -161,6 +161,8 @@ show_handles_and_plots (LwWindow *self)
   lw_plot_area_show_variants (self->plot_area, vs, n, active, &req, v->stages,
                               (guint) v->n_stages, self->gain_pin_nu, self->sel_stage,
                               self->sel_corner, self->dragging);
+  if (!panels)
+    return;
   guint styles[LW_PLOT_MAX_VARIANTS];
   for (guint i = 0; i < n; i++)
     styles[i] = vs[i].style;
@@ -168,16 +170,29 @@ show_handles_and_plots (LwWindow *self)
                          (guint) d->n_requirements);
 }
 
+/* During a drag the panels beside the plots (the plant's forms, the stage fields, the
+ * requirements' achieved values, the metrics table) follow at most this often: each new
+ * text in them makes GTK measure and lay out the panel again, which took about a sixth of a
+ * dragged frame. The plots follow every frame; when the drag ends, everything shows the
+ * final evaluation. */
+#define LW_DRAG_PANEL_INTERVAL_US 100000
+
 /* Shows an evaluation of the active variant everywhere. */
 static void
 show_eval (LwWindow *self, LwVariantEval *eval)
 {
   g_clear_pointer (&self->eval, lw_variant_eval_unref);
   self->eval = eval;
-  lw_plant_panel_show_eval (self->plant_panel, self->eval);
-  lw_compensator_panel_show_eval (self->compensator_panel, self->eval);
-  lw_requirements_panel_show_eval (self->requirements_panel, self->eval);
-  show_handles_and_plots (self);
+  gint64 now = g_get_monotonic_time ();
+  gboolean panels = !self->dragging || now - self->panels_shown_us >= LW_DRAG_PANEL_INTERVAL_US;
+  if (panels)
+    {
+      self->panels_shown_us = now;
+      lw_plant_panel_show_eval (self->plant_panel, self->eval);
+      lw_compensator_panel_show_eval (self->compensator_panel, self->eval);
+      lw_requirements_panel_show_eval (self->requirements_panel, self->eval);
+    }
+  show_handles_and_plots (self, panels);
   if (self->debug)
     lw_number_field_watch_positions ();   /* labels above the fields may have changed */
 
@@ -360,7 +375,7 @@ schedule_eval (LwWindow *self)
 void
 lw_window_show_variants (LwWindow *self)
 {
-  show_handles_and_plots (self);
+  show_handles_and_plots (self, TRUE);
 }
 
 void
