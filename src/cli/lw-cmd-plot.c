@@ -85,6 +85,19 @@ typedef struct
   gboolean help;
 } PlotArgs;
 
+/* An option of two words: false for the first (or none given), true for the second; a
+ * message naming the option for anything else. */
+static bool
+second_word (const char *option, const char *value, const char *first, const char *second,
+             const char *what, bool *out)
+{
+  *out = value != NULL && strcmp (value, second) == 0;
+  if (value == NULL || *out || strcmp (value, first) == 0)
+    return true;
+  lw_cli_bad_input (option, "'%s' is not %s (%s or %s)", value, what, first, second);
+  return false;
+}
+
 /* The figure options, checked. */
 typedef struct
 {
@@ -186,26 +199,11 @@ plot_options_check (const PlotArgs *a, PlotSpec *s)
       lw_cli_bad_input ("--theme", "unknown theme '%s' (light or dark)", a->theme);
       return LW_EXIT_BAD_INPUT;
     }
-  if (a->phase_range == NULL || strcmp (a->phase_range, "crossovers") == 0)
-    s->phase_full_range = false;
-  else if (strcmp (a->phase_range, "whole") == 0)
-    s->phase_full_range = true;
-  else
-    {
-      lw_cli_bad_input ("--phase-range", "'%s' is not a phase range (crossovers or whole)",
-                        a->phase_range);
-      return LW_EXIT_BAD_INPUT;
-    }
-  if (a->nyquist_scale == NULL || strcmp (a->nyquist_scale, "linear") == 0)
-    s->nyquist_compressed = false;
-  else if (strcmp (a->nyquist_scale, "compressed") == 0)
-    s->nyquist_compressed = true;
-  else
-    {
-      lw_cli_bad_input ("--nyquist-scale", "'%s' is not a scale (linear or compressed)",
-                        a->nyquist_scale);
-      return LW_EXIT_BAD_INPUT;
-    }
+  if (!second_word ("--phase-range", a->phase_range, "crossovers", "whole", "a phase range",
+                    &s->phase_full_range)
+      || !second_word ("--nyquist-scale", a->nyquist_scale, "linear", "compressed", "a scale",
+                       &s->nyquist_compressed))
+    return LW_EXIT_BAD_INPUT;
   s->title = a->title;
   if (a->target)
     {

@@ -159,6 +159,15 @@ lwp_choose_labels (const LwPlotCrossover *x, size_t n, double within, bool *labe
     }
 }
 
+void
+lwp_choose_margin_labels (const LwPlotFreqCurve *c, bool **pm, bool **gm)
+{
+  *pm = g_new0 (bool, c->n_gain_crossovers + 1);
+  *gm = g_new0 (bool, c->n_phase_crossovers + 1);
+  lwp_choose_labels (c->gain_crossovers, c->n_gain_crossovers, LABEL_WITHIN_PM_DEG, *pm);
+  lwp_choose_labels (c->phase_crossovers, c->n_phase_crossovers, LABEL_WITHIN_GM_DB, *gm);
+}
+
 /* A curve of variant v made from the arrays src_x, src_y (tag tells apart curves made from
  * the same arrays), n points: copied from the figure being reused when it holds the same
  * curve of a variant with the same data key on equal axes, else NULL (map it then, and call

@@ -211,6 +211,9 @@ Prim *lwp_style_variant (Prim *p, size_t variant, double width);
  * smallest |margin|) and those whose |margin| is within `within` of it, at most
  * MAX_LABELLED_CROSSOVERS of them, the smallest first; non-finite margins never. */
 void lwp_choose_labels (const LwPlotCrossover *x, size_t n, double within, bool *label);
+/* The choice for both margins of curve c: *pm for its gain crossovers (phase margins), *gm
+ * for its phase crossovers (gain margins); new arrays, g_free them. */
+void lwp_choose_margin_labels (const LwPlotFreqCurve *c, bool **pm, bool **gm);
 
 Prim *lwp_margin_label (Panel *pn, double x, double y, const char *text, double dx, double dy,
                         double ax, double ay, size_t v);

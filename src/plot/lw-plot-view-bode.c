@@ -220,10 +220,8 @@ build_bode (LwPlot *pl, const LwPlotInput *in, bool w_plane)
   for (size_t v = 0; v < in->n_variants; v++)
     {
       const LwPlotFreqCurve *c = w_plane ? &in->variants[v].w : &in->variants[v].z;
-      bool *pm_label = g_new0 (bool, c->n_gain_crossovers + 1);
-      bool *gm_label = g_new0 (bool, c->n_phase_crossovers + 1);
-      lwp_choose_labels (c->gain_crossovers, c->n_gain_crossovers, LABEL_WITHIN_PM_DEG, pm_label);
-      lwp_choose_labels (c->phase_crossovers, c->n_phase_crossovers, LABEL_WITHIN_GM_DB, gm_label);
+      bool *pm_label, *gm_label;
+      lwp_choose_margin_labels (c, &pm_label, &gm_label);
       for (size_t i = 0; i < c->n_gain_crossovers; i++)
         {
           const LwPlotCrossover *x = &c->gain_crossovers[i];

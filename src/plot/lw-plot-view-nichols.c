@@ -54,12 +54,8 @@ lwp_build_nichols (LwPlot *pl, const LwPlotInput *in)
     {
       const LwPlotFreqCurve *c = &in->variants[v].z;
       Prim *l = lwp_add_curve (pl, pn, v, c->n, c->phase_deg, c->mag_db);
-      bool *pm_label = g_new0 (bool, c->n_gain_crossovers + 1);
-      bool *gm_label = g_new0 (bool, c->n_phase_crossovers + 1);
-      lwp_choose_labels (c->gain_crossovers, c->n_gain_crossovers, LABEL_WITHIN_PM_DEG,
-                         pm_label);
-      lwp_choose_labels (c->phase_crossovers, c->n_phase_crossovers, LABEL_WITHIN_GM_DB,
-                         gm_label);
+      bool *pm_label, *gm_label;
+      lwp_choose_margin_labels (c, &pm_label, &gm_label);
       lwp_style_variant (l, v, LW_PLOT_CURVE_WIDTH);
       l->dash = DASH_VARIANT;
       for (size_t i = 0; i < c->n_gain_crossovers; i++)

@@ -130,12 +130,8 @@ lwp_build_nyquist (LwPlot *pl, const LwPlotInput *in)
       l->dash = DASH_VARIANT;
 
       const LwPlotFreqCurve *z = &in->variants[v].z;
-      bool *pm_label = g_new0 (bool, z->n_gain_crossovers + 1);
-      bool *gm_label = g_new0 (bool, z->n_phase_crossovers + 1);
-      lwp_choose_labels (z->gain_crossovers, z->n_gain_crossovers, LABEL_WITHIN_PM_DEG,
-                         pm_label);
-      lwp_choose_labels (z->phase_crossovers, z->n_phase_crossovers, LABEL_WITHIN_GM_DB,
-                         gm_label);
+      bool *pm_label, *gm_label;
+      lwp_choose_margin_labels (z, &pm_label, &gm_label);
       for (size_t i = 0; i < z->n_gain_crossovers; i++)
         {
           const LwPlotCrossover *x = &z->gain_crossovers[i];

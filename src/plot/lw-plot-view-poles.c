@@ -129,52 +129,47 @@ cluster_near_one (const LwPlotInput *in, double map_span)
   return crowded >= 2 && reach > 1e-12 ? reach : 0.0;
 }
 
-/* Guides of z-plane practice, dotted: the loci of constant damping ζ = 0.2 … 0.8 and of
- * constant natural frequency ωn·T = π/5 … 4π/5 (z = exp(sT) of s = ωn(−ζ ± j√(1 − ζ²))), in
- * the upper and lower half. */
+/* One guide: the locus z = exp(sT) of s = ωn(−ζ ± j√(1 − ζ²)) as `t` runs over [0, 1] with
+ * ζ = zeta (t) and ωn·T = wnt (t), in the upper and (mirrored) lower half, dotted. */
 static void
-add_guides (Panel *pn)
+add_locus (Panel *pn, double (*zeta) (double t, double k), double (*wnt) (double t, double k),
+           double k)
 {
   enum { N = 48 };
   double x[N], y[N], ym[N];
-  for (int k = 1; k <= 4; k++)
+  for (int i = 0; i < N; i++)
     {
-      double zeta = 0.2 * k, wd = sqrt (1.0 - zeta * zeta);
-      for (int i = 0; i < N; i++)
-        {
-          double wnt = (G_PI / wd) * i / (N - 1);   /* up to the negative real axis */
-          double r = exp (-zeta * wnt);
-          x[i] = r * cos (wnt * wd);
-          y[i] = r * sin (wnt * wd);
-          ym[i] = -y[i];
-        }
-      for (int h = 0; h < 2; h++)
-        {
-          Prim *g = lwp_add_line (pn, N, x, h == 0 ? y : ym);
-          g->colour = COL_REF;
-          g->width = 0.7;
-          g->dash = DASH_DOTTED;
-        }
+      double t = (double) i / (N - 1), z = zeta (t, k), w = wnt (t, k);
+      double wd = sqrt (fmax (1.0 - z * z, 0.0)), r = exp (-z * w);
+      x[i] = r * cos (w * wd);
+      y[i] = r * sin (w * wd);
+      ym[i] = -y[i];
     }
-  for (int k = 1; k <= 4; k++)
+  for (int h = 0; h < 2; h++)
     {
-      double wnt = G_PI * k / 5.0;
-      for (int i = 0; i < N; i++)
-        {
-          double zeta = (double) i / (N - 1), wd = sqrt (fmax (1.0 - zeta * zeta, 0.0));
-          double r = exp (-zeta * wnt);
-          x[i] = r * cos (wnt * wd);
-          y[i] = r * sin (wnt * wd);
-          ym[i] = -y[i];
-        }
-      for (int h = 0; h < 2; h++)
-        {
-          Prim *g = lwp_add_line (pn, N, x, h == 0 ? y : ym);
-          g->colour = COL_REF;
-          g->width = 0.7;
-          g->dash = DASH_DOTTED;
-        }
+      Prim *g = lwp_add_line (pn, N, x, h == 0 ? y : ym);
+      g->colour = COL_REF;
+      g->width = 0.7;
+      g->dash = DASH_DOTTED;
     }
+}
+
+/* constant damping ζ = k: ωn·T from 0 to where the locus meets the negative real axis */
+static double zeta_fixed (double t, double k) { (void) t; return k; }
+static double wnt_to_axis (double t, double k) { return t * G_PI / sqrt (1.0 - k * k); }
+/* constant natural frequency ωn·T = k: ζ from 0 to 1 */
+static double zeta_ramp (double t, double k) { (void) k; return t; }
+static double wnt_fixed (double t, double k) { (void) t; return k; }
+
+/* Guides of z-plane practice, dotted: the loci of constant damping ζ = 0.2 … 0.8 and of
+ * constant natural frequency ωn·T = π/5 … 4π/5. */
+static void
+add_guides (Panel *pn)
+{
+  for (int k = 1; k <= 4; k++)
+    add_locus (pn, zeta_fixed, wnt_to_axis, 0.2 * k);
+  for (int k = 1; k <= 4; k++)
+    add_locus (pn, zeta_ramp, wnt_fixed, G_PI * k / 5.0);
 }
 
 void
