@@ -432,8 +432,17 @@ lw_plot_area_show_variants (LwPlotArea *self, const LwAreaVariant *vs, guint n, 
                                ? g_strdup_printf ("%s \u2014 %s", view_title (self->views[i]),
                                                   vars[moving].name)
                                : NULL;
+      /* the split view's two columns share axes chosen from both variants' data, so neither
+       * curve runs off the other's frame (a figure of both, only for its axes) */
+      LwPlot *both = NULL;
+      if (split_row_view && other != NULL && !keep_axes)
+        {
+          LwPlotVariant two[2] = { vars[moving], *other };
+          both = build_view (self->views[i], two, 2, nyq, req, eval, self, NULL, NULL, NULL);
+        }
       LwPlot *plot = build_view (self->views[i], pv, pn, nyq, req, eval, self,
-                                 keep_axes ? lw_plot_pane_get_plot (pane) : NULL, title, &error);
+                                 keep_axes ? lw_plot_pane_get_plot (pane) : both, title, &error);
+      g_clear_pointer (&both, lw_plot_free);
       lw_plot_pane_set_plot_moving (pane, plot, plot == NULL ? error->message : NULL,
                                     split_row_view ? 0 : (int) moving);
       if (self->debug)
