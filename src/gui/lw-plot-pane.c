@@ -131,7 +131,8 @@ draw (GtkDrawingArea *area, cairo_t *cr, int width, int height, gpointer user_da
       || self->cache_scale != scale)
     {
       g_clear_pointer (&self->cache, cairo_surface_destroy);
-      self->cache = cairo_image_surface_create (CAIRO_FORMAT_RGB24, width * scale,
+      /* the format of GTK's node surfaces, so the cache is copied into them, not converted */
+      self->cache = cairo_image_surface_create (CAIRO_FORMAT_ARGB32, width * scale,
                                                 height * scale);
       cairo_surface_set_device_scale (self->cache, scale, scale);
       cairo_t *c = cairo_create (self->cache);
@@ -157,8 +158,12 @@ draw (GtkDrawingArea *area, cairo_t *cr, int width, int height, gpointer user_da
     }
   /* the margin labels, drawn with the moving variant, keep clear of the handles */
   lw_plot_set_keep_clear (self->plot, ph, n);
+  /* the cache is opaque and covers the whole pane: a copy, not a blend */
+  cairo_save (cr);
+  cairo_set_operator (cr, CAIRO_OPERATOR_SOURCE);
   cairo_set_source_surface (cr, self->cache, 0, 0);
   cairo_paint (cr);
+  cairo_restore (cr);
   if (self->moving >= 0)
     lw_plot_draw_variant (self->plot, cr, width, height, (size_t) self->moving);
 
