@@ -260,6 +260,24 @@ draw_polyline_decimated (const Panel *pn, cairo_t *cr, const Prim *q)
     }
 }
 
+/* An arrowhead at (x, y) pointing along (dx, dy) (any length), filled. */
+static void
+arrowhead (cairo_t *cr, double x, double y, double dx, double dy)
+{
+  double l = hypot (dx, dy);
+  if (!(l > 0.0))
+    return;
+  dx /= l;
+  dy /= l;
+  cairo_move_to (cr, x, y);
+  cairo_line_to (cr, x - ARROW_SIZE * dx + 0.45 * ARROW_SIZE * dy,
+                 y - ARROW_SIZE * dy - 0.45 * ARROW_SIZE * dx);
+  cairo_line_to (cr, x - ARROW_SIZE * dx - 0.45 * ARROW_SIZE * dy,
+                 y - ARROW_SIZE * dy + 0.45 * ARROW_SIZE * dx);
+  cairo_close_path (cr);
+  cairo_fill (cr);
+}
+
 static void
 draw_prim (const LwPlot *p, const Panel *pn, cairo_t *cr, const Prim *q)
 {
@@ -295,6 +313,17 @@ draw_prim (const LwPlot *p, const Panel *pn, cairo_t *cr, const Prim *q)
             }
         }
       cairo_stroke (cr);
+      if (q->arrows && q->n == 2 && isfinite (q->u[0]) && isfinite (q->v[0])
+          && isfinite (q->u[1]) && isfinite (q->v[1]))
+        {
+          double x0 = px_of (pn, q->u[0]), y0 = py_of (pn, q->v[0]);
+          double x1 = px_of (pn, q->u[1]), y1 = py_of (pn, q->v[1]);
+          if (hypot (x1 - x0, y1 - y0) > 2.5 * ARROW_SIZE)   /* room for both heads */
+            {
+              arrowhead (cr, x0, y0, x0 - x1, y0 - y1);
+              arrowhead (cr, x1, y1, x1 - x0, y1 - y0);
+            }
+        }
       break;
     case PRIM_MARK:
       if (isfinite (q->u[0]) && isfinite (q->v[0]))
@@ -309,9 +338,21 @@ draw_prim (const LwPlot *p, const Panel *pn, cairo_t *cr, const Prim *q)
       break;
     case PRIM_HBAND:
       {
+        /* a keep-out zone: a light wash and diagonal hatching */
         double y0 = py_of (pn, q->v[0]), y1 = py_of (pn, q->v[1]);
-        cairo_rectangle (cr, pn->rx, fmin (y0, y1), pn->rw, fabs (y1 - y0));
+        double top = fmin (y0, y1), h = fabs (y1 - y0);
+        cairo_rectangle (cr, pn->rx, top, pn->rw, h);
+        cairo_clip_preserve (cr);
         cairo_fill (cr);
+        lwp_set_rgb (cr, c, fmin (1.0, 3.0 * q->alpha));
+        cairo_set_line_width (cr, 0.8);
+        cairo_set_dash (cr, NULL, 0, 0.0);
+        for (double x = pn->rx - h; x < pn->rx + pn->rw; x += HATCH_STEP)
+          {
+            cairo_move_to (cr, x, top + h);
+            cairo_line_to (cr, x + h, top);
+          }
+        cairo_stroke (cr);
         break;
       }
     case PRIM_CIRCLE:
@@ -327,6 +368,19 @@ draw_prim (const LwPlot *p, const Panel *pn, cairo_t *cr, const Prim *q)
         else
           cairo_arc_negative (cr, x, y, r, -q->a0 * G_PI / 180.0, -q->a1 * G_PI / 180.0);
         cairo_stroke (cr);
+        if (q->kind == PRIM_ARC && q->arrows && fabs (q->a1 - q->a0) * G_PI / 180.0 * r
+                                               > 2.5 * ARROW_SIZE)
+          {
+            /* the tangents at the ends, pointing away from the arc's middle */
+            double s = q->a1 > q->a0 ? 1.0 : -1.0;
+            for (int e = 0; e < 2; e++)
+              {
+                double a = (e == 0 ? q->a0 : q->a1) * G_PI / 180.0, dir = e == 0 ? -s : s;
+                /* data angle a → pixel point (x + r cos a, y − r sin a); d/da of it */
+                arrowhead (cr, x + r * cos (a), y - r * sin (a), -r * sin (a) * dir,
+                           -r * cos (a) * dir);
+              }
+          }
         break;
       }
     }

@@ -431,7 +431,7 @@ prim_equal (const Prim *a, const Prim *b)
          && a->owner == b->owner
          && a->dash == b->dash && a->width == b->width && a->alpha == b->alpha && a->n == b->n
          && a->shape == b->shape && a->size == b->size && a->dx == b->dx && a->dy == b->dy
-         && a->ax == b->ax && a->ay == b->ay && a->plate == b->plate
+         && a->ax == b->ax && a->ay == b->ay && a->plate == b->plate && a->arrows == b->arrows
          && a->r_units == b->r_units && a->a0 == b->a0 && a->a1 == b->a1
          && g_strcmp0 (a->text, b->text) == 0
          && (a->n == 0 || (memcmp (a->u, b->u, a->n * sizeof *a->u) == 0

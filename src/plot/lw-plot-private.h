@@ -23,7 +23,11 @@
 
 #define MAX_PANELS 3
 #define MAX_TICKS 512
-#define GAUGE_WIDTH 3.0
+/* Margins are dimensioned as on a drawing: a thin line between the reference and the curve
+ * with an arrowhead at each end (Prim.arrows); requirements are hatched keep-out zones. */
+#define GAUGE_WIDTH 1.3
+#define ARROW_SIZE 5.0
+#define HATCH_STEP 6.0
 #define DROP_WIDTH 0.8
 #define THIN_WIDTH 1.0
 #define MAX_LABELLED_CROSSOVERS 3
@@ -83,6 +87,8 @@ typedef struct {
    * (place_labels); lx, ly: the top left corner of its text there; shown: false when no free
    * place was found */
   bool label;
+  bool arrows;           /* a dimension: a 2-point line or an arc with an arrowhead at each
+                            end, pointing outward */
   bool optional;         /* a text that may be left out when it finds no free place (placed
                             after every other: the compressed Nyquist circles' values) */
   bool shown;

@@ -230,7 +230,7 @@ build_bode (LwPlot *pl, const LwPlotInput *in, bool w_plane)
                              DROP_WIDTH)->dash = DASH_DOTTED;
           lwp_style_variant (lwp_add_segment (ph, f, ph->y.hi, f, x->phase_deg), v,
                              DROP_WIDTH)->dash = DASH_DOTTED;
-          lwp_style_variant (lwp_add_segment (ph, f, ref, f, x->phase_deg), v, GAUGE_WIDTH);
+          lwp_style_variant (lwp_add_segment (ph, f, ref, f, x->phase_deg), v, GAUGE_WIDTH)->arrows = true;
           lwp_style_variant (lwp_add_mark (mag, f, 0.0, MARK_CIRCLE, 7), v, 1.3);
           lwp_style_variant (lwp_add_mark (ph, f, x->phase_deg, MARK_DISC, 5), v, 1.0);
           if (pm_label[i])
@@ -252,7 +252,7 @@ build_bode (LwPlot *pl, const LwPlotInput *in, bool w_plane)
                              DROP_WIDTH)->dash = DASH_DOTTED;
           lwp_style_variant (lwp_add_segment (mag, f, mag->y.lo, f, x->mag_db), v,
                              DROP_WIDTH)->dash = DASH_DOTTED;
-          lwp_style_variant (lwp_add_segment (mag, f, x->mag_db, f, 0.0), v, GAUGE_WIDTH);
+          lwp_style_variant (lwp_add_segment (mag, f, x->mag_db, f, 0.0), v, GAUGE_WIDTH)->arrows = true;
           lwp_style_variant (lwp_add_mark (ph, f, x->phase_deg, MARK_DIAMOND, 7), v, 1.3);
           if (gm_label[i])
             {

@@ -63,7 +63,7 @@ lwp_build_nichols (LwPlot *pl, const LwPlotInput *in)
           const LwPlotCrossover *x = &c->gain_crossovers[i];
           lwp_style_variant (lwp_add_segment (pn, x->phase_deg - x->margin, 0.0, x->phase_deg,
                                              0.0),
-                             v, GAUGE_WIDTH);
+                             v, GAUGE_WIDTH)->arrows = true;
           lwp_style_variant (lwp_add_mark (pn, x->phase_deg, 0.0, MARK_DISC, 5), v, 1.0);
           if (pm_label[i])
             {
@@ -77,7 +77,7 @@ lwp_build_nichols (LwPlot *pl, const LwPlotInput *in)
         {
           const LwPlotCrossover *x = &c->phase_crossovers[i];
           lwp_style_variant (lwp_add_segment (pn, x->phase_deg, x->mag_db, x->phase_deg, 0.0), v,
-                         GAUGE_WIDTH);
+                         GAUGE_WIDTH)->arrows = true;
           lwp_style_variant (lwp_add_mark (pn, x->phase_deg, x->mag_db, MARK_DIAMOND, 7), v, 1.3);
           if (gm_label[i])
             {

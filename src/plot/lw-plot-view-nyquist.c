@@ -148,6 +148,7 @@ lwp_build_nyquist (LwPlot *pl, const LwPlotInput *in)
           arc->a0 = a0;
           arc->a1 = a0 - x->margin;
           lwp_style_variant (arc, v, GAUGE_WIDTH);
+          arc->arrows = true;
           double gre, gim;
           compress (x->re, x->im, &gre, &gim);   /* on the unit circle: unchanged */
           lwp_style_variant (lwp_add_mark (pn, gre, gim, MARK_DISC, 5), v, 1.0);
