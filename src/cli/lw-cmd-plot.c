@@ -55,9 +55,10 @@ static const char plot_help_tail[] =
   "  --size WxH               width and height, 16 to 20000 (pixels for PNG, points for\n"
   "                           SVG and PDF; default 800x600)\n"
   "  --theme light|dark       colours (default light)\n"
-  "  --phase-range crossovers|whole\n"
+  "  --phase-range crossovers|whole|turn\n"
   "                           Bode views: the phase around the gain crossovers, to a decade\n"
-  "                           past the last (default), or the whole unwrapped curve\n"
+  "                           past the last (default), the whole unwrapped curve, or one\n"
+  "                           turn (wrapped into -360...0 deg)\n"
   "  --nyquist-scale linear|compressed\n"
   "                           Nyquist: linear near the unit circle (default), or compressed\n"
   "                           beyond it (|L| = r at radius 1 + log10 r) to show it whole\n"
@@ -106,7 +107,7 @@ typedef struct
   const char *out;
   double width, height;
   LwPlotTheme theme;
-  bool phase_full_range, nyquist_compressed;
+  bool phase_full_range, phase_wrapped, nyquist_compressed;
   const char *title;
   bool has_target;  double target_rad_s;
   const LwDesign *design;   /* its requirements are marked too (the options win); or NULL */
@@ -199,9 +200,16 @@ plot_options_check (const PlotArgs *a, PlotSpec *s)
       lw_cli_bad_input ("--theme", "unknown theme '%s' (light or dark)", a->theme);
       return LW_EXIT_BAD_INPUT;
     }
-  if (!second_word ("--phase-range", a->phase_range, "crossovers", "whole", "a phase range",
-                    &s->phase_full_range)
-      || !second_word ("--nyquist-scale", a->nyquist_scale, "linear", "compressed", "a scale",
+  const char *pr = a->phase_range;
+  s->phase_full_range = pr != NULL && strcmp (pr, "whole") == 0;
+  s->phase_wrapped = pr != NULL && strcmp (pr, "turn") == 0;
+  if (pr != NULL && !s->phase_full_range && !s->phase_wrapped && strcmp (pr, "crossovers") != 0)
+    {
+      lw_cli_bad_input ("--phase-range", "'%s' is not a phase range (crossovers, whole or turn)",
+                        pr);
+      return LW_EXIT_BAD_INPUT;
+    }
+  if (!second_word ("--nyquist-scale", a->nyquist_scale, "linear", "compressed", "a scale",
                        &s->nyquist_compressed))
     return LW_EXIT_BAD_INPUT;
   s->title = a->title;
@@ -287,6 +295,7 @@ plot_write (const PlotSpec *s, const PlotVariantSource *src, size_t n)
   in.nyquist_rad_s = G_PI / src[0].ev->period_s;
   in.title = s->title;
   in.phase_full_range = s->phase_full_range;
+  in.phase_wrapped = s->phase_wrapped;
   in.nyquist_compressed = s->nyquist_compressed;
   if (src[0].eval != NULL)
     {

@@ -47,7 +47,8 @@ struct _LwPlotArea
   gboolean debug;                     /* LW_DEBUG_HANDLES=1: print the series shown */
   gboolean linking;
   double period_s;                    /* the active variant's, for linking ω and ν axes */
-  gboolean phase_whole;               /* Bode phase axes: the whole curve (pane menu) */
+  int phase_mode;                     /* Bode phase axes (pane menu): 0 around the crossovers,
+                                         1 the whole curve, 2 one turn */
   gboolean nyquist_compressed;        /* Nyquist: compressed beyond |L| = 1 (pane menu) */
 };
 

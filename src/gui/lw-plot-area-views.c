@@ -47,9 +47,12 @@ pane_menu_open (LwPlotPane *pane, double x)
   g_autoptr (GMenu) display = g_menu_new ();
   if (area != NULL)
     {
-      g_menu_append (display, area->phase_whole ? _("_Phase around the Crossovers")
-                                                : _("_Whole Phase Range"),
-                     "area.display::phase");
+      if (area->phase_mode != 1)
+        g_menu_append (display, _("_Whole Phase Range"), "area.display::phase-whole");
+      if (area->phase_mode != 2)
+        g_menu_append (display, _("Phase in One _Turn"), "area.display::phase-turn");
+      if (area->phase_mode != 0)
+        g_menu_append (display, _("_Phase around the Crossovers"), "area.display::phase-branch");
       g_menu_append (display, area->nyquist_compressed ? _("Linear N_yquist Scale")
                                                        : _("Compressed N_yquist Scale"),
                      "area.display::nyquist");
@@ -133,8 +136,12 @@ lwpa_display_activated (GtkWidget *widget, const char *action, GVariant *param)
 {
   LwPlotArea *self = LW_PLOT_AREA (widget);
   const char *which = g_variant_get_string (param, NULL);
-  if (g_strcmp0 (which, "phase") == 0)
-    self->phase_whole = !self->phase_whole;
+  if (g_strcmp0 (which, "phase-branch") == 0)
+    self->phase_mode = 0;
+  else if (g_strcmp0 (which, "phase-whole") == 0)
+    self->phase_mode = 1;
+  else if (g_strcmp0 (which, "phase-turn") == 0)
+    self->phase_mode = 2;
   else if (g_strcmp0 (which, "nyquist") == 0)
     self->nyquist_compressed = !self->nyquist_compressed;
   else

@@ -290,7 +290,8 @@ build_view (LwPlotView view, const LwPlotVariant *vars, guint n, double nyquist_
     .axes_of = axes_of,
     .input_unit = units_of->input_unit,
     .output_unit = units_of->output_unit,
-    .phase_full_range = opts != NULL && opts->phase_whole,
+    .phase_full_range = opts != NULL && opts->phase_mode == 1,
+    .phase_wrapped = opts != NULL && opts->phase_mode == 2,
     .nyquist_compressed = opts != NULL && opts->nyquist_compressed,
   };
   if (req != NULL)
@@ -623,7 +624,8 @@ lw_plot_area_build_plot (LwPlotArea *area, const LwAreaVariant *vs, guint n,
     .variants = pv,
     .input_unit = vs[0].eval->input_unit,
     .output_unit = vs[0].eval->output_unit,
-    .phase_full_range = area != NULL && area->phase_whole,
+    .phase_full_range = area != NULL && area->phase_mode == 1,
+    .phase_wrapped = area != NULL && area->phase_mode == 2,
     .nyquist_compressed = area != NULL && area->nyquist_compressed,
   };
   if (req != NULL)

@@ -61,9 +61,41 @@ margin_branches (const LwPlotInput *in, bool w_plane, double *refs, size_t n)
   return k;
 }
 
+/* A phase wrapped into (−360°, 0°] (LwPlotInput.phase_wrapped). */
+static double
+wrap_deg (double p)
+{
+  return p - 360.0 * ceil (p / 360.0);
+}
+
+/* The phase curve wrapped into one turn: a new array of *n_out ≤ 2n points (frequency and
+ * phase), NAN inserted where consecutive points wrap (a jump of more than 180°). */
+static void
+wrap_curve (const LwPlotFreqCurve *c, double **f_out, double **p_out, size_t *n_out)
+{
+  double *f = g_new (double, 2 * c->n + 1), *p = g_new (double, 2 * c->n + 1);
+  size_t k = 0;
+  for (size_t i = 0; i < c->n; i++)
+    {
+      double w = wrap_deg (c->phase_deg[i]);
+      if (k > 0 && isfinite (p[k - 1]) && fabs (w - p[k - 1]) > 180.0)
+        {
+          f[k] = c->freq_rad_s[i];
+          p[k++] = NAN;
+        }
+      f[k] = c->freq_rad_s[i];
+      p[k++] = w;
+    }
+  *f_out = f;
+  *p_out = p;
+  *n_out = k;
+}
+
 static void
 build_bode (LwPlot *pl, const LwPlotInput *in, bool w_plane)
 {
+  const bool wrapped = in->phase_wrapped;
+#define PH(deg) (wrapped ? wrap_deg (deg) : (deg))
   Panel *mag = &pl->panels[0], *ph = &pl->panels[1];
   pl->n_panels = 2;
   Extent ex = { 0 }, em = { 0 }, ep = { 0 }, ep_all = { 0 };
@@ -103,6 +135,14 @@ build_bode (LwPlot *pl, const LwPlotInput *in, bool w_plane)
   if (ep_all.any && ep.any && ep_all.lo >= ep.lo - 90.0 && ep_all.hi <= ep.hi + 90.0)
     ep = ep_all;
   bool phase_cut = ep_all.any && ep.any && (ep_all.lo < ep.lo || ep_all.hi > ep.hi);
+  if (wrapped)
+    {
+      /* one turn: the axis is (−360°, 0°], the margins measured from −180° */
+      ep = (Extent) { .lo = -360.0, .hi = 0.0, .any = true };
+      phase_cut = false;
+      n_refs = 1;
+      refs[0] = -180.0;
+    }
 
   lwp_axis_from_extent (&mag->x, LW_PLOT_SCALE_LOG, LW_PLOT_TICKS_PLAIN, ex, 6);
   if (ex.any && ex.lo > 0.0)
@@ -112,6 +152,11 @@ build_bode (LwPlot *pl, const LwPlotInput *in, bool w_plane)
   lwp_axis_from_extent (&mag->y, LW_PLOT_SCALE_LINEAR, LW_PLOT_TICKS_PLAIN, em, 6);
   ph->x = mag->x;
   lwp_axis_from_extent (&ph->y, LW_PLOT_SCALE_LINEAR, LW_PLOT_TICKS_DEGREES, ep, 6);
+  if (wrapped)
+    {
+      ph->y.lo = -360.0;
+      ph->y.hi = 0.0;
+    }
   lwp_keep_axes (pl, in);
 
   const char *fname = w_plane ? "\u03bd" : "\u03c9";
@@ -210,7 +255,22 @@ build_bode (LwPlot *pl, const LwPlotInput *in, bool w_plane)
       Prim *pm = lwp_add_curve (pl, mag, v, c->n, c->freq_rad_s, c->mag_db);
       lwp_style_variant (pm, v, LW_PLOT_CURVE_WIDTH);
       pm->dash = DASH_VARIANT;
-      Prim *pc = lwp_add_curve (pl, ph, v, c->n, c->freq_rad_s, c->phase_deg);
+      Prim *pc = NULL;
+      if (wrapped)
+        {
+          /* a tag of its own: a figure reuses only a wrapped curve's mapped points */
+          double *wf, *wp;
+          size_t wn;
+          wrap_curve (c, &wf, &wp, &wn);
+          pc = lwp_curve_reuse (pl, ph, v, c->freq_rad_s, c->phase_deg, 5, wn);
+          if (pc == NULL)
+            pc = lwp_curve_mark (pl, lwp_add_line (ph, wn, wf, wp), v, c->freq_rad_s,
+                                 c->phase_deg, 5);
+          g_free (wf);
+          g_free (wp);
+        }
+      else
+        pc = lwp_add_curve (pl, ph, v, c->n, c->freq_rad_s, c->phase_deg);
       lwp_style_variant (pc, v, LW_PLOT_CURVE_WIDTH);
       pc->dash = DASH_VARIANT;
     }
@@ -225,35 +285,35 @@ build_bode (LwPlot *pl, const LwPlotInput *in, bool w_plane)
       for (size_t i = 0; i < c->n_gain_crossovers; i++)
         {
           const LwPlotCrossover *x = &c->gain_crossovers[i];
-          double f = x->freq_rad_s, ref = x->phase_deg - x->margin;
+          double f = x->freq_rad_s, xp = PH (x->phase_deg), ref = xp - x->margin;
           lwp_style_variant (lwp_add_segment (mag, f, 0.0, f, mag->y.lo), v,
                              DROP_WIDTH)->dash = DASH_DOTTED;
-          lwp_style_variant (lwp_add_segment (ph, f, ph->y.hi, f, x->phase_deg), v,
+          lwp_style_variant (lwp_add_segment (ph, f, ph->y.hi, f, xp), v,
                              DROP_WIDTH)->dash = DASH_DOTTED;
-          lwp_style_variant (lwp_add_segment (ph, f, ref, f, x->phase_deg), v, GAUGE_WIDTH)->arrows = true;
+          lwp_style_variant (lwp_add_segment (ph, f, ref, f, xp), v, GAUGE_WIDTH)->arrows = true;
           lwp_style_variant (lwp_add_mark (mag, f, 0.0, MARK_CIRCLE, 7), v, 1.3);
-          lwp_style_variant (lwp_add_mark (ph, f, x->phase_deg, MARK_DISC, 5), v, 1.0);
+          lwp_style_variant (lwp_add_mark (ph, f, xp, MARK_DISC, 5), v, 1.0);
           if (pm_label[i])
             {
               char buf[48];
               lwp_format_margin (buf, sizeof buf, "PM", x->margin, "\u00b0");
-              lwp_margin_label (ph, f, 0.5 * (ref + x->phase_deg), buf, 6, 0, 0.0, 0.5, v);
+              lwp_margin_label (ph, f, 0.5 * (ref + xp), buf, 6, 0, 0.0, 0.5, v);
             }
         }
       for (size_t i = 0; i < c->n_phase_crossovers; i++)
         {
           const LwPlotCrossover *x = &c->phase_crossovers[i];
-          double f = x->freq_rad_s;
+          double f = x->freq_rad_s, xp = PH (x->phase_deg);
           /* a crossing beyond the phase axis (the curve continues off it) is not marked:
            * with long dead times there are hundreds; the hover and the table have them */
-          if (x->phase_deg < ph->y.lo || x->phase_deg > ph->y.hi)
+          if (xp < ph->y.lo || xp > ph->y.hi)
             continue;
-          lwp_style_variant (lwp_add_segment (ph, f, x->phase_deg, f, ph->y.hi), v,
+          lwp_style_variant (lwp_add_segment (ph, f, xp, f, ph->y.hi), v,
                              DROP_WIDTH)->dash = DASH_DOTTED;
           lwp_style_variant (lwp_add_segment (mag, f, mag->y.lo, f, x->mag_db), v,
                              DROP_WIDTH)->dash = DASH_DOTTED;
           lwp_style_variant (lwp_add_segment (mag, f, x->mag_db, f, 0.0), v, GAUGE_WIDTH)->arrows = true;
-          lwp_style_variant (lwp_add_mark (ph, f, x->phase_deg, MARK_DIAMOND, 7), v, 1.3);
+          lwp_style_variant (lwp_add_mark (ph, f, xp, MARK_DIAMOND, 7), v, 1.3);
           if (gm_label[i])
             {
               char buf[48];
@@ -265,6 +325,8 @@ build_bode (LwPlot *pl, const LwPlotInput *in, bool w_plane)
       g_free (gm_label);
     }
 }
+
+#undef PH
 
 void
 lwp_build_bode_z (LwPlot *pl, const LwPlotInput *in)

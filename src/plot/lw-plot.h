@@ -163,6 +163,9 @@ typedef struct {
    * the low end to about a decade past the last one, the curve continuing off the axis with
    * a note saying where to; true the whole unwrapped range of the curve */
   bool phase_full_range;
+  /* the Bode views' phase in one turn: ∠L wrapped into (−360°, 0°], the curve broken where it
+   * wraps (takes the place of phase_full_range) */
+  bool phase_wrapped;
   /* the Nyquist diagram's radial scale: false (default) linear, the view capped near the
    * unit circle; true compressed beyond the unit circle, |L| = r drawn at radius
    * 1 + log10 r (each decade one unit), so a loop with a large low-frequency gain

@@ -322,7 +322,7 @@ BAD = [
     (["--view", "step", "--out", os.path.join(TMP, "x.png"), "--size", "800"], 2, ["--size", "WIDTHxHEIGHT"]),
     (["--view", "step", "--out", os.path.join(TMP, "x.png"), "--theme", "pink"], 2, ["--theme", "pink"]),
     (["--view", "bode-z", "--out", os.path.join(TMP, "x.png"), "--phase-range", "all"], 2,
-     ["--phase-range", "'all'", "crossovers or whole"]),
+     ["--phase-range", "'all'", "crossovers, whole or turn"]),
     (["--view", "nyquist", "--out", os.path.join(TMP, "x.png"), "--nyquist-scale", "log"], 2,
      ["--nyquist-scale", "'log'", "linear or compressed"]),
     (["--view", "step", "--out", os.path.join(TMP, "x.pdf"), "--pdf-date", "yesterday"], 2, ["--pdf-date"]),

@@ -50,6 +50,8 @@ CASES = ([("kiln", [KILN], v) for v in LOOP_VIEWS]
          # the display options: the whole phase range, the compressed Nyquist scale
          + [("kiln-whole", [KILN, "--phase-range", "whole"], "bode-z"),
             ("dead-whole", DEAD + ["--phase-range", "whole"], "bode-w"),
+            ("kiln-turn", [KILN, "--phase-range", "turn"], "bode-z"),
+            ("four-turn", [FOUR, "--all-variants", "--phase-range", "turn"], "bode-w"),
             ("four-compressed", [FOUR, "--all-variants", "--nyquist-scale", "compressed"],
              "nyquist"),
             ("near-compressed", NEAR + ["--nyquist-scale", "compressed"], "nyquist")])
