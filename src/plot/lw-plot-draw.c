@@ -331,6 +331,24 @@ draw_prim (const LwPlot *p, const Panel *pn, cairo_t *cr, const Prim *q)
                      q->size);
       break;
     case PRIM_TEXT:
+      /* a label moved away from its marker: a thin leader line from the marker to the
+       * nearest point of the label's box */
+      if (q->shown && q->label && q->moved && isfinite (q->u[0]) && isfinite (q->v[0]))
+        {
+          double ax = px_of (pn, q->u[0]), ay = py_of (pn, q->v[0]);
+          double bx = fmin (fmax (ax, q->lx), q->lx + q->lw);
+          double by = fmin (fmax (ay, q->ly), q->ly + q->lh);
+          if (hypot (bx - ax, by - ay) > 4.0)
+            {
+              cairo_save (cr);
+              cairo_set_line_width (cr, 0.7);
+              cairo_set_dash (cr, NULL, 0, 0.0);
+              cairo_move_to (cr, ax, ay);
+              cairo_line_to (cr, bx, by);
+              cairo_stroke (cr);
+              cairo_restore (cr);
+            }
+        }
       /* at the place lwp_place_labels found for it */
       if (q->shown)
         lwp_draw_text (p->text_cache, cr, q->text, FONT_NOTE, q->lx, q->ly, 0.0, 0.0, c,

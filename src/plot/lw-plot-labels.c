@@ -49,6 +49,7 @@ static void
 place_text (LwPlot *p, cairo_t *cr, const Panel *pn, Prim *q, GArray *taken, bool must_show)
 {
   q->shown = false;
+  q->moved = false;
   if (!isfinite (q->u[0]) || !isfinite (q->v[0]))
     return;
   double tw, th;
@@ -77,6 +78,7 @@ place_text (LwPlot *p, cairo_t *cr, const Panel *pn, Prim *q, GArray *taken, boo
           q->lw = tw;
           q->lh = th;
           q->shown = true;
+          q->moved = row > 0;
           g_array_append_val (taken, b);
           return;
         }

@@ -92,6 +92,8 @@ typedef struct {
   bool optional;         /* a text that may be left out when it finds no free place (placed
                             after every other: the compressed Nyquist circles' values) */
   bool shown;
+  bool moved;            /* a label placed a row or more away from where it prefers: drawn
+                            with a leader line to its anchor */
   double lx, ly, lw, lh;         /* lw, lh: the size of its text */
   double r_units, a0, a1;
   long owner;            /* the variant the primitive belongs to (its layer), or −1 */
