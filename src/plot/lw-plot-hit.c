@@ -177,9 +177,38 @@ lw_plot_draw_overlay (LwPlot *p, cairo_t *cr, const LwPlotOverlay *ov)
           cairo_arc (cr, ov->hover_x, cy, 3.5, 0, 2 * G_PI);
           cairo_stroke (cr);
         }
+      /* beside the pointer, on the side with room, and off the margin labels: of the four
+       * corners around the pointer the first whose box covers no label shown */
+      PangoLayout *lay = lwp_text_layout (p->text_cache, cr, buf, FONT_NOTE);
+      int iw, ih;
+      pango_layout_get_size (lay, &iw, &ih);
+      g_object_unref (lay);
+      double tw = (double) iw / PANGO_SCALE, th = (double) ih / PANGO_SCALE;
       bool right_half = ov->hover_x > pn->rx + 0.5 * pn->rw;
-      lwp_draw_text (p->text_cache, cr, buf, FONT_NOTE, ov->hover_x + (right_half ? -8 : 8),
-                     ov->hover_y - 6, right_half ? 1.0 : 0.0, 1.0, t->text, t->bg, 0);
+      double bx = 0.0, by = 0.0;
+      for (int c = 0; c < 4; c++)
+        {
+          bool left = (c % 2 == 0) == right_half;   /* the side with room first */
+          bool above = c < 2;
+          bx = left ? ov->hover_x - 8 - tw : ov->hover_x + 8;
+          by = above ? ov->hover_y - 6 - th : ov->hover_y + 6;
+          bool clear = true;
+          for (guint i = 0; i < pn->prims->len && clear; i++)
+            {
+              const Prim *q = pn->prims->pdata[i];
+              if (q->kind == PRIM_TEXT && q->label && q->shown)
+                clear = !(bx < q->lx + q->lw && q->lx < bx + tw && by < q->ly + q->lh
+                          && q->ly < by + th);
+            }
+          if (clear)
+            break;
+          if (c == 3)   /* nowhere clear: where it goes by default */
+            {
+              bx = right_half ? ov->hover_x - 8 - tw : ov->hover_x + 8;
+              by = ov->hover_y - 6 - th;
+            }
+        }
+      lwp_draw_text (p->text_cache, cr, buf, FONT_NOTE, bx, by, 0.0, 0.0, t->text, t->bg, 0);
     }
   cairo_restore (cr);
 }
