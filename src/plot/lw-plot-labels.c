@@ -96,9 +96,9 @@ place_text (LwPlot *p, cairo_t *cr, const Panel *pn, Prim *q, GArray *taken, boo
 }
 
 /* Where the texts go, panel by panel, for the layout just made, so that none covers another:
- * first the texts that belong to no variant (reference levels, the Nyquist frequency: in the
- * base layer, so their places must not depend on a variant), then the places kept clear
- * (lw_plot_set_keep_clear: the drag handles), then the margin labels of variant `first`,
+ * first the places kept clear (lw_plot_set_keep_clear: the drag handles), then the texts that
+ * belong to no variant (reference levels, the Nyquist frequency: in the base layer, so their
+ * places must not depend on a variant), then the margin labels of variant `first`,
  * then those of the others in order. A label of `first` that finds no free place stays where
  * it prefers; another variant's is left out (its figures are in the metrics table and the
  * report). */
@@ -110,12 +110,6 @@ lwp_place_labels (LwPlot *p, cairo_t *cr, size_t first)
     {
       Panel *pn = &p->panels[k];
       g_array_set_size (taken, 0);
-      for (guint i = 0; i < pn->prims->len; i++)
-        {
-          Prim *q = pn->prims->pdata[i];
-          if (q->kind == PRIM_TEXT && !q->label && !q->optional)
-            place_text (p, cr, pn, q, taken, true);
-        }
       for (size_t i = 0; i < p->n_clear; i++)
         {
           double x, y;
@@ -125,6 +119,12 @@ lwp_place_labels (LwPlot *p, cairo_t *cr, size_t first)
               Box b = { x - 8.0, y - 8.0, x + 8.0, y + 8.0 };
               g_array_append_val (taken, b);
             }
+        }
+      for (guint i = 0; i < pn->prims->len; i++)
+        {
+          Prim *q = pn->prims->pdata[i];
+          if (q->kind == PRIM_TEXT && !q->label && !q->optional)
+            place_text (p, cr, pn, q, taken, true);
         }
       for (size_t pass = 0; pass < p->n_variants; pass++)
         {
