@@ -58,6 +58,9 @@ extern guint lwpa_signals[LWPA_N_SIGNALS];
 /* Puts the panes on the grid for the layout and the split view (lw-plot-area.c). */
 void lwpa_arrange (LwPlotArea *self);
 
+/* lw-plot-area-views.c: zoom and pan of one pane followed by the others ("x-view-changed") */
+void lwpa_pane_view_changed (LwPlotPane *pane, double lo, double hi, LwPlotArea *self);
+
 /* lw-plot-area-views.c: the display options of the pane menu (phase range, Nyquist scale) */
 void lwpa_display_activated (GtkWidget *widget, const char *action, GVariant *param);
 

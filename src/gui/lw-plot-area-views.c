@@ -1,6 +1,7 @@
 /* lw-plot-area-views.c — which view each pane of the plot area shows: the pane's menu of
- * every view (secondary button, Menu key, Shift+F10), one view in one pane at most, and the
- * arrangement by name (the document's <view shows>).
+ * every view (secondary button, Menu key, Shift+F10) with the display options above them
+ * (phase range, Nyquist scale), one view in one pane at most, the arrangement by name (the
+ * document's <view shows>), and the frequency axes that follow each other's zoom.
  * SPDX-License-Identifier: GPL-3.0-or-later
  */
 #include "config.h"
@@ -215,3 +216,53 @@ lw_plot_area_set_views (LwPlotArea *self, const char *const *names)
   return changed;
 }
 
+/* The frequency range [lo, hi] of a pane of view `from` on the axis of view `to`: the same
+ * on the same kind of axis, through ν = (2/T)·tan(ωT/2) from ω (z) to ν (w-plane) and back
+ * (ω at most π/T); FALSE when either view has no frequency axis. */
+static gboolean
+map_range (LwPlotView from, LwPlotView to, double period_s, double *lo, double *hi)
+{
+  if (!lw_plot_view_has (from, LW_PLOT_VIEW_FREQUENCY_AXIS)
+      || !lw_plot_view_has (to, LW_PLOT_VIEW_FREQUENCY_AXIS))
+    return FALSE;
+  gboolean w_from = lw_plot_view_has (from, LW_PLOT_VIEW_W_PLANE);
+  gboolean w_to = lw_plot_view_has (to, LW_PLOT_VIEW_W_PLANE);
+  if (w_from == w_to)
+    return TRUE;
+  if (!(period_s > 0.0))
+    return FALSE;
+  if (w_to)
+    {
+      double top = 0.999999 * G_PI / period_s;   /* tan(π/2) is the end of the ν axis */
+      *lo = lw_warp_omega_to_nu (fmin (*lo, top), period_s);
+      *hi = lw_warp_omega_to_nu (fmin (*hi, top), period_s);
+    }
+  else
+    {
+      *lo = lw_warp_nu_to_omega (*lo, period_s);
+      *hi = lw_warp_nu_to_omega (*hi, period_s);
+    }
+  return *lo > 0.0 && *hi > *lo;
+}
+
+/* Zoom and pan: every pane with a frequency axis follows the one the user moved — the same
+ * range on an axis of the same kind, mapped through the warping between ω and ν (so the z
+ * and w views show the same stretch of the loop). */
+void
+lwpa_pane_view_changed (LwPlotPane *pane, double lo, double hi, LwPlotArea *self)
+{
+  if (self->linking)
+    return;
+  self->linking = TRUE;
+  LwPlotView v = lw_plot_pane_get_view (pane);
+  for (guint i = 0; i < lwpa_n_area_views + lwpa_n_split_views; i++)
+    {
+      gboolean split = i >= lwpa_n_area_views;
+      LwPlotPane *other = split ? self->split_panes[i - lwpa_n_area_views] : self->panes[i];
+      LwPlotView ov = split ? lwpa_split_views[i - lwpa_n_area_views] : self->views[i];
+      double a = lo, b = hi;
+      if (other != pane && other != NULL && map_range (v, ov, self->period_s, &a, &b))
+        lw_plot_pane_set_x_view (other, a, b);
+    }
+  self->linking = FALSE;
+}

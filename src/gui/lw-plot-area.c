@@ -503,56 +503,6 @@ lw_plot_area_show_eval (LwPlotArea *self, LwVariantEval *eval, const LwPlotRequi
                               sel_stage, sel_corner, FALSE);
 }
 
-/* The frequency range [lo, hi] of a pane of view `from` on the axis of view `to`: the same
- * on the same kind of axis, through ν = (2/T)·tan(ωT/2) from ω (z) to ν (w-plane) and back
- * (ω at most π/T); FALSE when either view has no frequency axis. */
-static gboolean
-map_range (LwPlotView from, LwPlotView to, double period_s, double *lo, double *hi)
-{
-  if (!lw_plot_view_has (from, LW_PLOT_VIEW_FREQUENCY_AXIS)
-      || !lw_plot_view_has (to, LW_PLOT_VIEW_FREQUENCY_AXIS))
-    return FALSE;
-  gboolean w_from = lw_plot_view_has (from, LW_PLOT_VIEW_W_PLANE);
-  gboolean w_to = lw_plot_view_has (to, LW_PLOT_VIEW_W_PLANE);
-  if (w_from == w_to)
-    return TRUE;
-  if (!(period_s > 0.0))
-    return FALSE;
-  if (w_to)
-    {
-      double top = 0.999999 * G_PI / period_s;   /* tan(π/2) is the end of the ν axis */
-      *lo = lw_warp_omega_to_nu (fmin (*lo, top), period_s);
-      *hi = lw_warp_omega_to_nu (fmin (*hi, top), period_s);
-    }
-  else
-    {
-      *lo = lw_warp_nu_to_omega (*lo, period_s);
-      *hi = lw_warp_nu_to_omega (*hi, period_s);
-    }
-  return *lo > 0.0 && *hi > *lo;
-}
-
-/* Zoom and pan: every pane with a frequency axis follows the one the user moved — the same
- * range on an axis of the same kind, mapped through the warping between ω and ν (so the z
- * and w views show the same stretch of the loop). */
-static void
-pane_view_changed (LwPlotPane *pane, double lo, double hi, LwPlotArea *self)
-{
-  if (self->linking)
-    return;
-  self->linking = TRUE;
-  LwPlotView v = lw_plot_pane_get_view (pane);
-  for (guint i = 0; i < lwpa_n_area_views + lwpa_n_split_views; i++)
-    {
-      gboolean split = i >= lwpa_n_area_views;
-      LwPlotPane *other = split ? self->split_panes[i - lwpa_n_area_views] : self->panes[i];
-      LwPlotView ov = split ? lwpa_split_views[i - lwpa_n_area_views] : self->views[i];
-      double a = lo, b = hi;
-      if (other != pane && other != NULL && map_range (v, ov, self->period_s, &a, &b))
-        lw_plot_pane_set_x_view (other, a, b);
-    }
-  self->linking = FALSE;
-}
 
 void
 lw_plot_area_reset_view (LwPlotArea *self)
@@ -735,12 +685,12 @@ lw_plot_area_init (LwPlotArea *self)
       GtkEventController *menu_key = gtk_event_controller_key_new ();
       g_signal_connect (menu_key, "key-pressed", G_CALLBACK (lwpa_pane_menu_key), self->panes[i]);
       gtk_widget_add_controller (GTK_WIDGET (self->panes[i]), menu_key);
-      g_signal_connect (self->panes[i], "x-view-changed", G_CALLBACK (pane_view_changed), self);
+      g_signal_connect (self->panes[i], "x-view-changed", G_CALLBACK (lwpa_pane_view_changed), self);
     }
   for (guint k = 0; k < lwpa_n_split_views; k++)
     {
       self->split_panes[k] = g_object_ref_sink (lw_plot_pane_new (lwpa_split_views[k]));
-      g_signal_connect (self->split_panes[k], "x-view-changed", G_CALLBACK (pane_view_changed),
+      g_signal_connect (self->split_panes[k], "x-view-changed", G_CALLBACK (lwpa_pane_view_changed),
                         self);
     }
   self->layout = LW_PLOT_LAYOUT_GRID;
