@@ -107,26 +107,37 @@ curve_value_at (const LwPlot *p, const Panel *pn, size_t v, double u)
   return NAN;
 }
 
+/* What the read-out shows for ov's pointer: the panel *k it is over, the abscissa *vx and
+ * the value *vy — the curve's at that abscissa where the view's curves are functions of it
+ * (*on_curve true), else the pointer's height; the text into buf. False when there is no
+ * hover or it is off every panel. */
+static bool
+readout_at (const LwPlot *p, const LwPlotOverlay *ov, size_t *k, double *vx, double *vy,
+            bool *on_curve, char *buf, size_t size)
+{
+  if (p == NULL || ov == NULL || !ov->has_hover
+      || !lw_plot_value_at_pixel (p, ov->hover_x, ov->hover_y, k, vx, vy))
+    return false;
+  const Panel *pn = &p->panels[*k];
+  double u = pn->wu0 + (ov->hover_x - pn->rx) / pn->rw * (pn->wu1 - pn->wu0);
+  double cv = curve_value_at (p, pn, ov->readout_variant < p->n_variants
+                                     ? ov->readout_variant : 0, u);
+  *on_curve = isfinite (cv);
+  if (*on_curve)
+    *vy = cv;
+  snprintf (buf, size, "%s %.4g %s   %s %.4g %s", pn->x_name ? pn->x_name : "x", *vx,
+            pn->x_unit ? pn->x_unit : "", pn->y_name ? pn->y_name : "y", *vy,
+            pn->y_unit ? pn->y_unit : "");
+  return true;
+}
+
 bool
 lw_plot_readout (const LwPlot *p, const LwPlotOverlay *ov, char *buf, size_t size)
 {
   size_t k;
   double vx, vy;
-  if (p == NULL || ov == NULL || !ov->has_hover
-      || !lw_plot_value_at_pixel (p, ov->hover_x, ov->hover_y, &k, &vx, &vy))
-    return false;
-  const Panel *pn = &p->panels[k];
-  /* where the curve is a function of the abscissa, the read-out is the curve's value at the
-   * pointer's abscissa (|L| at that frequency), not the pointer's height */
-  double u = pn->wu0 + (ov->hover_x - pn->rx) / pn->rw * (pn->wu1 - pn->wu0);
-  double cv = curve_value_at (p, pn, ov->readout_variant < p->n_variants
-                                     ? ov->readout_variant : 0, u);
-  if (isfinite (cv))
-    vy = cv;
-  snprintf (buf, size, "%s %.4g %s   %s %.4g %s", pn->x_name ? pn->x_name : "x", vx,
-            pn->x_unit ? pn->x_unit : "", pn->y_name ? pn->y_name : "y", vy,
-            pn->y_unit ? pn->y_unit : "");
-  return true;
+  bool on_curve;
+  return readout_at (p, ov, &k, &vx, &vy, &on_curve, buf, size);
 }
 
 void
@@ -152,11 +163,11 @@ lw_plot_draw_overlay (LwPlot *p, cairo_t *cr, const LwPlotOverlay *ov)
       cairo_stroke (cr);
     }
   size_t k;
-  double vx, vy, cy;
+  double vx, vy, cx, cy;
+  bool on_curve;
   char buf[128];
-  if (lw_plot_readout (p, ov, buf, sizeof buf))
+  if (readout_at (p, ov, &k, &vx, &vy, &on_curve, buf, sizeof buf))
     {
-      lw_plot_value_at_pixel (p, ov->hover_x, ov->hover_y, &k, &vx, &vy);
       const Panel *pn = &p->panels[k];
       lwp_set_rgb (cr, t->ref, 0.8);
       cairo_set_line_width (cr, 0.8);
@@ -166,11 +177,7 @@ lw_plot_draw_overlay (LwPlot *p, cairo_t *cr, const LwPlotOverlay *ov)
       cairo_line_to (cr, pn->rx + pn->rw, ov->hover_y);
       cairo_stroke (cr);
       /* the point of the curve read, when the read-out is the curve's */
-      double u = pn->wu0 + (ov->hover_x - pn->rx) / pn->rw * (pn->wu1 - pn->wu0);
-      double cv = curve_value_at (p, pn, ov->readout_variant < p->n_variants
-                                         ? ov->readout_variant : 0, u);
-      double cx;
-      if (isfinite (cv) && lw_plot_pixel_of_value (p, k, vx, cv, &cx, &cy) && cy >= pn->ry
+      if (on_curve && lw_plot_pixel_of_value (p, k, vx, vy, &cx, &cy) && cy >= pn->ry
           && cy <= pn->ry + pn->rh)
         {
           cairo_new_path (cr);
