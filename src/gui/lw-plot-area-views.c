@@ -28,6 +28,16 @@ menu_closed (GtkPopover *popover)
   g_idle_add (unparent_later, g_object_ref (popover));
 }
 
+/* For the window tests: the menu is on screen and takes the keys (printed when it is mapped,
+ * not when it is asked for: a key sent before would reach the window under it) */
+static void
+menu_mapped (GtkWidget *popover)
+{
+  printf ("LW-PANE-MENU pane=%u\n",
+          GPOINTER_TO_UINT (g_object_get_data (G_OBJECT (popover), "lw-pane-index")));
+  fflush (stdout);
+}
+
 /* A menu of every view on the pane, to show one of them there. */
 static void
 pane_menu_open (LwPlotPane *pane, double x)
@@ -37,13 +47,13 @@ pane_menu_open (LwPlotPane *pane, double x)
   g_autoptr (GMenu) section = g_menu_new ();
   for (int v = 0; v < LW_PLOT_N_VIEWS; v++)
     {
-      g_autoptr (GMenuItem) item = g_menu_item_new (_(lw_plot_view_info ((LwPlotView) v)->title),
+      g_autoptr (GMenuItem) item = g_menu_item_new (_(lw_plot_view_info ((LwPlotView) v)->menu_label),
                                                     NULL);
       g_menu_item_set_action_and_target (item, "area.pane-view", "(us)", index,
                                          lw_plot_view_name ((LwPlotView) v));
       g_menu_append_item (section, item);
     }
-  /* the display options, above the views (whose order the keyboard relies on from the end) */
+  /* the display options, above the views; every item has a mnemonic of its own */
   LwPlotArea *area = LW_PLOT_AREA (gtk_widget_get_ancestor (GTK_WIDGET (pane), LW_TYPE_PLOT_AREA));
   g_autoptr (GMenu) display = g_menu_new ();
   if (area != NULL)
@@ -66,13 +76,12 @@ pane_menu_open (LwPlotPane *pane, double x)
   gtk_popover_set_pointing_to (GTK_POPOVER (popover), &(GdkRectangle) { (int) x, 8, 1, 1 });
   gtk_popover_set_has_arrow (GTK_POPOVER (popover), FALSE);
   g_signal_connect (popover, "closed", G_CALLBACK (menu_closed), NULL);
-  gtk_popover_popup (GTK_POPOVER (popover));
   if (g_strcmp0 (g_getenv ("LW_DEBUG_HANDLES"), "1") == 0)
     {
-      /* for the window tests: the menu is up and takes the keys */
-      printf ("LW-PANE-MENU pane=%u\n", index);
-      fflush (stdout);
+      g_object_set_data (G_OBJECT (popover), "lw-pane-index", GUINT_TO_POINTER (index));
+      g_signal_connect (popover, "map", G_CALLBACK (menu_mapped), NULL);
     }
+  gtk_popover_popup (GTK_POPOVER (popover));
 }
 
 /* The secondary button on a pane opens its menu of views */

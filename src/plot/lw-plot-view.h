@@ -62,6 +62,9 @@ typedef struct {
   const char *name;       /* as the CLI, file names and documents spell it: "bode-z" */
   const char *title;      /* for people, untranslated (marked N_): window panes, export
                            * dialog; translate with the program's gettext domain */
+  const char *menu_label; /* the title with a mnemonic, for the pane's menu (marked N_; the
+                           * mnemonics differ from each other and from the menu's display
+                           * options: W, T, P, Y) */
   const char *summary;    /* one line for the CLI's help (ASCII) */
   unsigned needs;         /* LwPlotNeeds */
   unsigned traits;        /* LwPlotViewTraits */
