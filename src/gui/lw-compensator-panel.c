@@ -469,6 +469,14 @@ add_stage_activated (GtkWidget *widget, const char *action, GVariant *param)
   lw_design_model_append_stage (self->model, &s);
 }
 
+/* For the window tests: the add-stage menu is on screen and takes the keys */
+static void
+add_menu_mapped (void)
+{
+  printf ("LW-ADD-MENU shown=1\n");
+  fflush (stdout);
+}
+
 /* The add-stage menu: one item per row of the stage-kind table, in its order. */
 static GMenuModel *
 add_stage_menu_new (void)
@@ -588,6 +596,9 @@ lw_compensator_panel_init (LwCompensatorPanel *self)
   g_signal_connect_swapped (self->rename_button, "clicked", G_CALLBACK (rename_clicked), self);
   g_signal_connect_swapped (self->name_entry, "activate", G_CALLBACK (rename_clicked), self);
   self->debug = g_strcmp0 (g_getenv ("LW_DEBUG_HANDLES"), "1") == 0;
+  if (self->debug)
+    g_signal_connect (gtk_menu_button_get_popover (self->add_button), "map",
+                      G_CALLBACK (add_menu_mapped), NULL);
   if (self->debug)
     gtk_widget_add_tick_callback (GTK_WIDGET (self), debug_tick, NULL, NULL);
   g_signal_connect_swapped (self->period_check, "toggled", G_CALLBACK (period_edited), self);

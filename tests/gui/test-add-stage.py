@@ -82,14 +82,20 @@ def inner(app, cli, schema_dir, artefacts):
         time.sleep(0.5)
         # the button's mnemonic (the plant entry has the focus and takes Ctrl+Shift+A itself)
         key(wid, 'alt+a')
-        time.sleep(0.8)
+        lwgui.wait_for(lambda: lwgui.last_line(log_path, 'LW-ADD-MENU') is not None,
+                       'the add-stage menu on screen', 20)
+        time.sleep(0.3)
         run('import', '-window', 'root', os.path.join(artefacts, 'add-stage-menu.png'))
         # the last item: Up from the first wraps round in a popover menu
         run('xdotool', 'key', '--clearmodifiers', 'Up')
         time.sleep(0.3)
         run('xdotool', 'key', '--clearmodifiers', 'Return')
-        time.sleep(0.8)
-        saved_after(wid, design)
+        # saved until the third stage is there (a loaded machine may take a while to add it)
+        for _ in range(10):
+            time.sleep(0.5)
+            saved_after(wid, design)
+            if len(stages(design)) >= 3:
+                break
         got = stages(design)
         run('import', '-window', 'root', os.path.join(artefacts, 'add-stage-after.png'))
         print('stages after Add Stage → last item:', got)
