@@ -196,6 +196,72 @@ draw_marker (cairo_t *cr, MarkShape shape, double x, double y, double size)
     }
 }
 
+/* A pen that leaves out the vertices a straight segment would pass within PEN_TOLERANCE px of:
+ * a point is held until the next one shows whether the segment from the last vertex still
+ * passes all the held ones; at most PEN_HOLD held (a cap on the work per point). */
+#define PEN_TOLERANCE 0.2
+#define PEN_HOLD 48
+typedef struct {
+  cairo_t *cr;
+  bool down;                /* a vertex has been put down */
+  double ax, ay;            /* the last vertex */
+  double hx[PEN_HOLD], hy[PEN_HOLD];
+  int n;                    /* points held since the last vertex */
+} Pen;
+
+static bool
+pen_passes (const Pen *pen, double x, double y)
+{
+  double dx = x - pen->ax, dy = y - pen->ay, l2 = dx * dx + dy * dy;
+  for (int k = 0; k < pen->n; k++)
+    {
+      double ex = pen->hx[k] - pen->ax, ey = pen->hy[k] - pen->ay;
+      double t = l2 > 0 ? (ex * dx + ey * dy) / l2 : 0;
+      if (t < 0 || t > 1)
+        return false;
+      double cx = ex - t * dx, cy = ey - t * dy;
+      if (cx * cx + cy * cy > PEN_TOLERANCE * PEN_TOLERANCE)
+        return false;
+    }
+  return true;
+}
+
+static void
+pen_vertex (Pen *pen, double x, double y)
+{
+  cairo_line_to (pen->cr, x, y);
+  pen->ax = x;
+  pen->ay = y;
+  pen->n = 0;
+}
+
+static void
+pen_to (Pen *pen, double x, double y)
+{
+  if (!pen->down)
+    {
+      cairo_move_to (pen->cr, x, y);
+      pen->down = true;
+      pen->ax = x;
+      pen->ay = y;
+      pen->n = 0;
+      return;
+    }
+  if (pen->n > 0 && (pen->n == PEN_HOLD || !pen_passes (pen, x, y)))
+    pen_vertex (pen, pen->hx[pen->n - 1], pen->hy[pen->n - 1]);
+  pen->hx[pen->n] = x;
+  pen->hy[pen->n] = y;
+  pen->n++;
+}
+
+static void
+pen_up (Pen *pen)
+{
+  if (pen->down && pen->n > 0)
+    pen_vertex (pen, pen->hx[pen->n - 1], pen->hy[pen->n - 1]);
+  pen->down = false;
+}
+
 /* A polyline with at most four vertices per pixel column (the first, lowest, highest and last
  * point of each run of consecutive points in one column, in their order along the curve), so
  * a curve of thousands of points costs about as much as the plot is wide; what is drawn stays
@@ -203,10 +269,11 @@ draw_marker (cairo_t *cr, MarkShape shape, double x, double y, double size)
 static void
 draw_polyline_decimated (const Panel *pn, cairo_t *cr, const Prim *q)
 {
-  bool pen = false, open = false;
+  bool open = false;
   double col = 0;
   size_t idx[4];
   double xs[4], ys[4];   /* first, min, max, last of the run */
+  Pen pen = { .cr = cr };
   cairo_new_path (cr);
   for (size_t i = 0; i <= q->n; i++)
     {
@@ -231,17 +298,13 @@ draw_polyline_decimated (const Panel *pn, cairo_t *cr, const Prim *q)
               if (idx[j] == last)
                 continue;
               last = idx[j];
-              if (pen)
-                cairo_line_to (cr, xs[j], ys[j]);
-              else
-                cairo_move_to (cr, xs[j], ys[j]);
-              pen = true;
+              pen_to (&pen, xs[j], ys[j]);
             }
           open = false;
         }
       if (!ok)
         {
-          pen = false;
+          pen_up (&pen);
           continue;
         }
       if (!open)
