@@ -63,6 +63,7 @@ lw_plot_layout (LwPlot *p, double width, double height)
   size_t named = 0;
   for (size_t v = 0; v < p->n_variants; v++)
     named += p->names[v] != NULL;
+  named += p->n_keys;
   long slots = (long) floor ((right - left) / LW_PLOT_LEGEND_SLOT);
   if (slots < 1)
     slots = 1;
@@ -602,6 +603,30 @@ draw_legend (const LwPlot *p, cairo_t *cr)
       lwp_draw_text (p->text_cache, cr, p->names[v], FONT_LABEL, x + 34, yy, 0.0, 0.5, t->text,
                  NULL, 0);
       k++;
+    }
+  /* the marker shapes a view explains, in the text colour, after the variants */
+  for (size_t i = 0; i < p->n_keys; i++, k++)
+    {
+      double x = left + LW_PLOT_LEGEND_SLOT * (double) (k % slots);
+      double yy = y + LW_PLOT_LEGEND_ROW * (double) (k / slots);
+      cairo_save (cr);
+      lwp_set_rgb (cr, t->text, 1.0);
+      cairo_set_line_width (cr, 1.2);
+      draw_marker (cr, (MarkShape) p->keys_shown[i].shape, x + 14, yy, 8);
+      cairo_restore (cr);
+      lwp_draw_text (p->text_cache, cr, p->keys_shown[i].text, FONT_LABEL, x + 34, yy, 0.0, 0.5,
+                     t->text, NULL, 0);
+    }
+}
+
+void
+lwp_add_key (LwPlot *p, int shape, const char *text)
+{
+  if (p->n_keys < G_N_ELEMENTS (p->keys_shown))
+    {
+      p->keys_shown[p->n_keys].shape = shape;
+      p->keys_shown[p->n_keys].text = text;
+      p->n_keys++;
     }
 }
 

@@ -141,6 +141,9 @@ struct LwPlot {
   GPtrArray *strings;               /* texts the figure made (lwp_label), freed with it */
   bool side_by_side;                /* panels in a row (the pole-zero map and its zoom),
                                        not stacked */
+  size_t n_keys;                    /* marker shapes explained in the legend rows, after the
+                                       variants (the pole-zero map's: lwp_add_key) */
+  struct { int shape; const char *text; } keys_shown[4];
 };
 
 /* A text made for this figure (an axis label with a unit): formatted, kept until the figure
@@ -215,6 +218,9 @@ Prim *lwp_add_text_uv (Panel *pn, double u, double v, const char *text, double d
 Prim *lwp_add_text (Panel *pn, double x, double y, const char *text, double dx, double dy,
                     double ax, double ay);
 Prim *lwp_style_variant (Prim *p, size_t variant, double width);
+/* A marker shape (MarkShape) and what it means, shown in the legend rows after the variants
+ * (at most four; text static) */
+void lwp_add_key (LwPlot *p, int shape, const char *text);
 /* Which of the n crossovers x get a margin label (label[i]): the governing one (the
  * smallest |margin|) and those whose |margin| is within `within` of it, at most
  * MAX_LABELLED_CROSSOVERS of them, the smallest first; non-finite margins never. */

@@ -264,21 +264,9 @@ lwp_build_poles (LwPlot *pl, const LwPlotInput *in)
       f->colour = COL_REF;
       f->width = 1.0;
     }
-  /* key of the marker shapes, bottom left inside the plot area */
-  static const struct { MarkShape s; const char *t; } key[3] = {
-    { MARK_DIAMOND, "closed-loop pole" }, { MARK_CROSS, "loop pole" },
-    { MARK_CIRCLE, "loop zero" } };
-  for (int k = 0; k < 3; k++)
-    {
-      Prim *m = lwp_prim_add (pn, PRIM_MARK, 1);
-      m->u[0] = 0.0;
-      m->v[0] = 0.0;
-      m->dx = 12;
-      m->dy = -12 - 15.0 * (2 - k);
-      m->shape = key[k].s;
-      m->size = 8;
-      m->colour = COL_TEXT;
-      m->width = 1.2;
-      lwp_add_text_uv (pn, 0.0, 0.0, key[k].t, 22, -12 - 15.0 * (2 - k), 0.0, 0.5)->plate = true;
-    }
+  /* the marker shapes explained in the legend rows above the panels, where they cover
+   * nothing at any size (inside the map they covered a third of it below ~420 px) */
+  lwp_add_key (pl, MARK_DIAMOND, "closed-loop pole");
+  lwp_add_key (pl, MARK_CROSS, "loop pole");
+  lwp_add_key (pl, MARK_CIRCLE, "loop zero");
 }
