@@ -154,12 +154,22 @@ lw_plot_draw_overlay (LwPlot *p, cairo_t *cr, const LwPlotOverlay *ov)
       double x, y;
       if (!lw_plot_pixel_of_value (p, (size_t) h->panel, h->x, h->y, &x, &y))
         continue;
+      /* an upright grip, like a slider's thumb (a corner moves along the frequency axis):
+       * a capsule with a groove down its middle; the active one solid, the groove cut out */
+      double hw = h->active ? 5.0 : 4.0, hh = h->active ? 9.0 : 7.5;
       cairo_new_path (cr);
-      cairo_arc (cr, x, y, h->active ? 7.0 : 5.5, 0, 2 * G_PI);
-      lwp_set_rgb (cr, t->bg, 1.0);
+      cairo_arc (cr, x, y - hh + hw, hw, G_PI, 2 * G_PI);
+      cairo_arc (cr, x, y + hh - hw, hw, 0, G_PI);
+      cairo_close_path (cr);
+      lwp_set_rgb (cr, h->active ? t->text : t->bg, 1.0);
       cairo_fill_preserve (cr);
       lwp_set_rgb (cr, t->text, 1.0);
-      cairo_set_line_width (cr, h->active ? 2.0 : 1.3);
+      cairo_set_line_width (cr, 1.3);
+      cairo_stroke (cr);
+      lwp_set_rgb (cr, h->active ? t->bg : t->text, 1.0);
+      cairo_set_line_width (cr, 1.2);
+      cairo_move_to (cr, x, y - hh + 3.0);
+      cairo_line_to (cr, x, y + hh - 3.0);
       cairo_stroke (cr);
     }
   size_t k;
