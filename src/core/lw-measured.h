@@ -1,0 +1,124 @@
+/* lw-measured.h — a measured frequency response as the plant: the table read from CSV, the
+ * plant's sampled response at the measured frequencies (both kinds of measurement), the loop
+ * on the data with its crossovers and margins found between the points, and a rational model
+ * fitted to the data.
+ *
+ * The CSV dialect (docs/measured-data.md): UTF-8 text, '#' starts a comment (whole line or
+ * after a value), the first non-comment line a header of column names separated by commas:
+ *   frequency_hz | frequency_rad_s                       (exactly one)
+ *   magnitude_db | magnitude, with phase_deg  — or —  real, imag   (exactly one pair)
+ *   coherence                                             (optional, 0 … 1)
+ * in any order; other columns are ignored (named in the note). Decimal point; blank lines
+ * skipped; at least LW_MEASURED_MIN_POINTS rows, at most LW_MEASURED_MAX_LINES lines;
+ * frequencies > 0 and strictly increasing; magnitudes (ratio) >= 0 and finite.
+ *
+ * Core: C11, no GLib, nothing printed.
+ *
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ */
+#pragma once
+
+#include <complex.h>
+#include <stdbool.h>
+#include <stddef.h>
+
+#include "lw-error.h"
+#include "lw-model.h"
+
+#ifdef __cplusplus
+extern "C" {
+#endif
+
+#define LW_MEASURED_MIN_POINTS 10
+#define LW_MEASURED_MAX_LINES 10000000
+/* coherence below this marks a point (and a crossover found next to it) as unreliable:
+ * common practice for swept-sine and noise measurements, no single source */
+#define LW_MEASURED_LOW_COHERENCE 0.8
+
+typedef enum {
+  LW_MEASURED_SAMPLED,      /* through the digital loop at the design's period, from the
+                             * controller's output value to the sampled measurement: hold,
+                             * plant, sensor, dead time included; not the computation delay */
+  LW_MEASURED_CONTINUOUS    /* the continuous plant G(jω) (an analyzer on the analog plant) */
+} LwMeasuredKind;
+
+typedef struct {
+  size_t n;
+  double *omega_rad_s;      /* n, > 0, strictly increasing */
+  double complex *h;        /* n, the response as a ratio (not dB) */
+  double *coherence;        /* n values in [0, 1], or NULL when the file has none */
+} LwMeasured;
+
+/* Where a refusal points: 1-based line and column (column = the field's 1-based index in its
+ * row, 0 when the refusal is about the whole line or file). */
+typedef struct {
+  size_t line;
+  size_t column;
+} LwMeasuredPlace;
+
+/* Reads the CSV text (len bytes; need not end in NUL). On success *out is a new table and,
+ * when note is non-NULL, note receives a one-line remark (empty when none: e.g. "ignored
+ * columns: drive_v, temp_c"). On refusal: LW_ERR_PARSE (the text is not a table we read) or
+ * LW_ERR_INVALID (values not acceptable), *place filled, err's message one sentence naming
+ * the column by its header name where there is one; nothing allocated. */
+LwStatus lw_measured_parse (const char *text, size_t len, LwMeasured **out, char *note,
+                            size_t note_size, LwMeasuredPlace *place, LwError *err);
+void lw_measured_free (LwMeasured *m);
+LwMeasured *lw_measured_copy (const LwMeasured *m);
+
+/* The sampled plant's response P(e^{jωT}) at the measured frequencies, whole-sample and
+ * fractional dead time included for the continuous kind (dead_time_s is applied only to the
+ * continuous kind: a sampled measurement already holds the dead time):
+ *   sampled:     P = h (refused, LW_ERR_INVALID, when a frequency is above π/T by more than
+ *                1e-9 relative; *bad_index set)
+ *   continuous:  P = h · (1 − e^{−jωT})/(jωT) · e^{−jω·dead_time}  — the hold's response,
+ *                the aliasing terms of the sum over ω + k·2π/T neglected; points above π/T
+ *                are dropped (not refused).
+ * out_omega and out_p get n_out values (caller allocates n each). */
+LwStatus lw_measured_sampled_response (const LwMeasured *m, LwMeasuredKind kind,
+                                       double period_s, double dead_time_s,
+                                       double *out_omega, double complex *out_p,
+                                       size_t *n_out, size_t *bad_index, LwError *err);
+
+/* A crossover of the loop found between two measured points. */
+typedef struct {
+  double omega_rad_s;       /* interpolated (docs/measured-data.md: log|L| and unwrapped ∠L
+                             * linear in log ω between the two points) */
+  double lo_rad_s, hi_rad_s;/* the interval between the points it lies in */
+  double margin;            /* phase margin (deg) at a gain crossover; gain margin (dB) at a
+                             * phase crossover */
+  bool low_coherence;       /* a bracketing point's coherence < LW_MEASURED_LOW_COHERENCE */
+} LwMeasuredCrossing;
+
+typedef struct {
+  size_t n_gain, n_phase;
+  LwMeasuredCrossing *gain;     /* |L| = 1, ascending ω */
+  LwMeasuredCrossing *phase;    /* ∠L = −180° (mod 360°), ascending ω */
+  /* the governing margins (the smallest |PM|, the smallest |GM|), as for a model; NAN when
+   * there is no crossing of that kind in the data */
+  double phase_margin_deg, gain_crossover_rad_s;
+  double gain_margin_db, phase_crossover_rad_s;
+  double delay_margin_s;
+  double sensitivity_peak, sensitivity_peak_rad_s;  /* max 1/|1 + L| over the points */
+  /* |L| > 1 at the lowest measured point with no gain crossover below it in the data cannot
+   * be told from one: the data do not reach below the lowest crossing */
+  bool gain_above_one_at_low_end, gain_above_one_at_high_end;
+} LwMeasuredMargins;
+
+/* Crossovers and margins of the loop given at n points (omega ascending, l = L(e^{jωT})). */
+LwStatus lw_measured_margins (const double *omega_rad_s, const double complex *l,
+                              const double *coherence, size_t n, LwMeasuredMargins *out,
+                              LwError *err);
+void lw_measured_margins_clear (LwMeasuredMargins *m);
+
+/* Rational fit in s of the given order (poles; zeros up to order − relative_degree) to a
+ * continuous response h at omega, by vector fitting (Gustavsen and Semlyen 1999, with
+ * relaxation), weights w (NULL: 1/|h|, relative error). New model in s on success. The
+ * largest relative fit error over the points goes to *max_rel_error when non-NULL. */
+LwStatus lw_measured_fit (const double *omega_rad_s, const double complex *h,
+                          const double *weight, size_t n, int order, int relative_degree,
+                          int iterations, LwModel **out, double *max_rel_error, LwError *err);
+
+#ifdef __cplusplus
+}
+#endif
