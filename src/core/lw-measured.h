@@ -100,9 +100,9 @@ typedef struct {
   double gain_margin_db, phase_crossover_rad_s;
   double delay_margin_s;
   double sensitivity_peak, sensitivity_peak_rad_s;  /* max 1/|1 + L| over the points */
-  /* |L| > 1 at the lowest measured point with no gain crossover below it in the data cannot
-   * be told from one: the data do not reach below the lowest crossing */
-  bool gain_above_one_at_low_end, gain_above_one_at_high_end;
+  /* where the data may hide a crossover: |L| >= 1 at the highest measured point (a gain
+   * crossover lies above the data), |L| < 1 at the lowest (one may lie below it) */
+  bool crossover_above_data, crossover_below_data;
 } LwMeasuredMargins;
 
 /* Crossovers and margins of the loop given at n points (omega ascending, l = L(e^{jωT})). */

@@ -1,0 +1,226 @@
+/* lw-measured.c — a measured response as the sampled plant, and the loop's crossovers and
+ * margins found between the measured points (lw-measured.h; the method in
+ * docs/measured-data.md).
+ *
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ */
+#include "lw-measured.h"
+
+#include <math.h>
+#include <stdint.h>
+#include <stdlib.h>
+#include <string.h>
+
+#define PI 3.14159265358979323846
+
+LwStatus
+lw_measured_sampled_response (const LwMeasured *m, LwMeasuredKind kind, double period_s,
+                              double dead_time_s, double *out_omega, double complex *out_p,
+                              size_t *n_out, size_t *bad_index, LwError *err)
+{
+  if (m == NULL || out_omega == NULL || out_p == NULL || n_out == NULL)
+    return lw_error_set (err, LW_ERR_INVALID, -1, "no measured data");
+  if (!(period_s > 0.0) || !isfinite (period_s))
+    return lw_error_set (err, LW_ERR_INVALID, -1, "the sample period must be positive");
+  if (!(dead_time_s >= 0.0) || !isfinite (dead_time_s))
+    return lw_error_set (err, LW_ERR_INVALID, -1, "the dead time must be zero or positive");
+  double nyq = PI / period_s;
+  size_t k = 0;
+  for (size_t i = 0; i < m->n; i++)
+    {
+      double w = m->omega_rad_s[i];
+      if (w > nyq * (1.0 + 1e-9))
+        {
+          if (kind == LW_MEASURED_SAMPLED)
+            {
+              if (bad_index != NULL)
+                *bad_index = i;
+              return lw_error_set (err, LW_ERR_INVALID, -1,
+                                   "a sampled measurement ends at the Nyquist frequency pi/T = "
+                                   "%.6g rad/s (%.6g Hz), but point %zu is at %.6g rad/s (%.6g "
+                                   "Hz): was it measured at another sample period?",
+                                   nyq, nyq / (2 * PI), i + 1, w, w / (2 * PI));
+            }
+          continue;   /* continuous: above π/T the sampled loop does not go */
+        }
+      double complex p = m->h[i];
+      if (kind == LW_MEASURED_CONTINUOUS)
+        {
+          /* the hold: (1 − e^{−jωT})/(jωT) = e^{−jωT/2} · sin(ωT/2)/(ωT/2) */
+          double a = 0.5 * w * period_s;
+          double sinc = a > 0 ? sin (a) / a : 1.0;
+          p *= sinc * cexp (-I * (a + w * dead_time_s));
+        }
+      out_omega[k] = w;
+      out_p[k] = p;
+      k++;
+    }
+  *n_out = k;
+  if (k < 2)
+    return lw_error_set (err, LW_ERR_INVALID, -1,
+                         "fewer than two measured points lie below the Nyquist frequency pi/T "
+                         "= %.6g rad/s", nyq);
+  return LW_OK;
+}
+
+/* the phase φ (rad) wrapped into (−π, π] */
+static double
+wrap_pi (double phi)
+{
+  double r = fmod (phi + PI, 2 * PI);
+  if (r <= 0)
+    r += 2 * PI;
+  return r - PI;
+}
+
+static bool
+push (LwMeasuredCrossing **a, size_t *n, size_t *cap, LwMeasuredCrossing c)
+{
+  if (*n == *cap)
+    {
+      size_t nc = *cap ? 2 * *cap : 8;
+      if (nc > SIZE_MAX / sizeof **a)
+        return false;
+      LwMeasuredCrossing *b = realloc (*a, nc * sizeof **a);
+      if (b == NULL)
+        return false;
+      *a = b;
+      *cap = nc;
+    }
+  (*a)[(*n)++] = c;
+  return true;
+}
+
+void
+lw_measured_margins_clear (LwMeasuredMargins *m)
+{
+  if (m == NULL)
+    return;
+  free (m->gain);
+  free (m->phase);
+  memset (m, 0, sizeof *m);
+}
+
+LwStatus
+lw_measured_margins (const double *omega, const double complex *l, const double *coherence,
+                     size_t n, LwMeasuredMargins *out, LwError *err)
+{
+  if (out == NULL)
+    return lw_error_set (err, LW_ERR_INVALID, -1, "no result");
+  memset (out, 0, sizeof *out);
+  out->phase_margin_deg = out->gain_crossover_rad_s = NAN;
+  out->gain_margin_db = out->phase_crossover_rad_s = NAN;
+  out->delay_margin_s = NAN;
+  out->sensitivity_peak = out->sensitivity_peak_rad_s = NAN;
+  if (omega == NULL || l == NULL || n < 2)
+    return lw_error_set (err, LW_ERR_INVALID, -1, "fewer than two points of the loop");
+  for (size_t i = 0; i < n; i++)
+    if (!(omega[i] > 0) || !isfinite (omega[i]) || (i > 0 && !(omega[i] > omega[i - 1]))
+        || !isfinite (creal (l[i])) || !isfinite (cimag (l[i])) || cabs (l[i]) == 0.0)
+      return lw_error_set (err, LW_ERR_INVALID, -1,
+                           "point %zu of the loop is not usable (frequencies must increase, "
+                           "values be finite and non-zero)", i + 1);
+
+  double *lg = malloc (n * sizeof *lg), *ph = malloc (n * sizeof *ph);
+  size_t cap_g = 0, cap_p = 0;
+  if (lg == NULL || ph == NULL)
+    {
+      free (lg);
+      free (ph);
+      return lw_error_set (err, LW_ERR_NOMEM, -1, "out of memory");
+    }
+  /* ln|L| and the phase unwrapped along the points (each step taken as the one within ±π: the
+   * data must be dense enough for that, which 10 points per decade of a rational loop is) */
+  for (size_t i = 0; i < n; i++)
+    {
+      lg[i] = log (cabs (l[i]));
+      double a = carg (l[i]);
+      ph[i] = i == 0 ? a : ph[i - 1] + wrap_pi (a - ph[i - 1]);
+    }
+  /* the unwrapped phase starts in (−2π, 0] as the model's does near its low end */
+  double shift = -2 * PI * ceil (ph[0] / (2 * PI));
+  for (size_t i = 0; i < n; i++)
+    ph[i] += shift;
+
+  LwStatus st = LW_OK;
+  double best_pm = INFINITY, best_gm = INFINITY, dm = INFINITY;
+  for (size_t i = 0; i + 1 < n && st == LW_OK; i++)
+    {
+      double x0 = log (omega[i]), x1 = log (omega[i + 1]);
+      bool low = coherence != NULL && (coherence[i] < LW_MEASURED_LOW_COHERENCE
+                                       || coherence[i + 1] < LW_MEASURED_LOW_COHERENCE);
+      /* gain crossover: ln|L| changes sign (a point exactly on |L| = 1 counts once) */
+      if ((lg[i] >= 0) != (lg[i + 1] >= 0))
+        {
+          double t = lg[i] == lg[i + 1] ? 0.0 : lg[i] / (lg[i] - lg[i + 1]);
+          double w = exp (x0 + t * (x1 - x0));
+          double phi = ph[i] + t * (ph[i + 1] - ph[i]);
+          double pm = wrap_pi (phi + PI) * 180.0 / PI;
+          if (pm == -180.0)
+            pm = 180.0;
+          LwMeasuredCrossing c = { w, omega[i], omega[i + 1], pm, low };
+          if (!push (&out->gain, &out->n_gain, &cap_g, c))
+            st = LW_ERR_NOMEM;
+          if (fabs (pm) < fabs (best_pm) || (fabs (pm) == fabs (best_pm) && pm < best_pm))
+            {
+              best_pm = pm;
+              out->phase_margin_deg = pm;
+              out->gain_crossover_rad_s = w;
+            }
+          double turn = (pm < 0 ? pm + 360.0 : pm) * PI / 180.0;
+          if (turn / w < dm)
+            dm = turn / w;
+        }
+      /* phase crossovers: every odd multiple of π the unwrapped phase passes on (ph[i],
+       * ph[i+1]] or [ph[i+1], ph[i]) */
+      double a = ph[i], b = ph[i + 1];
+      double lo = fmin (a, b), hi = fmax (a, b);
+      /* odd multiples (2k+1)π in [lo, hi], the end at ph[i+1] excluded unless it is the last
+       * point (so a crossing exactly on a point counts once) */
+      double kmin = ceil ((lo - PI) / (2 * PI)), kmax = floor ((hi - PI) / (2 * PI));
+      for (double k = kmin; k <= kmax && st == LW_OK; k++)
+        {
+          double target = (2 * k + 1) * PI;
+          if (target == b && i + 2 < n)
+            continue;
+          if (a == b)
+            continue;
+          double t = (target - a) / (b - a);
+          double w = exp (x0 + t * (x1 - x0));
+          double gdb = -20.0 / log (10.0) * (lg[i] + t * (lg[i + 1] - lg[i]));
+          LwMeasuredCrossing c = { w, omega[i], omega[i + 1], gdb, low };
+          if (!push (&out->phase, &out->n_phase, &cap_p, c))
+            st = LW_ERR_NOMEM;
+          if (fabs (gdb) < fabs (best_gm))
+            {
+              best_gm = gdb;
+              out->gain_margin_db = gdb;
+              out->phase_crossover_rad_s = w;
+            }
+        }
+    }
+  if (st == LW_OK)
+    {
+      for (size_t i = 0; i < n; i++)
+        {
+          double s = 1.0 / cabs (1.0 + l[i]);
+          if (isnan (out->sensitivity_peak) || s > out->sensitivity_peak)
+            {
+              out->sensitivity_peak = s;
+              out->sensitivity_peak_rad_s = omega[i];
+            }
+        }
+      if (isfinite (dm))
+        out->delay_margin_s = dm;
+      out->crossover_above_data = lg[n - 1] >= 0;
+      out->crossover_below_data = lg[0] < 0;
+    }
+  free (lg);
+  free (ph);
+  if (st != LW_OK)
+    {
+      lw_measured_margins_clear (out);
+      return lw_error_set (err, st, -1, "out of memory");
+    }
+  return LW_OK;
+}
