@@ -12,6 +12,7 @@
 #include "lw-cli-common.h"
 #include "lw-cli-doc.h"
 #include "lw-cli-json.h"
+#include "lw-cli-measured.h"
 #include "lw-simulate.h"
 
 static void
@@ -279,6 +280,8 @@ print_report (const LwModel *plant_s, double dead_time_s, const LwEvaluation *ev
 
 static const char analyze_help[] =
   "Usage: " LW_CLI_PROG " analyze --plant EXPR --period SECONDS [options]\n"
+  "       " LW_CLI_PROG " analyze --measured FILE.csv --measured-kind KIND\n"
+  "       --period SECONDS [options]\n"
   "       " LW_CLI_PROG " analyze FILE.lwd [--variant NAME | --all-variants] [options]\n"
   "\n"
   "Discretizes a continuous plant with a zero-order hold, closes the loop through a\n"
@@ -300,6 +303,7 @@ static const char analyze_help[] =
   "  --dead-time SECONDS      plant input dead time in seconds, >= 0 (default 0)\n"
   "  --controller EXPR        controller C(w), proper, in the w-plane variable w (default 1)\n"
   "  --controller-z EXPR      controller C(z), proper, in z (instead of --controller)\n"
+  LW_CLI_MEASURED_HELP
   "  --points N               frequency points up to pi/T, 16 to 100000 (default 2000)\n"
   "  --steps N                step-response samples, 2 to 1000000 (default 500)\n"
   "  --saturation LOW:HIGH    actuator limits on the controller output, LOW < HIGH\n"
@@ -317,6 +321,7 @@ static const char analyze_help[] =
 typedef struct
 {
   LwCliLoopArgs loop;
+  LwCliMeasuredArgs measured;
   char **files;                /* FILE.lwd, when given */
   char *variant;
   char *points;
@@ -505,6 +510,30 @@ analyze_run (void *data)
   const AnalyzeArgs *a = data;
   AnalyzeSpec spec;
   LwCliLoop lp;
+  if (a->measured.file == NULL && a->measured.kind != NULL)
+    {
+      lw_cli_bad_input ("--measured-kind", "needs --measured FILE.csv");
+      return LW_EXIT_BAD_INPUT;
+    }
+  if (a->measured.file != NULL)
+    {
+      if (a->files != NULL && a->files[0] != NULL)
+        {
+          lw_cli_bad_input ("--measured", "is taken with the loop options, not with a design "
+                            "document");
+          return LW_EXIT_BAD_INPUT;
+        }
+      const char *model_only = a->saturation ? "--saturation" : a->anti_windup ? "--anti-windup"
+                               : a->steps ? "--steps" : a->substeps ? "--substeps"
+                               : a->points ? "--points" : NULL;
+      if (model_only != NULL)
+        {
+          lw_cli_bad_input (model_only, "needs a model (the time responses and the frequency "
+                            "grid are a model's); the data are analysed at their own points");
+          return LW_EXIT_BAD_INPUT;
+        }
+      return lw_cli_measured_analyze ("analyze", &a->loop, &a->measured, a->json);
+    }
   if (a->files == NULL || a->files[0] == NULL)
     {
       if (a->variant != NULL || a->all)
@@ -609,6 +638,7 @@ lw_cmd_analyze (int argc, char **argv)
   AnalyzeArgs a = { 0 };
   const GOptionEntry entries[] = {
     LW_CLI_LOOP_ENTRIES (&a.loop),
+    LW_CLI_MEASURED_ENTRIES (&a.measured),
     { "points", 0, 0, G_OPTION_ARG_STRING, &a.points, NULL, NULL },
     { "steps", 0, 0, G_OPTION_ARG_STRING, &a.steps, NULL, NULL },
     { "saturation", 0, 0, G_OPTION_ARG_STRING, &a.saturation, NULL, NULL },
@@ -624,6 +654,7 @@ lw_cmd_analyze (int argc, char **argv)
   int status = lw_cli_run_command ("analyze", argc, argv, entries, &a.help, analyze_help,
                                    analyze_run, &a);
   lw_cli_loop_args_clear (&a.loop);
+  lw_cli_measured_args_clear (&a.measured);
   g_strfreev (a.files);
   g_free (a.variant);
   g_free (a.points);

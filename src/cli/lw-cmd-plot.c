@@ -16,6 +16,7 @@
 #include "lw-cli-commands.h"
 #include "lw-cli-common.h"
 #include "lw-cli-doc.h"
+#include "lw-cli-measured.h"
 #include "lw-figure-data.h"
 #include "lw-plot-export.h"
 #include "lw-plot.h"
@@ -47,6 +48,7 @@ static const char plot_help_tail[] =
   "  --dead-time SECONDS      plant input dead time in seconds, >= 0 (default 0)\n"
   "  --controller EXPR        controller C(w), proper, in the w-plane variable w (default 1)\n"
   "  --controller-z EXPR      controller C(z), proper, in z (instead of --controller)\n"
+  LW_CLI_MEASURED_HELP
   "  --variant NAME           the variant of FILE.lwd to draw (default: the active one)\n"
   "  --all-variants           every variant of FILE.lwd, overlaid\n"
   "  --compared               the active variant of FILE.lwd and those marked compared\n"
@@ -77,6 +79,7 @@ static const char plot_help_tail[] =
 typedef struct
 {
   LwCliLoopArgs loop;
+  LwCliMeasuredArgs measured;
   char *view, *out, *size, *theme, *title, *name, *target, *min_pm, *pdf_date, *points, *steps;
   char *phase_range, *nyquist_scale;
   char **files;
@@ -257,12 +260,13 @@ typedef struct
 
 /* Draws the variants with the spec and writes the file. */
 static int
-plot_write (const PlotSpec *s, const PlotVariantSource *src, size_t n)
+plot_write (const PlotSpec *s, const PlotVariantSource *src, size_t n, const LwPlotVariant *extra,
+            double period_s)
 {
-  if (n == 0 || n > LW_PLOT_MAX_VARIANTS)
+  if (n + (extra != NULL) == 0 || n + (extra != NULL) > LW_PLOT_MAX_VARIANTS)
     {
       lw_cli_bad_input ("plot", "a figure shows 1 to %d variants, not %zu", LW_PLOT_MAX_VARIANTS,
-                        n);
+                        n + (extra != NULL));
       return LW_EXIT_BAD_INPUT;
     }
   LwFigureVariant fv[LW_PLOT_MAX_VARIANTS];
@@ -290,27 +294,32 @@ plot_write (const PlotSpec *s, const PlotVariantSource *src, size_t n)
       pv[filled] = fv[filled].v;
       pv[filled].style = n > 1 ? src[filled].style : 0;   /* one variant: the first colour */
     }
+  if (extra != NULL)
+    {
+      pv[n] = *extra;   /* the measured data, after the model */
+      pv[n].style = (unsigned) n + 1;
+    }
   LwPlotInput in = { 0 };
   in.view = s->view;
-  in.nyquist_rad_s = G_PI / src[0].ev->period_s;
+  in.nyquist_rad_s = G_PI / period_s;
   in.title = s->title;
   in.phase_full_range = s->phase_full_range;
   in.phase_wrapped = s->phase_wrapped;
   in.nyquist_compressed = s->nyquist_compressed;
-  if (src[0].eval != NULL)
+  if (n > 0 && src[0].eval != NULL)
     {
       in.input_unit = src[0].eval->input_unit;
       in.output_unit = src[0].eval->output_unit;
     }
-  in.n_variants = n;
+  in.n_variants = n + (extra != NULL);
   in.variants = pv;
-  lw_figure_requirements (&in.req, src[0].ev->period_s, s->has_target, s->target_rad_s,
+  lw_figure_requirements (&in.req, period_s, s->has_target, s->target_rad_s,
                           s->has_min_pm, s->min_pm_deg);
   for (size_t i = 0; s->design != NULL && i < s->design->n_requirements; i++)
     {
       const LwRequirement *q = &s->design->requirements[i].req;
       if (!(q->kind == LW_REQ_MIN_PHASE_MARGIN && s->has_min_pm))
-        lw_figure_requirements_add (&in.req, src[0].ev->period_s, q);
+        lw_figure_requirements_add (&in.req, period_s, q);
     }
   g_autoptr (GError) error = NULL;
   LwPlot *plot = lw_plot_new (&in, &error);
@@ -424,10 +433,62 @@ plot_run_document (const PlotArgs *a)
                                          (unsigned) (which[built] % LW_PLOT_MAX_VARIANTS) + 1,
                                          e[built] };
     }
-  status = plot_write (&spec, src, n);
+  status = plot_write (&spec, src, n, NULL, src[0].ev->period_s);
 out:
   for (size_t i = 0; i < built; i++)
     lw_variant_eval_unref (e[i]);
+  return status;
+}
+
+/* The loop on a measured response (and the model's, with --plant), overlaid. */
+static int
+plot_run_measured (const PlotArgs *a)
+{
+  if (a->files != NULL && a->files[0] != NULL)
+    {
+      lw_cli_bad_input ("--measured", "is taken with the loop options, not with a design "
+                        "document");
+      return LW_EXIT_BAD_INPUT;
+    }
+  PlotSpec spec;
+  int status = plot_options_check (a, &spec);
+  if (status != LW_EXIT_OK)
+    return status;
+  unsigned needs = lw_plot_view_info (spec.view)->needs;
+  if (needs & ~(unsigned) (LW_PLOT_NEEDS_Z | LW_PLOT_NEEDS_W | LW_PLOT_NEEDS_NYQUIST
+                           | LW_PLOT_NEEDS_NYQUIST_RATE))
+    {
+      lw_cli_bad_input ("--view", "%s needs a model (time responses or poles); measured data "
+                        "draw in the frequency views", a->view);
+      return LW_EXIT_BAD_INPUT;
+    }
+  LwCliMeasuredLoop ml;
+  status = lw_cli_measured_loop_build ("plot", &a->loop, &a->measured, &ml);
+  if (status != LW_EXIT_OK)
+    return status;
+  LwCliMeasuredFigure fig;
+  lw_cli_measured_figure (&ml, &fig);
+  LwVariantEval *e = NULL;
+  if (ml.has_model)
+    {
+      LwAnalysisOptions opts;
+      status = plot_analysis_options (a, &opts);
+      LwEngineOptions eo;
+      lw_engine_options_init (&eo);
+      eo.n_points = opts.n_points;
+      if (status == LW_EXIT_OK)
+        status = lw_cli_loop_evaluate ("plot", &ml.lp, &eo, FALSE, &e);
+    }
+  if (status == LW_EXIT_OK)
+    {
+      PlotVariantSource src = { a->name ? a->name : "model", ml.lp.sampled,
+                                e != NULL ? e->ev : NULL, 1, e };
+      status = plot_write (&spec, &src, e != NULL ? 1 : 0, &fig.variant, ml.lp.period_s);
+    }
+  if (e != NULL)
+    lw_variant_eval_unref (e);
+  lw_cli_measured_figure_clear (&fig);
+  lw_cli_measured_loop_clear (&ml);
   return status;
 }
 
@@ -435,6 +496,13 @@ static int
 plot_run (void *data)
 {
   const PlotArgs *a = data;
+  if (a->measured.file == NULL && a->measured.kind != NULL)
+    {
+      lw_cli_bad_input ("--measured-kind", "needs --measured FILE.csv");
+      return LW_EXIT_BAD_INPUT;
+    }
+  if (a->measured.file != NULL)
+    return plot_run_measured (a);
   if (a->files != NULL && a->files[0] != NULL)
     return plot_run_document (a);
   if (a->variant != NULL || a->all || a->compared)
@@ -465,7 +533,7 @@ plot_run (void *data)
   if (status != LW_EXIT_OK)
     goto out;
   PlotVariantSource src = { a->name ? a->name : "loop", lp.sampled, e->ev, 0, e };
-  status = plot_write (&spec, &src, 1);
+  status = plot_write (&spec, &src, 1, NULL, e->ev->period_s);
 out:
   lw_variant_eval_unref (e);
   lw_cli_loop_clear (&lp);
@@ -478,6 +546,7 @@ lw_cmd_plot (int argc, char **argv)
   PlotArgs a = { 0 };
   const GOptionEntry entries[] = {
     LW_CLI_LOOP_ENTRIES (&a.loop),
+    LW_CLI_MEASURED_ENTRIES (&a.measured),
     { "view", 0, 0, G_OPTION_ARG_STRING, &a.view, NULL, NULL },
     { "out", 0, 0, G_OPTION_ARG_FILENAME, &a.out, NULL, NULL },
     { "size", 0, 0, G_OPTION_ARG_STRING, &a.size, NULL, NULL },
@@ -509,6 +578,7 @@ lw_cmd_plot (int argc, char **argv)
                                    &a);
   g_string_free (help, TRUE);
   lw_cli_loop_args_clear (&a.loop);
+  lw_cli_measured_args_clear (&a.measured);
   char **strs[] = { &a.view, &a.out, &a.size, &a.theme, &a.title, &a.name, &a.target,
                     &a.min_pm, &a.pdf_date, &a.points, &a.steps, &a.phase_range,
                     &a.nyquist_scale };

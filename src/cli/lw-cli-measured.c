@@ -1,0 +1,408 @@
+/* lw-cli-measured.c — `analyze --measured FILE.csv --measured-kind KIND`: the loop on a
+ * measured frequency response (lw-measured.h, docs/measured-data.md).
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ */
+#include "config.h"
+
+#include <complex.h>
+#include <math.h>
+#include <stdio.h>
+#include <string.h>
+
+#include "lw-cli-json.h"
+#include "lw-cli-measured.h"
+#include "lw-measured.h"
+
+void
+lw_cli_measured_args_clear (LwCliMeasuredArgs *a)
+{
+  g_clear_pointer (&a->file, g_free);
+  g_clear_pointer (&a->kind, g_free);
+}
+
+/* Reads FILE (mapped, so a huge file is not read whole: the parser stops at its line limit). */
+int
+lw_cli_measured_read (const char *file, LwMeasured **out, char *note, size_t note_size)
+{
+  g_autoptr (GError) gerr = NULL;
+  g_autoptr (GMappedFile) mf = g_mapped_file_new (file, FALSE, &gerr);
+  if (mf == NULL)
+    {
+      lw_cli_bad_input ("--measured", "cannot read %s: %s", file, gerr->message);
+      return LW_EXIT_BAD_INPUT;
+    }
+  LwMeasuredPlace place = { 0, 0 };
+  LwError err;
+  lw_error_clear (&err);
+  LwStatus st = lw_measured_parse (g_mapped_file_get_contents (mf),
+                                   g_mapped_file_get_length (mf), out, note, note_size, &place,
+                                   &err);
+  if (st == LW_OK)
+    return LW_EXIT_OK;
+  if (st == LW_ERR_NOMEM)
+    {
+      lw_cli_bad_input ("--measured", "%s: %s", file, err.message);
+      return LW_EXIT_INTERNAL;
+    }
+  if (place.line > 0 && place.column > 0)
+    fprintf (stderr, "%s:%zu:%zu: %s\n", file, place.line, place.column, err.message);
+  else if (place.line > 0)
+    fprintf (stderr, "%s:%zu: %s\n", file, place.line, err.message);
+  else
+    fprintf (stderr, "%s: %s\n", file, err.message);
+  return LW_EXIT_BAD_INPUT;
+}
+
+static void
+add_crossings (JsonBuilder *b, const char *freq_key, const char *margin_key,
+               const char *interval_key, const char *coherence_key,
+               const LwMeasuredCrossing *c, size_t n)
+{
+  json_builder_set_member_name (b, freq_key);
+  json_builder_begin_array (b);
+  for (size_t i = 0; i < n; i++)
+    lw_cli_json_add_number (b, c[i].omega_rad_s);
+  json_builder_end_array (b);
+  json_builder_set_member_name (b, margin_key);
+  json_builder_begin_array (b);
+  for (size_t i = 0; i < n; i++)
+    lw_cli_json_add_number (b, c[i].margin);
+  json_builder_end_array (b);
+  if (interval_key == NULL)
+    return;
+  json_builder_set_member_name (b, interval_key);
+  json_builder_begin_array (b);
+  for (size_t i = 0; i < n; i++)
+    {
+      json_builder_begin_array (b);
+      lw_cli_json_add_number (b, c[i].lo_rad_s);
+      lw_cli_json_add_number (b, c[i].hi_rad_s);
+      json_builder_end_array (b);
+    }
+  json_builder_end_array (b);
+  json_builder_set_member_name (b, coherence_key);
+  json_builder_begin_array (b);
+  for (size_t i = 0; i < n; i++)
+    json_builder_add_boolean_value (b, c[i].low_coherence);
+  json_builder_end_array (b);
+}
+
+static void
+member_number (JsonBuilder *b, const char *key, double v)
+{
+  json_builder_set_member_name (b, key);
+  lw_cli_json_add_number (b, v);
+}
+
+/* The loop block with the keys a model's has (lw_cli_json_add_loop); nothing is unresolved in
+ * data, so those counts are 0 and the bands empty. */
+static void
+add_loop (JsonBuilder *b, const LwMeasuredMargins *mm, double period_s)
+{
+  json_builder_begin_object (b);
+  add_crossings (b, "gain_crossovers_rad_s", "phase_margins_deg", NULL, NULL, mm->gain,
+                 mm->n_gain);
+  add_crossings (b, "phase_crossovers_rad_s", "gain_margins_db", NULL, NULL, mm->phase,
+                 mm->n_phase);
+  member_number (b, "phase_margin_deg", mm->phase_margin_deg);
+  member_number (b, "gain_crossover_rad_s", mm->gain_crossover_rad_s);
+  member_number (b, "gain_margin_db", mm->gain_margin_db);
+  member_number (b, "phase_crossover_rad_s", mm->phase_crossover_rad_s);
+  member_number (b, "delay_margin_s", mm->delay_margin_s);
+  member_number (b, "delay_margin_samples", mm->delay_margin_s / period_s);
+  member_number (b, "sensitivity_peak", mm->sensitivity_peak);
+  member_number (b, "sensitivity_peak_rad_s", mm->sensitivity_peak_rad_s);
+  json_builder_set_member_name (b, "unresolved_gain_crossovers");
+  json_builder_add_int_value (b, 0);
+  json_builder_set_member_name (b, "unresolved_phase_crossovers");
+  json_builder_add_int_value (b, 0);
+  json_builder_set_member_name (b, "unresolved_bands_rad_s");
+  json_builder_begin_array (b);
+  json_builder_end_array (b);
+  json_builder_end_object (b);
+}
+
+static void
+print_text (const char *file, const char *kind, const LwCliLoop *lp, size_t n_used, size_t n_all,
+            const double *omega, const LwMeasuredMargins *mm, const char *note,
+            double model_diff)
+{
+  double T = lp->period_s;
+  printf ("Measured plant: %s (%s), %zu points from %.6g to %.6g rad/s", file, kind, n_all,
+          omega[0], omega[n_used - 1]);
+  if (n_used < n_all)
+    printf (", %zu of them below pi/T", n_used);
+  printf ("\n");
+  if (note[0] != '\0')
+    printf ("  note: %s\n", note);
+  if (strcmp (kind, "continuous") == 0)
+    printf ("  the hold's response and the dead time applied; the aliasing terms neglected "
+            "(docs/measured-data.md)\n");
+  if (isfinite (model_diff))
+    printf ("  --plant against the data: largest relative difference %.3g\n", model_diff);
+  printf ("\nMargins of the loop L(z) = z^-%d C(z) P(z) on the data, found between the points\n",
+          lp->compute_delay);
+  printf ("  %-26s %-20s %s\n", "gain crossover (rad/s)", "phase margin (deg)",
+          "between (rad/s)");
+  if (mm->n_gain == 0)
+    printf ("  none in the data\n");
+  for (size_t i = 0; i < mm->n_gain && i < LW_CLI_MAX_LISTED; i++)
+    printf ("  %-26.6g %-20.4g %.6g … %.6g%s\n", mm->gain[i].omega_rad_s, mm->gain[i].margin,
+            mm->gain[i].lo_rad_s, mm->gain[i].hi_rad_s,
+            mm->gain[i].low_coherence ? "  (low coherence)" : "");
+  printf ("  %-26s %-20s %s\n", "phase crossover (rad/s)", "gain margin (dB)",
+          "between (rad/s)");
+  if (mm->n_phase == 0)
+    printf ("  none in the data\n");
+  for (size_t i = 0; i < mm->n_phase && i < LW_CLI_MAX_LISTED; i++)
+    printf ("  %-26.6g %-20.4g %.6g … %.6g%s\n", mm->phase[i].omega_rad_s, mm->phase[i].margin,
+            mm->phase[i].lo_rad_s, mm->phase[i].hi_rad_s,
+            mm->phase[i].low_coherence ? "  (low coherence)" : "");
+  printf ("\n");
+  if (isfinite (mm->phase_margin_deg))
+    printf ("  %-24s %.4g deg at %.6g rad/s\n", "phase margin", mm->phase_margin_deg,
+            mm->gain_crossover_rad_s);
+  if (isfinite (mm->gain_margin_db))
+    printf ("  %-24s %.4g dB at %.6g rad/s\n", "gain margin", mm->gain_margin_db,
+            mm->phase_crossover_rad_s);
+  if (isfinite (mm->delay_margin_s))
+    printf ("  %-24s %.4g s (%.4g samples)\n", "delay margin", mm->delay_margin_s,
+            mm->delay_margin_s / T);
+  printf ("  %-24s %.4g at %.6g rad/s (the largest at a measured point)\n", "sensitivity peak",
+          mm->sensitivity_peak, mm->sensitivity_peak_rad_s);
+  if (mm->crossover_above_data)
+    printf ("  caution: |L| >= 1 at the highest measured frequency: a gain crossover lies above "
+            "the data\n");
+  if (mm->crossover_below_data)
+    printf ("  caution: |L| < 1 at the lowest measured frequency: a gain crossover may lie "
+            "below the data\n");
+  printf ("\nStability, the closed-loop poles and the time responses need a model: fit one to "
+          "the data, or give --plant.\n");
+}
+
+void
+lw_cli_measured_loop_clear (LwCliMeasuredLoop *ml)
+{
+  lw_measured_margins_clear (&ml->mm);
+  lw_measured_free (ml->data);
+  g_free (ml->omega);
+  g_free (ml->p);
+  g_free (ml->l);
+  lw_cli_loop_clear (&ml->lp);
+  memset (ml, 0, sizeof *ml);
+}
+
+int
+lw_cli_measured_loop_build (const char *cmd, const LwCliLoopArgs *loop,
+                            const LwCliMeasuredArgs *m, LwCliMeasuredLoop *ml)
+{
+  memset (ml, 0, sizeof *ml);
+  ml->model_diff = NAN;
+  if (m->kind == NULL)
+    {
+      lw_cli_bad_input ("--measured-kind", "is required with --measured: sampled or continuous "
+                        "(docs/measured-data.md)");
+      return LW_EXIT_BAD_INPUT;
+    }
+  if (strcmp (m->kind, "sampled") == 0)
+    ml->kind = LW_MEASURED_SAMPLED;
+  else if (strcmp (m->kind, "continuous") == 0)
+    ml->kind = LW_MEASURED_CONTINUOUS;
+  else
+    {
+      g_autofree char *shown = g_utf8_make_valid (m->kind, -1);
+      lw_cli_bad_input ("--measured-kind", "'%s' is neither sampled nor continuous", shown);
+      return LW_EXIT_BAD_INPUT;
+    }
+  /* the loop options, with a plant of 1 when none is given (only its checks are used then) */
+  LwCliLoopArgs la = *loop;
+  ml->has_model = loop->plant != NULL;
+  if (!ml->has_model)
+    la.plant = (char *) "1";
+  if (ml->kind == LW_MEASURED_SAMPLED && loop->dead_time != NULL)
+    {
+      lw_cli_bad_input ("--dead-time", "a sampled measurement holds the plant's dead time "
+                        "already; give it only with --measured-kind continuous");
+      return LW_EXIT_BAD_INPUT;
+    }
+  int status = lw_cli_loop_build (cmd, &la, &ml->lp);
+  if (status != LW_EXIT_OK)
+    return status;
+  status = lw_cli_measured_read (m->file, &ml->data, ml->note, sizeof ml->note);
+  if (status != LW_EXIT_OK)
+    {
+      lw_cli_loop_clear (&ml->lp);
+      return status;
+    }
+  size_t n = ml->data->n, bad = 0;
+  ml->omega = g_new (double, n);
+  ml->p = g_new (double complex, n);
+  ml->l = g_new (double complex, n);
+  LwError err;
+  lw_error_clear (&err);
+  const LwCliLoop *lp = &ml->lp;
+  if (lw_measured_sampled_response (ml->data, ml->kind, lp->period_s, lp->dead_time_s,
+                                    ml->omega, ml->p, &ml->n, &bad, &err) != LW_OK)
+    {
+      fprintf (stderr, "%s: %s\n", m->file, err.message);
+      lw_cli_measured_loop_clear (ml);
+      return LW_EXIT_BAD_INPUT;
+    }
+  for (size_t i = 0; i < ml->n; i++)
+    {
+      double complex z = cexp (I * ml->omega[i] * lp->period_s);
+      ml->l[i] = cpow (z, -lp->compute_delay) * lw_model_eval (lp->controller_z, z) * ml->p[i];
+    }
+  if (ml->has_model)
+    {
+      ml->model_diff = 0.0;
+      for (size_t i = 0; i < ml->n; i++)
+        {
+          double complex pm = lw_sampled_plant_response (lp->sampled, ml->omega[i]);
+          ml->model_diff = fmax (ml->model_diff, cabs (pm - ml->p[i]) / cabs (ml->p[i]));
+        }
+    }
+  /* the points kept are the table's first n (frequencies increase), so its coherence column
+   * lines up */
+  LwStatus st = lw_measured_margins (ml->omega, ml->l, ml->data->coherence, ml->n, &ml->mm,
+                                     &err);
+  if (st != LW_OK)
+    {
+      fprintf (stderr, "%s: %s\n", m->file, err.message);
+      lw_cli_measured_loop_clear (ml);
+      return st == LW_ERR_NOMEM ? LW_EXIT_INTERNAL : LW_EXIT_BAD_INPUT;
+    }
+  return LW_EXIT_OK;
+}
+
+int
+lw_cli_measured_analyze (const char *cmd, const LwCliLoopArgs *loop, const LwCliMeasuredArgs *m,
+                         gboolean json)
+{
+  LwCliMeasuredLoop ml;
+  int status = lw_cli_measured_loop_build (cmd, loop, m, &ml);
+  if (status != LW_EXIT_OK)
+    return status;
+  const LwMeasuredMargins *mm = &ml.mm;
+  if (!json)
+    print_text (m->file, m->kind, &ml.lp, ml.n, ml.data->n, ml.omega, mm, ml.note,
+                ml.model_diff);
+  else
+    {
+      g_autoptr (JsonBuilder) b = json_builder_new ();
+      json_builder_begin_object (b);
+      member_number (b, "sample_period_s", ml.lp.period_s);
+      json_builder_set_member_name (b, "loop");
+      add_loop (b, mm, ml.lp.period_s);
+      json_builder_set_member_name (b, "measured");
+      json_builder_begin_object (b);
+      json_builder_set_member_name (b, "file");
+      g_autofree char *shown = g_filename_display_name (m->file);
+      json_builder_add_string_value (b, shown);
+      json_builder_set_member_name (b, "kind");
+      json_builder_add_string_value (b, m->kind);
+      json_builder_set_member_name (b, "points");
+      json_builder_add_int_value (b, (gint64) ml.data->n);
+      json_builder_set_member_name (b, "points_below_nyquist");
+      json_builder_add_int_value (b, (gint64) ml.n);
+      json_builder_set_member_name (b, "note");
+      json_builder_add_string_value (b, ml.note);
+      add_crossings (b, "gain_crossovers_rad_s", "phase_margins_deg",
+                     "gain_crossover_intervals_rad_s", "gain_crossover_low_coherence", mm->gain,
+                     mm->n_gain);
+      add_crossings (b, "phase_crossovers_rad_s", "gain_margins_db",
+                     "phase_crossover_intervals_rad_s", "phase_crossover_low_coherence",
+                     mm->phase, mm->n_phase);
+      json_builder_set_member_name (b, "crossover_above_data");
+      json_builder_add_boolean_value (b, mm->crossover_above_data);
+      json_builder_set_member_name (b, "crossover_below_data");
+      json_builder_add_boolean_value (b, mm->crossover_below_data);
+      member_number (b, "model_relative_difference", ml.model_diff);
+      json_builder_end_object (b);
+      json_builder_end_object (b);
+      JsonNode *root = json_builder_get_root (b);
+      char *text = lw_cli_json_to_text (root);
+      fputs (text, stdout);
+      g_free (text);
+      json_node_unref (root);
+    }
+  lw_cli_measured_loop_clear (&ml);
+  return LW_EXIT_OK;
+}
+
+void
+lw_cli_measured_figure_clear (LwCliMeasuredFigure *f)
+{
+  g_free (f->mag_db);
+  g_free (f->phase_deg);
+  g_free (f->nu);
+  g_free (f->re);
+  g_free (f->im);
+  g_free (f->cross);
+  g_free (f->cross_w);
+  g_free (f->name);
+  memset (f, 0, sizeof *f);
+}
+
+/* L at a crossing, interpolated as the margins were (ln|L| and the unwrapped phase linear in
+ * ln ω between the points bracketing it) */
+static LwPlotCrossover
+crossing_point (const LwCliMeasuredFigure *f, const double *omega, size_t n,
+                const LwMeasuredCrossing *c)
+{
+  size_t i = 0;
+  while (i + 2 < n && omega[i + 1] < c->omega_rad_s)
+    i++;
+  double t = log (c->omega_rad_s / omega[i]) / log (omega[i + 1] / omega[i]);
+  double db = f->mag_db[i] + t * (f->mag_db[i + 1] - f->mag_db[i]);
+  double ph = f->phase_deg[i] + t * (f->phase_deg[i + 1] - f->phase_deg[i]);
+  double r = pow (10.0, db / 20.0), a = ph * G_PI / 180.0;
+  return (LwPlotCrossover) { c->omega_rad_s, c->margin, db, ph, r * cos (a), r * sin (a) };
+}
+
+void
+lw_cli_measured_figure (const LwCliMeasuredLoop *ml, LwCliMeasuredFigure *f)
+{
+  memset (f, 0, sizeof *f);
+  size_t n = ml->n;
+  f->mag_db = g_new (double, n);
+  f->phase_deg = g_new (double, n);
+  f->nu = g_new (double, n);
+  f->re = g_new (double, n);
+  f->im = g_new (double, n);
+  for (size_t i = 0; i < n; i++)
+    {
+      double a = carg (ml->l[i]) * 180.0 / G_PI;
+      f->mag_db[i] = 20.0 * log10 (cabs (ml->l[i]));
+      /* unwrapped along the points as the margins are; the start in (−360°, 0] */
+      f->phase_deg[i] = i == 0 ? a - 360.0 * ceil (a / 360.0)
+                               : f->phase_deg[i - 1]
+                                 + remainder (a - f->phase_deg[i - 1], 360.0);
+      f->nu[i] = lw_warp_omega_to_nu (ml->omega[i], ml->lp.period_s);
+      f->re[i] = creal (ml->l[i]);
+      f->im[i] = cimag (ml->l[i]);
+    }
+  size_t ng = ml->mm.n_gain, np = ml->mm.n_phase;
+  f->cross = g_new (LwPlotCrossover, ng + np + 1);
+  f->cross_w = g_new (LwPlotCrossover, ng + np + 1);
+  for (size_t i = 0; i < ng + np; i++)
+    {
+      f->cross[i] = crossing_point (f, ml->omega, n, i < ng ? &ml->mm.gain[i]
+                                                             : &ml->mm.phase[i - ng]);
+      f->cross_w[i] = f->cross[i];
+      f->cross_w[i].freq_rad_s = lw_warp_omega_to_nu (f->cross[i].freq_rad_s, ml->lp.period_s);
+    }
+  f->name = g_strdup_printf ("measured (%s)", ml->kind == LW_MEASURED_SAMPLED ? "sampled"
+                                                                              : "continuous");
+  LwPlotVariant *v = &f->variant;
+  v->name = f->name;
+  v->z = (LwPlotFreqCurve) { .n = n, .freq_rad_s = ml->omega, .mag_db = f->mag_db,
+                             .phase_deg = f->phase_deg, .n_gain_crossovers = ng,
+                             .gain_crossovers = f->cross, .n_phase_crossovers = np,
+                             .phase_crossovers = f->cross + ng };
+  v->w = v->z;
+  v->w.freq_rad_s = f->nu;
+  v->w.gain_crossovers = f->cross_w;
+  v->w.phase_crossovers = f->cross_w + ng;
+  v->nyquist = (LwPlotComplexCurve) { .n = n, .re = f->re, .im = f->im };
+}
