@@ -392,14 +392,16 @@ lw_cli_measured_figure (const LwCliMeasuredLoop *ml, LwCliMeasuredFigure *f)
       f->cross_w[i] = f->cross[i];
       f->cross_w[i].freq_rad_s = lw_warp_omega_to_nu (f->cross[i].freq_rad_s, ml->lp.period_s);
     }
-  f->name = g_strdup_printf ("measured (%s)", ml->kind == LW_MEASURED_SAMPLED ? "sampled"
-                                                                              : "continuous");
+  f->name = g_strdup_printf ("measured (%s%s)", ml->kind == LW_MEASURED_SAMPLED ? "sampled"
+                                                                                : "continuous",
+                             ml->data->coherence != NULL ? "; faded: coherence < 0.8" : "");
   LwPlotVariant *v = &f->variant;
   v->name = f->name;
   v->z = (LwPlotFreqCurve) { .n = n, .freq_rad_s = ml->omega, .mag_db = f->mag_db,
                              .phase_deg = f->phase_deg, .n_gain_crossovers = ng,
                              .gain_crossovers = f->cross, .n_phase_crossovers = np,
-                             .phase_crossovers = f->cross + ng };
+                             .phase_crossovers = f->cross + ng,
+                             .confidence = ml->data->coherence };
   v->w = v->z;
   v->w.freq_rad_s = f->nu;
   v->w.gain_crossovers = f->cross_w;

@@ -70,6 +70,21 @@ wrap_deg (double p)
 
 /* The phase curve wrapped into one turn: a new array of *n_out ≤ 2n points (frequency and
  * phase), NAN inserted where consecutive points wrap (a jump of more than 180°). */
+/* The stretches of curve c (values y) whose points are trusted (confidence at or above
+ * LW_PLOT_LOW_CONFIDENCE), as a line of its own broken where they are not */
+static void
+trusted_over (LwPlot *pl, Panel *pn, size_t v, const LwPlotFreqCurve *c, const double *y)
+{
+  double *ty = g_new (double, c->n);
+  for (size_t i = 0; i < c->n; i++)
+    ty[i] = c->confidence[i] >= LW_PLOT_LOW_CONFIDENCE ? y[i] : NAN;
+  Prim *p = lwp_add_line (pn, c->n, c->freq_rad_s, ty);
+  g_free (ty);
+  lwp_style_variant (p, v, LW_PLOT_CURVE_WIDTH);
+  p->dash = DASH_VARIANT;
+  (void) pl;
+}
+
 static void
 wrap_curve (const LwPlotFreqCurve *c, double **f_out, double **p_out, size_t *n_out)
 {
@@ -273,6 +288,13 @@ build_bode (LwPlot *pl, const LwPlotInput *in, bool w_plane)
         pc = lwp_add_curve (pl, ph, v, c->n, c->freq_rad_s, c->phase_deg);
       lwp_style_variant (pc, v, LW_PLOT_CURVE_WIDTH);
       pc->dash = DASH_VARIANT;
+      if (c->confidence != NULL && !wrapped)
+        {
+          /* the whole curve faded, the trusted stretches over it at full strength */
+          pm->alpha = pc->alpha = 0.3;
+          trusted_over (pl, mag, v, c, c->mag_db);
+          trusted_over (pl, ph, v, c, c->phase_deg);
+        }
     }
 
   /* margin annotations: drop line, gauge bar, label on a plate (the governing margins and

@@ -79,7 +79,12 @@ typedef struct {
   size_t n_asymptote;
   const double *asymptote_freq_rad_s;
   const double *asymptote_db;
+  /* optional (NULL): how far each point is to be trusted, 0 … 1 (a measurement's coherence);
+   * the Bode views draw the curve faded where it is below LW_PLOT_LOW_CONFIDENCE */
+  const double *confidence;
 } LwPlotFreqCurve;
+
+#define LW_PLOT_LOW_CONFIDENCE 0.8
 
 /* L along ascending ω, for the Nyquist diagram (the mirror for negative ω is drawn too). */
 typedef struct {

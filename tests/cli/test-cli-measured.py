@@ -127,6 +127,21 @@ def main():
     data, whole = analyze(cli, '--measured', path, '--measured-kind', 'continuous')
     compare(model, data, nyq / 5, 'continuous', wc[-1])
     check(whole['measured']['points_below_nyquist'] < len(wc), 'points above pi/T dropped')
+    # drawn: the data's loop, faded (two curves at opacity 0.3 in the SVG, |L| and phase) only
+    # where a coherence column is given; a view that needs a model is refused
+    for coh_file, faded in ((path, 2), (os.path.join(tmp, 'sampled-db.csv'), 0)):
+        svg = os.path.join(tmp, 'data.svg')
+        r = run(cli, 'plot', '--period', str(T), '--controller', CTRL, '--measured', coh_file,
+                '--measured-kind', 'continuous' if faded else 'sampled', '--view', 'bode-z',
+                '--out', svg)
+        check(r.returncode == 0, 'plot --measured: %s' % r.stderr.strip())
+        if r.returncode == 0:
+            text = open(svg).read()
+            check(text.count('opacity:0.3') == faded, 'faded curves: %d, want %d'
+                  % (text.count('opacity:0.3'), faded))
+    r = run(cli, 'plot', '--period', str(T), '--measured', path, '--measured-kind', 'continuous',
+            '--view', 'step', '--out', os.path.join(tmp, 'x.svg'))
+    check(r.returncode == 2 and 'needs a model' in r.stderr, 'step view needs a model')
     # with a dead time: continuous data take --dead-time, sampled data refuse it
     model_d, _ = analyze(cli, '--plant', PLANT, '--dead-time', '0.0013')
     data_d, _ = analyze(cli, '--measured', path, '--measured-kind', 'continuous',
