@@ -20,6 +20,7 @@
 #include <string.h>
 
 #include "lw-measured.h"
+#include "../common/lw-test-utf8.h"
 
 int LLVMFuzzerTestOneInput (const uint8_t *data, size_t size);
 
@@ -28,32 +29,6 @@ stop (const char *why, const char *detail)
 {
   fprintf (stderr, "fuzz-measured: %s: %s\n", why, detail);
   abort ();
-}
-
-/* Whether s is UTF-8 text (RFC 3629 ranges: no overlong forms, no surrogates). */
-static bool
-utf8 (const char *s)
-{
-  const unsigned char *p = (const unsigned char *) s;
-  while (*p != 0)
-    {
-      int more = *p < 0x80 ? 0 : (*p & 0xE0) == 0xC0 ? 1 : (*p & 0xF0) == 0xE0 ? 2
-                 : (*p & 0xF8) == 0xF0 ? 3 : -1;
-      if (more < 0)
-        return false;
-      unsigned long cp = more == 0 ? *p : (unsigned long) (*p & (0x3F >> more));
-      for (int i = 1; i <= more; i++)
-        {
-          if ((p[i] & 0xC0) != 0x80)
-            return false;
-          cp = (cp << 6) | (p[i] & 0x3F);
-        }
-      static const unsigned long min_cp[] = { 0, 0x80, 0x800, 0x10000 };
-      if (cp < min_cp[more] || cp > 0x10FFFF || (cp >= 0xD800 && cp <= 0xDFFF))
-        return false;
-      p += more + 1;
-    }
-  return true;
 }
 
 static size_t
@@ -80,7 +55,7 @@ check_table (const LwMeasured *m, const char *note, size_t note_size)
       if (m->coherence != NULL && !(m->coherence[i] >= 0.0 && m->coherence[i] <= 1.0))
         stop ("table", "a coherence outside 0 ... 1");
     }
-  if (memchr (note, '\0', note_size) == NULL || !utf8 (note))
+  if (memchr (note, '\0', note_size) == NULL || !lw_test_utf8_valid (note))
     stop ("note", "not a UTF-8 string within its buffer");
   LwMeasured *c = lw_measured_copy (m);
   if (c == NULL || c->n != m->n
@@ -118,7 +93,7 @@ LLVMFuzzerTestOneInput (const uint8_t *data, size_t size)
     {
       if (m != NULL || (st != LW_ERR_PARSE && st != LW_ERR_INVALID) || err.code != st)
         stop ("refusal", "a table left behind or an unexpected code");
-      if (err.message[0] == '\0' || !utf8 (err.message))
+      if (err.message[0] == '\0' || !lw_test_utf8_valid (err.message))
         stop ("refusal", "an empty message or one not UTF-8");
       if (place.line < 1 || place.line > count_lines (text, size)
           || err.position < -1 || (err.position >= 0 && (size_t) err.position > size))
