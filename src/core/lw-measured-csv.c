@@ -94,11 +94,7 @@ quote (char *buf, const char *s, size_t len)
 
 /* Fills the place and the error (a message cut by the buffer loses no more than its last,
  * incomplete character) and returns code. offset: the byte offset in the text. */
-static LwStatus
-fail (Reader *r, LwStatus code, size_t line, size_t column, size_t offset, const char *fmt, ...)
-  __attribute__ ((format (printf, 6, 7)));
-
-static LwStatus
+static LwStatus __attribute__ ((format (printf, 6, 7)))
 fail (Reader *r, LwStatus code, size_t line, size_t column, size_t offset, const char *fmt, ...)
 {
   if (r->place != NULL)

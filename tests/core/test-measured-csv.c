@@ -21,44 +21,11 @@
 #include <string.h>
 
 #include "lw-measured.h"
+#include "../common/lw-test-utf8.h"
 
 #ifndef M_PI
 #define M_PI 3.14159265358979323846
 #endif
-
-/* Whether s is UTF-8 text: decoded here by code point ranges (RFC 3629), independently of the
- * reader's own check. */
-static bool
-valid_utf8 (const char *s)
-{
-  const unsigned char *p = (const unsigned char *) s;
-  while (*p != 0)
-    {
-      unsigned long cp;
-      int more;
-      if (*p < 0x80)
-        cp = *p, more = 0;
-      else if ((*p & 0xE0) == 0xC0)
-        cp = *p & 0x1F, more = 1;
-      else if ((*p & 0xF0) == 0xE0)
-        cp = *p & 0x0F, more = 2;
-      else if ((*p & 0xF8) == 0xF0)
-        cp = *p & 0x07, more = 3;
-      else
-        return false;
-      for (int i = 1; i <= more; i++)
-        {
-          if ((p[i] & 0xC0) != 0x80)
-            return false;
-          cp = (cp << 6) | (p[i] & 0x3F);
-        }
-      static const unsigned long min_cp[] = { 0, 0x80, 0x800, 0x10000 };
-      if (cp < min_cp[more] || cp > 0x10FFFF || (cp >= 0xD800 && cp <= 0xDFFF))
-        return false;
-      p += more + 1;
-    }
-  return true;
-}
 
 static LwStatus
 parse (const char *text, size_t len, LwMeasured **m, char *note, size_t note_size,
@@ -234,7 +201,7 @@ test_dialect (void **state)
       lw_measured_free (m);
       assert_true (strlen (small) < size);
       assert_true (strncmp (small, full, strlen (small)) == 0);
-      assert_true (valid_utf8 (small));
+      assert_true (lw_test_utf8_valid (small));
       assert_true (small[size] == 'Z');   /* nothing written past the buffer */
     }
   /* the text need not end in NUL nor in a line end: the length bounds it */
@@ -345,7 +312,7 @@ test_hostile (void **state)
         fail_msg ("case %zu: got %d at %zu:%zu \"%s\", want %d at %zu:%zu with \"%s\"", i,
                   (int) st, place.line, place.column, err.message, (int) c->code, c->line,
                   c->column, c->key);
-      assert_true (valid_utf8 (err.message));
+      assert_true (lw_test_utf8_valid (err.message));
       assert_true (err.position >= -1 && err.position <= (int) len);
       assert_string_equal (note, "");
     }
@@ -362,7 +329,7 @@ test_hostile (void **state)
             "\xC3\xA9\xC3\xA9\xC3\xA9\xC3\xA9\xC3\xA9\xC3\xA9\xC3\xA9\xC3\xA9\xC3\xA9\xC3\xA9x"
             "\xE2\x82\xAC\xE2\x82\xAC\xE2\x82\xAC");
   assert_int_equal (parse (buf, strlen (buf), &m, NULL, 0, NULL, &err), LW_ERR_PARSE);
-  assert_true (valid_utf8 (err.message));
+  assert_true (lw_test_utf8_valid (err.message));
   assert_non_null (strstr (err.message, "\xE2\x80\xA6\" is not a number"));
   /* no output place */
   assert_int_equal (lw_measured_parse (t, strlen (t), NULL, NULL, 0, NULL, &err),
