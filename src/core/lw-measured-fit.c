@@ -61,12 +61,10 @@
 #define FIT_DTILDE_HIGH 1e18
 
 typedef struct {
-  size_t n;
+  size_t n, n_used;    /* points, those of non-zero weight */
   const double complex *h;
-  double *x;          /* ω / ω0 */
-  double *w;          /* the weights */
-  size_t order;       /* N */
-  size_t k;           /* relative degree */
+  double *x, *w;      /* ω / ω0; the weights */
+  size_t order, k;    /* N; the relative degree */
 } Fit;
 
 /* ---- Basis, realization, constraints --------------------------------------------------- */
@@ -238,7 +236,7 @@ residue_constraint (const double complex *p, size_t N, size_t k, double **z, siz
 typedef struct {
   size_t nu;          /* unknowns; the buffer has nu + 1 columns (the last: right-hand side) */
   size_t cap, rows;
-  double *a;          /* cap × (nu + 1), column-major */
+  double *a;          /* cap × (nu + 1), column-major, then tau (nu + 1): one block to free */
   double *tau;
   lapack_int info;
 } Acc;
@@ -247,16 +245,11 @@ static bool
 acc_init (Acc *q, size_t nu)
 {
   size_t cap = FIT_BLOCK_ROWS + nu + 1;
-  *q = (Acc) { .nu = nu, .cap = cap, .a = malloc (cap * (nu + 1) * sizeof (double)),
-               .tau = malloc ((nu + 1) * sizeof (double)) };
-  return q->a != NULL && q->tau != NULL;
-}
-
-static void
-acc_clear (Acc *q)
-{
-  free (q->a);
-  free (q->tau);
+  *q = (Acc) { .nu = nu, .cap = cap, .a = malloc ((cap + 1) * (nu + 1) * sizeof (double)) };
+  if (q->a == NULL)
+    return false;
+  q->tau = q->a + cap * (nu + 1);
+  return true;
 }
 
 static void
@@ -378,46 +371,54 @@ add_points (const Fit *f, const double complex *p, bool sigma, bool free_dt, dou
     }
 }
 
+/* A linear problem of nu unknowns with the current poles: the constraint basis Z of the
+ * residues (NULL when none; nz columns), an empty accumulator, and `scratch` doubles of work
+ * space. Everything is freed on failure. */
+static LwStatus
+problem_init (const Fit *f, const double complex *p, size_t nu, size_t scratch, Acc *q,
+              double **Z, size_t *nz, double **work, LwError *err)
+{
+  *q = (Acc) { 0 };
+  *work = NULL;
+  LwStatus st = residue_constraint (p, f->order, f->k, Z, nz, err);
+  if (st != LW_OK)
+    return st;
+  *work = calloc (scratch, sizeof (double));
+  if (*work != NULL && acc_init (q, nu))
+    return LW_OK;
+  free (*work);
+  free (*Z);
+  free (q->a);
+  return lw_error_set (err, LW_ERR_NOMEM, -1, "model fit: out of memory");
+}
+
 /* ---- Pole relocation ------------------------------------------------------------------- */
 
 static LwStatus
 relocate (const Fit *f, double complex *p, LwError *err)
 {
   size_t N = f->order, ns = N + (f->k == 0), nu = ns + N + 1;
-  double *Z = NULL;
-  size_t nz = N;
-  LwStatus st = residue_constraint (p, N, f->k, &Z, &nz, err);
+  double *Z, *w;
+  size_t nz;
+  Acc q;
+  LwStatus st = problem_init (f, p, nu, nu + 1 + 4 * N + N * N + nu, &q, &Z, &nz, &w, err);
   if (st != LW_OK)
     return st;
-  Acc q = { 0 };
-  double *w = calloc (nu + 1 + 4 * N + N * N + nu, sizeof *w);
-  if (w == NULL || !acc_init (&q, nu))
-    {
-      free (w);
-      free (Z);
-      acc_clear (&q);
-      return lw_error_set (err, LW_ERR_NOMEM, -1, "model fit: out of memory");
-    }
   double *row = w, *re = row + nu + 1, *im = re + N, *sum_re = im + N, *b = sum_re + N;
   double *A = b + N, *x = A + N * N;
 
   /* the relaxed problem: d̃ free, one row Re Σ_k σ(s_k) = n scaled like the weighted data
    * (Gustavsen 2006: scale = ‖w·h‖ / n) */
-  double scale = 0.0;
-  size_t n_used = 0;
+  double scale = 0.0, n_used = (double) f->n_used;
   for (size_t kk = 0; kk < f->n; kk++)
-    if (f->w[kk] != 0.0)
-      {
-        scale = hypot (scale, f->w[kk] * cabs (f->h[kk]));
-        n_used++;
-      }
-  scale /= (double) n_used;
+    scale = hypot (scale, f->w[kk] * cabs (f->h[kk]));
+  scale /= n_used;
   add_points (f, p, true, true, 0.0, &q, row, re, im, sum_re);
   memset (row, 0, (nu + 1) * sizeof *row);
   for (size_t j = 0; j < N; j++)
     row[ns + j] = scale * sum_re[j];
-  row[ns + N] = scale * (double) n_used;
-  row[nu] = scale * (double) n_used;
+  row[ns + N] = scale * n_used;
+  row[nu] = scale * n_used;
   acc_add (&q, row);
   st = acc_solve (&q, N, Z, nz, x, err);
   double dt = x[nu - 1];
@@ -426,7 +427,7 @@ relocate (const Fit *f, double complex *p, LwError *err)
       /* d̃ fixed: Σ c φ (+ d) − Σ c̃ φ·h = d̃·h */
       dt = dt == 0.0 ? 1.0 : copysign (fabs (dt) < FIT_DTILDE_LOW ? FIT_DTILDE_LOW
                                                                   : FIT_DTILDE_HIGH, dt);
-      acc_clear (&q);
+      free (q.a);
       if (!acc_init (&q, nu - 1))
         st = lw_error_set (err, LW_ERR_NOMEM, -1, "model fit: out of memory");
       else
@@ -435,7 +436,7 @@ relocate (const Fit *f, double complex *p, LwError *err)
           st = acc_solve (&q, N, Z, nz, x, err);
         }
     }
-  acc_clear (&q);
+  free (q.a);
   free (Z);
   if (st == LW_OK)
     {
@@ -525,26 +526,22 @@ model_from_poles (const Fit *f, const double complex *p, double omega0, LwModel 
                   LwError *err)
 {
   size_t N = f->order, ns = N + (f->k == 0);
-  double *Z = NULL;
-  size_t nzc = N;
-  LwStatus st = residue_constraint (p, N, f->k, &Z, &nzc, err);
+  double *Z, *w;
+  size_t nzc;
+  Acc q;
+  LwStatus st = problem_init (f, p, ns, ns + 1 + 2 * N + ns, &q, &Z, &nzc, &w, err);
   if (st != LW_OK)
     return st;
-  Acc q = { 0 };
-  double *w = calloc (ns + 1 + 2 * N + ns, sizeof *w);
   double complex *zeros = calloc (N + 1, sizeof *zeros);
-  if (w == NULL || zeros == NULL || !acc_init (&q, ns))
-    {
-      free (w);
-      free (zeros);
-      free (Z);
-      acc_clear (&q);
-      return lw_error_set (err, LW_ERR_NOMEM, -1, "model fit: out of memory");
-    }
+  if (zeros == NULL)
+    st = lw_error_set (err, LW_ERR_NOMEM, -1, "model fit: out of memory");
   double *row = w, *re = row + ns + 1, *im = re + N, *x = im + N;
-  add_points (f, p, false, false, 1.0, &q, row, re, im, NULL);
-  st = acc_solve (&q, N, Z, nzc, x, err);
-  acc_clear (&q);
+  if (st == LW_OK)
+    {
+      add_points (f, p, false, false, 1.0, &q, row, re, im, NULL);
+      st = acc_solve (&q, N, Z, nzc, x, err);
+    }
+  free (q.a);
   free (Z);
   double gain = 0.0;
   if (st == LW_OK)
@@ -577,7 +574,8 @@ model_from_poles (const Fit *f, const double complex *p, double omega0, LwModel 
 
 static LwStatus
 check_input (const double *omega_rad_s, const double complex *h, const double *weight,
-             size_t n, int order, int relative_degree, int iterations, LwError *err)
+             size_t n, int order, int relative_degree, int iterations, size_t *n_used,
+             LwError *err)
 {
   if (omega_rad_s == NULL || h == NULL)
     return lw_error_set (err, LW_ERR_INVALID, -1, "model fit: no data");
@@ -612,6 +610,7 @@ check_input (const double *omega_rad_s, const double complex *h, const double *w
         used++;
     }
   size_t need = 2 * (size_t) order + 2;
+  *n_used = used;
   if (used < need)
     return lw_error_set (err, LW_ERR_INVALID, -1, "model fit: %zu points (of non-zero weight) "
                          "are too few for order %d; at least %zu are needed", used, order, need);
@@ -627,13 +626,15 @@ lw_measured_fit (const double *omega_rad_s, const double complex *h, const doubl
   if (out == NULL)
     return lw_error_set (err, LW_ERR_INVALID, -1, "model fit: no place for the result");
   *out = NULL;
-  LwStatus st = check_input (omega_rad_s, h, weight, n, order, relative_degree, iterations, err);
+  size_t n_used = 0;
+  LwStatus st = check_input (omega_rad_s, h, weight, n, order, relative_degree, iterations,
+                             &n_used, err);
   if (st != LW_OK)
     return st;
 
   size_t N = (size_t) order;
   double omega0 = sqrt (omega_rad_s[0] * omega_rad_s[n - 1]);
-  Fit f = { .n = n, .h = h, .order = N, .k = (size_t) relative_degree };
+  Fit f = { .n = n, .n_used = n_used, .h = h, .order = N, .k = (size_t) relative_degree };
   f.x = malloc (2 * n * sizeof *f.x);
   double complex *p = calloc (N, sizeof *p);
   if (f.x == NULL || p == NULL)

@@ -204,6 +204,39 @@ test_all_poles (void **state)
   check_fit (&t, 0.2, 2000.0, 201, 4, 4, 0.01, 1e-3);
 }
 
+/* Given weights: ten points of the belt axis corrupted (times 10) and given weight 0, the
+ * others 1/|h| as the default. The fit must ignore the corrupted points: roots within 1 %
+ * as in test_belt_axis; the reported error is over all points, so at the corrupted ones it
+ * is |h − 10h|/|10h| = 0.9 (to 1e-9: the fit itself is exact to about 1e-13). */
+static void
+test_weights (void **state)
+{
+  (void) state;
+  Truth t = belt_axis ();
+  double w[201], weight[201];
+  double complex h[201];
+  log_grid (0.2, 2000.0, 201, w);
+  for (size_t i = 0; i < 201; i++)
+    {
+      h[i] = truth_eval (&t, w[i]);
+      weight[i] = 1.0 / cabs (h[i]);
+      if (i >= 120 && i < 130)
+        {
+          h[i] *= 10.0;
+          weight[i] = 0.0;
+        }
+    }
+  LwModel *m = NULL;
+  double max_rel = -1.0;
+  LwError err;
+  if (lw_measured_fit (w, h, weight, 201, 4, 3, 20, &m, &max_rel, &err) != LW_OK)
+    fail_msg ("fit: %s", err.message);
+  assert_true (root_error (t.p, t.np, m->poles, m->n_poles, "poles") < 0.01);
+  assert_true (root_error (t.z, t.nz, m->zeros, m->n_zeros, "zeros") < 0.01);
+  assert_close (max_rel, 0.9, 1e-9, "largest relative error (at the corrupted points)");
+  lw_model_free (m);
+}
+
 /* splitmix64 and Box–Muller: a fixed sequence of normal deviates on every platform */
 static uint64_t rng_state;
 
@@ -326,6 +359,7 @@ main (void)
     cmocka_unit_test (test_many_points),
     cmocka_unit_test (test_relative_degree_zero),
     cmocka_unit_test (test_all_poles),
+    cmocka_unit_test (test_weights),
     cmocka_unit_test (test_noisy),
     cmocka_unit_test (test_refusals),
   };
