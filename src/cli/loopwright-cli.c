@@ -32,6 +32,7 @@ static const Command commands[] = {
   { "plot", lw_cmd_plot, "draw a view of a sampled loop into a PNG, SVG or PDF file" },
   { "suggest", lw_cmd_suggest, "propose a crossover gain and lead stages for a phase margin" },
   { "emit", lw_cmd_emit, "write the controller as C code (difference equation or sections)" },
+  { "fit", lw_cmd_fit, "fit a rational model to a measured frequency response" },
   { "report", lw_cmd_report, "write the design report of a document (HTML or PDF)" },
 };
 

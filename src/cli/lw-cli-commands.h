@@ -14,3 +14,4 @@ int lw_cmd_plot (int argc, char **argv);
 int lw_cmd_suggest (int argc, char **argv);
 int lw_cmd_emit (int argc, char **argv);
 int lw_cmd_report (int argc, char **argv);
+int lw_cmd_fit (int argc, char **argv);
