@@ -122,26 +122,36 @@ add_loop (JsonBuilder *b, const LwMeasuredMargins *mm, double period_s)
   json_builder_end_object (b);
 }
 
-static void
-print_text (const char *file, const char *kind, const LwCliLoop *lp, size_t n_used, size_t n_all,
-            const double *omega, const LwMeasuredMargins *mm, const char *note,
-            double model_diff)
+static const char *
+kind_word (LwMeasuredKind kind)
 {
-  double T = lp->period_s;
-  printf ("Measured plant: %s (%s), %zu points from %.6g to %.6g rad/s", file, kind, n_all,
-          omega[0], omega[n_used - 1]);
+  return kind == LW_MEASURED_SAMPLED ? "sampled" : "continuous";
+}
+
+/* The text section of the loop on the data; label names the data (a file, a document's
+ * <measured>); closing: the last line saying what needs a model. */
+void
+lw_cli_measured_print (const LwCliMeasuredLoop *ml, const char *label, gboolean closing)
+{
+  const LwMeasuredMargins *mm = &ml->mm;
+  const double *omega = ml->omega;
+  size_t n_used = ml->n, n_all = ml->data->n;
+  double T = ml->period_s;
+  printf ("Measured plant: %s (%s), %zu points from %.6g to %.6g rad/s", label,
+          kind_word (ml->kind), n_all, omega[0], omega[n_used - 1]);
   if (n_used < n_all)
     printf (", %zu of them below pi/T", n_used);
   printf ("\n");
-  if (note[0] != '\0')
-    printf ("  note: %s\n", note);
-  if (strcmp (kind, "continuous") == 0)
+  if (ml->note[0] != '\0')
+    printf ("  note: %s\n", ml->note);
+  if (ml->kind == LW_MEASURED_CONTINUOUS)
     printf ("  the hold's response and the dead time applied; the aliasing terms neglected "
             "(docs/measured-data.md)\n");
-  if (isfinite (model_diff))
-    printf ("  --plant against the data: largest relative difference %.3g\n", model_diff);
+  if (isfinite (ml->model_diff))
+    printf ("  %s against the data: largest relative difference %.3g\n",
+            closing ? "--plant" : "the plant model", ml->model_diff);
   printf ("\nMargins of the loop L(z) = z^-%d C(z) P(z) on the data, found between the points\n",
-          lp->compute_delay);
+          ml->compute_delay);
   printf ("  %-26s %-20s %s\n", "gain crossover (rad/s)", "phase margin (deg)",
           "between (rad/s)");
   if (mm->n_gain == 0)
@@ -176,8 +186,9 @@ print_text (const char *file, const char *kind, const LwCliLoop *lp, size_t n_us
   if (mm->crossover_below_data)
     printf ("  caution: |L| < 1 at the lowest measured frequency: a gain crossover may lie "
             "below the data\n");
-  printf ("\nStability, the closed-loop poles and the time responses need a model: fit one to "
-          "the data, or give --plant.\n");
+  if (closing)
+    printf ("\nStability, the closed-loop poles and the time responses need a model: fit one "
+            "to the data, or give --plant.\n");
 }
 
 void
@@ -234,31 +245,45 @@ lw_cli_measured_loop_build (const char *cmd, const LwCliLoopArgs *loop,
       lw_cli_loop_clear (&ml->lp);
       return status;
     }
+  const LwCliMeasuredInput in = { ml->lp.period_s, ml->lp.dead_time_s, ml->lp.compute_delay,
+                                  ml->lp.controller_z, ml->has_model ? ml->lp.sampled : NULL };
+  status = lw_cli_measured_loop_close (ml, &in, m->file);
+  if (status != LW_EXIT_OK)
+    lw_cli_measured_loop_clear (ml);
+  return status;
+}
+
+int
+lw_cli_measured_loop_close (LwCliMeasuredLoop *ml, const LwCliMeasuredInput *in,
+                            const char *place)
+{
   size_t n = ml->data->n, bad = 0;
+  ml->period_s = in->period_s;
+  ml->compute_delay = in->compute_delay;
+  ml->has_model = in->sampled != NULL;
+  ml->model_diff = NAN;
   ml->omega = g_new (double, n);
   ml->p = g_new (double complex, n);
   ml->l = g_new (double complex, n);
   LwError err;
   lw_error_clear (&err);
-  const LwCliLoop *lp = &ml->lp;
-  if (lw_measured_sampled_response (ml->data, ml->kind, lp->period_s, lp->dead_time_s,
+  if (lw_measured_sampled_response (ml->data, ml->kind, in->period_s, in->dead_time_s,
                                     ml->omega, ml->p, &ml->n, &bad, &err) != LW_OK)
     {
-      fprintf (stderr, "%s: %s\n", m->file, err.message);
-      lw_cli_measured_loop_clear (ml);
+      fprintf (stderr, "%s: %s\n", place, err.message);
       return LW_EXIT_BAD_INPUT;
     }
   for (size_t i = 0; i < ml->n; i++)
     {
-      double complex z = cexp (I * ml->omega[i] * lp->period_s);
-      ml->l[i] = cpow (z, -lp->compute_delay) * lw_model_eval (lp->controller_z, z) * ml->p[i];
+      double complex z = cexp (I * ml->omega[i] * in->period_s);
+      ml->l[i] = cpow (z, -in->compute_delay) * lw_model_eval (in->controller_z, z) * ml->p[i];
     }
-  if (ml->has_model)
+  if (in->sampled != NULL)
     {
       ml->model_diff = 0.0;
       for (size_t i = 0; i < ml->n; i++)
         {
-          double complex pm = lw_sampled_plant_response (lp->sampled, ml->omega[i]);
+          double complex pm = lw_sampled_plant_response (in->sampled, ml->omega[i]);
           ml->model_diff = fmax (ml->model_diff, cabs (pm - ml->p[i]) / cabs (ml->p[i]));
         }
     }
@@ -268,11 +293,46 @@ lw_cli_measured_loop_build (const char *cmd, const LwCliLoopArgs *loop,
                                      &err);
   if (st != LW_OK)
     {
-      fprintf (stderr, "%s: %s\n", m->file, err.message);
-      lw_cli_measured_loop_clear (ml);
+      fprintf (stderr, "%s: %s\n", place, err.message);
       return st == LW_ERR_NOMEM ? LW_EXIT_INTERNAL : LW_EXIT_BAD_INPUT;
     }
   return LW_EXIT_OK;
+}
+
+void
+lw_cli_measured_json (JsonBuilder *b, const LwCliMeasuredLoop *ml, const char *file)
+{
+  const LwMeasuredMargins *mm = &ml->mm;
+  json_builder_begin_object (b);
+  json_builder_set_member_name (b, "file");
+  g_autofree char *shown = g_filename_display_name (file);
+  json_builder_add_string_value (b, shown);
+  json_builder_set_member_name (b, "kind");
+  json_builder_add_string_value (b, kind_word (ml->kind));
+  json_builder_set_member_name (b, "points");
+  json_builder_add_int_value (b, (gint64) ml->data->n);
+  json_builder_set_member_name (b, "points_below_nyquist");
+  json_builder_add_int_value (b, (gint64) ml->n);
+  json_builder_set_member_name (b, "note");
+  json_builder_add_string_value (b, ml->note);
+  add_crossings (b, "gain_crossovers_rad_s", "phase_margins_deg",
+                 "gain_crossover_intervals_rad_s", "gain_crossover_low_coherence", mm->gain,
+                 mm->n_gain);
+  add_crossings (b, "phase_crossovers_rad_s", "gain_margins_db",
+                 "phase_crossover_intervals_rad_s", "phase_crossover_low_coherence",
+                 mm->phase, mm->n_phase);
+  json_builder_set_member_name (b, "crossover_above_data");
+  json_builder_add_boolean_value (b, mm->crossover_above_data);
+  json_builder_set_member_name (b, "crossover_below_data");
+  json_builder_add_boolean_value (b, mm->crossover_below_data);
+  member_number (b, "model_relative_difference", ml->model_diff);
+  json_builder_end_object (b);
+}
+
+void
+lw_cli_measured_json_loop (JsonBuilder *b, const LwCliMeasuredLoop *ml)
+{
+  add_loop (b, &ml->mm, ml->period_s);
 }
 
 int
@@ -283,42 +343,17 @@ lw_cli_measured_analyze (const char *cmd, const LwCliLoopArgs *loop, const LwCli
   int status = lw_cli_measured_loop_build (cmd, loop, m, &ml);
   if (status != LW_EXIT_OK)
     return status;
-  const LwMeasuredMargins *mm = &ml.mm;
   if (!json)
-    print_text (m->file, m->kind, &ml.lp, ml.n, ml.data->n, ml.omega, mm, ml.note,
-                ml.model_diff);
+    lw_cli_measured_print (&ml, m->file, TRUE);
   else
     {
       g_autoptr (JsonBuilder) b = json_builder_new ();
       json_builder_begin_object (b);
-      member_number (b, "sample_period_s", ml.lp.period_s);
+      member_number (b, "sample_period_s", ml.period_s);
       json_builder_set_member_name (b, "loop");
-      add_loop (b, mm, ml.lp.period_s);
+      lw_cli_measured_json_loop (b, &ml);
       json_builder_set_member_name (b, "measured");
-      json_builder_begin_object (b);
-      json_builder_set_member_name (b, "file");
-      g_autofree char *shown = g_filename_display_name (m->file);
-      json_builder_add_string_value (b, shown);
-      json_builder_set_member_name (b, "kind");
-      json_builder_add_string_value (b, m->kind);
-      json_builder_set_member_name (b, "points");
-      json_builder_add_int_value (b, (gint64) ml.data->n);
-      json_builder_set_member_name (b, "points_below_nyquist");
-      json_builder_add_int_value (b, (gint64) ml.n);
-      json_builder_set_member_name (b, "note");
-      json_builder_add_string_value (b, ml.note);
-      add_crossings (b, "gain_crossovers_rad_s", "phase_margins_deg",
-                     "gain_crossover_intervals_rad_s", "gain_crossover_low_coherence", mm->gain,
-                     mm->n_gain);
-      add_crossings (b, "phase_crossovers_rad_s", "gain_margins_db",
-                     "phase_crossover_intervals_rad_s", "phase_crossover_low_coherence",
-                     mm->phase, mm->n_phase);
-      json_builder_set_member_name (b, "crossover_above_data");
-      json_builder_add_boolean_value (b, mm->crossover_above_data);
-      json_builder_set_member_name (b, "crossover_below_data");
-      json_builder_add_boolean_value (b, mm->crossover_below_data);
-      member_number (b, "model_relative_difference", ml.model_diff);
-      json_builder_end_object (b);
+      lw_cli_measured_json (b, &ml, m->file);
       json_builder_end_object (b);
       JsonNode *root = json_builder_get_root (b);
       char *text = lw_cli_json_to_text (root);
@@ -378,7 +413,7 @@ lw_cli_measured_figure (const LwCliMeasuredLoop *ml, LwCliMeasuredFigure *f)
       f->phase_deg[i] = i == 0 ? a - 360.0 * ceil (a / 360.0)
                                : f->phase_deg[i - 1]
                                  + remainder (a - f->phase_deg[i - 1], 360.0);
-      f->nu[i] = lw_warp_omega_to_nu (ml->omega[i], ml->lp.period_s);
+      f->nu[i] = lw_warp_omega_to_nu (ml->omega[i], ml->period_s);
       f->re[i] = creal (ml->l[i]);
       f->im[i] = cimag (ml->l[i]);
     }
@@ -390,7 +425,7 @@ lw_cli_measured_figure (const LwCliMeasuredLoop *ml, LwCliMeasuredFigure *f)
       f->cross[i] = crossing_point (f, ml->omega, n, i < ng ? &ml->mm.gain[i]
                                                              : &ml->mm.phase[i - ng]);
       f->cross_w[i] = f->cross[i];
-      f->cross_w[i].freq_rad_s = lw_warp_omega_to_nu (f->cross[i].freq_rad_s, ml->lp.period_s);
+      f->cross_w[i].freq_rad_s = lw_warp_omega_to_nu (f->cross[i].freq_rad_s, ml->period_s);
     }
   f->name = g_strdup_printf ("measured (%s%s)", ml->kind == LW_MEASURED_SAMPLED ? "sampled"
                                                                                 : "continuous",

@@ -8,7 +8,11 @@
 
 #include <glib.h>
 
+#include <json-glib/json-glib.h>
+
 #include "lw-cli-common.h"
+#include "lw-design.h"
+#include "lw-engine.h"
 #include "lw-measured.h"
 #include "lw-plot.h"
 
@@ -40,13 +44,14 @@ void lw_cli_measured_args_clear (LwCliMeasuredArgs *a);
  * limit); a refusal is printed as FILE:LINE:COLUMN: message. Returns the exit status. */
 int lw_cli_measured_read (const char *file, LwMeasured **out, char *note, size_t note_size);
 
-/* The loop on the data: the loop options checked (a plant of 1 standing in when --plant is
- * not given), the table read, the sampled plant at the points below pi/T (n of them), L there,
- * its margins; with --plant, the largest relative difference of the model's sampled response
- * from the data's. Returns the exit status (the message printed). */
+/* The loop on the data: the sampled plant at the points below pi/T (n of them), L there, its
+ * margins; with a model, the largest relative difference of the model's sampled response from
+ * the data's. */
 typedef struct
 {
-  LwCliLoop lp;
+  LwCliLoop lp;               /* the loop options (lw_cli_measured_loop_build); else unused */
+  double period_s;            /* the loop the data were closed by */
+  int compute_delay;
   gboolean has_model;
   LwMeasuredKind kind;
   LwMeasured *data;
@@ -58,9 +63,38 @@ typedef struct
   double model_diff;
 } LwCliMeasuredLoop;
 
+/* From the command line: the loop options checked (a plant of 1 standing in when --plant is
+ * not given), the table read, the loop closed as by lw_cli_measured_loop_close. Returns the
+ * exit status (the message printed). */
 int lw_cli_measured_loop_build (const char *cmd, const LwCliLoopArgs *loop,
                                 const LwCliMeasuredArgs *m, LwCliMeasuredLoop *out);
 void lw_cli_measured_loop_clear (LwCliMeasuredLoop *ml);
+
+/* What closing the loop on the data needs of a loop: no plant (the data are the plant), the
+ * model's sampled plant only to compare it with the data. */
+typedef struct
+{
+  double period_s;
+  double dead_time_s;         /* applied to continuous data only */
+  int compute_delay;
+  const LwModel *controller_z;
+  const LwSampledPlant *sampled;  /* the model's; NULL: no model to compare */
+} LwCliMeasuredInput;
+
+/* Closes the loop in on ml->data (of ml->kind, ml->note set by the caller): fills the rest
+ * of ml. place names the data in messages. Returns the exit status (the message printed);
+ * on failure the caller clears ml. */
+int lw_cli_measured_loop_close (LwCliMeasuredLoop *ml, const LwCliMeasuredInput *in,
+                                const char *place);
+
+/* The text section of the loop on the data, label naming the data; closing: end with the
+ * line on what needs a model (when there is none). */
+void lw_cli_measured_print (const LwCliMeasuredLoop *ml, const char *label, gboolean closing);
+
+/* The JSON "measured" object (file: where the table was read) and the loop block with the
+ * keys of a model's (lw_cli_json_add_loop), each as one value of b. */
+void lw_cli_measured_json (JsonBuilder *b, const LwCliMeasuredLoop *ml, const char *file);
+void lw_cli_measured_json_loop (JsonBuilder *b, const LwCliMeasuredLoop *ml);
 
 /* The data's loop as a variant of a figure (Bode in z and w, Nyquist, Nichols; no time
  * responses or poles): its arrays are owned here. */
@@ -80,5 +114,19 @@ void lw_cli_measured_figure_clear (LwCliMeasuredFigure *f);
  * compared with the data's), prints text or JSON. Returns the exit status. */
 int lw_cli_measured_analyze (const char *cmd, const LwCliLoopArgs *loop,
                              const LwCliMeasuredArgs *m, gboolean json);
+
+/* `new --measured FILE.csv --measured-kind KIND`: the table read and put into d (analysis
+ * "model", no unstable poles stated, the file's name as the source); nothing when neither
+ * option is given. Returns the exit status (the message printed). */
+int lw_cli_measured_doc_set (LwDesign *d, const LwCliMeasuredArgs *m);
+
+/* `analyze FILE.lwd` of variant evaluation e: when d holds a measurement, the loop of e
+ * (period, dead time, computation delay, controller in z) closed on the data, the model's
+ * sampled plant compared with them; added to the JSON object root as its "measured" member
+ * (the keys of analyze --measured, plus source, analysis, open_loop_unstable_poles; with
+ * analysis="data" the "loop" member becomes the data's), or (root NULL) printed as a section
+ * of the text report. Returns the exit status. */
+int lw_cli_measured_doc_analyze (const char *file, const LwDesign *d, const LwVariantEval *e,
+                                 JsonObject *root);
 
 G_END_DECLS

@@ -476,6 +476,13 @@ analyze_loop_run (const AnalyzeArgs *a, const AnalyzeSpec *spec, const LwVariant
           json_object_set_member (json_node_get_object (root), "requirements",
                                   json_builder_get_root (b));
           g_object_unref (b);
+          int status = lw_cli_measured_doc_analyze (a->files[0], design, e,
+                                                    json_node_get_object (root));
+          if (status != LW_EXIT_OK)
+            {
+              json_node_unref (root);
+              return status;
+            }
         }
       *json = root;
     }
@@ -491,6 +498,7 @@ analyze_loop_run (const AnalyzeArgs *a, const AnalyzeSpec *spec, const LwVariant
         {
           printf ("\nRequirements of the design\n");
           lw_cli_doc_print_requirements (design, e->requirements);
+          return lw_cli_measured_doc_analyze (a->files[0], design, e, NULL);
         }
     }
   return LW_EXIT_OK;

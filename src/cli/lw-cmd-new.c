@@ -10,6 +10,7 @@
 #include "lw-cli-commands.h"
 #include "lw-cli-common.h"
 #include "lw-cli-doc.h"
+#include "lw-cli-measured.h"
 
 static const char new_help[] =
   "Usage: " LW_CLI_PROG " new --plant EXPR --period SECONDS [options] > FILE.lwd\n"
@@ -23,14 +24,20 @@ static const char new_help[] =
   "  --compute-delay N        computation delay in whole samples, 0 to 1000 (default 1)\n"
   "  --dead-time SECONDS      plant input dead time in seconds, >= 0 (default 0)\n"
   "  --title TEXT             the design's title (default: empty)\n"
+  "  --measured FILE.csv      a measured frequency response of the plant, kept in the\n"
+  "                           document as <measured> (docs/file-format.md)\n"
+  "  --measured-kind KIND     sampled or continuous (required with --measured;\n"
+  "                           docs/measured-data.md)\n"
   "  --out FILE               write FILE (atomically) instead of standard output\n"
   "  -h, --help               show this help\n"
   "\n"
-  "Exit status: 0 success, 2 bad input, 1 internal failure (the file could not be written).\n";
+  "Exit status: 0 success, 2 bad input (also a document over 8 MiB), 1 internal failure\n"
+  "(the file could not be written).\n";
 
 typedef struct
 {
   LwCliLoopArgs loop;
+  LwCliMeasuredArgs measured;
   char *title;
   char *out;
   gboolean help;
@@ -58,14 +65,19 @@ new_run (void *data)
         }
       lw_design_set_string (&d->title, a->title);
     }
+  status = lw_cli_measured_doc_set (d, &a->measured);
+  if (status != LW_EXIT_OK)
+    return status;
   GError *error = NULL;
   if (a->out != NULL)
     {
       if (!lw_design_save_file (d, a->out, &error))
         {
           lw_cli_bad_input ("--out", "%s", error->message);
+          /* a document too large to be read back (a long measured table) is bad input */
+          int code = error->code == LW_DESIGN_ERROR_LIMIT ? LW_EXIT_BAD_INPUT : LW_EXIT_INTERNAL;
           g_error_free (error);
-          return LW_EXIT_INTERNAL;
+          return code;
         }
       return LW_EXIT_OK;
     }
@@ -91,12 +103,14 @@ lw_cmd_new (int argc, char **argv)
     { "compute-delay", 0, 0, G_OPTION_ARG_FILENAME, &a.loop.compute_delay, NULL, NULL },
     { "dead-time", 0, 0, G_OPTION_ARG_FILENAME, &a.loop.dead_time, NULL, NULL },
     { "title", 0, 0, G_OPTION_ARG_STRING, &a.title, NULL, NULL },
+    LW_CLI_MEASURED_ENTRIES (&a.measured),
     { "out", 0, 0, G_OPTION_ARG_FILENAME, &a.out, NULL, NULL },
     { "help", 'h', 0, G_OPTION_ARG_NONE, &a.help, NULL, NULL },
     { NULL, 0, 0, 0, NULL, NULL, NULL }
   };
   int status = lw_cli_run_command ("new", argc, argv, entries, &a.help, new_help, new_run, &a);
   lw_cli_loop_args_clear (&a.loop);
+  lw_cli_measured_args_clear (&a.measured);
   g_free (a.title);
   g_free (a.out);
   return status;

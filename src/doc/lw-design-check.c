@@ -109,6 +109,8 @@ lw_design_validate (const LwDesign *d, GError **error)
                    LW_DESIGN_MAX_COMPUTE_DELAY, d->compute_delay);
       return FALSE;
     }
+  if (!lw_design_check_measured (d, error))
+    return FALSE;
   if (d->n_requirements > LW_DESIGN_MAX_REQUIREMENTS)
     {
       g_set_error (error, LW_DESIGN_ERROR, LW_DESIGN_ERROR_LIMIT,

@@ -362,6 +362,14 @@ lw_load_missing (Reader *r, const xmlNode *parent, const xmlNode *at, const char
   return lw_load_fail (r, parent, LW_DESIGN_ERROR_SCHEMA, ": the required element <%s> is missing", name);
 }
 
+/* A <measured> anywhere but right after <sampling>, or a second one. */
+static bool
+misplaced_measured (Reader *r, const xmlNode *c)
+{
+  return lw_load_fail (r, c, LW_DESIGN_ERROR_SCHEMA, ": unexpected here; a design holds at most "
+                       "one <measured>, right after <sampling>");
+}
+
 LwDesign *
 lw_load_read_design (Reader *r, const xmlNode *root)
 {
@@ -455,6 +463,16 @@ lw_load_read_design (Reader *r, const xmlNode *root)
   if (r->error != NULL)
     return NULL;
 
+  /* <measured kind="…">table</measured> */
+  if (lw_load_is_element (c, "measured"))
+    {
+      if (!lw_load_read_measured (r, c, d))
+        return NULL;
+      c = lw_load_next_element (r, root, c->next);
+      if (r->error != NULL)
+        return NULL;
+    }
+
   if (lw_load_is_element (c, "requirements"))
     {
       static const char *const none[] = { NULL };
@@ -471,8 +489,11 @@ lw_load_read_design (Reader *r, const xmlNode *root)
         return NULL;
     }
 
+  if (lw_load_is_element (c, "measured"))
+    return misplaced_measured (r, c), NULL;
   if (!lw_load_is_element (c, "variants"))
-    return lw_load_missing (r, root, c, "variants", "<sampling> and <requirements>"), NULL;
+    return lw_load_missing (r, root, c, "variants", "<sampling>, <measured> and <requirements>"),
+           NULL;
   static const char *const variants_attrs[] = { "active", NULL };
   if (!lw_load_check_attributes (r, c, "", variants_attrs))
     return NULL;
@@ -511,6 +532,8 @@ lw_load_read_design (Reader *r, const xmlNode *root)
       if (r->error != NULL)
         return NULL;
     }
+  if (lw_load_is_element (c, "measured"))
+    return misplaced_measured (r, c), NULL;
   if (c != NULL)
     return lw_load_fail (r, c, LW_DESIGN_ERROR_SCHEMA, ": unexpected element in <design> (after "
                  "<variants> only <view> may follow)"), NULL;

@@ -81,6 +81,10 @@ bool
 lw_load_missing (Reader *r, const xmlNode *parent, const xmlNode *at, const char *name,
                  const char *after);
 
+/* <measured>: its attributes and its table into d (lw-design-measured.c) */
+bool
+lw_load_read_measured (Reader *r, const xmlNode *e, LwDesign *d);
+
 LwDesign *
 lw_load_read_design (Reader *r, const xmlNode *root);
 

@@ -47,3 +47,10 @@ gboolean lw_doc_rule_ok (LwNumRule rule, double v);
 
 /* The schema text (NUL-terminated) compiled into the program. */
 const char *lw_doc_schema_text (size_t *len);
+
+/* <measured> (lw-design-measured.c): the checks before a save, and the element written in its
+ * canonical form (nothing when the design holds no measurement; attr_text writes one escaped
+ * attribute). */
+gboolean lw_design_check_measured (const LwDesign *d, GError **error);
+void lw_design_write_measured (GString *o, const LwDesign *d,
+                               void (*attr_text) (GString *, const char *, const char *));

@@ -136,6 +136,7 @@ lw_design_to_text (const LwDesign *d, size_t *len_out, GError **error)
   attr_number (o, "period_s", d->period_s);
   attr_text (o, "hold", "zero-order");
   g_string_append_printf (o, " compute_delay_samples=\"%d\"/>\n", d->compute_delay);
+  lw_design_write_measured (o, d, attr_text);
 
   if (d->n_requirements > 0)
     {
@@ -252,6 +253,16 @@ lw_design_to_text (const LwDesign *d, size_t *len_out, GError **error)
       g_string_append (o, "/>\n");
     }
   g_string_append (o, "</design>\n");
+  if (o->len > LW_DESIGN_MAX_BYTES)
+    {
+      /* a file the loader would refuse is not written (a long measured table makes one) */
+      g_set_error (error, LW_DESIGN_ERROR, LW_DESIGN_ERROR_LIMIT,
+                   "the document would be %zu bytes, more than the limit of %u bytes (8 MiB) "
+                   "a document may have%s", o->len, LW_DESIGN_MAX_BYTES,
+                   d->measured != NULL ? "; keep fewer points of the measured response" : "");
+      g_string_free (o, TRUE);
+      return NULL;
+    }
   if (len_out != NULL)
     *len_out = o->len;
   return g_string_free (o, FALSE);

@@ -5,6 +5,7 @@
  */
 #include "config.h"
 
+#include <complex.h>
 #include <errno.h>
 #include <fcntl.h>
 #include <math.h>
@@ -110,14 +111,16 @@ lw_design_view_name_problem (const char *name)
   return NULL;
 }
 
-const char *
-lw_design_unit_problem (const char *s)
+/* the rules of a short label (a unit, a source): 1 … max bytes of text without tabs or line
+ * breaks, no space at either end; too_long: the sentence for more than max bytes */
+static const char *
+label_problem (const char *s, size_t max, const char *too_long)
 {
   size_t n = strlen (s);
   if (n == 0)
     return "it is empty";
-  if (n > LW_DESIGN_UNIT_MAX)
-    return "it is longer than 32 bytes";
+  if (n > max)
+    return too_long;
   const char *problem = lw_design_text_problem (s);
   if (problem != NULL)
     return problem;
@@ -126,6 +129,18 @@ lw_design_unit_problem (const char *s)
   if (s[0] == ' ' || s[n - 1] == ' ')
     return "it starts or ends with a space";
   return NULL;
+}
+
+const char *
+lw_design_unit_problem (const char *s)
+{
+  return label_problem (s, LW_DESIGN_UNIT_MAX, "it is longer than 32 bytes");
+}
+
+const char *
+lw_design_source_problem (const char *s)
+{
+  return label_problem (s, LW_DESIGN_SOURCE_MAX, "it is longer than 200 bytes");
 }
 
 const char *
@@ -186,6 +201,8 @@ lw_design_free (LwDesign *d)
     variant_clear (&d->variants[i]);
   g_free (d->variants);
   g_strfreev (d->views);
+  lw_measured_free (d->measured);
+  g_free (d->measured_source);
   g_free (d);
 }
 
@@ -202,6 +219,10 @@ lw_design_copy (const LwDesign *d)
   c->input_unit = g_strdup (d->input_unit);
   c->output_unit = g_strdup (d->output_unit);
   c->views = g_strdupv (d->views);
+  c->measured_source = g_strdup (d->measured_source);
+  c->measured = lw_measured_copy (d->measured);
+  if (d->measured != NULL && c->measured == NULL)
+    g_error ("out of memory copying the measured table of a design");
   c->requirements = g_new0 (LwDesignRequirement, d->n_requirements);
   for (size_t i = 0; i < d->n_requirements; i++)
     {
@@ -301,11 +322,33 @@ stage_equal (const LwStage *a, const LwStage *b)
   return true;
 }
 
+/* Equal tables and attributes of <measured> (numbers compared with ==). */
+static bool
+measured_equal (const LwDesign *a, const LwDesign *b)
+{
+  const LwMeasured *x = a->measured, *y = b->measured;
+  if (x == NULL || y == NULL)
+    return x == y;
+  if (a->measured_kind != b->measured_kind || a->measured_analysis != b->measured_analysis
+      || !str_equal (a->measured_source, b->measured_source)
+      || a->measured_unstable_poles != b->measured_unstable_poles || x->n != y->n
+      || (x->coherence == NULL) != (y->coherence == NULL))
+    return false;
+  for (size_t i = 0; i < x->n; i++)
+    if (x->omega_rad_s[i] != y->omega_rad_s[i] || creal (x->h[i]) != creal (y->h[i])
+        || cimag (x->h[i]) != cimag (y->h[i])
+        || (x->coherence != NULL && x->coherence[i] != y->coherence[i]))
+      return false;
+  return true;
+}
+
 bool
 lw_design_equal (const LwDesign *a, const LwDesign *b)
 {
   if (a == NULL || b == NULL)
     return a == b;
+  if (!measured_equal (a, b))
+    return false;
   if (!str_equal (a->title, b->title) || !str_equal (a->author, b->author)
       || !str_equal (a->notes, b->notes) || !str_equal (a->plant, b->plant)
       || !str_equal (a->input_unit, b->input_unit) || !str_equal (a->output_unit, b->output_unit)

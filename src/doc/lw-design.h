@@ -3,7 +3,8 @@
  *
  * A design holds its title, author and notes; the plant as the expression in s the user typed
  * (kept as text, parsed on load only to report errors) and its input dead time; the sampling
- * (period, hold, computation delay in whole samples); the requirements; one or more variants,
+ * (period, hold, computation delay in whole samples); optionally a measured frequency response
+ * of the plant (the table, its kind, which of model and data the analysis uses); the requirements; one or more variants,
  * each with a name, notes, an optional sample period of its own (to compare loop rates) and its ordered compensator stages (lw-stage.h) with their on/off
  * state; which variant is active; and optional view settings (frequency range, visible views).
  *
@@ -35,6 +36,7 @@
 
 #include <glib.h>
 
+#include "lw-measured.h"
 #include "lw-require.h"
 #include "lw-stage.h"
 
@@ -97,6 +99,27 @@ const char *lw_design_response_name (unsigned i);
  * else a sentence saying what is wrong (a static string). */
 const char *lw_design_unit_problem (const char *s);
 
+/* Which of the two the design's analysis uses when it holds a measurement (<measured
+ * analysis="…">): the plant model or the measured data. */
+typedef enum
+{
+  LW_DESIGN_ANALYSIS_MODEL = 0,   /* "model" (default) */
+  LW_DESIGN_ANALYSIS_DATA         /* "data" */
+} LwDesignAnalysis;
+
+/* Longest source text of a measurement, in bytes; most unstable open-loop poles stated. */
+#define LW_DESIGN_SOURCE_MAX 200
+#define LW_DESIGN_MAX_UNSTABLE_POLES 1000
+
+/* NULL when s can be the source of a measurement: the rules of lw_design_unit_problem with
+ * 1 … LW_DESIGN_SOURCE_MAX bytes; else a sentence saying what is wrong (a static string). */
+const char *lw_design_source_problem (const char *s);
+
+/* The document's words for a kind of measurement ("sampled", "continuous") and for an
+ * analysis choice ("model", "data"); NULL for an unknown value. */
+const char *lw_design_measured_kind_name (LwMeasuredKind kind);
+const char *lw_design_analysis_name (LwDesignAnalysis a);
+
 /* Longest view name a document holds, in bytes. */
 #define LW_DESIGN_VIEW_NAME_MAX 32
 
@@ -145,6 +168,14 @@ typedef struct
   double period_s;            /* sample period T, > 0, s */
   LwHold hold;
   int compute_delay;          /* computation delay N, whole samples, 0 … 1000 */
+  /* the measured frequency response kept in the document (<measured>, the table read by
+   * lw_measured_parse: at least LW_MEASURED_MIN_POINTS points, ω > 0 increasing, values
+   * finite, coherence in [0, 1]); NULL: none, and the four fields after it unused */
+  LwMeasured *measured;
+  LwMeasuredKind measured_kind;
+  LwDesignAnalysis measured_analysis;
+  char *measured_source;      /* where the data came from (lw_design_source_problem); NULL */
+  int measured_unstable_poles;/* open-loop poles outside the unit circle, 0 … 1000 */
   size_t n_requirements;
   LwDesignRequirement *requirements;
   size_t n_variants;          /* >= 1 in a valid design */
@@ -212,7 +243,8 @@ LwDesign *lw_design_load_data (const char *data, size_t len, const char *name,
                                GError **error);
 
 /* The canonical text of a validated design (NUL-terminated; *len_out, if not NULL, gets its
- * length). NULL with an error when lw_design_validate fails. g_free the result. */
+ * length). NULL with an error when lw_design_validate fails, or (LW_DESIGN_ERROR_LIMIT) when
+ * the text would be over LW_DESIGN_MAX_BYTES, which the loader refuses. g_free the result. */
 char *lw_design_to_text (const LwDesign *d, size_t *len_out, GError **error);
 
 /* Writes the canonical text atomically to path (see the top of this file). The new file gets

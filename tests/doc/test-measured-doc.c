@@ -1,0 +1,402 @@
+/* test-measured-doc.c — a measured frequency response kept in a design document
+ * (<measured>, docs/file-format.md):
+ *   * a literal document (tests/doc/measured-pump.lwd) loads to its literal values and saves
+ *     back to its own bytes (the canonical form);
+ *   * tables of awkward doubles (random bit patterns of every exponent, −0, subnormals, the
+ *     largest finite) survive save → load bit for bit, and a second save gives the same bytes;
+ *   * copy and equality see every value of the table and every attribute (undo relies on an
+ *     exact copy);
+ *   * a refused table is placed at the document's line, also after a comment with line
+ *     breaks inside the element; the checks before a save; the 8 MiB limit on what is saved.
+ *
+ * Usage: test-measured-doc SOURCE-ROOT
+ *
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ */
+#include <setjmp.h>
+#include <stdarg.h>
+#include <stddef.h>
+#include <stdint.h>
+
+#include <cmocka.h>
+
+#include <complex.h>
+#include <float.h>
+#include <locale.h>
+#include <math.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+
+#include <glib.h>
+
+#include "lw-design.h"
+
+static const char *source_root;
+
+static LwDesign *
+load_text (const char *text, size_t len)
+{
+  GError *error = NULL;
+  LwDesign *d = lw_design_load_data (text, len, "measured.lwd", &error);
+  if (d == NULL)
+    fail_msg ("did not load: %s", error->message);
+  return d;
+}
+
+static char *
+text_ok (const LwDesign *d, size_t *len)
+{
+  GError *error = NULL;
+  char *t = lw_design_to_text (d, len, &error);
+  if (t == NULL)
+    fail_msg ("to_text failed: %s", error->message);
+  return t;
+}
+
+static LwMeasured *
+table_new (size_t n, bool coherence)
+{
+  /* lw_measured_free releases with free() */
+  LwMeasured *m = calloc (1, sizeof *m);
+  assert_non_null (m);
+  m->n = n;
+  m->omega_rad_s = malloc (n * sizeof *m->omega_rad_s);
+  m->h = malloc (n * sizeof *m->h);
+  m->coherence = coherence ? malloc (n * sizeof *m->coherence) : NULL;
+  assert_true (m->omega_rad_s != NULL && m->h != NULL && (!coherence || m->coherence != NULL));
+  return m;
+}
+
+/* A finite double from random bits (any exponent, subnormals included). */
+static double
+random_double (GRand *r)
+{
+  for (;;)
+    {
+      uint64_t bits = ((uint64_t) g_rand_int (r) << 32) | g_rand_int (r);
+      double v;
+      memcpy (&v, &bits, sizeof v);
+      if (isfinite (v))
+        return v;
+    }
+}
+
+static bool
+same_bits (double a, double b)
+{
+  return memcmp (&a, &b, sizeof a) == 0;
+}
+
+/* ---- the literal document ------------------------------------------------------------------ */
+
+static void
+test_literal (void **state)
+{
+  (void) state;
+  g_autofree char *path = g_build_filename (source_root, "tests", "doc", "measured-pump.lwd",
+                                            NULL);
+  g_autofree char *file = NULL;
+  gsize file_len = 0;
+  assert_true (g_file_get_contents (path, &file, &file_len, NULL));
+  g_autoptr (LwDesign) d = load_text (file, file_len);
+  assert_non_null (d->measured);
+  assert_int_equal (d->measured_kind, LW_MEASURED_CONTINUOUS);
+  assert_int_equal (d->measured_analysis, LW_DESIGN_ANALYSIS_DATA);
+  assert_string_equal (d->measured_source, "pump rig, sweep 3.csv");
+  assert_int_equal (d->measured_unstable_poles, 2);
+  const LwMeasured *m = d->measured;
+  assert_int_equal (m->n, 10);
+  assert_non_null (m->coherence);
+  /* the literals of the file: each is the shortest text of its double, so == holds */
+  assert_true (m->omega_rad_s[0] == 0.5 && creal (m->h[0]) == 2.45 && cimag (m->h[0]) == -0.5
+               && m->coherence[0] == 1.0);
+  assert_true (m->omega_rad_s[5] == 16.0 && creal (m->h[5]) == -0.1 && cimag (m->h[5]) == -0.5
+               && m->coherence[5] == 0.9);
+  assert_true (m->omega_rad_s[9] == 256.0 && creal (m->h[9]) == -0.0008
+               && cimag (m->h[9]) == -0.002 && m->coherence[9] == 0.0);
+  size_t len = 0;
+  g_autofree char *t = text_ok (d, &len);
+  assert_int_equal (len, file_len);
+  assert_memory_equal (t, file, len);
+
+  /* the defaults: analysis "model", no source, 0 unstable poles; written out in full */
+  d->measured_analysis = LW_DESIGN_ANALYSIS_MODEL;
+  g_clear_pointer (&d->measured_source, g_free);
+  d->measured_unstable_poles = 0;
+  g_autofree char *t2 = text_ok (d, NULL);
+  assert_non_null (strstr (t2, "  <measured kind=\"continuous\" analysis=\"model\" "
+                               "open_loop_unstable_poles=\"0\">\nfrequency_rad_s,real,imag,"
+                               "coherence\n0.5,2.45,-0.5,1\n"));
+  g_autofree char *plain = g_strdup (file);
+  char *at = strstr (plain, " analysis=\"data\" source=\"pump rig, sweep 3.csv\" "
+                            "open_loop_unstable_poles=\"2\"");
+  assert_non_null (at);
+  memmove (at, at + strlen (" analysis=\"data\" source=\"pump rig, sweep 3.csv\" "
+                            "open_loop_unstable_poles=\"2\""),
+           strlen (at) + 1 - strlen (" analysis=\"data\" source=\"pump rig, sweep 3.csv\" "
+                                     "open_loop_unstable_poles=\"2\""));
+  g_autoptr (LwDesign) d2 = load_text (plain, strlen (plain));
+  assert_int_equal (d2->measured_analysis, LW_DESIGN_ANALYSIS_MODEL);
+  assert_null (d2->measured_source);
+  assert_int_equal (d2->measured_unstable_poles, 0);
+  assert_true (lw_design_equal (d, d2));
+}
+
+/* ---- round trips ---------------------------------------------------------------------------- */
+
+static void
+round_trip (bool coherence, guint32 seed)
+{
+  g_autoptr (GRand) r = g_rand_new_with_seed (seed);
+  g_autoptr (LwDesign) d = lw_design_new ("1/(s*(s+1))", 0.001);
+  size_t n = 500;
+  LwMeasured *m = table_new (n, coherence);
+  /* frequencies: increasing, awkward (the smallest subnormal first, the largest finite last) */
+  m->omega_rad_s[0] = 4.9406564584124654e-324;
+  for (size_t i = 1; i + 1 < n; i++)
+    m->omega_rad_s[i] = ldexp (1.0 + g_rand_double (r), (int) i - 250) + 0.0;
+  m->omega_rad_s[n - 1] = DBL_MAX;
+  for (size_t i = 0; i < n; i++)
+    {
+      double re = random_double (r), im = random_double (r);
+      if (i == 3)
+        re = -0.0, im = 0.0;
+      if (i == 4)
+        re = DBL_MIN / 3.0, im = -DBL_MAX;
+      m->h[i] = CMPLX (re, im);
+      if (coherence)
+        m->coherence[i] = i == 0 ? 0.0 : i == 1 ? 1.0 : g_rand_double (r);
+    }
+  d->measured = m;
+  d->measured_kind = coherence ? LW_MEASURED_SAMPLED : LW_MEASURED_CONTINUOUS;
+  d->measured_analysis = LW_DESIGN_ANALYSIS_DATA;
+  lw_design_set_string (&d->measured_source, "bench «3» & <sweep> \"a\"");
+  d->measured_unstable_poles = 1000;
+
+  size_t len1 = 0, len2 = 0;
+  g_autofree char *t1 = text_ok (d, &len1);
+  g_autoptr (LwDesign) back = load_text (t1, len1);
+  assert_non_null (back->measured);
+  assert_int_equal (back->measured->n, n);
+  assert_true ((back->measured->coherence != NULL) == coherence);
+  for (size_t i = 0; i < n; i++)
+    {
+      const LwMeasured *b = back->measured;
+      if (!same_bits (b->omega_rad_s[i], m->omega_rad_s[i])
+          || !same_bits (creal (b->h[i]), creal (m->h[i]))
+          || !same_bits (cimag (b->h[i]), cimag (m->h[i]))
+          || (coherence && !same_bits (b->coherence[i], m->coherence[i])))
+        fail_msg ("point %zu: %.17g %.17g %.17g read back as %.17g %.17g %.17g", i,
+                  m->omega_rad_s[i], creal (m->h[i]), cimag (m->h[i]), b->omega_rad_s[i],
+                  creal (b->h[i]), cimag (b->h[i]));
+    }
+  assert_int_equal (back->measured_kind, d->measured_kind);
+  assert_int_equal (back->measured_analysis, LW_DESIGN_ANALYSIS_DATA);
+  assert_string_equal (back->measured_source, d->measured_source);
+  assert_int_equal (back->measured_unstable_poles, 1000);
+  assert_true (lw_design_equal (d, back));
+  /* canonical: the second save is the first, byte for byte */
+  g_autofree char *t2 = text_ok (back, &len2);
+  assert_int_equal (len1, len2);
+  assert_memory_equal (t1, t2, len1);
+}
+
+static void
+test_round_trip (void **state)
+{
+  (void) state;
+  round_trip (true, 20261204);
+  round_trip (false, 7);
+}
+
+/* ---- copy and equality ---------------------------------------------------------------------- */
+
+static void
+test_copy_equal (void **state)
+{
+  (void) state;
+  g_autofree char *path = g_build_filename (source_root, "tests", "doc", "measured-pump.lwd",
+                                            NULL);
+  g_autofree char *file = NULL;
+  gsize len = 0;
+  assert_true (g_file_get_contents (path, &file, &len, NULL));
+  g_autoptr (LwDesign) d = load_text (file, len);
+  for (int change = 0; change < 10; change++)
+    {
+      g_autoptr (LwDesign) c = lw_design_copy (d);
+      assert_true (c->measured != d->measured && lw_design_equal (d, c));
+      LwMeasured *m = c->measured;
+      switch (change)
+        {
+        case 0: m->omega_rad_s[9] = nextafter (m->omega_rad_s[9], INFINITY); break;
+        case 1: m->h[4] = CMPLX (nextafter (creal (m->h[4]), 0.0), cimag (m->h[4])); break;
+        case 2: m->h[4] = CMPLX (creal (m->h[4]), nextafter (cimag (m->h[4]), 0.0)); break;
+        case 3: m->coherence[2] = 0.5; break;
+        case 4: free (m->coherence); m->coherence = NULL; break;
+        case 5: c->measured_kind = LW_MEASURED_SAMPLED; break;
+        case 6: c->measured_analysis = LW_DESIGN_ANALYSIS_MODEL; break;
+        case 7: lw_design_set_string (&c->measured_source, "pump rig, sweep 4.csv"); break;
+        case 8: c->measured_unstable_poles = 0; break;
+        default: lw_measured_free (c->measured); c->measured = NULL; break;
+        }
+      if (lw_design_equal (d, c) || lw_design_equal (c, d))
+        fail_msg ("change %d not seen by lw_design_equal", change);
+    }
+}
+
+/* ---- places of refusals, checks before saving, the size limit ------------------------------- */
+
+static void
+expect_error (const char *doc, int code, const char *substring)
+{
+  GError *error = NULL;
+  LwDesign *d = lw_design_load_data (doc, strlen (doc), "measured.lwd", &error);
+  if (d != NULL)
+    fail_msg ("loaded; expected an error containing '%s'", substring);
+  if (error->code != code || strstr (error->message, substring) == NULL)
+    fail_msg ("error %d '%s'; expected code %d containing '%s'", error->code, error->message,
+              code, substring);
+  g_error_free (error);
+}
+
+static const char head[] =
+  "<?xml version=\"1.0\" encoding=\"UTF-8\"?>\n"
+  "<design xmlns=\"urn:loopwright:design\" version=\"1\">\n"
+  "  <title>places</title>\n"
+  "  <plant>1/(s+1)</plant>\n"
+  "  <sampling period_s=\"0.1\"/>\n";               /* lines 1 … 5 */
+static const char tail[] =
+  "  </measured>\n"
+  "  <variants><variant name=\"a\"/></variants>\n"
+  "</design>\n";
+
+static void
+test_places (void **state)
+{
+  (void) state;
+  /* the element on line 6 with a comment over lines 6 … 8, the header on line 9, rows from
+   * line 10: the bad field on the 13th row is on line 22, the table's line 17 */
+  GString *doc = g_string_new (head);
+  g_string_append (doc, "  <measured kind=\"sampled\"><!-- measured on\nthe bench\n-->\n"
+                        "frequency_rad_s,real,imag\n");
+  for (int i = 1; i <= 20; i++)
+    g_string_append_printf (doc, i == 13 ? "%d,0.5,0x1p3\n" : "%d,0.5,-0.5\n", i);
+  g_string_append (doc, tail);
+  expect_error (doc->str, LW_DESIGN_ERROR_VALUE,
+                "measured.lwd:22: <measured>: the table (line 17 of its text, column 3): imag "
+                "\"0x1p3\" is not a number");
+  g_string_free (doc, TRUE);
+
+  /* an empty element: the table is refused as empty, at the element's line */
+  g_autofree char *empty = g_strconcat (head, "  <measured kind=\"continuous\"/>\n", tail + 14,
+                                        NULL);
+  expect_error (empty, LW_DESIGN_ERROR_VALUE, "measured.lwd:6: <measured>: the table (line 1 "
+                "of its text): the table is empty");
+  /* an element inside the table */
+  g_autofree char *child = g_strconcat (head, "  <measured kind=\"continuous\"><title/>\n", tail,
+                                        NULL);
+  expect_error (child, LW_DESIGN_ERROR_SCHEMA, "measured.lwd:6: <measured>: holds the table as "
+                "text only, found the element <title>");
+  /* kind is required */
+  g_autofree char *no_kind = g_strconcat (head, "  <measured>\n", tail, NULL);
+  expect_error (no_kind, LW_DESIGN_ERROR_SCHEMA, "measured.lwd:6: <measured>: attribute 'kind' "
+                "is required");
+  /* a source of more than 200 bytes */
+  g_autofree char *long_source = g_strnfill (201, 'x');
+  g_autofree char *source = g_strdup_printf ("%s  <measured kind=\"sampled\" source=\"%s\">\n%s",
+                                             head, long_source, tail);
+  expect_error (source, LW_DESIGN_ERROR_VALUE, "longer than 200 bytes");
+  /* between <plant> and <sampling> */
+  g_autofree char *before = g_strdup (
+    "<?xml version=\"1.0\" encoding=\"UTF-8\"?>\n"
+    "<design xmlns=\"urn:loopwright:design\" version=\"1\">\n"
+    "  <title>places</title>\n"
+    "  <plant>1/(s+1)</plant>\n"
+    "  <measured kind=\"sampled\">\n  </measured>\n"
+    "  <sampling period_s=\"0.1\"/>\n"
+    "  <variants><variant name=\"a\"/></variants>\n"
+    "</design>\n");
+  expect_error (before, LW_DESIGN_ERROR_SCHEMA, "measured.lwd:5: <measured>: unexpected here; "
+                "expected <sampling>");
+}
+
+static void
+test_checks_before_save (void **state)
+{
+  (void) state;
+  for (int bad = 0; bad < 7; bad++)
+    {
+      g_autoptr (LwDesign) d = lw_design_new ("1/(s+1)", 0.1);
+      d->measured = table_new (12, true);
+      for (size_t i = 0; i < 12; i++)
+        {
+          d->measured->omega_rad_s[i] = (double) (i + 1);
+          d->measured->h[i] = CMPLX (1.0, -1.0);
+          d->measured->coherence[i] = 0.5;
+        }
+      GError *error = NULL;
+      assert_true (lw_design_validate (d, &error));
+      switch (bad)
+        {
+        case 0: d->measured->omega_rad_s[5] = d->measured->omega_rad_s[4]; break;
+        case 1: d->measured->h[2] = CMPLX (NAN, 0.0); break;
+        case 2: d->measured->coherence[0] = 1.5; break;
+        case 3: d->measured->n = 9; break;
+        case 4: d->measured_unstable_poles = 1001; break;
+        case 5: lw_design_set_string (&d->measured_source, ""); break;
+        default: d->measured_kind = (LwMeasuredKind) 7; break;
+        }
+      if (lw_design_validate (d, &error))
+        fail_msg ("bad table %d validated", bad);
+      assert_null (lw_design_to_text (d, NULL, NULL));
+      g_error_free (error);
+    }
+}
+
+/* A table whose canonical text is over 8 MiB is not written: the loader would refuse it. */
+static void
+test_size_limit (void **state)
+{
+  (void) state;
+  g_autoptr (LwDesign) d = lw_design_new ("1/(s+1)", 0.1);
+  size_t n = 200000;   /* rows of about 60 bytes: 12 MB */
+  d->measured = table_new (n, false);
+  for (size_t i = 0; i < n; i++)
+    {
+      d->measured->omega_rad_s[i] = 1.0 + (double) i * 0.1234567891234567;
+      d->measured->h[i] = CMPLX (0.1234567891234567, -0.9876543219876543);
+    }
+  GError *error = NULL;
+  assert_null (lw_design_to_text (d, NULL, &error));
+  assert_int_equal (error->code, LW_DESIGN_ERROR_LIMIT);
+  assert_non_null (strstr (error->message, "more than the limit of 8388608 bytes"));
+  g_error_free (error);
+  /* a tenth of it is written and reads back */
+  d->measured->n = n / 10;
+  size_t len = 0;
+  g_autofree char *t = text_ok (d, &len);
+  g_autoptr (LwDesign) back = load_text (t, len);
+  assert_true (lw_design_equal (d, back));
+}
+
+int
+main (int argc, char **argv)
+{
+  if (argc < 2)
+    {
+      fprintf (stderr, "usage: %s SOURCE-ROOT\n", argv[0]);
+      return 2;
+    }
+  source_root = argv[1];
+  setlocale (LC_ALL, "C");
+  const struct CMUnitTest tests[] = {
+    cmocka_unit_test (test_literal),
+    cmocka_unit_test (test_round_trip),
+    cmocka_unit_test (test_copy_equal),
+    cmocka_unit_test (test_places),
+    cmocka_unit_test (test_checks_before_save),
+    cmocka_unit_test (test_size_limit),
+  };
+  return cmocka_run_group_tests (tests, NULL, NULL);
+}
