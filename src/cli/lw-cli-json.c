@@ -5,6 +5,7 @@
 #include "lw-cli-json.h"
 
 #include <math.h>
+#include <stdio.h>
 #include <string.h>
 
 void
@@ -314,4 +315,14 @@ lw_cli_json_to_text (JsonNode *root)
   repair_numbers (raw, out);
   g_string_append_c (out, '\n');
   return g_string_free (out, FALSE);
+}
+
+void
+lw_cli_json_print_builder (JsonBuilder *b)
+{
+  JsonNode *root = json_builder_get_root (b);
+  char *text = lw_cli_json_to_text (root);
+  fputs (text, stdout);
+  g_free (text);
+  json_node_unref (root);
 }

@@ -78,4 +78,8 @@ JsonNode *lw_cli_json_analysis (const LwEvaluation *ev, const LwStep *step,
  * the invalid token "1e+20.0"; this function repairs such tokens so the text is valid JSON. */
 char *lw_cli_json_to_text (JsonNode *root);
 
+/* Prints the builder's root (an object or array it has ended) as lw_cli_json_to_text does, to
+ * stdout. */
+void lw_cli_json_print_builder (JsonBuilder *b);
+
 G_END_DECLS

@@ -355,11 +355,7 @@ lw_cli_measured_analyze (const char *cmd, const LwCliLoopArgs *loop, const LwCli
       json_builder_set_member_name (b, "measured");
       lw_cli_measured_json (b, &ml, m->file);
       json_builder_end_object (b);
-      JsonNode *root = json_builder_get_root (b);
-      char *text = lw_cli_json_to_text (root);
-      fputs (text, stdout);
-      g_free (text);
-      json_node_unref (root);
+      lw_cli_json_print_builder (b);
     }
   lw_cli_measured_loop_clear (&ml);
   return LW_EXIT_OK;

@@ -149,11 +149,7 @@ fit_run (void *arg)
                                          - data->h[i]) / cabs (data->h[i]));
       json_builder_end_array (b);
       json_builder_end_object (b);
-      JsonNode *root = json_builder_get_root (b);
-      char *text = lw_cli_json_to_text (root);
-      fputs (text, stdout);
-      g_free (text);
-      json_node_unref (root);
+      lw_cli_json_print_builder (b);
     }
   lw_model_free (model);
   lw_measured_free (data);

@@ -108,11 +108,7 @@ print_json (const LwDesign *d, const LwProposal *p, gboolean with_doc)
       json_builder_add_string_value (b, e->error->message);
     }
   json_builder_end_object (b);
-  JsonNode *root = json_builder_get_root (b);
-  char *text = lw_cli_json_to_text (root);
-  fputs (text, stdout);
-  g_free (text);
-  json_node_unref (root);
+  lw_cli_json_print_builder (b);
   g_object_unref (b);
 }
 
