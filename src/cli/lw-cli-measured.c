@@ -257,45 +257,27 @@ int
 lw_cli_measured_loop_close (LwCliMeasuredLoop *ml, const LwCliMeasuredInput *in,
                             const char *place)
 {
-  size_t n = ml->data->n, bad = 0;
   ml->period_s = in->period_s;
   ml->compute_delay = in->compute_delay;
   ml->has_model = in->sampled != NULL;
-  ml->model_diff = NAN;
-  ml->omega = g_new (double, n);
-  ml->p = g_new (double complex, n);
-  ml->l = g_new (double complex, n);
+  LwMeasuredLoop loop;
   LwError err;
   lw_error_clear (&err);
-  if (lw_measured_sampled_response (ml->data, ml->kind, in->period_s, in->dead_time_s,
-                                    ml->omega, ml->p, &ml->n, &bad, &err) != LW_OK)
-    {
-      fprintf (stderr, "%s: %s\n", place, err.message);
-      return LW_EXIT_BAD_INPUT;
-    }
-  for (size_t i = 0; i < ml->n; i++)
-    {
-      double complex z = cexp (I * ml->omega[i] * in->period_s);
-      ml->l[i] = cpow (z, -in->compute_delay) * lw_model_eval (in->controller_z, z) * ml->p[i];
-    }
-  if (in->sampled != NULL)
-    {
-      ml->model_diff = 0.0;
-      for (size_t i = 0; i < ml->n; i++)
-        {
-          double complex pm = lw_sampled_plant_response (in->sampled, ml->omega[i]);
-          ml->model_diff = fmax (ml->model_diff, cabs (pm - ml->p[i]) / cabs (ml->p[i]));
-        }
-    }
-  /* the points kept are the table's first n (frequencies increase), so its coherence column
-   * lines up */
-  LwStatus st = lw_measured_margins (ml->omega, ml->l, ml->data->coherence, ml->n, &ml->mm,
-                                     &err);
+  LwStatus st = lw_measured_loop_close (ml->data, ml->kind, in->period_s, in->dead_time_s,
+                                        in->compute_delay, in->controller_z, in->sampled, &loop,
+                                        &err);
   if (st != LW_OK)
     {
       fprintf (stderr, "%s: %s\n", place, err.message);
       return st == LW_ERR_NOMEM ? LW_EXIT_INTERNAL : LW_EXIT_BAD_INPUT;
     }
+  /* the arrays (malloc'd by the core; g_free is free) pass to ml */
+  ml->n = loop.n;
+  ml->omega = loop.omega_rad_s;
+  ml->p = loop.p;
+  ml->l = loop.l;
+  ml->mm = loop.margins;
+  ml->model_diff = loop.model_diff;
   return LW_EXIT_OK;
 }
 

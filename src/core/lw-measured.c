@@ -6,6 +6,8 @@
  */
 #include "lw-measured.h"
 
+#include "lw-analysis.h"
+
 #include <math.h>
 #include <stdint.h>
 #include <stdlib.h>
@@ -223,4 +225,65 @@ lw_measured_margins (const double *omega, const double complex *l, const double 
       return lw_error_set (err, st, -1, "out of memory");
     }
   return LW_OK;
+}
+
+void
+lw_measured_loop_clear (LwMeasuredLoop *l)
+{
+  if (l == NULL)
+    return;
+  lw_measured_margins_clear (&l->margins);
+  free (l->omega_rad_s);
+  free (l->p);
+  free (l->l);
+  memset (l, 0, sizeof *l);
+  l->model_diff = NAN;
+}
+
+LwStatus
+lw_measured_loop_close (const LwMeasured *m, LwMeasuredKind kind, double period_s,
+                        double dead_time_s, int compute_delay, const LwModel *controller_z,
+                        const struct LwSampledPlant *model, LwMeasuredLoop *out, LwError *err)
+{
+  memset (out, 0, sizeof *out);
+  out->model_diff = NAN;
+  if (m == NULL || controller_z == NULL || compute_delay < 0)
+    return lw_error_set (err, LW_ERR_INVALID, -1, "no data or no controller");
+  size_t n = m->n, bad = 0;
+  if (n == 0 || n > SIZE_MAX / sizeof (double complex))
+    return lw_error_set (err, LW_ERR_INVALID, -1, "no measured points");
+  out->omega_rad_s = malloc (n * sizeof *out->omega_rad_s);
+  out->p = malloc (n * sizeof *out->p);
+  out->l = malloc (n * sizeof *out->l);
+  if (out->omega_rad_s == NULL || out->p == NULL || out->l == NULL)
+    {
+      lw_measured_loop_clear (out);
+      return lw_error_set (err, LW_ERR_NOMEM, -1, "out of memory");
+    }
+  LwStatus st = lw_measured_sampled_response (m, kind, period_s, dead_time_s, out->omega_rad_s,
+                                              out->p, &out->n, &bad, err);
+  if (st != LW_OK)
+    {
+      lw_measured_loop_clear (out);
+      return st;
+    }
+  for (size_t i = 0; i < out->n; i++)
+    {
+      double complex z = cexp (I * out->omega_rad_s[i] * period_s);
+      out->l[i] = cpow (z, -compute_delay) * lw_model_eval (controller_z, z) * out->p[i];
+    }
+  if (model != NULL)
+    {
+      out->model_diff = 0.0;
+      for (size_t i = 0; i < out->n; i++)
+        {
+          double complex pm = lw_sampled_plant_response (model, out->omega_rad_s[i]);
+          out->model_diff = fmax (out->model_diff, cabs (pm - out->p[i]) / cabs (out->p[i]));
+        }
+    }
+  /* the points kept are the table's first n (frequencies increase): its coherence lines up */
+  st = lw_measured_margins (out->omega_rad_s, out->l, m->coherence, out->n, &out->margins, err);
+  if (st != LW_OK)
+    lw_measured_loop_clear (out);
+  return st;
 }

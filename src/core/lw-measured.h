@@ -111,6 +111,27 @@ LwStatus lw_measured_margins (const double *omega_rad_s, const double complex *l
                               LwError *err);
 void lw_measured_margins_clear (LwMeasuredMargins *m);
 
+/* The loop closed on the data: the sampled plant P at the measured points below π/T (n of
+ * them), L = z^−N·C(z)·P there (z = e^{jωT}), its crossovers and margins (coherence of the
+ * table's first n points), and with a model the largest relative difference of the model's
+ * sampled response from P (NAN without one). */
+typedef struct {
+  size_t n;
+  double *omega_rad_s;
+  double complex *p;
+  double complex *l;
+  LwMeasuredMargins margins;
+  double model_diff;
+} LwMeasuredLoop;
+
+struct LwSampledPlant;
+LwStatus lw_measured_loop_close (const LwMeasured *m, LwMeasuredKind kind, double period_s,
+                                 double dead_time_s, int compute_delay,
+                                 const LwModel *controller_z,
+                                 const struct LwSampledPlant *model, LwMeasuredLoop *out,
+                                 LwError *err);
+void lw_measured_loop_clear (LwMeasuredLoop *l);
+
 /* Rational fit in s of the given order (poles; zeros up to order − relative_degree) to a
  * continuous response h at omega, by vector fitting (Gustavsen and Semlyen 1999, with
  * relaxation), weights w (NULL: 1/|h|, relative error). New model in s on success. The
