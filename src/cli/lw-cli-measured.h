@@ -96,18 +96,6 @@ void lw_cli_measured_print (const LwCliMeasuredLoop *ml, const char *label, gboo
 void lw_cli_measured_json (JsonBuilder *b, const LwCliMeasuredLoop *ml, const char *file);
 void lw_cli_measured_json_loop (JsonBuilder *b, const LwCliMeasuredLoop *ml);
 
-/* The data's loop as a variant of a figure (Bode in z and w, Nyquist, Nichols; no time
- * responses or poles): its arrays are owned here. */
-typedef struct
-{
-  LwPlotVariant variant;
-  char *name;
-  double *mag_db, *phase_deg, *nu, *re, *im;
-  LwPlotCrossover *cross, *cross_w;
-} LwCliMeasuredFigure;
-
-void lw_cli_measured_figure (const LwCliMeasuredLoop *ml, LwCliMeasuredFigure *f);
-void lw_cli_measured_figure_clear (LwCliMeasuredFigure *f);
 
 /* `analyze` on the data: reads and checks the file, builds the loop from the loop options
  * (--plant optional: when given, the model's sampled response at the measured points is

@@ -17,6 +17,7 @@
 #include "lw-cli-common.h"
 #include "lw-cli-doc.h"
 #include "lw-cli-measured.h"
+#include "lw-figure-measured.h"
 #include "lw-figure-data.h"
 #include "lw-plot-export.h"
 #include "lw-plot.h"
@@ -454,9 +455,7 @@ plot_run_measured (const PlotArgs *a)
   int status = plot_options_check (a, &spec);
   if (status != LW_EXIT_OK)
     return status;
-  unsigned needs = lw_plot_view_info (spec.view)->needs;
-  if (needs & ~(unsigned) (LW_PLOT_NEEDS_Z | LW_PLOT_NEEDS_W | LW_PLOT_NEEDS_NYQUIST
-                           | LW_PLOT_NEEDS_NYQUIST_RATE))
+  if (!lw_figure_measured_view_ok (spec.view))
     {
       lw_cli_bad_input ("--view", "%s needs a model (time responses or poles); measured data "
                         "draw in the frequency views", a->view);
@@ -466,8 +465,10 @@ plot_run_measured (const PlotArgs *a)
   status = lw_cli_measured_loop_build ("plot", &a->loop, &a->measured, &ml);
   if (status != LW_EXIT_OK)
     return status;
-  LwCliMeasuredFigure fig;
-  lw_cli_measured_figure (&ml, &fig);
+  /* the CLI's loop as the core's, for the shared figure */
+  LwMeasuredLoop loop = { ml.n, ml.omega, ml.p, ml.l, ml.mm, ml.model_diff };
+  LwFigureMeasured fig;
+  lw_figure_measured_fill (&fig, &loop, ml.kind, ml.data->coherence, ml.lp.period_s);
   LwVariantEval *e = NULL;
   if (ml.has_model)
     {
@@ -487,7 +488,7 @@ plot_run_measured (const PlotArgs *a)
     }
   if (e != NULL)
     lw_variant_eval_unref (e);
-  lw_cli_measured_figure_clear (&fig);
+  lw_figure_measured_clear (&fig);
   lw_cli_measured_loop_clear (&ml);
   return status;
 }

@@ -254,6 +254,13 @@ eval_clear (gpointer data)
   g_clear_pointer (&e->requirements, g_free);
   g_clear_pointer (&e->input_unit, g_free);
   g_clear_pointer (&e->output_unit, g_free);
+  g_clear_error (&e->measured_error);
+  g_clear_pointer (&e->measured_coherence, g_free);
+  if (e->measured != NULL)
+    {
+      lw_measured_loop_clear (e->measured);
+      g_clear_pointer (&e->measured, g_free);
+    }
   e->sampled = NULL;
   g_clear_pointer (&p->shared, shared_plant_release);
 }
@@ -511,6 +518,24 @@ lw_engine_evaluate_variant (const LwDesign *d, size_t variant, const LwEngineOpt
   eval_loop (p, &vo);
   if (e->failure != LW_EVAL_OK)
     return e;
+  if (d->measured != NULL)
+    {
+      /* the loop on the data, beside the model's (not judged yet: the requirements below are
+       * the model's whatever <measured analysis> says) */
+      e->measured_kind = d->measured_kind;
+      e->measured = g_new0 (LwMeasuredLoop, 1);
+      if (lw_measured_loop_close (d->measured, d->measured_kind, e->period_s, e->dead_time_s,
+                                  e->compute_delay, e->controller_z, e->sampled, e->measured,
+                                  &err) != LW_OK)
+        {
+          g_clear_pointer (&e->measured, g_free);
+          e->measured_error = g_error_new_literal (LW_ENGINE_ERROR, err.code, err.message);
+          lw_error_clear (&err);
+        }
+      else if (d->measured->coherence != NULL)
+        e->measured_coherence = g_memdup2 (d->measured->coherence,
+                                           e->measured->n * sizeof (double));
+    }
 
   /* each requirement's verdict; without achieved figures every one is not available */
   e->n_requirements = d->n_requirements;

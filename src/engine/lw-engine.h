@@ -27,6 +27,7 @@
 
 #include "lw-analysis.h"
 #include "lw-design.h"
+#include "lw-measured.h"
 #include "lw-model.h"
 #include "lw-require.h"
 #include "lw-simulate.h"
@@ -176,6 +177,15 @@ typedef struct
    * NULL when not given or without a document */
   char *input_unit;
   char *output_unit;
+  /* the design's measured response (<measured>) with this variant's controller, period,
+   * computation delay and dead time: the loop closed on the data (lw_measured_loop_close),
+   * the table's kind and a copy of the coherence of the points used (NULL when the table has
+   * none); measured NULL without a measurement, or when it cannot be used at this period
+   * (measured_error says why) */
+  LwMeasuredLoop *measured;
+  LwMeasuredKind measured_kind;
+  double *measured_coherence;
+  GError *measured_error;
 } LwVariantEval;
 
 /* Evaluates variant `variant` of d. cache (may be NULL) keeps the sampled plant between

@@ -5,6 +5,7 @@
 #pragma once
 
 #include "lw-figure-data.h"
+#include "lw-figure-measured.h"
 #include "lw-plot-area.h"
 #include "lw-plot-pane.h"
 
@@ -25,6 +26,8 @@ typedef struct
   LwFigureVariant fv;
   char *name;
   gboolean used;
+  gboolean has_measured;           /* the design's measured response closed by this variant's */
+  LwFigureMeasured measured;       /* controller (eval->measured), drawn beside its loop */
 } FigureEntry;
 
 struct _LwPlotArea
@@ -70,3 +73,9 @@ void lwpa_pane_menu_pressed (GtkGestureClick *gesture, int n_press, double x, do
 gboolean lwpa_pane_menu_key (GtkEventControllerKey *k, guint keyval, guint keycode,
                              GdkModifierType state, gpointer data);
 void lwpa_pane_view_activated (GtkWidget *widget, const char *action, GVariant *param);
+
+/* lw-plot-area-views.c: the variants of a view with the measured data after them when the
+ * view draws data (view −1: for the key) — into out, at most LW_PLOT_MAX_VARIANTS; returns
+ * the count */
+guint lwpa_with_measured (const LwPlotVariant *vars, guint n, const LwPlotVariant *measured,
+                          int view, LwPlotVariant *out);

@@ -275,3 +275,34 @@ lwpa_pane_view_changed (LwPlotPane *pane, double lo, double hi, LwPlotArea *self
     }
   self->linking = FALSE;
 }
+
+guint
+lwpa_with_measured (const LwPlotVariant *vars, guint n, const LwPlotVariant *measured, int view,
+                    LwPlotVariant *out)
+{
+  n = MIN (n, LW_PLOT_MAX_VARIANTS);
+  memcpy (out, vars, n * sizeof *vars);
+  if (measured == NULL || n >= LW_PLOT_MAX_VARIANTS
+      || (view >= 0 && !lw_figure_measured_view_ok (view)))
+    return n;
+  out[n] = *measured;
+  /* the key then names the model's line too, when its variant goes unnamed */
+  for (guint i = 0; i < n; i++)
+    if (out[i].name == NULL)
+      out[i].name = _("model");
+  /* the first style none of the variants drawn has (they go by place in the document) */
+  unsigned style = 1;
+  for (gboolean taken = TRUE; taken && style < LW_PLOT_MAX_VARIANTS; )
+    {
+      taken = FALSE;
+      for (guint i = 0; i < n; i++)
+        if (vars[i].style == style || (vars[i].style == 0 && i + 1 == style))
+          {
+            taken = TRUE;
+            style++;
+            break;
+          }
+    }
+  out[n].style = style;
+  return n + 1;
+}

@@ -214,6 +214,8 @@ figure_entry_free (gpointer data)
 {
   FigureEntry *e = data;
   lw_figure_variant_clear (&e->fv);
+  if (e->has_measured)
+    lw_figure_measured_clear (&e->measured);
   g_clear_pointer (&e->eval, lw_variant_eval_unref);
   g_clear_pointer (&e->name, g_free);
   g_free (e);
@@ -221,7 +223,7 @@ figure_entry_free (gpointer data)
 
 /* The figure data of eval named name: the kept one when this evaluation was shown last time,
  * else filled now (eval->sampled must be valid then). NULL with a message in err. */
-static const LwFigureVariant *
+static const FigureEntry *
 figure_for (LwPlotArea *self, LwVariantEval *eval, const char *name, LwError *err)
 {
   for (guint i = 0; i < self->figures->len; i++)
@@ -230,7 +232,7 @@ figure_for (LwPlotArea *self, LwVariantEval *eval, const char *name, LwError *er
       if (e->eval == eval && g_strcmp0 (e->name, name) == 0)
         {
           e->used = TRUE;
-          return &e->fv;
+          return e;
         }
     }
   FigureEntry *e = g_new0 (FigureEntry, 1);
@@ -249,8 +251,14 @@ figure_for (LwPlotArea *self, LwVariantEval *eval, const char *name, LwError *er
   /* the entry's arrays do not change while it lives: a key of its own lets a figure rebuilt
    * during a drag copy this variant's mapped curves from the one before */
   e->fv.v.data_key = ++self->next_data_key;
+  if (eval->measured != NULL)
+    {
+      lw_figure_measured_fill (&e->measured, eval->measured, eval->measured_kind,
+                               eval->measured_coherence, eval->period_s);
+      e->has_measured = TRUE;
+    }
   g_ptr_array_add (self->figures, e);
-  return &e->fv;
+  return e;
 }
 
 static void
@@ -383,12 +391,14 @@ lw_plot_area_show_variants (LwPlotArea *self, const LwAreaVariant *vs, guint n, 
   guint nv = 0, moving = 0;
   const LwFigureVariant *active_fv = NULL;
   const LwPlotVariant *other = NULL;
+  const LwPlotVariant *measured = NULL;   /* the data closed by the active variant's loop */
   for (guint i = 0; i < n && nv < LW_PLOT_MAX_VARIANTS; i++)
     {
       if (vs[i].eval == NULL || vs[i].eval->ev == NULL)
         continue;
       LwError err;
-      const LwFigureVariant *fv = figure_for (self, vs[i].eval, vs[i].name, &err);
+      const FigureEntry *entry = figure_for (self, vs[i].eval, vs[i].name, &err);
+      const LwFigureVariant *fv = entry != NULL ? &entry->fv : NULL;
       if (fv == NULL)
         {
           if (i != active)
@@ -402,6 +412,7 @@ lw_plot_area_show_variants (LwPlotArea *self, const LwAreaVariant *vs, guint n, 
         {
           active_fv = fv;
           moving = nv;
+          measured = entry->has_measured ? &entry->measured.variant : NULL;
         }
       vars[nv] = fv->v;
       vars[nv].style = vs[i].style;
@@ -419,7 +430,10 @@ lw_plot_area_show_variants (LwPlotArea *self, const LwAreaVariant *vs, guint n, 
       set_key (self, two, 2, 0);
     }
   else
-    set_key (self, vars, nv, moving);
+    {
+      LwPlotVariant with[LW_PLOT_MAX_VARIANTS];
+      set_key (self, with, lwpa_with_measured (vars, nv, measured, -1, with), moving);
+    }
 
   for (guint i = 0; i < lwpa_n_area_views; i++)
     {
@@ -427,8 +441,10 @@ lw_plot_area_show_variants (LwPlotArea *self, const LwAreaVariant *vs, guint n, 
       LwPlotPane *pane = self->panes[i];
       gboolean split_row_view = self->split && split_row (self->views[i]) >= 0;
       /* the split view's left column shows the active variant alone */
-      const LwPlotVariant *pv = split_row_view ? &vars[moving] : vars;
-      guint pn = split_row_view ? 1 : nv;
+      LwPlotVariant with[LW_PLOT_MAX_VARIANTS];
+      const LwPlotVariant *pv = split_row_view ? &vars[moving] : with;
+      guint pn = split_row_view ? 1 : lwpa_with_measured (vars, nv, measured,
+                                                          (int) self->views[i], with);
       g_autofree char *title = split_row_view && vars[moving].name != NULL
                                ? g_strdup_printf ("%s \u2014 %s", view_title (self->views[i]),
                                                   vars[moving].name)

@@ -1,0 +1,93 @@
+#!/usr/bin/python3
+"""A design document holding a measured response shows it in the window: a document made by
+`loopwright-cli new --measured` from a table written here with scipy (the continuous response
+of an invented belt axis with a resonance its model lacks, a coherence column dipping at the
+resonance) and given a gain and a lead opens with the data's loop drawn beside the model's in
+the frequency views (the window's debug line LW-SERIES: two series in bode-z, bode-w and
+nyquist) and not in the step view (one series: the data have no time response). The numbers
+on the data are the core's (lw_measured_loop_close), checked against the model that made the
+data in tests/core/test-measured.c and tests/cli/test-cli-measured*.py.
+
+Usage: test-measured.py LOOPWRIGHT CLI SCHEMA_DIR ARTEFACT_DIR
+Re-runs itself on an Xvfb server of its own (lwgui.outer; exit 77, skipped, when Xvfb or
+xdotool is missing). The window's output goes to ARTEFACT_DIR/measured.log, a screenshot to
+ARTEFACT_DIR/measured.png.
+"""
+import math
+import os
+import shutil
+import subprocess
+import sys
+import tempfile
+
+import numpy as np
+from scipy import signal
+
+sys.path.insert(0, os.path.dirname(os.path.abspath(__file__)))
+from lwgui import (debug_lines, fail, kill_window, outer, quit_window, settle,  # noqa: E402
+                   start_window, wait_for, window_env)
+
+
+def series(log_path):
+    got = {}
+    for d in debug_lines(log_path, 'LW-SERIES'):
+        got[d['view']] = int(d['variants'])
+    return got
+
+
+def inner(app, cli, schema_dir, artefacts):
+    os.makedirs(artefacts, exist_ok=True)
+    tmp = tempfile.mkdtemp(prefix='lw-test-measured-')
+    try:
+        w = 10 ** np.arange(0, math.log10(3 * math.pi / 0.002), 1 / 50)
+        num = np.polymul([180 * 40000], [1, 2 * 0.04 * 310, 310 ** 2])
+        den = np.polymul(np.polymul([1, 12, 0], [1, 40, 40000]), [1, 2 * 0.08 * 330, 330 ** 2])
+        _, h = signal.freqs(num * (330 ** 2 / 310 ** 2), den, worN=w)
+        table = os.path.join(tmp, 'axis.csv')
+        with open(table, 'w') as f:
+            f.write('frequency_rad_s,real,imag,coherence\n')
+            for wi, hi in zip(w, h):
+                coh = 0.99 - 0.4 * math.exp(-math.log(wi / 310) ** 2 / 0.01)
+                f.write('%.17g,%.17g,%.17g,%.3f\n' % (wi, hi.real, hi.imag, coh))
+        design = os.path.join(tmp, 'axis.lwd')
+        p = subprocess.run([cli, 'new', '--plant', '180*40000/(s*(s+12)*(s^2+40*s+40000))',
+                            '--period', '0.002', '--measured', table, '--measured-kind',
+                            'continuous', '--out', design], capture_output=True, text=True)
+        if p.returncode != 0:
+            fail('new --measured: %s' % p.stderr)
+        text = open(design, encoding='utf-8').read()
+        text = text.replace('<variant name="initial"/>',
+                            '<variant name="initial">\n      <gain ratio="3.4"/>\n'
+                            '      <lead zero_rad_s="15" pole_rad_s="110"/>\n    </variant>')
+        with open(design, 'w', encoding='utf-8') as f:
+            f.write(text)
+        log_path = os.path.join(artefacts, 'measured.log')
+        with open(log_path, 'w') as log_file:
+            proc, wid = start_window(app, design, window_env(schema_dir, tmp), log_file)
+            try:
+                want = {'bode-z': 2, 'bode-w': 2, 'nyquist': 2, 'step': 1}
+                wait_for(lambda: all(series(log_path).get(k) == v for k, v in want.items()),
+                         'the data drawn beside the model (%s)' % want)
+                settle(log_path)
+                subprocess.run(['import', '-window', 'root',
+                                os.path.join(artefacts, 'measured.png')], check=False)
+                print('series per view:', series(log_path))
+                quit_window(proc, wid)
+            finally:
+                kill_window(proc)
+    finally:
+        shutil.rmtree(tmp, ignore_errors=True)
+    print('ok: the document\'s measured response is drawn in the frequency views')
+
+
+def main():
+    if len(sys.argv) != 5:
+        print(__doc__, file=sys.stderr)
+        sys.exit(2)
+    if os.environ.get('LW_TEST_MEASURED_INNER') != '1':
+        outer(__file__, 'LW_TEST_MEASURED_INNER', sys.argv[1:])
+    inner(*sys.argv[1:])
+
+
+if __name__ == '__main__':
+    main()
