@@ -79,3 +79,10 @@ void lwpa_pane_view_activated (GtkWidget *widget, const char *action, GVariant *
  * the count */
 guint lwpa_with_measured (const LwPlotVariant *vars, guint n, const LwPlotVariant *measured,
                           int view, LwPlotVariant *out);
+
+/* lw-plot-area-views.c: the key strip above the panes, naming the variants drawn (shown for
+ * two and more) */
+void lwpa_key_measure (LwPlotArea *self, int width);
+void lwpa_key_resized (GtkDrawingArea *area, int width, int height, LwPlotArea *self);
+void lwpa_key_draw (GtkDrawingArea *area, cairo_t *cr, int width, int height, gpointer user_data);
+void lwpa_set_key (LwPlotArea *self, const LwPlotVariant *vars, guint n, guint active);

@@ -306,3 +306,58 @@ lwpa_with_measured (const LwPlotVariant *vars, guint n, const LwPlotVariant *mea
   out[n].style = style;
   return n + 1;
 }
+
+/* The key's height for the variants it names at width, from a scratch surface. */
+void
+lwpa_key_measure (LwPlotArea *self, int width)
+{
+  if (self->key_n < 2 || width <= 0)
+    return;
+  cairo_surface_t *surf = cairo_image_surface_create (CAIRO_FORMAT_RGB24, 1, 1);
+  cairo_t *cr = cairo_create (surf);
+  double h = lw_plot_draw_key_strip (cr, self->theme, (const char *const *) self->key_names,
+                                     self->key_styles, self->key_n, self->key_active, width);
+  cairo_destroy (cr);
+  cairo_surface_destroy (surf);
+  int hi = (int) ceil (h);
+  if (gtk_drawing_area_get_content_height (self->key) != hi)
+    gtk_drawing_area_set_content_height (self->key, hi);
+}
+
+void
+lwpa_key_resized (GtkDrawingArea *area, int width, int height, LwPlotArea *self)
+{
+  lwpa_key_measure (self, width);
+}
+
+void
+lwpa_key_draw (GtkDrawingArea *area, cairo_t *cr, int width, int height, gpointer user_data)
+{
+  LwPlotArea *self = user_data;
+  lw_plot_draw_key_strip (cr, self->theme, (const char *const *) self->key_names,
+                          self->key_styles, self->key_n, self->key_active, width);
+}
+
+/* The key names the variants drawn (shown for two and more). */
+void
+lwpa_set_key (LwPlotArea *self, const LwPlotVariant *vars, guint n, guint active)
+{
+  gboolean same = n == self->key_n && active == self->key_active;
+  for (guint i = 0; i < n && same; i++)
+    same = g_strcmp0 (vars[i].name, self->key_names[i]) == 0
+           && vars[i].style == self->key_styles[i];
+  if (same)
+    return;
+  for (guint i = 0; i < LW_PLOT_MAX_VARIANTS; i++)
+    g_clear_pointer (&self->key_names[i], g_free);
+  for (guint i = 0; i < n; i++)
+    {
+      self->key_names[i] = g_strdup (vars[i].name);
+      self->key_styles[i] = vars[i].style;
+    }
+  self->key_n = n;
+  self->key_active = active;
+  gtk_widget_set_visible (GTK_WIDGET (self->key), n >= 2);
+  lwpa_key_measure (self, gtk_widget_get_width (GTK_WIDGET (self->key)));
+  gtk_widget_queue_draw (GTK_WIDGET (self->key));
+}

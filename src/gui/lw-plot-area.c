@@ -307,61 +307,6 @@ build_view (LwPlotView view, const LwPlotVariant *vars, guint n, double nyquist_
   return lw_plot_new (&in, error);
 }
 
-/* The key's height for the variants it names at width, from a scratch surface. */
-static void
-key_measure (LwPlotArea *self, int width)
-{
-  if (self->key_n < 2 || width <= 0)
-    return;
-  cairo_surface_t *surf = cairo_image_surface_create (CAIRO_FORMAT_RGB24, 1, 1);
-  cairo_t *cr = cairo_create (surf);
-  double h = lw_plot_draw_key_strip (cr, self->theme, (const char *const *) self->key_names,
-                                     self->key_styles, self->key_n, self->key_active, width);
-  cairo_destroy (cr);
-  cairo_surface_destroy (surf);
-  int hi = (int) ceil (h);
-  if (gtk_drawing_area_get_content_height (self->key) != hi)
-    gtk_drawing_area_set_content_height (self->key, hi);
-}
-
-static void
-key_resized (GtkDrawingArea *area, int width, int height, LwPlotArea *self)
-{
-  key_measure (self, width);
-}
-
-static void
-key_draw (GtkDrawingArea *area, cairo_t *cr, int width, int height, gpointer user_data)
-{
-  LwPlotArea *self = user_data;
-  lw_plot_draw_key_strip (cr, self->theme, (const char *const *) self->key_names,
-                          self->key_styles, self->key_n, self->key_active, width);
-}
-
-/* The key names the variants drawn (shown for two and more). */
-static void
-set_key (LwPlotArea *self, const LwPlotVariant *vars, guint n, guint active)
-{
-  gboolean same = n == self->key_n && active == self->key_active;
-  for (guint i = 0; i < n && same; i++)
-    same = g_strcmp0 (vars[i].name, self->key_names[i]) == 0
-           && vars[i].style == self->key_styles[i];
-  if (same)
-    return;
-  for (guint i = 0; i < LW_PLOT_MAX_VARIANTS; i++)
-    g_clear_pointer (&self->key_names[i], g_free);
-  for (guint i = 0; i < n; i++)
-    {
-      self->key_names[i] = g_strdup (vars[i].name);
-      self->key_styles[i] = vars[i].style;
-    }
-  self->key_n = n;
-  self->key_active = active;
-  gtk_widget_set_visible (GTK_WIDGET (self->key), n >= 2);
-  key_measure (self, gtk_widget_get_width (GTK_WIDGET (self->key)));
-  gtk_widget_queue_draw (GTK_WIDGET (self->key));
-}
-
 void
 lw_plot_area_show_variants (LwPlotArea *self, const LwAreaVariant *vs, guint n, guint active,
                             const LwPlotRequirements *req, const LwStage *stages,
@@ -427,12 +372,12 @@ lw_plot_area_show_variants (LwPlotArea *self, const LwAreaVariant *vs, guint n, 
     {
       /* the split view shows two: the active variant and the first other one */
       LwPlotVariant two[2] = { vars[moving], *other };
-      set_key (self, two, 2, 0);
+      lwpa_set_key (self, two, 2, 0);
     }
   else
     {
       LwPlotVariant with[LW_PLOT_MAX_VARIANTS];
-      set_key (self, with, lwpa_with_measured (vars, nv, measured, -1, with), moving);
+      lwpa_set_key (self, with, lwpa_with_measured (vars, nv, measured, -1, with), moving);
     }
 
   for (guint i = 0; i < lwpa_n_area_views; i++)
@@ -612,7 +557,7 @@ lw_plot_area_set_theme (LwPlotArea *self, LwPlotTheme theme)
   for (guint k = 0; k < lwpa_n_split_views; k++)
     lw_plot_pane_set_theme (self->split_panes[k], theme);
   self->theme = theme;
-  key_measure (self, gtk_widget_get_width (GTK_WIDGET (self->key)));
+  lwpa_key_measure (self, gtk_widget_get_width (GTK_WIDGET (self->key)));
   gtk_widget_queue_draw (GTK_WIDGET (self->key));
 }
 
@@ -675,8 +620,8 @@ lw_plot_area_init (LwPlotArea *self)
                                   GTK_ORIENTATION_VERTICAL);
   self->key = GTK_DRAWING_AREA (gtk_drawing_area_new ());
   gtk_drawing_area_set_content_height (self->key, 20);
-  gtk_drawing_area_set_draw_func (self->key, key_draw, self, NULL);
-  g_signal_connect (self->key, "resize", G_CALLBACK (key_resized), self);
+  gtk_drawing_area_set_draw_func (self->key, lwpa_key_draw, self, NULL);
+  g_signal_connect (self->key, "resize", G_CALLBACK (lwpa_key_resized), self);
   gtk_widget_set_visible (GTK_WIDGET (self->key), FALSE);
   gtk_widget_set_parent (GTK_WIDGET (self->key), GTK_WIDGET (self));
   self->grid = GTK_GRID (gtk_grid_new ());
