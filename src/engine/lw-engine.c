@@ -466,6 +466,32 @@ eval_loop (EvalPrivate *p, const LwEngineOptions *opts)
   return e;
 }
 
+/* <measured analysis="data">: the figures of the frequency response are the data's, so the
+ * requirements on them (phase and gain margin, crossover, sensitivity peak) are judged on the
+ * measured loop; the time-domain figures stay the model's. What the data cannot tell is not
+ * available (never a guess): no loop on the data at this period; no gain crossover in the
+ * data, or |L| >= 1 at its highest point (the governing crossover may lie above it); no phase
+ * crossover in the data (the gain margin is not known to be infinite, as a model's would be). */
+static void
+achieved_from_data (LwAchieved *a, const LwMeasuredLoop *ml)
+{
+  if (ml == NULL)
+    {
+      a->has_phase_margin = a->has_gain_margin = a->has_crossover = a->has_sensitivity = false;
+      return;
+    }
+  const LwMeasuredMargins *m = &ml->margins;
+  bool crossover = m->n_gain > 0 && !m->crossover_above_data;
+  a->has_phase_margin = crossover;
+  a->phase_margin_deg = crossover ? m->phase_margin_deg : NAN;
+  a->has_crossover = crossover;
+  a->crossover_rad_s = crossover ? m->gain_crossover_rad_s : NAN;
+  a->has_gain_margin = m->n_phase > 0;
+  a->gain_margin_db = m->n_phase > 0 ? m->gain_margin_db : NAN;
+  a->has_sensitivity = isfinite (m->sensitivity_peak);
+  a->sensitivity_peak = m->sensitivity_peak;
+}
+
 LwVariantEval *
 lw_engine_evaluate_variant (const LwDesign *d, size_t variant, const LwEngineOptions *opts,
                             LwPlantCache *cache)
@@ -535,6 +561,8 @@ lw_engine_evaluate_variant (const LwDesign *d, size_t variant, const LwEngineOpt
       else if (d->measured->coherence != NULL)
         e->measured_coherence = g_memdup2 (d->measured->coherence,
                                            e->measured->n * sizeof (double));
+      if (d->measured_analysis == LW_DESIGN_ANALYSIS_DATA && e->has_achieved)
+        achieved_from_data (&e->achieved, e->measured);
     }
 
   /* each requirement's verdict; without achieved figures every one is not available */

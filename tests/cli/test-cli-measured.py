@@ -18,6 +18,7 @@ Usage: test-cli-measured.py CLI
 import json
 import math
 import os
+import re
 import subprocess
 import sys
 import tempfile
@@ -219,6 +220,36 @@ def main():
     check(r.returncode == 2 and 'continuous' in r.stderr, 'fit of sampled data refused')
     r = run(cli, 'fit', '--measured', path, '--measured-kind', 'continuous', '--order', '0')
     check(r.returncode == 2 and '--order' in r.stderr, 'order 0 refused')
+    # a document judged on its data (<measured analysis="data">): a phase-margin requirement
+    # between the model's phase margin and the data's passes on the model and fails on the
+    # data (the belt data below hold a resonance the model lacks: PM lower on the data)
+    wb = 10 ** np.arange(0, math.log10(3 * nyq), 1 / 60)
+    _, hb = signal.freqs(np.polymul(NUM, [1, 2 * 0.04 * 310, 310 ** 2]) * (330 ** 2 / 310 ** 2),
+                         np.polymul(DEN, [1, 2 * 0.08 * 330, 330 ** 2]), worN=wb)
+    belt = os.path.join(tmp, 'belt.csv')
+    write_csv(belt, wb, hb, 'complex')
+    doc = os.path.join(tmp, 'belt.lwd')
+    r = run(cli, 'new', '--plant', PLANT, '--period', str(T), '--measured', belt,
+            '--measured-kind', 'continuous', '--out', doc)
+    check(r.returncode == 0, 'new --measured: %s' % r.stderr.strip())
+    data, _ = analyze(cli, '--measured', belt, '--measured-kind', 'continuous')
+    pm_data, pm_model = data['phase_margin_deg'], model['phase_margin_deg']
+    check(pm_data < pm_model - 0.2, 'the belt data lower the PM (%g vs %g)' % (pm_data, pm_model))
+    limit = 0.5 * (pm_data + pm_model)
+    text = open(doc).read()
+    text = text.replace('<variant name="initial"/>',
+                        '<variant name="initial">\n      <gain ratio="3.4"/>\n      '
+                        '<lead zero_rad_s="15" pole_rad_s="110"/>\n    </variant>')
+    text = text.replace('<variants', '<requirements>\n    <phase-margin min_deg="%.6f"/>\n'
+                        '  </requirements>\n  <variants' % limit, 1)
+    for analysis, want in (('model', 0), ('data', 3)):
+        with open(doc, 'w') as f:
+            f.write(re.sub(r'analysis="[a-z]+"', 'analysis="%s"' % analysis, text))
+        r = run(cli, 'check', doc)
+        check(r.returncode == want, 'check with analysis="%s": exit %d, want %d: %s'
+              % (analysis, r.returncode, want, r.stdout + r.stderr))
+        print('check, analysis=%s: exit %d (PM %.4f on the model, %.4f on the data, limit %.4f)'
+              % (analysis, r.returncode, pm_model, pm_data, limit))
     if FAILS:
         sys.exit('%d failures' % len(FAILS))
     print('ok: margins on data agree with the model that made them; bad files refused with '
