@@ -293,3 +293,32 @@ lw_design_model_move_variant (LwDesignModel *self, guint i, int delta)
     d->active = i;
   lw_design_model_emit_variants_changed (self, FALSE);
 }
+
+void
+lw_design_model_set_measured (LwDesignModel *self, LwMeasured *m, LwMeasuredKind kind,
+                              const char *source)
+{
+  g_return_if_fail (LW_IS_DESIGN_MODEL (self));
+  LwDesign *d = self->doc;
+  lw_measured_free (d->measured);
+  d->measured = m;
+  d->measured_kind = kind;
+  /* a source the document could not save (too long, odd characters) is left out */
+  lw_design_set_string (&d->measured_source,
+                        m != NULL && source != NULL && lw_design_source_problem (source) == NULL
+                        ? source : NULL);
+  if (m == NULL)
+    d->measured_analysis = LW_DESIGN_ANALYSIS_MODEL;
+  lw_design_model_emit_changed (self);
+}
+
+void
+lw_design_model_set_measured_analysis (LwDesignModel *self, gboolean on_data)
+{
+  g_return_if_fail (LW_IS_DESIGN_MODEL (self));
+  LwDesignAnalysis a = on_data ? LW_DESIGN_ANALYSIS_DATA : LW_DESIGN_ANALYSIS_MODEL;
+  if (self->doc->measured == NULL || self->doc->measured_analysis == a)
+    return;
+  self->doc->measured_analysis = a;
+  lw_design_model_emit_changed (self);
+}

@@ -146,6 +146,12 @@ gboolean lw_design_model_set_variant_shown (LwDesignModel *self, guint i, unsign
                                             gboolean compared);
 /* The units of the plant's input and output (NULL or empty: none); FALSE (nothing changed)
  * when one cannot be a unit (lw_design_unit_problem). */
+/* The design's measured response: m (taken; NULL removes it) of kind, with where it came from
+ * (source, may be NULL) — one "changed", so one undo step. The analysis choice stays. */
+void lw_design_model_set_measured (LwDesignModel *self, LwMeasured *m, LwMeasuredKind kind,
+                                   const char *source);
+/* Judge the frequency-response requirements on the measured data (TRUE) or the model. */
+void lw_design_model_set_measured_analysis (LwDesignModel *self, gboolean on_data);
 gboolean lw_design_model_set_units (LwDesignModel *self, const char *input_unit,
                                     const char *output_unit);
 /* Removes variant i; FALSE for the last one left. The active index follows its variant, or

@@ -192,6 +192,8 @@ static const Binding bindings[] = {
   { GDK_KEY_s, CTRL, "window.save" },
   { GDK_KEY_s, CTRL_SHIFT, "window.save-as" },
   { GDK_KEY_e, CTRL, "window.export" },
+  { GDK_KEY_m, CTRL_SHIFT, "window.import-measured" },
+  { GDK_KEY_M, CTRL_SHIFT, "window.import-measured" },
   { GDK_KEY_e, CTRL_SHIFT, "window.export-report" },
   { GDK_KEY_E, CTRL_SHIFT, "window.export-report" },
   { GDK_KEY_z, CTRL, "window.undo" },

@@ -151,6 +151,8 @@ LwPlot *lw_window_build_export_plot (LwPlotView view, gpointer user_data, GError
 
 /* lw-window-helpers.c */
 void lw_window_class_init_helpers (GtkWidgetClass *widget_class);
+/* lw-window-measured.c: import, judge on and remove a measured response */
+void lw_window_class_init_measured (GtkWidgetClass *widget_class);
 
 /* lw-window-theme.c */
 void lw_window_init_theme (LwWindow *self);

@@ -559,6 +559,7 @@ lw_window_class_init (LwWindowClass *klass)
   lw_window_class_init_variants (widget_class);
   lw_window_class_init_drag (widget_class);
   lw_window_class_init_helpers (widget_class);
+  lw_window_class_init_measured (widget_class);
   lw_window_class_init_actions (widget_class);   /* the keyboard shortcuts of them all */
 }
 

@@ -8,7 +8,7 @@ nyquist) and not in the step view (one series: the data have no time response). 
 on the data are the core's (lw_measured_loop_close), checked against the model that made the
 data in tests/core/test-measured.c and tests/cli/test-cli-measured*.py.
 
-Usage: test-measured.py LOOPWRIGHT CLI SCHEMA_DIR ARTEFACT_DIR
+Usage: test-measured.py LOOPWRIGHT CLI SCHEMA_DIR EXAMPLE ARTEFACT_DIR
 Re-runs itself on an Xvfb server of its own (lwgui.outer; exit 77, skipped, when Xvfb or
 xdotool is missing). The window's output goes to ARTEFACT_DIR/measured.log, a screenshot to
 ARTEFACT_DIR/measured.png.
@@ -24,8 +24,8 @@ import numpy as np
 from scipy import signal
 
 sys.path.insert(0, os.path.dirname(os.path.abspath(__file__)))
-from lwgui import (debug_lines, fail, kill_window, outer, quit_window, settle,  # noqa: E402
-                   start_window, wait_for, window_env)
+from lwgui import (debug_lines, fail, key, kill_window, outer, quit_window,  # noqa: E402
+                   saved_after, settle, start_window, wait_for, window_env)
 
 
 def series(log_path):
@@ -35,7 +35,7 @@ def series(log_path):
     return got
 
 
-def inner(app, cli, schema_dir, artefacts):
+def inner(app, cli, schema_dir, example, artefacts):
     os.makedirs(artefacts, exist_ok=True)
     tmp = tempfile.mkdtemp(prefix='lw-test-measured-')
     try:
@@ -75,13 +75,42 @@ def inner(app, cli, schema_dir, artefacts):
                 quit_window(proc, wid)
             finally:
                 kill_window(proc)
+
+        # the import, on a copy of an example without a measurement
+        slider = os.path.join(tmp, 'slider.lwd')
+        shutil.copyfile(example, slider)
+        log2 = os.path.join(artefacts, 'measured-import.log')
+        env = window_env(schema_dir, tmp, LW_TEST_MEASURED_CSV=table,
+                         LW_TEST_MEASURED_KIND='continuous')
+        with open(log2, 'w') as log_file:
+            proc, wid = start_window(app, slider, env, log_file)
+            try:
+                wait_for(lambda: series(log2).get('bode-z') == 1, 'the slider\'s Bode view')
+                settle(log2)
+                before = saved_after(wid, slider)
+                if b'<measured' in before:
+                    fail('the example holds a measurement already')
+                key(wid, 'ctrl+shift+m')
+                wait_for(lambda: series(log2).get('bode-z') == 2, 'the imported data drawn')
+                after = saved_after(wid, slider)
+                if b'<measured kind="continuous"' not in after or b'source="axis.csv"' not in after \
+                        or after.count(b'\n') < before.count(b'\n') + len(w):
+                    fail('the saved document does not hold the table: %r'
+                         % after[:600])
+                key(wid, 'ctrl+z')
+                wait_for(lambda: series(log2).get('bode-z') == 1, 'the data gone after Ctrl+Z')
+                if saved_after(wid, slider) != before:
+                    fail('one undo does not give the document as it was')
+                quit_window(proc, wid)
+            finally:
+                kill_window(proc)
     finally:
         shutil.rmtree(tmp, ignore_errors=True)
     print('ok: the document\'s measured response is drawn in the frequency views')
 
 
 def main():
-    if len(sys.argv) != 5:
+    if len(sys.argv) != 6:
         print(__doc__, file=sys.stderr)
         sys.exit(2)
     if os.environ.get('LW_TEST_MEASURED_INNER') != '1':
