@@ -21,16 +21,10 @@ lw_cli_measured_doc_set (LwDesign *d, const LwCliMeasuredArgs *m)
       lw_cli_bad_input ("--measured-kind", "needs --measured FILE.csv");
       return LW_EXIT_BAD_INPUT;
     }
-  if (m->kind == NULL || (strcmp (m->kind, "sampled") != 0 && strcmp (m->kind, "continuous") != 0))
-    {
-      g_autofree char *shown = m->kind != NULL ? g_utf8_make_valid (m->kind, -1) : NULL;
-      if (shown == NULL)
-        lw_cli_bad_input ("--measured-kind", "is required with --measured: sampled or "
-                          "continuous (docs/measured-data.md)");
-      else
-        lw_cli_bad_input ("--measured-kind", "'%s' is neither sampled nor continuous", shown);
-      return LW_EXIT_BAD_INPUT;
-    }
+  LwMeasuredKind kind;
+  int kind_status = lw_cli_measured_kind (m, &kind);
+  if (kind_status != LW_EXIT_OK)
+    return kind_status;
   char note[256];
   LwMeasured *data = NULL;
   int status = lw_cli_measured_read (m->file, &data, note, sizeof note);
@@ -38,8 +32,7 @@ lw_cli_measured_doc_set (LwDesign *d, const LwCliMeasuredArgs *m)
     return status;
   lw_measured_free (d->measured);
   d->measured = data;
-  d->measured_kind = strcmp (m->kind, "sampled") == 0 ? LW_MEASURED_SAMPLED
-                                                      : LW_MEASURED_CONTINUOUS;
+  d->measured_kind = kind;
   d->measured_analysis = LW_DESIGN_ANALYSIS_MODEL;
   d->measured_unstable_poles = 0;
   /* the file's base name as the source, when it is a text the document can hold */
@@ -58,19 +51,24 @@ lw_cli_measured_doc_analyze (const char *file, const LwDesign *d, const LwVarian
 {
   if (d->measured == NULL)
     return LW_EXIT_OK;
+  if (e->measured == NULL)
+    {
+      /* the engine could not close the loop on the data at this variant's period */
+      fprintf (stderr, "%s: <measured>: %s\n", file,
+               e->measured_error != NULL ? e->measured_error->message : "not evaluated");
+      return LW_EXIT_BAD_INPUT;
+    }
+  /* the evaluation's loop on the data, borrowed (the engine closed it with this variant's
+   * controller, period, delay and dead time: the same numbers as analyze --measured) */
   LwCliMeasuredLoop ml;
   memset (&ml, 0, sizeof ml);
   ml.kind = d->measured_kind;
-  ml.data = lw_measured_copy (d->measured);
-  if (ml.data == NULL)
-    {
-      lw_cli_bad_input (file, "out of memory copying the measured table");
-      return LW_EXIT_INTERNAL;
-    }
-  const LwCliMeasuredInput in = { e->period_s, e->dead_time_s, e->compute_delay,
-                                  e->controller_z, e->sampled };
-  g_autofree char *place = g_strdup_printf ("%s: <measured>", file);
-  int status = lw_cli_measured_loop_close (&ml, &in, place);
+  ml.data = d->measured;
+  ml.loop = *e->measured;
+  ml.period_s = e->period_s;
+  ml.compute_delay = e->compute_delay;
+  ml.has_model = TRUE;
+  int status = LW_EXIT_OK;
   gboolean data = d->measured_analysis == LW_DESIGN_ANALYSIS_DATA;
   if (status == LW_EXIT_OK && root != NULL)
     {
@@ -106,6 +104,5 @@ lw_cli_measured_doc_analyze (const char *file, const LwDesign *d, const LwVarian
         printf ("  the design's analysis uses the data (analysis=\"data\"): these margins, not "
                 "the model's above\n");
     }
-  lw_cli_measured_loop_clear (&ml);
-  return status;
+  return status;   /* nothing of ml is its own */
 }

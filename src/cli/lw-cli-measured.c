@@ -122,23 +122,17 @@ add_loop (JsonBuilder *b, const LwMeasuredMargins *mm, double period_s)
   json_builder_end_object (b);
 }
 
-static const char *
-kind_word (LwMeasuredKind kind)
-{
-  return kind == LW_MEASURED_SAMPLED ? "sampled" : "continuous";
-}
-
 /* The text section of the loop on the data; label names the data (a file, a document's
  * <measured>); closing: the last line saying what needs a model. */
 void
 lw_cli_measured_print (const LwCliMeasuredLoop *ml, const char *label, gboolean closing)
 {
-  const LwMeasuredMargins *mm = &ml->mm;
-  const double *omega = ml->omega;
-  size_t n_used = ml->n, n_all = ml->data->n;
+  const LwMeasuredMargins *mm = &ml->loop.margins;
+  const double *omega = ml->loop.omega_rad_s;
+  size_t n_used = ml->loop.n, n_all = ml->data->n;
   double T = ml->period_s;
   printf ("Measured plant: %s (%s), %zu points from %.6g to %.6g rad/s", label,
-          kind_word (ml->kind), n_all, omega[0], omega[n_used - 1]);
+          lw_design_measured_kind_name (ml->kind), n_all, omega[0], omega[n_used - 1]);
   if (n_used < n_all)
     printf (", %zu of them below pi/T", n_used);
   printf ("\n");
@@ -147,9 +141,9 @@ lw_cli_measured_print (const LwCliMeasuredLoop *ml, const char *label, gboolean 
   if (ml->kind == LW_MEASURED_CONTINUOUS)
     printf ("  the hold's response and the dead time applied; the aliasing terms neglected "
             "(docs/measured-data.md)\n");
-  if (isfinite (ml->model_diff))
+  if (isfinite (ml->loop.model_diff))
     printf ("  %s against the data: largest relative difference %.3g\n",
-            closing ? "--plant" : "the plant model", ml->model_diff);
+            closing ? "--plant" : "the plant model", ml->loop.model_diff);
   printf ("\nMargins of the loop L(z) = z^-%d C(z) P(z) on the data, found between the points\n",
           ml->compute_delay);
   printf ("  %-26s %-20s %s\n", "gain crossover (rad/s)", "phase margin (deg)",
@@ -194,13 +188,30 @@ lw_cli_measured_print (const LwCliMeasuredLoop *ml, const char *label, gboolean 
 void
 lw_cli_measured_loop_clear (LwCliMeasuredLoop *ml)
 {
-  lw_measured_margins_clear (&ml->mm);
+  lw_measured_loop_clear (&ml->loop);
   lw_measured_free (ml->data);
-  g_free (ml->omega);
-  g_free (ml->p);
-  g_free (ml->l);
   lw_cli_loop_clear (&ml->lp);
   memset (ml, 0, sizeof *ml);
+}
+
+int
+lw_cli_measured_kind (const LwCliMeasuredArgs *m, LwMeasuredKind *kind)
+{
+  if (m->kind == NULL)
+    {
+      lw_cli_bad_input ("--measured-kind", "is required with --measured: sampled or continuous "
+                        "(docs/measured-data.md)");
+      return LW_EXIT_BAD_INPUT;
+    }
+  for (int k = LW_MEASURED_SAMPLED; k <= LW_MEASURED_CONTINUOUS; k++)
+    if (strcmp (m->kind, lw_design_measured_kind_name ((LwMeasuredKind) k)) == 0)
+      {
+        *kind = (LwMeasuredKind) k;
+        return LW_EXIT_OK;
+      }
+  g_autofree char *shown = g_utf8_make_valid (m->kind, -1);
+  lw_cli_bad_input ("--measured-kind", "'%s' is neither sampled nor continuous", shown);
+  return LW_EXIT_BAD_INPUT;
 }
 
 int
@@ -208,23 +219,9 @@ lw_cli_measured_loop_build (const char *cmd, const LwCliLoopArgs *loop,
                             const LwCliMeasuredArgs *m, LwCliMeasuredLoop *ml)
 {
   memset (ml, 0, sizeof *ml);
-  ml->model_diff = NAN;
-  if (m->kind == NULL)
-    {
-      lw_cli_bad_input ("--measured-kind", "is required with --measured: sampled or continuous "
-                        "(docs/measured-data.md)");
-      return LW_EXIT_BAD_INPUT;
-    }
-  if (strcmp (m->kind, "sampled") == 0)
-    ml->kind = LW_MEASURED_SAMPLED;
-  else if (strcmp (m->kind, "continuous") == 0)
-    ml->kind = LW_MEASURED_CONTINUOUS;
-  else
-    {
-      g_autofree char *shown = g_utf8_make_valid (m->kind, -1);
-      lw_cli_bad_input ("--measured-kind", "'%s' is neither sampled nor continuous", shown);
-      return LW_EXIT_BAD_INPUT;
-    }
+  int kind_status = lw_cli_measured_kind (m, &ml->kind);
+  if (kind_status != LW_EXIT_OK)
+    return kind_status;
   /* the loop options, with a plant of 1 when none is given (only its checks are used then) */
   LwCliLoopArgs la = *loop;
   ml->has_model = loop->plant != NULL;
@@ -245,56 +242,37 @@ lw_cli_measured_loop_build (const char *cmd, const LwCliLoopArgs *loop,
       lw_cli_loop_clear (&ml->lp);
       return status;
     }
-  const LwCliMeasuredInput in = { ml->lp.period_s, ml->lp.dead_time_s, ml->lp.compute_delay,
-                                  ml->lp.controller_z, ml->has_model ? ml->lp.sampled : NULL };
-  status = lw_cli_measured_loop_close (ml, &in, m->file);
-  if (status != LW_EXIT_OK)
-    lw_cli_measured_loop_clear (ml);
-  return status;
-}
-
-int
-lw_cli_measured_loop_close (LwCliMeasuredLoop *ml, const LwCliMeasuredInput *in,
-                            const char *place)
-{
-  ml->period_s = in->period_s;
-  ml->compute_delay = in->compute_delay;
-  ml->has_model = in->sampled != NULL;
-  LwMeasuredLoop loop;
+  const LwCliLoop *lp = &ml->lp;
+  ml->period_s = lp->period_s;
+  ml->compute_delay = lp->compute_delay;
   LwError err;
   lw_error_clear (&err);
-  LwStatus st = lw_measured_loop_close (ml->data, ml->kind, in->period_s, in->dead_time_s,
-                                        in->compute_delay, in->controller_z, in->sampled, &loop,
-                                        &err);
+  LwStatus st = lw_measured_loop_close (ml->data, ml->kind, lp->period_s, lp->dead_time_s,
+                                        lp->compute_delay, lp->controller_z,
+                                        ml->has_model ? lp->sampled : NULL, &ml->loop, &err);
   if (st != LW_OK)
     {
-      fprintf (stderr, "%s: %s\n", place, err.message);
+      fprintf (stderr, "%s: %s\n", m->file, err.message);
+      lw_cli_measured_loop_clear (ml);
       return st == LW_ERR_NOMEM ? LW_EXIT_INTERNAL : LW_EXIT_BAD_INPUT;
     }
-  /* the arrays (malloc'd by the core; g_free is free) pass to ml */
-  ml->n = loop.n;
-  ml->omega = loop.omega_rad_s;
-  ml->p = loop.p;
-  ml->l = loop.l;
-  ml->mm = loop.margins;
-  ml->model_diff = loop.model_diff;
   return LW_EXIT_OK;
 }
 
 void
 lw_cli_measured_json (JsonBuilder *b, const LwCliMeasuredLoop *ml, const char *file)
 {
-  const LwMeasuredMargins *mm = &ml->mm;
+  const LwMeasuredMargins *mm = &ml->loop.margins;
   json_builder_begin_object (b);
   json_builder_set_member_name (b, "file");
   g_autofree char *shown = g_filename_display_name (file);
   json_builder_add_string_value (b, shown);
   json_builder_set_member_name (b, "kind");
-  json_builder_add_string_value (b, kind_word (ml->kind));
+  json_builder_add_string_value (b, lw_design_measured_kind_name (ml->kind));
   json_builder_set_member_name (b, "points");
   json_builder_add_int_value (b, (gint64) ml->data->n);
   json_builder_set_member_name (b, "points_below_nyquist");
-  json_builder_add_int_value (b, (gint64) ml->n);
+  json_builder_add_int_value (b, (gint64) ml->loop.n);
   json_builder_set_member_name (b, "note");
   json_builder_add_string_value (b, ml->note);
   add_crossings (b, "gain_crossovers_rad_s", "phase_margins_deg",
@@ -307,14 +285,14 @@ lw_cli_measured_json (JsonBuilder *b, const LwCliMeasuredLoop *ml, const char *f
   json_builder_add_boolean_value (b, mm->crossover_above_data);
   json_builder_set_member_name (b, "crossover_below_data");
   json_builder_add_boolean_value (b, mm->crossover_below_data);
-  member_number (b, "model_relative_difference", ml->model_diff);
+  member_number (b, "model_relative_difference", ml->loop.model_diff);
   json_builder_end_object (b);
 }
 
 void
 lw_cli_measured_json_loop (JsonBuilder *b, const LwCliMeasuredLoop *ml)
 {
-  add_loop (b, &ml->mm, ml->period_s);
+  add_loop (b, &ml->loop.margins, ml->period_s);
 }
 
 int

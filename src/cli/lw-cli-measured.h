@@ -40,6 +40,10 @@ typedef struct
 
 void lw_cli_measured_args_clear (LwCliMeasuredArgs *a);
 
+/* --measured-kind checked (required with --measured): its kind, or the exit status after the
+ * message. */
+int lw_cli_measured_kind (const LwCliMeasuredArgs *m, LwMeasuredKind *kind);
+
 /* Reads and checks the table in FILE (mapped, not read whole: the parser stops at its line
  * limit); a refusal is printed as FILE:LINE:COLUMN: message. Returns the exit status. */
 int lw_cli_measured_read (const char *file, LwMeasured **out, char *note, size_t note_size);
@@ -56,36 +60,15 @@ typedef struct
   LwMeasuredKind kind;
   LwMeasured *data;
   char note[256];
-  size_t n;
-  double *omega;
-  double complex *p, *l;
-  LwMeasuredMargins mm;
-  double model_diff;
+  LwMeasuredLoop loop;        /* the loop closed on the data (lw_measured_loop_close) */
 } LwCliMeasuredLoop;
 
 /* From the command line: the loop options checked (a plant of 1 standing in when --plant is
- * not given), the table read, the loop closed as by lw_cli_measured_loop_close. Returns the
+ * not given), the table read, the loop closed on it (lw_measured_loop_close). Returns the
  * exit status (the message printed). */
 int lw_cli_measured_loop_build (const char *cmd, const LwCliLoopArgs *loop,
                                 const LwCliMeasuredArgs *m, LwCliMeasuredLoop *out);
 void lw_cli_measured_loop_clear (LwCliMeasuredLoop *ml);
-
-/* What closing the loop on the data needs of a loop: no plant (the data are the plant), the
- * model's sampled plant only to compare it with the data. */
-typedef struct
-{
-  double period_s;
-  double dead_time_s;         /* applied to continuous data only */
-  int compute_delay;
-  const LwModel *controller_z;
-  const LwSampledPlant *sampled;  /* the model's; NULL: no model to compare */
-} LwCliMeasuredInput;
-
-/* Closes the loop in on ml->data (of ml->kind, ml->note set by the caller): fills the rest
- * of ml. place names the data in messages. Returns the exit status (the message printed);
- * on failure the caller clears ml. */
-int lw_cli_measured_loop_close (LwCliMeasuredLoop *ml, const LwCliMeasuredInput *in,
-                                const char *place);
 
 /* The text section of the loop on the data, label naming the data; closing: end with the
  * line on what needs a model (when there is none). */

@@ -465,10 +465,8 @@ plot_run_measured (const PlotArgs *a)
   status = lw_cli_measured_loop_build ("plot", &a->loop, &a->measured, &ml);
   if (status != LW_EXIT_OK)
     return status;
-  /* the CLI's loop as the core's, for the shared figure */
-  LwMeasuredLoop loop = { ml.n, ml.omega, ml.p, ml.l, ml.mm, ml.model_diff };
   LwFigureMeasured fig;
-  lw_figure_measured_fill (&fig, &loop, ml.kind, ml.data->coherence, ml.lp.period_s);
+  lw_figure_measured_fill (&fig, &ml.loop, ml.kind, ml.data->coherence, ml.lp.period_s);
   LwVariantEval *e = NULL;
   if (ml.has_model)
     {
