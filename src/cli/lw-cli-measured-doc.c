@@ -1,7 +1,7 @@
 /* lw-cli-measured-doc.c — the measured frequency response a design document holds
  * (<measured>, docs/file-format.md) on the command line: `new --measured FILE.csv` writes it
- * into the new document, `analyze FILE.lwd` closes the variant's loop on it by the same code
- * as `analyze --measured` (lw-cli-measured.c).
+ * into the new document, `analyze FILE.lwd` reports the variant's loop on it as the engine
+ * closed it (LwVariantEval.measured, lw_measured_loop_close as for `analyze --measured`).
  * SPDX-License-Identifier: GPL-3.0-or-later
  */
 #include "config.h"
