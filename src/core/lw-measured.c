@@ -269,8 +269,11 @@ lw_measured_loop_close (const LwMeasured *m, LwMeasuredKind kind, double period_
     }
   for (size_t i = 0; i < out->n; i++)
     {
-      double complex z = cexp (I * out->omega_rad_s[i] * period_s);
-      out->l[i] = cpow (z, -compute_delay) * lw_model_eval (controller_z, z) * out->p[i];
+      double wt = out->omega_rad_s[i] * period_s;
+      /* z^−N = e^{−jNωT}, one exponential (no complex power per point) */
+      out->l[i] = cexp (-I * ((double) compute_delay * wt)) * lw_model_eval (controller_z,
+                                                                             cexp (I * wt))
+                  * out->p[i];
     }
   if (model != NULL)
     {
