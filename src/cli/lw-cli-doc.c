@@ -83,10 +83,12 @@ lw_cli_report_gerror (const char *place, const GError *error)
 /* The failures of an evaluation made, reported as the commands always have. */
 static int
 report_eval (const char *variant_place, const char *plant_place, LwVariantEval *e,
-             gboolean strict, gboolean need_achieved, LwVariantEval **out)
+             gboolean strict, gboolean need_achieved, gboolean data_alone, LwVariantEval **out)
 {
   int status = LW_EXIT_OK;
-  if (e->failure != LW_EVAL_OK)
+  if (e->failure == LW_EVAL_NO_MODEL && data_alone)
+    ;   /* on the data alone: the caller reads e->measured */
+  else if (e->failure != LW_EVAL_OK)
     status = lw_cli_report_gerror (e->failure == LW_EVAL_FAILED_PLANT
                                      || e->failure == LW_EVAL_FAILED_SAMPLING
                                    ? plant_place : variant_place, e->error);
@@ -114,7 +116,18 @@ lw_cli_doc_evaluate (const char *place, const LwDesign *d, size_t index,
   LwVariantEval *e = lw_engine_evaluate_variant (d, index, opts, NULL);
   g_autofree char *vplace = g_strdup_printf ("%s: variant '%s'", place, d->variants[index].name);
   g_autofree char *pplace = g_strdup_printf ("%s: <plant>", place);
-  return report_eval (vplace, pplace, e, strict, TRUE, out);
+  return report_eval (vplace, pplace, e, strict, TRUE, FALSE, out);
+}
+
+int
+lw_cli_doc_evaluate_data (const char *place, const LwDesign *d, size_t index,
+                          const LwEngineOptions *opts, gboolean strict, LwVariantEval **out)
+{
+  g_return_val_if_fail (index < d->n_variants, LW_EXIT_INTERNAL);
+  LwVariantEval *e = lw_engine_evaluate_variant (d, index, opts, NULL);
+  g_autofree char *vplace = g_strdup_printf ("%s: variant '%s'", place, d->variants[index].name);
+  g_autofree char *pplace = g_strdup_printf ("%s: <plant>", place);
+  return report_eval (vplace, pplace, e, strict, TRUE, TRUE, out);
 }
 
 int
@@ -129,7 +142,7 @@ lw_cli_loop_evaluate (const char *place, const LwCliLoop *lp, const LwEngineOpti
     .dead_time_s = lp->dead_time_s,
     .compute_delay = lp->compute_delay,
   };
-  return report_eval (place, place, lw_engine_evaluate_loop (&loop, opts), strict, FALSE,
+  return report_eval (place, place, lw_engine_evaluate_loop (&loop, opts), strict, FALSE, FALSE,
                       out);
 }
 

@@ -44,6 +44,13 @@ int lw_cli_doc_variant (const LwDesign *d, const char *option, const char *name,
 int lw_cli_doc_evaluate (const char *place, const LwDesign *d, size_t index,
                          const LwEngineOptions *opts, gboolean strict, LwVariantEval **out);
 
+/* lw_cli_doc_evaluate for the commands that work on measured data alone (analyze, check): a
+ * design without a plant model (LW_EVAL_NO_MODEL: e->ev NULL, e->measured and the
+ * requirements set) is returned as evaluated, not refused. */
+int lw_cli_doc_evaluate_data (const char *place, const LwDesign *d, size_t index,
+                              const LwEngineOptions *opts, gboolean strict,
+                              LwVariantEval **out);
+
 /* The same for a loop given by the loop options (lp must outlive *out); failures are
  * reported at `place`; strict covers the simulation only (no requirements to judge). */
 int lw_cli_loop_evaluate (const char *place, const LwCliLoop *lp, const LwEngineOptions *opts,

@@ -33,7 +33,9 @@ lw_cli_measured_doc_set (LwDesign *d, const LwCliMeasuredArgs *m)
   lw_measured_free (d->measured);
   d->measured = data;
   d->measured_kind = kind;
-  d->measured_analysis = LW_DESIGN_ANALYSIS_MODEL;
+  /* without a model the analysis can only be the data's */
+  d->measured_analysis = lw_design_has_model (d) ? LW_DESIGN_ANALYSIS_MODEL
+                                                 : LW_DESIGN_ANALYSIS_DATA;
   d->measured_unstable_poles = 0;
   /* the file's base name as the source, when it is a text the document can hold */
   g_autofree char *base = g_path_get_basename (m->file);
@@ -67,7 +69,7 @@ lw_cli_measured_doc_analyze (const char *file, const LwDesign *d, const LwVarian
   ml.loop = *e->measured;
   ml.period_s = e->period_s;
   ml.compute_delay = e->compute_delay;
-  ml.has_model = TRUE;
+  ml.has_model = lw_design_has_model (d);
   int status = LW_EXIT_OK;
   gboolean data = d->measured_analysis == LW_DESIGN_ANALYSIS_DATA;
   if (status == LW_EXIT_OK && root != NULL)
@@ -100,7 +102,7 @@ lw_cli_measured_doc_analyze (const char *file, const LwDesign *d, const LwVarian
         : g_strdup_printf ("<measured> of %s", file);
       printf ("\n");
       lw_cli_measured_print (&ml, label, FALSE);
-      if (data)
+      if (data && ml.has_model)
         printf ("  the design's analysis uses the data (analysis=\"data\"): these margins, not "
                 "the model's above\n");
     }

@@ -450,11 +450,49 @@ engine_options (const AnalyzeSpec *spec, LwEngineOptions *eo)
 /* Prints the analysis of one evaluated loop as text, or (json) returns the JSON object in
  * *json. design/index: the document and variant the loop is from (design NULL: inline
  * options). */
+/* A design without a plant model (LW_EVAL_NO_MODEL): the requirements judged on the data and
+ * the loop on the data, which is the "loop" block of the JSON, as with --measured. */
+static int
+analyze_data_alone (const AnalyzeArgs *a, const LwVariantEval *e, const LwDesign *design,
+                    size_t index, JsonNode **json)
+{
+  if (a->json)
+    {
+      JsonNode *root = json_node_new (JSON_NODE_OBJECT);
+      JsonObject *o = json_object_new ();
+      json_node_take_object (root, o);
+      json_object_set_double_member (o, "sample_period_s", e->period_s);
+      json_object_set_null_member (o, "model");
+      JsonBuilder *b = json_builder_new ();
+      lw_cli_doc_json_requirements (b, design, e->requirements);
+      json_object_set_member (o, "requirements", json_builder_get_root (b));
+      g_object_unref (b);
+      int status = lw_cli_measured_doc_analyze (a->files[0], design, e, o);
+      if (status != LW_EXIT_OK)
+        {
+          json_node_unref (root);
+          return status;
+        }
+      *json = root;
+      return LW_EXIT_OK;
+    }
+  printf ("Design '%s' (%s), variant '%s'\n\n", design->title, a->files[0],
+          design->variants[index].name);
+  printf ("No plant model: the design is on its measured response alone. Steps, closed-loop\n"
+          "poles and the code's margins after quantization need a model (fit one to the data:\n"
+          "loopwright-cli fit).\n");
+  printf ("\nRequirements of the design\n");
+  lw_cli_doc_print_requirements (design, e->requirements);
+  return lw_cli_measured_doc_analyze (a->files[0], design, e, NULL);
+}
+
 static int
 analyze_loop_run (const AnalyzeArgs *a, const AnalyzeSpec *spec, const LwVariantEval *e,
                   const LwDesign *design, size_t index, JsonNode **json)
 {
   const LwEvaluation *ev = e->ev;
+  if (ev == NULL)
+    return analyze_data_alone (a, e, design, index, json);
   if (a->json)
     {
       JsonNode *root = lw_cli_json_analysis (ev, &e->step, e->sim_ref, e->sim_in, e->sim_out);
@@ -512,6 +550,14 @@ print_json (JsonNode *root)
   g_free (text);
 }
 
+/* The first option given that only a model can serve, or NULL. */
+static const char *
+model_only_option (const AnalyzeArgs *a)
+{
+  return a->saturation ? "--saturation" : a->anti_windup ? "--anti-windup"
+         : a->steps ? "--steps" : a->substeps ? "--substeps" : a->points ? "--points" : NULL;
+}
+
 static int
 analyze_run (void *data)
 {
@@ -531,9 +577,7 @@ analyze_run (void *data)
                             "document");
           return LW_EXIT_BAD_INPUT;
         }
-      const char *model_only = a->saturation ? "--saturation" : a->anti_windup ? "--anti-windup"
-                               : a->steps ? "--steps" : a->substeps ? "--substeps"
-                               : a->points ? "--points" : NULL;
+      const char *model_only = model_only_option (a);
       if (model_only != NULL)
         {
           lw_cli_bad_input (model_only, "needs a model (the time responses and the frequency "
@@ -592,6 +636,13 @@ analyze_run (void *data)
   status = analyze_spec (a, &spec);
   if (status != LW_EXIT_OK)
     return status;
+  const char *model_only = model_only_option (a);
+  if (!lw_design_has_model (design) && model_only != NULL)
+    {
+      lw_cli_bad_input (model_only, "needs a model (the time responses and the frequency grid "
+                        "are a model's); %s holds only measured data", a->files[0]);
+      return LW_EXIT_BAD_INPUT;
+    }
   JsonBuilder *b = NULL;
   if (a->json && a->all)
     {
@@ -605,7 +656,7 @@ analyze_run (void *data)
       LwEngineOptions eo;
       engine_options (&spec, &eo);
       g_autoptr (LwVariantEval) e = NULL;
-      status = lw_cli_doc_evaluate (a->files[0], design, which[k], &eo, TRUE, &e);
+      status = lw_cli_doc_evaluate_data (a->files[0], design, which[k], &eo, TRUE, &e);
       if (status != LW_EXIT_OK)
         break;
       if (!a->json && k > 0)

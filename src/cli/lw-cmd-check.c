@@ -41,7 +41,7 @@ check_variant (const char *path, const LwDesign *d, size_t index)
 {
   const LwDesignVariant *v = &d->variants[index];
   LwVariantEval *e = NULL;
-  int status = lw_cli_doc_evaluate (path, d, index, NULL, TRUE, &e);
+  int status = lw_cli_doc_evaluate_data (path, d, index, NULL, TRUE, &e);
   if (status != LW_EXIT_OK)
     return status;
   const LwEvaluation *ev = e->ev;
@@ -49,7 +49,8 @@ check_variant (const char *path, const LwDesign *d, size_t index)
   size_t failing = e->n_not_passing;
   printf ("\nVariant '%s'%s: %zu stage(s), loop %s\n", v->name,
           index == d->active ? " (active)" : "", v->n_stages,
-          ev->stable ? "stable" : "UNSTABLE");
+          ev == NULL ? "on the measured data alone (no model)"
+                     : ev->stable ? "stable" : "UNSTABLE");
   lw_cli_doc_print_requirements (d, res);
   if (d->n_requirements > 0)
     printf ("  %zu of %zu requirement(s) pass\n", d->n_requirements - failing,
@@ -86,7 +87,8 @@ check_run (void *data)
       last = first;
     }
   printf ("Design '%s' (%s): plant %s, T = %.6g s, computation delay %d, dead time %.6g s\n",
-          d->title, path, d->plant, d->period_s, d->compute_delay, d->dead_time_s);
+          d->title, path, lw_design_has_model (d) ? d->plant : "(none: measured data)",
+          d->period_s, d->compute_delay, d->dead_time_s);
   int worst = LW_EXIT_OK;
   for (size_t i = first; i <= last; i++)
     {

@@ -19,7 +19,9 @@ static const char new_help[] =
   "variant named 'initial' with no stages (a controller of 1), no requirements.\n"
   "\n"
   "Options:\n"
-  "  --plant EXPR             plant P(s), a proper rational expression in s (required)\n"
+  "  --plant EXPR             plant P(s), a proper rational expression in s (required\n"
+  "                           unless --measured is given: the design is then on the data\n"
+  "                           alone, its analysis \"data\")\n"
   "  --period SECONDS         sample period T in seconds, > 0 (required)\n"
   "  --compute-delay N        computation delay in whole samples, 0 to 1000 (default 1)\n"
   "  --dead-time SECONDS      plant input dead time in seconds, >= 0 (default 0)\n"
@@ -47,11 +49,17 @@ static int
 new_run (void *data)
 {
   NewArgs *a = data;
+  /* with a measurement and no --plant, a design on the data alone (an empty plant; the
+   * loop options are checked with a plant of 1) */
+  LwCliLoopArgs la = a->loop;
+  gboolean no_model = a->loop.plant == NULL && a->measured.file != NULL;
+  if (no_model)
+    la.plant = (char *) "1";
   LwCliLoop lp;
-  int status = lw_cli_loop_build ("new", &a->loop, &lp);
+  int status = lw_cli_loop_build ("new", &la, &lp);
   if (status != LW_EXIT_OK)
     return status;
-  g_autoptr (LwDesign) d = lw_design_new (a->loop.plant, lp.period_s);
+  g_autoptr (LwDesign) d = lw_design_new (no_model ? "" : a->loop.plant, lp.period_s);
   d->dead_time_s = lp.dead_time_s;
   d->compute_delay = lp.compute_delay;
   lw_cli_loop_clear (&lp);

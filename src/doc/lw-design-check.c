@@ -64,10 +64,20 @@ lw_design_validate (const LwDesign *d, GError **error)
       g_set_error (error, LW_DESIGN_ERROR, LW_DESIGN_ERROR_VALUE, "the design has no plant");
       return FALSE;
     }
+  if (!lw_design_has_model (d))
+    {
+      if (d->measured == NULL)
+        {
+          g_set_error (error, LW_DESIGN_ERROR, LW_DESIGN_ERROR_VALUE, "the design has neither a "
+                       "plant model nor a measured response");
+          return FALSE;
+        }
+    }
   LwModel *m = NULL;
   LwError err;
   lw_error_clear (&err);
-  if (lw_expr_parse_proper (d->plant, LW_DOMAIN_S, 0.0, &m, &err) != LW_OK)
+  if (lw_design_has_model (d)
+      && lw_expr_parse_proper (d->plant, LW_DOMAIN_S, 0.0, &m, &err) != LW_OK)
     {
       g_set_error (error, LW_DESIGN_ERROR, LW_DESIGN_ERROR_VALUE,
                    "the plant '%s' is not a proper rational expression in s: %s (byte %d)",

@@ -422,10 +422,12 @@ lw_load_read_design (Reader *r, const xmlNode *root)
   const char *problem = lw_design_text_problem (d->plant);
   if (problem != NULL)
     return lw_load_fail (r, c, LW_DESIGN_ERROR_VALUE, ": %s", problem), NULL;
-  if (lw_load_is_blank ((const xmlChar *) d->plant))
-    return lw_load_fail (r, c, LW_DESIGN_ERROR_VALUE, ": the plant expression is empty; expected a "
-                 "proper rational expression in s, e.g. 40/(s*(s+8))"), NULL;
-  if (!lw_load_check_plant (r, c, d->plant))
+  /* an empty plant is a design on measured data alone: allowed only when a <measured>
+   * follows (checked below, once it is read) */
+  bool no_model = lw_load_is_blank ((const xmlChar *) d->plant);
+  if (no_model)
+    lw_design_set_string (&d->plant, "");
+  else if (!lw_load_check_plant (r, c, d->plant))
     return NULL;
   c = lw_load_next_element (r, root, c->next);
   if (r->error != NULL)
@@ -468,10 +470,18 @@ lw_load_read_design (Reader *r, const xmlNode *root)
     {
       if (!lw_load_read_measured (r, c, d))
         return NULL;
+      if (no_model && d->measured_analysis != LW_DESIGN_ANALYSIS_DATA)
+        return lw_load_fail (r, c, LW_DESIGN_ERROR_VALUE, ": attribute 'analysis' is \"model\" "
+                             "but <plant> (line %ld) holds no model; write analysis=\"data\"",
+                             (long) xmlGetLineNo (plant_el)), NULL;
       c = lw_load_next_element (r, root, c->next);
       if (r->error != NULL)
         return NULL;
     }
+  if (no_model && d->measured == NULL)
+    return lw_load_fail (r, plant_el, LW_DESIGN_ERROR_VALUE, ": the plant expression is empty; "
+                         "expected a proper rational expression in s, e.g. 40/(s*(s+8)), or a "
+                         "<measured> response after <sampling> to design on"), NULL;
 
   if (lw_load_is_element (c, "requirements"))
     {

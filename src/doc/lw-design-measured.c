@@ -216,7 +216,11 @@ lw_design_write_measured (GString *o, const LwDesign *d,
     return;
   g_string_append (o, "  <measured");
   attr_text (o, "kind", lw_design_measured_kind_name (d->measured_kind));
-  attr_text (o, "analysis", lw_design_analysis_name (d->measured_analysis));
+  /* without a model the analysis is the data's, whatever the field says (a plant cleared in
+   * the window leaves it as it was) */
+  attr_text (o, "analysis", lw_design_analysis_name (lw_design_analysis_on_data (d)
+                                                       ? LW_DESIGN_ANALYSIS_DATA
+                                                       : LW_DESIGN_ANALYSIS_MODEL));
   if (d->measured_source != NULL)
     attr_text (o, "source", d->measured_source);
   g_string_append_printf (o, " open_loop_unstable_poles=\"%d\">\n", d->measured_unstable_poles);

@@ -343,6 +343,24 @@ measured_equal (const LwDesign *a, const LwDesign *b)
 }
 
 bool
+lw_design_has_model (const LwDesign *d)
+{
+  if (d->plant == NULL)
+    return false;
+  for (const char *c = d->plant; *c != '\0'; c++)
+    if (!g_ascii_isspace (*c))
+      return true;
+  return false;
+}
+
+bool
+lw_design_analysis_on_data (const LwDesign *d)
+{
+  return d->measured != NULL
+         && (d->measured_analysis == LW_DESIGN_ANALYSIS_DATA || !lw_design_has_model (d));
+}
+
+bool
 lw_design_equal (const LwDesign *a, const LwDesign *b)
 {
   if (a == NULL || b == NULL)

@@ -159,7 +159,9 @@ typedef struct
   char *title;                /* required, may be empty */
   char *author;               /* optional */
   char *notes;                /* optional */
-  char *plant;                /* P(s) as typed: a proper rational expression in s (lw-expr.h) */
+  char *plant;                /* P(s) as typed: a proper rational expression in s (lw-expr.h);
+                               "" when the design is on measured data alone
+                               (lw_design_has_model) */
   double dead_time_s;         /* plant input dead time, >= 0, s */
   /* the units of the plant's input (the actuator's, u) and output (the measured quantity,
    * y), as short free texts ("V", "mm"); NULL: not given (lw_design_unit_problem) */
@@ -199,6 +201,15 @@ LwDesign *lw_design_new (const char *plant, double period_s);
 void lw_design_free (LwDesign *d);
 LwDesign *lw_design_copy (const LwDesign *d);
 G_DEFINE_AUTOPTR_CLEANUP_FUNC (LwDesign, lw_design_free)
+
+/* True when the design has a plant model: its plant text is not blank. A design without one
+ * holds a measured response (<measured>, analysis "data"): the loop is closed on the data
+ * alone, and what needs a model (steps, closed-loop poles) is not available. */
+bool lw_design_has_model (const LwDesign *d);
+
+/* True when the design's frequency-response figures are the measured data's: it holds a
+ * measurement and says analysis="data" (always so without a model). */
+bool lw_design_analysis_on_data (const LwDesign *d);
 
 /* True when every field is equal (numbers compared with ==, strings byte for byte, absent
  * strings equal only to absent ones). */

@@ -78,6 +78,27 @@ lw_requirement_target_text (const LwRequirement *r)
   return g_strdup ("?");
 }
 
+gboolean
+lw_req_kind_from_frequency_response (LwReqKind kind)
+{
+  switch (kind)
+    {
+    case LW_REQ_MIN_PHASE_MARGIN:
+    case LW_REQ_MIN_GAIN_MARGIN:
+    case LW_REQ_MAX_SENSITIVITY:
+    case LW_REQ_CROSSOVER_RANGE:
+      return TRUE;
+    case LW_REQ_MAX_STEP_ERROR:   /* from the loop's type and low-frequency gain: the model's */
+    case LW_REQ_MAX_RAMP_ERROR:
+    case LW_REQ_MAX_OVERSHOOT:
+    case LW_REQ_MAX_RISE_TIME:
+    case LW_REQ_MAX_SETTLING_TIME:
+    case LW_REQ_MAX_ACTUATOR:
+      return FALSE;
+    }
+  return FALSE;
+}
+
 /* ---- the sampled-plant cache ------------------------------------------------------------ */
 
 /* At most this many sampled plants (periods) are kept for one plant and dead time. */
@@ -492,6 +513,11 @@ achieved_from_data (LwAchieved *a, const LwMeasuredLoop *ml)
   a->sensitivity_peak = m->sensitivity_peak;
 }
 
+static LwVariantEval *evaluate_on_data_alone (EvalPrivate *p, const LwDesign *d,
+                                              const LwDesignVariant *v);
+static void close_on_data (LwVariantEval *e, const LwDesign *d);
+static void judge (LwVariantEval *e, const LwDesign *d);
+
 LwVariantEval *
 lw_engine_evaluate_variant (const LwDesign *d, size_t variant, const LwEngineOptions *opts,
                             LwPlantCache *cache)
@@ -513,6 +539,8 @@ lw_engine_evaluate_variant (const LwDesign *d, size_t variant, const LwEngineOpt
 
   LwError err;
   lw_error_clear (&err);
+  if (!lw_design_has_model (d) && d->measured != NULL)
+    return evaluate_on_data_alone (p, d, v);
   if (lw_expr_parse_proper (d->plant, LW_DOMAIN_S, 0.0, &e->plant_s, &err) != LW_OK)
     return eval_fail (p, LW_EVAL_FAILED_PLANT, &err);
   p->shared = cache_lookup (cache, d->plant, e->plant_s, d->dead_time_s, e->period_s, &err);
@@ -546,26 +574,76 @@ lw_engine_evaluate_variant (const LwDesign *d, size_t variant, const LwEngineOpt
     return e;
   if (d->measured != NULL)
     {
-      /* the loop on the data, beside the model's (not judged yet: the requirements below are
-       * the model's whatever <measured analysis> says) */
-      e->measured_kind = d->measured_kind;
-      e->measured = g_new0 (LwMeasuredLoop, 1);
-      if (lw_measured_loop_close (d->measured, d->measured_kind, e->period_s, e->dead_time_s,
-                                  e->compute_delay, e->controller_z, e->sampled, e->measured,
-                                  &err) != LW_OK)
-        {
-          g_clear_pointer (&e->measured, g_free);
-          e->measured_error = g_error_new_literal (LW_ENGINE_ERROR, err.code, err.message);
-          lw_error_clear (&err);
-        }
-      else if (d->measured->coherence != NULL)
-        e->measured_coherence = g_memdup2 (d->measured->coherence,
-                                           e->measured->n * sizeof (double));
+      /* the loop on the data, beside the model's */
+      close_on_data (e, d);
       if (d->measured_analysis == LW_DESIGN_ANALYSIS_DATA && e->has_achieved)
         achieved_from_data (&e->achieved, e->measured);
     }
+  judge (e, d);
+  return e;
+}
 
-  /* each requirement's verdict; without achieved figures every one is not available */
+/* The design without a model: the controller and the loop on the data alone; the achieved
+ * figures are the data's (achieved_from_data), every time-domain figure not available. */
+static LwVariantEval *
+evaluate_on_data_alone (EvalPrivate *p, const LwDesign *d, const LwDesignVariant *v)
+{
+  LwVariantEval *e = &p->pub;
+  LwError err;
+  lw_error_clear (&err);
+  if (lw_compensator_w (v->stages, v->n_stages, e->period_s, &e->controller_w, &err) != LW_OK
+      || lw_compensator_z (v->stages, v->n_stages, e->period_s, &e->controller_z, &err)
+           != LW_OK)
+    {
+      g_clear_pointer (&e->controller_w, lw_model_free);
+      g_clear_pointer (&e->controller_z, lw_model_free);
+      return eval_fail (p, LW_EVAL_FAILED_COMPENSATOR, &err);
+    }
+  e->failure = LW_EVAL_NO_MODEL;
+  e->error = g_error_new_literal (LW_ENGINE_ERROR, LW_ERR_INVALID,
+                                  "the design has no plant model, only the measured response: "
+                                  "what needs a model (steps, closed-loop poles, the code's "
+                                  "margins after quantization) is not available; fit a model "
+                                  "to the data or type one");
+  close_on_data (e, d);
+  memset (&e->achieved, 0, sizeof e->achieved);
+  e->has_achieved = TRUE;
+  e->achieved.stable = TRUE;
+  achieved_from_data (&e->achieved, e->measured);
+  judge (e, d);
+  for (size_t i = 0; i < e->n_requirements; i++)
+    if (e->requirements[i].status == LW_REQ_NOT_AVAILABLE
+        && !lw_req_kind_from_frequency_response (d->requirements[i].req.kind))
+      e->requirements[i].note = "needs a plant model: the design holds only measured data";
+  return e;
+}
+
+/* e->measured: the design's measurement closed with the variant's controller (and the
+ * model's sampled plant when there is one, for the comparison); a failure in
+ * e->measured_error. */
+static void
+close_on_data (LwVariantEval *e, const LwDesign *d)
+{
+  LwError err;
+  lw_error_clear (&err);
+  e->measured_kind = d->measured_kind;
+  e->measured = g_new0 (LwMeasuredLoop, 1);
+  if (lw_measured_loop_close (d->measured, d->measured_kind, e->period_s, e->dead_time_s,
+                              e->compute_delay, e->controller_z, e->sampled, e->measured,
+                              &err) != LW_OK)
+    {
+      g_clear_pointer (&e->measured, g_free);
+      e->measured_error = g_error_new_literal (LW_ENGINE_ERROR, err.code, err.message);
+    }
+  else if (d->measured->coherence != NULL)
+    e->measured_coherence = g_memdup2 (d->measured->coherence,
+                                       e->measured->n * sizeof (double));
+}
+
+/* Each requirement's verdict; without achieved figures every one is not available. */
+static void
+judge (LwVariantEval *e, const LwDesign *d)
+{
   e->n_requirements = d->n_requirements;
   e->requirements = g_new0 (LwReqResult, d->n_requirements + 1);
   for (size_t i = 0; i < d->n_requirements; i++)
@@ -581,7 +659,6 @@ lw_engine_evaluate_variant (const LwDesign *d, size_t variant, const LwEngineOpt
       if (e->requirements[i].status != LW_REQ_PASS)
         e->n_not_passing++;
     }
-  return e;
 }
 
 LwVariantEval *

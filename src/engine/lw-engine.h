@@ -117,7 +117,12 @@ typedef enum
   LW_EVAL_FAILED_PLANT,         /* the plant expression; error_position is its character */
   LW_EVAL_FAILED_SAMPLING,      /* period or dead time */
   LW_EVAL_FAILED_COMPENSATOR,   /* a stage's parameters */
-  LW_EVAL_FAILED_LOOP           /* the loop evaluation itself */
+  LW_EVAL_FAILED_LOOP,          /* the loop evaluation itself */
+  LW_EVAL_NO_MODEL              /* not a failure of the input: the design has no plant model
+                                   (lw_design_has_model), only measured data. The controller,
+                                   the loop on the data (measured) and the requirements judged
+                                   on it are set; every model figure is absent (ev NULL) and
+                                   has_achieved holds the data's figures alone */
 } LwEvalFailure;
 
 typedef struct
@@ -222,6 +227,10 @@ char *lw_model_text (const LwModel *m);
 
 /* A requirement's target in words: "at least 45 deg", "20 to 60 rad/s" …; g_free it. */
 char *lw_requirement_target_text (const LwRequirement *r);
+
+/* TRUE for the requirements judged on the loop's frequency response (phase and gain margin,
+ * sensitivity peak, crossover): those a measured response can judge (analysis "data"). */
+gboolean lw_req_kind_from_frequency_response (LwReqKind kind);
 
 /* "pass", "fail", "not-available": the words of a verdict in JSON and reports. */
 const char *lw_req_status_word (LwReqStatus s);

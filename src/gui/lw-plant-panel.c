@@ -31,6 +31,8 @@ struct _LwPlantPanel
 
   LwDesignModel *model;
   gboolean filling;             /* showing the model: do not write back */
+  char *plant_hint;             /* the plant entry's own placeholder and tooltip (from the */
+  char *plant_tip;              /* template) */
 };
 
 G_DEFINE_FINAL_TYPE (LwPlantPanel, lw_plant_panel, GTK_TYPE_WIDGET)
@@ -225,6 +227,19 @@ lw_plant_panel_show_eval (LwPlantPanel *self, LwVariantEval *eval)
   else
     clear_plant_error (self);
 
+  /* on measured data alone the empty field says what stands for the plant */
+  if (self->plant_hint == NULL)
+    self->plant_hint = g_strdup (gtk_entry_get_placeholder_text (self->plant_entry));
+  gtk_entry_set_placeholder_text (self->plant_entry,
+                                  eval->failure == LW_EVAL_NO_MODEL
+                                    ? _("none: the measured response is the plant")
+                                    : self->plant_hint);
+  if (self->plant_tip == NULL)
+    self->plant_tip = g_strdup (gtk_widget_get_tooltip_text (GTK_WIDGET (self->plant_entry)));
+  lw_gui_set_tooltip (GTK_WIDGET (self->plant_entry),
+                      eval->failure == LW_EVAL_NO_MODEL ? eval->error->message
+                                                        : self->plant_tip);
+
   if (eval->failure == LW_EVAL_FAILED_SAMPLING)
     {
       gtk_widget_add_css_class (GTK_WIDGET (self->period_spin), "error");
@@ -277,6 +292,8 @@ lw_plant_panel_dispose (GObject *object)
   LwPlantPanel *self = LW_PLANT_PANEL (object);
 
   g_clear_object (&self->model);
+  g_clear_pointer (&self->plant_hint, g_free);
+  g_clear_pointer (&self->plant_tip, g_free);
   gtk_widget_dispose_template (GTK_WIDGET (self), LW_TYPE_PLANT_PANEL);
   GtkWidget *child;
   while ((child = gtk_widget_get_first_child (GTK_WIDGET (self))) != NULL)

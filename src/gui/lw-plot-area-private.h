@@ -86,3 +86,26 @@ void lwpa_key_measure (LwPlotArea *self, int width);
 void lwpa_key_resized (GtkDrawingArea *area, int width, int height, LwPlotArea *self);
 void lwpa_key_draw (GtkDrawingArea *area, cairo_t *cr, int width, int height, gpointer user_data);
 void lwpa_set_key (LwPlotArea *self, const LwPlotVariant *vars, guint n, guint active);
+
+/* lw-plot-area.c: the figure data of an evaluation (kept between frames), the figures of a
+ * view, the drag handles on the active variant's curves, a message in every pane, and the
+ * end of a showing (entries not used since are dropped) */
+const FigureEntry *lwpa_figure_for (LwPlotArea *self, LwVariantEval *eval, const char *name,
+                                    LwError *err);
+LwPlot *lwpa_build_view (LwPlotView view, const LwPlotVariant *vars, guint n,
+                         double nyquist_rad_s, const LwPlotRequirements *req,
+                         const LwVariantEval *units_of, const LwPlotArea *opts,
+                         const LwPlot *axes_of, const char *title, GError **error);
+void lwpa_set_handles (LwPlotArea *self, LwVariantEval *eval, const LwFigureVariant *fv,
+                       const LwStage *stages, guint n_stages, double gain_pin_nu,
+                       int sel_stage, int sel_corner);
+void lwpa_show_message (LwPlotArea *self, const char *msg);
+void lwpa_drop_unused_figures (LwPlotArea *self);
+
+/* lw-plot-area-data.c: a design on measured data alone (LW_EVAL_NO_MODEL): each variant's
+ * loop on the data in the views that draw frequency responses, the active one with its
+ * handles; the views that need a model say so */
+void lwpa_show_data_alone (LwPlotArea *self, const LwAreaVariant *vs, guint n, guint active,
+                           const LwPlotRequirements *req, const LwStage *stages,
+                           guint n_stages, double gain_pin_nu_rad_s, int sel_stage,
+                           int sel_corner);

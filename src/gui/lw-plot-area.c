@@ -147,17 +147,21 @@ curve_db_at (const LwPlotFreqCurve *c, double f)
   return c->mag_db[lo] + t * (c->mag_db[hi] - c->mag_db[lo]);
 }
 
-static void
-set_handles (LwPlotArea *self, LwVariantEval *eval, const LwFigureVariant *fv,
+void
+lwpa_set_handles (LwPlotArea *self, LwVariantEval *eval, const LwFigureVariant *fv,
              const LwStage *stages, guint n_stages, double gain_pin_nu, int sel_stage,
              int sel_corner)
 {
-  double period_s = eval->ev->period_s;
+  double period_s = eval->period_s;
   double gain_nu = gain_pin_nu;
+  /* the gain's grip sits at the crossover: the model's, or on data alone the data's */
+  double crossover = eval->ev != NULL ? (eval->ev->margins.has_phase_margin
+                                           ? eval->ev->margins.gain_crossover_rad_s : NAN)
+                     : eval->measured != NULL ? eval->measured->margins.gain_crossover_rad_s
+                                              : NAN;
   if (!(gain_nu > 0))
-    gain_nu = eval->ev->margins.has_phase_margin
-                ? lw_warp_omega_to_nu (eval->ev->margins.gain_crossover_rad_s, period_s)
-                : (fv->v.w.n > 0 ? fv->v.w.freq_rad_s[fv->v.w.n / 2] : 1.0);
+    gain_nu = isfinite (crossover) ? lw_warp_omega_to_nu (crossover, period_s)
+                                   : (fv->v.w.n > 0 ? fv->v.w.freq_rad_s[fv->v.w.n / 2] : 1.0);
 
   for (guint k = 0; k < lwpa_n_area_views; k++)
     {
@@ -197,8 +201,8 @@ set_handles (LwPlotArea *self, LwVariantEval *eval, const LwFigureVariant *fv,
     }
 }
 
-static void
-show_message (LwPlotArea *self, const char *msg)
+void
+lwpa_show_message (LwPlotArea *self, const char *msg)
 {
   for (guint i = 0; i < lwpa_n_area_views; i++)
     {
@@ -223,8 +227,8 @@ figure_entry_free (gpointer data)
 
 /* The figure data of eval named name: the kept one when this evaluation was shown last time,
  * else filled now (eval->sampled must be valid then). NULL with a message in err. */
-static const FigureEntry *
-figure_for (LwPlotArea *self, LwVariantEval *eval, const char *name, LwError *err)
+const FigureEntry *
+lwpa_figure_for (LwPlotArea *self, LwVariantEval *eval, const char *name, LwError *err)
 {
   for (guint i = 0; i < self->figures->len; i++)
     {
@@ -239,14 +243,23 @@ figure_for (LwPlotArea *self, LwVariantEval *eval, const char *name, LwError *er
   e->eval = lw_variant_eval_ref (eval);
   e->name = g_strdup (name);
   e->used = TRUE;
-  if (lw_figure_variant_fill (&e->fv, NULL, eval->sampled, eval->ev, err) != LW_OK)
+  /* on measured data alone (no model) there are only the data's curves */
+  if (eval->ev == NULL && eval->measured == NULL)
+    {
+      lw_error_set (err, LW_ERR_INVALID, -1, "no loop");
+      figure_entry_free (e);
+      return NULL;
+    }
+  if (eval->ev != NULL
+      && lw_figure_variant_fill (&e->fv, NULL, eval->sampled, eval->ev, err) != LW_OK)
     {
       figure_entry_free (e);
       return NULL;
     }
   /* the step as simulated (with the variant's actuator limits) and u(kT) under it */
-  lw_figure_variant_set_responses (&e->fv, eval->sim_ref, &eval->sim_options, eval->sim_in,
-                                   eval->sim_out, eval->responses);
+  if (eval->ev != NULL)
+    lw_figure_variant_set_responses (&e->fv, eval->sim_ref, &eval->sim_options, eval->sim_in,
+                                     eval->sim_out, eval->responses);
   e->fv.v.name = e->name;
   /* the entry's arrays do not change while it lives: a key of its own lets a figure rebuilt
    * during a drag copy this variant's mapped curves from the one before */
@@ -261,8 +274,8 @@ figure_for (LwPlotArea *self, LwVariantEval *eval, const char *name, LwError *er
   return e;
 }
 
-static void
-drop_unused_figures (LwPlotArea *self)
+void
+lwpa_drop_unused_figures (LwPlotArea *self)
 {
   for (guint i = self->figures->len; i-- > 0;)
     {
@@ -277,8 +290,8 @@ drop_unused_figures (LwPlotArea *self)
 /* The figure of one view of the given variants, without a legend of its own (the area's key
  * names them once for every view); axes_of: keep that figure's axes; title: NULL for the
  * view's own. */
-static LwPlot *
-build_view (LwPlotView view, const LwPlotVariant *vars, guint n, double nyquist_rad_s,
+LwPlot *
+lwpa_build_view (LwPlotView view, const LwPlotVariant *vars, guint n, double nyquist_rad_s,
             const LwPlotRequirements *req, const LwVariantEval *units_of,
             const LwPlotArea *opts, const LwPlot *axes_of, const char *title, GError **error)
 {
@@ -317,6 +330,12 @@ lw_plot_area_show_variants (LwPlotArea *self, const LwAreaVariant *vs, guint n, 
   g_return_if_fail (n >= 1 && active < n && vs != NULL);
 
   LwVariantEval *eval = vs[active].eval;
+  if (eval->ev == NULL && eval->failure == LW_EVAL_NO_MODEL && eval->measured != NULL)
+    {
+      lwpa_show_data_alone (self, vs, n, active, req, stages, n_stages, gain_pin_nu_rad_s,
+                            sel_stage, sel_corner);
+      return;
+    }
   if (eval->ev == NULL)
     {
       g_autofree char *msg
@@ -326,7 +345,7 @@ lw_plot_area_show_variants (LwPlotArea *self, const LwAreaVariant *vs, guint n, 
                           "5/(s*(s+2))) and its sample period, or open an example from the "
                           "menu."))
             : g_strdup_printf (_("No loop to draw: %s"), eval->error->message);
-      show_message (self, msg);
+      lwpa_show_message (self, msg);
       return;
     }
 
@@ -342,15 +361,15 @@ lw_plot_area_show_variants (LwPlotArea *self, const LwAreaVariant *vs, guint n, 
       if (vs[i].eval == NULL || vs[i].eval->ev == NULL)
         continue;
       LwError err;
-      const FigureEntry *entry = figure_for (self, vs[i].eval, vs[i].name, &err);
+      const FigureEntry *entry = lwpa_figure_for (self, vs[i].eval, vs[i].name, &err);
       const LwFigureVariant *fv = entry != NULL ? &entry->fv : NULL;
       if (fv == NULL)
         {
           if (i != active)
             continue;
           g_autofree char *msg = g_strdup_printf (_("No loop to draw: %s"), err.message);
-          show_message (self, msg);
-          drop_unused_figures (self);
+          lwpa_show_message (self, msg);
+          lwpa_drop_unused_figures (self);
           return;
         }
       if (i == active)
@@ -400,9 +419,9 @@ lw_plot_area_show_variants (LwPlotArea *self, const LwAreaVariant *vs, guint n, 
       if (split_row_view && other != NULL && !keep_axes)
         {
           LwPlotVariant two[2] = { vars[moving], *other };
-          both = build_view (self->views[i], two, 2, nyq, req, eval, self, NULL, NULL, NULL);
+          both = lwpa_build_view (self->views[i], two, 2, nyq, req, eval, self, NULL, NULL, NULL);
         }
-      LwPlot *plot = build_view (self->views[i], pv, pn, nyq, req, eval, self,
+      LwPlot *plot = lwpa_build_view (self->views[i], pv, pn, nyq, req, eval, self,
                                  keep_axes ? lw_plot_pane_get_plot (pane) : both, title, &error);
       g_clear_pointer (&both, lw_plot_free);
       lw_plot_pane_set_plot_moving (pane, plot, plot == NULL ? error->message : NULL,
@@ -426,7 +445,7 @@ lw_plot_area_show_variants (LwPlotArea *self, const LwAreaVariant *vs, guint n, 
                                    ? g_strdup_printf ("%s \u2014 %s", view_title (lwpa_split_views[k]),
                                                       other->name)
                                    : NULL;
-          plot = build_view (lwpa_split_views[k], other, 1, nyq, req, eval, self,
+          plot = lwpa_build_view (lwpa_split_views[k], other, 1, nyq, req, eval, self,
                              lw_plot_pane_get_plot (left),
                              title, &error);
         }
@@ -448,9 +467,9 @@ lw_plot_area_show_variants (LwPlotArea *self, const LwAreaVariant *vs, guint n, 
               self->split && other != NULL ? other->style : 0);
       fflush (stdout);
     }
-  set_handles (self, eval, active_fv, stages, n_stages, gain_pin_nu_rad_s, sel_stage,
+  lwpa_set_handles (self, eval, active_fv, stages, n_stages, gain_pin_nu_rad_s, sel_stage,
                sel_corner);
-  drop_unused_figures (self);
+  lwpa_drop_unused_figures (self);
 }
 
 void

@@ -328,10 +328,55 @@ set_figure (LwRequirementsPanel *self, int i, char *text)
   g_free (text);
 }
 
+/* A design on measured data alone: the figures found on the data between the points (each
+ * said to be the data's), the step's left to a model. */
+static void
+show_figures_on_data (LwRequirementsPanel *self, const LwMeasuredLoop *ml)
+{
+  const LwMeasuredMargins *m = &ml->margins;
+  for (int i = 0; i < N_FIGURES; i++)
+    set_figure (self, i, NULL);
+  set_figure (self, FIG_STABLE, g_strdup (_("not known from the data alone")));
+  set_figure (self, FIG_PHASE_MARGIN,
+              m->n_gain > 0 ? g_strdup_printf (_("%.4g° at %.4g rad/s (data)%s"),
+                                               m->phase_margin_deg, m->gain_crossover_rad_s,
+                                               m->crossover_above_data
+                                                 ? _(", another above the data?") : "")
+                            : g_strdup (_("none in the data")));
+  set_figure (self, FIG_GAIN_MARGIN,
+              m->n_phase > 0 ? g_strdup_printf (_("%.4g dB at %.4g rad/s (data)"),
+                                                m->gain_margin_db, m->phase_crossover_rad_s)
+                             : g_strdup (_("none in the data")));
+  set_figure (self, FIG_DELAY_MARGIN,
+              isfinite (m->delay_margin_s)
+                ? g_strdup_printf (_("%.4g s (data)"), m->delay_margin_s) : NULL);
+  g_autoptr (GString) xs = g_string_new (NULL);
+  for (size_t i = 0; i < m->n_gain; i++)
+    g_string_append_printf (xs, "%s%.4g", i > 0 ? ", " : "", m->gain[i].omega_rad_s);
+  set_figure (self, FIG_CROSSOVERS,
+              m->n_gain > 0 ? g_strdup_printf (_("%s rad/s (data)"), xs->str)
+                            : g_strdup (_("none in the data")));
+  set_figure (self, FIG_SENSITIVITY,
+              isfinite (m->sensitivity_peak)
+                ? g_strdup_printf (_("%.4g at %.4g rad/s (data, at a point)"),
+                                   m->sensitivity_peak, m->sensitivity_peak_rad_s)
+                : NULL);
+  const char *model = _("needs a model");
+  set_figure (self, FIG_BANDWIDTH, g_strdup (model));
+  set_figure (self, FIG_OVERSHOOT, g_strdup (model));
+  set_figure (self, FIG_RISE, g_strdup (model));
+  set_figure (self, FIG_SETTLING, g_strdup (model));
+}
+
 static void
 show_figures (LwRequirementsPanel *self, LwVariantEval *eval)
 {
   const LwEvaluation *ev = eval->ev;
+  if (ev == NULL && eval->failure == LW_EVAL_NO_MODEL && eval->measured != NULL)
+    {
+      show_figures_on_data (self, eval->measured);
+      return;
+    }
   if (ev == NULL)
     {
       for (int i = 0; i < N_FIGURES; i++)

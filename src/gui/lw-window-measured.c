@@ -196,6 +196,12 @@ judge_on_data_activated (GtkWidget *widget, const char *action, GVariant *param)
       lw_window_notify (self, _("The design holds no measured response: import one first."));
       return;
     }
+  if (!lw_design_has_model (d))
+    {
+      lw_window_notify (self, _("The design has no plant model: its analysis can only be on "
+                                "the measured data. Type a plant or fit one first."));
+      return;
+    }
   gboolean on = d->measured_analysis != LW_DESIGN_ANALYSIS_DATA;
   lw_design_model_set_measured_analysis (self->model, on);
   lw_window_notify (self, on ? _("Margins, crossover and sensitivity are judged on the "
@@ -207,8 +213,15 @@ static void
 remove_activated (GtkWidget *widget, const char *action, GVariant *param)
 {
   LwWindow *self = LW_WINDOW (widget);
-  if (lw_design_model_get_design (self->model)->measured == NULL)
+  const LwDesign *d = lw_design_model_get_design (self->model);
+  if (d->measured == NULL)
     return;
+  if (!lw_design_has_model (d))
+    {
+      lw_window_notify (self, _("The design has no plant model: without the measured response "
+                                "nothing would be left to design on. Type a plant first."));
+      return;
+    }
   lw_design_model_set_measured (self->model, NULL, LW_MEASURED_CONTINUOUS, NULL);
   lw_window_notify (self, _("Measured response removed (Ctrl+Z brings it back)."));
 }

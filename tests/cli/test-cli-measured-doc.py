@@ -182,6 +182,52 @@ def main():
     check(r.returncode == 2 and lwd_s + ': <measured>' in r.stderr,
           'sampled data above the variant\'s pi/T: %s' % r.stderr.strip())
 
+    # a design on the data alone: new --measured without --plant; the loop is closed on the
+    # data exactly as analyze --measured without --plant closes it (the same core function:
+    # equal to the last bit); what needs a model is not available, never passed
+    lwd_a = os.path.join(tmp, 'alone.lwd')
+    r = run(cli, 'new', '--period', str(T), '--measured', csv_s, '--measured-kind', 'sampled',
+            '--out', lwd_a)
+    check(r.returncode == 0, 'new --measured without --plant: %s' % r.stderr.strip())
+    text = open(lwd_a).read()
+    check('<plant dead_time_s="0"></plant>' in text and 'analysis="data"' in text,
+          'an empty plant and analysis="data"')
+    check(run(cli, 'tidy', lwd_a, '--check').returncode == 0, 'data alone: canonical')
+    set_attr(lwd_a, '<variant name="initial"/>',
+             '<variant name="initial">\n      <gain ratio="0.5"/>\n    </variant>')
+    set_attr(lwd_a, '  <variants', '  <requirements>\n    <phase-margin min_deg="%s"/>\n'
+             '    <overshoot max_pct="30"/>\n  </requirements>\n  <variants')
+    inline = json_of(cli, 'analyze', '--period', str(T), '--controller', '0.5', '--measured',
+                     csv_s, '--measured-kind', 'sampled', '--json')
+    pm = inline['loop']['phase_margin_deg']
+    for limit, verdict in ((pm - 1.0, 'pass'), (pm + 1.0, 'fail')):
+        text = open(lwd_a).read()
+        with open(lwd_a + '.t.lwd', 'w') as f:
+            f.write(text.replace('min_deg="%s"', 'min_deg="%.6f"' % limit))
+        doc = json_of(cli, 'analyze', lwd_a + '.t.lwd', '--json')
+        check(doc['model'] is None and doc['loop'] == inline['loop']
+              and numbers_of(doc['measured']) == numbers_of(inline['measured']),
+              'data alone: the loop block is the data\'s, exactly')
+        reqs = {q['kind']: q for q in doc['requirements']}
+        check(reqs['phase-margin']['status'] == verdict,
+              'data alone: phase margin %s judged on the data: %s' % (verdict, reqs))
+        check(reqs['overshoot']['status'] == 'not-available',
+              'data alone: overshoot not available: %s' % reqs['overshoot'])
+        r = run(cli, 'check', lwd_a + '.t.lwd')
+        check(r.returncode == 3 and 'on the measured data alone' in r.stdout,
+              'check on data alone fails (overshoot not available): %d %s'
+              % (r.returncode, r.stdout))
+    r = run(cli, 'analyze', lwd_a + '.t.lwd')
+    check(r.returncode == 0 and 'No plant model' in r.stdout and 'Measured plant' in r.stdout
+          and 'NOT AVAILABLE (needs a plant model' in r.stdout, 'data alone: the text report')
+    r = run(cli, 'analyze', lwd_a + '.t.lwd', '--saturation', '-1:1')
+    check(r.returncode == 2 and '--saturation' in r.stderr and 'needs a model' in r.stderr,
+          'data alone: --saturation refused: %s' % r.stderr.strip())
+    r = run(cli, 'emit', lwd_a + '.t.lwd', '--form', 'difference', '--out',
+            tmp)
+    check(r.returncode == 2 and 'no plant model' in r.stderr,
+          'data alone: emit says it needs a model: %d %s' % (r.returncode, r.stderr.strip()))
+
     # bad options of new
     bad_csv = os.path.join(tmp, 'bad.csv')
     with open(bad_csv, 'w') as f:

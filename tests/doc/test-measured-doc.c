@@ -7,7 +7,9 @@
  *   * copy and equality see every value of the table and every attribute (undo relies on an
  *     exact copy);
  *   * a refused table is placed at the document's line, also after a comment with line
- *     breaks inside the element; the checks before a save; the 8 MiB limit on what is saved.
+ *     breaks inside the element; the checks before a save; the 8 MiB limit on what is saved;
+ *   * a design on measured data alone (an empty <plant>): loads, saves canonically, and is
+ *     refused without data or with an analysis on the model it lacks.
  *
  * Usage: test-measured-doc SOURCE-ROOT
  *
@@ -354,6 +356,81 @@ test_checks_before_save (void **state)
     }
 }
 
+/* ---- a design on measured data alone (an empty <plant>) ------------------------------------- */
+
+static char *
+data_alone_doc (const char *plant, const char *measured_attrs, gboolean with_table)
+{
+  GString *doc = g_string_new ("<?xml version=\"1.0\" encoding=\"UTF-8\"?>\n"
+                               "<design xmlns=\"urn:loopwright:design\" version=\"1\">\n"
+                               "  <title>alone</title>\n");
+  g_string_append_printf (doc, "  <plant dead_time_s=\"0\">%s</plant>\n", plant);  /* line 4 */
+  g_string_append (doc, "  <sampling period_s=\"0.01\" hold=\"zero-order\" "
+                        "compute_delay_samples=\"1\"/>\n");
+  if (with_table)
+    {
+      g_string_append_printf (doc, "  <measured %s>\nfrequency_rad_s,real,imag\n",  /* line 6 */
+                              measured_attrs);
+      for (int i = 1; i <= 12; i++)
+        g_string_append_printf (doc, "%d,%g,-1\n", i, 0.25 * i);   /* exact, shortest */
+      g_string_append (doc, "  </measured>\n");
+    }
+  g_string_append (doc, "  <variants active=\"a\">\n    <variant name=\"a\"/>\n  </variants>\n"
+                        "</design>\n");
+  return g_string_free (doc, FALSE);
+}
+
+static void
+test_data_alone (void **state)
+{
+  (void) state;
+  /* loads with an empty plant and analysis "data", saves back to its own bytes */
+  g_autofree char *ok = data_alone_doc ("", "kind=\"sampled\" analysis=\"data\" "
+                                        "open_loop_unstable_poles=\"0\"", TRUE);
+  g_autoptr (LwDesign) d = load_text (ok, strlen (ok));
+  assert_false (lw_design_has_model (d));
+  assert_true (lw_design_analysis_on_data (d));
+  assert_string_equal (d->plant, "");
+  size_t len = 0;
+  g_autofree char *again = text_ok (d, &len);
+  assert_string_equal (again, ok);
+  /* blanks count as empty */
+  g_autofree char *blank = data_alone_doc ("  \n ", "kind=\"sampled\" analysis=\"data\"", TRUE);
+  g_autoptr (LwDesign) b = load_text (blank, strlen (blank));
+  assert_false (lw_design_has_model (b));
+
+  /* no model and no data: refused at the plant */
+  g_autofree char *neither = data_alone_doc ("", "", FALSE);
+  expect_error (neither, LW_DESIGN_ERROR_VALUE, "measured.lwd:4: <plant>: the plant expression "
+                "is empty; expected a proper rational expression in s, e.g. 40/(s*(s+8)), or a "
+                "<measured> response after <sampling> to design on");
+  /* no model but an analysis on the model: refused at <measured>, naming the plant's line */
+  g_autofree char *on_model = data_alone_doc ("", "kind=\"sampled\" analysis=\"model\"", TRUE);
+  expect_error (on_model, LW_DESIGN_ERROR_VALUE, "measured.lwd:6: <measured>: attribute "
+                "'analysis' is \"model\" but <plant> (line 4) holds no model; write "
+                "analysis=\"data\"");
+  g_autofree char *by_default = data_alone_doc ("", "kind=\"sampled\"", TRUE);
+  expect_error (by_default, LW_DESIGN_ERROR_VALUE, "holds no model");
+
+  /* a plant cleared in the window leaves the analysis field as it was: without a model the
+   * analysis is the data's all the same, and so is what is saved */
+  GError *error = NULL;
+  d->measured_analysis = LW_DESIGN_ANALYSIS_MODEL;
+  assert_true (lw_design_analysis_on_data (d));
+  g_autofree char *saved = text_ok (d, &len);
+  assert_string_equal (saved, ok);
+  /* no model and no data: refused before a save */
+  lw_measured_free (d->measured);
+  d->measured = NULL;
+  assert_false (lw_design_validate (d, &error));
+  assert_non_null (strstr (error->message, "neither a plant model nor a measured response"));
+  g_clear_error (&error);
+  /* a model with data judged on the model is on the model */
+  g_autoptr (LwDesign) m = lw_design_new ("1/(s+1)", 0.01);
+  assert_true (lw_design_has_model (m));
+  assert_false (lw_design_analysis_on_data (m));
+}
+
 /* A table whose canonical text is over 8 MiB is not written: the loader would refuse it. */
 static void
 test_size_limit (void **state)
@@ -397,6 +474,7 @@ main (int argc, char **argv)
     cmocka_unit_test (test_places),
     cmocka_unit_test (test_checks_before_save),
     cmocka_unit_test (test_size_limit),
+    cmocka_unit_test (test_data_alone),
   };
   return cmocka_run_group_tests (tests, NULL, NULL);
 }

@@ -28,6 +28,9 @@ from lwgui import (debug_lines, fail, key, kill_window, outer, quit_window,  # n
                    saved_after, settle, start_window, wait_for, window_env)
 
 
+PLANT_TEXT = '180*40000/(s*(s+12)*(s^2+40*s+40000))'
+
+
 def series(log_path):
     got = {}
     for d in debug_lines(log_path, 'LW-SERIES'):
@@ -50,7 +53,7 @@ def inner(app, cli, schema_dir, example, artefacts):
                 coh = 0.99 - 0.4 * math.exp(-math.log(wi / 310) ** 2 / 0.01)
                 f.write('%.17g,%.17g,%.17g,%.3f\n' % (wi, hi.real, hi.imag, coh))
         design = os.path.join(tmp, 'axis.lwd')
-        p = subprocess.run([cli, 'new', '--plant', '180*40000/(s*(s+12)*(s^2+40*s+40000))',
+        p = subprocess.run([cli, 'new', '--plant', PLANT_TEXT,
                             '--period', '0.002', '--measured', table, '--measured-kind',
                             'continuous', '--out', design], capture_output=True, text=True)
         if p.returncode != 0:
@@ -72,6 +75,42 @@ def inner(app, cli, schema_dir, example, artefacts):
                 subprocess.run(['import', '-window', 'root',
                                 os.path.join(artefacts, 'measured.png')], check=False)
                 print('series per view:', series(log_path))
+                quit_window(proc, wid)
+            finally:
+                kill_window(proc)
+
+        # a design on the data alone (no plant model): the data's loop in the frequency
+        # views, drawn as the variant's own (one series each, marked data=alone), the step
+        # view without a series (it says a model is needed); saved unchanged
+        alone = os.path.join(tmp, 'alone.lwd')
+        p = subprocess.run([cli, 'new', '--period', '0.002', '--measured', table,
+                            '--measured-kind', 'continuous', '--out', alone],
+                           capture_output=True, text=True)
+        if p.returncode != 0:
+            fail('new --measured without --plant: %s' % p.stderr)
+        text = open(alone, encoding='utf-8').read().replace(
+            '<variant name="initial"/>', '<variant name="initial">\n      <gain ratio="3.4"/>\n'
+            '      <lead zero_rad_s="15" pole_rad_s="110"/>\n    </variant>')
+        with open(alone, 'w', encoding='utf-8') as f:
+            f.write(text)
+        log3 = os.path.join(artefacts, 'measured-alone.log')
+        with open(log3, 'w') as log_file:
+            proc, wid = start_window(app, alone, window_env(schema_dir, tmp), log_file)
+            try:
+                def alone_series():
+                    return {d['view']: int(d['variants'])
+                            for d in debug_lines(log3, 'LW-SERIES') if d.get('data') == 'alone'}
+                want = {'bode-z': 1, 'bode-w': 1, 'nyquist': 1}
+                wait_for(lambda: all(alone_series().get(k) == v for k, v in want.items()),
+                         'the data alone drawn (%s)' % want)
+                settle(log3)
+                if 'step' in alone_series():
+                    fail('the step view drew a series without a model')
+                subprocess.run(['import', '-window', 'root',
+                                os.path.join(artefacts, 'measured-alone.png')], check=False)
+                before = open(alone, 'rb').read()
+                if saved_after(wid, alone) != before:
+                    fail('saving the design on data alone changed it')
                 quit_window(proc, wid)
             finally:
                 kill_window(proc)
