@@ -44,6 +44,7 @@ static const char *const examples[] = {
   "data/examples/camera-slider.lwd",
   "data/examples/kiln.lwd",
   "data/examples/pump-pressure.lwd",
+  "data/examples/belt-conveyor.lwd",
 };
 
 static LwDesign *
