@@ -33,6 +33,9 @@ typedef struct {
   char var;
   int depth;
   LwError *err;
+  const LwExprParam *params;  /* n_params named parameters; used[i] set when the text names */
+  size_t n_params;            /* the i-th */
+  bool *used;
 } Parser;
 
 void

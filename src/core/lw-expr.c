@@ -189,6 +189,58 @@ parse_number (Parser *p, Value *out)
   return LW_OK;
 }
 
+static bool
+is_name_char (int c)
+{
+  return is_letter (c) || is_digit (c) || c == '_';
+}
+
+/* A name where a primary stands: a named parameter's value, else an error that says which
+ * names there are. The domain's variable is handled before (a lone letter). */
+static LwStatus
+parse_name (Parser *p, Value *out)
+{
+  size_t start = p->pos;
+  while (is_name_char (peek (p)))
+    p->pos++;
+  size_t n = p->pos - start;
+  for (size_t i = 0; i < p->n_params; i++)
+    if (strlen (p->params[i].name) == n && memcmp (p->params[i].name, p->text + start, n) == 0)
+      {
+        p->used[i] = true;
+        lw_expr_value_clear (out);
+        out->gain = p->params[i].value;
+        if (out->gain == 0.0)
+          lw_expr_value_set_zero (out);
+        return LW_OK;
+      }
+  if (p->n_params == 0 && n == 1)
+    return lw_error_set (p->err, LW_ERR_PARSE, (int) start,
+                         "unexpected '%c' at position %zu: the variable here is '%c'",
+                         p->text[start], start, p->var);
+  int shown = n > LW_EXPR_NAME_MAX ? LW_EXPR_NAME_MAX : (int) n;
+  if (p->n_params == 0)
+    return lw_error_set (p->err, LW_ERR_PARSE, (int) start,
+                         "unknown name '%.*s%s' at position %zu: the variable here is '%c' and "
+                         "no parameters are given", shown, p->text + start,
+                         n > (size_t) shown ? "..." : "", start, p->var);
+  char names[256];
+  size_t used = 0;
+  names[0] = '\0';
+  for (size_t i = 0; i < p->n_params && used + 2 < sizeof names; i++)
+    {
+      int k = snprintf (names + used, sizeof names - used, "%s%s", i > 0 ? ", " : "",
+                        p->params[i].name);
+      if (k < 0 || (size_t) k >= sizeof names - used)
+        break;
+      used += (size_t) k;
+    }
+  return lw_error_set (p->err, LW_ERR_PARSE, (int) start,
+                       "unknown parameter '%.*s%s' at position %zu: the variable here is '%c', "
+                       "the parameters are %s", shown, p->text + start,
+                       n > (size_t) shown ? "..." : "", start, p->var, names);
+}
+
 static LwStatus
 parse_primary (Parser *p, Value *out)
 {
@@ -197,7 +249,8 @@ parse_primary (Parser *p, Value *out)
   char d[32];
   if (is_digit (c) || c == '.')
     return parse_number (p, out);
-  if (c == p->var) {
+  if (c == p->var && !is_name_char (p->pos + 1 < p->len ? (unsigned char) p->text[p->pos + 1]
+                                                          : -1)) {
     p->pos++;
     lw_expr_value_clear (out);
     out->gain = 1.0;
@@ -226,10 +279,8 @@ parse_primary (Parser *p, Value *out)
     p->pos++;
     return LW_OK;
   }
-  if (is_letter (c))
-    return lw_error_set (p->err, LW_ERR_PARSE, (int) p->pos,
-                         "unexpected '%c' at position %zu: the variable here is '%c'", c, p->pos,
-                         p->var);
+  if (is_letter (c) || c == '_')
+    return parse_name (p, out);
   return lw_error_set (p->err, LW_ERR_PARSE, (int) p->pos,
                        "expected a number, '%c' or '(' at position %zu, found %s", p->var, p->pos,
                        describe (c, d, sizeof d));
@@ -431,10 +482,81 @@ value_to_model (const Value *v, LwDomain domain, double period_s, LwModel **out,
   return LW_OK;
 }
 
+static LwStatus parse_with (const char *text, LwDomain domain, double period_s,
+                            const LwExprParam *params, size_t n_params, bool *used,
+                            LwModel **out, LwError *err);
+
+const char *
+lw_expr_param_name_problem (const char *name)
+{
+  if (name == NULL || name[0] == '\0')
+    return "a parameter's name is empty";
+  if (!is_letter ((unsigned char) name[0]) && name[0] != '_')
+    return "a parameter's name starts with a letter or '_'";
+  size_t n = 0;
+  for (; name[n] != '\0'; n++)
+    if (!is_name_char ((unsigned char) name[n]))
+      return "a parameter's name holds only letters, digits and '_'";
+  if (n > LW_EXPR_NAME_MAX)
+    return "a parameter's name is longer than 32 characters";
+  if (n == 1 && (name[0] == 's' || name[0] == 'w' || name[0] == 'z'))
+    return "s, w and z are the variables of expressions, not parameter names";
+  return NULL;
+}
+
+LwStatus
+lw_expr_parse_params (const char *text, LwDomain domain, double period_s,
+                      const LwExprParam *params, size_t n, LwModel **out, LwError *err)
+{
+  lw_error_clear (err);
+  if (out != NULL)
+    *out = NULL;
+  if (n > 0 && params == NULL)
+    return lw_error_set (err, LW_ERR_INVALID, -1, "lw_expr_parse_params: NULL parameters");
+  if (n > LW_EXPR_PARAMS_MAX)
+    return lw_error_set (err, LW_ERR_INVALID, -1, "%zu parameters, more than the %d an "
+                         "expression takes", n, LW_EXPR_PARAMS_MAX);
+  for (size_t i = 0; i < n; i++)
+    {
+      const char *problem = lw_expr_param_name_problem (params[i].name);
+      if (problem != NULL)
+        return lw_error_set (err, LW_ERR_INVALID, -1, "parameter %zu ('%.*s'): %s", i + 1,
+                             LW_EXPR_NAME_MAX, params[i].name != NULL ? params[i].name : "",
+                             problem);
+      for (size_t j = 0; j < i; j++)
+        if (strcmp (params[j].name, params[i].name) == 0)
+          return lw_error_set (err, LW_ERR_INVALID, -1, "parameter '%s' is given twice",
+                               params[i].name);
+      if (!isfinite (params[i].value))
+        return lw_error_set (err, LW_ERR_INVALID, -1, "parameter '%s' has no finite value",
+                             params[i].name);
+    }
+  bool used[LW_EXPR_PARAMS_MAX] = { false };
+  LwStatus st = parse_with (text, domain, period_s, params, n, used, out, err);
+  if (st != LW_OK)
+    return st;
+  for (size_t i = 0; i < n; i++)
+    if (!used[i])
+      {
+        lw_model_free (*out);
+        *out = NULL;
+        return lw_error_set (err, LW_ERR_INVALID, -1, "parameter '%s' is given but the "
+                             "expression does not use it", params[i].name);
+      }
+  return LW_OK;
+}
+
 LwStatus
 lw_expr_parse (const char *text, LwDomain domain, double period_s, LwModel **out, LwError *err)
 {
   lw_error_clear (err);
+  return parse_with (text, domain, period_s, NULL, 0, NULL, out, err);
+}
+
+static LwStatus
+parse_with (const char *text, LwDomain domain, double period_s, const LwExprParam *params,
+            size_t n_params, bool *used, LwModel **out, LwError *err)
+{
   if (out == NULL)
     return lw_error_set (err, LW_ERR_INVALID, -1, "lw_expr_parse: NULL output");
   *out = NULL;
@@ -449,7 +571,8 @@ lw_expr_parse (const char *text, LwDomain domain, double period_s, LwModel **out
   LwStatus ascii = check_ascii (text, len, err);
   if (ascii != LW_OK)
     return ascii;
-  Parser p = { .text = text, .len = len, .pos = 0, .var = lw_domain_var (domain), .err = err };
+  Parser p = { .text = text, .len = len, .pos = 0, .var = lw_domain_var (domain), .err = err,
+               .params = params, .n_params = n_params, .used = used };
   skip_ws (&p);
   if (p.pos == p.len)
     return lw_error_set (err, LW_ERR_PARSE, (int) p.pos, "empty expression at position %zu",
@@ -476,13 +599,31 @@ lw_expr_parse (const char *text, LwDomain domain, double period_s, LwModel **out
   return st;
 }
 
+static LwStatus check_proper (LwStatus st, LwModel *m, LwModel **out, LwError *err);
+
 LwStatus
 lw_expr_parse_proper (const char *text, LwDomain domain, double period_s, LwModel **out,
                       LwError *err)
 {
   LwModel *m = NULL;
   LwStatus st = lw_expr_parse (text, domain, period_s, &m, err);
-  if (st != LW_OK) {
+  return check_proper (st, m, out, err);
+}
+
+LwStatus
+lw_expr_parse_params_proper (const char *text, LwDomain domain, double period_s,
+                             const LwExprParam *params, size_t n, LwModel **out, LwError *err)
+{
+  LwModel *m = NULL;
+  LwStatus st = lw_expr_parse_params (text, domain, period_s, params, n, &m, err);
+  return check_proper (st, m, out, err);
+}
+
+/* The model m parsed with status st, refused when improper or identically zero. */
+static LwStatus
+check_proper (LwStatus st, LwModel *m, LwModel **out, LwError *err)
+{
+  if (st != LW_OK || m == NULL) {
     if (out != NULL)
       *out = NULL;
     return st;

@@ -9,6 +9,7 @@
 
 #include <cmocka.h>
 
+#include <complex.h>
 #include <float.h>
 #include <math.h>
 #include <stdio.h>
@@ -295,6 +296,117 @@ test_parse_proper (void **state)
   assert_int_equal (err.position, 2);
 }
 
+static bool
+same_model (const LwModel *a, const LwModel *b)
+{
+  if (a->gain != b->gain || a->n_zeros != b->n_zeros || a->n_poles != b->n_poles)
+    return false;
+  return memcmp (a->zeros, b->zeros, a->n_zeros * sizeof *a->zeros) == 0
+         && memcmp (a->poles, b->poles, a->n_poles * sizeof *a->poles) == 0;
+}
+
+/* ---- named parameters ---------------------------------------------------------------------- */
+
+static void
+test_params (void **state)
+{
+  (void) state;
+  const LwExprParam pr[] = { { "K", 2.0 }, { "wn", 10.0 }, { "zeta_1", 0.3 } };
+  LwModel *m = NULL;
+  LwError err;
+  assert_int_equal (lw_expr_parse_params_proper ("K*wn^2/(s*(s^2+2*zeta_1*wn*s+wn^2))",
+                                                 LW_DOMAIN_S, 0.0, pr, 3, &m, &err), LW_OK);
+  /* the textbook second-order pair −ζωn ± jωn√(1−ζ²) (any control text, e.g. Franklin,
+   * Powell & Emami-Naeini, "Feedback Control of Dynamic Systems", §3.3; from memory), gain
+   * K·ωn² = 200, a pole at the origin; the factored form is kept. 1e-14 relative as in
+   * test_example_plant: the pair comes from the closed-form quadratic. */
+  assert_true (m->gain == 200.0);
+  assert_int_equal (m->n_zeros, 0);
+  assert_int_equal (m->n_poles, 3);
+  assert_true (m->poles[0] == 0.0);
+  CHECK_REL (creal (m->poles[1]), -3.0, 1e-14);
+  CHECK_REL (fabs (cimag (m->poles[1])), 10.0 * sqrt (1.0 - 0.09), 1e-14);
+  CHECK_REL (cimag (m->poles[1]), -cimag (m->poles[2]), 1e-14);
+  lw_model_free (m);
+
+  /* the same text with the numbers typed in gives the same model, bit for bit */
+  LwModel *typed = parse_ok ("2*10^2/(s*(s^2+2*0.3*10*s+10^2))");
+  assert_int_equal (lw_expr_parse_params ("K*wn^2/(s*(s^2+2*zeta_1*wn*s+wn^2))", LW_DOMAIN_S,
+                                          0.0, pr, 3, &m, &err), LW_OK);
+  assert_true (same_model (m, typed));
+  lw_model_free (m);
+  lw_model_free (typed);
+
+  /* a parameter of zero makes its term vanish; a name may start with '_' and hold digits */
+  const LwExprParam z[] = { { "_a2", 0.0 } };
+  assert_int_equal (lw_expr_parse_params ("1/(s+1) + _a2*s", LW_DOMAIN_S, 0.0, z, 1, &m, &err),
+                    LW_OK);
+  assert_int_equal (m->n_zeros, 0);
+  assert_int_equal (m->n_poles, 1);
+  lw_model_free (m);
+  /* the variable next to a name: "s" alone is the variable, "s2" is a name */
+  const LwExprParam s2[] = { { "s2", 3.0 } };
+  assert_int_equal (lw_expr_parse_params ("s2/(s+s2)", LW_DOMAIN_S, 0.0, s2, 1, &m, &err),
+                    LW_OK);
+  assert_true (m->gain == 3.0 && m->n_poles == 1 && m->poles[0] == -3.0);
+  lw_model_free (m);
+}
+
+static void
+param_refused (const char *text, const LwExprParam *pr, size_t n, LwStatus code, int position,
+               const char *substring)
+{
+  LwModel *m = (LwModel *) 1;
+  LwError err;
+  LwStatus st = lw_expr_parse_params (text, LW_DOMAIN_S, 0.0, pr, n, &m, &err);
+  if (st != code || err.position != position || strstr (err.message, substring) == NULL)
+    fail_msg ("'%s': status %d at %d '%s'; expected %d at %d containing '%s'", text, st,
+              err.position, err.message, code, position, substring);
+  assert_null (m);
+}
+
+static void
+test_params_refused (void **state)
+{
+  (void) state;
+  const LwExprParam kw[] = { { "K", 2.0 }, { "wn", 10.0 } };
+  param_refused ("K/(s+wm)", kw, 2, LW_ERR_PARSE, 5, "unknown parameter 'wm' at position 5: the "
+                 "variable here is 's', the parameters are K, wn");
+  param_refused ("K/(s+1)", kw, 2, LW_ERR_INVALID, -1, "parameter 'wn' is given but the "
+                 "expression does not use it");
+  const LwExprParam twice[] = { { "K", 2.0 }, { "K", 3.0 } };
+  param_refused ("K/s", twice, 2, LW_ERR_INVALID, -1, "parameter 'K' is given twice");
+  const LwExprParam nan_value[] = { { "K", NAN } };
+  param_refused ("K/s", nan_value, 1, LW_ERR_INVALID, -1, "parameter 'K' has no finite value");
+  const LwExprParam inf_value[] = { { "K", INFINITY } };
+  param_refused ("K/s", inf_value, 1, LW_ERR_INVALID, -1, "no finite value");
+  const char *bad_names[] = { "s", "w", "z", "2a", "a-b", "", "k\xc3\xa4",
+                              "a234567890123456789012345678901234" };
+  const char *why[] = { "variables of expressions", "variables", "variables", "starts with",
+                        "only letters", "empty", "only letters", "longer than 32" };
+  for (size_t i = 0; i < sizeof bad_names / sizeof bad_names[0]; i++)
+    {
+      const LwExprParam b[] = { { bad_names[i], 1.0 } };
+      param_refused ("1/s", b, 1, LW_ERR_INVALID, -1, why[i]);
+    }
+  /* without parameters: a longer name is unknown, a lone other letter keeps its message */
+  param_refused ("K/(s+1)", NULL, 0, LW_ERR_PARSE, 0, "unexpected 'K' at position 0: the "
+                 "variable here is 's'");
+  param_refused ("gain/(s+1)", NULL, 0, LW_ERR_PARSE, 0, "unknown name 'gain' at position 0: "
+                 "the variable here is 's' and no parameters are given");
+  /* a parameter's value making the plant zero or improper is the proper parse's refusal */
+  const LwExprParam k0[] = { { "K", 0.0 } };
+  LwModel *m = NULL;
+  LwError err;
+  assert_int_equal (lw_expr_parse_params_proper ("K/(s+1)", LW_DOMAIN_S, 0.0, k0, 1, &m, &err),
+                    LW_ERR_INVALID);
+  assert_non_null (strstr (err.message, "identically zero"));
+  const LwExprParam a0[] = { { "a", 0.0 } };
+  assert_int_equal (lw_expr_parse_params_proper ("(s^2+1)/(a*s^2+s+1)", LW_DOMAIN_S, 0.0, a0, 1,
+                                                 &m, &err), LW_ERR_INVALID);
+  assert_non_null (strstr (err.message, "improper"));
+}
+
 int
 main (void)
 {
@@ -307,6 +419,8 @@ main (void)
     cmocka_unit_test (test_other_domains),
     cmocka_unit_test (test_malformed_table),
     cmocka_unit_test (test_parse_proper),
+    cmocka_unit_test (test_params),
+    cmocka_unit_test (test_params_refused),
   };
   return cmocka_run_group_tests (tests, NULL, NULL);
 }
