@@ -216,7 +216,49 @@ lw_cli_loop_args_clear (LwCliLoopArgs *a)
   g_free (a->dead_time);
   g_free (a->controller);
   g_free (a->controller_z);
+  g_strfreev (a->params);
   memset (a, 0, sizeof *a);
+}
+
+int
+lw_cli_loop_params (const LwCliLoopArgs *a, LwExprParam *out, char **names, size_t *n)
+{
+  *n = 0;
+  for (size_t i = 0; a->params != NULL && a->params[i] != NULL; i++)
+    {
+      const char *text = a->params[i];
+      if (i >= LW_EXPR_PARAMS_MAX)
+        {
+          lw_cli_bad_input ("--param", "more than %d parameters", LW_EXPR_PARAMS_MAX);
+          goto fail;
+        }
+      const char *eq = strchr (text, '=');
+      if (eq == NULL || eq == text)
+        {
+          g_autofree char *shown = g_utf8_make_valid (text, -1);
+          lw_cli_bad_input ("--param", "'%s' is not NAME=VALUE (e.g. --param wn=120)", shown);
+          goto fail;
+        }
+      names[i] = g_strndup (text, (gsize) (eq - text));
+      *n = i + 1;
+      const char *bad = lw_expr_param_name_problem (names[i]);
+      if (bad != NULL)
+        {
+          g_autofree char *shown = g_utf8_make_valid (names[i], -1);
+          lw_cli_bad_input ("--param", "'%s': %s", shown, bad);
+          goto fail;
+        }
+      g_autofree char *option = g_strdup_printf ("--param %s", names[i]);
+      if (!lw_cli_parse_double (option, eq + 1, &out[i].value))
+        goto fail;
+      out[i].name = names[i];
+    }
+  return LW_EXIT_OK;
+fail:
+  for (size_t i = 0; i < *n; i++)
+    g_free (names[i]);
+  *n = 0;
+  return LW_EXIT_BAD_INPUT;
 }
 
 void
@@ -295,9 +337,22 @@ lw_cli_loop_build (const char *cmd, const LwCliLoopArgs *a, LwCliLoop *out)
   LwError err;
   lw_error_clear (&err);
   double period_s = out->period_s;
-  if (lw_expr_parse_proper (a->plant, LW_DOMAIN_S, 0.0, &out->plant_s, &err) != LW_OK)
+  LwExprParam params[LW_EXPR_PARAMS_MAX];
+  char *names[LW_EXPR_PARAMS_MAX];
+  size_t n_params = 0;
+  status = lw_cli_loop_params (a, params, names, &n_params);
+  if (status != LW_EXIT_OK)
+    goto fail;
+  LwStatus st = lw_expr_parse_params_proper (a->plant, LW_DOMAIN_S, 0.0, params, n_params,
+                                             &out->plant_s, &err);
+  for (size_t i = 0; i < n_params; i++)
+    g_free (names[i]);
+  if (st != LW_OK)
     {
-      status = lw_cli_report_expr_error ("--plant", a->plant, &err);
+      /* a parameter given but not used, twice, or misnamed is the --param's fault */
+      status = lw_cli_report_expr_error (err.position < 0 && n_params > 0 ? "--param"
+                                                                           : "--plant",
+                                         a->plant, &err);
       goto fail;
     }
 

@@ -13,6 +13,7 @@
 
 #include "lw-analysis.h"
 #include "lw-error.h"
+#include "lw-expr.h"
 #include "lw-model.h"
 
 G_BEGIN_DECLS
@@ -69,9 +70,10 @@ typedef struct
   char *dead_time;
   char *controller;
   char *controller_z;
+  char **params;          /* --param NAME=VALUE, repeated: the plant's named parameters */
 } LwCliLoopArgs;
 
-/* GOptionEntry rows for the loop options, writing into `a` (6 entries). Taken as bytes
+/* GOptionEntry rows for the loop options, writing into `a` (7 entries). Taken as bytes
  * (G_OPTION_ARG_FILENAME) so that text which is not UTF-8 reaches our own checks, which name
  * the option, instead of failing in GLib's conversion without naming it. */
 #define LW_CLI_LOOP_ENTRIES(a)                                                            \
@@ -80,7 +82,8 @@ typedef struct
   { "compute-delay", 0, 0, G_OPTION_ARG_FILENAME, &(a)->compute_delay, NULL, NULL },       \
   { "dead-time", 0, 0, G_OPTION_ARG_FILENAME, &(a)->dead_time, NULL, NULL },               \
   { "controller", 0, 0, G_OPTION_ARG_FILENAME, &(a)->controller, NULL, NULL },             \
-  { "controller-z", 0, 0, G_OPTION_ARG_FILENAME, &(a)->controller_z, NULL, NULL }
+  { "controller-z", 0, 0, G_OPTION_ARG_FILENAME, &(a)->controller_z, NULL, NULL },         \
+  { "param", 0, 0, G_OPTION_ARG_FILENAME_ARRAY, &(a)->params, NULL, NULL }
 
 void lw_cli_loop_args_clear (LwCliLoopArgs *a);
 
@@ -99,6 +102,11 @@ typedef struct
 /* Checks the loop options of command `cmd` in the order of the help texts and builds the
  * loop. Returns LW_EXIT_OK or the exit status after printing the message. */
 int lw_cli_loop_build (const char *cmd, const LwCliLoopArgs *a, LwCliLoop *out);
+
+/* The --param options as the expression parser takes them: names point into a->params (each
+ * "NAME=VALUE" split at its first '='), at most LW_EXPR_PARAMS_MAX; *n 0 without any. Prints
+ * the message naming the option and returns the exit status on a malformed one. */
+int lw_cli_loop_params (const LwCliLoopArgs *a, LwExprParam *out, char **names, size_t *n);
 void lw_cli_loop_clear (LwCliLoop *l);
 
 /* Runs the option parser of a command: splits argv with `entries` (GOptionContext, GLib's own

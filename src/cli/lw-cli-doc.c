@@ -225,9 +225,9 @@ int
 lw_cli_doc_refuse_loop_options (const char *cmd, const char *file, const LwCliLoopArgs *a)
 {
   const char *given[] = { a->plant, a->period, a->compute_delay, a->dead_time, a->controller,
-                          a->controller_z };
+                          a->controller_z, a->params != NULL ? a->params[0] : NULL };
   const char *names[] = { "--plant", "--period", "--compute-delay", "--dead-time",
-                          "--controller", "--controller-z" };
+                          "--controller", "--controller-z", "--param" };
   for (size_t i = 0; i < G_N_ELEMENTS (given); i++)
     if (given[i] != NULL)
       {
@@ -287,4 +287,8 @@ lw_cli_doc_loop_args (const LwDesign *d, LwCliLoopArgs *out)
                                                    buf));
   out->dead_time = g_strdup (lw_design_format_number (d->dead_time_s, buf));
   out->compute_delay = g_strdup_printf ("%d", d->compute_delay);
+  out->params = g_new0 (char *, d->n_params + 1);
+  for (size_t i = 0; i < d->n_params; i++)
+    out->params[i] = g_strdup_printf ("%s=%s", d->params[i].name,
+                                      lw_design_format_number (d->params[i].nominal, buf));
 }

@@ -303,6 +303,9 @@ static const char analyze_help[] =
   "  --dead-time SECONDS      plant input dead time in seconds, >= 0 (default 0)\n"
   "  --controller EXPR        controller C(w), proper, in the w-plane variable w (default 1)\n"
   "  --controller-z EXPR      controller C(z), proper, in z (instead of --controller)\n"
+  "  --param NAME=VALUE       a named parameter of the plant expression and its value\n"
+  "                           (repeat for each; e.g. --plant 'K/(s*(s+a))' --param K=40\n"
+  "                           --param a=8)\n"
   LW_CLI_MEASURED_HELP
   "  --points N               frequency points up to pi/T, 16 to 100000 (default 2000)\n"
   "  --steps N                step-response samples, 2 to 1000000 (default 500)\n"

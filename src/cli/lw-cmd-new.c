@@ -25,6 +25,8 @@ static const char new_help[] =
   "  --period SECONDS         sample period T in seconds, > 0 (required)\n"
   "  --compute-delay N        computation delay in whole samples, 0 to 1000 (default 1)\n"
   "  --dead-time SECONDS      plant input dead time in seconds, >= 0 (default 0)\n"
+  "  --param NAME=VALUE       a named parameter of the plant expression and its nominal\n"
+  "                           value, kept in <parameters> (repeat for each)\n"
   "  --title TEXT             the design's title (default: empty)\n"
   "  --measured FILE.csv      a measured frequency response of the plant, kept in the\n"
   "                           document as <measured> (docs/file-format.md)\n"
@@ -63,6 +65,20 @@ new_run (void *data)
   d->dead_time_s = lp.dead_time_s;
   d->compute_delay = lp.compute_delay;
   lw_cli_loop_clear (&lp);
+  /* the plant's parameters (checked with the plant by lw_cli_loop_build), nominal values */
+  LwExprParam params[LW_EXPR_PARAMS_MAX];
+  char *names[LW_EXPR_PARAMS_MAX];
+  size_t n_params = 0;
+  status = lw_cli_loop_params (&a->loop, params, names, &n_params);
+  if (status != LW_EXIT_OK)
+    return status;
+  d->params = g_new0 (LwDesignParam, n_params);
+  d->n_params = n_params;
+  for (size_t i = 0; i < n_params; i++)
+    {
+      d->params[i].name = names[i];      /* taken */
+      d->params[i].nominal = params[i].value;
+    }
   if (a->title != NULL)
     {
       const char *problem = lw_design_text_problem (a->title);
@@ -110,6 +126,7 @@ lw_cmd_new (int argc, char **argv)
     { "period", 0, 0, G_OPTION_ARG_FILENAME, &a.loop.period, NULL, NULL },
     { "compute-delay", 0, 0, G_OPTION_ARG_FILENAME, &a.loop.compute_delay, NULL, NULL },
     { "dead-time", 0, 0, G_OPTION_ARG_FILENAME, &a.loop.dead_time, NULL, NULL },
+    { "param", 0, 0, G_OPTION_ARG_FILENAME_ARRAY, &a.loop.params, NULL, NULL },
     { "title", 0, 0, G_OPTION_ARG_STRING, &a.title, NULL, NULL },
     LW_CLI_MEASURED_ENTRIES (&a.measured),
     { "out", 0, 0, G_OPTION_ARG_FILENAME, &a.out, NULL, NULL },

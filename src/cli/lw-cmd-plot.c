@@ -49,6 +49,9 @@ static const char plot_help_tail[] =
   "  --dead-time SECONDS      plant input dead time in seconds, >= 0 (default 0)\n"
   "  --controller EXPR        controller C(w), proper, in the w-plane variable w (default 1)\n"
   "  --controller-z EXPR      controller C(z), proper, in z (instead of --controller)\n"
+  "  --param NAME=VALUE       a named parameter of the plant expression and its value\n"
+  "                           (repeat for each; e.g. --plant 'K/(s*(s+a))' --param K=40\n"
+  "                           --param a=8)\n"
   LW_CLI_MEASURED_HELP
   "  --variant NAME           the variant of FILE.lwd to draw (default: the active one)\n"
   "  --all-variants           every variant of FILE.lwd, overlaid\n"

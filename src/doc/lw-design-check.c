@@ -73,11 +73,17 @@ lw_design_validate (const LwDesign *d, GError **error)
           return FALSE;
         }
     }
+  char why[512];
+  if (lw_design_params_problem (d, why, sizeof why) != NULL && d->n_params > 0)
+    {
+      g_set_error (error, LW_DESIGN_ERROR, LW_DESIGN_ERROR_VALUE, "the plant's parameters: %s",
+                   why);
+      return FALSE;
+    }
   LwModel *m = NULL;
   LwError err;
   lw_error_clear (&err);
-  if (lw_design_has_model (d)
-      && lw_expr_parse_proper (d->plant, LW_DOMAIN_S, 0.0, &m, &err) != LW_OK)
+  if (lw_design_has_model (d) && lw_design_plant_parse (d, NULL, &m, &err) != LW_OK)
     {
       g_set_error (error, LW_DESIGN_ERROR, LW_DESIGN_ERROR_VALUE,
                    "the plant '%s' is not a proper rational expression in s: %s (byte %d)",

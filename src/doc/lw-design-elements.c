@@ -121,6 +121,105 @@ read_unit (Reader *r, const xmlNode *e, const char *name, char **out)
   return true;
 }
 
+/* <parameters><parameter name="…" nominal="…" [low="…" high="…"] [spread="…"]/>…
+ * </parameters>: the plant's named parameters (lw_design_params_problem's rules; the plant
+ * itself is checked with them by the caller) */
+static bool
+read_parameters (Reader *r, const xmlNode *e, LwDesign *d)
+{
+  static const char *const none[] = { NULL };
+  static const char *const allowed[] = { "name", "nominal", "low", "high", "spread", NULL };
+  if (!lw_load_check_attributes (r, e, "", none))
+    return false;
+  GArray *ps = g_array_new (FALSE, TRUE, sizeof (LwDesignParam));
+  bool ok = true;
+  for (const xmlNode *c = lw_load_next_element (r, e, e->children); ok && c != NULL;
+       c = lw_load_next_element (r, e, c->next))
+    {
+      if (!lw_load_is_element (c, "parameter"))
+        {
+          ok = lw_load_fail (r, c, LW_DESIGN_ERROR_SCHEMA, ": unexpected here; <parameters> "
+                             "holds <parameter> elements only");
+          break;
+        }
+      if (ps->len >= LW_DESIGN_MAX_PARAMS)
+        {
+          ok = lw_load_fail (r, c, LW_DESIGN_ERROR_LIMIT, ": more than %d parameters",
+                             LW_DESIGN_MAX_PARAMS);
+          break;
+        }
+      LwDesignParam p = { 0 };
+      bool has_low = false, has_high = false;
+      ok = lw_load_check_attributes (r, c, "", allowed) && lw_load_no_children (r, c, "")
+           && lw_load_text_attr (r, c, "", "name", true, &p.name);
+      if (ok)
+        {
+          g_autofree char *where = g_strdup_printf (" (parameter '%s')", p.name);
+          const char *bad = lw_expr_param_name_problem (p.name);
+          ok = bad == NULL ? true
+                           : lw_load_fail (r, c, LW_DESIGN_ERROR_VALUE, ": attribute 'name' "
+                                           "'%s': %s", p.name, bad);
+          for (guint j = 0; ok && j < ps->len; j++)
+            if (strcmp (g_array_index (ps, LwDesignParam, j).name, p.name) == 0)
+              ok = lw_load_fail (r, c, LW_DESIGN_ERROR_VALUE, ": parameter '%s' is given twice",
+                                 p.name);
+          ok = ok && lw_load_number_attr (r, c, where, "nominal", LW_NUM_FINITE, true,
+                                          &p.nominal, NULL)
+               && lw_load_number_attr (r, c, where, "low", LW_NUM_FINITE, false, &p.low,
+                                       &has_low)
+               && lw_load_number_attr (r, c, where, "high", LW_NUM_FINITE, false, &p.high,
+                                       &has_high);
+          if (ok && has_low != has_high)
+            ok = lw_load_fail (r, c, LW_DESIGN_ERROR_VALUE, "%s: attribute '%s' without '%s'; "
+                               "a range needs both", where, has_low ? "low" : "high",
+                               has_low ? "high" : "low");
+          g_autofree char *spread = ok ? lw_load_attribute (c, "spread") : NULL;
+          if (spread != NULL && strcmp (spread, "uniform") != 0 && strcmp (spread, "log") != 0)
+            ok = lw_load_fail (r, c, LW_DESIGN_ERROR_VALUE, "%s: attribute 'spread' must be "
+                               "'uniform' or 'log', got '%s'", where, spread);
+          p.ranged = has_low;
+          p.spread = spread != NULL && strcmp (spread, "log") == 0 ? LW_SPREAD_LOG
+                                                                   : LW_SPREAD_UNIFORM;
+          if (ok && spread != NULL && !p.ranged)
+            ok = lw_load_fail (r, c, LW_DESIGN_ERROR_VALUE, "%s: attribute 'spread' without a "
+                               "range (low and high)", where);
+          if (ok)
+            {
+              /* the value rules, one parameter at a time so the message points here */
+              const char *problem = lw_design_param_problem (&p);
+              if (problem != NULL)
+                ok = lw_load_fail (r, c, LW_DESIGN_ERROR_VALUE, ": parameter '%s': %s", p.name,
+                                   problem);
+            }
+        }
+      if (!ok)
+        {
+          g_free (p.name);
+          break;
+        }
+      g_array_append_val (ps, p);
+    }
+  if (r->error != NULL)
+    ok = false;
+  d->n_params = ps->len;
+  d->params = (LwDesignParam *) (void *) g_array_free (ps, FALSE);
+  return ok;
+}
+
+/* The plant at every corner of the parameters' ranges (lw_design_params_problem), reported
+ * at <plant>. */
+static bool
+check_parameter_ranges (Reader *r, const xmlNode *plant_el, const LwDesign *d)
+{
+  if (d->n_params == 0)
+    return true;
+  char why[512];
+  const char *problem = lw_design_params_problem (d, why, sizeof why);
+  if (problem == NULL)
+    return true;
+  return lw_load_fail (r, plant_el, LW_DESIGN_ERROR_VALUE, ": %s", problem);
+}
+
 /* <actuator low="…" high="…" anti_windup="true|false"/> of a variant */
 static bool
 read_actuator (Reader *r, const xmlNode *e, LwDesignVariant *v)
@@ -427,10 +526,22 @@ lw_load_read_design (Reader *r, const xmlNode *root)
   bool no_model = lw_load_is_blank ((const xmlChar *) d->plant);
   if (no_model)
     lw_design_set_string (&d->plant, "");
-  else if (!lw_load_check_plant (r, c, d->plant))
-    return NULL;
   c = lw_load_next_element (r, root, c->next);
   if (r->error != NULL)
+    return NULL;
+
+  /* <parameters> of the plant expression; the plant is read with them */
+  if (lw_load_is_element (c, "parameters"))
+    {
+      if (!read_parameters (r, c, d))
+        return NULL;
+      c = lw_load_next_element (r, root, c->next);
+      if (r->error != NULL)
+        return NULL;
+    }
+  if (!no_model && !lw_load_check_plant (r, plant_el, d))
+    return NULL;
+  if (!check_parameter_ranges (r, plant_el, d))
     return NULL;
 
   /* <sampling period_s="…" hold="zero-order" compute_delay_samples="…"/> */

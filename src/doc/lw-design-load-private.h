@@ -75,7 +75,7 @@ bool
 lw_load_no_children (Reader *r, const xmlNode *e, const char *where);
 
 bool
-lw_load_check_plant (Reader *r, const xmlNode *e, const char *text);
+lw_load_check_plant (Reader *r, const xmlNode *e, const LwDesign *d);
 
 bool
 lw_load_missing (Reader *r, const xmlNode *parent, const xmlNode *at, const char *name,

@@ -290,12 +290,13 @@ rewrite_positions (const char *msg, const char *text, int position, bool *names_
 }
 
 bool
-lw_load_check_plant (Reader *r, const xmlNode *e, const char *text)
+lw_load_check_plant (Reader *r, const xmlNode *e, const LwDesign *d)
 {
+  const char *text = d->plant;
   LwModel *m = NULL;
   LwError err;
   lw_error_clear (&err);
-  LwStatus st = lw_expr_parse_proper (text, LW_DOMAIN_S, 0.0, &m, &err);
+  LwStatus st = lw_design_plant_parse (d, NULL, &m, &err);
   lw_model_free (m);
   if (st == LW_OK)
     return true;

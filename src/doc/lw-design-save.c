@@ -130,6 +130,29 @@ lw_design_to_text (const LwDesign *d, size_t *len_out, GError **error)
   g_string_append_c (o, '>');
   append_escaped (o, d->plant, FALSE);
   g_string_append (o, "</plant>\n");
+  if (d->n_params > 0)
+    {
+      indent (o, 1);
+      g_string_append (o, "<parameters>\n");
+      for (size_t i = 0; i < d->n_params; i++)
+        {
+          const LwDesignParam *p = &d->params[i];
+          indent (o, 2);
+          g_string_append (o, "<parameter");
+          attr_text (o, "name", p->name);
+          attr_number (o, "nominal", p->nominal);
+          if (p->ranged)
+            {
+              attr_number (o, "low", p->low);
+              attr_number (o, "high", p->high);
+              if (p->spread == LW_SPREAD_LOG)
+                attr_text (o, "spread", "log");
+            }
+          g_string_append (o, "/>\n");
+        }
+      indent (o, 1);
+      g_string_append (o, "</parameters>\n");
+    }
 
   indent (o, 1);
   g_string_append (o, "<sampling");

@@ -192,6 +192,9 @@ lw_design_free (LwDesign *d)
   g_free (d->author);
   g_free (d->notes);
   g_free (d->plant);
+  for (size_t i = 0; i < d->n_params; i++)
+    g_free (d->params[i].name);
+  g_free (d->params);
   g_free (d->input_unit);
   g_free (d->output_unit);
   for (size_t i = 0; i < d->n_requirements; i++)
@@ -216,6 +219,12 @@ lw_design_copy (const LwDesign *d)
   c->author = g_strdup (d->author);
   c->notes = g_strdup (d->notes);
   c->plant = g_strdup (d->plant);
+  c->params = g_new0 (LwDesignParam, d->n_params);
+  for (size_t i = 0; i < d->n_params; i++)
+    {
+      c->params[i] = d->params[i];
+      c->params[i].name = g_strdup (d->params[i].name);
+    }
   c->input_unit = g_strdup (d->input_unit);
   c->output_unit = g_strdup (d->output_unit);
   c->views = g_strdupv (d->views);
@@ -342,6 +351,126 @@ measured_equal (const LwDesign *a, const LwDesign *b)
   return true;
 }
 
+LwStatus
+lw_design_plant_parse (const LwDesign *d, const double *values, LwModel **out, LwError *err)
+{
+  if (d->n_params > LW_DESIGN_MAX_PARAMS)
+    return lw_error_set (err, LW_ERR_INVALID, -1, "%zu parameters, more than the %d a design "
+                         "takes", d->n_params, LW_DESIGN_MAX_PARAMS);
+  LwExprParam pr[LW_DESIGN_MAX_PARAMS];
+  for (size_t i = 0; i < d->n_params; i++)
+    {
+      pr[i].name = d->params[i].name;
+      pr[i].value = values != NULL ? values[i] : d->params[i].nominal;
+    }
+  return lw_expr_parse_params_proper (d->plant, LW_DOMAIN_S, 0.0, pr, d->n_params, out, err);
+}
+
+const char *
+lw_design_param_problem (const LwDesignParam *p)
+{
+  if (!isfinite (p->nominal))
+    return "its nominal value is not finite";
+  if (p->ranged && !(isfinite (p->low) && isfinite (p->high)))
+    return "its range is not finite";
+  if (p->ranged && p->low == p->high)
+    return "its range is empty (low equals high; give no range for a fixed value)";
+  if (p->ranged && !(p->low < p->high))
+    return "its range runs backwards (low above high)";
+  if (p->ranged && !(p->low <= p->nominal && p->nominal <= p->high))
+    return "its nominal value lies outside its range";
+  if (p->ranged && p->spread == LW_SPREAD_LOG && !(p->low > 0.0))
+    return "a log spread needs a range above zero";
+  if (p->spread != LW_SPREAD_UNIFORM && p->spread != LW_SPREAD_LOG)
+    return "its spread is unknown";
+  return NULL;
+}
+
+const char *
+lw_design_params_problem (const LwDesign *d, char *buf, size_t size)
+{
+  if (d->n_params > LW_DESIGN_MAX_PARAMS)
+    {
+      g_snprintf (buf, size, "%zu parameters, more than the %d a design takes", d->n_params,
+                  LW_DESIGN_MAX_PARAMS);
+      return buf;
+    }
+  size_t n_ranged = 0;
+  for (size_t i = 0; i < d->n_params; i++)
+    {
+      const LwDesignParam *p = &d->params[i];
+      const char *bad = lw_expr_param_name_problem (p->name);
+      if (bad != NULL)
+        {
+          g_snprintf (buf, size, "parameter %zu ('%.32s'): %s", i + 1,
+                      p->name != NULL ? p->name : "", bad);
+          return buf;
+        }
+      for (size_t j = 0; j < i; j++)
+        if (strcmp (d->params[j].name, p->name) == 0)
+          {
+            g_snprintf (buf, size, "parameter '%s' is given twice", p->name);
+            return buf;
+          }
+      bad = lw_design_param_problem (p);
+      if (bad != NULL)
+        {
+          g_snprintf (buf, size, "parameter '%s': %s", p->name, bad);
+          return buf;
+        }
+      n_ranged += p->ranged;
+    }
+  if (!lw_design_has_model (d))
+    {
+      if (d->n_params > 0)
+        {
+          g_snprintf (buf, size, "parameters are given but the plant has no model to use them");
+          return buf;
+        }
+      return NULL;
+    }
+  /* the plant at the nominals, then at every corner of the range box */
+  double values[LW_DESIGN_MAX_PARAMS];
+  size_t ranged[LW_DESIGN_MAX_PARAMS], k = 0;
+  for (size_t i = 0; i < d->n_params; i++)
+    {
+      values[i] = d->params[i].nominal;
+      if (d->params[i].ranged)
+        ranged[k++] = i;
+    }
+  size_t corners = n_ranged <= LW_DESIGN_MAX_CORNER_PARAMS ? (size_t) 1 << n_ranged : 0;
+  for (size_t c = 0; c <= corners; c++)
+    {
+      if (c > 0)
+        for (size_t b = 0; b < n_ranged; b++)
+          {
+            const LwDesignParam *p = &d->params[ranged[b]];
+            values[ranged[b]] = ((c - 1) >> b) & 1 ? p->high : p->low;
+          }
+      LwModel *m = NULL;
+      LwError err;
+      lw_error_clear (&err);
+      LwStatus st = lw_design_plant_parse (d, values, &m, &err);
+      lw_model_free (m);
+      if (st == LW_OK)
+        continue;
+      if (c == 0)
+        {
+          g_snprintf (buf, size, "%s", err.message);
+          return buf;
+        }
+      GString *at = g_string_new (NULL);
+      for (size_t b = 0; b < n_ranged; b++)
+        g_string_append_printf (at, "%s%s = %.6g", b > 0 ? ", " : "",
+                                d->params[ranged[b]].name, values[ranged[b]]);
+      g_snprintf (buf, size, "at the corner of the parameter ranges %s: %s", at->str,
+                  err.message);
+      g_string_free (at, TRUE);
+      return buf;
+    }
+  return NULL;
+}
+
 bool
 lw_design_has_model (const LwDesign *d)
 {
@@ -365,8 +494,15 @@ lw_design_equal (const LwDesign *a, const LwDesign *b)
 {
   if (a == NULL || b == NULL)
     return a == b;
-  if (!measured_equal (a, b))
+  if (!measured_equal (a, b) || a->n_params != b->n_params)
     return false;
+  for (size_t i = 0; i < a->n_params; i++)
+    {
+      const LwDesignParam *x = &a->params[i], *y = &b->params[i];
+      if (!str_equal (x->name, y->name) || x->nominal != y->nominal || x->ranged != y->ranged
+          || x->low != y->low || x->high != y->high || x->spread != y->spread)
+        return false;
+    }
   if (!str_equal (a->title, b->title) || !str_equal (a->author, b->author)
       || !str_equal (a->notes, b->notes) || !str_equal (a->plant, b->plant)
       || !str_equal (a->input_unit, b->input_unit) || !str_equal (a->output_unit, b->output_unit)

@@ -120,6 +120,27 @@ const char *lw_design_source_problem (const char *s);
 const char *lw_design_measured_kind_name (LwMeasuredKind kind);
 const char *lw_design_analysis_name (LwDesignAnalysis a);
 
+/* A named parameter of the plant expression (<parameters>, docs/file-format.md): its nominal
+ * value and, for a plant family, the range it spans. */
+typedef enum
+{
+  LW_SPREAD_UNIFORM = 0,      /* "uniform": sampled members drawn evenly over [low, high] */
+  LW_SPREAD_LOG               /* "log": evenly in log(value); low > 0 */
+} LwParamSpread;
+
+#define LW_DESIGN_MAX_PARAMS 64     /* LW_EXPR_PARAMS_MAX */
+/* Corners of the range box checked for a plant that is improper or zero there (2^10) */
+#define LW_DESIGN_MAX_CORNER_PARAMS 10
+
+typedef struct
+{
+  char *name;                 /* lw_expr_param_name_problem: letters, digits, '_'; not s, w, z */
+  double nominal;             /* finite */
+  bool ranged;                /* a family's parameter: low < high, low <= nominal <= high */
+  double low, high;
+  LwParamSpread spread;
+} LwDesignParam;
+
 /* Longest view name a document holds, in bytes. */
 #define LW_DESIGN_VIEW_NAME_MAX 32
 
@@ -163,6 +184,10 @@ typedef struct
                                "" when the design is on measured data alone
                                (lw_design_has_model) */
   double dead_time_s;         /* plant input dead time, >= 0, s */
+  /* the named parameters of the plant expression (<parameters>): nominal values, and ranges
+   * for a plant family; n_params 0: none */
+  size_t n_params;
+  LwDesignParam *params;
   /* the units of the plant's input (the actuator's, u) and output (the measured quantity,
    * y), as short free texts ("V", "mm"); NULL: not given (lw_design_unit_problem) */
   char *input_unit;
@@ -210,6 +235,23 @@ bool lw_design_has_model (const LwDesign *d);
 /* True when the design's frequency-response figures are the measured data's: it holds a
  * measurement and says analysis="data" (always so without a model). */
 bool lw_design_analysis_on_data (const LwDesign *d);
+
+/* The plant P(s) with the parameters at values (d->n_params of them in the document's
+ * order; NULL: the nominals), proper and not zero; the core's error otherwise. */
+LwStatus lw_design_plant_parse (const LwDesign *d, const double *values, LwModel **out,
+                                LwError *err);
+
+/* NULL when one parameter's values are acceptable (finite; a range with low < high holding
+ * the nominal; a log spread only above zero), else a sentence (a static string). */
+const char *lw_design_param_problem (const LwDesignParam *p);
+
+/* NULL when the parameters are acceptable: each name valid and given once, values finite,
+ * ranges with low < high holding the nominal, log spread only above zero, at most
+ * LW_DESIGN_MAX_PARAMS; else a sentence (written into buf) naming the parameter. The plant at
+ * the nominals and at every corner of the range box (up to LW_DESIGN_MAX_CORNER_PARAMS ranged
+ * parameters) must parse proper and non-zero: a corner where it does not is named with its
+ * values. */
+const char *lw_design_params_problem (const LwDesign *d, char *buf, size_t size);
 
 /* True when every field is equal (numbers compared with ==, strings byte for byte, absent
  * strings equal only to absent ones). */

@@ -513,6 +513,17 @@ achieved_from_data (LwAchieved *a, const LwMeasuredLoop *ml)
   a->sensitivity_peak = m->sensitivity_peak;
 }
 
+/* The plant's text with its parameters' nominal values (exactly, as hexadecimal doubles):
+ * what the sampled-plant cache knows a plant by. */
+static char *
+plant_key (const LwDesign *d)
+{
+  GString *k = g_string_new (d->plant);
+  for (size_t i = 0; i < d->n_params; i++)
+    g_string_append_printf (k, "\n%s=%a", d->params[i].name, d->params[i].nominal);
+  return g_string_free (k, FALSE);
+}
+
 static LwVariantEval *evaluate_on_data_alone (EvalPrivate *p, const LwDesign *d,
                                               const LwDesignVariant *v);
 static void close_on_data (LwVariantEval *e, const LwDesign *d);
@@ -541,9 +552,11 @@ lw_engine_evaluate_variant (const LwDesign *d, size_t variant, const LwEngineOpt
   lw_error_clear (&err);
   if (!lw_design_has_model (d) && d->measured != NULL)
     return evaluate_on_data_alone (p, d, v);
-  if (lw_expr_parse_proper (d->plant, LW_DOMAIN_S, 0.0, &e->plant_s, &err) != LW_OK)
+  if (lw_design_plant_parse (d, NULL, &e->plant_s, &err) != LW_OK)
     return eval_fail (p, LW_EVAL_FAILED_PLANT, &err);
-  p->shared = cache_lookup (cache, d->plant, e->plant_s, d->dead_time_s, e->period_s, &err);
+  /* the cache knows a plant by its text and the parameters' values */
+  g_autofree char *key = plant_key (d);
+  p->shared = cache_lookup (cache, key, e->plant_s, d->dead_time_s, e->period_s, &err);
   if (p->shared == NULL)
     return eval_fail (p, LW_EVAL_FAILED_SAMPLING, &err);
   e->sampled = p->shared->plant;
