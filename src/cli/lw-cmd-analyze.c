@@ -12,6 +12,7 @@
 #include "lw-cli-common.h"
 #include "lw-cli-doc.h"
 #include "lw-cli-json.h"
+#include "lw-cli-family.h"
 #include "lw-cli-measured.h"
 #include "lw-simulate.h"
 
@@ -305,7 +306,7 @@ static const char analyze_help[] =
   "  --controller-z EXPR      controller C(z), proper, in z (instead of --controller)\n"
   "  --param NAME=VALUE       a named parameter of the plant expression and its value\n"
   "                           (repeat for each; e.g. --plant 'K/(s*(s+a))' --param K=40\n"
-  "                           --param a=8)\n"
+  "                           --param a=8)\n"  LW_CLI_FAMILY_HELP
   LW_CLI_MEASURED_HELP
   "  --points N               frequency points up to pi/T, 16 to 100000 (default 2000)\n"
   "  --steps N                step-response samples, 2 to 1000000 (default 500)\n"
@@ -325,6 +326,7 @@ typedef struct
 {
   LwCliLoopArgs loop;
   LwCliMeasuredArgs measured;
+  LwCliFamilyArgs family;
   char **files;                /* FILE.lwd, when given */
   char *variant;
   char *points;
@@ -553,6 +555,34 @@ print_json (JsonNode *root)
   g_free (text);
 }
 
+/* The plant family of the design fd (its ranged parameters) with variant `index`'s
+ * controller, or with controller_z at period_s when given: added to root ("family") with
+ * --json, else printed. */
+static int
+analyze_family (const AnalyzeArgs *a, const LwDesign *fd, double period_s,
+                const LwModel *controller_z, size_t index, JsonNode *root)
+{
+  LwFamilyOptions fo;
+  int status = lw_cli_family_options (&a->family, &fo);
+  if (status != LW_EXIT_OK)
+    return status;
+  GError *error = NULL;
+  g_autoptr (LwFamily) f = controller_z != NULL
+    ? lw_family_evaluate_controller (fd, period_s, controller_z, &fo, &error)
+    : lw_family_evaluate (fd, index, &fo, &error);
+  if (f == NULL)
+    {
+      status = lw_cli_report_gerror ("family", error);
+      g_error_free (error);
+      return status;
+    }
+  if (root != NULL)
+    lw_cli_family_json (json_node_get_object (root), f, fd);
+  else if (!a->json)
+    lw_cli_family_print (f, fd);
+  return LW_EXIT_OK;
+}
+
 /* The first option given that only a model can serve, or NULL. */
 static const char *
 model_only_option (const AnalyzeArgs *a)
@@ -570,6 +600,12 @@ analyze_run (void *data)
   if (a->measured.file == NULL && a->measured.kind != NULL)
     {
       lw_cli_bad_input ("--measured-kind", "needs --measured FILE.csv");
+      return LW_EXIT_BAD_INPUT;
+    }
+  if (a->measured.file != NULL && (a->family.ranges != NULL || a->family.members != NULL))
+    {
+      lw_cli_bad_input (a->family.ranges != NULL ? "--range" : "--members", "a plant family "
+                        "needs a model; measured data are one machine");
       return LW_EXIT_BAD_INPUT;
     }
   if (a->measured.file != NULL)
@@ -609,6 +645,13 @@ analyze_run (void *data)
         status = lw_cli_loop_evaluate ("analyze", &lp, &eo, TRUE, &e);
       if (status == LW_EXIT_OK)
         status = analyze_loop_run (a, &spec, e, NULL, 0, &root);
+      if (status == LW_EXIT_OK && lw_cli_family_wanted (&a->family, NULL))
+        {
+          g_autoptr (LwDesign) fd = NULL;
+          status = lw_cli_family_design (&a->loop, &a->family, &lp, &fd);
+          if (status == LW_EXIT_OK)
+            status = analyze_family (a, fd, lp.period_s, lp.controller_z, 0, root);
+        }
       if (root != NULL)
         {
           print_json (root);
@@ -627,6 +670,12 @@ analyze_run (void *data)
   int status = lw_cli_doc_refuse_loop_options ("analyze", a->files[0], &a->loop);
   if (status != LW_EXIT_OK)
     return status;
+  if (a->family.ranges != NULL)
+    {
+      lw_cli_bad_input ("--range", "a design document gives its parameters' ranges in "
+                        "<parameters>; --range is for the loop options");
+      return LW_EXIT_BAD_INPUT;
+    }
   g_autoptr (LwDesign) design = NULL;
   status = lw_cli_doc_load (a->files[0], &design);
   if (status != LW_EXIT_OK)
@@ -666,6 +715,8 @@ analyze_run (void *data)
         printf ("\n\n");
       JsonNode *root = NULL;
       status = analyze_loop_run (a, &spec, e, design, which[k], &root);
+      if (status == LW_EXIT_OK && e->ev != NULL && lw_cli_family_wanted (&a->family, design))
+        status = analyze_family (a, design, 0.0, NULL, which[k], root);
       if (root == NULL)
         continue;
       if (b != NULL)
@@ -701,6 +752,7 @@ lw_cmd_analyze (int argc, char **argv)
   const GOptionEntry entries[] = {
     LW_CLI_LOOP_ENTRIES (&a.loop),
     LW_CLI_MEASURED_ENTRIES (&a.measured),
+    LW_CLI_FAMILY_ENTRIES (&a.family),
     { "points", 0, 0, G_OPTION_ARG_STRING, &a.points, NULL, NULL },
     { "steps", 0, 0, G_OPTION_ARG_STRING, &a.steps, NULL, NULL },
     { "saturation", 0, 0, G_OPTION_ARG_STRING, &a.saturation, NULL, NULL },
@@ -717,6 +769,7 @@ lw_cmd_analyze (int argc, char **argv)
                                    analyze_run, &a);
   lw_cli_loop_args_clear (&a.loop);
   lw_cli_measured_args_clear (&a.measured);
+  lw_cli_family_args_clear (&a.family);
   g_strfreev (a.files);
   g_free (a.variant);
   g_free (a.points);

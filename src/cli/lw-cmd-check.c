@@ -10,6 +10,7 @@
 #include "lw-cli-commands.h"
 #include "lw-cli-common.h"
 #include "lw-cli-doc.h"
+#include "lw-cli-family.h"
 
 static const char check_help[] =
   "Usage: " LW_CLI_PROG " check FILE.lwd [--variant NAME | --all-variants]\n"
@@ -55,6 +56,24 @@ check_variant (const char *path, const LwDesign *d, size_t index)
   if (d->n_requirements > 0)
     printf ("  %zu of %zu requirement(s) pass\n", d->n_requirements - failing,
             d->n_requirements);
+  if (ev != NULL && lw_cli_family_wanted (&(LwCliFamilyArgs) { 0 }, d))
+    {
+      /* a plant family: every requirement judged on its worst member too */
+      GError *error = NULL;
+      g_autoptr (LwFamily) f = lw_family_evaluate (d, index, NULL, &error);
+      if (f == NULL)
+        {
+          status = lw_cli_report_gerror ("family", error);
+          g_error_free (error);
+          lw_variant_eval_unref (e);
+          return status;
+        }
+      lw_cli_family_print (f, d);
+      if (d->n_requirements > 0)
+        printf ("  %zu of %zu requirement(s) pass on every member\n",
+                d->n_requirements - f->n_not_passing, d->n_requirements);
+      failing += f->n_not_passing;
+    }
   status = failing > 0 ? LW_EXIT_CHECK_FAILED : LW_EXIT_OK;
   lw_variant_eval_unref (e);
   return status;

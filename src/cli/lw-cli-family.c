@@ -1,0 +1,262 @@
+/* lw-cli-family.c — plant families on the command line (lw-cli-family.h).
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ */
+#include "config.h"
+
+#include <math.h>
+#include <stdio.h>
+#include <string.h>
+
+#include "lw-cli-family.h"
+#include "lw-cli-json.h"
+#include "lw-engine.h"
+
+void
+lw_cli_family_args_clear (LwCliFamilyArgs *a)
+{
+  g_strfreev (a->ranges);
+  g_free (a->members);
+  g_free (a->seed);
+  memset (a, 0, sizeof *a);
+}
+
+gboolean
+lw_cli_family_wanted (const LwCliFamilyArgs *a, const LwDesign *d)
+{
+  if (a->ranges != NULL && a->ranges[0] != NULL)
+    return TRUE;
+  for (size_t i = 0; d != NULL && i < d->n_params; i++)
+    if (d->params[i].ranged)
+      return TRUE;
+  return FALSE;
+}
+
+int
+lw_cli_family_options (const LwCliFamilyArgs *a, LwFamilyOptions *o)
+{
+  lw_family_options_init (o);
+  gint64 v;
+  if (a->members != NULL)
+    {
+      if (!lw_cli_parse_integer ("--members", a->members, 0, LW_FAMILY_MAX_MEMBERS, &v))
+        return LW_EXIT_BAD_INPUT;
+      o->members = (size_t) v;
+    }
+  if (a->seed != NULL)
+    {
+      if (!lw_cli_parse_integer ("--seed", a->seed, 0, G_MAXINT64, &v))
+        return LW_EXIT_BAD_INPUT;
+      o->seed = (guint64) v;
+    }
+  return LW_EXIT_OK;
+}
+
+int
+lw_cli_family_design (const LwCliLoopArgs *loop, const LwCliFamilyArgs *a, const LwCliLoop *lp,
+                      LwDesign **out)
+{
+  *out = NULL;
+  g_autoptr (LwDesign) d = lw_design_new (loop->plant, lp->period_s);
+  d->dead_time_s = lp->dead_time_s;
+  d->compute_delay = lp->compute_delay;
+  LwExprParam params[LW_EXPR_PARAMS_MAX];
+  char *names[LW_EXPR_PARAMS_MAX];
+  size_t n = 0;
+  int status = lw_cli_loop_params (loop, params, names, &n);
+  if (status != LW_EXIT_OK)
+    return status;
+  d->params = g_new0 (LwDesignParam, n);
+  d->n_params = n;
+  for (size_t i = 0; i < n; i++)
+    {
+      d->params[i].name = names[i];   /* taken */
+      d->params[i].nominal = params[i].value;
+    }
+  for (size_t r = 0; a->ranges != NULL && a->ranges[r] != NULL; r++)
+    {
+      const char *text = a->ranges[r];
+      g_autofree char *shown = g_utf8_make_valid (text, -1);
+      const char *eq = strchr (text, '=');
+      const char *colon = eq != NULL ? strchr (eq + 1, ':') : NULL;
+      if (eq == NULL || colon == NULL || eq == text)
+        {
+          lw_cli_bad_input ("--range", "'%s' is not NAME=LOW:HIGH (e.g. --range wn=90:150)",
+                            shown);
+          return LW_EXIT_BAD_INPUT;
+        }
+      g_autofree char *name = g_strndup (text, (gsize) (eq - text));
+      g_autofree char *low = g_strndup (eq + 1, (gsize) (colon - eq - 1));
+      LwDesignParam *p = NULL;
+      for (size_t i = 0; i < d->n_params; i++)
+        if (strcmp (d->params[i].name, name) == 0)
+          p = &d->params[i];
+      g_autofree char *option = g_strdup_printf ("--range %s", shown);
+      if (p == NULL)
+        {
+          lw_cli_bad_input ("--range", "'%s' names no --param; give its nominal value with "
+                            "--param %s=VALUE", shown, name);
+          return LW_EXIT_BAD_INPUT;
+        }
+      if (p->ranged)
+        {
+          lw_cli_bad_input ("--range", "parameter '%s' is given two ranges", name);
+          return LW_EXIT_BAD_INPUT;
+        }
+      if (!lw_cli_parse_double (option, low, &p->low)
+          || !lw_cli_parse_double (option, colon + 1, &p->high))
+        return LW_EXIT_BAD_INPUT;
+      p->ranged = true;
+      const char *bad = lw_design_param_problem (p);
+      if (bad != NULL)
+        {
+          lw_cli_bad_input ("--range", "parameter '%s': %s", name, bad);
+          return LW_EXIT_BAD_INPUT;
+        }
+    }
+  char why[512];
+  if (lw_design_params_problem (d, why, sizeof why) != NULL)
+    {
+      lw_cli_bad_input ("--range", "%s", why);
+      return LW_EXIT_BAD_INPUT;
+    }
+  *out = g_steal_pointer (&d);
+  return LW_EXIT_OK;
+}
+
+/* {"NAME": value, …} of a member */
+static void
+add_member (JsonBuilder *b, const LwFamily *f, size_t index)
+{
+  if (index >= f->n_members)
+    {
+      json_builder_add_null_value (b);
+      return;
+    }
+  json_builder_begin_object (b);
+  for (size_t i = 0; i < f->n_params; i++)
+    {
+      json_builder_set_member_name (b, f->names[i]);
+      lw_cli_json_add_number (b, f->members[index].values[i]);
+    }
+  json_builder_end_object (b);
+}
+
+static const char *const worst_keys[LW_FAMILY_N_FIGURES] = {
+  "worst_phase_margin_deg", "worst_gain_margin_db", "worst_delay_margin_s",
+  "worst_sensitivity_peak", "worst_overshoot_pct", "worst_settling_time_s"
+};
+static const char *const figure_keys[LW_FAMILY_N_FIGURES] = {
+  "phase_margin", "gain_margin", "delay_margin", "sensitivity_peak", "overshoot",
+  "settling_time"
+};
+
+void
+lw_cli_family_json (JsonObject *root, const LwFamily *f, const LwDesign *d)
+{
+  g_autoptr (JsonBuilder) b = json_builder_new ();
+  json_builder_begin_object (b);
+  json_builder_set_member_name (b, "members");
+  json_builder_add_int_value (b, (gint64) f->n_members);
+  json_builder_set_member_name (b, "corners");
+  json_builder_add_int_value (b, (gint64) f->n_corners);
+  json_builder_set_member_name (b, "failed_members");
+  json_builder_add_int_value (b, (gint64) f->n_failed);
+  json_builder_set_member_name (b, "unstable_members");
+  json_builder_add_int_value (b, (gint64) f->n_unstable);
+  for (int k = 0; k < LW_FAMILY_N_FIGURES; k++)
+    {
+      json_builder_set_member_name (b, worst_keys[k]);
+      size_t w = f->worst[k];
+      lw_cli_json_add_optional (b, w != G_MAXSIZE, w != G_MAXSIZE ? f->members[w].figure[k]
+                                                                  : NAN);
+    }
+  json_builder_set_member_name (b, "crossover_range_rad_s");
+  if (isnan (f->crossover_min_rad_s))
+    json_builder_add_null_value (b);
+  else
+    {
+      json_builder_begin_array (b);
+      lw_cli_json_add_number (b, f->crossover_min_rad_s);
+      lw_cli_json_add_number (b, f->crossover_max_rad_s);
+      json_builder_end_array (b);
+    }
+  /* the member of the worst phase margin, and that of each figure */
+  json_builder_set_member_name (b, "worst_member");
+  add_member (b, f, f->worst[LW_FAMILY_PHASE_MARGIN]);
+  json_builder_set_member_name (b, "worst_members");
+  json_builder_begin_object (b);
+  for (int k = 0; k < LW_FAMILY_N_FIGURES; k++)
+    {
+      json_builder_set_member_name (b, figure_keys[k]);
+      add_member (b, f, f->worst[k]);
+    }
+  json_builder_end_object (b);
+  json_builder_set_member_name (b, "requirements");
+  json_builder_begin_array (b);
+  for (size_t r = 0; r < f->n_requirements; r++)
+    {
+      json_builder_begin_object (b);
+      json_builder_set_member_name (b, "name");
+      json_builder_add_string_value (b, lw_design_requirement_title (&d->requirements[r]));
+      json_builder_set_member_name (b, "achieved");
+      lw_cli_json_add_optional (b, f->requirements[r].status != LW_REQ_NOT_AVAILABLE,
+                                f->requirements[r].achieved);
+      json_builder_set_member_name (b, "status");
+      json_builder_add_string_value (b, lw_req_status_word (f->requirements[r].status));
+      json_builder_set_member_name (b, "member");
+      add_member (b, f, f->requirement_member[r]);
+      json_builder_end_object (b);
+    }
+  json_builder_end_array (b);
+  json_builder_end_object (b);
+  json_object_set_member (root, "family", json_builder_get_root (b));
+}
+
+static void
+print_member (const LwFamily *f, size_t index)
+{
+  if (index >= f->n_members)
+    return;
+  printf (" at");
+  for (size_t i = 0; i < f->n_params; i++)
+    printf ("%s %s = %.6g", i > 0 ? "," : "", f->names[i], f->members[index].values[i]);
+}
+
+void
+lw_cli_family_print (const LwFamily *f, const LwDesign *d)
+{
+  printf ("\nPlant family: %zu members (the nominal, %zu corners, the drawn and the searched)",
+          f->n_members, f->n_corners);
+  if (f->n_failed > 0)
+    printf (", %zu not evaluated", f->n_failed);
+  printf ("\n");
+  if (f->n_unstable > 0)
+    printf ("  %zu member(s) with a loop that is NOT stable\n", f->n_unstable);
+  for (int k = 0; k < LW_FAMILY_N_FIGURES; k++)
+    {
+      size_t w = f->worst[k];
+      if (w == G_MAXSIZE)
+        continue;
+      const char *unit = lw_family_figure_unit ((LwFamilyFigure) k);
+      printf ("  worst %-18s %.4g%s%s", lw_family_figure_name ((LwFamilyFigure) k),
+              f->members[w].figure[k], unit[0] ? " " : "", unit);
+      print_member (f, w);
+      printf ("\n");
+    }
+  if (!isnan (f->crossover_min_rad_s))
+    printf ("  crossover                %.4g … %.4g rad/s\n", f->crossover_min_rad_s,
+            f->crossover_max_rad_s);
+  if (f->n_requirements > 0)
+    {
+      printf ("  requirements on the worst member:\n");
+      for (size_t r = 0; r < f->n_requirements; r++)
+        {
+          const LwReqResult *v = &f->requirements[r];
+          printf ("    %-24s %-14s", lw_design_requirement_title (&d->requirements[r]),
+                  v->status == LW_REQ_PASS ? "pass" : v->status == LW_REQ_FAIL ? "FAIL"
+                                                                                 : "NOT AVAILABLE");
+          print_member (f, f->requirement_member[r]);
+          printf ("\n");
+        }
+    }
+}

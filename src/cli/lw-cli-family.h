@@ -1,0 +1,52 @@
+/* lw-cli-family.h — plant families on the command line: --range, --members, --seed, the
+ * design a family is made from without a document, and the family's JSON and text
+ * (docs/families.md).
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ */
+#pragma once
+
+#include <json-glib/json-glib.h>
+
+#include "lw-cli-common.h"
+#include "lw-design.h"
+#include "lw-family.h"
+
+typedef struct
+{
+  char **ranges;          /* --range NAME=LOW:HIGH, repeated */
+  char *members;          /* --members N */
+  char *seed;             /* --seed N */
+} LwCliFamilyArgs;
+
+#define LW_CLI_FAMILY_ENTRIES(a)                                                          \
+  { "range", 0, 0, G_OPTION_ARG_FILENAME_ARRAY, &(a)->ranges, NULL, NULL },               \
+  { "members", 0, 0, G_OPTION_ARG_FILENAME, &(a)->members, NULL, NULL },                  \
+  { "seed", 0, 0, G_OPTION_ARG_FILENAME, &(a)->seed, NULL, NULL }
+
+#define LW_CLI_FAMILY_HELP                                                                \
+  "  --range NAME=LOW:HIGH    the range of a --param over a plant family (repeat for\n"    \
+  "                           each); the margins are then given for every member too\n"    \
+  "  --members N              members drawn over the ranges, 0 to 100000 (default 100),\n"  \
+  "                           besides the nominal and the corners\n"                       \
+  "  --seed N                 seed of the drawn members, a whole number (default 1)\n"
+
+void lw_cli_family_args_clear (LwCliFamilyArgs *a);
+
+/* Whether a family is asked for: a --range, or a document with a ranged parameter. */
+gboolean lw_cli_family_wanted (const LwCliFamilyArgs *a, const LwDesign *d);
+
+/* --members and --seed into *o (lw_family_options_init first). Prints and returns the exit
+ * status on a bad value. */
+int lw_cli_family_options (const LwCliFamilyArgs *a, LwFamilyOptions *o);
+
+/* A design holding the loop options' plant, its --param values with their --range, the
+ * period, dead time and computation delay (no requirements, one empty variant). Prints and
+ * returns the exit status on a bad --range. */
+int lw_cli_family_design (const LwCliLoopArgs *loop, const LwCliFamilyArgs *a,
+                          const LwCliLoop *lp, LwDesign **out);
+
+/* The family as the "family" member of root (docs/cli.md). */
+void lw_cli_family_json (JsonObject *root, const LwFamily *f, const LwDesign *d);
+
+/* The family as text. */
+void lw_cli_family_print (const LwFamily *f, const LwDesign *d);

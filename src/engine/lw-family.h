@@ -1,0 +1,124 @@
+/* lw-family.h — a plant family: the margins of one controller over every machine a design's
+ * parameter ranges describe (<parameters> with low/high, docs/families.md).
+ *
+ * Members: the nominal plant first, then every corner of the range box (up to 2^10), then a
+ * seeded sample drawn over the ranges (each parameter uniformly, or uniformly in log(value)
+ * with spread "log") until the number of members asked for is reached; then, for each of the
+ * phase margin, gain margin and sensitivity peak, a search for the worst member starting from
+ * the worst one found so far (a compass search in the box scaled to [0, 1]^k, steps halved
+ * from 1/4 down to LW_FAMILY_SEARCH_STEP; the worst is often not a corner, e.g. a resonance
+ * moving beside a notch). Each member is evaluated as a single plant would be (lw_evaluate:
+ * the sampled plant, every crossover and margin, closed-loop poles, the step), so a member's
+ * numbers equal those of `analyze` with its parameter values.
+ *
+ * The requirements of the design are judged on the family: for each, the worst member's
+ * figure; a member whose loop is not stable fails every requirement.
+ *
+ * Threads: members are evaluated by worker threads (options.threads, 0: the processors
+ * there are); the result does not depend on their number (each member is computed alone and
+ * the search is sequential in its decisions).
+ *
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ */
+#pragma once
+
+#include <glib.h>
+
+#include "lw-design.h"
+#include "lw-engine.h"
+
+G_BEGIN_DECLS
+
+#define LW_FAMILY_MAX_MEMBERS 100000
+#define LW_FAMILY_SEARCH_STEP (1.0 / 1024.0)
+
+typedef struct
+{
+  size_t members;       /* members evaluated before the search, >= 1 (nominal, corners,
+                           sample); 0: LW_FAMILY_DEFAULT_MEMBERS */
+  guint64 seed;         /* of the sample */
+  gboolean search;      /* search for the worst member of each margin */
+  size_t n_points;      /* frequency points per member (0: the engine's default) */
+  guint threads;        /* worker threads, 0: g_get_num_processors () */
+} LwFamilyOptions;
+
+#define LW_FAMILY_DEFAULT_MEMBERS 100
+
+void lw_family_options_init (LwFamilyOptions *o);
+
+typedef enum
+{
+  LW_FAMILY_NOMINAL = 0,
+  LW_FAMILY_CORNER,
+  LW_FAMILY_SAMPLE,
+  LW_FAMILY_SEARCH
+} LwFamilyOrigin;
+
+/* The figures compared over the family; "worst" is the smallest margin, the largest peak,
+ * overshoot and settling time. */
+typedef enum
+{
+  LW_FAMILY_PHASE_MARGIN = 0,
+  LW_FAMILY_GAIN_MARGIN,
+  LW_FAMILY_DELAY_MARGIN,
+  LW_FAMILY_SENSITIVITY,
+  LW_FAMILY_OVERSHOOT,
+  LW_FAMILY_SETTLING,
+  LW_FAMILY_N_FIGURES
+} LwFamilyFigure;
+
+typedef struct
+{
+  double *values;               /* the parameters' values, in the design's order */
+  LwFamilyOrigin origin;
+  gboolean evaluated;           /* FALSE: the plant or the loop failed (error says why) */
+  char *error;
+  gboolean stable;
+  gboolean has[LW_FAMILY_N_FIGURES];
+  double figure[LW_FAMILY_N_FIGURES];
+  double crossover_rad_s;       /* the governing gain crossover, NAN without one */
+  gboolean has_crossover;
+} LwFamilyMember;
+
+typedef struct
+{
+  size_t n_params;
+  char **names;                 /* n_params */
+  size_t n_members;
+  LwFamilyMember *members;      /* [0] the nominal */
+  size_t n_corners;             /* members 1 … n_corners are the corners */
+  size_t n_failed;              /* members not evaluated */
+  size_t n_unstable;            /* evaluated members whose loop is not stable */
+  /* per figure, the member giving the worst value (G_MAXSIZE: none has it) */
+  size_t worst[LW_FAMILY_N_FIGURES];
+  /* the range of the governing crossover over the members that have one */
+  double crossover_min_rad_s, crossover_max_rad_s;
+  /* each requirement of the design judged on the worst member (n_requirements) */
+  size_t n_requirements;
+  LwReqResult *requirements;
+  size_t *requirement_member;   /* the member the verdict comes from (G_MAXSIZE: none) */
+  size_t n_not_passing;
+} LwFamily;
+
+/* The family of variant `variant` of d (its ranged parameters; a design without any gives
+ * a family of the nominal alone). NULL with an error (LW_ENGINE_ERROR) when the nominal
+ * itself cannot be evaluated or the options are out of range. */
+LwFamily *lw_family_evaluate (const LwDesign *d, size_t variant, const LwFamilyOptions *o,
+                              GError **error);
+/* The same for a controller given in z (domain z, at period_s): the plant, its parameters,
+ * dead time, computation delay and requirements from d, its variants unused (the CLI's loop
+ * options). */
+LwFamily *lw_family_evaluate_controller (const LwDesign *d, double period_s,
+                                         const LwModel *controller_z, const LwFamilyOptions *o,
+                                         GError **error);
+void lw_family_free (LwFamily *f);
+G_DEFINE_AUTOPTR_CLEANUP_FUNC (LwFamily, lw_family_free)
+
+/* The words of a figure ("phase margin" …) and its unit ("deg", "dB", "s", "", "%", "s"). */
+const char *lw_family_figure_name (LwFamilyFigure f);
+const char *lw_family_figure_unit (LwFamilyFigure f);
+
+/* TRUE when a is worse than b for figure f (smaller margins, larger peak/overshoot/time). */
+gboolean lw_family_worse (LwFamilyFigure f, double a, double b);
+
+G_END_DECLS
