@@ -642,8 +642,8 @@ close_on_data (LwVariantEval *e, const LwDesign *d)
   e->measured_kind = d->measured_kind;
   e->measured = g_new0 (LwMeasuredLoop, 1);
   if (lw_measured_loop_close (d->measured, d->measured_kind, e->period_s, e->dead_time_s,
-                              e->compute_delay, e->controller_z, e->sampled, e->measured,
-                              &err) != LW_OK)
+                              e->compute_delay, e->controller_z, e->sampled,
+                              d->measured_unstable_poles, e->measured, &err) != LW_OK)
     {
       g_clear_pointer (&e->measured, g_free);
       e->measured_error = g_error_new_literal (LW_ENGINE_ERROR, err.code, err.message);
