@@ -285,6 +285,57 @@ test_not_real_and_noise (void **state)
   assert_int_equal (lw_measured_nyquist (w, l, NULL, n, T, 0, &st, &err), LW_ERR_INVALID);
 }
 
+/* Noise near the boundary: K·T/(z − 1) with K·T = 1.8, 1.9, 2.1, 2.2 (L(π/T) = −K·T/2, 0.05
+ * to 0.1 from −1) times e^{u + jv}, u, v normal with deviation s (truncated at 3 s), the
+ * coherence whose random error is s (lw-measured.h), 20 seeds each: the verdict is the true
+ * one or undecided — never the wrong one; at s = 0.005 (noise 0.02 at most, below the
+ * distance from −1) always decided, at s = 0.05 (up to 0.2) undecided where −1 is within the
+ * noise. */
+static void
+test_noise_never_wrong (void **state)
+{
+  (void) state;
+  static double w[CAP], coh[CAP];
+  static double complex l[CAP];
+  size_t n = grid (1e-3 / T, PI / T, true, w);
+  const double kts[] = { 1.8, 1.9, 2.1, 2.2 }, levels[] = { 0.005, 0.02, 0.05 };
+  for (size_t j = 0; j < 3; j++)
+    {
+      double s = levels[j];
+      double gamma2 = 1.0 / (1.0 + 2.0 * LW_MEASURED_NOISE_AVERAGES * s * s);
+      size_t decided = 0, undecided = 0;
+      for (size_t i = 0; i < 4; i++)
+        for (uint64_t seed = 1; seed <= 20; seed++)
+          {
+            uint64_t st = 0x9E3779B97F4A7C15ull * (seed + 100 * i + 1000 * j);
+            for (size_t k = 0; k < n; k++)
+              {
+                double u = s * normal_truncated (&st, LW_MEASURED_NOISE_SIGMAS);
+                double v = s * normal_truncated (&st, LW_MEASURED_NOISE_SIGMAS);
+                l[k] = kts[i] / (cexp (I * w[k] * T) - 1) * cexp (u + I * v);
+                coh[k] = gamma2;
+              }
+            LwMeasuredStability r;
+            LwError err;
+            assert_int_equal (lw_measured_nyquist (w, l, coh, n, T, 0, &r, &err), LW_OK);
+            if (r.verdict == LW_MEASURED_UNDECIDED)
+              {
+                assert_int_equal (r.undecided, LW_NYQUIST_NEAR_MINUS_ONE);
+                undecided++;
+                continue;
+              }
+            assert_int_equal (r.closed_loop_unstable, kts[i] > 2);
+            decided++;
+          }
+      print_message ("noise s = %g near |K T| = 2: %zu decided (all right), %zu undecided\n", s,
+                     decided, undecided);
+      if (j == 0)
+        assert_int_equal (undecided, 0);
+      if (j == 2)
+        assert_true (undecided > 0);
+    }
+}
+
 /* The belt axis (test-measured.c): 180·40000/(s(s + 12)(s² + 40s + 40000)), T = 2 ms, 1.3
  * samples of dead time, one sample of computation delay, controller gain g·(1 + w/15)/(1 +
  * w/110); the data are the ZOH plant's exact response at 50 points per decade up to π/T,
@@ -362,6 +413,7 @@ main (void)
     cmocka_unit_test (test_type_two),
     cmocka_unit_test (test_data_short),
     cmocka_unit_test (test_not_real_and_noise),
+    cmocka_unit_test (test_noise_never_wrong),
     cmocka_unit_test (test_belt_axis_against_model),
   };
   return cmocka_run_group_tests (tests, NULL, NULL);

@@ -266,29 +266,6 @@ test_by_hand (void **state)
   assert_int_equal (lw_measured_margins (w3, lz, NULL, 3, &mm, &err), LW_ERR_INVALID);
 }
 
-/* A seeded normal deviate (xorshift64* and Box–Muller), truncated at 3 standard deviations:
- * the rule of docs/measured-data.md widens an interval past the points within 3 deviations
- * of their noise (LW_MEASURED_NOISE_SIGMAS), so with noise inside that bound a true
- * crossover must lie in its interval — the test checks the rule, not luck. */
-static double
-normal3 (uint64_t *state)
-{
-  for (;;)
-    {
-      double u[2];
-      for (int k = 0; k < 2; k++)
-        {
-          *state ^= *state >> 12;
-          *state ^= *state << 25;
-          *state ^= *state >> 27;
-          u[k] = ((double) ((*state * 2685821657736338717ull) >> 11) + 0.5) / 9007199254740992.0;
-        }
-      double g = sqrt (-2.0 * log (u[0])) * cos (2 * PI * u[1]);
-      if (fabs (g) <= LW_MEASURED_NOISE_SIGMAS)
-        return g;
-    }
-}
-
 /* the largest slope of y against ln ω between consecutive points in [lo, hi] */
 static double
 max_slope (const double *w, const double *y, size_t n, double lo, double hi)
@@ -301,7 +278,10 @@ max_slope (const double *w, const double *y, size_t n, double lo, double hi)
 }
 
 /* Noise: the belt axis's sampled data (as above, up to π/T) times e^{u + jv}, u and v normal
- * with standard deviation s (truncated at 3 s), and a coherence γ² = 1/(1 + 2·n_d·s²) — the
+ * with standard deviation s, truncated at 3 s (normal_truncated, lw-test.h: the rule of
+ * docs/measured-data.md widens an interval past the points within 3 deviations of their
+ * noise, so with noise inside that bound a true crossover must lie in its interval — the test
+ * checks the rule, not luck), and a coherence γ² = 1/(1 + 2·n_d·s²) — the
  * one whose random error by Bendat & Piersol's formula (lw-measured.h) is s. 20 seeds at
  * s = 0.02 (γ² = 0.997) and s = 0.2 (γ² = 0.76, below the 0.8 flag). Each crossover of the
  * noise-free model inside the data lies in the interval of a reported crossing of its kind,
@@ -374,7 +354,8 @@ test_noise_intervals (void **state)
           uint64_t st = 0x9E3779B97F4A7C15ull * seed;
           for (size_t i = 0; i < n; i++)
             {
-              double u = s * normal3 (&st), v = s * normal3 (&st);
+              double u = s * normal_truncated (&st, LW_MEASURED_NOISE_SIGMAS);
+              double v = s * normal_truncated (&st, LW_MEASURED_NOISE_SIGMAS);
               pn[i] = p[i] * cexp (u + I * v);
               coh[i] = gamma2;
             }
