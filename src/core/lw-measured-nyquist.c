@@ -315,19 +315,15 @@ lw_measured_nyquist (const double *omega, const double complex *l, const double 
   else
     {
       out->undecided |= at_nyq ? LW_NYQUIST_NOT_REAL : LW_NYQUIST_HIGH_END;
-      if (ok)
-        {
-          if (at_nyq)
-            snprintf (out->note, sizeof out->note,
-                      "undecided: the data reach pi/T, where the loop is real, but their phase "
-                      "there is %.1f° from the real axis (more than 10° and the noise)",
-                      dev_real / DEG);
-          else
-            snprintf (out->note, sizeof out->note,
-                      "undecided: the data stop at %.4g rad/s, short of pi/T = %.4g rad/s, "
-                      "with |L| = %.3g there (above 0.5: less than 6 dB to spare): measure up "
-                      "to pi/T", omega[n - 1], nyq, cabs (l[n - 1]));
-        }
+      /* after a reason given above, this one follows it */
+      note_add (out, "%s", ok ? "undecided: " : "; and ");
+      if (at_nyq)
+        note_add (out, "the data reach pi/T, where the loop is real, but their phase there is "
+                  "%.1f° from the real axis (more than 10° and the noise)", dev_real / DEG);
+      else
+        note_add (out, "the data stop at %.4g rad/s, short of pi/T = %.4g rad/s, with |L| = "
+                  "%.3g there (above 0.5: less than 6 dB to spare): measure up to pi/T",
+                  omega[n - 1], nyq, cabs (l[n - 1]));
       ok = false;
     }
   free (lg);

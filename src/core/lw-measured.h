@@ -169,7 +169,7 @@ typedef struct {
   int encirclements;          /* N, counter-clockwise around −1 (when decided) */
   int closed_loop_unstable;   /* Z = P − N (when decided; −1 otherwise) */
   double nearest_minus_one;   /* min |1 + L| over the points */
-  char note[320];             /* one or two sentences: the assumptions made, or why undecided */
+  char note[512];             /* one or two sentences: the assumptions made, or why undecided */
 } LwMeasuredStability;
 
 /* The loop at n points (omega ascending, all at or below π/T), the sample period, P (0 …
