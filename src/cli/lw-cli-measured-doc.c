@@ -84,7 +84,6 @@ lw_cli_measured_doc_analyze (const char *file, const LwDesign *d, const LwVarian
         json_object_set_null_member (o, "source");
       json_object_set_string_member (o, "analysis",
                                      lw_design_analysis_name (d->measured_analysis));
-      json_object_set_int_member (o, "open_loop_unstable_poles", d->measured_unstable_poles);
       json_object_set_member (root, "measured", node);
       if (data)
         {

@@ -18,6 +18,7 @@ lw_cli_measured_args_clear (LwCliMeasuredArgs *a)
 {
   g_clear_pointer (&a->file, g_free);
   g_clear_pointer (&a->kind, g_free);
+  g_clear_pointer (&a->unstable_poles, g_free);
 }
 
 /* Reads FILE (mapped, so a huge file is not read whole: the parser stops at its line limit). */
@@ -55,7 +56,7 @@ lw_cli_measured_read (const char *file, LwMeasured **out, char *note, size_t not
 
 static void
 add_crossings (JsonBuilder *b, const char *freq_key, const char *margin_key,
-               const char *interval_key, const char *coherence_key,
+               const char *interval_key, const char *coherence_key, const char *noise_key,
                const LwMeasuredCrossing *c, size_t n)
 {
   json_builder_set_member_name (b, freq_key);
@@ -85,6 +86,11 @@ add_crossings (JsonBuilder *b, const char *freq_key, const char *margin_key,
   for (size_t i = 0; i < n; i++)
     json_builder_add_boolean_value (b, c[i].low_coherence);
   json_builder_end_array (b);
+  json_builder_set_member_name (b, noise_key);
+  json_builder_begin_array (b);
+  for (size_t i = 0; i < n; i++)
+    json_builder_add_boolean_value (b, c[i].within_noise);
+  json_builder_end_array (b);
 }
 
 static void
@@ -100,9 +106,9 @@ static void
 add_loop (JsonBuilder *b, const LwMeasuredMargins *mm, double period_s)
 {
   json_builder_begin_object (b);
-  add_crossings (b, "gain_crossovers_rad_s", "phase_margins_deg", NULL, NULL, mm->gain,
+  add_crossings (b, "gain_crossovers_rad_s", "phase_margins_deg", NULL, NULL, NULL, mm->gain,
                  mm->n_gain);
-  add_crossings (b, "phase_crossovers_rad_s", "gain_margins_db", NULL, NULL, mm->phase,
+  add_crossings (b, "phase_crossovers_rad_s", "gain_margins_db", NULL, NULL, NULL, mm->phase,
                  mm->n_phase);
   member_number (b, "phase_margin_deg", mm->phase_margin_deg);
   member_number (b, "gain_crossover_rad_s", mm->gain_crossover_rad_s);
@@ -120,6 +126,56 @@ add_loop (JsonBuilder *b, const LwMeasuredMargins *mm, double period_s)
   json_builder_begin_array (b);
   json_builder_end_array (b);
   json_builder_end_object (b);
+}
+
+static void
+member_int_or_null (JsonBuilder *b, const char *key, gboolean known, int v)
+{
+  json_builder_set_member_name (b, key);
+  if (known)
+    json_builder_add_int_value (b, v);
+  else
+    json_builder_add_null_value (b);
+}
+
+/* The Nyquist criterion on the data, as members of the measured object. */
+static void
+add_stability (JsonBuilder *b, const LwMeasuredStability *st)
+{
+  static const struct { unsigned bit; const char *name; } why[] = {
+    { LW_NYQUIST_LOW_END, "low_end" },
+    { LW_NYQUIST_HIGH_END, "high_end" },
+    { LW_NYQUIST_NOT_REAL, "not_real_at_nyquist" },
+    { LW_NYQUIST_NEAR_MINUS_ONE, "near_minus_one" },
+    { LW_NYQUIST_POLE_COUNT, "unstable_pole_count" },
+  };
+  gboolean decided = st->verdict != LW_MEASURED_UNDECIDED;
+  json_builder_set_member_name (b, "open_loop_unstable_poles");
+  json_builder_add_int_value (b, st->open_loop_unstable);
+  json_builder_set_member_name (b, "stability");
+  json_builder_add_string_value (b, lw_measured_verdict_name (st->verdict));
+  member_int_or_null (b, "closed_loop_unstable_poles", decided, st->closed_loop_unstable);
+  member_int_or_null (b, "encirclements", decided, st->encirclements);
+  member_int_or_null (b, "loop_type", st->loop_type >= 0, st->loop_type);
+  json_builder_set_member_name (b, "stability_undecided_because");
+  json_builder_begin_array (b);
+  for (size_t i = 0; i < G_N_ELEMENTS (why); i++)
+    if (st->undecided & why[i].bit)
+      json_builder_add_string_value (b, why[i].name);
+  json_builder_end_array (b);
+  json_builder_set_member_name (b, "stability_note");
+  json_builder_add_string_value (b, st->note);
+}
+
+/* a crossing's flags in the text report */
+static const char *
+crossing_flags (const LwMeasuredCrossing *c)
+{
+  if (c->low_coherence && c->within_noise)
+    return "  (low coherence; within noise)";
+  if (c->low_coherence)
+    return "  (low coherence)";
+  return c->within_noise ? "  (within noise)" : "";
 }
 
 /* The text section of the loop on the data; label names the data (a file, a document's
@@ -152,16 +208,14 @@ lw_cli_measured_print (const LwCliMeasuredLoop *ml, const char *label, gboolean 
     printf ("  none in the data\n");
   for (size_t i = 0; i < mm->n_gain && i < LW_CLI_MAX_LISTED; i++)
     printf ("  %-26.6g %-20.4g %.6g … %.6g%s\n", mm->gain[i].omega_rad_s, mm->gain[i].margin,
-            mm->gain[i].lo_rad_s, mm->gain[i].hi_rad_s,
-            mm->gain[i].low_coherence ? "  (low coherence)" : "");
+            mm->gain[i].lo_rad_s, mm->gain[i].hi_rad_s, crossing_flags (&mm->gain[i]));
   printf ("  %-26s %-20s %s\n", "phase crossover (rad/s)", "gain margin (dB)",
           "between (rad/s)");
   if (mm->n_phase == 0)
     printf ("  none in the data\n");
   for (size_t i = 0; i < mm->n_phase && i < LW_CLI_MAX_LISTED; i++)
     printf ("  %-26.6g %-20.4g %.6g … %.6g%s\n", mm->phase[i].omega_rad_s, mm->phase[i].margin,
-            mm->phase[i].lo_rad_s, mm->phase[i].hi_rad_s,
-            mm->phase[i].low_coherence ? "  (low coherence)" : "");
+            mm->phase[i].lo_rad_s, mm->phase[i].hi_rad_s, crossing_flags (&mm->phase[i]));
   printf ("\n");
   if (isfinite (mm->phase_margin_deg))
     printf ("  %-24s %.4g deg at %.6g rad/s\n", "phase margin", mm->phase_margin_deg,
@@ -180,9 +234,13 @@ lw_cli_measured_print (const LwCliMeasuredLoop *ml, const char *label, gboolean 
   if (mm->crossover_below_data)
     printf ("  caution: |L| < 1 at the lowest measured frequency: a gain crossover may lie "
             "below the data\n");
+  const LwMeasuredStability *st = &ml->loop.stability;
+  printf ("\nStability on the data (Nyquist criterion, %d open-loop unstable pole%s given): "
+          "%s\n  %s\n", st->open_loop_unstable, st->open_loop_unstable == 1 ? "" : "s",
+          lw_measured_verdict_name (st->verdict), st->note);
   if (closing)
-    printf ("\nStability, the closed-loop poles and the time responses need a model: fit one "
-            "to the data, or give --plant.\n");
+    printf ("\nThe closed-loop poles and the time responses need a model: fit one to the data, "
+            "or give --plant.\n");
 }
 
 void
@@ -233,6 +291,11 @@ lw_cli_measured_loop_build (const char *cmd, const LwCliLoopArgs *loop,
                         "already; give it only with --measured-kind continuous");
       return LW_EXIT_BAD_INPUT;
     }
+  gint64 poles = 0;
+  if (m->unstable_poles != NULL
+      && !lw_cli_parse_integer ("--measured-unstable-poles", m->unstable_poles, 0,
+                                LW_MEASURED_MAX_UNSTABLE_POLES, &poles))
+    return LW_EXIT_BAD_INPUT;
   int status = lw_cli_loop_build (cmd, &la, &ml->lp);
   if (status != LW_EXIT_OK)
     return status;
@@ -249,7 +312,8 @@ lw_cli_measured_loop_build (const char *cmd, const LwCliLoopArgs *loop,
   lw_error_clear (&err);
   LwStatus st = lw_measured_loop_close (ml->data, ml->kind, lp->period_s, lp->dead_time_s,
                                         lp->compute_delay, lp->controller_z,
-                                        ml->has_model ? lp->sampled : NULL, &ml->loop, &err);
+                                        ml->has_model ? lp->sampled : NULL, (int) poles,
+                                        &ml->loop, &err);
   if (st != LW_OK)
     {
       fprintf (stderr, "%s: %s\n", m->file, err.message);
@@ -276,16 +340,17 @@ lw_cli_measured_json (JsonBuilder *b, const LwCliMeasuredLoop *ml, const char *f
   json_builder_set_member_name (b, "note");
   json_builder_add_string_value (b, ml->note);
   add_crossings (b, "gain_crossovers_rad_s", "phase_margins_deg",
-                 "gain_crossover_intervals_rad_s", "gain_crossover_low_coherence", mm->gain,
-                 mm->n_gain);
+                 "gain_crossover_intervals_rad_s", "gain_crossover_low_coherence",
+                 "gain_crossover_within_noise", mm->gain, mm->n_gain);
   add_crossings (b, "phase_crossovers_rad_s", "gain_margins_db",
                  "phase_crossover_intervals_rad_s", "phase_crossover_low_coherence",
-                 mm->phase, mm->n_phase);
+                 "phase_crossover_within_noise", mm->phase, mm->n_phase);
   json_builder_set_member_name (b, "crossover_above_data");
   json_builder_add_boolean_value (b, mm->crossover_above_data);
   json_builder_set_member_name (b, "crossover_below_data");
   json_builder_add_boolean_value (b, mm->crossover_below_data);
   member_number (b, "model_relative_difference", ml->loop.model_diff);
+  add_stability (b, &ml->loop.stability);
   json_builder_end_object (b);
 }
 

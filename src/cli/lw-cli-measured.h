@@ -22,12 +22,21 @@ typedef struct
 {
   char *file;
   char *kind;
+  char *unstable_poles;       /* --measured-unstable-poles, where a command takes it */
 } LwCliMeasuredArgs;
 
 /* GOptionEntry rows for the two options (bytes, like the loop options). */
 #define LW_CLI_MEASURED_ENTRIES(a)                                                        \
   { "measured", 0, 0, G_OPTION_ARG_FILENAME, &(a)->file, NULL, NULL },                     \
   { "measured-kind", 0, 0, G_OPTION_ARG_FILENAME, &(a)->kind, NULL, NULL }
+
+/* --measured-unstable-poles N: the loop's open-loop poles outside the unit circle, for the
+ * Nyquist criterion on the data (analyze). */
+#define LW_CLI_MEASURED_POLES_ENTRY(a)                                                    \
+  { "measured-unstable-poles", 0, 0, G_OPTION_ARG_STRING, &(a)->unstable_poles, NULL, NULL }
+#define LW_CLI_MEASURED_POLES_HELP                                                        \
+  "  --measured-unstable-poles N  the loop's open-loop poles outside the unit circle,\n"  \
+  "                           0 to 1000 (default 0), for the stability on the data\n"
 
 /* The help lines of the two options. */
 #define LW_CLI_MEASURED_HELP                                                              \

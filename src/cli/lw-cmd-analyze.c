@@ -308,6 +308,7 @@ static const char analyze_help[] =
   "                           (repeat for each; e.g. --plant 'K/(s*(s+a))' --param K=40\n"
   "                           --param a=8)\n"  LW_CLI_FAMILY_HELP
   LW_CLI_MEASURED_HELP
+  LW_CLI_MEASURED_POLES_HELP
   "  --points N               frequency points up to pi/T, 16 to 100000 (default 2000)\n"
   "  --steps N                step-response samples, 2 to 1000000 (default 500)\n"
   "  --saturation LOW:HIGH    actuator limits on the controller output, LOW < HIGH\n"
@@ -597,9 +598,12 @@ analyze_run (void *data)
   const AnalyzeArgs *a = data;
   AnalyzeSpec spec;
   LwCliLoop lp;
-  if (a->measured.file == NULL && a->measured.kind != NULL)
+  if (a->measured.file == NULL && (a->measured.kind != NULL || a->measured.unstable_poles))
     {
-      lw_cli_bad_input ("--measured-kind", "needs --measured FILE.csv");
+      lw_cli_bad_input (a->measured.kind != NULL ? "--measured-kind"
+                        : "--measured-unstable-poles", "needs --measured FILE.csv%s",
+                        a->measured.kind != NULL ? "" : " (a design document gives its own: "
+                        "<measured open_loop_unstable_poles>)");
       return LW_EXIT_BAD_INPUT;
     }
   if (a->measured.file != NULL && (a->family.ranges != NULL || a->family.members != NULL))
@@ -752,6 +756,7 @@ lw_cmd_analyze (int argc, char **argv)
   const GOptionEntry entries[] = {
     LW_CLI_LOOP_ENTRIES (&a.loop),
     LW_CLI_MEASURED_ENTRIES (&a.measured),
+    LW_CLI_MEASURED_POLES_ENTRY (&a.measured),
     LW_CLI_FAMILY_ENTRIES (&a.family),
     { "points", 0, 0, G_OPTION_ARG_STRING, &a.points, NULL, NULL },
     { "steps", 0, 0, G_OPTION_ARG_STRING, &a.steps, NULL, NULL },

@@ -75,21 +75,45 @@ wrap_pi (double phi)
   return r - PI;
 }
 
-static bool
-push (LwMeasuredCrossing **a, size_t *n, size_t *cap, LwMeasuredCrossing c)
+double
+lw_measured_noise_sigma (double coherence)
 {
-  if (*n == *cap)
+  if (!(coherence < 1.0))
+    return 0.0;
+  if (!(coherence > 0.0))
+    return INFINITY;
+  /* √(1 − γ²) / (γ·√(2 n_d)) with γ² the coherence (lw-measured.h) */
+  return sqrt ((1.0 - coherence) / (coherence * 2.0 * LW_MEASURED_NOISE_AVERAGES));
+}
+
+/* A sign change between points i and i + 1 before merging: the crossing, and for a phase
+ * crossing the odd multiple of π it is at. */
+typedef struct {
+  LwMeasuredCrossing c;
+  size_t i;
+  double target;
+} Raw;
+
+typedef struct {
+  Raw *a;
+  size_t n, cap;
+} RawList;
+
+static bool
+push (RawList *l, Raw r)
+{
+  if (l->n == l->cap)
     {
-      size_t nc = *cap ? 2 * *cap : 8;
-      if (nc > SIZE_MAX / sizeof **a)
+      size_t nc = l->cap ? 2 * l->cap : 8;
+      if (nc > SIZE_MAX / sizeof *l->a)
         return false;
-      LwMeasuredCrossing *b = realloc (*a, nc * sizeof **a);
+      Raw *b = realloc (l->a, nc * sizeof *l->a);
       if (b == NULL)
         return false;
-      *a = b;
-      *cap = nc;
+      l->a = b;
+      l->cap = nc;
     }
-  (*a)[(*n)++] = c;
+  l->a[l->n++] = r;
   return true;
 }
 
@@ -101,6 +125,63 @@ lw_measured_margins_clear (LwMeasuredMargins *m)
   free (m->gain);
   free (m->phase);
   memset (m, 0, sizeof *m);
+}
+
+/* point j within the noise of the crossing: its distance x from it below its noise band */
+static bool
+uncertain (const double *x, const double *band, size_t j, double target)
+{
+  return fabs (x[j] - target) < band[j];
+}
+
+/* The raw sign changes merged (docs/measured-data.md, "Noise"): each one's interval reaches
+ * past the neighbouring points within the noise of the crossing (x: ln|L| with target 0, or
+ * the unwrapped phase with its odd multiple of π); sign changes whose widened intervals
+ * overlap (of the same target) make one crossing, the middle one's frequency and margin with
+ * the union interval. Without noise (band 0) every raw crossing comes out as it was. */
+static LwMeasuredCrossing *
+merge (const RawList *raw, const double *x, const double *band, const double *omega,
+       const double *coherence, size_t n, size_t *n_out)
+{
+  *n_out = 0;
+  if (raw->n == 0)
+    return NULL;
+  LwMeasuredCrossing *out = malloc (raw->n * sizeof *out);
+  if (out == NULL)
+    return NULL;
+  size_t k = 0;
+  while (k < raw->n)
+    {
+      const Raw *first = &raw->a[k];
+      size_t lo = first->i, hi = first->i + 1, m = 0;
+      while (lo > 0 && uncertain (x, band, lo, first->target))
+        lo--;
+      while (hi + 1 < n && uncertain (x, band, hi, first->target))
+        hi++;
+      size_t g = k;
+      for (; g < raw->n && raw->a[g].target == first->target && raw->a[g].i < hi; g++)
+        {
+          /* a later sign change within the widened interval: its own widening joins */
+          size_t b = raw->a[g].i + 1;
+          while (b + 1 < n && uncertain (x, band, b, first->target))
+            b++;
+          if (b > hi)
+            hi = b;
+          m++;
+        }
+      const Raw *mid = &raw->a[k + m / 2];
+      LwMeasuredCrossing c = mid->c;
+      c.lo_rad_s = omega[lo];
+      c.hi_rad_s = omega[hi];
+      c.sign_changes = (unsigned) m;
+      c.within_noise = m > 1 || lo < first->i || hi > raw->a[g - 1].i + 1;
+      c.low_coherence = false;
+      for (size_t j = lo; coherence != NULL && j <= hi; j++)
+        c.low_coherence |= coherence[j] < LW_MEASURED_LOW_COHERENCE;
+      out[(*n_out)++] = c;
+      k = g;
+    }
+  return out;
 }
 
 LwStatus
@@ -124,11 +205,13 @@ lw_measured_margins (const double *omega, const double complex *l, const double 
                            "values be finite and non-zero)", i + 1);
 
   double *lg = malloc (n * sizeof *lg), *ph = malloc (n * sizeof *ph);
-  size_t cap_g = 0, cap_p = 0;
-  if (lg == NULL || ph == NULL)
+  double *band = malloc (n * sizeof *band);
+  RawList rg = { NULL, 0, 0 }, rp = { NULL, 0, 0 };
+  if (lg == NULL || ph == NULL || band == NULL)
     {
       free (lg);
       free (ph);
+      free (band);
       return lw_error_set (err, LW_ERR_NOMEM, -1, "out of memory");
     }
   /* ln|L| and the phase unwrapped along the points (each step taken as the one within ±π: the
@@ -138,6 +221,8 @@ lw_measured_margins (const double *omega, const double complex *l, const double 
       lg[i] = log (cabs (l[i]));
       double a = carg (l[i]);
       ph[i] = i == 0 ? a : ph[i - 1] + wrap_pi (a - ph[i - 1]);
+      band[i] = coherence != NULL
+                ? LW_MEASURED_NOISE_SIGMAS * lw_measured_noise_sigma (coherence[i]) : 0.0;
     }
   /* the unwrapped phase starts in (−2π, 0] as the model's does near its low end */
   double shift = -2 * PI * ceil (ph[0] / (2 * PI));
@@ -145,12 +230,9 @@ lw_measured_margins (const double *omega, const double complex *l, const double 
     ph[i] += shift;
 
   LwStatus st = LW_OK;
-  double best_pm = INFINITY, best_gm = INFINITY, dm = INFINITY;
   for (size_t i = 0; i + 1 < n && st == LW_OK; i++)
     {
       double x0 = log (omega[i]), x1 = log (omega[i + 1]);
-      bool low = coherence != NULL && (coherence[i] < LW_MEASURED_LOW_COHERENCE
-                                       || coherence[i + 1] < LW_MEASURED_LOW_COHERENCE);
       /* gain crossover: ln|L| changes sign (a point exactly on |L| = 1 counts once) */
       if ((lg[i] >= 0) != (lg[i + 1] >= 0))
         {
@@ -160,18 +242,9 @@ lw_measured_margins (const double *omega, const double complex *l, const double 
           double pm = wrap_pi (phi + PI) * 180.0 / PI;
           if (pm == -180.0)
             pm = 180.0;
-          LwMeasuredCrossing c = { w, omega[i], omega[i + 1], pm, low };
-          if (!push (&out->gain, &out->n_gain, &cap_g, c))
+          Raw r = { { w, omega[i], omega[i + 1], pm, false, false, 1 }, i, 0.0 };
+          if (!push (&rg, r))
             st = LW_ERR_NOMEM;
-          if (fabs (pm) < fabs (best_pm) || (fabs (pm) == fabs (best_pm) && pm < best_pm))
-            {
-              best_pm = pm;
-              out->phase_margin_deg = pm;
-              out->gain_crossover_rad_s = w;
-            }
-          double turn = (pm < 0 ? pm + 360.0 : pm) * PI / 180.0;
-          if (turn / w < dm)
-            dm = turn / w;
         }
       /* phase crossovers: every odd multiple of π the unwrapped phase passes on (ph[i],
        * ph[i+1]] or [ph[i+1], ph[i]) */
@@ -190,19 +263,42 @@ lw_measured_margins (const double *omega, const double complex *l, const double 
           double t = (target - a) / (b - a);
           double w = exp (x0 + t * (x1 - x0));
           double gdb = -20.0 / log (10.0) * (lg[i] + t * (lg[i + 1] - lg[i]));
-          LwMeasuredCrossing c = { w, omega[i], omega[i + 1], gdb, low };
-          if (!push (&out->phase, &out->n_phase, &cap_p, c))
+          Raw r = { { w, omega[i], omega[i + 1], gdb, false, false, 1 }, i, target };
+          if (!push (&rp, r))
             st = LW_ERR_NOMEM;
-          if (fabs (gdb) < fabs (best_gm))
-            {
-              best_gm = gdb;
-              out->gain_margin_db = gdb;
-              out->phase_crossover_rad_s = w;
-            }
         }
     }
   if (st == LW_OK)
     {
+      out->gain = merge (&rg, lg, band, omega, coherence, n, &out->n_gain);
+      out->phase = merge (&rp, ph, band, omega, coherence, n, &out->n_phase);
+      if ((rg.n > 0 && out->gain == NULL) || (rp.n > 0 && out->phase == NULL))
+        st = LW_ERR_NOMEM;
+    }
+  if (st == LW_OK)
+    {
+      /* the governing margins over the (merged) crossings, in ascending frequency */
+      double best_pm = INFINITY, best_gm = INFINITY, dm = INFINITY;
+      for (size_t i = 0; i < out->n_gain; i++)
+        {
+          double pm = out->gain[i].margin, w = out->gain[i].omega_rad_s;
+          if (fabs (pm) < fabs (best_pm) || (fabs (pm) == fabs (best_pm) && pm < best_pm))
+            {
+              best_pm = pm;
+              out->phase_margin_deg = pm;
+              out->gain_crossover_rad_s = w;
+            }
+          double turn = (pm < 0 ? pm + 360.0 : pm) * PI / 180.0;
+          if (turn / w < dm)
+            dm = turn / w;
+        }
+      for (size_t i = 0; i < out->n_phase; i++)
+        if (fabs (out->phase[i].margin) < fabs (best_gm))
+          {
+            best_gm = out->phase[i].margin;
+            out->gain_margin_db = best_gm;
+            out->phase_crossover_rad_s = out->phase[i].omega_rad_s;
+          }
       for (size_t i = 0; i < n; i++)
         {
           double s = 1.0 / cabs (1.0 + l[i]);
@@ -214,11 +310,14 @@ lw_measured_margins (const double *omega, const double complex *l, const double 
         }
       if (isfinite (dm))
         out->delay_margin_s = dm;
-      out->crossover_above_data = lg[n - 1] >= 0;
-      out->crossover_below_data = lg[0] < 0;
+      out->crossover_above_data = lg[n - 1] >= 0 || fabs (lg[n - 1]) < band[n - 1];
+      out->crossover_below_data = lg[0] < 0 || fabs (lg[0]) < band[0];
     }
   free (lg);
   free (ph);
+  free (band);
+  free (rg.a);
+  free (rp.a);
   if (st != LW_OK)
     {
       lw_measured_margins_clear (out);
@@ -243,12 +342,17 @@ lw_measured_loop_clear (LwMeasuredLoop *l)
 LwStatus
 lw_measured_loop_close (const LwMeasured *m, LwMeasuredKind kind, double period_s,
                         double dead_time_s, int compute_delay, const LwModel *controller_z,
-                        const struct LwSampledPlant *model, LwMeasuredLoop *out, LwError *err)
+                        const struct LwSampledPlant *model, int open_loop_unstable,
+                        LwMeasuredLoop *out, LwError *err)
 {
   memset (out, 0, sizeof *out);
   out->model_diff = NAN;
   if (m == NULL || controller_z == NULL || compute_delay < 0)
     return lw_error_set (err, LW_ERR_INVALID, -1, "no data or no controller");
+  if (open_loop_unstable < 0 || open_loop_unstable > LW_MEASURED_MAX_UNSTABLE_POLES)
+    return lw_error_set (err, LW_ERR_INVALID, -1,
+                         "the count of open-loop unstable poles must be 0 to %d (got %d)",
+                         LW_MEASURED_MAX_UNSTABLE_POLES, open_loop_unstable);
   size_t n = m->n, bad = 0;
   if (n == 0 || n > SIZE_MAX / sizeof (double complex))
     return lw_error_set (err, LW_ERR_INVALID, -1, "no measured points");
@@ -286,7 +390,20 @@ lw_measured_loop_close (const LwMeasured *m, LwMeasuredKind kind, double period_
     }
   /* the points kept are the table's first n (frequencies increase): its coherence lines up */
   st = lw_measured_margins (out->omega_rad_s, out->l, m->coherence, out->n, &out->margins, err);
+  if (st == LW_OK)
+    st = lw_measured_nyquist (out->omega_rad_s, out->l, m->coherence, out->n, period_s,
+                              open_loop_unstable, &out->stability, err);
   if (st != LW_OK)
-    lw_measured_loop_clear (out);
-  return st;
+    {
+      lw_measured_loop_clear (out);
+      return st;
+    }
+  /* P counts the loop's poles outside the unit circle: the controller's own are among them
+   * (a plant zero cannot cancel one without an unstable hidden mode) */
+  int ctrl = 0;
+  for (size_t i = 0; i < controller_z->n_poles; i++)
+    ctrl += cabs (controller_z->poles[i]) > 1.0 + 1e-10;
+  if (ctrl > open_loop_unstable)
+    lw_measured_stability_refuse_count (&out->stability, ctrl);
+  return LW_OK;
 }

@@ -30,10 +30,21 @@ extern "C" {
 #endif
 
 #define LW_MEASURED_MIN_POINTS 10
+#define LW_MEASURED_MAX_UNSTABLE_POLES 1000
 #define LW_MEASURED_MAX_LINES 10000000
 /* coherence below this marks a point (and a crossover found next to it) as unreliable:
  * common practice for swept-sine and noise measurements, no single source */
 #define LW_MEASURED_LOW_COHERENCE 0.8
+/* The random error of a measured point, from its coherence γ² (docs/measured-data.md):
+ * the standard deviation of the relative error of |H| and of the phase error in radians
+ * are both about √(1 − γ²) / (γ·√(2·n_d)) for n_d averages (Bendat & Piersol, "Random Data",
+ * the random errors of frequency-response estimates; from memory). The table does not say
+ * n_d: LW_MEASURED_NOISE_AVERAGES is assumed (few: the intervals come out wider, not
+ * narrower, than with more). A point is within the noise of a crossing when its distance
+ * from it (|ln|L||, or the phase from the odd multiple of 180°) is below
+ * LW_MEASURED_NOISE_SIGMAS of these deviations. */
+#define LW_MEASURED_NOISE_AVERAGES 4
+#define LW_MEASURED_NOISE_SIGMAS 3.0
 
 typedef enum {
   LW_MEASURED_SAMPLED,      /* through the digital loop at the design's period, from the
@@ -87,7 +98,14 @@ typedef struct {
   double lo_rad_s, hi_rad_s;/* the interval between the points it lies in */
   double margin;            /* phase margin (deg) at a gain crossover; gain margin (dB) at a
                              * phase crossover */
-  bool low_coherence;       /* a bracketing point's coherence < LW_MEASURED_LOW_COHERENCE */
+  bool low_coherence;       /* a point of the interval has coherence
+                             * < LW_MEASURED_LOW_COHERENCE */
+  bool within_noise;        /* the interval was widened past neighbouring points within the
+                             * noise of the crossing, or several sign changes there merged
+                             * into this one (docs/measured-data.md); never with coherence 1
+                             * or without a coherence column */
+  unsigned sign_changes;    /* sign changes merged into this crossing (1 without noise; an
+                             * even count: the curve may touch the crossing, not cross it) */
 } LwMeasuredCrossing;
 
 typedef struct {
@@ -101,26 +119,82 @@ typedef struct {
   double delay_margin_s;
   double sensitivity_peak, sensitivity_peak_rad_s;  /* max 1/|1 + L| over the points */
   /* where the data may hide a crossover: |L| >= 1 at the highest measured point (a gain
-   * crossover lies above the data), |L| < 1 at the lowest (one may lie below it) */
+   * crossover lies above the data), |L| < 1 at the lowest (one may lie below it); with
+   * noise also when that point is within the noise of |L| = 1 */
   bool crossover_above_data, crossover_below_data;
 } LwMeasuredMargins;
 
-/* Crossovers and margins of the loop given at n points (omega ascending, l = L(e^{jωT})). */
+/* The standard deviation of a point's random error from its coherence (above: relative for
+ * |L|, radians for the phase); 0 at coherence 1, infinite at 0. */
+double lw_measured_noise_sigma (double coherence);
+
+/* Crossovers and margins of the loop given at n points (omega ascending, l = L(e^{jωT})).
+ * With coherence, a crossing's interval reaches past the neighbouring points that are within
+ * the noise of it, and the sign changes inside one such interval make one crossing. */
 LwStatus lw_measured_margins (const double *omega_rad_s, const double complex *l,
                               const double *coherence, size_t n, LwMeasuredMargins *out,
                               LwError *err);
 void lw_measured_margins_clear (LwMeasuredMargins *m);
 
+/* Closed-loop stability from the data by the Nyquist criterion (lw-measured-nyquist.c; the
+ * method, its assumptions and their basis in docs/measured-data.md). */
+typedef enum {
+  LW_MEASURED_UNDECIDED,
+  LW_MEASURED_STABLE,
+  LW_MEASURED_UNSTABLE
+} LwMeasuredVerdict;
+
+/* why a verdict is undecided (bits of LwMeasuredStability.undecided) */
+enum {
+  LW_NYQUIST_LOW_END = 1u << 0,        /* the lowest point is on no asymptote the count can
+                                        * extend to ω → 0 */
+  LW_NYQUIST_HIGH_END = 1u << 1,       /* the data stop short of π/T with |L| > 0.5 at the
+                                        * last point */
+  LW_NYQUIST_NOT_REAL = 1u << 2,       /* the data reach π/T, where L is real, but are not */
+  LW_NYQUIST_NEAR_MINUS_ONE = 1u << 3, /* the loop passes through −1, or a point is within
+                                        * its noise of −1 */
+  LW_NYQUIST_POLE_COUNT = 1u << 4      /* the count of open-loop unstable poles does not fit
+                                        * the data (Z < 0) or the controller (fewer than the
+                                        * controller's own) */
+};
+
+typedef struct {
+  LwMeasuredVerdict verdict;
+  unsigned undecided;         /* LW_NYQUIST_* bits; 0 when decided */
+  int open_loop_unstable;     /* P, as given */
+  int loop_type;              /* k, poles at z = 1 read from the low end; −1 when not read */
+  bool low_end_small;         /* the low end assumed: |L| < 1 below the data (type 0); else
+                               * (loop_type >= 0) the asymptote c/(jωT)^k */
+  bool high_end_at_nyquist;   /* the data reach π/T; else |L| < 1 assumed above them */
+  int encirclements;          /* N, counter-clockwise around −1 (when decided) */
+  int closed_loop_unstable;   /* Z = P − N (when decided; −1 otherwise) */
+  double nearest_minus_one;   /* min |1 + L| over the points */
+  char note[512];             /* one or two sentences: the assumptions made, or why undecided */
+} LwMeasuredStability;
+
+/* The loop at n points (omega ascending, all at or below π/T), the sample period, P (0 …
+ * 1000), the coherence of the points (NULL: none). LW_ERR_INVALID on bad arguments. */
+LwStatus lw_measured_nyquist (const double *omega_rad_s, const double complex *l,
+                              const double *coherence, size_t n, double period_s,
+                              int open_loop_unstable, LwMeasuredStability *out, LwError *err);
+const char *lw_measured_verdict_name (LwMeasuredVerdict v);   /* "stable", … */
+/* The verdict made undecided (LW_NYQUIST_POLE_COUNT): the controller alone has ctrl poles
+ * outside the unit circle, more than the P given. */
+void lw_measured_stability_refuse_count (LwMeasuredStability *s, int ctrl);
+
 /* The loop closed on the data: the sampled plant P at the measured points below π/T (n of
  * them), L = z^−N·C(z)·P there (z = e^{jωT}), its crossovers and margins (coherence of the
- * table's first n points), and with a model the largest relative difference of the model's
- * sampled response from P (NAN without one). */
+ * table's first n points), its stability by the Nyquist criterion given the count of the
+ * loop's open-loop poles outside the unit circle (0 … LW_MEASURED_MAX_UNSTABLE_POLES), and
+ * with a model the largest relative difference of the model's sampled response from P (NAN
+ * without one). */
 typedef struct {
   size_t n;
   double *omega_rad_s;
   double complex *p;
   double complex *l;
   LwMeasuredMargins margins;
+  LwMeasuredStability stability;  /* the Nyquist criterion on L with P = open_loop_unstable */
   double model_diff;
 } LwMeasuredLoop;
 
@@ -128,8 +202,8 @@ struct LwSampledPlant;
 LwStatus lw_measured_loop_close (const LwMeasured *m, LwMeasuredKind kind, double period_s,
                                  double dead_time_s, int compute_delay,
                                  const LwModel *controller_z,
-                                 const struct LwSampledPlant *model, LwMeasuredLoop *out,
-                                 LwError *err);
+                                 const struct LwSampledPlant *model, int open_loop_unstable,
+                                 LwMeasuredLoop *out, LwError *err);
 void lw_measured_loop_clear (LwMeasuredLoop *l);
 
 /* Rational fit in s of the given order (poles; zeros up to order − relative_degree) to a

@@ -502,6 +502,11 @@ achieved_from_data (LwAchieved *a, const LwMeasuredLoop *ml)
       return;
     }
   const LwMeasuredMargins *m = &ml->margins;
+  /* stability on the data (the Nyquist criterion, lw_measured_nyquist): a loop the data call
+   * unstable is not stable whatever a model says; with a model an undecided verdict leaves
+   * the model's */
+  if (ml->stability.verdict == LW_MEASURED_UNSTABLE)
+    a->stable = false;
   bool crossover = m->n_gain > 0 && !m->crossover_above_data;
   a->has_phase_margin = crossover;
   a->phase_margin_deg = crossover ? m->phase_margin_deg : NAN;
@@ -621,13 +626,22 @@ evaluate_on_data_alone (EvalPrivate *p, const LwDesign *d, const LwDesignVariant
   close_on_data (e, d);
   memset (&e->achieved, 0, sizeof e->achieved);
   e->has_achieved = TRUE;
-  e->achieved.stable = TRUE;
-  achieved_from_data (&e->achieved, e->measured);
+  /* without a model, stability is the data's alone: undecided leaves every figure out */
+  gboolean decided = e->measured != NULL
+                     && e->measured->stability.verdict != LW_MEASURED_UNDECIDED;
+  e->achieved.stable = e->measured != NULL
+                       && e->measured->stability.verdict == LW_MEASURED_STABLE;
+  if (decided)
+    achieved_from_data (&e->achieved, e->measured);
   judge (e, d);
   for (size_t i = 0; i < e->n_requirements; i++)
-    if (e->requirements[i].status == LW_REQ_NOT_AVAILABLE
-        && !lw_req_kind_from_frequency_response (d->requirements[i].req.kind))
-      e->requirements[i].note = "needs a plant model: the design holds only measured data";
+    if (e->requirements[i].status == LW_REQ_NOT_AVAILABLE)
+      e->requirements[i].note
+        = !lw_req_kind_from_frequency_response (d->requirements[i].req.kind)
+            ? "needs a plant model: the design holds only measured data"
+            : !decided ? "the data do not decide the closed loop's stability (see the "
+                         "measured response's stability note)"
+                       : e->requirements[i].note;
   return e;
 }
 
@@ -642,8 +656,8 @@ close_on_data (LwVariantEval *e, const LwDesign *d)
   e->measured_kind = d->measured_kind;
   e->measured = g_new0 (LwMeasuredLoop, 1);
   if (lw_measured_loop_close (d->measured, d->measured_kind, e->period_s, e->dead_time_s,
-                              e->compute_delay, e->controller_z, e->sampled, e->measured,
-                              &err) != LW_OK)
+                              e->compute_delay, e->controller_z, e->sampled,
+                              d->measured_unstable_poles, e->measured, &err) != LW_OK)
     {
       g_clear_pointer (&e->measured, g_free);
       e->measured_error = g_error_new_literal (LW_ENGINE_ERROR, err.code, err.message);

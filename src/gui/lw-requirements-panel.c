@@ -336,7 +336,16 @@ show_figures_on_data (LwRequirementsPanel *self, const LwMeasuredLoop *ml)
   const LwMeasuredMargins *m = &ml->margins;
   for (int i = 0; i < N_FIGURES; i++)
     set_figure (self, i, NULL);
-  set_figure (self, FIG_STABLE, g_strdup (_("not known from the data alone")));
+  const LwMeasuredStability *st = &ml->stability;
+  set_figure (self, FIG_STABLE,
+              st->verdict == LW_MEASURED_STABLE
+                ? g_strdup (_("stable (Nyquist criterion on the data)"))
+                : st->verdict == LW_MEASURED_UNSTABLE
+                    ? g_strdup_printf (_("NOT stable: %d pole(s) outside the unit circle "
+                                         "(Nyquist criterion on the data)"),
+                                       st->closed_loop_unstable)
+                    : g_strdup (_("not decided by the data (see the tooltip)")));
+  lw_gui_set_tooltip (GTK_WIDGET (self->figure_values[FIG_STABLE]), st->note);
   set_figure (self, FIG_PHASE_MARGIN,
               m->n_gain > 0 ? g_strdup_printf (_("%.4g° at %.4g rad/s (data)%s"),
                                                m->phase_margin_deg, m->gain_crossover_rad_s,
@@ -372,6 +381,7 @@ static void
 show_figures (LwRequirementsPanel *self, LwVariantEval *eval)
 {
   const LwEvaluation *ev = eval->ev;
+  lw_gui_set_tooltip (GTK_WIDGET (self->figure_values[FIG_STABLE]), NULL);
   if (ev == NULL && eval->failure == LW_EVAL_NO_MODEL && eval->measured != NULL)
     {
       show_figures_on_data (self, eval->measured);

@@ -4,6 +4,7 @@
 #pragma once
 
 #include <math.h>
+#include <stdint.h>
 
 #include "lw-expr.h"
 
@@ -24,4 +25,25 @@ parse (const char *text, LwDomain d, double t)
   if (lw_expr_parse (text, d, t, &m, &err) != LW_OK)
     fail_msg ("parse of '%s' failed: %s", text, err.message);
   return m;
+}
+
+/* A seeded normal deviate (xorshift64* and Box–Muller) truncated at limit deviations: noise
+ * of a known bound for the tests of measured data. *state must not be 0. */
+static inline double
+normal_truncated (uint64_t *state, double limit)
+{
+  for (;;)
+    {
+      double u[2];
+      for (int k = 0; k < 2; k++)
+        {
+          *state ^= *state >> 12;
+          *state ^= *state << 25;
+          *state ^= *state >> 27;
+          u[k] = ((double) ((*state * 2685821657736338717ull) >> 11) + 0.5) / 9007199254740992.0;
+        }
+      double g = sqrt (-2.0 * log (u[0])) * cos (2 * 3.14159265358979323846 * u[1]);
+      if (fabs (g) <= limit)
+        return g;
+    }
 }

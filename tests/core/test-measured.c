@@ -266,6 +266,158 @@ test_by_hand (void **state)
   assert_int_equal (lw_measured_margins (w3, lz, NULL, 3, &mm, &err), LW_ERR_INVALID);
 }
 
+/* the largest slope of y against ln ω between consecutive points in [lo, hi] */
+static double
+max_slope (const double *w, const double *y, size_t n, double lo, double hi)
+{
+  double s = 0;
+  for (size_t i = 0; i + 1 < n; i++)
+    if (w[i] >= lo && w[i + 1] <= hi)
+      s = fmax (s, fabs (y[i + 1] - y[i]) / log (w[i + 1] / w[i]));
+  return s;
+}
+
+/* Noise: the belt axis's sampled data (as above, up to π/T) times e^{u + jv}, u and v normal
+ * with standard deviation s, truncated at 3 s (normal_truncated, lw-test.h: the rule of
+ * docs/measured-data.md widens an interval past the points within 3 deviations of their
+ * noise, so with noise inside that bound a true crossover must lie in its interval — the test
+ * checks the rule, not luck), and a coherence γ² = 1/(1 + 2·n_d·s²) — the
+ * one whose random error by Bendat & Piersol's formula (lw-measured.h) is s. 20 seeds at
+ * s = 0.02 (γ² = 0.997) and s = 0.2 (γ² = 0.76, below the 0.8 flag). Each crossover of the
+ * noise-free model inside the data lies in the interval of a reported crossing of its kind,
+ * flagged at s = 0.2, and its margin agrees with the model's within
+ *   3 s (the noise of the interpolated phase, or of ln|L| in dB: a convex combination of two
+ *   points' errors, each within 3 s) + S·W (the reported and the true frequency both lie in
+ *   the interval, W = ln(hi/lo) wide, where the model's phase or dB slope against ln ω is at
+ *   most S — measured between the grid's points, 20 % added for the slope between them) +
+ *   0.1° / 0.1 dB (the interpolation at 50 points per decade, as above).
+ * The verdict on stability is never "unstable" (the loop is stable) and is "stable" at
+ * s = 0.02. Data with coherence 1 give what data without coherence give. */
+static void
+test_noise_intervals (void **state)
+{
+  (void) state;
+  Loop lp;
+  loop_make (&lp, "180*40000/(s*(s+12)*(s^2+40*s+40000))", "3.4*(1+w/15)/(1+w/110)", 0.002,
+             0.0026, 1);
+  static double w[4000], coh[4000], ph[4000], db[4000];
+  static double complex p[4000], pn[4000];
+  size_t n = grid (0.1, PI / lp.period_s, 50, w, 3999);
+  w[n++] = PI / lp.period_s;
+  for (size_t i = 0; i < n; i++)
+    {
+      p[i] = lw_sampled_plant_response (lp.sampled, w[i]);
+      double complex z = cexp (I * w[i] * lp.period_s);
+      double complex l = lw_model_eval (lp.controller_z, z) * p[i] / z;
+      ph[i] = i == 0 ? carg (l) : ph[i - 1] + remainder (carg (l) - ph[i - 1], 2 * PI);
+      db[i] = 20 * log10 (cabs (l));
+      coh[i] = 1.0;
+    }
+  for (size_t i = 0; i < n; i++)
+    ph[i] *= 180.0 / PI;
+  LwError err;
+  /* coherence 1: the same as none */
+  LwMeasured m1 = { n, w, p, coh }, m0 = { n, w, p, NULL };
+  LwMeasuredLoop a, b;
+  assert_int_equal (lw_measured_loop_close (&m1, LW_MEASURED_SAMPLED, lp.period_s, 0, 1,
+                                            lp.controller_z, NULL, 0, &a, &err), LW_OK);
+  assert_int_equal (lw_measured_loop_close (&m0, LW_MEASURED_SAMPLED, lp.period_s, 0, 1,
+                                            lp.controller_z, NULL, 0, &b, &err), LW_OK);
+  assert_int_equal (a.margins.n_gain, b.margins.n_gain);
+  assert_int_equal (a.margins.n_phase, b.margins.n_phase);
+  for (size_t i = 0; i < a.margins.n_gain + a.margins.n_phase; i++)
+    {
+      const LwMeasuredCrossing *x = i < a.margins.n_gain ? &a.margins.gain[i]
+                                    : &a.margins.phase[i - a.margins.n_gain];
+      const LwMeasuredCrossing *y = i < a.margins.n_gain ? &b.margins.gain[i]
+                                    : &b.margins.phase[i - a.margins.n_gain];
+      assert_true (x->omega_rad_s == y->omega_rad_s && x->margin == y->margin
+                   && x->lo_rad_s == y->lo_rad_s && x->hi_rad_s == y->hi_rad_s
+                   && !x->within_noise && !y->within_noise && !x->low_coherence
+                   && x->sign_changes == 1 && y->sign_changes == 1);
+    }
+  assert_int_equal (a.stability.verdict, LW_MEASURED_STABLE);
+  lw_measured_loop_clear (&a);
+  lw_measured_loop_clear (&b);
+
+  const LwMargins *mod = &lp.ev->margins;
+  const double levels[2] = { 0.02, 0.2 };
+  for (int lv = 0; lv < 2; lv++)
+    {
+      double s = levels[lv];
+      double gamma2 = 1.0 / (1.0 + 2.0 * LW_MEASURED_NOISE_AVERAGES * s * s);
+      assert_close (lw_measured_noise_sigma (gamma2), s, 1e-12, "the coherence of noise s");
+      size_t merged = 0, widened = 0, checked = 0;
+      double worst_pm = 0, worst_gm = 0;
+      for (uint64_t seed = 1; seed <= 20; seed++)
+        {
+          uint64_t st = 0x9E3779B97F4A7C15ull * seed;
+          for (size_t i = 0; i < n; i++)
+            {
+              double u = s * normal_truncated (&st, LW_MEASURED_NOISE_SIGMAS);
+              double v = s * normal_truncated (&st, LW_MEASURED_NOISE_SIGMAS);
+              pn[i] = p[i] * cexp (u + I * v);
+              coh[i] = gamma2;
+            }
+          LwMeasured m = { n, w, pn, coh };
+          LwMeasuredLoop ml;
+          assert_int_equal (lw_measured_loop_close (&m, LW_MEASURED_SAMPLED, lp.period_s, 0, 1,
+                                                    lp.controller_z, NULL, 0, &ml, &err), LW_OK);
+          assert_true (ml.stability.verdict != LW_MEASURED_UNSTABLE);
+          if (lv == 0)
+            assert_int_equal (ml.stability.verdict, LW_MEASURED_STABLE);
+          for (int kind = 0; kind < 2; kind++)
+            {
+              size_t nt = kind == 0 ? mod->n_gain_crossovers : mod->n_phase_crossovers;
+              const LwMeasuredCrossing *c = kind == 0 ? ml.margins.gain : ml.margins.phase;
+              size_t nc = kind == 0 ? ml.margins.n_gain : ml.margins.n_phase;
+              for (size_t j = 0; j < nt; j++)
+                {
+                  double wt = kind == 0 ? mod->gain_crossovers_rad_s[j]
+                                        : mod->phase_crossovers_rad_s[j];
+                  double mt = kind == 0 ? mod->phase_margins_deg[j] : mod->gain_margins_db[j];
+                  if (wt <= w[0] || wt >= w[n - 1])
+                    continue;
+                  size_t k = 0;
+                  while (k < nc && !(c[k].lo_rad_s <= wt && wt <= c[k].hi_rad_s))
+                    k++;
+                  if (k == nc)
+                    fail_msg ("s = %g, seed %d: the %s crossover %.6g rad/s of the model is in "
+                              "no reported interval", s, (int) seed, kind ? "phase" : "gain",
+                              wt);
+                  if (lv == 1)
+                    assert_true (c[k].low_coherence);
+                  double slope = 1.2 * max_slope (w, kind == 0 ? ph : db, n, c[k].lo_rad_s,
+                                                  c[k].hi_rad_s);
+                  double noise = 3 * s * (kind == 0 ? 180.0 / PI : 20.0 / log (10.0));
+                  double tol = noise + slope * log (c[k].hi_rad_s / c[k].lo_rad_s) + 0.1;
+                  double e = fabs (c[k].margin - mt);
+                  if (kind == 0 && e > 180)
+                    e = 360 - e;
+                  if (!(e <= tol))
+                    fail_msg ("s = %g, seed %d: margin %.6g vs the model's %.6g at %.6g rad/s "
+                              "(tolerance %.3g)", s, (int) seed, c[k].margin, mt, wt, tol);
+                  if (kind == 0)
+                    worst_pm = fmax (worst_pm, e);
+                  else
+                    worst_gm = fmax (worst_gm, e);
+                  merged += c[k].sign_changes > 1;
+                  widened += c[k].within_noise;
+                  checked++;
+                }
+            }
+          lw_measured_loop_clear (&ml);
+        }
+      print_message ("noise s = %g (coherence %.4f): %zu crossovers inside their intervals, %zu "
+                     "widened, %zu merged; margins off by up to %.3g deg / %.3g dB\n", s,
+                     gamma2, checked, widened, merged, worst_pm, worst_gm);
+      assert_true (checked >= 20 * 3);
+      if (lv == 1)
+        assert_true (merged > 0);   /* 20 % noise makes spurious sign changes here */
+    }
+  loop_free (&lp);
+}
+
 int
 main (void)
 {
@@ -273,6 +425,7 @@ main (void)
     cmocka_unit_test (test_sampled_matches_model),
     cmocka_unit_test (test_continuous_matches_model_below_a_fifth),
     cmocka_unit_test (test_by_hand),
+    cmocka_unit_test (test_noise_intervals),
   };
   return cmocka_run_group_tests (tests, NULL, NULL);
 }
