@@ -443,7 +443,7 @@ suggest_run (void *data)
       goto out;
     }
 
-  LwSynthLoop sl = { lp.sampled, lp.compute_delay, NULL, 0 };
+  LwSynthLoop sl = { .plant = lp.sampled, .compute_delay = lp.compute_delay };
   LwLeadOptions o;
   lw_lead_options_init (&o);
   o.safety_deg = safety;

@@ -75,6 +75,65 @@ wrap_pi (double phi)
   return r - PI;
 }
 
+void
+lw_measured_unwrap_phase (const double complex *l, size_t n, double *phase_rad)
+{
+  /* each step taken as the one within ±π: the data must be dense enough for that, which 10
+   * points per decade of a rational loop is */
+  for (size_t i = 0; i < n; i++)
+    {
+      double a = carg (l[i]);
+      phase_rad[i] = i == 0 ? a : phase_rad[i - 1] + wrap_pi (a - phase_rad[i - 1]);
+    }
+  /* the unwrapped phase starts in (−2π, 0] as the model's does near its low end */
+  double shift = n > 0 ? -2 * PI * ceil (phase_rad[0] / (2 * PI)) : 0.0;
+  for (size_t i = 0; i < n; i++)
+    phase_rad[i] += shift;
+}
+
+LwStatus
+lw_measured_loop_at (const double *omega_rad_s, const double complex *l, size_t n,
+                     double at_rad_s, double *mag, double *phase_deg, LwError *err)
+{
+  if (omega_rad_s == NULL || l == NULL || n < 2)
+    return lw_error_set (err, LW_ERR_INVALID, -1, "fewer than two points of the loop");
+  if (!(at_rad_s >= omega_rad_s[0] && at_rad_s <= omega_rad_s[n - 1]))
+    return lw_error_set (err, LW_ERR_INVALID, -1,
+                         "%.6g rad/s lies outside the measured data, which cover %.6g … %.6g "
+                         "rad/s: the loop on the data is not known there",
+                         at_rad_s, omega_rad_s[0], omega_rad_s[n - 1]);
+  /* the interval [ω_i, ω_i+1] holding the frequency (the last one for the top point) */
+  size_t lo = 0, hi = n - 1;
+  while (hi - lo > 1)
+    {
+      size_t mid = lo + (hi - lo) / 2;
+      if (omega_rad_s[mid] <= at_rad_s)
+        lo = mid;
+      else
+        hi = mid;
+    }
+  double complex a = l[lo], b = l[hi];
+  if (!(cabs (a) > 0.0 && cabs (b) > 0.0 && isfinite (cabs (a)) && isfinite (cabs (b))))
+    return lw_error_set (err, LW_ERR_INVALID, -1,
+                         "the loop on the data is zero or not finite next to %.6g rad/s",
+                         at_rad_s);
+  double x0 = log (omega_rad_s[lo]), x1 = log (omega_rad_s[hi]);
+  double t = (log (at_rad_s) - x0) / (x1 - x0);
+  if (mag != NULL)
+    *mag = exp (log (cabs (a)) + t * (log (cabs (b)) - log (cabs (a))));
+  if (phase_deg != NULL)
+    {
+      /* the branch of the whole table's unwrapping, as lw_measured_margins takes it */
+      double *ph = malloc (n * sizeof *ph);
+      if (ph == NULL)
+        return lw_error_set (err, LW_ERR_NOMEM, -1, "out of memory");
+      lw_measured_unwrap_phase (l, n, ph);
+      *phase_deg = (ph[lo] + t * (ph[hi] - ph[lo])) * 180.0 / PI;
+      free (ph);
+    }
+  return LW_OK;
+}
+
 double
 lw_measured_noise_sigma (double coherence)
 {
@@ -214,20 +273,13 @@ lw_measured_margins (const double *omega, const double complex *l, const double 
       free (band);
       return lw_error_set (err, LW_ERR_NOMEM, -1, "out of memory");
     }
-  /* ln|L| and the phase unwrapped along the points (each step taken as the one within ±π: the
-   * data must be dense enough for that, which 10 points per decade of a rational loop is) */
   for (size_t i = 0; i < n; i++)
     {
       lg[i] = log (cabs (l[i]));
-      double a = carg (l[i]);
-      ph[i] = i == 0 ? a : ph[i - 1] + wrap_pi (a - ph[i - 1]);
       band[i] = coherence != NULL
                 ? LW_MEASURED_NOISE_SIGMAS * lw_measured_noise_sigma (coherence[i]) : 0.0;
     }
-  /* the unwrapped phase starts in (−2π, 0] as the model's does near its low end */
-  double shift = -2 * PI * ceil (ph[0] / (2 * PI));
-  for (size_t i = 0; i < n; i++)
-    ph[i] += shift;
+  lw_measured_unwrap_phase (l, n, ph);
 
   LwStatus st = LW_OK;
   for (size_t i = 0; i + 1 < n && st == LW_OK; i++)

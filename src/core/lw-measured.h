@@ -198,6 +198,52 @@ typedef struct {
   double model_diff;
 } LwMeasuredLoop;
 
+/* The loop's phase at its n points (radians), unwrapped as lw_measured_margins takes it: each
+ * step between neighbours the one within ±π, the first point's phase in (−2π, 0]. */
+void lw_measured_unwrap_phase (const double complex *l, size_t n, double *phase_rad);
+
+/* |L| (ratio) and ∠L (degrees, on the branch of lw_measured_unwrap_phase) of the loop given
+ * at n points at a frequency between them, interpolated as the crossovers are found: ln|L| and
+ * the unwrapped phase linear in ln ω between the two points around it (a point's own value
+ * on it). Refused (LW_ERR_INVALID; the message names the frequency and the data's range)
+ * outside [omega[0], omega[n − 1]]. mag or phase_deg may be NULL. */
+LwStatus lw_measured_loop_at (const double *omega_rad_s, const double complex *l, size_t n,
+                              double at_rad_s, double *mag, double *phase_deg, LwError *err);
+
+/* The dominant lightly damped resonance of a measured plant response p at n points (ω
+ * ascending), for a notch on the data (docs/measured-data.md, "Resonance in the data"):
+ *   a peak is a point whose |p| is above its lower neighbour's and not below its upper one's;
+ *   its neighbourhood trend is the straight line in (ln ω, ln|p|) through the response
+ *   interpolated half a decade below and half a decade above it (narrower, but symmetric,
+ *   near the ends of the data; less than a quarter decade either side is too near an end to
+ *   judge); the peak stands clearly above it when it is at least LW_RESONANCE_HEIGHT_DB
+ *   higher there.  Of those, the LW_RESONANCE_MAX_PEAKS highest are fitted: a background
+ *   power law ω^s is taken out (s first the trend's slope + 1, since a chord centred on a
+ *   second-order resonance has the slope −1 from it; then, three times, the slope of the data
+ *   without the resonance fitted, ±0.1 decade about ω_n) and 1/|p|² of the points around the
+ *   peak (down to 6 dB below it, at least two either side) is fitted by least squares,
+ *   relative, with the second-order form c·((ω_n² − ω²)² + (2ζω_nω)²), which gives ω_n and ζ.
+ *   The one with the smallest ζ below zeta_max is the resonance.
+ * out->found false (and LW_OK) when there is none; out->n_peaks, n_near_end say what was
+ * seen, for the refusal. */
+#define LW_RESONANCE_HEIGHT_DB 6.0
+#define LW_RESONANCE_MAX_PEAKS 32
+
+typedef struct {
+  bool found;
+  double omega_n_rad_s;     /* natural frequency of the fitted pair */
+  double zeta;              /* its damping */
+  double peak_rad_s;        /* the measured point at the top of the peak */
+  double height_db;         /* how far that point stands above the neighbourhood trend */
+  double fit_lo_rad_s, fit_hi_rad_s;  /* the points the fit used */
+  size_t n_fit;
+  size_t n_peaks;           /* peaks standing clearly above their trend */
+  size_t n_near_end;        /* peaks too near an end of the data to judge */
+} LwMeasuredResonance;
+
+LwStatus lw_measured_resonance (const double *omega_rad_s, const double complex *p, size_t n,
+                                double zeta_max, LwMeasuredResonance *out, LwError *err);
+
 struct LwSampledPlant;
 LwStatus lw_measured_loop_close (const LwMeasured *m, LwMeasuredKind kind, double period_s,
                                  double dead_time_s, int compute_delay,

@@ -15,6 +15,18 @@
 /* Most stages one response call combines (fixed + proposed). */
 #define MAX_STAGES 64
 
+static bool
+on_data (const LwSynthLoop *lp)
+{
+  return lp->data_n > 0;
+}
+
+static double
+loop_period (const LwSynthLoop *lp)
+{
+  return on_data (lp) ? lp->data_period_s : lw_sampled_plant_period (lp->plant);
+}
+
 static LwStatus
 loop_controller (const LwSynthLoop *lp, const LwStage *extra, size_t n_extra, LwModel **cw,
                  LwError *err)
@@ -26,15 +38,17 @@ loop_controller (const LwSynthLoop *lp, const LwStage *extra, size_t n_extra, Lw
     all[i] = lp->fixed[i];
   for (size_t i = 0; i < n_extra; i++)
     all[lp->n_fixed + i] = extra[i];
-  return lw_compensator_w (all, lp->n_fixed + n_extra, lw_sampled_plant_period (lp->plant), cw,
-                           err);
+  return lw_compensator_w (all, lp->n_fixed + n_extra, loop_period (lp), cw, err);
 }
 
 static LwStatus
 check_loop (const LwSynthLoop *lp, LwError *err)
 {
-  if (lp == NULL || lp->plant == NULL || (lp->n_fixed > 0 && lp->fixed == NULL))
-    return lw_error_set (err, LW_ERR_INVALID, -1, "missing plant or stages");
+  if (lp == NULL || (lp->n_fixed > 0 && lp->fixed == NULL)
+      || (on_data (lp) ? lp->data_omega_rad_s == NULL || lp->data_p == NULL || lp->data_n < 2
+                         || !(lp->data_period_s > 0.0) || !isfinite (lp->data_period_s)
+                       : lp->plant == NULL))
+    return lw_error_set (err, LW_ERR_INVALID, -1, "missing plant, data or stages");
   if (lp->compute_delay < 0 || lp->compute_delay > 100000)
     return lw_error_set (err, LW_ERR_INVALID, -1,
                          "the computation delay must be a whole number of samples from 0 to 100000");
@@ -77,6 +91,25 @@ loop_value (const LwSynthLoop *lp, const LwModel *cw, double nu)
          * cexp (-I * w * t * lp->compute_delay);
 }
 
+/* The loop on the data with controller cw (in w): L = z^−N·C·P at every point (C(z) on the
+ * unit circle is C_w(jν) exactly); a new array of lp->data_n values. */
+static LwStatus
+data_loop (const LwSynthLoop *lp, const LwModel *cw, double complex **out, LwError *err)
+{
+  double t = lp->data_period_s;
+  double complex *l = malloc (lp->data_n * sizeof *l);
+  if (l == NULL)
+    return lw_error_set (err, LW_ERR_NOMEM, -1, "out of memory");
+  for (size_t i = 0; i < lp->data_n; i++)
+    {
+      double w = lp->data_omega_rad_s[i];
+      l[i] = lw_model_eval (cw, I * lw_warp_omega_to_nu (w, t)) * lp->data_p[i]
+             * cexp (-I * w * t * lp->compute_delay);
+    }
+  *out = l;
+  return LW_OK;
+}
+
 /* Unwrapped phase (degrees) at ω: the exact value's principal argument, on the branch nearest
  * the linear interpolation of the evaluation's unwrapped grid phase. */
 static double
@@ -105,6 +138,24 @@ unwrapped_phase (const LwEvaluation *ev, double omega, double complex l)
   return a - 360.0 * round ((a - ref) / 360.0);
 }
 
+/* |L(jν)| and the unwrapped ∠L(jν) on the plant's model, controller cw (in w). */
+static LwStatus
+model_loop_at (const LwSynthLoop *lp, const LwModel *cw, double nu_rad_s, double *mag,
+               double *phase_deg, LwError *err)
+{
+  double complex l = loop_value (lp, cw, nu_rad_s);
+  if (mag != NULL)
+    *mag = cabs (l);
+  if (phase_deg == NULL)
+    return LW_OK;
+  LwEvaluation *ev = NULL;
+  LwStatus st = evaluate_w (lp, cw, 2, &ev, err);
+  if (st == LW_OK)
+    *phase_deg = unwrapped_phase (ev, lw_warp_nu_to_omega (nu_rad_s, loop_period (lp)), l);
+  lw_evaluation_free (ev);
+  return st;
+}
+
 LwStatus
 lw_synth_loop_response (const LwSynthLoop *lp, const LwStage *extra, size_t n_extra,
                         double nu_rad_s, double *mag, double *phase_deg, LwError *err)
@@ -118,20 +169,18 @@ lw_synth_loop_response (const LwSynthLoop *lp, const LwStage *extra, size_t n_ex
   st = loop_controller (lp, extra, n_extra, &cw, err);
   if (st != LW_OK)
     return st;
-  double complex l = loop_value (lp, cw, nu_rad_s);
-  if (mag != NULL)
-    *mag = cabs (l);
-  if (phase_deg != NULL)
+  if (on_data (lp))
     {
-      LwEvaluation *ev = NULL;
-      st = evaluate_w (lp, cw, 2, &ev, err);
+      double complex *l = NULL;
+      st = data_loop (lp, cw, &l, err);
       if (st == LW_OK)
-        {
-          double t = lw_sampled_plant_period (lp->plant);
-          *phase_deg = unwrapped_phase (ev, lw_warp_nu_to_omega (nu_rad_s, t), l);
-        }
-      lw_evaluation_free (ev);
+        st = lw_measured_loop_at (lp->data_omega_rad_s, l, lp->data_n,
+                                  lw_warp_nu_to_omega (nu_rad_s, lp->data_period_s), mag,
+                                  phase_deg, err);
+      free (l);
     }
+  else
+    st = model_loop_at (lp, cw, nu_rad_s, mag, phase_deg, err);
   lw_model_free (cw);
   if (st == LW_OK && mag != NULL && !(isfinite (*mag) && *mag > 0.0))
     return lw_error_set (err, LW_ERR_INVALID, -1,
@@ -179,6 +228,33 @@ resolve_gain (const LwSynthLoop *lp, LwStage *s, size_t n, double nu, double *ma
   return LW_OK;
 }
 
+/* The figures reached on the data: the margins between the points (lw_measured_margins);
+ * takes cw. */
+static LwStatus
+lead_reached_on_data (const LwSynthLoop *lp, LwModel *cw, LwLeadDesign *out, LwError *err)
+{
+  double complex *l = NULL;
+  LwStatus st = data_loop (lp, cw, &l, err);
+  lw_model_free (cw);
+  if (st != LW_OK)
+    return st;
+  LwMeasuredMargins m;
+  st = lw_measured_margins (lp->data_omega_rad_s, l, NULL, lp->data_n, &m, err);
+  free (l);
+  if (st != LW_OK)
+    return st;
+  out->stable = false;
+  out->has_phase_margin = m.n_gain > 0;
+  out->phase_margin_deg = m.phase_margin_deg;
+  out->gain_crossover_rad_s = m.gain_crossover_rad_s;
+  out->has_gain_margin = m.n_phase > 0;
+  out->gain_margin_db = m.gain_margin_db;
+  out->phase_crossover_rad_s = m.phase_crossover_rad_s;
+  out->n_gain_crossovers = m.n_gain;
+  lw_measured_margins_clear (&m);
+  return LW_OK;
+}
+
 LwStatus
 lw_synth_lead (const LwSynthLoop *lp, double pm_target_deg, double nu_c_rad_s,
                const LwLeadOptions *opts, LwLeadDesign *out, LwError *err)
@@ -205,7 +281,7 @@ lw_synth_lead (const LwSynthLoop *lp, double pm_target_deg, double nu_c_rad_s,
         && opts->max_passes >= 2))
     return lw_error_set (err, LW_ERR_INVALID, -1, "invalid lead options");
 
-  double t = lw_sampled_plant_period (lp->plant);
+  double t = loop_period (lp);
   out->nu_c_rad_s = nu_c_rad_s;
   out->omega_c_rad_s = lw_warp_nu_to_omega (nu_c_rad_s, t);
   out->pm_target_deg = pm_target_deg;
@@ -272,6 +348,8 @@ lw_synth_lead (const LwSynthLoop *lp, double pm_target_deg, double nu_c_rad_s,
   st = loop_controller (lp, s, out->n_stages, &cw, err);
   if (st != LW_OK)
     return st;
+  if (on_data (lp))
+    return lead_reached_on_data (lp, cw, out, err);
   LwEvaluation *ev = NULL;
   st = evaluate_w (lp, cw, 2, &ev, err);
   lw_model_free (cw);
@@ -346,6 +424,53 @@ lw_synth_pi (const LwSynthLoop *lp, double nu_c_rad_s, double fraction, LwPiDesi
  * uncertainty and only makes the zeros ill-placed. */
 #define NOTCH_MAX_DEPTH_DB 80.0
 
+static LwStatus
+check_notch_limits (double period_s, double zeta_max, double zeta_notch, LwError *err)
+{
+  if (!(period_s > 0.0) || !isfinite (period_s))
+    return lw_error_set (err, LW_ERR_INVALID, -1, "the sample period must be finite and > 0 s");
+  if (!(zeta_max > 0.0 && zeta_max < 1.0 && zeta_notch > zeta_max && zeta_notch <= 1.0))
+    return lw_error_set (err, LW_ERR_INVALID, -1,
+                         "need 0 < zeta_max < 1 and zeta_max < zeta_notch <= 1");
+  return LW_OK;
+}
+
+/* The notch on the s-plane pole p (positive imaginary part, below the Nyquist frequency):
+ * see lw-synth.h. */
+static void
+notch_on_pole (double complex p, double period_s, double zeta_notch, LwNotchDesign *out)
+{
+  double complex w = (2.0 / period_s) * ctanh (p * period_s / 2.0);
+  double nu0 = cabs (w), zeta = -creal (w) / nu0;
+  out->found = true;
+  out->plant_pole_re = creal (p);
+  out->plant_pole_im = cimag (p);
+  out->plant_damping_w = zeta;
+  double depth = zeta > 0.0 ? 20.0 * log10 (zeta_notch / zeta) : NOTCH_MAX_DEPTH_DB;
+  if (depth > NOTCH_MAX_DEPTH_DB)
+    depth = NOTCH_MAX_DEPTH_DB;
+  out->notch = lw_stage_notch (nu0, depth, 2.0 * zeta_notch * nu0);
+  lw_stage_set_label (&out->notch, "notch");
+}
+
+LwStatus
+lw_synth_notch_data (const double *omega_rad_s, const double complex *p, size_t n,
+                     double period_s, double zeta_max, double zeta_notch,
+                     LwMeasuredResonance *res, LwNotchDesign *out, LwError *err)
+{
+  memset (out, 0, sizeof *out);
+  LwStatus st = check_notch_limits (period_s, zeta_max, zeta_notch, err);
+  if (st == LW_OK)
+    st = lw_measured_resonance (omega_rad_s, p, n, zeta_max, res, err);
+  if (st != LW_OK || !res->found)
+    return st;
+  double wn = res->omega_n_rad_s, z = res->zeta;
+  if (wn * sqrt (1.0 - z * z) * period_s >= LW_PI)
+    return LW_OK;                      /* beyond the Nyquist frequency, as for a model */
+  notch_on_pole (wn * (-z + I * sqrt (1.0 - z * z)), period_s, zeta_notch, out);
+  return LW_OK;
+}
+
 LwStatus
 lw_synth_notch (const LwModel *plant_s, double period_s, double zeta_max, double zeta_notch,
                 LwNotchDesign *out, LwError *err)
@@ -353,11 +478,9 @@ lw_synth_notch (const LwModel *plant_s, double period_s, double zeta_max, double
   memset (out, 0, sizeof *out);
   if (plant_s == NULL || plant_s->domain != LW_DOMAIN_S)
     return lw_error_set (err, LW_ERR_INVALID, -1, "need a plant in s");
-  if (!(period_s > 0.0) || !isfinite (period_s))
-    return lw_error_set (err, LW_ERR_INVALID, -1, "the sample period must be finite and > 0 s");
-  if (!(zeta_max > 0.0 && zeta_max < 1.0 && zeta_notch > zeta_max && zeta_notch <= 1.0))
-    return lw_error_set (err, LW_ERR_INVALID, -1,
-                         "need 0 < zeta_max < 1 and zeta_max < zeta_notch <= 1");
+  LwStatus st = check_notch_limits (period_s, zeta_max, zeta_notch, err);
+  if (st != LW_OK)
+    return st;
   double best = INFINITY;
   for (size_t i = 0; i < plant_s->n_poles; i++)
     {
@@ -371,15 +494,7 @@ lw_synth_notch (const LwModel *plant_s, double period_s, double zeta_max, double
       if (!(zeta < zeta_max) || !(zeta < best))
         continue;
       best = zeta;
-      out->found = true;
-      out->plant_pole_re = creal (p);
-      out->plant_pole_im = cimag (p);
-      out->plant_damping_w = zeta;
-      double depth = zeta > 0.0 ? 20.0 * log10 (zeta_notch / zeta) : NOTCH_MAX_DEPTH_DB;
-      if (depth > NOTCH_MAX_DEPTH_DB)
-        depth = NOTCH_MAX_DEPTH_DB;
-      out->notch = lw_stage_notch (nu0, depth, 2.0 * zeta_notch * nu0);
-      lw_stage_set_label (&out->notch, "notch");
+      notch_on_pole (p, period_s, zeta_notch, out);
     }
   return LW_OK;
 }

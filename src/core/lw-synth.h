@@ -50,6 +50,7 @@
 
 #include "lw-analysis.h"
 #include "lw-error.h"
+#include "lw-measured.h"
 #include "lw-model.h"
 #include "lw-stage.h"
 
@@ -62,6 +63,17 @@ typedef struct {
   int compute_delay;          /* N >= 0, whole samples */
   const LwStage *fixed;       /* stages already in the controller (may be NULL when n_fixed 0) */
   size_t n_fixed;
+  /* On measured data (data_n > 0) in place of the plant (which may then be NULL): the sampled
+   * plant's response P at data_n points (ω ascending, below π/T: LwMeasuredLoop's omega_rad_s
+   * and p) and the loop's sample period.  The loop is then L = z^−N·C(z)·P at the points and
+   * between them lw_measured_loop_at's interpolation, the one the crossovers on data are
+   * found by, so what a helper aims at is what the margins on the data then show; a frequency
+   * outside the points is refused.  The "reached" figures of lw_synth_lead are the data's
+   * (lw_measured_margins; stable false: the data alone do not tell). */
+  const double *data_omega_rad_s;
+  const double complex *data_p;
+  size_t data_n;
+  double data_period_s;
 } LwSynthLoop;
 
 /* |L(jν)| (ratio) and ∠L(jν) (degrees, unwrapped from low frequency) of the loop with the fixed
@@ -139,6 +151,14 @@ typedef struct {
  * (e.g. 0.5). */
 LwStatus lw_synth_notch (const LwModel *plant_s, double period_s, double zeta_max,
                          double zeta_notch, LwNotchDesign *out, LwError *err);
+
+/* The notch on measured data: the resonance found in the sampled plant's response p at n
+ * points (lw_measured_resonance, *res) is taken as the s-plane pole pair
+ * ω_n·(−ζ ± j√(1 − ζ²)) and notched as lw_synth_notch notches a model's (out->found false
+ * when the data show no resonance). Same limits on zeta_max and zeta_notch. */
+LwStatus lw_synth_notch_data (const double *omega_rad_s, const double complex *p, size_t n,
+                              double period_s, double zeta_max, double zeta_notch,
+                              LwMeasuredResonance *res, LwNotchDesign *out, LwError *err);
 
 #ifdef __cplusplus
 }

@@ -14,10 +14,14 @@ lw_prop_propose_meet (Work *w, LwProposal *p, GError **error)
   if (!isfinite (wc) || !lw_prop_check_crossover (w, wc, error))
     return FALSE;
   double wc_cap = MEET_CROSSOVER_NYQUIST * G_PI / w->T;
+  if (w->data != NULL)
+    wc_cap = fmin (wc_cap, w->data->omega_rad_s[w->data->n - 1]);   /* not past the data */
   if (wc > wc_cap)
     {
-      lw_prop_say (w, "crossover lowered to %.6g rad/s, half the Nyquist frequency (common practice)",
-           wc_cap);
+      lw_prop_say (w, wc_cap < MEET_CROSSOVER_NYQUIST * G_PI / w->T
+                      ? "crossover lowered to %.6g rad/s, the highest measured frequency"
+                      : "crossover lowered to %.6g rad/s, half the Nyquist frequency (common "
+                        "practice)", wc_cap);
       wc = wc_cap;
     }
   double pm = lw_prop_target_phase_margin (w);
@@ -41,11 +45,15 @@ lw_prop_propose_meet (Work *w, LwProposal *p, GError **error)
   /* a lightly damped resonance above the crossover is notched first: the lead's gain would
    * lift its peak through 0 dB (gain stabilization, common practice, no source) */
   LwNotchDesign nd = { 0 };
-  LwError nerr;
-  lw_error_clear (&nerr);
-  if (w->base->plant_s != NULL
-      && lw_synth_notch (w->base->plant_s, w->T, o->notch_zeta_max, o->notch_zeta, &nd,
-                         &nerr) == LW_OK && nd.found)
+  GError *nerr = NULL;
+  if (!lw_prop_notch (w, &nd, &nerr))
+    {
+      if (w->data != NULL)
+        lw_prop_say (w, "no notch: %s", nerr->message);
+      g_clear_error (&nerr);
+      nd.found = false;
+    }
+  else
     {
       double wn = hypot (nd.plant_pole_re, nd.plant_pole_im);
       if (wn > wc)
@@ -65,7 +73,7 @@ lw_prop_propose_meet (Work *w, LwProposal *p, GError **error)
   double best_wc = wc, best_pm = pm;
   LwError err;
   lw_error_clear (&err);
-  LwSynthLoop sl = { w->base->sampled, w->base->compute_delay, NULL, 0 };
+  LwSynthLoop sl = lw_prop_synth_loop (w, NULL, 0);
 
   for (int round = 0; round < MEET_ROUNDS; round++)
     {

@@ -41,6 +41,10 @@ typedef struct
   LwVariantEval *base;          /* the variant as it is (its stages, none for MEET) */
   const LwStage *fixed;         /* the stages kept */
   size_t n_fixed;
+  /* the design's analysis is on its measured data (<measured analysis="data">): the loop
+   * closed on the data by base (its omega and p, the sampled plant at the points); NULL
+   * when the analysis is on the model */
+  const LwMeasuredLoop *data;
 } Work;
 
 /* 1-based number of a requirement, for messages. */
@@ -81,3 +85,9 @@ lw_prop_say_lead (Work *w, const LwLeadDesign *ld);
 
 gboolean
 lw_prop_propose_meet (Work *w, LwProposal *p, GError **error);
+
+LwSynthLoop
+lw_prop_synth_loop (Work *w, const LwStage *fixed, size_t n_fixed);
+
+gboolean
+lw_prop_notch (Work *w, LwNotchDesign *nd, GError **error);

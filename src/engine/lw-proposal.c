@@ -294,6 +294,101 @@ lw_prop_check_crossover (Work *w, double wc, GError **error)
                    "pi/T = %.6g rad/s", wc, G_PI / w->T);
       return FALSE;
     }
+  if (w->data != NULL
+      && !(wc >= w->data->omega_rad_s[0] && wc <= w->data->omega_rad_s[w->data->n - 1]))
+    {
+      g_set_error (error, LW_ENGINE_ERROR, LW_ERR_INVALID,
+                   "the crossover %.6g rad/s lies outside the measured data, which cover "
+                   "%.6g … %.6g rad/s: the loop on the data is not known there (the design's "
+                   "analysis is on the data)", wc, w->data->omega_rad_s[0],
+                   w->data->omega_rad_s[w->data->n - 1]);
+      return FALSE;
+    }
+  return TRUE;
+}
+
+/* The loop the formulas work on: the sampled plant's model, or with the analysis on data the
+ * sampled plant's response at the measured points (lw-synth.h). */
+LwSynthLoop
+lw_prop_synth_loop (Work *w, const LwStage *fixed, size_t n_fixed)
+{
+  LwSynthLoop sl = { .plant = w->base->sampled, .compute_delay = w->base->compute_delay,
+                     .fixed = fixed, .n_fixed = n_fixed };
+  if (w->data != NULL)
+    {
+      sl.data_omega_rad_s = w->data->omega_rad_s;
+      sl.data_p = w->data->p;
+      sl.data_n = w->data->n;
+      sl.data_period_s = w->T;
+    }
+  return sl;
+}
+
+/* The notch on the plant's most lightly damped resonance: the model's pole pair, or with the
+ * analysis on data the resonance found in the measured response (said in a line). FALSE with
+ * *error when there is none or it cannot be found. */
+gboolean
+lw_prop_notch (Work *w, LwNotchDesign *nd, GError **error)
+{
+  const LwHelperOptions *o = w->o;
+  LwError err;
+  lw_error_clear (&err);
+  memset (nd, 0, sizeof *nd);
+  if (w->data != NULL)
+    {
+      LwMeasuredResonance res;
+      if (lw_synth_notch_data (w->data->omega_rad_s, w->data->p, w->data->n, w->T,
+                               o->notch_zeta_max, o->notch_zeta, &res, nd, &err) != LW_OK)
+        return lw_prop_fail_core (&err, error);
+      if (res.found)
+        lw_prop_say (w, "resonance in the measured data: the point at %.6g rad/s stands %.3g dB "
+                     "above the trend of the half decade either side; a second-order fit to the "
+                     "%zu points from %.6g to %.6g rad/s gives omega_n = %.6g rad/s, damping "
+                     "%.4g", res.peak_rad_s, res.height_db, res.n_fit, res.fit_lo_rad_s,
+                     res.fit_hi_rad_s, res.omega_n_rad_s, res.zeta);
+      if (!nd->found)
+        {
+          GString *why = g_string_new (NULL);
+          if (res.found)
+            g_string_printf (why, "the resonance found in the measured data at %.6g rad/s lies "
+                             "beyond the Nyquist frequency", res.omega_n_rad_s);
+          else
+            {
+              g_string_printf (why, "the measured data (%.6g … %.6g rad/s) show no resonance: "
+                               "no peak of |P| stands %.3g dB above the trend of the half "
+                               "decade either side with a fitted damping below %.3g",
+                               w->data->omega_rad_s[0], w->data->omega_rad_s[w->data->n - 1],
+                               LW_RESONANCE_HEIGHT_DB, o->notch_zeta_max);
+              if (res.n_peaks > 0)
+                g_string_append_printf (why, " (%zu peak(s) stand that high but are damped "
+                                        "more or do not fit a resonance)", res.n_peaks);
+              if (res.n_near_end > 0)
+                g_string_append_printf (why, "; %zu peak(s) lie within a quarter decade of an "
+                                        "end of the data, too near it to judge",
+                                        res.n_near_end);
+            }
+          g_string_append (why, ": nothing to notch");
+          g_set_error_literal (error, LW_ENGINE_ERROR, LW_ERR_INVALID, why->str);
+          g_string_free (why, TRUE);
+          return FALSE;
+        }
+      return TRUE;
+    }
+  if (w->base->plant_s == NULL)
+    {
+      g_set_error_literal (error, LW_ENGINE_ERROR, LW_ERR_INVALID, "the plant does not parse");
+      return FALSE;
+    }
+  if (lw_synth_notch (w->base->plant_s, w->T, o->notch_zeta_max, o->notch_zeta, nd, &err)
+      != LW_OK)
+    return lw_prop_fail_core (&err, error);
+  if (!nd->found)
+    {
+      g_set_error (error, LW_ENGINE_ERROR, LW_ERR_INVALID,
+                   "the plant has no pole pair with damping below %.3g under the Nyquist "
+                   "frequency: nothing to notch", o->notch_zeta_max);
+      return FALSE;
+    }
   return TRUE;
 }
 
@@ -324,7 +419,7 @@ static gboolean
 propose_single (Work *w, LwProposal *p, GError **error)
 {
   const LwHelperOptions *o = w->o;
-  LwSynthLoop sl = { w->base->sampled, w->base->compute_delay, w->fixed, w->n_fixed };
+  LwSynthLoop sl = lw_prop_synth_loop (w, w->fixed, w->n_fixed);
   LwError err;
   lw_error_clear (&err);
   GArray *out = g_array_new (FALSE, FALSE, sizeof (LwStage));
@@ -332,7 +427,12 @@ propose_single (Work *w, LwProposal *p, GError **error)
 
   /* the crossover of the variant as it is, for the helpers that work below it */
   double wc_now = NAN;
-  if (w->base->ev != NULL && w->base->ev->margins.has_phase_margin)
+  if (w->data != NULL)
+    {
+      if (w->data->margins.n_gain > 0)
+        wc_now = w->data->margins.gain_crossover_rad_s;
+    }
+  else if (w->base->ev != NULL && w->base->ev->margins.has_phase_margin)
     wc_now = w->base->ev->margins.gain_crossover_rad_s;
 
   switch (o->kind)
@@ -469,24 +569,11 @@ propose_single (Work *w, LwProposal *p, GError **error)
     case LW_HELPER_NOTCH:
       {
         LwNotchDesign nd;
-        if (w->base->plant_s == NULL
-            || lw_synth_notch (w->base->plant_s, w->T, o->notch_zeta_max, o->notch_zeta, &nd,
-                               &err) != LW_OK)
-          {
-            if (w->base->plant_s == NULL)
-              lw_error_set (&err, LW_ERR_INVALID, -1, "the plant does not parse");
-            lw_prop_fail_core (&err, error);
-            goto out;
-          }
-        if (!nd.found)
-          {
-            g_set_error (error, LW_ENGINE_ERROR, LW_ERR_INVALID,
-                         "the plant has no pole pair with damping below %.3g under the Nyquist "
-                         "frequency: nothing to notch", o->notch_zeta_max);
-            goto out;
-          }
-        lw_prop_say (w, "resonance of the plant at %.6g%+.6gj rad/s (w-plane damping %.4g)",
-             nd.plant_pole_re, nd.plant_pole_im, nd.plant_damping_w);
+        if (!lw_prop_notch (w, &nd, error))
+          goto out;
+        lw_prop_say (w, "resonance of the plant%s at %.6g%+.6gj rad/s (w-plane damping %.4g)",
+             w->data != NULL ? " (the pole pair of that fit)" : "", nd.plant_pole_re,
+             nd.plant_pole_im, nd.plant_damping_w);
         lw_prop_say (w, "notch at %.6g rad/s, %.3g dB deep, %.4g rad/s wide", nd.notch.p.notch.centre_rad_s,
              nd.notch.p.notch.depth_db, nd.notch.p.notch.width_rad_s);
         g_array_append_val (out, nd.notch);
@@ -550,7 +637,7 @@ lw_proposal_make (const LwDesign *d, size_t variant, const LwHelperOptions *o,
       return NULL;
     }
   Work w = { d, variant, cache, o, lw_design_variant_period_s (d, variant),
-             g_ptr_array_new_with_free_func (g_free), NULL, NULL, 0 };
+             g_ptr_array_new_with_free_func (g_free), NULL, NULL, 0, NULL };
   gboolean meet = o->kind == LW_HELPER_MEET;
   LwProposal *p = g_new0 (LwProposal, 1);
   p->kind = o->kind;
@@ -559,7 +646,27 @@ lw_proposal_make (const LwDesign *d, size_t variant, const LwHelperOptions *o,
 
   w.base = meet ? lw_prop_evaluate_with (&w, NULL, 0, TRUE)
                 : lw_engine_evaluate_variant (d, variant, NULL, cache);
-  if (w.base->sampled == NULL || (!meet && w.base->failure == LW_EVAL_FAILED_COMPENSATOR))
+  gboolean on_data = d->measured != NULL && d->measured_analysis == LW_DESIGN_ANALYSIS_DATA;
+  if (on_data && w.base->measured == NULL && w.base->measured_error != NULL
+      && !(!meet && w.base->failure == LW_EVAL_FAILED_COMPENSATOR))
+    {
+      g_set_error (error, LW_ENGINE_ERROR, w.base->measured_error->code,
+                   "the design's analysis is on its measured data, but variant '%s' cannot be "
+                   "closed on them: %s", d->variants[variant].name,
+                   w.base->measured_error->message);
+      goto fail;
+    }
+  if (on_data && w.base->measured != NULL)
+    {
+      w.data = w.base->measured;
+      lw_prop_say (&w, "on the measured data (%s kind, %zu points from %.6g to %.6g rad/s): |L| "
+                   "and the phase of L between the points interpolated as the margins on the "
+                   "data are (ln|L| and the unwrapped phase linear in ln omega)",
+                   lw_design_measured_kind_name (d->measured_kind), w.data->n,
+                   w.data->omega_rad_s[0], w.data->omega_rad_s[w.data->n - 1]);
+    }
+  if ((w.data == NULL && w.base->sampled == NULL)
+      || (!meet && w.base->failure == LW_EVAL_FAILED_COMPENSATOR))
     {
       g_set_error (error, LW_ENGINE_ERROR, w.base->error != NULL ? w.base->error->code
                                                                 : LW_ERR_INVALID,
@@ -591,7 +698,7 @@ lw_proposal_make (const LwDesign *d, size_t variant, const LwHelperOptions *o,
             reason = g_strdup_printf ("requirement %zu (%s): not available%s%s", REQ_NO (i),
                                       lw_prop_req_title (d, i), r->note ? ": " : "",
                                       r->note ? r->note : "");
-          else if (!p->preview->ev->stable)
+          else if (p->preview->ev != NULL && !p->preview->ev->stable)
             reason = g_strdup_printf ("requirement %zu (%s): the closed loop is unstable",
                                       REQ_NO (i), lw_prop_req_title (d, i));
           else

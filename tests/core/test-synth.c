@@ -73,7 +73,7 @@ test_crossover_gain (void **state)
   (void) state;
   double t = 0.002, om = 20.0;
   LwSampledPlant *sp = plant_new ("40/(s*(s+8))", 0, t, NULL);
-  LwSynthLoop lp = { sp, 1, NULL, 0 };
+  LwSynthLoop lp = { .plant = sp, .compute_delay = 1, .fixed = NULL, .n_fixed = 0 };
   LwStage g;
   assert_int_equal (lw_synth_crossover_gain (&lp, lw_warp_omega_to_nu (om, t), &g, NULL), LW_OK);
   assert_int_equal (g.kind, LW_STAGE_GAIN);
@@ -100,7 +100,7 @@ test_continuous_lead_example (void **state)
   LwSampledPlant *sp = plant_new ("1", 0, t, NULL);
   /* 40/(w(w+2)) = 20 · 1/w · 1/(1 + w/2) */
   LwStage fixed[3] = { lw_stage_gain (20.0), lw_stage_integrator (1), lw_stage_real_pole (2.0) };
-  LwSynthLoop lp = { sp, 0, fixed, 3 };
+  LwSynthLoop lp = { .plant = sp, .compute_delay = 0, .fixed = fixed, .n_fixed = 3 };
   LwEvaluation *ev = evaluate (&lp, NULL, 0);
   double nu = lw_warp_omega_to_nu (ev->margins.gain_crossover_rad_s, t);
   double nu_cf = sqrt (-2 + sqrt (4 + 1600.0));
@@ -114,7 +114,7 @@ test_continuous_lead_example (void **state)
    * = 2 · 1/w · 1/(1 + w/2) */
   LwStage book[4] = { lw_stage_gain (2 * 41.7 * 4.41 / 18.4), lw_stage_integrator (1),
                       lw_stage_real_pole (2.0), lw_stage_lead (4.41, 18.4) };
-  LwSynthLoop lb = { sp, 0, book, 4 };
+  LwSynthLoop lb = { .plant = sp, .compute_delay = 0, .fixed = book, .n_fixed = 4 };
   ev = evaluate (&lb, NULL, 0);
   assert_close (ev->margins.phase_margin_deg, 50.5, 0.05, "book PM (lead)");
   assert_close (lw_warp_omega_to_nu (ev->margins.gain_crossover_rad_s, t), 8.89, 0.005,
@@ -170,7 +170,7 @@ test_designs (void **state)
     {
       const Case *c = &cases[k];
       LwSampledPlant *sp = plant_new (c->plant, c->dead_s, c->t, NULL);
-      LwSynthLoop lp = { sp, c->delay, NULL, 0 };
+      LwSynthLoop lp = { .plant = sp, .compute_delay = c->delay, .fixed = NULL, .n_fixed = 0 };
       LwLeadOptions o;
       lw_lead_options_init (&o);
       for (int pass = 0; pass < 2; pass++)
@@ -256,7 +256,7 @@ test_pi (void **state)
   (void) state;
   double t = 1.0, om = 0.04;
   LwSampledPlant *sp = plant_new ("0.8/((120*s+1)*(15*s+1))", 4.0, t, NULL);
-  LwSynthLoop lp = { sp, 1, NULL, 0 };
+  LwSynthLoop lp = { .plant = sp, .compute_delay = 1, .fixed = NULL, .n_fixed = 0 };
   LwEvaluation *ev0 = evaluate (&lp, NULL, 0);
   LwPiDesign d;
   double nu = lw_warp_omega_to_nu (om, t);
