@@ -12,6 +12,7 @@
 #include "lw-cli-common.h"
 #include "lw-cli-doc.h"
 #include "lw-cli-json.h"
+#include "lw-cli-measured.h"
 #include "lw-cmd-suggest-helper.h"
 #include "lw-proposal.h"
 
@@ -80,10 +81,37 @@ print_json (const LwDesign *d, const LwProposal *p, gboolean with_doc)
           json_builder_set_member_name (b, "controller_w");
           lw_cli_json_add_model (b, e->controller_w);
         }
-      json_builder_set_member_name (b, "loop");
-      lw_cli_json_add_loop (b, &e->ev->margins);
-      json_builder_set_member_name (b, "stable");
-      json_builder_add_boolean_value (b, e->ev->stable);
+      gboolean on_data = d->measured != NULL && d->measured_analysis == LW_DESIGN_ANALYSIS_DATA;
+      if (d->measured != NULL)
+        {
+          json_builder_set_member_name (b, "analysis");
+          json_builder_add_string_value (b, lw_design_analysis_name (d->measured_analysis));
+        }
+      if (on_data && e->measured != NULL)
+        {
+          /* the helper worked on the data: the loop block is the data's, as analyze FILE's */
+          LwCliMeasuredLoop ml;
+          memset (&ml, 0, sizeof ml);
+          ml.kind = d->measured_kind;
+          ml.data = d->measured;
+          ml.loop = *e->measured;
+          ml.period_s = e->period_s;
+          ml.compute_delay = e->compute_delay;
+          ml.has_model = e->ev != NULL;
+          json_builder_set_member_name (b, "loop");
+          lw_cli_measured_json_loop (b, &ml);
+        }
+      else if (e->ev != NULL)
+        {
+          json_builder_set_member_name (b, "loop");
+          lw_cli_json_add_loop (b, &e->ev->margins);
+        }
+      if (e->ev != NULL)
+        {
+          /* the model's closed loop (the data alone do not tell) */
+          json_builder_set_member_name (b, "stable");
+          json_builder_add_boolean_value (b, e->ev->stable);
+        }
       if (with_doc)
         {
           json_builder_set_member_name (b, "requirements");

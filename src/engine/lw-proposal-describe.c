@@ -31,6 +31,46 @@ achieved_unit_sep (const char *unit)
   return unit[0] == '\0' || strcmp (unit, "ratio") == 0 || strcmp (unit, "%") == 0 ? "" : " ";
 }
 
+/* The margins the proposal reaches on the measured data (the design's analysis is on them). */
+static void
+describe_on_data (GString *s, const LwVariantEval *e)
+{
+  if (e->measured == NULL)
+    {
+      g_string_append_printf (s, "\nOn the measured data: the loop cannot be closed on them (%s)\n",
+                              e->measured_error != NULL ? e->measured_error->message
+                                                        : "not evaluated");
+      return;
+    }
+  const LwMeasuredLoop *ml = e->measured;
+  const LwMeasuredMargins *m = &ml->margins;
+  g_string_append_printf (s, "\nReached on the measured data (%zu points, %.6g … %.6g rad/s), "
+                             "L = z^-%d C(z) P_data, between the points\n", ml->n,
+                          ml->omega_rad_s[0], ml->omega_rad_s[ml->n - 1], e->compute_delay);
+  for (size_t i = 0; i < m->n_gain; i++)
+    if (m->gain[i].omega_rad_s == m->gain_crossover_rad_s)
+      g_string_append_printf (s, "  %-24s %.4g deg at %.6g rad/s (between the points at %.6g "
+                                 "and %.6g)%s\n", "phase margin", m->phase_margin_deg,
+                              m->gain_crossover_rad_s, m->gain[i].lo_rad_s, m->gain[i].hi_rad_s,
+                              m->gain[i].low_coherence ? ", low coherence" : "");
+  if (m->n_gain > 1)
+    g_string_append_printf (s, "  %-24s %zu in the data\n", "gain crossovers", m->n_gain);
+  if (m->n_gain == 0)
+    g_string_append_printf (s, "  %-24s none in the data (no gain crossover)\n", "phase margin");
+  if (m->crossover_above_data)
+    g_string_append_printf (s, "  %-24s |L| >= 1 at the highest point: a crossover may lie above "
+                               "the data\n", "note");
+  if (m->n_phase > 0)
+    g_string_append_printf (s, "  %-24s %.4g dB at %.6g rad/s\n", "gain margin",
+                            m->gain_margin_db, m->phase_crossover_rad_s);
+  else
+    g_string_append_printf (s, "  %-24s none in the data (no phase crossover)\n", "gain margin");
+  if (isfinite (m->sensitivity_peak))
+    g_string_append_printf (s, "  %-24s %.4g (%.3g dB) at %.6g rad/s (over the points)\n",
+                            "sensitivity peak |S|", m->sensitivity_peak,
+                            20.0 * log10 (m->sensitivity_peak), m->sensitivity_peak_rad_s);
+}
+
 char *
 lw_proposal_describe (const LwDesign *d, size_t variant, const LwProposal *p)
 {
@@ -60,24 +100,32 @@ lw_proposal_describe (const LwDesign *d, size_t variant, const LwProposal *p)
       g_string_append_printf (s, "\nController in w, with the proposal:\n  C(w) = %s\n", cw);
       g_free (cw);
     }
-  const LwMargins *m = &e->ev->margins;
-  g_string_append_printf (s, "\nReached, loop L(z) = z^-%d C(z) P(z)\n", e->compute_delay);
-  if (m->has_phase_margin)
-    g_string_append_printf (s, "  %-24s %.4g deg at %.6g rad/s\n", "phase margin",
-                            m->phase_margin_deg, m->gain_crossover_rad_s);
-  else
-    g_string_append_printf (s, "  %-24s none (no gain crossover)\n", "phase margin");
-  if (m->has_gain_margin)
-    g_string_append_printf (s, "  %-24s %.4g dB at %.6g rad/s\n", "gain margin",
-                            m->gain_margin_db, m->phase_crossover_rad_s);
-  else
-    g_string_append_printf (s, "  %-24s none (no phase crossover)\n", "gain margin");
-  if (m->has_sensitivity)
-    g_string_append_printf (s, "  %-24s %.4g (%.3g dB) at %.6g rad/s\n", "sensitivity peak |S|",
-                            m->sensitivity_peak, 20.0 * log10 (m->sensitivity_peak),
-                            m->sensitivity_peak_rad_s);
-  g_string_append_printf (s, "  %-24s %s\n", "closed loop",
-                          e->ev->stable ? "stable" : "UNSTABLE");
+  gboolean on_data = d->measured != NULL && d->measured_analysis == LW_DESIGN_ANALYSIS_DATA;
+  if (on_data)
+    describe_on_data (s, e);
+  if (e->ev != NULL)
+    {
+      const LwMargins *m = &e->ev->margins;
+      g_string_append_printf (s, "\nReached%s, loop L(z) = z^-%d C(z) P(z)\n",
+                              on_data ? " on the model (not what the requirements are judged on)"
+                                      : "", e->compute_delay);
+      if (m->has_phase_margin)
+        g_string_append_printf (s, "  %-24s %.4g deg at %.6g rad/s\n", "phase margin",
+                                m->phase_margin_deg, m->gain_crossover_rad_s);
+      else
+        g_string_append_printf (s, "  %-24s none (no gain crossover)\n", "phase margin");
+      if (m->has_gain_margin)
+        g_string_append_printf (s, "  %-24s %.4g dB at %.6g rad/s\n", "gain margin",
+                                m->gain_margin_db, m->phase_crossover_rad_s);
+      else
+        g_string_append_printf (s, "  %-24s none (no phase crossover)\n", "gain margin");
+      if (m->has_sensitivity)
+        g_string_append_printf (s, "  %-24s %.4g (%.3g dB) at %.6g rad/s\n",
+                                "sensitivity peak |S|", m->sensitivity_peak,
+                                20.0 * log10 (m->sensitivity_peak), m->sensitivity_peak_rad_s);
+      g_string_append_printf (s, "  %-24s %s\n", "closed loop",
+                              e->ev->stable ? "stable" : "UNSTABLE");
+    }
 
   if (e->requirements != NULL && d->n_requirements > 0)
     {
