@@ -40,6 +40,10 @@
  *                    |w| and damping ζ = −Re w/|w|; notch zeros cancel it (ζz = ζ), its poles
  *                    take damping zeta_notch: depth 20·log10(zeta_notch/ζ) (at most 80 dB),
  *                    width 2·zeta_notch·ν0.  Poles beyond the Nyquist frequency are skipped.
+ *                    On data (lw_synth_notch_data) the pole pair is the resonance found in
+ *                    the measured response (lw_measured_resonance), notched the same way.
+ * On measured data (LwSynthLoop.data_n > 0) the same formulas take L from the data between
+ * the points (lw_measured_loop_at), not from the model: see LwSynthLoop.
  *
  * SPDX-License-Identifier: GPL-3.0-or-later
  */

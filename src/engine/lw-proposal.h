@@ -24,6 +24,11 @@
  * raises the phase-margin target by 5° or the crossover by 15 % and tries again (at most 8
  * rounds, never past the lead's refusal or 0.5·π/T); it says which requirements it could not
  * meet and why.  The single helpers append their stages to the variant's, which stay fixed.
+ * With <measured analysis="data"> every helper works on the variant's loop closed on the data
+ * (LwVariantEval.measured; its model loop is not needed): |L| and ∠L between the measured
+ * points as the margins on data interpolate them, a target outside the data refused, the notch
+ * on the resonance found in the data (lw_measured_resonance); the first line says so and the
+ * description gives the margins reached on the data (docs/measured-data.md).
  *
  * SPDX-License-Identifier: GPL-3.0-or-later
  */
