@@ -24,6 +24,7 @@ linearly in ln omega there (docs/measured-data.md, the method of the margins on 
                   resonance of damping 0.02 still takes all but 1 dB off its peak)
   meet            the margins requirements judged on the data pass (the rounds judge them on
                   the loop closed on the data)
+With analysis="model" the same document's helpers use the model (the notch on its resonance).
 Refusals (exit 2, the message naming what and where): a crossover below the data's first point
 (the frequency and the data's range named), a notch on data without a resonance.
 """
@@ -184,6 +185,21 @@ def main():
         check("notch" in kinds, f"meet: the data's resonance notched: {kinds}")
         pm = js["loop"]["phase_margin_deg"]
         check(pm >= 45, f"meet: the data's phase margin {pm}")
+
+    # the same document with analysis="model": the helpers use the model (its resonance at
+    # 200 rad/s, damping 0.01: the notch where test-cli-helpers.py puts it), not the data
+    model_doc = os.path.join(tmp, "rig-model.lwd")
+    with open(model_doc, "w", encoding="utf-8") as f:
+        f.write(open(lwd, encoding="utf-8").read().replace('analysis="data"', 'analysis="model"'))
+    rc, js, err = suggest(model_doc, "--helper", "notch")
+    check(rc == 0, f"notch on the model: {err}")
+    if js:
+        p = complex(-2.0, math.sqrt(40000.0 - 4.0))
+        centre = abs(2 / T * cmath.tanh(p * T / 2))
+        got = js["stages"][0]["params"]["centre_rad_s"]
+        check(abs(got - centre) < 1e-9 * centre, f"notch on the model: {got} vs {centre}")
+        check(js["analysis"] == "model" and not js["steps"][0].startswith("on the measured"),
+              f"notch on the model: {js['analysis']} {js['steps'][0]}")
 
     # refusals
     rc, out, err = run(["suggest", lwd, "--helper", "crossover-gain", "--crossover", "0.5"])
