@@ -659,9 +659,9 @@ lw_proposal_make (const LwDesign *d, size_t variant, const LwHelperOptions *o,
   if (on_data && w.base->measured != NULL)
     {
       w.data = w.base->measured;
-      lw_prop_say (&w, "on the measured data (%s kind, %zu points from %.6g to %.6g rad/s): |L| "
-                   "and the phase of L between the points interpolated as the margins on the "
-                   "data are (ln|L| and the unwrapped phase linear in ln omega)",
+      lw_prop_say (&w, "on the measured data (%s kind, %zu points, %.6g … %.6g rad/s): L between "
+                   "the points as the margins on the data take it (ln|L| and the unwrapped "
+                   "phase linear in ln omega)",
                    lw_design_measured_kind_name (d->measured_kind), w.data->n,
                    w.data->omega_rad_s[0], w.data->omega_rad_s[w.data->n - 1]);
     }
