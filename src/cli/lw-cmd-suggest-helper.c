@@ -74,7 +74,7 @@ print_json (const LwDesign *d, const LwProposal *p, gboolean with_doc)
   lw_cli_json_add_optional (b, isfinite (p->crossover_rad_s), p->crossover_rad_s);
   json_builder_set_member_name (b, "phase_margin_target_deg");
   lw_cli_json_add_optional (b, isfinite (p->phase_margin_deg), p->phase_margin_deg);
-  if (e->failure == LW_EVAL_OK)
+  if (e->failure == LW_EVAL_OK || (e->failure == LW_EVAL_NO_MODEL && e->measured != NULL))
     {
       if (e->controller_w != NULL)
         {

@@ -88,7 +88,7 @@ lw_proposal_describe (const LwDesign *d, size_t variant, const LwProposal *p)
     describe_stage (s, kept + k, &p->stages[k]);
 
   const LwVariantEval *e = p->preview;
-  if (e->failure != LW_EVAL_OK)
+  if (!lw_prop_evaluated (e))
     {
       g_string_append_printf (s, "\nThe variant with these stages does not evaluate: %s\n",
                               e->error->message);

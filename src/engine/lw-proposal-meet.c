@@ -6,6 +6,35 @@
 
 #include "lw-proposal-private.h"
 
+/* Without a model, the plant's integrators from the data: the slope of ln|P| in ln ω over the
+ * lowest decade of the data (or what there is of it), when within 0.25 of −0, −1 or −2 (the
+ * slope of k integrators is −k; common practice, no source, for the margin). FALSE (said)
+ * when the slope is not that clear. */
+static gboolean
+type_from_data (Work *w, int *type)
+{
+  const LwMeasuredLoop *d = w->data;
+  double w0 = d->omega_rad_s[0], w1 = fmin (10.0 * w0, d->omega_rad_s[d->n - 1]);
+  double m1 = NAN;
+  LwError err;
+  lw_error_clear (&err);
+  if (!(w1 > w0) || lw_measured_loop_at (d->omega_rad_s, d->p, d->n, w1, &m1, NULL, &err) != LW_OK)
+    return FALSE;
+  double slope = (log (m1) - log (cabs (d->p[0]))) / (log (w1) - log (w0));
+  double k = round (-slope);
+  if (!(k >= 0.0 && k <= 2.0 && fabs (-slope - k) <= 0.25))
+    {
+      lw_prop_say (w, "the plant's integrators are not clear from the data (|P| falls %.3g dB a "
+                   "decade from %.6g to %.6g rad/s): no PI added; without a model the error "
+                   "requirements are not judged", -20.0 * slope, w0, w1);
+      return FALSE;
+    }
+  *type = (int) k;
+  lw_prop_say (w, "the plant has %d integrator(s) by the data (|P| falls %.3g dB a decade from "
+               "%.6g to %.6g rad/s)", *type, -20.0 * slope, w0, w1);
+  return TRUE;
+}
+
 gboolean
 lw_prop_propose_meet (Work *w, LwProposal *p, GError **error)
 {
@@ -32,7 +61,10 @@ lw_prop_propose_meet (Work *w, LwProposal *p, GError **error)
   gboolean errors = lw_prop_error_needs (w->d, &need_type, &need_kp, &need_kv, &which);
   int plant_type = w->base->has_achieved && w->base->achieved.has_low_frequency
                    ? w->base->achieved.loop_type : 0;
-  gboolean use_pi = errors && plant_type < need_type;
+  gboolean type_known = TRUE;
+  if (w->base->ev == NULL && w->data != NULL && errors)
+    type_known = type_from_data (w, &plant_type);
+  gboolean use_pi = errors && type_known && plant_type < need_type;
   if (use_pi)
     lw_prop_say (w, "requirement %zu (%s) needs %d integrator(s); the plant has %d: a PI at %.3g nu_c",
          REQ_NO (which), lw_prop_req_title (w->d, which), need_type, plant_type, o->pi_fraction);
@@ -121,7 +153,7 @@ lw_prop_propose_meet (Work *w, LwProposal *p, GError **error)
       memcpy (stages, fixed, nf * sizeof *stages);
       memcpy (stages + nf, ld.stages, ld.n_stages * sizeof *stages);
       LwVariantEval *e = lw_prop_evaluate_with (w, stages, n, TRUE);
-      size_t failing = e->failure == LW_EVAL_OK ? e->n_not_passing : G_MAXSIZE - 1;
+      size_t failing = lw_prop_evaluated (e) ? e->n_not_passing : G_MAXSIZE - 1;
       if (failing < best_failing)
         {
           g_free (best);
@@ -129,7 +161,7 @@ lw_prop_propose_meet (Work *w, LwProposal *p, GError **error)
         }
       else
         g_free (stages);
-      if (e->failure != LW_EVAL_OK || failing == 0)
+      if (!lw_prop_evaluated (e) || failing == 0)
         {
           lw_variant_eval_unref (e);
           break;

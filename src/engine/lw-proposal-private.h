@@ -47,6 +47,14 @@ typedef struct
   const LwMeasuredLoop *data;
 } Work;
 
+/* The variant evaluated: on the model, or (a design with data alone, LW_EVAL_NO_MODEL) on its
+ * measured data, with the requirements judged on them. */
+static inline gboolean
+lw_prop_evaluated (const LwVariantEval *e)
+{
+  return e->failure == LW_EVAL_OK || (e->failure == LW_EVAL_NO_MODEL && e->measured != NULL);
+}
+
 /* 1-based number of a requirement, for messages. */
 #define REQ_NO(i) ((i) + 1)
 

@@ -501,6 +501,14 @@ propose_single (Work *w, LwProposal *p, GError **error)
                                      "to take one from");
                 goto out;
               }
+            if (w->base->ev == NULL && w->data != NULL)
+              {
+                g_set_error_literal (error, LW_ENGINE_ERROR, LW_ERR_INVALID,
+                                     "the design has no model: its low-frequency gain (and what "
+                                     "an error requirement is short of) is not known from the "
+                                     "data; give the ratio");
+                goto out;
+              }
             if (!w->base->has_achieved)
               {
                 g_set_error_literal (error, LW_ENGINE_ERROR, LW_ERR_INVALID,
@@ -683,7 +691,7 @@ lw_proposal_make (const LwDesign *d, size_t variant, const LwHelperOptions *o,
     goto fail;
 
   p->preview = lw_prop_evaluate_with (&w, p->stages, p->n_stages, p->replaces);
-  if (p->preview->failure == LW_EVAL_OK && p->preview->requirements != NULL)
+  if (lw_prop_evaluated (p->preview) && p->preview->requirements != NULL)
     {
       p->unmet = g_new0 (LwProposalUnmet, p->preview->n_not_passing + 1);
       for (size_t i = 0; i < p->preview->n_requirements; i++)
@@ -715,7 +723,7 @@ lw_proposal_make (const LwDesign *d, size_t variant, const LwHelperOptions *o,
           p->n_unmet++;
         }
     }
-  else if (p->preview->failure != LW_EVAL_OK)
+  else if (!lw_prop_evaluated (p->preview))
     lw_prop_say (&w, "the variant with the proposal does not evaluate: %s",
          p->preview->error->message);
   p->lines = g_steal_pointer (&w.lines);

@@ -25,6 +25,7 @@ linearly in ln omega there (docs/measured-data.md, the method of the margins on 
   meet            the margins requirements judged on the data pass (the rounds judge them on
                   the loop closed on the data)
 With analysis="model" the same document's helpers use the model (the notch on its resonance).
+A design on the data alone (no model) gets the same stages and loop on the data.
 Refusals (exit 2, the message naming what and where): a crossover below the data's first point
 (the frequency and the data's range named), a notch on data without a resonance.
 """
@@ -77,16 +78,18 @@ def sampled_data(num, den, lo):
     return w, h
 
 
-def document(tmp, name, w, h, kind="sampled", requirements=True):
+def document(tmp, name, w, h, kind="sampled", requirements=True, model=True):
     csv = os.path.join(tmp, name + ".csv")
     write_csv(csv, w, h)
     lwd = os.path.join(tmp, name + ".lwd")
-    rc, _, err = run(["new", "--plant", MODEL, "--period", str(T), "--compute-delay", "1",
-                      "--measured", csv, "--measured-kind", kind, "--out", lwd])
+    rc, _, err = run(["new"] + (["--plant", MODEL] if model else [])
+                     + ["--period", str(T), "--compute-delay", "1",
+                        "--measured", csv, "--measured-kind", kind, "--out", lwd])
     check(rc == 0, f"new --measured {name}: {err}")
     text = open(lwd, encoding="utf-8").read()
-    assert 'analysis="model"' in text
-    text = text.replace('analysis="model"', 'analysis="data"', 1)
+    if model:
+        assert 'analysis="model"' in text
+        text = text.replace('analysis="model"', 'analysis="data"', 1)
     if requirements:
         slider = open(SLIDER, encoding="utf-8").read()
         reqs = slider[slider.index("  <requirements>"):slider.index("</requirements>") + 16]
@@ -200,6 +203,32 @@ def main():
         check(abs(got - centre) < 1e-9 * centre, f"notch on the model: {got} vs {centre}")
         check(js["analysis"] == "model" and not js["steps"][0].startswith("on the measured"),
               f"notch on the model: {js['analysis']} {js['steps'][0]}")
+
+    # a design on the data alone (new --measured without --plant): the same helpers, the same
+    # stages, since they never use the model; meet judges on the data what it can and reads
+    # the plant's integrator off the data's slope; a lag without a ratio is refused
+    alone = document(tmp, "rig-alone", w, h, model=False)
+    for args in (["--helper", "crossover-gain", "--crossover", "40"],
+                 ["--helper", "lead", "--crossover", "40", "--phase-margin", "50"],
+                 ["--helper", "notch"], ["--helper", "meet"]):
+        rc_a, ja, err_a = suggest(alone, *args)
+        rc_m, jm, err_m = suggest(lwd, *args)
+        check(rc_a == 0 and rc_m == 0, f"data alone {args}: {err_a} {err_m}")
+        if ja and jm:
+            check(ja["stages"] == jm["stages"] and ja["loop"] == jm["loop"],
+                  f"data alone {args}: stages or loop differ from the design with a model")
+            check("stable" not in ja, f"data alone {args}: no stability without a model")
+    rc, ja, err = suggest(alone, "--helper", "meet")
+    if ja:
+        check(any(x.startswith("the plant has 1 integrator(s) by the data") for x in ja["steps"]),
+              f"data alone: integrator from the data: {ja['steps']}")
+        passed = {r["kind"] for r in ja["requirements"] if r["pass"]}
+        check({"phase-margin", "gain-margin", "crossover", "sensitivity-peak"} <= passed,
+              f"data alone: meet on the data {ja['requirements']}")
+        check({n["requirement"] for n in ja["not_met"]} == {5, 6},
+              f"data alone: overshoot and step error need a model: {ja['not_met']}")
+    rc, out, err = run(["suggest", alone, "--helper", "lag"])
+    check(rc == 2 and "give the ratio" in err, f"data alone: lag without a ratio: {rc} {err}")
 
     # refusals
     rc, out, err = run(["suggest", lwd, "--helper", "crossover-gain", "--crossover", "0.5"])
