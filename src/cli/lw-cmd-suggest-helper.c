@@ -100,6 +100,9 @@ print_json (const LwDesign *d, const LwProposal *p, gboolean with_doc)
           ml.has_model = e->ev != NULL;
           json_builder_set_member_name (b, "loop");
           lw_cli_measured_json_loop (b, &ml);
+          json_builder_set_member_name (b, "stability_on_data");
+          json_builder_add_string_value (b, lw_measured_verdict_name (
+                                                e->measured->stability.verdict));
         }
       else if (e->ev != NULL)
         {

@@ -69,6 +69,10 @@ describe_on_data (GString *s, const LwVariantEval *e)
     g_string_append_printf (s, "  %-24s %.4g (%.3g dB) at %.6g rad/s (over the points)\n",
                             "sensitivity peak |S|", m->sensitivity_peak,
                             20.0 * log10 (m->sensitivity_peak), m->sensitivity_peak_rad_s);
+  const LwMeasuredStability *st = &ml->stability;
+  /* the note begins with the verdict */
+  g_string_append_printf (s, "  %-24s %s\n", "closed loop (Nyquist)",
+                          st->note[0] ? st->note : lw_measured_verdict_name (st->verdict));
 }
 
 char *

@@ -706,9 +706,14 @@ lw_proposal_make (const LwDesign *d, size_t variant, const LwHelperOptions *o,
             reason = g_strdup_printf ("requirement %zu (%s): not available%s%s", REQ_NO (i),
                                       lw_prop_req_title (d, i), r->note ? ": " : "",
                                       r->note ? r->note : "");
-          else if (p->preview->ev != NULL && !p->preview->ev->stable)
-            reason = g_strdup_printf ("requirement %zu (%s): the closed loop is unstable",
-                                      REQ_NO (i), lw_prop_req_title (d, i));
+          else if ((p->preview->ev != NULL && !p->preview->ev->stable)
+                   || (p->preview->has_achieved && !p->preview->achieved.stable))
+            reason = g_strdup_printf ("requirement %zu (%s): the closed loop is unstable%s",
+                                      REQ_NO (i), lw_prop_req_title (d, i),
+                                      p->preview->measured != NULL
+                                      && p->preview->measured->stability.verdict
+                                           == LW_MEASURED_UNSTABLE
+                                      ? " on the measured data (Nyquist criterion)" : "");
           else
             {
               gboolean plain = unit[0] == '\0' || strcmp (unit, "ratio") == 0;
