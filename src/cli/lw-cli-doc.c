@@ -146,6 +146,13 @@ lw_cli_loop_evaluate (const char *place, const LwCliLoop *lp, const LwEngineOpti
                       out);
 }
 
+gboolean
+lw_cli_doc_on_data (const LwDesign *d, LwReqKind kind)
+{
+  return d->measured != NULL && d->measured_analysis == LW_DESIGN_ANALYSIS_DATA
+         && lw_req_kind_from_frequency_response (kind);
+}
+
 void
 lw_cli_doc_json_requirements (JsonBuilder *b, const LwDesign *d, const LwReqResult *res)
 {
@@ -178,6 +185,13 @@ lw_cli_doc_json_requirements (JsonBuilder *b, const LwDesign *d, const LwReqResu
       json_builder_add_boolean_value (b, res[i].status == LW_REQ_PASS);
       json_builder_set_member_name (b, "status");
       json_builder_add_string_value (b, lw_req_status_word (res[i].status));
+      if (d->measured != NULL)
+        {
+          /* a document with a measurement says what each verdict was judged on */
+          json_builder_set_member_name (b, "judged_on");
+          json_builder_add_string_value (b, lw_cli_doc_on_data (d, r->req.kind) ? "data"
+                                                                                : "model");
+        }
       json_builder_end_object (b);
     }
   json_builder_end_array (b);
@@ -215,6 +229,8 @@ lw_cli_doc_print_requirements (const LwDesign *d, const LwReqResult *res)
       /* pad by characters, not bytes */
       int pad = width - (int) g_utf8_strlen (title, -1);
       printf ("  %s%*s  %-24s %-18s %s", title, pad > 0 ? pad : 0, "", target, achieved, result);
+      if (lw_cli_doc_on_data (d, r->req.kind))
+        printf (" (on data)");
       if (res[i].note != NULL && res[i].status != LW_REQ_PASS)
         printf (" (%s)", res[i].note);
       printf ("\n");

@@ -61,10 +61,16 @@ int lw_cli_report_gerror (const char *place, const GError *error);
 
 /* A JSON array value: one object per requirement with name, kind, unit, target (a number, or
  * [low, high] for a range), achieved (null when not available), slack, pass (bool) and status
- * ("pass", "fail", "not-available"). */
+ * ("pass", "fail", "not-available"); with a measurement in the document also judged_on
+ * ("data" or "model"). */
 void lw_cli_doc_json_requirements (JsonBuilder *b, const LwDesign *d, const LwReqResult *res);
 
-/* The requirements as a table on stdout (indented two spaces). */
+/* Whether the document judges requirements of this kind on its measured data (it holds one,
+ * analysis="data", lw_req_kind_from_frequency_response). */
+gboolean lw_cli_doc_on_data (const LwDesign *d, LwReqKind kind);
+
+/* The requirements as a table on stdout (indented two spaces); one judged on the measured
+ * data is marked "(on data)". */
 void lw_cli_doc_print_requirements (const LwDesign *d, const LwReqResult *res);
 
 /* With a design document (file) the loop options are refused: prints "unexpected argument

@@ -1,7 +1,9 @@
 /* lw-cli-measured-doc.c — the measured frequency response a design document holds
  * (<measured>, docs/file-format.md) on the command line: `new --measured FILE.csv` writes it
- * into the new document, `analyze FILE.lwd` reports the variant's loop on it as the engine
- * closed it (LwVariantEval.measured, lw_measured_loop_close as for `analyze --measured`).
+ * into the new document, `check`, `plot` and `report FILE.lwd --measured FILE.csv` put it in
+ * place of the document's for the run, `analyze FILE.lwd` reports the variant's loop on it as
+ * the engine closed it (LwVariantEval.measured, lw_measured_loop_close as for
+ * `analyze --measured`), `check` says which requirements were judged on it.
  * SPDX-License-Identifier: GPL-3.0-or-later
  */
 #include "config.h"
@@ -12,7 +14,7 @@
 #include "lw-cli-measured.h"
 
 int
-lw_cli_measured_doc_set (LwDesign *d, const LwCliMeasuredArgs *m)
+lw_cli_measured_doc_set (LwDesign *d, const LwCliMeasuredArgs *m, LwDesignAnalysis analysis)
 {
   if (m->file == NULL)
     {
@@ -33,17 +35,16 @@ lw_cli_measured_doc_set (LwDesign *d, const LwCliMeasuredArgs *m)
   lw_measured_free (d->measured);
   d->measured = data;
   d->measured_kind = kind;
-  /* without a model the analysis can only be the data's */
-  d->measured_analysis = lw_design_has_model (d) ? LW_DESIGN_ANALYSIS_MODEL
-                                                 : LW_DESIGN_ANALYSIS_DATA;
-  d->measured_unstable_poles = 0;
+  /* without a model the analysis can only be the data's; the count of open-loop unstable
+   * poles is the plant's: a document's stays */
+  d->measured_analysis = lw_design_has_model (d) ? analysis : LW_DESIGN_ANALYSIS_DATA;
   /* the file's base name as the source, when it is a text the document can hold */
   g_autofree char *base = g_path_get_basename (m->file);
   g_autofree char *shown = g_filename_display_name (base);
   lw_design_set_string (&d->measured_source,
                         lw_design_source_problem (shown) == NULL ? shown : NULL);
   if (note[0] != '\0')
-    fprintf (stderr, "%s: %s: %s (not kept in the document)\n", LW_CLI_PROG, m->file, note);
+    fprintf (stderr, "%s: %s: %s (not kept)\n", LW_CLI_PROG, m->file, note);
   return LW_EXIT_OK;
 }
 
@@ -106,4 +107,83 @@ lw_cli_measured_doc_analyze (const char *file, const LwDesign *d, const LwVarian
                 "the model's above\n");
     }
   return status;   /* nothing of ml is its own */
+}
+
+void
+lw_cli_measured_doc_header (const LwDesign *d, const char *given)
+{
+  const LwMeasured *m = d->measured;
+  if (m == NULL)
+    return;
+  g_autofree char *shown = given != NULL ? g_filename_display_name (given) : NULL;
+  printf ("Measured response: %s (%s, %zu points from %.6g to %.6g rad/s%s)%s\n",
+          shown != NULL ? shown : d->measured_source != NULL ? d->measured_source
+                                                             : "the document's <measured>",
+          lw_design_measured_kind_name (d->measured_kind), m->n, m->omega_rad_s[0],
+          m->omega_rad_s[m->n - 1], m->coherence != NULL ? ", with coherence" : "",
+          shown != NULL ? ", given by --measured in place of the document's" : "");
+  if (d->measured_analysis == LW_DESIGN_ANALYSIS_DATA)
+    printf ("  judged on the data (analysis=\"data\"): the phase margin, gain margin, crossover "
+            "and sensitivity requirements (marked \"on data\"); the others on the model\n");
+  else
+    printf ("  not judged on (analysis=\"model\"): every requirement is the model's\n");
+}
+
+/* The crossing of list c at omega (the governing one), or NULL. */
+static const LwMeasuredCrossing *
+crossing_at (const LwMeasuredCrossing *c, size_t n, double omega)
+{
+  for (size_t i = 0; i < n; i++)
+    if (c[i].omega_rad_s == omega)
+      return &c[i];
+  return NULL;
+}
+
+static void
+print_margin (const char *what, double value, const char *unit, const LwMeasuredCrossing *c)
+{
+  if (c == NULL)
+    {
+      printf ("    %-16s none in the data\n", what);
+      return;
+    }
+  printf ("    %-16s %.4g %s at %.6g rad/s (between the points %.6g and %.6g rad/s)%s\n", what,
+          value, unit, c->omega_rad_s, c->lo_rad_s, c->hi_rad_s,
+          c->low_coherence ? " LOW COHERENCE" : "");
+}
+
+void
+lw_cli_measured_doc_check_lines (const LwDesign *d, const LwVariantEval *e)
+{
+  if (d->measured == NULL || d->measured_analysis != LW_DESIGN_ANALYSIS_DATA)
+    return;
+  if (e->measured == NULL)
+    {
+      printf ("  the measured data cannot be used at this variant's period: %s; the "
+              "requirements judged on them are not available\n",
+              e->measured_error != NULL ? e->measured_error->message : "not evaluated");
+      return;
+    }
+  const LwMeasuredMargins *mm = &e->measured->margins;
+  printf ("  on the measured data (L = z^-%d C(z) P on %zu points, found between them):\n",
+          e->compute_delay, e->measured->n);
+  print_margin ("phase margin", mm->phase_margin_deg, "deg",
+                crossing_at (mm->gain, mm->n_gain, mm->gain_crossover_rad_s));
+  print_margin ("gain margin", mm->gain_margin_db, "dB",
+                crossing_at (mm->phase, mm->n_phase, mm->phase_crossover_rad_s));
+  size_t low = 0;
+  for (size_t i = 0; i < mm->n_gain + mm->n_phase; i++)
+    low += (i < mm->n_gain ? mm->gain[i] : mm->phase[i - mm->n_gain]).low_coherence;
+  if (mm->n_gain + mm->n_phase > 2 || low > 0)
+    printf ("    %zu gain and %zu phase crossover(s) in the data, %zu next to a point of "
+            "coherence below %.1f (analyze FILE lists them)\n", mm->n_gain, mm->n_phase, low,
+            LW_MEASURED_LOW_COHERENCE);
+  printf ("    %-16s %.4g at %.6g rad/s (the largest at a measured point)\n",
+          "sensitivity peak", mm->sensitivity_peak, mm->sensitivity_peak_rad_s);
+  if (mm->crossover_above_data)
+    printf ("    caution: |L| >= 1 at the highest measured frequency: a gain crossover lies "
+            "above the data (the phase margin and crossover are not available)\n");
+  if (mm->crossover_below_data)
+    printf ("    caution: |L| < 1 at the lowest measured frequency: a gain crossover may lie "
+            "below the data\n");
 }

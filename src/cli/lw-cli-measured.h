@@ -95,10 +95,24 @@ void lw_cli_measured_json_loop (JsonBuilder *b, const LwCliMeasuredLoop *ml);
 int lw_cli_measured_analyze (const char *cmd, const LwCliLoopArgs *loop,
                              const LwCliMeasuredArgs *m, gboolean json);
 
-/* `new --measured FILE.csv --measured-kind KIND`: the table read and put into d (analysis
- * "model", no unstable poles stated, the file's name as the source); nothing when neither
- * option is given. Returns the exit status (the message printed). */
-int lw_cli_measured_doc_set (LwDesign *d, const LwCliMeasuredArgs *m);
+/* `--measured FILE.csv --measured-kind KIND` with a document: the table read and put into d
+ * in place of the measurement it holds (the file's name as the source, `analysis` as the
+ * design's choice; the stated count of open-loop unstable poles kept, as it is the plant's):
+ * `new` keeps it in the new document (analysis "model"); `check`, `plot` and `report` judge
+ * and draw the run on it (analysis "data"), the document's file unchanged. Nothing when
+ * neither option is given. Returns the exit status (the message printed). */
+int lw_cli_measured_doc_set (LwDesign *d, const LwCliMeasuredArgs *m,
+                             LwDesignAnalysis analysis);
+
+/* `check` with a document holding a measurement: where the data are and, with
+ * analysis="data", the margins of the variant's loop on them (e->measured), with their
+ * intervals, low-coherence and outside-the-data flags; why the data could not be used at the
+ * variant's period. Nothing without a measurement. */
+void lw_cli_measured_doc_check_lines (const LwDesign *d, const LwVariantEval *e);
+
+/* The line on what the data decided, for the header of `check` (nothing without a
+ * measurement): "measured response: SOURCE (KIND, N points …); requirements … judged on …". */
+void lw_cli_measured_doc_header (const LwDesign *d, const char *given);
 
 /* `analyze FILE.lwd` of variant evaluation e: when d holds a measurement, the loop of e
  * (period, dead time, computation delay, controller in z) closed on the data, the model's

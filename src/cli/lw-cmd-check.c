@@ -11,16 +11,24 @@
 #include "lw-cli-common.h"
 #include "lw-cli-doc.h"
 #include "lw-cli-family.h"
+#include "lw-cli-measured.h"
 
 static const char check_help[] =
   "Usage: " LW_CLI_PROG " check FILE.lwd [--variant NAME | --all-variants]\n"
+  "       [--measured FILE.csv --measured-kind KIND]\n"
   "\n"
   "Evaluates the sampled loop of a design document and checks it against the requirements\n"
   "the document states: a table of target, achieved value and result per requirement.\n"
+  "A document that holds a measured response with analysis=\"data\" has its phase margin,\n"
+  "gain margin, crossover and sensitivity requirements judged on the loop closed on the\n"
+  "data (marked \"on data\"; docs/measured-data.md).\n"
   "\n"
   "Options:\n"
   "  --variant NAME           check this variant (default: the document's active variant)\n"
   "  --all-variants           check every variant in the document\n"
+  "  --measured FILE.csv      judge on this measured response (as analysis=\"data\"), in\n"
+  "                           place of the one the document holds; the file is unchanged\n"
+  "  --measured-kind KIND     sampled or continuous (required with --measured)\n"
   "  -h, --help               show this help\n"
   "\n"
   "The actuator peak is max |u| of the reference step: a unit step without limits, or the\n"
@@ -32,6 +40,7 @@ typedef struct
 {
   char **files;
   char *variant;
+  LwCliMeasuredArgs measured;
   gboolean all;
   gboolean help;
 } CheckArgs;
@@ -48,14 +57,17 @@ check_variant (const char *path, const LwDesign *d, size_t index)
   const LwEvaluation *ev = e->ev;
   const LwReqResult *res = e->requirements;
   size_t failing = e->n_not_passing;
-  printf ("\nVariant '%s'%s: %zu stage(s), loop %s\n", v->name,
+  /* with a measurement, the stability said is the model's (the data do not tell it) */
+  printf ("\nVariant '%s'%s: %zu stage(s), %s%s\n", v->name,
           index == d->active ? " (active)" : "", v->n_stages,
+          ev == NULL ? "" : d->measured != NULL ? "the model's loop " : "loop ",
           ev == NULL ? "on the measured data alone (no model)"
                      : ev->stable ? "stable" : "UNSTABLE");
   lw_cli_doc_print_requirements (d, res);
   if (d->n_requirements > 0)
     printf ("  %zu of %zu requirement(s) pass\n", d->n_requirements - failing,
             d->n_requirements);
+  lw_cli_measured_doc_check_lines (d, e);
   if (ev != NULL && lw_cli_family_wanted (&(LwCliFamilyArgs) { 0 }, d))
     {
       /* a plant family: every requirement judged on its worst member too */
@@ -95,6 +107,9 @@ check_run (void *data)
   int status = lw_cli_doc_load (path, &d);
   if (status != LW_EXIT_OK)
     return status;
+  status = lw_cli_measured_doc_set (d, &a->measured, LW_DESIGN_ANALYSIS_DATA);
+  if (status != LW_EXIT_OK)
+    return status;
   size_t first = 0, last = 0;
   if (a->all)
     last = d->n_variants - 1;
@@ -108,6 +123,7 @@ check_run (void *data)
   printf ("Design '%s' (%s): plant %s, T = %.6g s, computation delay %d, dead time %.6g s\n",
           d->title, path, lw_design_has_model (d) ? d->plant : "(none: measured data)",
           d->period_s, d->compute_delay, d->dead_time_s);
+  lw_cli_measured_doc_header (d, a->measured.file);
   int worst = LW_EXIT_OK;
   for (size_t i = first; i <= last; i++)
     {
@@ -130,6 +146,7 @@ lw_cmd_check (int argc, char **argv)
   const GOptionEntry entries[] = {
     { "variant", 0, 0, G_OPTION_ARG_STRING, &a.variant, NULL, NULL },
     { "all-variants", 0, 0, G_OPTION_ARG_NONE, &a.all, NULL, NULL },
+    LW_CLI_MEASURED_ENTRIES (&a.measured),
     { "help", 'h', 0, G_OPTION_ARG_NONE, &a.help, NULL, NULL },
     { G_OPTION_REMAINING, 0, 0, G_OPTION_ARG_FILENAME_ARRAY, &a.files, NULL, NULL },
     { NULL, 0, 0, 0, NULL, NULL, NULL }
@@ -138,5 +155,6 @@ lw_cmd_check (int argc, char **argv)
                                    check_run, &a);
   g_strfreev (a.files);
   g_free (a.variant);
+  lw_cli_measured_args_clear (&a.measured);
   return status;
 }

@@ -89,7 +89,7 @@ new_run (void *data)
         }
       lw_design_set_string (&d->title, a->title);
     }
-  status = lw_cli_measured_doc_set (d, &a->measured);
+  status = lw_cli_measured_doc_set (d, &a->measured, LW_DESIGN_ANALYSIS_MODEL);
   if (status != LW_EXIT_OK)
     return status;
   GError *error = NULL;
