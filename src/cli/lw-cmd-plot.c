@@ -26,8 +26,9 @@
 static const char plot_help_head[] =
   "Usage: " LW_CLI_PROG " plot --plant EXPR --period SECONDS --view VIEW --out FILE [options]\n"
   "       " LW_CLI_PROG " plot FILE.lwd [--variant NAME | --all-variants | --compared]\n"
-  "       --view VIEW"
-  "       --out FILE [options]\n"
+  "       --view VIEW --out FILE [--measured FILE.csv --measured-kind KIND] [options]\n"
+  "       " LW_CLI_PROG " plot --measured FILE.csv --measured-kind KIND --period SECONDS\n"
+  "       --view VIEW --out FILE [options]\n"
   "\n"
   "Draws one view of a sampled loop and writes it as a PNG, SVG or PDF file (by the\n"
   "extension of FILE).\n"
@@ -37,6 +38,9 @@ static const char plot_help_head[] =
   "in the legend, or with --compared the active variant and those the document marks\n"
   "compared (what the window shows); the document's phase-margin requirement is marked unless\n"
   "--min-phase-margin is given. The loop options and --name are then not accepted.\n"
+  "A measured response (the document's, or --measured in its place) is drawn in the\n"
+  "frequency views beside the model, closed by the active variant's loop (or the first\n"
+  "drawn), faded where its coherence is below 0.8 (docs/measured-data.md).\n"
   "\n"
   "Views:\n";
 
@@ -300,8 +304,8 @@ plot_write (const PlotSpec *s, const PlotVariantSource *src, size_t n, const LwP
     }
   if (extra != NULL)
     {
-      pv[n] = *extra;   /* the measured data, after the model */
-      pv[n].style = (unsigned) n + 1;
+      pv[n] = *extra;   /* the measured data, after the model, in a style none of it has */
+      pv[n].style = lw_figure_measured_style (pv, n);
     }
   LwPlotInput in = { 0 };
   in.view = s->view;
@@ -369,6 +373,37 @@ plot_analysis_options (const PlotArgs *a, LwAnalysisOptions *opts)
   return LW_EXIT_OK;
 }
 
+/* The loop of evaluation e on the document's measurement as a figure variant (*has FALSE
+ * when there is none, the view draws no data, or the n_model variants leave no room: said on
+ * stderr); a measurement the engine could not use at the variant's period is bad input, as
+ * for analyze. */
+static int
+plot_doc_measured (const char *path, const LwDesign *d, const LwVariantEval *e,
+                   const PlotSpec *spec, size_t n_model, LwFigureMeasured *fig, gboolean *has)
+{
+  *has = FALSE;
+  if (d->measured == NULL || !lw_figure_measured_view_ok (spec->view))
+    return LW_EXIT_OK;
+  if (e->measured == NULL)
+    {
+      lw_cli_bad_input (path, "<measured>: %s", e->measured_error != NULL
+                                                  ? e->measured_error->message
+                                                  : "not evaluated");
+      return LW_EXIT_BAD_INPUT;
+    }
+  if (n_model >= LW_PLOT_MAX_VARIANTS)
+    {
+      lw_cli_bad_input ("plot", "note: the measured data are not drawn: a figure holds %d "
+                        "curves and the %zu variants take them all", LW_PLOT_MAX_VARIANTS,
+                        n_model);
+      return LW_EXIT_OK;
+    }
+  lw_figure_measured_fill (fig, e->measured, e->measured_kind, e->measured_coherence,
+                           e->period_s);
+  *has = TRUE;
+  return LW_EXIT_OK;
+}
+
 /* The variants of a design document, overlaid. */
 static int
 plot_run_document (const PlotArgs *a)
@@ -419,6 +454,17 @@ plot_run_document (const PlotArgs *a)
   if (status != LW_EXIT_OK)
     return status;
 
+  /* a measurement given here takes the place of the document's (as check and report do) */
+  if (a->measured.file != NULL && !lw_figure_measured_view_ok (spec.view))
+    {
+      lw_cli_bad_input ("--view", "%s is a model's (time responses or poles); measured data "
+                        "draw in the frequency views", a->view);
+      return LW_EXIT_BAD_INPUT;
+    }
+  status = lw_cli_measured_doc_set (d, &a->measured, LW_DESIGN_ANALYSIS_DATA);
+  if (status != LW_EXIT_OK)
+    return status;
+
   LwEngineOptions eo;
   lw_engine_options_init (&eo);
   eo.n_points = opts.n_points;
@@ -426,18 +472,31 @@ plot_run_document (const PlotArgs *a)
   eo.disturbances = (lw_plot_view_info (spec.view)->needs & LW_PLOT_NEEDS_DISTURBANCE) != 0;
   LwVariantEval *e[LW_PLOT_MAX_VARIANTS] = { NULL };
   PlotVariantSource src[LW_PLOT_MAX_VARIANTS] = { { 0 } };
-  size_t built = 0;
+  size_t built = 0, n_model = 0, with_data = 0;
   for (; built < n; built++)
     {
       status = lw_cli_doc_evaluate (path, d, which[built], &eo, FALSE, &e[built]);
       if (status != LW_EXIT_OK)
         goto out;
-      src[built] = (PlotVariantSource) { d->variants[which[built]].name, e[built]->sampled,
-                                         e[built]->ev,
-                                         (unsigned) (which[built] % LW_PLOT_MAX_VARIANTS) + 1,
-                                         e[built] };
+      if (which[built] == d->active)
+        with_data = built;
+      if (e[built]->ev == NULL)
+        continue;   /* no model loop: only its data are drawn */
+      src[n_model++] = (PlotVariantSource) { d->variants[which[built]].name, e[built]->sampled,
+                                             e[built]->ev,
+                                             (unsigned) (which[built] % LW_PLOT_MAX_VARIANTS)
+                                             + 1, e[built] };
     }
-  status = plot_write (&spec, src, n, NULL, src[0].ev->period_s);
+  /* the document's measurement, closed by the loop of the active variant when it is drawn
+   * (else the first drawn), in the frequency views, as the window draws it */
+  LwFigureMeasured fig;
+  gboolean has_fig = FALSE;
+  status = plot_doc_measured (path, d, e[with_data], &spec, n_model, &fig, &has_fig);
+  if (status == LW_EXIT_OK)
+    status = plot_write (&spec, src, n_model, has_fig ? &fig.variant : NULL,
+                         e[with_data]->period_s);
+  if (has_fig)
+    lw_figure_measured_clear (&fig);
 out:
   for (size_t i = 0; i < built; i++)
     lw_variant_eval_unref (e[i]);
@@ -448,12 +507,6 @@ out:
 static int
 plot_run_measured (const PlotArgs *a)
 {
-  if (a->files != NULL && a->files[0] != NULL)
-    {
-      lw_cli_bad_input ("--measured", "is taken with the loop options, not with a design "
-                        "document");
-      return LW_EXIT_BAD_INPUT;
-    }
   PlotSpec spec;
   int status = plot_options_check (a, &spec);
   if (status != LW_EXIT_OK)
@@ -503,10 +556,10 @@ plot_run (void *data)
       lw_cli_bad_input ("--measured-kind", "needs --measured FILE.csv");
       return LW_EXIT_BAD_INPUT;
     }
-  if (a->measured.file != NULL)
-    return plot_run_measured (a);
   if (a->files != NULL && a->files[0] != NULL)
     return plot_run_document (a);
+  if (a->measured.file != NULL)
+    return plot_run_measured (a);
   if (a->variant != NULL || a->all || a->compared)
     {
       lw_cli_bad_input (a->all ? "--all-variants" : a->compared ? "--compared" : "--variant",

@@ -291,19 +291,7 @@ lwpa_with_measured (const LwPlotVariant *vars, guint n, const LwPlotVariant *mea
     if (out[i].name == NULL)
       out[i].name = _("model");
   /* the first style none of the variants drawn has (they go by place in the document) */
-  unsigned style = 1;
-  for (gboolean taken = TRUE; taken && style < LW_PLOT_MAX_VARIANTS; )
-    {
-      taken = FALSE;
-      for (guint i = 0; i < n; i++)
-        if (vars[i].style == style || (vars[i].style == 0 && i + 1 == style))
-          {
-            taken = TRUE;
-            style++;
-            break;
-          }
-    }
-  out[n].style = style;
+  out[n].style = lw_figure_measured_style (vars, n);
   return n + 1;
 }
 

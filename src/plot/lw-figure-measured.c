@@ -94,6 +94,24 @@ lw_figure_measured_fill (LwFigureMeasured *f, const LwMeasuredLoop *ml, LwMeasur
   v->nyquist = (LwPlotComplexCurve) { .n = n, .re = f->re, .im = f->im };
 }
 
+unsigned
+lw_figure_measured_style (const LwPlotVariant *vars, size_t n)
+{
+  unsigned style = 1;
+  for (bool taken = true; taken && style < LW_PLOT_MAX_VARIANTS; )
+    {
+      taken = false;
+      for (size_t i = 0; i < n; i++)
+        if (vars[i].style == style || (vars[i].style == 0 && i + 1 == style))
+          {
+            taken = true;
+            style++;
+            break;
+          }
+    }
+  return style;
+}
+
 bool
 lw_figure_measured_view_ok (int view)
 {

@@ -22,5 +22,10 @@ void lw_figure_measured_fill (LwFigureMeasured *f, const LwMeasuredLoop *ml,
                               LwMeasuredKind kind, const double *coherence, double period_s);
 void lw_figure_measured_clear (LwFigureMeasured *f);
 
+/* The style of the data drawn after the n variants vars: the first style (1 …
+ * LW_PLOT_MAX_VARIANTS) none of them has (a style 0 stands for its position + 1), so the data
+ * never take a drawn variant's colour and dash. The window, `plot` and the report alike. */
+unsigned lw_figure_measured_style (const LwPlotVariant *vars, size_t n);
+
 /* Whether view (an LwPlotView) can draw measured data (it needs only frequency curves). */
 bool lw_figure_measured_view_ok (int view);
