@@ -13,17 +13,22 @@
 #include "lw-cli-commands.h"
 #include "lw-cli-common.h"
 #include "lw-cli-doc.h"
+#include "lw-cli-measured.h"
 #include "lw-report.h"
 
 static const char report_help[] =
   "Usage: " LW_CLI_PROG " report FILE.lwd --out REPORT.html|REPORT.pdf\n"
   "       [--variants A,B | --compared] [--date YYYY-MM-DD]\n"
+  "       [--measured FILE.csv --measured-kind KIND]\n"
   "\n"
   "Writes the design report of a document: title, author, date and notes; the plant in s,\n"
   "z and w; sampling and delays; for each variant its stages, the controller in w and z,\n"
   "the difference equation and second-order sections, the requirements, margins and\n"
   "performance indices; the figures (Bode in z and w, step response, Nyquist) with the\n"
-  "variants overlaid; a comparison table of the variants; and the caution.\n"
+  "variants overlaid; a comparison table of the variants; and the caution. A measured\n"
+  "response in the document (or --measured) has a section of its own, each variant's\n"
+  "margins on it with the interval of each crossover, and is drawn in the frequency\n"
+  "figures (docs/measured-data.md).\n"
   "\n"
   "Options:\n"
   "  --out FILE               REPORT.html (one file, figures as SVG inline) or REPORT.pdf\n"
@@ -35,6 +40,10 @@ static const char report_help[] =
   "  --date YYYY-MM-DD        the date printed in the report and written as the PDF's\n"
   "                           creation date (default: SOURCE_DATE_EPOCH when set, else\n"
   "                           \"not stated\"); the same document and date give the same bytes\n"
+  "  --measured FILE.csv      report on this measured response in place of the one the\n"
+  "                           document holds, judged on as analysis=\"data\" (the file\n"
+  "                           unchanged)\n"
+  "  --measured-kind KIND     sampled or continuous (required with --measured)\n"
   "  -h, --help               show this help\n"
   "\n"
   "Exit status: 0 success, 2 bad input or a bad document, 1 internal failure or the file\n"
@@ -47,6 +56,7 @@ typedef struct
   char *variants;
   gboolean compared;
   char *date;
+  LwCliMeasuredArgs measured;
   gboolean help;
 } ReportArgs;
 
@@ -158,6 +168,9 @@ report_run (void *data)
   status = lw_cli_doc_load (path, &d);
   if (status != LW_EXIT_OK)
     return status;
+  status = lw_cli_measured_doc_set (d, &a->measured, LW_DESIGN_ANALYSIS_DATA);
+  if (status != LW_EXIT_OK)
+    return status;
   g_autofree size_t *which = NULL;
   size_t n = 0;
   if (a->compared && a->variants != NULL)
@@ -201,6 +214,7 @@ lw_cmd_report (int argc, char **argv)
     { "variants", 0, 0, G_OPTION_ARG_STRING, &a.variants, NULL, NULL },
     { "compared", 0, 0, G_OPTION_ARG_NONE, &a.compared, NULL, NULL },
     { "date", 0, 0, G_OPTION_ARG_STRING, &a.date, NULL, NULL },
+    LW_CLI_MEASURED_ENTRIES (&a.measured),
     { "help", 'h', 0, G_OPTION_ARG_NONE, &a.help, NULL, NULL },
     { G_OPTION_REMAINING, 0, 0, G_OPTION_ARG_FILENAME_ARRAY, &a.files, NULL, NULL },
     { NULL, 0, 0, 0, NULL, NULL, NULL }
@@ -211,5 +225,6 @@ lw_cmd_report (int argc, char **argv)
   g_free (a.out);
   g_free (a.variants);
   g_free (a.date);
+  lw_cli_measured_args_clear (&a.measured);
   return status;
 }

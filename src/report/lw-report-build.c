@@ -103,11 +103,19 @@ section_design (LwReport *r, const char *path, const LwDesign *d, size_t n)
     }
 }
 
+/* The plant model in s, z and w, with the cautions on its factored forms. */
 static void
-section_plant (LwReport *r, const LwDesign *d, const RVar *v0)
+plant_model (LwReport *r, const LwDesign *d, const RVar *v0)
 {
   const LwEvaluation *ev = v0->ev;
-  lwr_heading (r, 2, "plant", "Plant and sampling");
+  if (ev == NULL)
+    {
+      lwr_para (r, "No plant model: the analysis uses the measured response (below). The step "
+                "and disturbance responses, the closed-loop poles and the code's margins "
+                "after quantization need a model and are not available; fit one to the data "
+                "(docs/measured-data.md, Model fit).");
+      return;
+    }
   lwr_para (r, "The plant as typed: P(s) = %s. Its zero-order-hold equivalent in z includes the "
         "dead time (poles at z = 0) but not the computation delay; the w-plane model is the "
         "bilinear image w = (2/T)(z − 1)/(z + 1), its roots in rad/s of ν.", d->plant);
@@ -126,6 +134,13 @@ section_plant (LwReport *r, const LwDesign *d, const RVar *v0)
               "plant by up to %.2g relative, so they are not the plant and must not be used "
               "for implementation. Every margin, response and figure in this report is "
               "computed from the plant's own response, not from these factors.", form_error);
+}
+
+static void
+section_plant (LwReport *r, const LwDesign *d, const RVar *v0)
+{
+  lwr_heading (r, 2, "plant", "Plant and sampling");
+  plant_model (r, d, v0);
   TableFill t = lwr_table_begin (r, "sampling", NULL, 2, (const char *const[]) { "item", "value" });
   lwr_cellf (&t, "sample period T");
   lwr_cellf (&t, "%.6g s (%.6g Hz)", d->period_s, 1.0 / d->period_s);
@@ -154,7 +169,6 @@ section_variant (LwReport *r, const LwDesign *d, const RVar *rv, size_t k)
 {
   const LwDesignVariant *v = rv->v;
   const LwEvaluation *ev = rv->ev;
-  const LwMargins *m = &ev->margins;
   g_autofree char *id = g_strdup_printf ("variant-%zu", k + 1);
   g_autofree char *title = g_strdup_printf ("Variant “%s”", v->name);
   lwr_heading (r, 2, id, title);
@@ -245,8 +259,11 @@ section_variant (LwReport *r, const LwDesign *d, const RVar *rv, size_t k)
     lwr_para (r, "The design states no requirements.");
   else
     {
-      TableFill t = lwr_table_begin (r, "requirements", v->name, 4,
-                                 (const char *const[]) { "requirement", "target", "achieved", "result" });
+      /* with a measurement, a column says what each verdict was judged on */
+      bool on = d->measured != NULL;
+      TableFill t = lwr_table_begin (r, "requirements", v->name, on ? 5 : 4,
+                                 (const char *const[]) { "requirement", "target", "achieved",
+                                                         "result", "judged on" });
       for (size_t i = 0; i < d->n_requirements; i++)
         {
           const LwDesignRequirement *q = &d->requirements[i];
@@ -263,14 +280,31 @@ section_variant (LwReport *r, const LwDesign *d, const RVar *rv, size_t k)
             }
           lwr_cellf (&t, "%s", res->status == LW_REQ_PASS ? "pass"
                            : res->status == LW_REQ_FAIL ? "FAIL" : "not available");
+          if (on)
+            lwr_cellf (&t, "%s", d->measured_analysis == LW_DESIGN_ANALYSIS_DATA
+                                   && lw_req_kind_from_frequency_response (q->req.kind)
+                                 ? "measured data" : rv->ev != NULL ? "model" : "model (none)");
         }
       lwr_table_end (&t);
       lwr_para (r, "%zu of %zu requirement(s) pass.", d->n_requirements - (size_t) rv->failing,
             d->n_requirements);
     }
 
-  lwr_heading (r, 3, NULL, "Margins");
+  lwr_measured_variant (r, d, rv);
+  if (ev == NULL)
+    {
+      lwr_heading (r, 3, NULL, "Margins of the model");
+      lwr_para (r, "Not available without a plant model: the closed-loop poles and stability, "
+                "the step and disturbance responses and the performance indices need one.");
+      return;
+    }
+  lwr_heading (r, 3, NULL, d->measured != NULL ? "Margins of the model" : "Margins");
+  if (d->measured != NULL)
+    lwr_para (r, "The model's loop, over its own frequency grid up to π/T; the closed-loop "
+              "poles (stability), the responses below and the implementation's figures are "
+              "the model's alone: measured data cannot give them.");
   {
+    const LwMargins *m = &ev->margins;
     TableFill t = lwr_table_begin (r, "margins", v->name, 3,
                                (const char *const[]) { "figure", "value", "at (rad/s)" });
     lwr_cellf (&t, "phase margin (deg)");
@@ -296,6 +330,7 @@ section_variant (LwReport *r, const LwDesign *d, const RVar *rv, size_t k)
     lwr_cell_take (&t, g_strdup (""), false);
     lwr_table_end (&t);
   }
+  const LwMargins *m = &ev->margins;
   if (m->n_gain_crossovers > 1 || m->n_phase_crossovers > 1)
     {
       GString *s = g_string_new ("Every crossover up to π/T: gain crossovers (phase margin)");
@@ -379,6 +414,7 @@ lw_report_build (const char *path, const LwDesign *d, const size_t *which, size_
 
   section_design (r, path, d, n);
   section_plant (r, d, &rv[0]);
+  lwr_section_measured (r, d, &rv[0]);
   for (size_t k = 0; k < n; k++)
     section_variant (r, d, &rv[k], k);
   ok = lwr_add_figures (r, d, rv, n, error);

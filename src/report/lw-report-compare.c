@@ -9,6 +9,7 @@
 #include <string.h>
 
 #include "lw-figure-data.h"
+#include "lw-figure-measured.h"
 #include "lw-report-private.h"
 
 /* A variant's responses (lw-design.h) are passed to the figure as they are (lw-figure-data.h):
@@ -29,13 +30,23 @@ lwr_add_figures (LwReport *r, const LwDesign *d, RVar *rv, size_t n, GError **er
         "same renderer as `loopwright-cli plot`.");
   LwFigureVariant fv[LW_PLOT_MAX_VARIANTS];
   LwPlotVariant pv[LW_PLOT_MAX_VARIANTS];
-  size_t filled = 0;
+  size_t filled = 0, n_model = 0;
   gboolean ok = TRUE;
   LwError err;
   lw_error_clear (&err);
+  /* the measured data, closed by the loop of the active variant when it is reported (else
+   * the first), after the variants in the frequency figures, as the window draws them */
+  const RVar *with_data = &rv[0];
+  for (size_t k = 0; k < n; k++)
+    if ((size_t) (rv[k].v - d->variants) == d->active)
+      with_data = &rv[k];
+  LwFigureMeasured fm;
+  bool has_fm = false;
   for (; filled < n; filled++)
     {
-      if (lw_figure_variant_fill (&fv[filled], rv[filled].v->name, rv[filled].e->sampled,
+      if (rv[filled].ev == NULL)
+        continue;   /* no model loop: only its data are drawn */
+      if (lw_figure_variant_fill (&fv[n_model], rv[filled].v->name, rv[filled].e->sampled,
                                   rv[filled].ev, &err) != LW_OK)
         {
           g_set_error (error, LW_REPORT_ERROR, LW_REPORT_ERROR_FAILED,
@@ -43,22 +54,42 @@ lwr_add_figures (LwReport *r, const LwDesign *d, RVar *rv, size_t n, GError **er
           ok = FALSE;
           goto out;
         }
-      pv[filled] = fv[filled].v;
+      pv[n_model] = fv[n_model].v;
       /* a variant keeps the colour of its place in the document, as in the window; one
        * variant alone has the first colour */
-      pv[filled].style = n > 1 ? (unsigned) ((size_t) (rv[filled].v - d->variants)
-                                             % LW_PLOT_MAX_VARIANTS) + 1
-                               : 0;
+      pv[n_model].style = n > 1 ? (unsigned) ((size_t) (rv[filled].v - d->variants)
+                                              % LW_PLOT_MAX_VARIANTS) + 1
+                                : 0;
       /* the continuous output between samples and the actuator signal, from the simulation */
-      lw_figure_variant_set_responses (&fv[filled], rv[filled].ref, &rv[filled].e->sim_options,
+      lw_figure_variant_set_responses (&fv[n_model], rv[filled].ref, &rv[filled].e->sim_options,
                                        NULL, NULL, rv[filled].e->responses);
-      pv[filled].step = fv[filled].v.step;
+      pv[n_model].step = fv[n_model].v.step;
+      n_model++;
     }
+  const LwVariantEval *de = with_data->e;
+  if (de->measured != NULL && n_model < LW_PLOT_MAX_VARIANTS)
+    {
+      lw_figure_measured_fill (&fm, de->measured, de->measured_kind, de->measured_coherence,
+                               de->period_s);
+      has_fm = true;
+      pv[n_model] = fm.variant;
+      pv[n_model].style = lw_figure_measured_style (pv, n_model);
+      lwr_para (r, "The measured response is drawn in the frequency figures as well: the "
+                "loop of “%s” closed on the data, a curve of its own%s; the step response is "
+                "the model's alone.", with_data->v->name,
+                de->measured_coherence != NULL ? ", faded where the coherence is below 0.8"
+                                               : "");
+    }
+  else if (d->measured != NULL)
+    lwr_para (r, "The measured response is not drawn in the figures: %s.",
+              de->measured == NULL ? "it cannot be used at the variant's period"
+                                   : "the figure holds six curves and the variants take them");
   /* the design's requirement marks, as the window and `plot` draw them */
+  double period_s = rv[0].e->period_s;
   LwPlotRequirements marks;
-  lw_figure_requirements (&marks, rv[0].ev->period_s, false, 0.0, false, 0.0);
+  lw_figure_requirements (&marks, period_s, false, 0.0, false, 0.0);
   for (size_t i = 0; i < d->n_requirements; i++)
-    lw_figure_requirements_add (&marks, rv[0].ev->period_s, &d->requirements[i].req);
+    lw_figure_requirements_add (&marks, period_s, &d->requirements[i].req);
   static const struct { LwPlotView view; const char *caption; double h; } figs[] = {
     { LW_PLOT_VIEW_BODE_Z, "Bode diagram of the loop L in z, up to the Nyquist frequency π/T", FIG_H },
     { LW_PLOT_VIEW_BODE_W, "Bode diagram of the loop in the w-plane (over ν), with straight-line asymptotes", FIG_H },
@@ -67,10 +98,13 @@ lwr_add_figures (LwReport *r, const LwDesign *d, RVar *rv, size_t n, GError **er
   };
   for (size_t f = 0; f < G_N_ELEMENTS (figs); f++)
     {
+      bool data = has_fm && lw_figure_measured_view_ok (figs[f].view);
+      if (n_model + data == 0)
+        continue;   /* a model's view without a model */
       LwPlotInput in = { 0 };
       in.view = figs[f].view;
-      in.nyquist_rad_s = G_PI / rv[0].ev->period_s;
-      in.n_variants = n;
+      in.nyquist_rad_s = G_PI / period_s;
+      in.n_variants = n_model + data;
       in.variants = pv;
       in.req = marks;
       in.input_unit = rv[0].e->input_unit;
@@ -91,8 +125,10 @@ lwr_add_figures (LwReport *r, const LwDesign *d, RVar *rv, size_t n, GError **er
       b->fig_height = figs[f].h;
     }
 out:
-  for (size_t i = 0; i < filled; i++)
+  for (size_t i = 0; i < n_model; i++)
     lw_figure_variant_clear (&fv[i]);
+  if (has_fm)
+    lw_figure_measured_clear (&fm);
   return ok;
 }
 
@@ -104,10 +140,31 @@ typedef struct
   int better;          /* +1 higher is better, −1 lower is better, 0 neither */
 } Metric;
 
+/* the rows of the model (metrics below); the four after them are the data's */
+#define N_MODEL_METRICS 15
+
 /* The value of metric i for variant rv (has false when there is none). */
 static double
 metric_value (size_t i, const RVar *rv, bool *has)
 {
+  const LwMeasuredLoop *ml = rv->e->measured;
+  if (i >= N_MODEL_METRICS)
+    {
+      /* the loop on the measured data: the governing margins, NAN when the data hold none */
+      const LwMeasuredMargins *mm = ml != NULL ? &ml->margins : NULL;
+      double v = mm == NULL ? NAN
+                 : i == N_MODEL_METRICS ? mm->phase_margin_deg
+                 : i == N_MODEL_METRICS + 1 ? mm->gain_crossover_rad_s
+                 : i == N_MODEL_METRICS + 2 ? mm->gain_margin_db
+                 : mm->sensitivity_peak;
+      *has = isfinite (v);
+      return v;
+    }
+  if (rv->ev == NULL)
+    {
+      *has = false;   /* no model */
+      return NAN;
+    }
   const LwMargins *m = &rv->ev->margins;
   const LwStep *s = &rv->ev->step;
   *has = true;
@@ -148,7 +205,13 @@ static const Metric metrics[] = {
   { "control effort, reference step", -1 },
   { "peak actuator |u|", -1 },
   { "IAE, input disturbance", -1 },
+  /* with a measured response: the same figures of the loop on the data */
+  { "phase margin on the data (deg)", +1 },
+  { "gain crossover on the data (rad/s)", +1 },
+  { "gain margin on the data (dB)", +1 },
+  { "sensitivity peak on the data", -1 },
 };
+G_STATIC_ASSERT (G_N_ELEMENTS (metrics) == N_MODEL_METRICS + 4);
 
 void
 lwr_add_comparison (LwReport *r, const LwDesign *d, const RVar *rv, size_t n)
@@ -164,7 +227,8 @@ lwr_add_comparison (LwReport *r, const LwDesign *d, const RVar *rv, size_t n)
     header[k + 1] = rv[k].v->name;
   TableFill t = lwr_table_begin (r, "comparison", NULL, n + 1, header);
   g_free (header);
-  for (size_t i = 0; i < G_N_ELEMENTS (metrics); i++)
+  size_t rows = d->measured != NULL ? G_N_ELEMENTS (metrics) : N_MODEL_METRICS;
+  for (size_t i = 0; i < rows; i++)
     {
       double val[LW_PLOT_MAX_VARIANTS];
       bool has[LW_PLOT_MAX_VARIANTS];

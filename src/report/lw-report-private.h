@@ -64,4 +64,9 @@ char *lwr_complex_text (double complex z);
 gboolean lwr_add_figures (LwReport *r, const LwDesign *d, RVar *rv, size_t n, GError **error);
 void lwr_add_comparison (LwReport *r, const LwDesign *d, const RVar *rv, size_t n);
 
+/* the measured response (lw-report-measured.c; nothing when the design holds none): its
+ * section after the plant's, and each variant's margins on it */
+void lwr_section_measured (LwReport *r, const LwDesign *d, const RVar *v0);
+void lwr_measured_variant (LwReport *r, const LwDesign *d, const RVar *rv);
+
 G_END_DECLS
