@@ -283,7 +283,8 @@ static const char analyze_help[] =
   "Usage: " LW_CLI_PROG " analyze --plant EXPR --period SECONDS [options]\n"
   "       " LW_CLI_PROG " analyze --measured FILE.csv --measured-kind KIND\n"
   "       --period SECONDS [options]\n"
-  "       " LW_CLI_PROG " analyze FILE.lwd [--variant NAME | --all-variants] [options]\n"
+  "       " LW_CLI_PROG " analyze FILE.lwd [--variant NAME | --all-variants]\n"
+  "       [--measured FILE.csv --measured-kind KIND] [options]\n"
   "\n"
   "Discretizes a continuous plant with a zero-order hold, closes the loop through a\n"
   "controller and reports crossovers, margins, closed-loop poles, the step response and\n"
@@ -292,7 +293,8 @@ static const char analyze_help[] =
   "\n"
   "Given a design document (FILE.lwd), the plant, sampling and controller (the stages of\n"
   "the active variant, or of --variant NAME) come from it, and its requirements are\n"
-  "checked too; the loop options below are then not accepted.\n"
+  "checked too; the loop options below are then not accepted. --measured with a document\n"
+  "takes the place of the measurement it holds, judged on as analysis=\"data\".\n"
   "\n"
   "Options:\n"
   "  --variant NAME           the variant of FILE.lwd to analyze (default: the active one)\n"
@@ -612,14 +614,8 @@ analyze_run (void *data)
                         "needs a model; measured data are one machine");
       return LW_EXIT_BAD_INPUT;
     }
-  if (a->measured.file != NULL)
+  if (a->measured.file != NULL && (a->files == NULL || a->files[0] == NULL))
     {
-      if (a->files != NULL && a->files[0] != NULL)
-        {
-          lw_cli_bad_input ("--measured", "is taken with the loop options, not with a design "
-                            "document");
-          return LW_EXIT_BAD_INPUT;
-        }
       const char *model_only = model_only_option (a);
       if (model_only != NULL)
         {
@@ -682,6 +678,10 @@ analyze_run (void *data)
     }
   g_autoptr (LwDesign) design = NULL;
   status = lw_cli_doc_load (a->files[0], &design);
+  if (status != LW_EXIT_OK)
+    return status;
+  /* a measurement given here takes the place of the document's, judged on as check does */
+  status = lw_cli_measured_doc_set (design, &a->measured, LW_DESIGN_ANALYSIS_DATA);
   if (status != LW_EXIT_OK)
     return status;
   g_autofree size_t *which = NULL;
