@@ -129,16 +129,6 @@ lw_cli_measured_doc_header (const LwDesign *d, const char *given)
     printf ("  not judged on (analysis=\"model\"): every requirement is the model's\n");
 }
 
-/* The crossing of list c at omega (the governing one), or NULL. */
-static const LwMeasuredCrossing *
-crossing_at (const LwMeasuredCrossing *c, size_t n, double omega)
-{
-  for (size_t i = 0; i < n; i++)
-    if (c[i].omega_rad_s == omega)
-      return &c[i];
-  return NULL;
-}
-
 static void
 print_margin (const char *what, double value, const char *unit, const LwMeasuredCrossing *c)
 {
@@ -168,9 +158,9 @@ lw_cli_measured_doc_check_lines (const LwDesign *d, const LwVariantEval *e)
   printf ("  on the measured data (L = z^-%d C(z) P on %zu points, found between them):\n",
           e->compute_delay, e->measured->n);
   print_margin ("phase margin", mm->phase_margin_deg, "deg",
-                crossing_at (mm->gain, mm->n_gain, mm->gain_crossover_rad_s));
+                lw_engine_measured_governing (mm, TRUE));
   print_margin ("gain margin", mm->gain_margin_db, "dB",
-                crossing_at (mm->phase, mm->n_phase, mm->phase_crossover_rad_s));
+                lw_engine_measured_governing (mm, FALSE));
   size_t low = 0;
   for (size_t i = 0; i < mm->n_gain + mm->n_phase; i++)
     low += (i < mm->n_gain ? mm->gain[i] : mm->phase[i - mm->n_gain]).low_coherence;
@@ -180,10 +170,5 @@ lw_cli_measured_doc_check_lines (const LwDesign *d, const LwVariantEval *e)
             LW_MEASURED_LOW_COHERENCE);
   printf ("    %-16s %.4g at %.6g rad/s (the largest at a measured point)\n",
           "sensitivity peak", mm->sensitivity_peak, mm->sensitivity_peak_rad_s);
-  if (mm->crossover_above_data)
-    printf ("    caution: |L| >= 1 at the highest measured frequency: a gain crossover lies "
-            "above the data (the phase margin and crossover are not available)\n");
-  if (mm->crossover_below_data)
-    printf ("    caution: |L| < 1 at the lowest measured frequency: a gain crossover may lie "
-            "below the data\n");
+  lw_cli_measured_print_cautions (mm, "    ");
 }

@@ -178,6 +178,17 @@ crossing_flags (const LwMeasuredCrossing *c)
   return c->within_noise ? "  (within noise)" : "";
 }
 
+void
+lw_cli_measured_print_cautions (const LwMeasuredMargins *mm, const char *indent)
+{
+  if (mm->crossover_above_data)
+    printf ("%scaution: |L| >= 1 at the highest measured frequency: a gain crossover lies above "
+            "the data\n", indent);
+  if (mm->crossover_below_data)
+    printf ("%scaution: |L| < 1 at the lowest measured frequency: a gain crossover may lie "
+            "below the data\n", indent);
+}
+
 /* The text section of the loop on the data; label names the data (a file, a document's
  * <measured>); closing: the last line saying what needs a model. */
 void
@@ -228,12 +239,7 @@ lw_cli_measured_print (const LwCliMeasuredLoop *ml, const char *label, gboolean 
             mm->delay_margin_s / T);
   printf ("  %-24s %.4g at %.6g rad/s (the largest at a measured point)\n", "sensitivity peak",
           mm->sensitivity_peak, mm->sensitivity_peak_rad_s);
-  if (mm->crossover_above_data)
-    printf ("  caution: |L| >= 1 at the highest measured frequency: a gain crossover lies above "
-            "the data\n");
-  if (mm->crossover_below_data)
-    printf ("  caution: |L| < 1 at the lowest measured frequency: a gain crossover may lie "
-            "below the data\n");
+  lw_cli_measured_print_cautions (mm, "  ");
   const LwMeasuredStability *st = &ml->loop.stability;
   printf ("\nStability on the data (Nyquist criterion, %d open-loop unstable pole%s given): "
           "%s\n  %s\n", st->open_loop_unstable, st->open_loop_unstable == 1 ? "" : "s",

@@ -83,6 +83,10 @@ void lw_cli_measured_loop_clear (LwCliMeasuredLoop *ml);
  * line on what needs a model (when there is none). */
 void lw_cli_measured_print (const LwCliMeasuredLoop *ml, const char *label, gboolean closing);
 
+/* The cautions where the data may hide a gain crossover (above or below them), each line
+ * after indent. */
+void lw_cli_measured_print_cautions (const LwMeasuredMargins *mm, const char *indent);
+
 /* The JSON "measured" object (file: where the table was read) and the loop block with the
  * keys of a model's (lw_cli_json_add_loop), each as one value of b. */
 void lw_cli_measured_json (JsonBuilder *b, const LwCliMeasuredLoop *ml, const char *file);

@@ -534,6 +534,18 @@ static LwVariantEval *evaluate_on_data_alone (EvalPrivate *p, const LwDesign *d,
 static void close_on_data (LwVariantEval *e, const LwDesign *d);
 static void judge (LwVariantEval *e, const LwDesign *d);
 
+const LwMeasuredCrossing *
+lw_engine_measured_governing (const LwMeasuredMargins *m, gboolean gain)
+{
+  const LwMeasuredCrossing *c = gain ? m->gain : m->phase;
+  size_t n = gain ? m->n_gain : m->n_phase;
+  double omega = gain ? m->gain_crossover_rad_s : m->phase_crossover_rad_s;
+  for (size_t i = 0; i < n; i++)
+    if (c[i].omega_rad_s == omega)
+      return &c[i];
+  return NULL;
+}
+
 LwVariantEval *
 lw_engine_evaluate_variant (const LwDesign *d, size_t variant, const LwEngineOptions *opts,
                             LwPlantCache *cache)

@@ -215,6 +215,12 @@ typedef struct
 
 LwVariantEval *lw_engine_evaluate_loop (const LwEngineLoop *loop, const LwEngineOptions *opts);
 
+/* The crossing that governs the phase margin (gain: TRUE; the gain crossover of
+ * m->gain_crossover_rad_s) or the gain margin (FALSE) of the loop on the data, so its interval
+ * and coherence can be shown with it; NULL when the data hold none. */
+const LwMeasuredCrossing *lw_engine_measured_governing (const LwMeasuredMargins *m,
+                                                        gboolean gain);
+
 /* TRUE when e evaluated, else FALSE with a copy of its error in *error. */
 gboolean lw_variant_eval_ok (const LwVariantEval *e, GError **error);
 

@@ -97,15 +97,6 @@ crossing_row (TableFill *t, const char *figure, const LwMeasuredCrossing *c, boo
   lwr_cellf (t, "%s", c == NULL || !coherence ? "" : c->low_coherence ? "LOW (< 0.8)" : "ok");
 }
 
-static const LwMeasuredCrossing *
-governing (const LwMeasuredCrossing *c, size_t n, double omega)
-{
-  for (size_t i = 0; i < n; i++)
-    if (c[i].omega_rad_s == omega)
-      return &c[i];
-  return NULL;
-}
-
 void
 lwr_measured_variant (LwReport *r, const LwDesign *d, const RVar *rv)
 {
@@ -126,10 +117,8 @@ lwr_measured_variant (LwReport *r, const LwDesign *d, const RVar *rv)
                                  (const char *const[]) { "figure", "value", "at (rad/s)",
                                                          "between the points (rad/s)",
                                                          "coherence" });
-  crossing_row (&t, "phase margin (deg)", governing (mm->gain, mm->n_gain,
-                                                     mm->gain_crossover_rad_s), coh);
-  crossing_row (&t, "gain margin (dB)", governing (mm->phase, mm->n_phase,
-                                                   mm->phase_crossover_rad_s), coh);
+  crossing_row (&t, "phase margin (deg)", lw_engine_measured_governing (mm, TRUE), coh);
+  crossing_row (&t, "gain margin (dB)", lw_engine_measured_governing (mm, FALSE), coh);
   for (size_t i = 0; i < mm->n_gain + mm->n_phase; i++)
     {
       bool gain = i < mm->n_gain;

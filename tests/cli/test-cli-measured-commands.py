@@ -43,7 +43,6 @@ What is checked, and against what:
 Usage: test-cli-measured-commands.py CLI
 """
 import html.parser
-import json
 import math
 import os
 import re
@@ -54,6 +53,8 @@ import tempfile
 
 import numpy as np
 from scipy import signal
+
+from lwcli import FAILS, check, json_of, run, write_csv
 
 PLANT = '180*40000/(s*(s+12)*(s^2+40*s+40000))'
 NUM = [180 * 40000]
@@ -68,34 +69,6 @@ REQS = ('<requirements>\n    <phase-margin min_deg="45"/>\n    <gain-margin min_
         '    <overshoot max_pct="40"/>\n  </requirements>\n  ')
 # the second style of the renderer (the data after one variant): its colour in cairo's SVG
 DATA_COLOUR = 'stroke:rgb(83.529412%,36.862745%,0%)'
-FAILS = []
-
-
-def check(ok, what):
-    if not ok:
-        FAILS.append(what)
-        print('FAIL:', what)
-
-
-def run(cli, *args):
-    return subprocess.run([cli, *args], capture_output=True, text=True, timeout=120)
-
-
-def json_of(cli, *args):
-    r = run(cli, *args)
-    if r.returncode != 0:
-        print(r.stderr)
-        sys.exit('failed: %s' % ' '.join(args))
-    return json.loads(r.stdout)
-
-
-def write_csv(path, w, h, coherence=None):
-    with open(path, 'w') as f:
-        f.write('# made by test-cli-measured-commands.py with scipy\n')
-        f.write('frequency_rad_s,real,imag%s\n' % (',coherence' if coherence else ''))
-        for i, (wi, hi) in enumerate(zip(w, h)):
-            f.write('%.17g,%.17g,%.17g%s\n' % (wi, hi.real, hi.imag,
-                                               ',%.3g' % coherence[i] if coherence else ''))
 
 
 def make_doc(cli, path, extra=()):

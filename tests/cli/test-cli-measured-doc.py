@@ -18,52 +18,24 @@ sampled kind by scipy.signal.cont2discrete + freqz), written as CSV with 17 sign
 
 Usage: test-cli-measured-doc.py CLI
 """
-import json
 import math
 import os
 import re
-import subprocess
 import sys
 import tempfile
 
 import numpy as np
 from scipy import signal
 
+from lwcli import FAILS, check, json_of, run, write_csv
+
 PLANT = '180*40000/(s*(s+12)*(s^2+40*s+40000))'
 NUM = [180 * 40000]
 DEN = np.polymul([1, 12, 0], [1, 40, 40000])
 T = 0.002
 DEAD = '0.0013'
-FAILS = []
 # members of the measured object that name where the data came from, not the numbers
 NAMING = {'file', 'note', 'source', 'analysis', 'open_loop_unstable_poles'}
-
-
-def check(ok, what):
-    if not ok:
-        FAILS.append(what)
-        print('FAIL:', what)
-
-
-def run(cli, *args):
-    return subprocess.run([cli, *args], capture_output=True, text=True)
-
-
-def json_of(cli, *args):
-    r = run(cli, *args)
-    if r.returncode != 0:
-        print(r.stderr)
-        sys.exit('failed: %s' % ' '.join(args))
-    return json.loads(r.stdout)
-
-
-def write_csv(path, w, h, coherence=None):
-    with open(path, 'w') as f:
-        f.write('# made by test-cli-measured-doc.py with scipy\n')
-        f.write('frequency_rad_s,real,imag%s\n' % (',coherence' if coherence else ''))
-        for i, (wi, hi) in enumerate(zip(w, h)):
-            f.write('%.17g,%.17g,%.17g%s\n' % (wi, hi.real, hi.imag,
-                                               ',%.17g' % coherence[i] if coherence else ''))
 
 
 def table_of(lwd):
