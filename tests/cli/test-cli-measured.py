@@ -19,29 +19,19 @@ import json
 import math
 import os
 import re
-import subprocess
 import sys
 import tempfile
 
 import numpy as np
 from scipy import signal
 
+from lwcli import FAILS, check, run
+
 PLANT = '180*40000/(s*(s+12)*(s^2+40*s+40000))'
 NUM = [180 * 40000]
 DEN = np.polymul([1, 12, 0], [1, 40, 40000])
 CTRL = '3.4*(1+w/15)/(1+w/110)'
 T = 0.002
-FAILS = []
-
-
-def check(ok, what):
-    if not ok:
-        FAILS.append(what)
-        print('FAIL:', what)
-
-
-def run(cli, *args):
-    return subprocess.run([cli, *args], capture_output=True, text=True)
 
 
 def analyze(cli, *args):
