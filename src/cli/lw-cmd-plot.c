@@ -492,6 +492,13 @@ plot_run_document (const PlotArgs *a)
   LwFigureMeasured fig;
   gboolean has_fig = FALSE;
   status = plot_doc_measured (path, d, e[with_data], &spec, n_model, &fig, &has_fig);
+  if (status == LW_EXIT_OK && n_model == 0 && !has_fig)
+    {
+      lw_cli_bad_input ("--view", "%s is a model's (time responses or poles) and the design "
+                        "has no plant model; measured data draw in the frequency views",
+                        a->view);
+      status = LW_EXIT_BAD_INPUT;
+    }
   if (status == LW_EXIT_OK)
     status = plot_write (&spec, src, n_model, has_fig ? &fig.variant : NULL,
                          e[with_data]->period_s);
