@@ -124,7 +124,8 @@ lw_cli_measured_doc_header (const LwDesign *d, const char *given)
           shown != NULL ? ", given by --measured in place of the document's" : "");
   if (d->measured_analysis == LW_DESIGN_ANALYSIS_DATA)
     printf ("  judged on the data (analysis=\"data\"): the phase margin, gain margin, crossover "
-            "and sensitivity requirements (marked \"on data\"); the others on the model\n");
+            "and sensitivity requirements (marked \"on data\"); the others %s\n",
+            lw_design_has_model (d) ? "on the model" : "need a plant model (the design has none)");
   else
     printf ("  not judged on (analysis=\"model\"): every requirement is the model's\n");
 }

@@ -475,7 +475,8 @@ plot_run_document (const PlotArgs *a)
   size_t built = 0, n_model = 0, with_data = 0;
   for (; built < n; built++)
     {
-      status = lw_cli_doc_evaluate (path, d, which[built], &eo, FALSE, &e[built]);
+      /* a design without a plant model is drawn on its data alone */
+      status = lw_cli_doc_evaluate_data (path, d, which[built], &eo, FALSE, &e[built]);
       if (status != LW_EXIT_OK)
         goto out;
       if (which[built] == d->active)

@@ -42,7 +42,11 @@ rvar_compute (const char *path, const LwDesign *d, size_t index, RVar *r, GError
   r->e = lw_engine_evaluate_variant (d, index, &opts, NULL);
   const LwVariantEval *e = r->e;
   g_autofree char *place = g_strdup_printf ("%s: variant '%s'", path, r->v->name);
-  const GError *failure = e->failure != LW_EVAL_OK ? e->error
+  /* a design without a plant model is reported on its data (LW_EVAL_NO_MODEL: no model loop,
+   * no simulations; the controller, the loop on the data and the requirements are set) */
+  gboolean no_model = e->failure == LW_EVAL_NO_MODEL;
+  const GError *failure = no_model ? NULL
+                          : e->failure != LW_EVAL_OK ? e->error
                           : e->sim_error != NULL ? e->sim_error
                           : !e->has_achieved ? e->achieved_error : NULL;
   if (failure != NULL)
@@ -283,7 +287,7 @@ section_variant (LwReport *r, const LwDesign *d, const RVar *rv, size_t k)
           if (on)
             lwr_cellf (&t, "%s", d->measured_analysis == LW_DESIGN_ANALYSIS_DATA
                                    && lw_req_kind_from_frequency_response (q->req.kind)
-                                 ? "measured data" : rv->ev != NULL ? "model" : "model (none)");
+                                 ? "measured data" : rv->ev != NULL ? "model" : "needs a plant model");
         }
       lwr_table_end (&t);
       lwr_para (r, "%zu of %zu requirement(s) pass.", d->n_requirements - (size_t) rv->failing,

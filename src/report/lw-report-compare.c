@@ -75,10 +75,11 @@ lwr_add_figures (LwReport *r, const LwDesign *d, RVar *rv, size_t n, GError **er
       pv[n_model] = fm.variant;
       pv[n_model].style = lw_figure_measured_style (pv, n_model);
       lwr_para (r, "The measured response is drawn in the frequency figures as well: the "
-                "loop of “%s” closed on the data, a curve of its own%s; the step response is "
-                "the model's alone.", with_data->v->name,
+                "loop of “%s” closed on the data, a curve of its own%s; %s.", with_data->v->name,
                 de->measured_coherence != NULL ? ", faded where the coherence is below 0.8"
-                                               : "");
+                                               : "",
+                n_model > 0 ? "the step response is the model's alone"
+                            : "without a plant model there is no step response");
     }
   else if (d->measured != NULL)
     lwr_para (r, "The measured response is not drawn in the figures: %s.",

@@ -36,7 +36,12 @@ lwr_section_measured (LwReport *r, const LwDesign *d, const RVar *v0)
             "measured point below π/T, its crossovers and margins found between the points "
             "(ln|L| and the unwrapped phase straight in ln ω) and each given with the "
             "interval between the two points it lies in (docs/measured-data.md). %s",
-            data ? "The design's analysis uses the data (analysis=\"data\"): its phase-margin, "
+            v0->ev == NULL
+              ? "The design has no plant model: its phase-margin, gain-margin, crossover and "
+                "sensitivity requirements are judged on the data; the time-domain figures, "
+                "the closed-loop poles and the code's margins after quantization need a "
+                "model and are not available."
+            : data ? "The design's analysis uses the data (analysis=\"data\"): its phase-margin, "
                    "gain-margin, crossover and sensitivity requirements are judged on the "
                    "data; the time-domain figures, the closed-loop poles and the "
                    "implementation's figures are the model's, as the data cannot give them."
