@@ -400,6 +400,7 @@ plot_doc_measured (const char *path, const LwDesign *d, const LwVariantEval *e,
     }
   lw_figure_measured_fill (fig, e->measured, e->measured_kind, e->measured_coherence,
                            e->period_s);
+  fig->variant.name = fig->legend;   /* the legend's slot; the fading is in docs/cli.md */
   *has = TRUE;
   return LW_EXIT_OK;
 }
@@ -531,6 +532,7 @@ plot_run_measured (const PlotArgs *a)
     return status;
   LwFigureMeasured fig;
   lw_figure_measured_fill (&fig, &ml.loop, ml.kind, ml.data->coherence, ml.lp.period_s);
+  fig.variant.name = fig.legend;   /* the legend's slot; the fading is in docs/cli.md */
   LwVariantEval *e = NULL;
   if (ml.has_model)
     {

@@ -23,6 +23,7 @@ lw_figure_measured_clear (LwFigureMeasured *f)
   g_free (f->cross);
   g_free (f->cross_w);
   g_free (f->name);
+  g_free (f->legend);
   memset (f, 0, sizeof *f);
 }
 
@@ -76,9 +77,10 @@ lw_figure_measured_fill (LwFigureMeasured *f, const LwMeasuredLoop *ml, LwMeasur
       f->cross_w[i] = f->cross[i];
       f->cross_w[i].freq_rad_s = lw_warp_omega_to_nu (f->cross[i].freq_rad_s, period_s);
     }
-  f->name = g_strdup_printf ("measured (%s%s)", kind == LW_MEASURED_SAMPLED ? "sampled"
-                                                                          : "continuous",
+  const char *kind_name = kind == LW_MEASURED_SAMPLED ? "sampled" : "continuous";
+  f->name = g_strdup_printf ("measured (%s%s)", kind_name,
                              coherence != NULL ? "; faded: coherence < 0.8" : "");
+  f->legend = g_strdup_printf ("measured (%s)", kind_name);
   LwPlotVariant *v = &f->variant;
   v->name = f->name;
   v->z = (LwPlotFreqCurve) { .n = n, .freq_rad_s = ml->omega_rad_s, .mag_db = f->mag_db,

@@ -11,7 +11,10 @@
 typedef struct
 {
   LwPlotVariant variant;     /* points into the arrays below and the loop's */
-  char *name;
+  char *name;                /* "measured (KIND; faded: coherence < 0.8)": variant.name */
+  char *legend;              /* "measured (KIND)": for a figure's own legend, whose slots of
+                              * LW_PLOT_LEGEND_SLOT do not hold the longer name (the fading
+                              * then said in a caption or note) */
   double *mag_db, *phase_deg, *nu, *re, *im;
   LwPlotCrossover *cross, *cross_w;
 } LwFigureMeasured;

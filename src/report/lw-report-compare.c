@@ -73,6 +73,7 @@ lwr_add_figures (LwReport *r, const LwDesign *d, RVar *rv, size_t n, GError **er
                                de->period_s);
       has_fm = true;
       pv[n_model] = fm.variant;
+      pv[n_model].name = fm.legend;   /* the fading is said in the paragraph below */
       pv[n_model].style = lw_figure_measured_style (pv, n_model);
       lwr_para (r, "The measured response is drawn in the frequency figures as well: the "
                 "loop of “%s” closed on the data, a curve of its own%s; %s.", with_data->v->name,
