@@ -138,9 +138,9 @@ print_margin (const char *what, double value, const char *unit, const LwMeasured
       printf ("    %-16s none in the data\n", what);
       return;
     }
-  printf ("    %-16s %.4g %s at %.6g rad/s (between the points %.6g and %.6g rad/s)%s\n", what,
-          value, unit, c->omega_rad_s, c->lo_rad_s, c->hi_rad_s,
-          c->low_coherence ? " LOW COHERENCE" : "");
+  printf ("    %-16s %.4g %s at %.6g rad/s (between the points %.6g and %.6g rad/s)%s%s\n",
+          what, value, unit, c->omega_rad_s, c->lo_rad_s, c->hi_rad_s,
+          c->low_coherence ? " LOW COHERENCE" : "", c->within_noise ? " WITHIN NOISE" : "");
 }
 
 void
@@ -172,4 +172,8 @@ lw_cli_measured_doc_check_lines (const LwDesign *d, const LwVariantEval *e)
   printf ("    %-16s %.4g at %.6g rad/s (the largest at a measured point)\n",
           "sensitivity peak", mm->sensitivity_peak, mm->sensitivity_peak_rad_s);
   lw_cli_measured_print_cautions (mm, "    ");
+  const LwMeasuredStability *st = &e->measured->stability;
+  printf ("    %-16s %s (Nyquist criterion, %d open-loop unstable pole%s stated): %s\n",
+          "closed loop", lw_measured_verdict_name (st->verdict), st->open_loop_unstable,
+          st->open_loop_unstable == 1 ? "" : "s", st->note);
 }

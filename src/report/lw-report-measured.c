@@ -99,7 +99,9 @@ crossing_row (TableFill *t, const char *figure, const LwMeasuredCrossing *c, boo
     lwr_cellf (t, "none in the data");
   else
     lwr_cellf (t, "%.6g … %.6g", c->lo_rad_s, c->hi_rad_s);
-  lwr_cellf (t, "%s", c == NULL || !coherence ? "" : c->low_coherence ? "LOW (< 0.8)" : "ok");
+  lwr_cellf (t, "%s%s", c == NULL || !coherence ? "" : c->low_coherence ? "LOW (< 0.8)" : "ok",
+             c != NULL && c->within_noise ? (coherence ? "; within noise" : "within noise")
+                                          : "");
 }
 
 void
@@ -150,10 +152,21 @@ lwr_measured_variant (LwReport *r, const LwDesign *d, const RVar *rv)
   lwr_cellf (&t, "%s", mm->crossover_below_data ? "YES" : "no");
   for (int k = 0; k < 3; k++)
     lwr_cellf (&t, "%s", "");
+  const LwMeasuredStability *st = &e->measured->stability;
+  lwr_cellf (&t, "closed loop on the data (Nyquist criterion)");
+  lwr_cellf (&t, "%s", st->verdict == LW_MEASURED_STABLE ? "stable"
+                       : st->verdict == LW_MEASURED_UNSTABLE ? "UNSTABLE" : "undecided");
+  if (st->verdict == LW_MEASURED_UNDECIDED)
+    lwr_cellf (&t, "%s", "");
+  else
+    lwr_cellf (&t, "%d unstable closed-loop pole(s)", st->closed_loop_unstable);
+  lwr_cellf (&t, "%d open-loop unstable pole(s) stated", st->open_loop_unstable);
+  lwr_cellf (&t, "%s", "");
   lwr_table_end (&t);
-  lwr_para (r, "%s A crossover next to a point of coherence below %.1f is marked LOW; one "
-            "outside the data is flagged, never hidden. Stability needs a model: the data "
-            "alone do not tell it.",
+  lwr_para (r, "Stability on the data: %s", st->note);
+  lwr_para (r, "%s A crossover next to a point of coherence below %.1f is marked LOW, one "
+            "whose interval was widened by the noise “within noise”; one outside the data is "
+            "flagged, never hidden.",
             d->measured_analysis == LW_DESIGN_ANALYSIS_DATA
               ? "The requirements judged on the data (above) take these numbers."
               : "Shown beside the model's; the requirements are the model's (analysis=\"model\").",

@@ -36,8 +36,9 @@ What is checked, and against what:
 3. report: the HTML names the data (section "measured", its source and kind), its requirement
    table says what each verdict was judged on, the table "measured-margins" lists every
    crossover of analyze --json's measured object with its interval and low-coherence flag
-   (6 significant digits, as the report prints: relative 5e-6), the flags crossover above /
-   below the data; the Bode figure draws the data; report --measured does the same for a
+   (6 significant digits, as the report prints: relative 5e-6), its low-coherence and
+   within-noise flags, the flags crossover above / below the data, the stability verdict on the
+   data; the Bode figure draws the data; report --measured does the same for a
    document without data.
 4. A design on the measured data alone (no plant model): check judges on the data (exit 3:
    the phase margin fails or, the data's own stability undecided, is not available; the
@@ -172,6 +173,7 @@ def check_report(cli, doc, html_path, extra, source):
         margins = ref['phase_margins_deg' if kind == 'gain' else 'gain_margins_db']
         intervals = ref['%s_crossover_intervals_rad_s' % kind]
         low = ref['%s_crossover_low_coherence' % kind]
+        noise = ref['%s_crossover_within_noise' % kind]
         for i, w in enumerate(ws):
             row = listed.get((kind, i))
             check(row is not None, 'report lists %s crossover %d' % (kind, i + 1))
@@ -182,11 +184,16 @@ def check_report(cli, doc, html_path, extra, source):
                   and close6(lo, intervals[i][0]) and close6(hi, intervals[i][1]),
                   'report %s crossover %d: %s vs %s %s %s' % (kind, i + 1, row, w, margins[i],
                                                               intervals[i]))
-            check(row[4] == ('LOW (< 0.8)' if low[i] else 'ok'),
-                  'report %s crossover %d coherence flag %s vs %s' % (kind, i + 1, row[4], low[i]))
+            flag = ('LOW (< 0.8)' if low[i] else 'ok') + ('; within noise' if noise[i] else '')
+            check(row[4] == flag, 'report %s crossover %d coherence flags %s vs %s, %s'
+                  % (kind, i + 1, row[4], low[i], noise[i]))
     check(len(listed) == len(ref['gain_crossovers_rad_s']) + len(ref['phase_crossovers_rad_s']),
           'report lists every crossover of the data once (%d)' % len(listed))
     flags = dict((row[0].split(' (')[0], row[1]) for row in rows)
+    check(flags.get('closed loop on the data') == {'stable': 'stable', 'unstable': 'UNSTABLE',
+                                                   'undecided': 'undecided'}[ref['stability']],
+          'report: the stability on the data %s vs %s' % (flags.get('closed loop on the data'),
+                                                         ref['stability']))
     check(flags.get('gain crossover above the data') == ('YES' if ref['crossover_above_data']
                                                           else 'no')
           and flags.get('gain crossover below the data') == ('YES' if ref['crossover_below_data']
@@ -398,6 +405,7 @@ def main():
         page = page_of(html_path)
         text = open(html_path, encoding='utf-8').read()
         judged = dict((row[0], row[4]) for row in page.table('requirements'))
+        print('report of the data alone, judged on: %s' % judged)
         check('measured' in page.sections and 'figure-step' not in text
               and text.count('<svg') == 3 and judged.get('overshoot') == 'needs a plant model'
               and judged.get('phase-margin') == 'measured data',
