@@ -21,36 +21,20 @@ corner).
 
 Usage: test-cli-family.py CLI
 """
-import json
 import math
-import subprocess
+import os
 import sys
 
 import numpy as np
 from scipy import optimize, signal
 
+sys.path.insert(0, os.path.dirname(os.path.abspath(__file__)))
+from lwcli import FAILS, check, json_of, run  # noqa: E402
+
 T = 0.002
 CTL = '(1+w/80)/(1+w/20)*(1+w/50)/(1+w/500)'
 K_RANGE = (800.0, 6400.0)
 A_RANGE = (9.0, 14.0)
-FAILS = []
-
-
-def check(ok, what):
-    if not ok:
-        FAILS.append(what)
-        print('FAIL:', what)
-
-
-def run(cli, *args):
-    return subprocess.run([cli, *args], capture_output=True, text=True)
-
-
-def json_of(cli, *args):
-    r = run(cli, *args)
-    if r.returncode != 0:
-        sys.exit('failed: %s: %s' % (' '.join(args), r.stderr))
-    return json.loads(r.stdout)
 
 
 # the controller in z, once: C(w) with w = (2/T)(z-1)/(z+1)

@@ -14,30 +14,12 @@
 
 Usage: test-cli-params.py CLI
 """
-import json
 import os
-import subprocess
 import sys
 import tempfile
 
-FAILS = []
-
-
-def check(ok, what):
-    if not ok:
-        FAILS.append(what)
-        print('FAIL:', what)
-
-
-def run(cli, *args):
-    return subprocess.run([cli, *args], capture_output=True, text=True)
-
-
-def json_of(cli, *args):
-    r = run(cli, *args)
-    if r.returncode != 0:
-        sys.exit('failed: %s: %s' % (' '.join(args), r.stderr))
-    return json.loads(r.stdout)
+sys.path.insert(0, os.path.dirname(os.path.abspath(__file__)))
+from lwcli import FAILS, check, json_of, run  # noqa: E402
 
 
 def main():
