@@ -43,34 +43,6 @@ typedef struct
   gboolean json, help;
 } FitArgs;
 
-/* The model as an expression in s that the parser takes: gain*(s+a)*(s^2+b*s+c)/(…), every
- * number to 17 digits (conjugate pairs as real quadratics). */
-static char *
-expression (const LwModel *m)
-{
-  GString *s = g_string_new (NULL);
-  g_string_append_printf (s, "%.17g", m->gain);
-  for (int part = 0; part < 2; part++)
-    {
-      size_t n = part == 0 ? m->n_zeros : m->n_poles;
-      const double complex *r = part == 0 ? m->zeros : m->poles;
-      g_autoptr (GPtrArray) f = g_ptr_array_new_with_free_func (g_free);
-      for (size_t i = 0; i < n; i++)
-        if (cimag (r[i]) == 0.0)
-          g_ptr_array_add (f, g_strdup_printf ("(s+(%.17g))", -creal (r[i])));
-        else if (cimag (r[i]) > 0.0)   /* the pair, once (its partner below the axis skipped) */
-          g_ptr_array_add (f, g_strdup_printf ("(s^2+(%.17g)*s+(%.17g))", -2.0 * creal (r[i]),
-                                               creal (r[i]) * creal (r[i])
-                                               + cimag (r[i]) * cimag (r[i])));
-      if (f->len == 0)
-        continue;
-      g_ptr_array_add (f, NULL);
-      g_autofree char *joined = g_strjoinv ("*", (char **) f->pdata);
-      g_string_append_printf (s, part == 0 ? "*%s" : "/(%s)", joined);
-    }
-  return g_string_free (s, FALSE);
-}
-
 static int
 fit_run (void *arg)
 {
@@ -118,7 +90,7 @@ fit_run (void *arg)
       lw_measured_free (data);
       return st == LW_ERR_INVALID ? LW_EXIT_BAD_INPUT : LW_EXIT_INTERNAL;
     }
-  g_autofree char *expr = expression (model);
+  g_autofree char *expr = lw_model_expression (model);
   if (!a->json)
     {
       g_autofree char *text = lw_model_text (model);

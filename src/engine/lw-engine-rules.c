@@ -1,10 +1,12 @@
 /* lw-engine-rules.c — the engine's small rules and words, shared by its callers: the sample
- * period against the rise time, the words of a verdict, a model's text, a requirement's
- * target in words, which requirements a frequency response judges (lw-engine.h).
+ * period against the rise time, the words of a verdict, a model's text and its plant
+ * expression, a requirement's target in words, which requirements a frequency response judges
+ * (lw-engine.h).
  * SPDX-License-Identifier: GPL-3.0-or-later
  */
 #include "config.h"
 
+#include <complex.h>
 #include <math.h>
 #include <string.h>
 
@@ -49,6 +51,32 @@ lw_model_text (const LwModel *m)
   char *big = g_malloc (need + 1);
   lw_model_format (m, 6, big, need + 1);
   return big;
+}
+
+char *
+lw_model_expression (const LwModel *m)
+{
+  GString *s = g_string_new (NULL);
+  g_string_append_printf (s, "%.17g", m->gain);
+  for (int part = 0; part < 2; part++)
+    {
+      size_t n = part == 0 ? m->n_zeros : m->n_poles;
+      const double complex *r = part == 0 ? m->zeros : m->poles;
+      g_autoptr (GPtrArray) f = g_ptr_array_new_with_free_func (g_free);
+      for (size_t i = 0; i < n; i++)
+        if (cimag (r[i]) == 0.0)
+          g_ptr_array_add (f, g_strdup_printf ("(s+(%.17g))", -creal (r[i])));
+        else if (cimag (r[i]) > 0.0)   /* the pair, once (its partner below the axis skipped) */
+          g_ptr_array_add (f, g_strdup_printf ("(s^2+(%.17g)*s+(%.17g))", -2.0 * creal (r[i]),
+                                               creal (r[i]) * creal (r[i])
+                                               + cimag (r[i]) * cimag (r[i])));
+      if (f->len == 0)
+        continue;
+      g_ptr_array_add (f, NULL);
+      g_autofree char *joined = g_strjoinv ("*", (char **) f->pdata);
+      g_string_append_printf (s, part == 0 ? "*%s" : "/(%s)", joined);
+    }
+  return g_string_free (s, FALSE);
 }
 
 char *

@@ -231,6 +231,12 @@ G_DEFINE_AUTOPTR_CLEANUP_FUNC (LwVariantEval, lw_variant_eval_unref)
 /* Factored text of a model, 6 significant digits (lw_model_format); g_free the result. */
 char *lw_model_text (const LwModel *m);
 
+/* A model in s as an expression the plant parser takes (what `fit` prints and the window's
+ * "Use as Plant" stores): gain*(s+a)*(s^2+b*s+c)/(…), every number to 17 significant digits
+ * so the parse gives the model back to rounding, a conjugate pair of roots as one real
+ * quadratic; g_free the result. */
+char *lw_model_expression (const LwModel *m);
+
 /* A requirement's target in words: "at least 45 deg", "20 to 60 rad/s" …; g_free it. */
 char *lw_requirement_target_text (const LwRequirement *r);
 

@@ -194,6 +194,8 @@ static const Binding bindings[] = {
   { GDK_KEY_e, CTRL, "window.export" },
   { GDK_KEY_m, CTRL_SHIFT, "window.import-measured" },
   { GDK_KEY_M, CTRL_SHIFT, "window.import-measured" },
+  { GDK_KEY_f, CTRL_SHIFT, "window.fit-measured" },
+  { GDK_KEY_F, CTRL_SHIFT, "window.fit-measured" },
   { GDK_KEY_e, CTRL_SHIFT, "window.export-report" },
   { GDK_KEY_E, CTRL_SHIFT, "window.export-report" },
   { GDK_KEY_z, CTRL, "window.undo" },

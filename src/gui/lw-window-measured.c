@@ -1,7 +1,8 @@
 /* lw-window-measured.c — a measured frequency response in the window: Import Measured
  * Response… (a CSV table read by lw_measured_parse, its kind asked, kept in the document as
- * <measured>: one undo step), Judge on Measured Data (the document's analysis choice), and
- * Remove Measured Response (docs/measured-data.md, docs/window.md).
+ * <measured>: one undo step), Judge on Measured Data (the document's analysis choice), Fit
+ * Model to Measured Response… (lw-fit-dialog.h; its "Use as Plant" one undo step) and Remove
+ * Measured Response (docs/measured-data.md, docs/window.md).
  *
  * Test hook: with LW_TEST_MEASURED_CSV and LW_TEST_MEASURED_KIND (sampled|continuous) set, the
  * import takes that file and kind without the dialogs.
@@ -10,10 +11,12 @@
  */
 #include "config.h"
 
+#include <stdio.h>
 #include <string.h>
 
 #include <glib/gi18n.h>
 
+#include "lw-fit-dialog.h"
 #include "lw-window-private.h"
 
 /* the document keeps at most this much (the loader refuses larger documents) */
@@ -226,6 +229,61 @@ remove_activated (GtkWidget *widget, const char *action, GVariant *param)
   lw_window_notify (self, _("Measured response removed (Ctrl+Z brings it back)."));
 }
 
+/* The fitted model becomes the plant: one undo step (what was typed before stays a step of
+ * its own). The measured response and the analysis choice stay. */
+static void
+fit_used (LwWindow *self, const char *expression)
+{
+  lw_history_commit (self->history);
+  LwDesign *d = lw_design_copy (lw_design_model_get_design (self->model));
+  lw_design_set_string (&d->plant, expression);
+  lw_design_model_replace (self->model, d);
+  lw_history_commit (self->history);
+  if (self->debug)
+    {
+      printf ("LW-FIT-USED plant=%s\n", expression);
+      fflush (stdout);
+    }
+  lw_window_notify (self, _("The fitted model is the plant now (Ctrl+Z restores the previous "
+                            "one)."));
+}
+
+static void
+fit_activated (GtkWidget *widget, const char *action, GVariant *param)
+{
+  LwWindow *self = LW_WINDOW (widget);
+  const LwDesign *d = lw_design_model_get_design (self->model);
+  if (self->dragging)
+    return;
+  if (d->measured == NULL)
+    {
+      lw_window_notify (self, _("The design holds no measured response: import one first."));
+      return;
+    }
+  if (d->measured_kind != LW_MEASURED_CONTINUOUS)
+    {
+      /* a model in s fitted to sampled data would hold the hold and the dead time, and the
+       * plant path applies both again (docs/measured-data.md, "Model fit in the window") */
+      show_error (self, _("The fit needs a continuous measurement"),
+                  _("This design's measured response is of the sampled kind: it was taken "
+                    "through the digital loop and already holds the zero-order hold, the "
+                    "aliasing and the dead time. A model in s fitted to it would count the hold "
+                    "and the dead time twice once used as the plant. Fit a continuous "
+                    "measurement of the plant G(j\u03c9) instead (an analyzer on the analog "
+                    "plant), imported as continuous."));
+      if (self->debug)
+        {
+          printf ("LW-FIT-REFUSED kind=sampled\n");
+          fflush (stdout);
+        }
+      return;
+    }
+  lw_history_commit (self->history);
+  LwFitDialog *dialog = lw_fit_dialog_new (GTK_WINDOW (self), d->measured, d->measured_source);
+  g_signal_connect_object (dialog, "use", G_CALLBACK (fit_used), self, G_CONNECT_SWAPPED);
+  gtk_window_present (GTK_WINDOW (dialog));
+}
+
 void
 lw_window_class_init_measured (GtkWidgetClass *widget_class)
 {
@@ -235,4 +293,5 @@ lw_window_class_init_measured (GtkWidgetClass *widget_class)
                                    judge_on_data_activated);
   gtk_widget_class_install_action (widget_class, "window.remove-measured", NULL,
                                    remove_activated);
+  gtk_widget_class_install_action (widget_class, "window.fit-measured", NULL, fit_activated);
 }
