@@ -66,6 +66,13 @@ static const Row rows[N_ROWS] = {
   { "actuator-peak", N_("Peak actuator output"), "", BETTER_LOWER, 0, 0.01 },
 };
 
+static const char source_data_tip[]
+  = N_("From the measured data: the loop closed on the measured points, its crossovers found "
+       "between them (docs/measured-data.md); the requirements are judged on these.");
+static const char source_model_tip[]
+  = N_("From the model: a time response and the closed-loop poles need a model in s, which the "
+       "measured data are not.");
+
 /* The index of the variant that is best in row by a meaningful difference, or −1. */
 static int
 best_of (int row, const double *vals, guint n)
@@ -87,14 +94,52 @@ best_of (int row, const double *vals, guint n)
   return best;
 }
 
+/* Where a row's figures come from when the design is judged on its measured data: the
+ * margins, the crossover and the sensitivity peak from the loop closed on the data (as the
+ * requirements' verdicts), everything of a time response from the model (the data have
+ * none). */
+typedef enum { SOURCE_DESIGN, SOURCE_DATA, SOURCE_MODEL } Source;
+
+static Source
+row_source (int row, gboolean on_data)
+{
+  if (row == ROW_PERIOD)
+    return SOURCE_DESIGN;
+  if (!on_data)
+    return SOURCE_MODEL;
+  return row <= ROW_MS ? SOURCE_DATA : SOURCE_MODEL;
+}
+
+/* The figure of a row from the loop on the measured data (the engine's achieved figures,
+ * which it takes from the data when the design is judged on them); NaN when none. */
+static double
+data_value (int row, const LwVariantEval *e)
+{
+  const LwAchieved *a = e->has_achieved ? &e->achieved : NULL;
+  const LwMeasuredMargins *m = e->measured != NULL ? &e->measured->margins : NULL;
+  switch (row)
+    {
+    case ROW_PM: return a != NULL && a->has_phase_margin ? a->phase_margin_deg : NAN;
+    case ROW_GM: return a != NULL && a->has_gain_margin ? a->gain_margin_db : NAN;
+    case ROW_WC: return a != NULL && a->has_crossover ? a->crossover_rad_s : NAN;
+    case ROW_DM:
+      return m != NULL && m->n_gain > 0 && !m->crossover_above_data
+             && isfinite (m->delay_margin_s) ? m->delay_margin_s : NAN;
+    case ROW_MS: return a != NULL && a->has_sensitivity ? a->sensitivity_peak : NAN;
+    }
+  return NAN;
+}
+
 /* The figure of a row for an evaluation; NaN when it has none. */
 static double
-row_value (int row, const LwVariantEval *e)
+row_value (int row, const LwVariantEval *e, gboolean on_data)
 {
   if (e == NULL)
     return NAN;
   if (row == ROW_PERIOD)
     return e->period_s;
+  if (row_source (row, on_data) == SOURCE_DATA)
+    return data_value (row, e);
   if (e->ev == NULL)
     return NAN;
   const LwMargins *m = &e->ev->margins;
@@ -153,7 +198,7 @@ put (LwCompareTable *self, int col, int row, const char *markup, float xalign, g
 void
 lw_compare_table_show (LwCompareTable *self, const char *const *names,
                        LwVariantEval *const *evals, const guint *styles, guint n, guint active,
-                       const LwDesignRequirement *reqs, guint n_req)
+                       const LwDesignRequirement *reqs, guint n_req, gboolean on_data)
 {
   g_return_if_fail (LW_IS_COMPARE_TABLE (self));
   g_return_if_fail (n == 0 || (names != NULL && evals != NULL && active < n));
@@ -165,7 +210,8 @@ lw_compare_table_show (LwCompareTable *self, const char *const *names,
       return;
     }
   g_autoptr (GString) shape = g_string_new (NULL);
-  g_string_append_printf (shape, "%u %u %u %d", n, active, n_req, (int) self->theme);
+  g_string_append_printf (shape, "%u %u %u %d %d", n, active, n_req, (int) self->theme,
+                          on_data);
   for (guint j = 0; j < n; j++)
     g_string_append_printf (shape, "\x1f%s", names[j]);
   for (guint i = 0; i < n_req; i++)
@@ -207,14 +253,25 @@ lw_compare_table_show (LwCompareTable *self, const char *const *names,
       double vals[LW_DESIGN_MAX_VARIANTS];
       guint nv = MIN (n, LW_DESIGN_MAX_VARIANTS);
       for (guint j = 0; j < nv; j++)
-        vals[j] = row_value (row, evals[j]);
+        vals[j] = row_value (row, evals[j], on_data);
       int best = best_of (row, vals, nv);
-      g_autofree char *label = rows[row].unit[0] != '\0'
+      g_autofree char *title = rows[row].unit[0] != '\0'
                                  ? g_strdup_printf ("%s (%s)", _(rows[row].label),
                                                     rows[row].unit)
                                  : g_strdup (_(rows[row].label));
-      put (self, 0, r, label, 0, FALSE);
-      g_string_append_printf (dbg, "LW-METRIC row=%s active=%u best=%d values=", rows[row].key,
+      Source src = row_source (row, on_data);
+      /* judged on data: every figure says where it comes from */
+      g_autofree char *label
+        = !on_data || src == SOURCE_DESIGN
+            ? g_strdup (title)
+            : g_strdup_printf ("%s <span alpha=\"60%%\" size=\"small\">%s</span>", title,
+                               src == SOURCE_DATA ? _("data") : _("model"));
+      GtkWidget *lc = put (self, 0, r, label, 0, FALSE);
+      lw_gui_set_tooltip (lc, !on_data || src == SOURCE_DESIGN ? NULL
+                              : src == SOURCE_DATA ? _(source_data_tip) : _(source_model_tip));
+      g_string_append_printf (dbg, "LW-METRIC row=%s source=%s active=%u best=%d values=",
+                              rows[row].key, src == SOURCE_DESIGN ? "design"
+                                             : src == SOURCE_DATA ? "data" : "model",
                               active, best);
       for (guint j = 0; j < nv; j++)
         {

@@ -5,8 +5,14 @@
  * the larger margin, the smaller peak, overshoot, time, index or actuator output, the higher
  * crossover) and every other variant's value carries its difference to the active one's.
  *
+ * When the design is judged on its measured data (on_data), the margins, the crossover, the
+ * delay margin and the sensitivity peak are those of the loop closed on the data, and every
+ * figure's title says "data" or "model" (with the reason in its tooltip): the step figures,
+ * the indices and the actuator peak need a model and stay the model's.
+ *
  * With LW_DEBUG_HANDLES=1 the table prints each row it shows, once per change, as
- *   LW-METRIC row=KEY active=V values=V1,V2,…   (values in column order, NaN when none).
+ *   LW-METRIC row=KEY source=design|data|model active=V values=V1,V2,…
+ * (values in column order, NaN when none).
  *
  * SPDX-License-Identifier: GPL-3.0-or-later
  */
@@ -26,10 +32,12 @@ LwCompareTable *lw_compare_table_new (void);
 
 /* Shows n variants (names[i], evals[i]; an evaluation may have failed; styles[i] the
  * variant's colour as LwPlotVariant.style, shown as a sample before its name, or NULL) with
- * the active one at index active, and the design's requirements (n_req, labels and limits). */
+ * the active one at index active, and the design's requirements (n_req, labels and limits);
+ * on_data: the design is judged on its measured data (see the top). */
 void lw_compare_table_show (LwCompareTable *self, const char *const *names,
                             LwVariantEval *const *evals, const guint *styles, guint n,
-                            guint active, const LwDesignRequirement *reqs, guint n_req);
+                            guint active, const LwDesignRequirement *reqs, guint n_req,
+                            gboolean on_data);
 
 /* The theme of the colour samples (as the plots'). */
 void lw_compare_table_set_theme (LwCompareTable *self, LwPlotTheme theme);

@@ -322,3 +322,10 @@ lw_design_model_set_measured_analysis (LwDesignModel *self, gboolean on_data)
   self->doc->measured_analysis = a;
   lw_design_model_emit_changed (self);
 }
+
+gboolean
+lw_design_model_judged_on_data (LwDesignModel *self)
+{
+  g_return_val_if_fail (LW_IS_DESIGN_MODEL (self), FALSE);
+  return self->doc->measured != NULL && self->doc->measured_analysis == LW_DESIGN_ANALYSIS_DATA;
+}

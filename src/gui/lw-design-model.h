@@ -152,6 +152,8 @@ void lw_design_model_set_measured (LwDesignModel *self, LwMeasured *m, LwMeasure
                                    const char *source);
 /* Judge the frequency-response requirements on the measured data (TRUE) or the model. */
 void lw_design_model_set_measured_analysis (LwDesignModel *self, gboolean on_data);
+/* Whether the design holds a measured response and is judged on it. */
+gboolean lw_design_model_judged_on_data (LwDesignModel *self);
 gboolean lw_design_model_set_units (LwDesignModel *self, const char *input_unit,
                                     const char *output_unit);
 /* Removes variant i; FALSE for the last one left. The active index follows its variant, or

@@ -22,6 +22,7 @@ struct _LwRequirementsPanel
   GSignalGroup *model_signals;   /* the model's signals, following self->model */
   GPtrArray *achieved_labels;   /* per requirement */
   GPtrArray *result_labels;
+  GtkLabel *figure_titles[16];
   GtkLabel *figure_values[16];
   gboolean filling;
 };
@@ -227,9 +228,40 @@ rebuild_requirements (LwRequirementsPanel *self)
   self->filling = FALSE;
 }
 
+/* ---- where a figure comes from ------------------------------------------------------------ */
+
+/* Judged on the measured data, the engine takes these requirements' achieved figures from the
+ * loop closed on the data (lw-engine.c); every other one stays the model's. */
+static gboolean
+judged_on_data (LwReqKind kind)
+{
+  return kind == LW_REQ_MIN_PHASE_MARGIN || kind == LW_REQ_MIN_GAIN_MARGIN
+         || kind == LW_REQ_CROSSOVER_RANGE || kind == LW_REQ_MAX_SENSITIVITY;
+}
+
+static const char data_tip[]
+  = N_("From the measured data: the loop closed on the measured points, its crossovers found "
+       "between them (docs/measured-data.md).");
+static const char model_tip[]
+  = N_("From the model: a time response, the low-frequency gain and the closed-loop poles need "
+       "a model in s, which the measured data are not.");
+
+/* text (may be NULL: "—") and, when the design is judged on data, a small "data" or "model"
+ * after it; markup, g_free it. */
+static char *
+with_source (const char *text, gboolean on_data, gboolean from_data)
+{
+  g_autofree char *esc = g_markup_escape_text (text != NULL ? text : "—", -1);
+  if (!on_data)
+    return g_steal_pointer (&esc);
+  return g_strdup_printf ("%s <span alpha=\"60%%\" size=\"small\">%s</span>", esc,
+                          from_data ? _("data") : _("model"));
+}
+
 static void
 show_requirements (LwRequirementsPanel *self, LwVariantEval *eval)
 {
+  gboolean on_data = lw_design_model_judged_on_data (self->model);
   guint n = self->achieved_labels->len;
   for (guint i = 0; i < n && i < lw_design_model_get_n_requirements (self->model); i++)
     {
@@ -272,7 +304,12 @@ show_requirements (LwRequirementsPanel *self, LwVariantEval *eval)
               break;
             }
         }
-      gtk_label_set_text (achieved, value != NULL ? value : "—");
+      g_autofree char *markup = with_source (value, on_data, judged_on_data (r->kind));
+      if (g_strcmp0 (gtk_label_get_label (achieved), markup) != 0)
+        gtk_label_set_markup (achieved, markup);
+      lw_gui_set_tooltip (GTK_WIDGET (achieved), !on_data ? NULL
+                                                 : judged_on_data (r->kind) ? _(data_tip)
+                                                 : _(model_tip));
       gtk_label_set_text (GTK_LABEL (result), verdict);
       lw_gui_set_tooltip (result, tip);
     }
@@ -295,25 +332,39 @@ enum
   N_FIGURES
 };
 
+static const char *const figure_title[N_FIGURES] = {
+  [FIG_STABLE] = N_("Closed loop"),
+  [FIG_PHASE_MARGIN] = N_("Phase margin"),
+  [FIG_GAIN_MARGIN] = N_("Gain margin"),
+  [FIG_DELAY_MARGIN] = N_("Delay margin"),
+  [FIG_CROSSOVERS] = N_("Gain crossovers"),
+  [FIG_SENSITIVITY] = N_("Sensitivity peak"),
+  [FIG_BANDWIDTH] = N_("Bandwidth (−3 dB)"),
+  [FIG_OVERSHOOT] = N_("Step overshoot"),
+  [FIG_RISE] = N_("Rise time (10–90 %)"),
+  [FIG_SETTLING] = N_("Settling time (2 %)"),
+};
+
+/* The figures the loop on the data gives when the design is judged on it (the closed loop's
+ * stability by the Nyquist criterion on the data, the model's poles said beside it); the
+ * bandwidth (|T| needs the closed loop between the points too) and the step stay the
+ * model's. */
+static gboolean
+figure_from_data (int i)
+{
+  return i == FIG_STABLE || i == FIG_PHASE_MARGIN || i == FIG_GAIN_MARGIN || i == FIG_DELAY_MARGIN
+         || i == FIG_CROSSOVERS || i == FIG_SENSITIVITY;
+}
+
 static void
 build_figures (LwRequirementsPanel *self)
 {
-  const char *titles[N_FIGURES] = {
-    [FIG_STABLE] = _("Closed loop"),
-    [FIG_PHASE_MARGIN] = _("Phase margin"),
-    [FIG_GAIN_MARGIN] = _("Gain margin"),
-    [FIG_DELAY_MARGIN] = _("Delay margin"),
-    [FIG_CROSSOVERS] = _("Gain crossovers"),
-    [FIG_SENSITIVITY] = _("Sensitivity peak"),
-    [FIG_BANDWIDTH] = _("Bandwidth (−3 dB)"),
-    [FIG_OVERSHOOT] = _("Step overshoot"),
-    [FIG_RISE] = _("Rise time (10–90 %)"),
-    [FIG_SETTLING] = _("Settling time (2 %)"),
-  };
   G_STATIC_ASSERT (N_FIGURES <= G_N_ELEMENTS (((LwRequirementsPanel *) 0)->figure_values));
   for (int i = 0; i < N_FIGURES; i++)
     {
-      gtk_grid_attach (self->figure_grid, cell (titles[i], 0, "dim-label"), 0, i, 1, 1);
+      GtkWidget *t = cell (_(figure_title[i]), 0, "dim-label");
+      gtk_grid_attach (self->figure_grid, t, 0, i, 1, 1);
+      self->figure_titles[i] = GTK_LABEL (t);
       GtkWidget *v = cell ("—", 0, NULL);
       gtk_label_set_selectable (GTK_LABEL (v), TRUE);
       gtk_grid_attach (self->figure_grid, v, 1, i, 1, 1);
@@ -328,63 +379,129 @@ set_figure (LwRequirementsPanel *self, int i, char *text)
   g_free (text);
 }
 
-/* A design on measured data alone: the figures found on the data between the points (each
- * said to be the data's), the step's left to a model. */
+/* Every figure's title says "data" or "model" while the design is judged on data. */
 static void
-show_figures_on_data (LwRequirementsPanel *self, const LwMeasuredLoop *ml)
+show_figure_sources (LwRequirementsPanel *self, gboolean on_data)
 {
-  const LwMeasuredMargins *m = &ml->margins;
   for (int i = 0; i < N_FIGURES; i++)
-    set_figure (self, i, NULL);
+    {
+      g_autofree char *markup = with_source (_(figure_title[i]), on_data, figure_from_data (i));
+      if (g_strcmp0 (gtk_label_get_label (self->figure_titles[i]), markup) != 0)
+        gtk_label_set_markup (self->figure_titles[i], markup);
+      lw_gui_set_tooltip (GTK_WIDGET (self->figure_titles[i]),
+                          !on_data ? NULL : figure_from_data (i) ? _(data_tip) : _(model_tip));
+    }
+}
+
+/* The crossing at omega among n (the governing one the margins name), or NULL. */
+static const LwMeasuredCrossing *
+crossing_at (const LwMeasuredCrossing *c, size_t n, double omega)
+{
+  for (size_t i = 0; i < n; i++)
+    if (c[i].omega_rad_s == omega)
+      return &c[i];
+  return NULL;
+}
+
+/* "… at ω rad/s, between the points at a and b rad/s" and the coherence flag. */
+static char *
+where_text (const LwMeasuredCrossing *c)
+{
+  return g_strdup_printf (_("at %.4g rad/s (between the points at %.4g and %.4g rad/s%s)"),
+                          c->omega_rad_s, c->lo_rad_s, c->hi_rad_s,
+                          c->low_coherence ? _("; low coherence there") : "");
+}
+
+/* The figures of the loop closed on the measured data (docs/measured-data.md). */
+static void
+show_data_figures (LwRequirementsPanel *self, const LwVariantEval *eval)
+{
+  const LwMeasuredLoop *ml = eval->measured;
+  if (ml == NULL)
+    {
+      for (int i = 0; i < N_FIGURES; i++)
+        if (figure_from_data (i))
+          set_figure (self, i, NULL);
+      if (eval->measured_error != NULL)
+        set_figure (self, FIG_PHASE_MARGIN, g_strdup_printf (_("not on the data: %s"),
+                                                             eval->measured_error->message));
+      return;
+    }
   const LwMeasuredStability *st = &ml->stability;
+  g_autofree char *verdict
+    = st->verdict == LW_MEASURED_STABLE
+        ? g_strdup (_("stable (Nyquist criterion on the data)"))
+        : st->verdict == LW_MEASURED_UNSTABLE
+            ? g_strdup_printf (_("NOT stable: %d pole(s) outside the unit circle (Nyquist "
+                                 "criterion on the data)"), st->closed_loop_unstable)
+            : g_strdup (_("not decided by the data (see the tooltip)"));
   set_figure (self, FIG_STABLE,
-              st->verdict == LW_MEASURED_STABLE
-                ? g_strdup (_("stable (Nyquist criterion on the data)"))
-                : st->verdict == LW_MEASURED_UNSTABLE
-                    ? g_strdup_printf (_("NOT stable: %d pole(s) outside the unit circle "
-                                         "(Nyquist criterion on the data)"),
-                                       st->closed_loop_unstable)
-                    : g_strdup (_("not decided by the data (see the tooltip)")));
+              eval->ev == NULL ? g_steal_pointer (&verdict)
+              : g_strdup_printf (_("%s; the model's poles: %s"), verdict,
+                                 eval->ev->stable ? _("stable")
+                                 : _("NOT stable (a pole on or outside the unit circle)")));
   lw_gui_set_tooltip (GTK_WIDGET (self->figure_values[FIG_STABLE]), st->note);
-  set_figure (self, FIG_PHASE_MARGIN,
-              m->n_gain > 0 ? g_strdup_printf (_("%.4g° at %.4g rad/s (data)%s"),
-                                               m->phase_margin_deg, m->gain_crossover_rad_s,
-                                               m->crossover_above_data
-                                                 ? _(", another above the data?") : "")
-                            : g_strdup (_("none in the data")));
-  set_figure (self, FIG_GAIN_MARGIN,
-              m->n_phase > 0 ? g_strdup_printf (_("%.4g dB at %.4g rad/s (data)"),
-                                                m->gain_margin_db, m->phase_crossover_rad_s)
-                             : g_strdup (_("none in the data")));
+  const LwMeasuredMargins *m = &ml->margins;
+  const LwMeasuredCrossing *gc = crossing_at (m->gain, m->n_gain, m->gain_crossover_rad_s);
+  const LwMeasuredCrossing *pc = crossing_at (m->phase, m->n_phase, m->phase_crossover_rad_s);
+  if (m->crossover_above_data)
+    set_figure (self, FIG_PHASE_MARGIN,
+                g_strdup (_("not in the data: |L| ≥ 1 at the highest measured point (a "
+                            "crossover lies above the data)")));
+  else if (gc == NULL)
+    set_figure (self, FIG_PHASE_MARGIN, g_strdup (_("none (no gain crossover in the data)")));
+  else
+    {
+      g_autofree char *where = where_text (gc);
+      set_figure (self, FIG_PHASE_MARGIN, g_strdup_printf ("%.4g° %s", m->phase_margin_deg,
+                                                           where));
+    }
+  if (pc == NULL)
+    set_figure (self, FIG_GAIN_MARGIN, g_strdup (_("none (no phase crossover in the data)")));
+  else
+    {
+      g_autofree char *where = where_text (pc);
+      set_figure (self, FIG_GAIN_MARGIN, g_strdup_printf ("%.4g dB %s", m->gain_margin_db,
+                                                          where));
+    }
   set_figure (self, FIG_DELAY_MARGIN,
-              isfinite (m->delay_margin_s)
-                ? g_strdup_printf (_("%.4g s (data)"), m->delay_margin_s) : NULL);
+              gc != NULL && !m->crossover_above_data && isfinite (m->delay_margin_s)
+                ? g_strdup_printf (_("%.4g s (%.3g samples)"), m->delay_margin_s,
+                                   m->delay_margin_s / eval->period_s)
+                : NULL);
   g_autoptr (GString) xs = g_string_new (NULL);
   for (size_t i = 0; i < m->n_gain; i++)
     g_string_append_printf (xs, "%s%.4g", i > 0 ? ", " : "", m->gain[i].omega_rad_s);
   set_figure (self, FIG_CROSSOVERS,
-              m->n_gain > 0 ? g_strdup_printf (_("%s rad/s (data)"), xs->str)
-                            : g_strdup (_("none in the data")));
+              m->n_gain > 0 ? g_strdup_printf (_("%s rad/s"), xs->str)
+              : m->crossover_above_data ? g_strdup (_("none in the data (one lies above it)"))
+                                        : g_strdup (_("none")));
   set_figure (self, FIG_SENSITIVITY,
               isfinite (m->sensitivity_peak)
-                ? g_strdup_printf (_("%.4g at %.4g rad/s (data, at a point)"),
-                                   m->sensitivity_peak, m->sensitivity_peak_rad_s)
+                ? g_strdup_printf (_("%.4g (%.3g dB) at %.4g rad/s (over the points)"),
+                                   m->sensitivity_peak, 20.0 * log10 (m->sensitivity_peak),
+                                   m->sensitivity_peak_rad_s)
                 : NULL);
-  const char *model = _("needs a model");
-  set_figure (self, FIG_BANDWIDTH, g_strdup (model));
-  set_figure (self, FIG_OVERSHOOT, g_strdup (model));
-  set_figure (self, FIG_RISE, g_strdup (model));
-  set_figure (self, FIG_SETTLING, g_strdup (model));
 }
 
 static void
 show_figures (LwRequirementsPanel *self, LwVariantEval *eval)
 {
+  gboolean on_data = lw_design_model_judged_on_data (self->model);
+  show_figure_sources (self, on_data);
   const LwEvaluation *ev = eval->ev;
   lw_gui_set_tooltip (GTK_WIDGET (self->figure_values[FIG_STABLE]), NULL);
   if (ev == NULL && eval->failure == LW_EVAL_NO_MODEL && eval->measured != NULL)
     {
-      show_figures_on_data (self, eval->measured);
+      /* a design on measured data alone: the data's figures, the model's left to a model */
+      for (int i = 0; i < N_FIGURES; i++)
+        set_figure (self, i, NULL);
+      show_data_figures (self, eval);
+      const char *model = _("needs a model");
+      set_figure (self, FIG_BANDWIDTH, g_strdup (model));
+      set_figure (self, FIG_OVERSHOOT, g_strdup (model));
+      set_figure (self, FIG_RISE, g_strdup (model));
+      set_figure (self, FIG_SETTLING, g_strdup (model));
       return;
     }
   if (ev == NULL)
@@ -392,6 +509,8 @@ show_figures (LwRequirementsPanel *self, LwVariantEval *eval)
       for (int i = 0; i < N_FIGURES; i++)
         set_figure (self, i, NULL);
       set_figure (self, FIG_STABLE, g_strdup (_("not evaluated (see the message above)")));
+      if (on_data)
+        show_data_figures (self, eval);
       return;
     }
   const LwMargins *m = &ev->margins;
@@ -434,7 +553,10 @@ show_figures (LwRequirementsPanel *self, LwVariantEval *eval)
               st->has_rise ? g_strdup_printf (_("%.4g s"), st->rise_time_s) : NULL);
   set_figure (self, FIG_SETTLING,
               st->has_settling ? g_strdup_printf (_("%.4g s"), st->settling_time_s) : NULL);
+  if (on_data)
+    show_data_figures (self, eval);
 }
+
 
 /* ---- public ---------------------------------------------------------------------------- */
 

@@ -167,7 +167,7 @@ show_handles_and_plots (LwWindow *self, gboolean panels)
   for (guint i = 0; i < n; i++)
     styles[i] = vs[i].style;
   lw_compare_table_show (self->compare_table, names, evals, styles, n, active, d->requirements,
-                         (guint) d->n_requirements);
+                         (guint) d->n_requirements, lw_design_model_judged_on_data (self->model));
 }
 
 /* During a drag the panels beside the plots (the plant's forms, the stage fields, the

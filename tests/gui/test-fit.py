@@ -15,8 +15,11 @@ and "Use as Plant" (Alt+U) taken. The saved document's plant must be that model:
   expression is written to 17 digits; 1e-6 leaves room for the fit's own 1e-13 and the
   conditioning of the expanded quadratics);
 
-then one Ctrl+Z gives the document as it was before the fit (the old plant text again), and a
-sampled-kind measurement is refused by the fit (LW-FIT-REFUSED kind=sampled).
+then one Ctrl+Z gives the document as it was before the fit (the old plant text again). The
+same document judged on its data (analysis="data"): the metrics table's phase margin,
+crossover and sensitivity peak of each variant equal `analyze --variant NAME --json` (whose
+loop block is then the data's) and are marked as the data's, the step figures as the
+model's. A sampled-kind measurement is refused by the fit (LW-FIT-REFUSED kind=sampled).
 Screenshot of the dialog: ARTEFACT_DIR/fit-dialog.png.
 
 Usage: test-fit.py LOOPWRIGHT CLI SCHEMA_DIR EXAMPLE ARTEFACT_DIR
@@ -53,6 +56,15 @@ GAIN = 50.0 * 2 * 40 * WN ** 2 / 300.0   # DC gain 50
 def fits(log_path, **match):
     return [d for d in debug_lines(log_path, 'LW-FIT')
             if all(d.get(k) == str(v) for k, v in match.items())]
+
+
+def metric_rows(log_path, n):
+    """The newest LW-METRIC line of every row, once every row has n values and a source."""
+    rows = {}
+    for d in debug_lines(log_path, 'LW-METRIC'):
+        if 'row' in d and 'source' in d and len(d.get('values', '').split(',')) == n:
+            rows[d['row']] = d
+    return rows if {'phase-margin', 'overshoot', 'period'} <= rows.keys() else None
 
 
 def notices(log_path, text):
@@ -160,6 +172,51 @@ def inner(app, cli, schema_dir, example, artefacts):
             text = undone.decode().replace('kind="continuous"', 'kind="sampled"')
             quit_window(proc, wid)
             proc = None
+        # judged on the data: the metrics table's margins, crossover and sensitivity peak are
+        # the data's (equal to analyze --json, whose loop block is then the data's,
+        # docs/file-format.md) and say so; the step figures stay the model's and say so
+        if 'analysis="model"' not in text:
+            fail('the saved <measured> has no analysis="model"')
+        on_data = os.path.join(tmp, 'on-data.lwd')
+        with open(on_data, 'w', encoding='utf-8') as f:
+            f.write(text.replace('kind="sampled"', 'kind="continuous"')
+                    .replace('analysis="model"', 'analysis="data"'))
+        names = re.findall(r'<variant name="([^"]+)"', text)
+        log3 = os.path.join(artefacts, 'fit-on-data.log')
+        with open(log3, 'w') as log_file:
+            proc, wid = start_window(app, on_data, window_env(schema_dir, tmp), log_file)
+            settle(log3)
+            key(wid, 'ctrl+shift+k')
+            rows = wait_for(lambda: metric_rows(log3, len(names)), 'the metrics table')
+            settle(log3)
+            rows = metric_rows(log3, len(names))
+            subprocess.run(['import', '-window', 'root',
+                            os.path.join(artefacts, 'fit-on-data.png')], check=False)
+            kill_window(proc)
+            proc = None
+        for key_, source in (('phase-margin', 'data'), ('crossover', 'data'),
+                             ('sensitivity-peak', 'data'), ('overshoot', 'model'),
+                             ('period', 'design')):
+            if rows[key_]['source'] != source:
+                fail('metrics row %s: source %s, expected %s' % (key_, rows[key_]['source'],
+                                                                 source))
+        for j, name in enumerate(names):
+            r = subprocess.run([cli, 'analyze', on_data, '--variant', name, '--json'],
+                               capture_output=True, text=True)
+            if r.returncode != 0:
+                fail('analyze --variant %s: %s' % (name, r.stderr))
+            loop = json.loads(r.stdout)['loop']
+            for key_, member in (('phase-margin', 'phase_margin_deg'),
+                                 ('crossover', 'gain_crossover_rad_s'),
+                                 ('sensitivity-peak', 'sensitivity_peak')):
+                got = float(rows[key_]['values'].split(',')[j])
+                want = float('nan') if loop.get(member) is None else loop[member]
+                # the same doubles through the same engine; 1e-9 allows the printing
+                if not (math.isnan(got) and math.isnan(want)) \
+                        and not abs(got - want) <= 1e-9 * max(1.0, abs(want)):
+                    fail('%s of %s on the data: window %.17g, analyze %.17g'
+                         % (key_, name, got, want))
+
         sampled = os.path.join(tmp, 'sampled.lwd')
         # the sampled kind refuses points above pi/T: keep the table below it
         with open(sampled, 'w', encoding='utf-8') as f:
