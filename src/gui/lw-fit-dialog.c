@@ -257,6 +257,11 @@ field_changed (LwFitDialog *self)
 static void
 use_clicked (LwFitDialog *self)
 {
+  /* a number typed but not yet taken (the focus still in its field, the button pressed by
+   * its mnemonic) is taken now: when it changes a value, the fit is made again first */
+  gtk_spin_button_update (self->order);
+  gtk_spin_button_update (self->relative_degree);
+  gtk_spin_button_update (self->iterations);
   if (self->shown == NULL || self->shown->model == NULL || self->running
       || self->pending != 0)
     return;

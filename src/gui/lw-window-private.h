@@ -11,6 +11,8 @@
  *   lw-window-drag.c     drag handles on the Bode views and their keyboard moves
  *   lw-window-export.c   Export Figure, Export Report, the notice of what was written
  *   lw-window-helpers.c  the formula helpers (lw-helper-dialog) applied as one undo step
+ *   lw-window-measured.c a measured response: import, judge on it, fit a model to it
+ *                        (lw-fit-dialog, "Use as Plant" one undo step), remove it
  *   lw-window-theme.c    the plots' colours following the dark style
  *   lw-window-testing.c  the drag benchmark and the test hook of Export Figure
  *
