@@ -19,7 +19,9 @@ then one Ctrl+Z gives the document as it was before the fit (the old plant text 
 same document judged on its data (analysis="data"): the metrics table's phase margin,
 crossover and sensitivity peak of each variant equal `analyze --variant NAME --json` (whose
 loop block is then the data's) and are marked as the data's, the step figures as the
-model's. A sampled-kind measurement is refused by the fit (LW-FIT-REFUSED kind=sampled).
+model's. A sampled-kind measurement is refused by the fit (LW-FIT-REFUSED kind=sampled). A
+design on the data alone (no plant model) gets the fitted plant (its response within 1e-6 of
+scipy's again) and loses it with one Ctrl+Z.
 Screenshot of the dialog: ARTEFACT_DIR/fit-dialog.png.
 
 Usage: test-fit.py LOOPWRIGHT CLI SCHEMA_DIR EXAMPLE ARTEFACT_DIR
@@ -230,7 +232,48 @@ def inner(app, cli, schema_dir, example, artefacts):
                      'the sampled measurement refused')
             if fits(log2):
                 fail('a sampled measurement was fitted')
-            print('fit: order 4 recovered (error %.2g), poles within 1 %%, one undo step' % err)
+            kill_window(proc)
+            proc = None
+
+        # a design on the data alone (no plant model, `new --measured` without --plant): the
+        # fit gives it its first plant, and Ctrl+Z takes it away again
+        alone = os.path.join(tmp, 'alone.lwd')
+        r = subprocess.run([cli, 'new', '--period', str(PERIOD_S), '--measured', table,
+                            '--measured-kind', 'continuous', '--out', alone],
+                           capture_output=True, text=True)
+        if r.returncode != 0:
+            fail('new --measured without --plant: %s' % r.stderr)
+        log4 = os.path.join(artefacts, 'fit-alone.log')
+        with open(log4, 'w') as log_file:
+            proc, wid = start_window(app, alone, window_env(schema_dir, tmp), log_file)
+            settle(log4)
+            before = saved_after(wid, alone)
+            if plant_of(before).strip() != '':
+                fail('the design on data alone has a plant: %r' % plant_of(before))
+            key(wid, 'ctrl+shift+f')
+            wait_for(lambda: fits(log4, order=2), 'the fit dialog on data alone')
+            dlg = wait_for(lambda: find_window('Fit a Model to the Measured Response'),
+                           'the fit dialog')
+            type_field(dlg, log4, 'Order', '4')
+            type_field(dlg, log4, 'Relative-degree', '3')
+            wait_for(lambda: fits(log4, order=4, **{'relative-degree': 3}), 'the fit of order 4')
+            key(dlg, 'alt+u')
+            wait_for(lambda: list(debug_lines(log4, 'LW-FIT-USED')), 'the fit used')
+            settle(log4)
+            given = saved_after(wid, alone)
+            rel = np.max(np.abs(plant_response(plant_of(given), w) - h) / np.abs(h))
+            if not rel < 1e-6:
+                fail('the plant given to the design on data alone differs from the true model '
+                     'by %g relative' % rel)
+            key(wid, 'ctrl+z')
+            settle(log4)
+            if saved_after(wid, alone) != before:
+                fail('one Ctrl+Z did not give the design on data alone back')
+            quit_window(proc, wid)
+            proc = None
+        print('fit: order 4 recovered (error %.2g), poles within 1 %%, one undo step; the '
+              'metrics on data marked; sampled refused; a design on data alone given a plant'
+              % err)
     finally:
         if proc is not None:
             kill_window(proc)
