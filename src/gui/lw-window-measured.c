@@ -230,13 +230,20 @@ remove_activated (GtkWidget *widget, const char *action, GVariant *param)
 }
 
 /* The fitted model becomes the plant: one undo step (what was typed before stays a step of
- * its own). The measured response and the analysis choice stay. */
+ * its own). The measured response and the analysis choice stay; the named parameters of the
+ * old plant go with it (the fitted plant is numbers only, and a parameter it does not use
+ * would be refused). */
 static void
 fit_used (LwWindow *self, const char *expression)
 {
   lw_history_commit (self->history);
   LwDesign *d = lw_design_copy (lw_design_model_get_design (self->model));
   lw_design_set_string (&d->plant, expression);
+  gboolean had_params = d->n_params > 0;
+  for (size_t i = 0; i < d->n_params; i++)
+    g_free (d->params[i].name);
+  g_clear_pointer (&d->params, g_free);
+  d->n_params = 0;
   lw_design_model_replace (self->model, d);
   lw_history_commit (self->history);
   if (self->debug)
@@ -244,8 +251,10 @@ fit_used (LwWindow *self, const char *expression)
       printf ("LW-FIT-USED plant=%s\n", expression);
       fflush (stdout);
     }
-  lw_window_notify (self, _("The fitted model is the plant now (Ctrl+Z restores the previous "
-                            "one)."));
+  lw_window_notify (self, had_params ? _("The fitted model is the plant now, without the old "
+                                         "plant's parameters (Ctrl+Z restores both).")
+                                      : _("The fitted model is the plant now (Ctrl+Z restores "
+                                          "the previous one)."));
 }
 
 static void

@@ -1,5 +1,6 @@
 #!/usr/bin/python3
-"""Fit Model to Measured Response in a real window (Xvfb): on a copy of the camera slider, a
+"""Fit Model to Measured Response in a real window (Xvfb): on a copy of the camera slider (its
+plant's gain written as a named parameter K), a
 continuous measured table written here with scipy from a known 4th-order plant (invented belt
 axis: real poles at 2 and 40 rad/s, a resonance at 120 rad/s with damping 0.05, a zero at
 300 rad/s; 50 points per decade, noise-free) is imported (Ctrl+Shift+M with the test hook), the
@@ -15,7 +16,8 @@ and "Use as Plant" (Alt+U) taken. The saved document's plant must be that model:
   expression is written to 17 digits; 1e-6 leaves room for the fit's own 1e-13 and the
   conditioning of the expanded quadratics);
 
-then one Ctrl+Z gives the document as it was before the fit (the old plant text again). The
+the parameter K is gone with the old plant (the fitted plant is numbers only); then one
+Ctrl+Z gives the document as it was before the fit (the old plant and K again). The
 same document judged on its data (analysis="data"): the metrics table's phase margin,
 crossover and sensitivity peak of each variant equal `analyze --variant NAME --json` (whose
 loop block is then the data's) and are marked as the data's, the step figures as the
@@ -106,8 +108,17 @@ def inner(app, cli, schema_dir, example, artefacts):
             f.write('frequency_rad_s,real,imag\n')
             for wi, hi in zip(w, h):
                 f.write('%.17g,%.17g,%.17g\n' % (wi, hi.real, hi.imag))
+        # the slider's plant with a named parameter: the fitted plant is numbers only, so Use
+        # as Plant drops the parameters in the same step (one would be refused as unused)
         design = os.path.join(tmp, 'slider.lwd')
-        shutil.copyfile(example, design)
+        text = open(example, encoding='utf-8').read()
+        plant = '180*40000/(s*(s+12)*(s^2+4*s+40000))</plant>'
+        if plant not in text:
+            fail('the example\'s plant is not the one this test knows')
+        text = text.replace(plant, 'K*40000/(s*(s+12)*(s^2+4*s+40000))</plant>\n  <parameters>\n'
+                            '    <parameter name="K" nominal="180"/>\n  </parameters>')
+        with open(design, 'w', encoding='utf-8') as f:
+            f.write(text)
         log_path = os.path.join(artefacts, 'fit.log')
         env = window_env(schema_dir, tmp, LW_TEST_MEASURED_CSV=table,
                          LW_TEST_MEASURED_KIND='continuous')
@@ -145,6 +156,8 @@ def inner(app, cli, schema_dir, example, artefacts):
                            check=False)
             fitted = saved_after(wid, design)
             expr = plant_of(fitted)
+            if b'<parameters>' in fitted or b'<parameters>' not in imported:
+                fail('Use as Plant kept the old plant\'s parameters (or there were none)')
 
             # the poles, through the CLI: plant_z poles are e^{pT}
             r = subprocess.run([cli, 'analyze', design, '--json'], capture_output=True, text=True)
