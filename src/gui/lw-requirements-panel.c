@@ -403,13 +403,14 @@ crossing_at (const LwMeasuredCrossing *c, size_t n, double omega)
   return NULL;
 }
 
-/* "… at ω rad/s, between the points at a and b rad/s" and the coherence flag. */
+/* "at ω rad/s (points a … b)": where a crossover on the data lies and the two measured points
+ * it was found between, with the coherence flag. */
 static char *
 where_text (const LwMeasuredCrossing *c)
 {
-  return g_strdup_printf (_("at %.4g rad/s (between the points at %.4g and %.4g rad/s%s)"),
+  return g_strdup_printf (_("at %.4g rad/s (points %.4g … %.4g%s)"),
                           c->omega_rad_s, c->lo_rad_s, c->hi_rad_s,
-                          c->low_coherence ? _("; low coherence there") : "");
+                          c->low_coherence ? _(", low coherence") : "");
 }
 
 /* The figures of the loop closed on the measured data (docs/measured-data.md). */
@@ -435,12 +436,15 @@ show_data_figures (LwRequirementsPanel *self, const LwVariantEval *eval)
             ? g_strdup_printf (_("NOT stable: %d pole(s) outside the unit circle (Nyquist "
                                  "criterion on the data)"), st->closed_loop_unstable)
             : g_strdup (_("not decided by the data (see the tooltip)"));
-  set_figure (self, FIG_STABLE,
-              eval->ev == NULL ? g_steal_pointer (&verdict)
-              : g_strdup_printf (_("%s; the model's poles: %s"), verdict,
-                                 eval->ev->stable ? _("stable")
-                                 : _("NOT stable (a pole on or outside the unit circle)")));
-  lw_gui_set_tooltip (GTK_WIDGET (self->figure_values[FIG_STABLE]), st->note);
+  set_figure (self, FIG_STABLE, g_steal_pointer (&verdict));
+  /* the model's own verdict beside the data's, in the tooltip (the panel keeps its width) */
+  g_autofree char *tip
+    = eval->ev == NULL ? g_strdup (st->note)
+      : g_strdup_printf (_("%s\nThe model's closed-loop poles: %s"),
+                         st->note,
+                         eval->ev->stable ? _("stable")
+                         : _("NOT stable (a pole on or outside the unit circle)"));
+  lw_gui_set_tooltip (GTK_WIDGET (self->figure_values[FIG_STABLE]), tip);
   const LwMeasuredMargins *m = &ml->margins;
   const LwMeasuredCrossing *gc = crossing_at (m->gain, m->n_gain, m->gain_crossover_rad_s);
   const LwMeasuredCrossing *pc = crossing_at (m->phase, m->n_phase, m->phase_crossover_rad_s);
@@ -478,7 +482,7 @@ show_data_figures (LwRequirementsPanel *self, const LwVariantEval *eval)
                                         : g_strdup (_("none")));
   set_figure (self, FIG_SENSITIVITY,
               isfinite (m->sensitivity_peak)
-                ? g_strdup_printf (_("%.4g (%.3g dB) at %.4g rad/s (over the points)"),
+                ? g_strdup_printf (_("%.4g (%.3g dB) at %.4g rad/s"),
                                    m->sensitivity_peak, 20.0 * log10 (m->sensitivity_peak),
                                    m->sensitivity_peak_rad_s)
                 : NULL);
