@@ -230,15 +230,6 @@ rebuild_requirements (LwRequirementsPanel *self)
 
 /* ---- where a figure comes from ------------------------------------------------------------ */
 
-/* Judged on the measured data, the engine takes these requirements' achieved figures from the
- * loop closed on the data (lw-engine.c); every other one stays the model's. */
-static gboolean
-judged_on_data (LwReqKind kind)
-{
-  return kind == LW_REQ_MIN_PHASE_MARGIN || kind == LW_REQ_MIN_GAIN_MARGIN
-         || kind == LW_REQ_CROSSOVER_RANGE || kind == LW_REQ_MAX_SENSITIVITY;
-}
-
 static const char data_tip[]
   = N_("From the measured data: the loop closed on the measured points, its crossovers found "
        "between them (docs/measured-data.md).");
@@ -304,12 +295,13 @@ show_requirements (LwRequirementsPanel *self, LwVariantEval *eval)
               break;
             }
         }
-      g_autofree char *markup = with_source (value, on_data, judged_on_data (r->kind));
+      /* judged on the data, the engine takes these figures from the loop on the data */
+      gboolean from_data = lw_req_kind_from_frequency_response (r->kind);
+      g_autofree char *markup = with_source (value, on_data, from_data);
       if (g_strcmp0 (gtk_label_get_label (achieved), markup) != 0)
         gtk_label_set_markup (achieved, markup);
       lw_gui_set_tooltip (GTK_WIDGET (achieved), !on_data ? NULL
-                                                 : judged_on_data (r->kind) ? _(data_tip)
-                                                 : _(model_tip));
+                                                 : from_data ? _(data_tip) : _(model_tip));
       gtk_label_set_text (GTK_LABEL (result), verdict);
       lw_gui_set_tooltip (result, tip);
     }
