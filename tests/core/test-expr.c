@@ -301,8 +301,13 @@ same_model (const LwModel *a, const LwModel *b)
 {
   if (a->gain != b->gain || a->n_zeros != b->n_zeros || a->n_poles != b->n_poles)
     return false;
-  return memcmp (a->zeros, b->zeros, a->n_zeros * sizeof *a->zeros) == 0
-         && memcmp (a->poles, b->poles, a->n_poles * sizeof *a->poles) == 0;
+  for (size_t i = 0; i < a->n_zeros; i++)
+    if (memcmp (&a->zeros[i], &b->zeros[i], sizeof a->zeros[i]) != 0)
+      return false;
+  for (size_t i = 0; i < a->n_poles; i++)
+    if (memcmp (&a->poles[i], &b->poles[i], sizeof a->poles[i]) != 0)
+      return false;
+  return true;
 }
 
 /* ---- named parameters ---------------------------------------------------------------------- */
