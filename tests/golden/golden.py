@@ -30,6 +30,7 @@ DOCUMENTS = [
     'data/examples/camera-slider.lwd',
     'data/examples/kiln.lwd',
     'data/examples/pump-pressure.lwd',
+    'data/examples/belt-conveyor.lwd',
     'tests/gui/four-variants.lwd',
 ]
 VIEWS = ['bode-z', 'bode-w', 'nyquist', 'nichols', 'step', 'poles']
