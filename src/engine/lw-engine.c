@@ -443,6 +443,18 @@ plant_key (const LwDesign *d)
   return g_string_free (k, FALSE);
 }
 
+/* The variant's compensator in w and in z at e->period_s; FALSE (both cleared) with err. */
+static gboolean
+build_controller (LwVariantEval *e, const LwDesignVariant *v, LwError *err)
+{
+  if (lw_compensator_w (v->stages, v->n_stages, e->period_s, &e->controller_w, err) == LW_OK
+      && lw_compensator_z (v->stages, v->n_stages, e->period_s, &e->controller_z, err) == LW_OK)
+    return TRUE;
+  g_clear_pointer (&e->controller_w, lw_model_free);
+  g_clear_pointer (&e->controller_z, lw_model_free);
+  return FALSE;
+}
+
 static LwVariantEval *evaluate_on_data_alone (EvalPrivate *p, const LwDesign *d,
                                               const LwDesignVariant *v);
 static void close_on_data (LwVariantEval *e, const LwDesign *d);
@@ -491,14 +503,8 @@ lw_engine_evaluate_variant (const LwDesign *d, size_t variant, const LwEngineOpt
   if (p->shared == NULL)
     return eval_fail (p, LW_EVAL_FAILED_SAMPLING, &err);
   e->sampled = p->shared->plant;
-  if (lw_compensator_w (v->stages, v->n_stages, e->period_s, &e->controller_w, &err) != LW_OK
-      || lw_compensator_z (v->stages, v->n_stages, e->period_s, &e->controller_z, &err)
-           != LW_OK)
-    {
-      g_clear_pointer (&e->controller_w, lw_model_free);
-      g_clear_pointer (&e->controller_z, lw_model_free);
-      return eval_fail (p, LW_EVAL_FAILED_COMPENSATOR, &err);
-    }
+  if (!build_controller (e, v, &err))
+    return eval_fail (p, LW_EVAL_FAILED_COMPENSATOR, &err);
   /* the variant's actuator, unless the caller gives limits of its own */
   LwEngineOptions vo;
   if (opts != NULL)
@@ -535,14 +541,8 @@ evaluate_on_data_alone (EvalPrivate *p, const LwDesign *d, const LwDesignVariant
   LwVariantEval *e = &p->pub;
   LwError err;
   lw_error_clear (&err);
-  if (lw_compensator_w (v->stages, v->n_stages, e->period_s, &e->controller_w, &err) != LW_OK
-      || lw_compensator_z (v->stages, v->n_stages, e->period_s, &e->controller_z, &err)
-           != LW_OK)
-    {
-      g_clear_pointer (&e->controller_w, lw_model_free);
-      g_clear_pointer (&e->controller_z, lw_model_free);
-      return eval_fail (p, LW_EVAL_FAILED_COMPENSATOR, &err);
-    }
+  if (!build_controller (e, v, &err))
+    return eval_fail (p, LW_EVAL_FAILED_COMPENSATOR, &err);
   e->failure = LW_EVAL_NO_MODEL;
   e->error = g_error_new_literal (LW_ENGINE_ERROR, LW_ERR_INVALID,
                                   "the design has no plant model, only the measured response: "
