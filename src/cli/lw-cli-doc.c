@@ -108,26 +108,29 @@ report_eval (const char *variant_place, const char *plant_place, LwVariantEval *
   return status;
 }
 
-int
-lw_cli_doc_evaluate (const char *place, const LwDesign *d, size_t index,
-                     const LwEngineOptions *opts, gboolean strict, LwVariantEval **out)
+static int
+doc_evaluate (const char *place, const LwDesign *d, size_t index, const LwEngineOptions *opts,
+              gboolean strict, gboolean data_alone, LwVariantEval **out)
 {
   g_return_val_if_fail (index < d->n_variants, LW_EXIT_INTERNAL);
   LwVariantEval *e = lw_engine_evaluate_variant (d, index, opts, NULL);
   g_autofree char *vplace = g_strdup_printf ("%s: variant '%s'", place, d->variants[index].name);
   g_autofree char *pplace = g_strdup_printf ("%s: <plant>", place);
-  return report_eval (vplace, pplace, e, strict, TRUE, FALSE, out);
+  return report_eval (vplace, pplace, e, strict, TRUE, data_alone, out);
+}
+
+int
+lw_cli_doc_evaluate (const char *place, const LwDesign *d, size_t index,
+                     const LwEngineOptions *opts, gboolean strict, LwVariantEval **out)
+{
+  return doc_evaluate (place, d, index, opts, strict, FALSE, out);
 }
 
 int
 lw_cli_doc_evaluate_data (const char *place, const LwDesign *d, size_t index,
                           const LwEngineOptions *opts, gboolean strict, LwVariantEval **out)
 {
-  g_return_val_if_fail (index < d->n_variants, LW_EXIT_INTERNAL);
-  LwVariantEval *e = lw_engine_evaluate_variant (d, index, opts, NULL);
-  g_autofree char *vplace = g_strdup_printf ("%s: variant '%s'", place, d->variants[index].name);
-  g_autofree char *pplace = g_strdup_printf ("%s: <plant>", place);
-  return report_eval (vplace, pplace, e, strict, TRUE, TRUE, out);
+  return doc_evaluate (place, d, index, opts, strict, TRUE, out);
 }
 
 int

@@ -64,13 +64,7 @@ lw_cli_measured_doc_analyze (const char *file, const LwDesign *d, const LwVarian
   /* the evaluation's loop on the data, borrowed (the engine closed it with this variant's
    * controller, period, delay and dead time: the same numbers as analyze --measured) */
   LwCliMeasuredLoop ml;
-  memset (&ml, 0, sizeof ml);
-  ml.kind = d->measured_kind;
-  ml.data = d->measured;
-  ml.loop = *e->measured;
-  ml.period_s = e->period_s;
-  ml.compute_delay = e->compute_delay;
-  ml.has_model = lw_design_has_model (d);
+  lw_cli_measured_loop_borrow (&ml, d, e);
   int status = LW_EXIT_OK;
   gboolean data = d->measured_analysis == LW_DESIGN_ANALYSIS_DATA;
   if (status == LW_EXIT_OK && root != NULL)
@@ -176,4 +170,16 @@ lw_cli_measured_doc_check_lines (const LwDesign *d, const LwVariantEval *e)
   printf ("    %-16s %s (Nyquist criterion, %d open-loop unstable pole%s stated): %s\n",
           "closed loop", lw_measured_verdict_name (st->verdict), st->open_loop_unstable,
           st->open_loop_unstable == 1 ? "" : "s", st->note);
+}
+
+void
+lw_cli_measured_loop_borrow (LwCliMeasuredLoop *ml, const LwDesign *d, const LwVariantEval *e)
+{
+  memset (ml, 0, sizeof *ml);
+  ml->kind = d->measured_kind;
+  ml->data = d->measured;
+  ml->loop = *e->measured;
+  ml->period_s = e->period_s;
+  ml->compute_delay = e->compute_delay;
+  ml->has_model = e->ev != NULL;
 }

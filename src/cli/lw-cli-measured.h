@@ -124,6 +124,11 @@ void lw_cli_measured_doc_header (const LwDesign *d, const char *given);
  * (the keys of analyze --measured, plus source, analysis, open_loop_unstable_poles; with
  * analysis="data" the "loop" member becomes the data's), or (root NULL) printed as a section
  * of the text report. Returns the exit status. */
+/* ml borrowing the loop on the document's data that the engine closed in e (e->measured set):
+ * nothing of ml is its own (do not clear it). */
+void lw_cli_measured_loop_borrow (LwCliMeasuredLoop *ml, const LwDesign *d,
+                                  const LwVariantEval *e);
+
 int lw_cli_measured_doc_analyze (const char *file, const LwDesign *d, const LwVariantEval *e,
                                  JsonObject *root);
 

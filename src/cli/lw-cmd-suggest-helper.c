@@ -91,13 +91,7 @@ print_json (const LwDesign *d, const LwProposal *p, gboolean with_doc)
         {
           /* the helper worked on the data: the loop block is the data's, as analyze FILE's */
           LwCliMeasuredLoop ml;
-          memset (&ml, 0, sizeof ml);
-          ml.kind = d->measured_kind;
-          ml.data = d->measured;
-          ml.loop = *e->measured;
-          ml.period_s = e->period_s;
-          ml.compute_delay = e->compute_delay;
-          ml.has_model = e->ev != NULL;
+          lw_cli_measured_loop_borrow (&ml, d, e);
           json_builder_set_member_name (b, "loop");
           lw_cli_measured_json_loop (b, &ml);
           json_builder_set_member_name (b, "stability_on_data");
