@@ -50,3 +50,7 @@ struct LwSampledPlant {
                                (0: never, or not measurable); docs/conventions.md */
   LwModel *model;               /* the sampled plant factored, for display (computed once) */
 };
+
+/* The index i of the interval [x[i], x[i+1]] holding v in the ascending x (n >= 2): the first
+ * interval for v below x[0], the last one for v at or above x[n−1]. */
+size_t lw_interval_of (const double *x, size_t n, double v);

@@ -13,6 +13,7 @@
  *
  * SPDX-License-Identifier: GPL-3.0-or-later
  */
+#include "lw-internal.h"
 #include "lw-measured.h"
 
 #include <math.h>
@@ -42,15 +43,7 @@ typedef struct {
 static double
 ln_mag_at (const double *lw, const double *y, size_t n, double x)
 {
-  size_t lo = 0, hi = n - 1;
-  while (hi - lo > 1)
-    {
-      size_t mid = lo + (hi - lo) / 2;
-      if (lw[mid] <= x)
-        lo = mid;
-      else
-        hi = mid;
-    }
+  size_t lo = lw_interval_of (lw, n, x), hi = lo + 1;
   double t = (x - lw[lo]) / (lw[hi] - lw[lo]);
   return y[lo] + t * (y[hi] - y[lo]);
 }

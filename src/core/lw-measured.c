@@ -4,6 +4,7 @@
  *
  * SPDX-License-Identifier: GPL-3.0-or-later
  */
+#include "lw-internal.h"
 #include "lw-measured.h"
 
 #include "lw-analysis.h"
@@ -103,15 +104,7 @@ lw_measured_loop_at (const double *omega_rad_s, const double complex *l, size_t 
                          "rad/s: the loop on the data is not known there",
                          at_rad_s, omega_rad_s[0], omega_rad_s[n - 1]);
   /* the interval [ω_i, ω_i+1] holding the frequency (the last one for the top point) */
-  size_t lo = 0, hi = n - 1;
-  while (hi - lo > 1)
-    {
-      size_t mid = lo + (hi - lo) / 2;
-      if (omega_rad_s[mid] <= at_rad_s)
-        lo = mid;
-      else
-        hi = mid;
-    }
+  size_t lo = lw_interval_of (omega_rad_s, n, at_rad_s), hi = lo + 1;
   double complex a = l[lo], b = l[hi];
   if (!(cabs (a) > 0.0 && cabs (b) > 0.0 && isfinite (cabs (a)) && isfinite (cabs (b))))
     return lw_error_set (err, LW_ERR_INVALID, -1,
@@ -458,4 +451,19 @@ lw_measured_loop_close (const LwMeasured *m, LwMeasuredKind kind, double period_
   if (ctrl > open_loop_unstable)
     lw_measured_stability_refuse_count (&out->stability, ctrl);
   return LW_OK;
+}
+
+size_t
+lw_interval_of (const double *x, size_t n, double v)
+{
+  size_t lo = 0, hi = n - 1;
+  while (hi - lo > 1)
+    {
+      size_t mid = lo + (hi - lo) / 2;
+      if (x[mid] <= v)
+        lo = mid;
+      else
+        hi = mid;
+    }
+  return lo;
 }
