@@ -45,6 +45,7 @@ static const char *const examples[] = {
   "data/examples/kiln.lwd",
   "data/examples/pump-pressure.lwd",
   "data/examples/belt-conveyor.lwd",
+  "data/examples/camera-slider-fleet.lwd",
 };
 
 static LwDesign *
