@@ -11,6 +11,7 @@
 #include <string.h>
 
 #include "lw-cli-common.h"
+#include "lw-design.h"
 #include "lw-expr.h"
 #include "lw-number.h"
 
@@ -242,6 +243,9 @@ lw_cli_loop_params (const LwCliLoopArgs *a, LwExprParam *out, char **names, size
       names[i] = g_strndup (text, (gsize) (eq - text));
       *n = i + 1;
       const char *bad = lw_expr_param_name_problem (names[i]);
+      if (strcmp (names[i], LW_DESIGN_DEAD_TIME_PARAM) == 0)
+        bad = "the plant's dead time is given with --dead-time (and a range on it with "
+              "--range dead_time_s=LOW:HIGH)";
       if (bad != NULL)
         {
           g_autofree char *shown = g_utf8_make_valid (names[i], -1);

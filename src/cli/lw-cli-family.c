@@ -91,6 +91,15 @@ lw_cli_family_design (const LwCliLoopArgs *loop, const LwCliFamilyArgs *a, const
         if (strcmp (d->params[i].name, name) == 0)
           p = &d->params[i];
       g_autofree char *option = g_strdup_printf ("--range %s", shown);
+      if (p == NULL && strcmp (name, LW_DESIGN_DEAD_TIME_PARAM) == 0)
+        {
+          /* the dead time's range: its nominal is --dead-time */
+          d->params = g_renew (LwDesignParam, d->params, d->n_params + 1);
+          p = &d->params[d->n_params++];
+          memset (p, 0, sizeof *p);
+          p->name = g_strdup (name);
+          p->nominal = d->dead_time_s;
+        }
       if (p == NULL)
         {
           lw_cli_bad_input ("--range", "'%s' names no --param; give its nominal value with "

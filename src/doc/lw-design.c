@@ -358,12 +358,23 @@ lw_design_plant_parse (const LwDesign *d, const double *values, LwModel **out, L
     return lw_error_set (err, LW_ERR_INVALID, -1, "%zu parameters, more than the %d a design "
                          "takes", d->n_params, LW_DESIGN_MAX_PARAMS);
   LwExprParam pr[LW_DESIGN_MAX_PARAMS];
+  size_t n = 0;
   for (size_t i = 0; i < d->n_params; i++)
-    {
-      pr[i].name = d->params[i].name;
-      pr[i].value = values != NULL ? values[i] : d->params[i].nominal;
-    }
-  return lw_expr_parse_params_proper (d->plant, LW_DOMAIN_S, 0.0, pr, d->n_params, out, err);
+    if (strcmp (d->params[i].name, LW_DESIGN_DEAD_TIME_PARAM) != 0)   /* not in the text */
+      {
+        pr[n].name = d->params[i].name;
+        pr[n++].value = values != NULL ? values[i] : d->params[i].nominal;
+      }
+  return lw_expr_parse_params_proper (d->plant, LW_DOMAIN_S, 0.0, pr, n, out, err);
+}
+
+double
+lw_design_dead_time_at (const LwDesign *d, const double *values)
+{
+  for (size_t i = 0; i < d->n_params && values != NULL; i++)
+    if (strcmp (d->params[i].name, LW_DESIGN_DEAD_TIME_PARAM) == 0)
+      return values[i];
+  return d->dead_time_s;
 }
 
 const char *
@@ -413,6 +424,21 @@ lw_design_params_problem (const LwDesign *d, char *buf, size_t size)
             return buf;
           }
       bad = lw_design_param_problem (p);
+      if (bad == NULL && strcmp (p->name, LW_DESIGN_DEAD_TIME_PARAM) == 0)
+        {
+          /* the plant's dead time as a parameter: its nominal is <plant dead_time_s> */
+          if (p->nominal != d->dead_time_s)
+            {
+              g_snprintf (buf, size, "parameter '%s': its nominal value %g s is not the "
+                          "plant's dead time of %g s (dead_time_s of <plant>)", p->name,
+                          p->nominal, d->dead_time_s);
+              return buf;
+            }
+          if (p->ranged && !(p->low >= 0.0))
+            bad = "a dead time cannot be negative";
+          else if (p->ranged && !lw_dead_time_ok (p->high, d->period_s))
+            bad = "its high end is more than 1e6 sample periods";
+        }
       if (bad != NULL)
         {
           g_snprintf (buf, size, "parameter '%s': %s", p->name, bad);

@@ -236,6 +236,14 @@ bool lw_design_has_model (const LwDesign *d);
  * measurement and says analysis="data" (always so without a model). */
 bool lw_design_analysis_on_data (const LwDesign *d);
 
+/* The name of the parameter that stands for the plant's dead time: it is not used in the
+ * plant's text, its nominal is <plant dead_time_s>, and a range on it makes the dead time
+ * vary over a plant family (docs/families.md). */
+#define LW_DESIGN_DEAD_TIME_PARAM "dead_time_s"
+
+/* The dead time (s) with the parameters at values (NULL: the nominals, d->dead_time_s). */
+double lw_design_dead_time_at (const LwDesign *d, const double *values);
+
 /* The plant P(s) with the parameters at values (d->n_params of them in the document's
  * order; NULL: the nominals), proper and not zero; the core's error otherwise. */
 LwStatus lw_design_plant_parse (const LwDesign *d, const double *values, LwModel **out,

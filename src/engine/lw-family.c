@@ -103,7 +103,8 @@ evaluate_member (const Ctx *c, Member *mb)
       member_fail (mb, "the plant", &err);
       return;
     }
-  if (lw_sampled_plant_new (plant, c->d->dead_time_s, c->period_s, &sp, &err) != LW_OK)
+  if (lw_sampled_plant_new (plant, lw_design_dead_time_at (c->d, mb->m.values), c->period_s,
+                           &sp, &err) != LW_OK)
     {
       member_fail (mb, "the sampled plant", &err);
       lw_model_free (plant);

@@ -17,6 +17,8 @@ corner).
 - The worst member, analyzed alone with its parameter values (`--param`), gives the same
   phase margin (1e-9°: the same computation).
 - The minimum is not at a corner here, and the family found it: its K lies inside the range.
+- The dead time as a parameter (--range dead_time_s=LOW:HIGH, nominal --dead-time): the worst
+  member alone reproduces its phase margin.
 - Bad --range input is refused naming the option.
 
 Usage: test-cli-family.py CLI
@@ -101,6 +103,23 @@ def main():
           % (alone, ours))
     check(fam['members'] >= 1 + 4 + 60 and fam['corners'] == 4, 'members and corners: %s'
           % {k: fam[k] for k in ('members', 'corners')})
+
+    # the dead time as a family's parameter: its nominal is --dead-time; the worst member
+    # analyzed alone with that dead time gives the same phase margin (the kiln-like loop of
+    # the golden tests, an invented one)
+    kiln = ['--plant', '0.8/((120*s+1)*(15*s+1))', '--period', '2', '--controller',
+            '3*(w+0.02)/w']
+    dfam = json_of(cli, 'analyze', *kiln, '--dead-time', '7', '--range', 'dead_time_s=4:12',
+                   '--members', '20', '--json')['family']
+    worst_dead = dfam['worst_member']['dead_time_s']
+    alone = json_of(cli, 'analyze', *kiln, '--dead-time', repr(worst_dead),
+                    '--json')['loop']['phase_margin_deg']
+    check(abs(alone - dfam['worst_phase_margin_deg']) <= 1e-9 and 4 <= worst_dead <= 12,
+          'a dead-time family: worst %.9f at %r, alone %.9f'
+          % (dfam['worst_phase_margin_deg'], worst_dead, alone))
+    r = run(cli, 'analyze', *kiln, '--param', 'dead_time_s=3')
+    check(r.returncode == 2 and 'given with --dead-time' in r.stderr,
+          '--param dead_time_s refused: %s' % r.stderr.strip())
 
     # refusals
     for args, words in ((['--range', 'b=1:2'], "'b=1:2' names no --param"),
