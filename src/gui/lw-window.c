@@ -71,8 +71,8 @@ ref_eval_free (gpointer data)
   g_free (r);
 }
 
-/* What the evaluation of variant i depends on: the shared plant and sampling, its own period
- * (or the design's), its stages. */
+/* What the evaluation of variant i depends on: the shared plant (with its parameters) and
+ * sampling, the measured response, its own period (or the design's), its stages. */
 static GBytes *
 variant_key (const LwDesign *d, guint i)
 {
@@ -83,6 +83,30 @@ variant_key (const LwDesign *d, guint i)
   g_byte_array_append (b, (const guint8 *) &d->dead_time_s, sizeof d->dead_time_s);
   g_byte_array_append (b, (const guint8 *) &period_s, sizeof period_s);
   g_byte_array_append (b, (const guint8 *) &d->compute_delay, sizeof d->compute_delay);
+  /* the plant's parameters (their values make the plant) */
+  for (size_t k = 0; k < d->n_params; k++)
+    {
+      g_byte_array_append (b, (const guint8 *) d->params[k].name,
+                           (guint) strlen (d->params[k].name) + 1);
+      g_byte_array_append (b, (const guint8 *) &d->params[k].nominal, sizeof (double));
+    }
+  /* the measurement the loop is also closed on, and how it is judged: its size, kind and
+   * choices and a few of its values (a table is never edited in place: each import makes a
+   * new one) */
+  if (d->measured != NULL && d->measured->n > 0)
+    {
+      const LwMeasured *m = d->measured;
+      const int tag[3] = { (int) d->measured_kind, (int) d->measured_analysis,
+                           d->measured_unstable_poles };
+      const size_t at[3] = { 0, m->n / 2, m->n - 1 };
+      g_byte_array_append (b, (const guint8 *) &m->n, sizeof m->n);
+      g_byte_array_append (b, (const guint8 *) tag, sizeof tag);
+      for (int k = 0; k < 3; k++)
+        {
+          g_byte_array_append (b, (const guint8 *) &m->omega_rad_s[at[k]], sizeof (double));
+          g_byte_array_append (b, (const guint8 *) &m->h[at[k]], sizeof m->h[0]);
+        }
+    }
   if (v->n_stages > 0)
     g_byte_array_append (b, (const guint8 *) v->stages, (guint) (v->n_stages * sizeof *v->stages));
   return g_byte_array_free_to_bytes (b);
