@@ -17,6 +17,7 @@ struct _LwRequirementsPanel
 
   GtkGrid *req_grid;
   GtkGrid *figure_grid;
+  GtkLabel *family_label;
 
   LwDesignModel *model;
   GSignalGroup *model_signals;   /* the model's signals, following self->model */
@@ -583,6 +584,80 @@ lw_requirements_panel_show_eval (LwRequirementsPanel *self, LwVariantEval *eval)
   show_figures (self, eval);
 }
 
+/* "K = 150, wn = 225" of a member (the parameters with a range only) */
+static void
+append_member (GString *t, const LwFamily *f, const LwDesign *d, size_t index)
+{
+  if (index >= f->n_members)
+    return;
+  gboolean first = TRUE;
+  for (size_t i = 0; i < f->n_params && i < d->n_params; i++)
+    if (d->params[i].ranged)
+      {
+        g_string_append_printf (t, "%s%s = %.4g", first ? " (" : ", ", f->names[i],
+                                f->members[index].values[i]);
+        first = FALSE;
+      }
+  if (!first)
+    g_string_append_c (t, ')');
+}
+
+void
+lw_requirements_panel_show_family (LwRequirementsPanel *self, const LwFamily *family,
+                                   const LwDesign *d, const GError *error, gboolean stale)
+{
+  g_return_if_fail (LW_IS_REQUIREMENTS_PANEL (self));
+  GtkWidget *label = GTK_WIDGET (self->family_label);
+  if (stale)
+    {
+      /* a drag: the family is evaluated again when it ends */
+      if (gtk_widget_get_visible (label))
+        gtk_widget_add_css_class (label, "dim-label");
+      return;
+    }
+  gtk_widget_remove_css_class (label, "dim-label");
+  if (family == NULL && error == NULL)
+    {
+      gtk_widget_set_visible (label, FALSE);
+      return;
+    }
+  g_autoptr (GString) t = g_string_new (NULL);
+  if (family == NULL)
+    g_string_append_printf (t, _("Plant family: not evaluated: %s"), error->message);
+  else
+    {
+      g_string_append_printf (t, _("Plant family: %zu members"), family->n_members);
+      if (family->n_unstable > 0)
+        g_string_append_printf (t, _(", %zu with the loop NOT stable"), family->n_unstable);
+      const LwFamilyFigure shown[] = { LW_FAMILY_PHASE_MARGIN, LW_FAMILY_GAIN_MARGIN,
+                                       LW_FAMILY_SENSITIVITY };
+      for (size_t k = 0; k < G_N_ELEMENTS (shown); k++)
+        {
+          size_t w = family->worst[shown[k]];
+          if (w == G_MAXSIZE)
+            continue;
+          double v = family->members[w].figure[shown[k]];
+          g_string_append_c (t, '\n');
+          if (shown[k] == LW_FAMILY_PHASE_MARGIN)
+            g_string_append_printf (t, _("worst phase margin %.4g°"), v);
+          else if (shown[k] == LW_FAMILY_GAIN_MARGIN)
+            g_string_append_printf (t, _("worst gain margin %.4g dB"), v);
+          else
+            g_string_append_printf (t, _("worst sensitivity peak %.4g"), v);
+          append_member (t, family, d, w);
+        }
+      if (family->n_requirements > 0)
+        {
+          g_string_append_c (t, '\n');
+          g_string_append_printf (t, _("%zu of %zu requirements pass on every member"),
+                                  family->n_requirements - family->n_not_passing,
+                                  family->n_requirements);
+        }
+    }
+  gtk_label_set_text (self->family_label, t->str);
+  gtk_widget_set_visible (label, TRUE);
+}
+
 static void
 add_activated (GtkWidget *widget, const char *action, GVariant *param)
 {
@@ -625,6 +700,7 @@ lw_requirements_panel_class_init (LwRequirementsPanelClass *klass)
     widget_class, "/org/loopwright/Designer/ui/lw-requirements-panel.ui");
   gtk_widget_class_bind_template_child (widget_class, LwRequirementsPanel, req_grid);
   gtk_widget_class_bind_template_child (widget_class, LwRequirementsPanel, figure_grid);
+  gtk_widget_class_bind_template_child (widget_class, LwRequirementsPanel, family_label);
   gtk_widget_class_install_action (widget_class, "requirements.add", "s", add_activated);
   gtk_widget_class_set_layout_manager_type (widget_class, GTK_TYPE_BIN_LAYOUT);
 }

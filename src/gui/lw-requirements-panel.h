@@ -9,6 +9,8 @@
 
 #include <gtk/gtk.h>
 
+#include "lw-family.h"
+
 #include "lw-design-model.h"
 
 G_BEGIN_DECLS
@@ -19,5 +21,15 @@ G_DECLARE_FINAL_TYPE (LwRequirementsPanel, lw_requirements_panel, LW, REQUIREMEN
 
 void lw_requirements_panel_set_model (LwRequirementsPanel *self, LwDesignModel *model);
 void lw_requirements_panel_show_eval (LwRequirementsPanel *self, LwVariantEval *eval);
+
+/* The plant family of the active variant (lw-family.h) under the loop figures: its members,
+ * the worst phase and gain margin and sensitivity peak with the members giving them, and how
+ * many requirements pass on every member. family NULL with error: it could not be evaluated;
+ * NULL without error and stale FALSE: the design has no family (nothing shown); stale TRUE:
+ * a drag is on, the last family shown stays, marked as from before it. d is the document the
+ * family was evaluated from. */
+void lw_requirements_panel_show_family (LwRequirementsPanel *self, const LwFamily *family,
+                                        const LwDesign *d, const GError *error,
+                                        gboolean stale);
 
 G_END_DECLS

@@ -26,6 +26,7 @@
 #include <glib/gstdio.h>
 
 #include "lw-design.h"
+#include "lw-family.h"
 #include "lw-figure-data.h"
 #include "lw-number-field.h"
 #include "lw-window-private.h"
@@ -247,6 +248,10 @@ typedef struct
   char *name[LW_PLOT_MAX_VARIANTS];
   GBytes *key[LW_PLOT_MAX_VARIANTS];
   LwVariantEval *result[LW_PLOT_MAX_VARIANTS];
+  /* the active variant's plant family (the design's ranged parameters), not during a drag */
+  gboolean want_family;
+  LwFamily *family;
+  GError *family_error;
 } EvalJob;
 
 static void
@@ -259,6 +264,8 @@ eval_job_free (gpointer data)
       g_clear_pointer (&job->key[k], g_bytes_unref);
       g_clear_pointer (&job->result[k], lw_variant_eval_unref);
     }
+  g_clear_pointer (&job->family, lw_family_free);
+  g_clear_error (&job->family_error);
   lw_plant_cache_unref (job->cache);
   lw_design_free (job->doc);
   g_free (job);
@@ -274,6 +281,8 @@ eval_job_new (LwWindow *self)
   job->generation = ++self->eval_generation;
   /* during a drag: about as many frequency points as a plot has pixels across */
   job->n_points = self->dragging ? DRAG_POINTS : 0;
+  for (size_t k = 0; k < d->n_params && !self->dragging; k++)
+    job->want_family = job->want_family || d->params[k].ranged;
   job->index[job->n++] = (guint) d->active;
   for (guint i = 0; i < d->n_variants && job->n < LW_PLOT_MAX_VARIANTS; i++)
     {
@@ -303,6 +312,10 @@ eval_job_run (EvalJob *job)
       opts.disturbances = TRUE;   /* for the disturbance view, wherever a pane shows it */
       job->result[k] = lw_engine_evaluate_variant (job->doc, job->index[k], &opts, job->cache);
     }
+  /* the family of a design whose nominal evaluates (docs/families.md: the window's members
+   * are the default sample) */
+  if (job->want_family && job->n > 0 && job->result[0]->ev != NULL)
+    job->family = lw_family_evaluate (job->doc, job->index[0], NULL, &job->family_error);
 }
 
 /* Shows a finished job's results, unless a newer one is on show already. */
@@ -320,6 +333,26 @@ eval_job_show (LwWindow *self, EvalJob *job)
       g_hash_table_replace (self->ref_evals, g_strdup (job->name[k]), r);
     }
   show_eval (self, g_steal_pointer (&job->result[0]));
+  /* the family: a new one after an evaluation that made one; during a drag the last one
+   * stays, said to be from before the drag */
+  const LwDesign *d = lw_design_model_get_design (self->model);
+  gboolean ranged = FALSE;
+  for (size_t k = 0; k < d->n_params; k++)
+    ranged = ranged || d->params[k].ranged;
+  if (!ranged || job->want_family)
+    lw_requirements_panel_show_family (self->requirements_panel, job->family, job->doc,
+                                       job->family_error, FALSE);
+  else
+    lw_requirements_panel_show_family (self->requirements_panel, NULL, NULL, NULL, TRUE);
+  if (self->debug && job->family != NULL)
+    {
+      const LwFamily *f = job->family;
+      size_t w = f->worst[LW_FAMILY_PHASE_MARGIN];
+      printf ("LW-FAMILY members=%zu failing=%zu worst_pm=%.17g\n", f->n_members,
+              f->n_not_passing,
+              w != G_MAXSIZE ? f->members[w].figure[LW_FAMILY_PHASE_MARGIN] : NAN);
+      fflush (stdout);
+    }
 }
 
 static void

@@ -1,0 +1,83 @@
+#!/usr/bin/python3
+"""A design with a plant family shows the family's worst cases in the window: the fleet
+example (camera slider over payload and belt ranges, data/examples/camera-slider-fleet.lwd)
+opens with the family evaluated on the worker thread, and its debug line LW-FAMILY gives the
+members, the requirements failing on some member and the worst phase margin — equal to
+`loopwright-cli analyze FILE --json`'s family (the same engine function, the same default
+members and seed: the worst phase margin to 1e-9°, the counts exactly). The robust variant passes on
+every member. A screenshot of the panel goes to ARTEFACT_DIR/family.png.
+
+Usage: test-family.py LOOPWRIGHT CLI SCHEMA_DIR EXAMPLE ARTEFACT_DIR
+Re-runs itself on an Xvfb server of its own (lwgui.outer; exit 77, skipped, when Xvfb or
+xdotool is missing).
+"""
+import json
+import os
+import shutil
+import subprocess
+import sys
+import tempfile
+
+sys.path.insert(0, os.path.dirname(os.path.abspath(__file__)))
+from lwgui import (debug_lines, fail, kill_window, outer, quit_window,  # noqa: E402
+                   settle, start_window, wait_for, window_env)
+
+
+def family_lines(log_path):
+    return list(debug_lines(log_path, 'LW-FAMILY'))
+
+
+def inner(app, cli, schema_dir, example, artefacts):
+    os.makedirs(artefacts, exist_ok=True)
+    tmp = tempfile.mkdtemp(prefix='lw-test-family-')
+    try:
+        fleet = os.path.join(os.path.dirname(example), 'camera-slider-fleet.lwd')
+        doc = os.path.join(tmp, 'fleet.lwd')
+        shutil.copyfile(fleet, doc)
+        r = subprocess.run([cli, 'analyze', doc, '--json'], capture_output=True, text=True)
+        if r.returncode != 0:
+            fail('analyze: %s' % r.stderr)
+        fam = json.loads(r.stdout)['family']
+        failing = sum(1 for q in fam['requirements'] if q['status'] != 'pass')
+        log_path = os.path.join(artefacts, 'family.log')
+        with open(log_path, 'w') as log_file:
+            proc, wid = start_window(app, doc, window_env(schema_dir, tmp), log_file)
+            try:
+                wait_for(lambda: len(family_lines(log_path)) > 0, 'the family evaluated')
+                settle(log_path)
+                line = family_lines(log_path)[-1]
+                got = float(line['worst_pm'])
+                print('window: %s; analyze: members %d, failing %d, worst %.12f'
+                      % (line, fam['members'], failing, fam['worst_phase_margin_deg']))
+                if int(line['members']) != fam['members'] or int(line['failing']) != failing:
+                    fail('members or failing requirements differ from analyze: %s' % line)
+                if abs(got - fam['worst_phase_margin_deg']) > 1e-9:
+                    fail('worst phase margin %.12f, analyze %.12f'
+                         % (got, fam['worst_phase_margin_deg']))
+                if failing != 0:
+                    fail('the robust variant fails on some member: %d' % failing)
+                subprocess.run(['xdotool', 'mousemove', '--window', str(wid), '250', '700'],
+                               check=False)
+                for _ in range(30):
+                    subprocess.run(['xdotool', 'click', '5'], check=False)
+                subprocess.run(['import', '-window', 'root',
+                                os.path.join(artefacts, 'family.png')], check=False)
+                quit_window(proc, wid)
+            finally:
+                kill_window(proc)
+    finally:
+        shutil.rmtree(tmp, ignore_errors=True)
+    print('ok: the window\'s family equals analyze\'s')
+
+
+def main():
+    if len(sys.argv) != 6:
+        print(__doc__, file=sys.stderr)
+        sys.exit(2)
+    if os.environ.get('LW_TEST_FAMILY_INNER') != '1':
+        outer(__file__, 'LW_TEST_FAMILY_INNER', sys.argv[1:])
+    inner(*sys.argv[1:])
+
+
+if __name__ == '__main__':
+    main()
