@@ -21,6 +21,7 @@
 
 #include "lw-design.h"
 #include "lw-engine.h"
+#include "lw-family.h"
 
 int LLVMFuzzerTestOneInput (const uint8_t *data, size_t size);
 
@@ -77,6 +78,50 @@ check_eval (const LwVariantEval *e)
         bad ("a stable loop's simulated step not finite", (double) k, e->sim_ref->y[k]);
 }
 
+/* A design with ranged parameters: a small family (the nominal, the corners, 3 drawn, the
+ * search on) evaluates without a crash, its worst figures are figures of its members, and the
+ * nominal is its first member. */
+static void
+check_family (const LwDesign *d)
+{
+  gboolean ranged = FALSE;
+  for (size_t i = 0; i < d->n_params; i++)
+    ranged = ranged || d->params[i].ranged;
+  if (!ranged || !lw_design_has_model (d))
+    return;
+  LwFamilyOptions o;
+  lw_family_options_init (&o);
+  o.members = 3;
+  o.threads = 1;
+  o.n_points = 200;
+  GError *error = NULL;
+  LwFamily *f = lw_family_evaluate (d, d->active, &o, &error);
+  if (f == NULL)
+    {
+      if (error == NULL || error->message[0] == '\0')
+        bad ("a family refused without a message", 0, 0);
+      g_clear_error (&error);
+      return;
+    }
+  if (f->n_members < 1 || f->members[0].origin != LW_FAMILY_NOMINAL)
+    bad ("the nominal is not the family's first member", (double) f->n_members, 0);
+  for (int k = 0; k < LW_FAMILY_N_FIGURES; k++)
+    {
+      size_t w = f->worst[k];
+      if (w == G_MAXSIZE)
+        continue;
+      if (w >= f->n_members || !f->members[w].evaluated || !f->members[w].has[k])
+        bad ("a worst figure from no evaluated member", (double) w, k);
+      for (size_t i = 0; i < f->n_members; i++)
+        if (f->members[i].evaluated && f->members[i].has[k]
+            && lw_family_worse ((LwFamilyFigure) k, f->members[i].figure[k],
+                                f->members[w].figure[k]))
+          bad ("a member worse than the worst", f->members[i].figure[k],
+               f->members[w].figure[k]);
+    }
+  lw_family_free (f);
+}
+
 int
 LLVMFuzzerTestOneInput (const uint8_t *data, size_t size)
 {
@@ -97,6 +142,7 @@ LLVMFuzzerTestOneInput (const uint8_t *data, size_t size)
       lw_variant_eval_unref (e);
     }
   lw_plant_cache_unref (cache);
+  check_family (d);
   lw_design_free (d);
   return 0;
 }
