@@ -18,14 +18,21 @@
 
 int LLVMFuzzerTestOneInput (const uint8_t *data, size_t size);
 
+/* named parameters the text may use (lw_expr_parse_params); with them, one the text does not
+ * use is refused, which the checks below take as any other refusal */
+static const LwExprParam params[] = { { "K", 2.5 }, { "wn", 120.0 }, { "zeta_1", 0.05 },
+                                      { "a0", 0.0 } };
+
 static void
 check (const char *text, LwDomain domain, double period_s, int proper)
 {
   LwModel *m = NULL;
   LwError err;
   lw_error_clear (&err);
-  LwStatus st = proper ? lw_expr_parse_proper (text, domain, period_s, &m, &err)
-                       : lw_expr_parse (text, domain, period_s, &m, &err);
+  LwStatus st = proper == 2 ? lw_expr_parse_params_proper (text, domain, period_s, params, 4,
+                                                           &m, &err)
+                : proper ? lw_expr_parse_proper (text, domain, period_s, &m, &err)
+                         : lw_expr_parse (text, domain, period_s, &m, &err);
   if (st == LW_OK)
     {
       if (m == NULL || m->n_zeros > LW_MAX_DEGREE || m->n_poles > LW_MAX_DEGREE
@@ -60,6 +67,7 @@ LLVMFuzzerTestOneInput (const uint8_t *data, size_t size)
   check (text, LW_DOMAIN_S, 0.0, 1);
   check (text, LW_DOMAIN_Z, 0.01, 1);
   check (text, LW_DOMAIN_W, 0.01, 0);
+  check (text, LW_DOMAIN_S, 0.0, 2);
   free (text);
   return 0;
 }
