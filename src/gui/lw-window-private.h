@@ -61,6 +61,8 @@ struct _LwWindow
   gboolean eval_running;        /* a worker is evaluating */
   gboolean eval_again;          /* an edit came meanwhile: evaluate again when it ends */
   GCancellable *eval_cancel;    /* cancelled when the window goes */
+  gboolean family_running;      /* a plant family is being evaluated (lw-window.c) */
+  gpointer family_pending;      /* the newest family asked for meanwhile (FamilyJob), or NULL */
   gboolean one_column;
 
   /* file and unsaved state */
