@@ -541,8 +541,6 @@ lw_load_read_design (Reader *r, const xmlNode *root)
     }
   if (!no_model && !lw_load_check_plant (r, plant_el, d))
     return NULL;
-  if (!check_parameter_ranges (r, plant_el, d))
-    return NULL;
 
   /* <sampling period_s="…" hold="zero-order" compute_delay_samples="…"/> */
   if (!lw_load_is_element (c, "sampling"))
@@ -572,6 +570,10 @@ lw_load_read_design (Reader *r, const xmlNode *root)
                      delay), NULL;
       d->compute_delay = (int) n;
     }
+  /* the parameters' ranges, now that the period is known (a dead time's range is counted in
+   * sample periods) */
+  if (!check_parameter_ranges (r, plant_el, d))
+    return NULL;
   c = lw_load_next_element (r, root, c->next);
   if (r->error != NULL)
     return NULL;

@@ -228,6 +228,22 @@ lw_design_model_set_dead_time_s (LwDesignModel *self, double dead_time_s)
   if (self->doc->dead_time_s == dead_time_s)
     return;
   self->doc->dead_time_s = dead_time_s;
+  /* a family's dead-time parameter has the plant's dead time as its nominal; its range is
+   * stretched to hold a nominal moved beyond it (docs/families.md) */
+  for (size_t i = 0; i < self->doc->n_params; i++)
+    {
+      LwDesignParam *p = &self->doc->params[i];
+      if (strcmp (p->name, LW_DESIGN_DEAD_TIME_PARAM) != 0)
+        continue;
+      p->nominal = dead_time_s;
+      if (p->ranged)
+        {
+          p->low = MIN (p->low, dead_time_s);
+          p->high = MAX (p->high, dead_time_s);
+          if (p->low == p->high)
+            p->ranged = false;   /* a range of one value is no range */
+        }
+    }
   lw_design_model_emit_changed (self);
 }
 

@@ -151,6 +151,50 @@ test_notify (void **state)
   g_object_unref (m);
 }
 
+/* The dead-time field of a design whose dead time is a family's parameter: the parameter's
+ * nominal follows, a range that would not hold it is stretched to it, and what is saved
+ * still loads (lw_design_validate); one undo gives the document back. */
+static void
+test_dead_time_parameter (void **state)
+{
+  (void) state;
+  static const char doc[] =
+    "<?xml version=\"1.0\" encoding=\"UTF-8\"?>\n"
+    "<design xmlns=\"urn:loopwright:design\" version=\"1\">\n"
+    "  <title>t</title>\n"
+    "  <plant dead_time_s=\"0.01\">K/(s*(s+2))</plant>\n"
+    "  <parameters>\n"
+    "    <parameter name=\"K\" nominal=\"3\"/>\n"
+    "    <parameter name=\"dead_time_s\" nominal=\"0.01\" low=\"0.005\" high=\"0.02\"/>\n"
+    "  </parameters>\n"
+    "  <sampling period_s=\"0.01\" hold=\"zero-order\" compute_delay_samples=\"1\"/>\n"
+    "  <variants active=\"a\">\n    <variant name=\"a\"/>\n  </variants>\n"
+    "</design>\n";
+  GError *error = NULL;
+  LwDesign *d = lw_design_load_data (doc, sizeof doc - 1, "t.lwd", &error);
+  assert_non_null (d);
+  LwDesignModel *m = lw_design_model_new (d);
+  LwHistory *h = lw_history_new (m, 200, MERGE_MS);
+  char *t0 = text_of (m);
+  lw_design_model_set_dead_time_s (m, 0.03);
+  let_merge ();
+  const LwDesign *e = lw_design_model_get_design (m);
+  const LwDesignParam *p = &e->params[1];
+  assert_true (p->nominal == 0.03 && p->ranged && p->low == 0.005 && p->high == 0.03);
+  assert_true (lw_design_validate (e, &error));
+  lw_design_model_set_dead_time_s (m, 0.007);   /* inside: the range stays */
+  let_merge ();
+  p = &lw_design_model_get_design (m)->params[1];
+  assert_true (p->nominal == 0.007 && p->low == 0.005 && p->high == 0.03);
+  assert_true (lw_history_undo (h) && lw_history_undo (h));
+  char *t1 = text_of (m);
+  assert_string_equal (t1, t0);
+  g_free (t0);
+  g_free (t1);
+  g_object_unref (h);
+  g_object_unref (m);
+}
+
 int
 main (void)
 {
@@ -159,6 +203,7 @@ main (void)
     cmocka_unit_test (test_hold),
     cmocka_unit_test (test_depth),
     cmocka_unit_test (test_notify),
+    cmocka_unit_test (test_dead_time_parameter),
   };
   return cmocka_run_group_tests (tests, NULL, NULL);
 }
