@@ -45,6 +45,8 @@ lwp_family_worst_label (Panel *pn, size_t v, double x, double y, double pm_deg)
     lwp_format_margin (buf, sizeof buf, "worst PM", pm_deg, "\u00b0");
   else
     snprintf (buf, sizeof buf, "worst PM");
-  /* placed with the margin labels, off the others */
+  /* a small ring where the worst member crosses, the label placed with the margin labels,
+   * off the others (with a leader line when moved far) */
+  lwp_style_variant (lwp_add_mark (pn, x, y, MARK_CIRCLE, 6), v, 1.0);
   lwp_margin_label (pn, x, y, buf, 6, 4, 0.0, 0.0, v);
 }

@@ -257,11 +257,11 @@ void lwp_add_phase_references (Panel *pn, const LwPlotAxis *a, bool vertical);
 
 /* ---- plant families (lw-plot-family.c) ------------------------------------------------- */
 
-/* Line width and opacity of a family member's curve; the worst phase margin's member is drawn
- * dashed at FAMILY_WORST_WIDTH, nearly opaque. */
-#define FAMILY_WIDTH 0.8
+/* Opacity of a family member's curve (widths in lw-plot.h); the worst phase margin's member
+ * nearly opaque. */
+#define FAMILY_WIDTH LW_PLOT_FAMILY_WIDTH
 #define FAMILY_ALPHA 0.28
-#define FAMILY_WORST_WIDTH 1.3
+#define FAMILY_WORST_WIDTH LW_PLOT_FAMILY_WORST_WIDTH
 #define FAMILY_WORST_ALPHA 0.85
 
 /* The variant of `in` whose family is drawn (the first with one of at least one member), or
@@ -271,7 +271,7 @@ size_t lwp_family_key (LwPlot *pl, const LwPlotInput *in);
  * worst member's style when worst); added before the variant's own curves, so under them. */
 Prim *lwp_family_line (Panel *pn, size_t v, size_t n, const double *x, const double *y,
                        bool worst);
-/* The small label of the worst member, at (x, y) in data units of pn. */
+/* The worst member marked at (x, y) in data units of pn (its crossover) and labelled. */
 void lwp_family_worst_label (Panel *pn, size_t v, double x, double y, double pm_deg);
 
 /* ---- the view table (lw-plot-view.c) and the builders (lw-plot-view-NAME.c) ----------- */

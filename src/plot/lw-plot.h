@@ -50,6 +50,10 @@ extern "C" {
 /* Line width of every curve of a variant (and its legend sample): no other stroke uses it, so
  * exported SVG curves can be told apart from grid and annotations. */
 #define LW_PLOT_CURVE_WIDTH 1.75
+/* Line widths of a plant family's member curves and of its worst phase margin's member
+ * (dashed), and of the family's key sample: no other stroke of the frequency views uses them. */
+#define LW_PLOT_FAMILY_WIDTH 0.85
+#define LW_PLOT_FAMILY_WORST_WIDTH 1.35
 
 typedef enum {
   LW_PLOT_THEME_LIGHT = 0,
