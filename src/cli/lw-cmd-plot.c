@@ -10,6 +10,7 @@
 #include "config.h"
 
 #include <math.h>
+#include <stdint.h>
 #include <stdio.h>
 #include <string.h>
 
@@ -19,6 +20,7 @@
 #include "lw-cli-measured.h"
 #include "lw-figure-measured.h"
 #include "lw-figure-data.h"
+#include "lw-cli-family.h"
 #include "lw-plot-export.h"
 #include "lw-plot.h"
 
@@ -57,6 +59,11 @@ static const char plot_help_tail[] =
   "                           (repeat for each; e.g. --plant 'K/(s*(s+a))' --param K=40\n"
   "                           --param a=8)\n"
   LW_CLI_MEASURED_HELP
+  "  --members N              a document with ranged parameters: members drawn over the\n"
+  "                           ranges, 0 to 100000 (default 100), besides the nominal and\n"
+  "                           the corners; the worst of each margin and up to 40 others\n"
+  "                           are drawn under the variant's curve (Bode, Nyquist, Nichols)\n"
+  "  --seed N                 seed of the drawn members, a whole number (default 1)\n"
   "  --variant NAME           the variant of FILE.lwd to draw (default: the active one)\n"
   "  --all-variants           every variant of FILE.lwd, overlaid\n"
   "  --compared               the active variant of FILE.lwd and those marked compared\n"
@@ -88,6 +95,7 @@ typedef struct
 {
   LwCliLoopArgs loop;
   LwCliMeasuredArgs measured;
+  LwCliFamilyArgs family;
   char *view, *out, *size, *theme, *title, *name, *target, *min_pm, *pdf_date, *points, *steps;
   char *phase_range, *nyquist_scale;
   char **files;
@@ -124,6 +132,9 @@ typedef struct
   const LwDesign *design;   /* its requirements are marked too (the options win); or NULL */
   bool has_min_pm;  double min_pm_deg;
   const char *pdf_date;
+  /* a plant family drawn with the variant at index family_of of the figure's, or NULL */
+  const LwPlotFamily *family;
+  size_t family_of;
 } PlotSpec;
 
 static bool
@@ -301,6 +312,8 @@ plot_write (const PlotSpec *s, const PlotVariantSource *src, size_t n, const LwP
         }
       pv[filled] = fv[filled].v;
       pv[filled].style = n > 1 ? src[filled].style : 0;   /* one variant: the first colour */
+      if (s->family != NULL && filled == s->family_of)
+        pv[filled].family = s->family;
     }
   if (extra != NULL)
     {
@@ -405,6 +418,47 @@ plot_doc_measured (const char *path, const LwDesign *d, const LwVariantEval *e,
   return LW_EXIT_OK;
 }
 
+/* The views a plant family is drawn in (its members' loop frequency responses). */
+static bool
+plot_family_view (LwPlotView v)
+{
+  return v == LW_PLOT_VIEW_BODE_Z || v == LW_PLOT_VIEW_BODE_W || v == LW_PLOT_VIEW_NYQUIST
+         || v == LW_PLOT_VIEW_NICHOLS;
+}
+
+/* The family of variant `variant` of d (--members, --seed) and the loops of the members
+ * drawn, into *ff for the figure. */
+static int
+plot_family (const char *path, const LwDesign *d, size_t variant, const LwCliFamilyArgs *fa,
+             LwFamily **family, LwFamilyLoops **loops, LwFigureFamily *ff)
+{
+  if (fa->ranges != NULL && fa->ranges[0] != NULL)
+    {
+      lw_cli_bad_input ("--range", "not with a design document: its <parameters> give the "
+                        "ranges");
+      return LW_EXIT_BAD_INPUT;
+    }
+  LwFamilyOptions fo;
+  int status = lw_cli_family_options (fa, &fo);
+  if (status != LW_EXIT_OK)
+    return status;
+  g_autoptr (GError) error = NULL;
+  *family = lw_family_evaluate (d, variant, &fo, &error);
+  if (*family == NULL)
+    {
+      lw_cli_bad_input (path, "the plant family: %s", error->message);
+      return LW_EXIT_BAD_INPUT;
+    }
+  const LwFamily *f = *family;
+  *loops = lw_family_loops (d, variant, f, LW_FAMILY_LOOPS_OTHERS, 0);
+  const LwFamilyLoops *l = *loops;
+  size_t w = f->worst[LW_FAMILY_PHASE_MARGIN];
+  lw_figure_family_fill (ff, f->n_members, l->n, l->plant, l->ev,
+                         l->worst_pm != G_MAXSIZE ? l->worst_pm : SIZE_MAX,
+                         w != G_MAXSIZE ? f->members[w].figure[LW_FAMILY_PHASE_MARGIN] : NAN);
+  return LW_EXIT_OK;
+}
+
 /* The variants of a design document, overlaid. */
 static int
 plot_run_document (const PlotArgs *a)
@@ -474,6 +528,9 @@ plot_run_document (const PlotArgs *a)
   LwVariantEval *e[LW_PLOT_MAX_VARIANTS] = { NULL };
   PlotVariantSource src[LW_PLOT_MAX_VARIANTS] = { { 0 } };
   size_t built = 0, n_model = 0, with_data = 0;
+  LwFamily *family = NULL;
+  LwFamilyLoops *loops = NULL;
+  LwFigureFamily ffam = { 0 };
   for (; built < n; built++)
     {
       /* a design without a plant model is drawn on its data alone */
@@ -488,6 +545,22 @@ plot_run_document (const PlotArgs *a)
                                              e[built]->ev,
                                              (unsigned) (which[built] % LW_PLOT_MAX_VARIANTS)
                                              + 1, e[built] };
+    }
+  /* a plant family: the members' loops drawn under the first model variant's curves */
+  if (n_model > 0 && plot_family_view (spec.view) && lw_cli_family_wanted (&a->family, d))
+    {
+      size_t variant = which[0];
+      for (size_t i = 0; i < n; i++)
+        if (e[i]->ev != NULL)
+          {
+            variant = which[i];
+            break;
+          }
+      status = plot_family (path, d, variant, &a->family, &family, &loops, &ffam);
+      if (status != LW_EXIT_OK)
+        goto out;
+      spec.family = &ffam.f;
+      spec.family_of = 0;
     }
   /* the document's measurement, closed by the loop of the active variant when it is drawn
    * (else the first drawn), in the frequency views, as the window draws it */
@@ -507,6 +580,9 @@ plot_run_document (const PlotArgs *a)
   if (has_fig)
     lw_figure_measured_clear (&fig);
 out:
+  lw_figure_family_clear (&ffam);
+  lw_family_loops_free (loops);
+  lw_family_free (family);
   for (size_t i = 0; i < built; i++)
     lw_variant_eval_unref (e[i]);
   return status;
@@ -612,6 +688,7 @@ lw_cmd_plot (int argc, char **argv)
   const GOptionEntry entries[] = {
     LW_CLI_LOOP_ENTRIES (&a.loop),
     LW_CLI_MEASURED_ENTRIES (&a.measured),
+    LW_CLI_FAMILY_ENTRIES (&a.family),
     { "view", 0, 0, G_OPTION_ARG_STRING, &a.view, NULL, NULL },
     { "out", 0, 0, G_OPTION_ARG_FILENAME, &a.out, NULL, NULL },
     { "size", 0, 0, G_OPTION_ARG_STRING, &a.size, NULL, NULL },
@@ -644,6 +721,7 @@ lw_cmd_plot (int argc, char **argv)
   g_string_free (help, TRUE);
   lw_cli_loop_args_clear (&a.loop);
   lw_cli_measured_args_clear (&a.measured);
+  lw_cli_family_args_clear (&a.family);
   char **strs[] = { &a.view, &a.out, &a.size, &a.theme, &a.title, &a.name, &a.target,
                     &a.min_pm, &a.pdf_date, &a.points, &a.steps, &a.phase_range,
                     &a.nyquist_scale };

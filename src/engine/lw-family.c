@@ -88,6 +88,27 @@ member_fail (Member *mb, const char *what, const LwError *err)
   mb->m.error = g_strdup_printf ("%s: %s", what, err->message[0] ? err->message : "failed");
 }
 
+/* A member's plant in s and sampled (with the dead time at its parameter values); the step
+ * that failed is named in *what. */
+static LwStatus
+member_plant (const LwDesign *d, double period_s, const double *values, LwModel **plant,
+              LwSampledPlant **sp, const char **what, LwError *err)
+{
+  *plant = NULL;
+  *sp = NULL;
+  *what = "the plant";
+  if (lw_design_plant_parse (d, values, plant, err) != LW_OK)
+    return err->code;
+  *what = "the sampled plant";
+  if (lw_sampled_plant_new (*plant, lw_design_dead_time_at (d, values), period_s, sp, err)
+      != LW_OK)
+    {
+      g_clear_pointer (plant, lw_model_free);
+      return err->code;
+    }
+  return LW_OK;
+}
+
 /* Evaluates one member as lw_engine_evaluate_variant evaluates a plant (the same grid, the
  * same step horizon rule), linear: the actuator limits of the variant are not simulated. */
 static void
@@ -97,17 +118,11 @@ evaluate_member (const Ctx *c, Member *mb)
   LwSampledPlant *sp = NULL;
   LwEvaluation *ev = NULL;
   LwError err;
+  const char *what;
   lw_error_clear (&err);
-  if (lw_design_plant_parse (c->d, mb->m.values, &plant, &err) != LW_OK)
+  if (member_plant (c->d, c->period_s, mb->m.values, &plant, &sp, &what, &err) != LW_OK)
     {
-      member_fail (mb, "the plant", &err);
-      return;
-    }
-  if (lw_sampled_plant_new (plant, lw_design_dead_time_at (c->d, mb->m.values), c->period_s,
-                           &sp, &err) != LW_OK)
-    {
-      member_fail (mb, "the sampled plant", &err);
-      lw_model_free (plant);
+      member_fail (mb, what, &err);
       return;
     }
   LwAnalysisOptions ao;
@@ -498,6 +513,110 @@ lw_family_evaluate_controller (const LwDesign *d, double period_s, const LwModel
     }
   g_ptr_array_unref (ms);
   return f;
+}
+
+/* ---- members' loops for figures --------------------------------------------------------- */
+
+LwFamilyLoops *
+lw_family_loops (const LwDesign *d, size_t variant, const LwFamily *f, size_t max_others,
+                 size_t n_points)
+{
+  g_return_val_if_fail (d != NULL && variant < d->n_variants && f != NULL, NULL);
+  const LwDesignVariant *v = &d->variants[variant];
+  double period_s = lw_design_variant_period_s (d, variant);
+  LwModel *cz = NULL;
+  LwError err;
+  lw_error_clear (&err);
+  if (lw_compensator_z (v->stages, v->n_stages, period_s, &cz, &err) != LW_OK)
+    return g_new0 (LwFamilyLoops, 1);   /* the family itself could not have been evaluated */
+  LwFamilyLoops *l = lw_family_loops_controller (d, period_s, cz, f, max_others, n_points);
+  lw_model_free (cz);
+  return l;
+}
+
+LwFamilyLoops *
+lw_family_loops_controller (const LwDesign *d, double period_s, const LwModel *cz,
+                            const LwFamily *f, size_t max_others, size_t n_points)
+{
+  g_return_val_if_fail (d != NULL && cz != NULL && f != NULL, NULL);
+  LwFamilyLoops *l = g_new0 (LwFamilyLoops, 1);
+  l->n_members = f->n_members;
+  l->worst_pm = G_MAXSIZE;
+  /* the worst of each figure, each once, then others evenly over the rest */
+  gboolean *taken = g_new0 (gboolean, f->n_members + 1);
+  size_t *pick = g_new (size_t, LW_FAMILY_N_FIGURES + max_others + 1);
+  size_t n = 0;
+  taken[0] = TRUE;   /* the nominal: the variant's own curve */
+  for (int k = 0; k < LW_FAMILY_N_FIGURES; k++)
+    {
+      size_t w = f->worst[k];
+      if (w == G_MAXSIZE || w >= f->n_members)
+        continue;
+      if (!taken[w])
+        {
+          taken[w] = TRUE;
+          pick[n++] = w;
+        }
+      if (k == LW_FAMILY_PHASE_MARGIN)
+        for (size_t i = 0; i < n; i++)
+          if (pick[i] == w)
+            l->worst_pm = i;
+    }
+  size_t rest = 0;
+  for (size_t i = 0; i < f->n_members; i++)
+    rest += !taken[i];
+  size_t want = MIN (rest, max_others);
+  for (size_t j = 0, seen = 0; j < f->n_members && want > 0; j++)
+    {
+      if (taken[j])
+        continue;
+      /* the j-th free member is taken when it is the next of `want` evenly spaced ones */
+      if (seen * want / rest != (seen + 1) * want / rest || rest == want)
+        pick[n++] = j;
+      seen++;
+    }
+  g_free (taken);
+  l->n = n;
+  l->member = pick;
+  l->plant = g_new0 (LwSampledPlant *, n + 1);
+  l->ev = g_new0 (LwEvaluation *, n + 1);
+  LwAnalysisOptions ao;
+  lw_analysis_options_init (&ao);
+  ao.compute_delay = d->compute_delay;
+  ao.n_points = n_points > 0 ? MAX (n_points, 16) : LW_FAMILY_LOOPS_POINTS;
+  ao.n_steps = 2;
+  for (size_t i = 0; i < n; i++)
+    {
+      const LwFamilyMember *m = &f->members[pick[i]];
+      LwModel *plant = NULL;
+      const char *what;
+      LwError err;
+      lw_error_clear (&err);
+      if (!m->evaluated
+          || member_plant (d, period_s, m->values, &plant, &l->plant[i], &what, &err) != LW_OK)
+        continue;
+      lw_model_free (plant);
+      if (lw_evaluate (l->plant[i], cz, &ao, &l->ev[i], &err) != LW_OK)
+        l->ev[i] = NULL;
+    }
+  return l;
+}
+
+void
+lw_family_loops_free (LwFamilyLoops *l)
+{
+  if (l == NULL)
+    return;
+  for (size_t i = 0; i < l->n; i++)
+    {
+      lw_sampled_plant_free (l->plant[i]);
+      if (l->ev[i] != NULL)
+        lw_evaluation_free (l->ev[i]);
+    }
+  g_free (l->member);
+  g_free (l->plant);
+  g_free (l->ev);
+  g_free (l);
 }
 
 void

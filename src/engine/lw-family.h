@@ -114,6 +114,36 @@ LwFamily *lw_family_evaluate_controller (const LwDesign *d, double period_s,
 void lw_family_free (LwFamily *f);
 G_DEFINE_AUTOPTR_CLEANUP_FUNC (LwFamily, lw_family_free)
 
+/* The loops of some members of a family, for figures: each member's sampled plant and its
+ * loop evaluated with the controller (lw_evaluate on a grid of n_points up to π/T, the step
+ * left short: only the frequency responses, margins and crossovers are meant to be read).
+ * Members: the worst of each figure (distinct), then up to max_others more spread evenly over
+ * the rest, the nominal left out (the variant's own curve is it). */
+typedef struct
+{
+  size_t n;                     /* members drawn */
+  size_t *member;               /* n: their index in the family */
+  LwSampledPlant **plant;       /* n */
+  LwEvaluation **ev;            /* n; NULL where the member could not be evaluated */
+  size_t worst_pm;              /* which of the n gives the family's worst phase margin, or
+                                   G_MAXSIZE */
+  size_t n_members;             /* members of the family */
+} LwFamilyLoops;
+
+#define LW_FAMILY_LOOPS_POINTS 300
+#define LW_FAMILY_LOOPS_OTHERS 40
+
+/* The loops of f's members for variant `variant` of d (the design f was evaluated from),
+ * n_points (0: LW_FAMILY_LOOPS_POINTS, else >= 16) and max_others (members besides the
+ * worst). Never NULL for a valid f; members that fail are left without a loop. */
+LwFamilyLoops *lw_family_loops (const LwDesign *d, size_t variant, const LwFamily *f,
+                                size_t max_others, size_t n_points);
+LwFamilyLoops *lw_family_loops_controller (const LwDesign *d, double period_s,
+                                           const LwModel *controller_z, const LwFamily *f,
+                                           size_t max_others, size_t n_points);
+void lw_family_loops_free (LwFamilyLoops *l);
+G_DEFINE_AUTOPTR_CLEANUP_FUNC (LwFamilyLoops, lw_family_loops_free)
+
 /* The words of a figure ("phase margin" …) and its unit ("deg", "dB", "s", "", "%", "s"). */
 const char *lw_family_figure_name (LwFamilyFigure f);
 const char *lw_family_figure_unit (LwFamilyFigure f);

@@ -6,6 +6,7 @@
 #include <complex.h>
 #include <math.h>
 #include <stdlib.h>
+#include <stdint.h>
 #include <string.h>
 
 #include <glib.h>
@@ -446,4 +447,48 @@ lw_figure_variant_set_responses (LwFigureVariant *fv, const LwSimResponse *ref,
     fv->v.dist_in = (LwPlotStepData) { .period_s = in->period_s, .n = in->n, .y = in->y };
   if ((shows & LW_FIGURE_SHOW_OUTPUT_DISTURBANCE) && out != NULL && out->n >= 2)
     fv->v.dist_out = (LwPlotStepData) { .period_s = out->period_s, .n = out->n, .y = out->y };
+}
+
+void
+lw_figure_family_fill (LwFigureFamily *ff, size_t n_members, size_t n,
+                       LwSampledPlant *const *plants, LwEvaluation *const *evs,
+                       size_t worst_pm, double worst_pm_deg)
+{
+  memset (ff, 0, sizeof *ff);
+  ff->members = g_new0 (LwFigureVariant, n + 1);
+  ff->z = g_new0 (LwPlotFreqCurve, n + 1);
+  ff->w = g_new0 (LwPlotFreqCurve, n + 1);
+  ff->nyquist = g_new0 (LwPlotComplexCurve, n + 1);
+  for (size_t i = 0; i < n; i++)
+    {
+      LwError err;
+      lw_error_clear (&err);
+      if (evs[i] == NULL || plants[i] == NULL
+          || lw_figure_variant_fill (&ff->members[i], NULL, plants[i], evs[i], &err) != LW_OK)
+        continue;
+      ff->z[i] = ff->members[i].v.z;
+      ff->w[i] = ff->members[i].v.w;
+      ff->nyquist[i] = ff->members[i].v.nyquist;
+    }
+  ff->f.n_members = n_members;
+  ff->f.n = n;
+  ff->f.z = ff->z;
+  ff->f.w = ff->w;
+  ff->f.nyquist = ff->nyquist;
+  ff->f.worst_pm = worst_pm < n ? worst_pm : SIZE_MAX;
+  ff->f.worst_pm_deg = worst_pm_deg;
+}
+
+void
+lw_figure_family_clear (LwFigureFamily *ff)
+{
+  if (ff == NULL)
+    return;
+  for (size_t i = 0; i < ff->f.n; i++)
+    lw_figure_variant_clear (&ff->members[i]);
+  g_free (ff->members);
+  g_free (ff->z);
+  g_free (ff->w);
+  g_free (ff->nyquist);
+  memset (ff, 0, sizeof *ff);
 }

@@ -47,6 +47,25 @@ LwStatus lw_figure_variant_fill (LwFigureVariant *fv, const char *name,
                                  LwError *err);
 void lw_figure_variant_clear (LwFigureVariant *fv);
 
+/* A plant family's members ready for LwPlotVariant.family: `f` points into the arrays the
+ * adapter owns and into the evaluations (borrowed: keep them alive until lw_plot_new
+ * returns). */
+typedef struct {
+  LwPlotFamily f;
+  LwFigureVariant *members;   /* f.n */
+  LwPlotFreqCurve *z, *w;
+  LwPlotComplexCurve *nyquist;
+} LwFigureFamily;
+
+/* Fills ff from n members' sampled plants and loops (plants[i], evs[i]; a NULL evaluation
+ * gives an empty curve), each as lw_figure_variant_fill fills a variant; worst_pm: which of
+ * them gives the worst phase margin (worst_pm_deg), or SIZE_MAX; n_members: the members of
+ * the family, for the key. */
+void lw_figure_family_fill (LwFigureFamily *ff, size_t n_members, size_t n,
+                            LwSampledPlant *const *plants, LwEvaluation *const *evs,
+                            size_t worst_pm, double worst_pm_deg);
+void lw_figure_family_clear (LwFigureFamily *ff);
+
 /* Which time responses a variant shows: the same bits as a design variant's responses
  * (LW_DESIGN_RESPONSE_* in lw-design.h, which this layer does not include; the report, which
  * includes both, asserts at compile time that they agree), so a variant's choice is passed as it is. */

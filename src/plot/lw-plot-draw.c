@@ -63,7 +63,7 @@ lw_plot_layout (LwPlot *p, double width, double height)
   size_t named = 0;
   for (size_t v = 0; v < p->n_variants; v++)
     named += p->names[v] != NULL;
-  named += p->n_keys;
+  named += p->n_keys + (p->family_key != NULL);
   long slots = (long) floor ((right - left) / LW_PLOT_LEGEND_SLOT);
   if (slots < 1)
     slots = 1;
@@ -475,6 +475,25 @@ draw_legend (const LwPlot *p, cairo_t *cr)
       cairo_restore (cr);
       lwp_draw_text (p->text_cache, cr, p->names[v], FONT_LABEL, x + 34, yy, 0.0, 0.5, t->text,
                  NULL, 0);
+      k++;
+    }
+  /* a plant family: a thin light line in its variant's colour */
+  if (p->family_key != NULL)
+    {
+      double x = left + LW_PLOT_LEGEND_SLOT * (double) (k % slots);
+      double yy = y + LW_PLOT_LEGEND_ROW * (double) (k / slots);
+      cairo_save (cr);
+      lwp_set_rgb (cr, t->palette[p->family_style], FAMILY_ALPHA * 2.0);
+      cairo_set_line_width (cr, FAMILY_WIDTH);
+      for (int i = -1; i <= 1; i++)
+        {
+          cairo_move_to (cr, x, yy + 3.0 * i);
+          cairo_line_to (cr, x + 28, yy + 3.0 * i);
+        }
+      cairo_stroke (cr);
+      cairo_restore (cr);
+      lwp_draw_text (p->text_cache, cr, p->family_key, FONT_LABEL, x + 34, yy, 0.0, 0.5,
+                     t->text, NULL, 0);
       k++;
     }
   /* the marker shapes a view explains, in the text colour, after the variants */

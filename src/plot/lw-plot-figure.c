@@ -452,7 +452,8 @@ lw_plot_base_equal (const LwPlot *a, const LwPlot *b, size_t variant)
       || g_strcmp0 (a->title, b->title) != 0)
     return false;
   for (size_t v = 0; v < a->n_variants; v++)
-    if (g_strcmp0 (a->names[v], b->names[v]) != 0 || a->styles[v] != b->styles[v])
+    if (g_strcmp0 (a->names[v], b->names[v]) != 0 || a->styles[v] != b->styles[v]
+        || g_strcmp0 (a->family_key, b->family_key) != 0)
       return false;
   for (size_t k = 0; k < a->n_panels; k++)
     {

@@ -15,6 +15,7 @@
 
 #include <stdbool.h>
 #include <stddef.h>
+#include <stdint.h>
 
 #include <glib.h>
 #include <pango/pangocairo.h>
@@ -144,6 +145,10 @@ struct LwPlot {
   size_t n_keys;                    /* marker shapes explained in the legend rows, after the
                                        variants (the pole-zero map's: lwp_add_key) */
   struct { int shape; const char *text; } keys_shown[4];
+  /* a plant family's key entry (lwp_family_key): a thin light line in the colour of the
+   * variant family_style, then its text; NULL when no family is drawn */
+  const char *family_key;
+  size_t family_style;
 };
 
 /* A text made for this figure (an axis label with a unit): formatted, kept until the figure
@@ -249,6 +254,25 @@ void lwp_keep_axes (LwPlot *pl, const LwPlotInput *in);
 void lwp_format_margin (char *buf, size_t size, const char *what, double value,
                         const char *unit);
 void lwp_add_phase_references (Panel *pn, const LwPlotAxis *a, bool vertical);
+
+/* ---- plant families (lw-plot-family.c) ------------------------------------------------- */
+
+/* Opacity of a family member's curve (widths in lw-plot.h); the worst phase margin's member
+ * nearly opaque. */
+#define FAMILY_WIDTH LW_PLOT_FAMILY_WIDTH
+#define FAMILY_ALPHA 0.28
+#define FAMILY_WORST_WIDTH LW_PLOT_FAMILY_WORST_WIDTH
+#define FAMILY_WORST_ALPHA 0.85
+
+/* The variant of `in` whose family is drawn (the first with one of at least one member), or
+ * SIZE_MAX; sets the figure's key entry "family (N members)" for it. */
+size_t lwp_family_key (LwPlot *pl, const LwPlotInput *in);
+/* A member's curve (x[i], y[i]) in panel pn, styled as a member of variant v's family (the
+ * worst member's style when worst); added before the variant's own curves, so under them. */
+Prim *lwp_family_line (Panel *pn, size_t v, size_t n, const double *x, const double *y,
+                       bool worst);
+/* The worst member marked at (x, y) in data units of pn (its crossover) and labelled. */
+void lwp_family_worst_label (Panel *pn, size_t v, double x, double y, double pm_deg);
 
 /* ---- the view table (lw-plot-view.c) and the builders (lw-plot-view-NAME.c) ----------- */
 

@@ -255,6 +255,52 @@ build_bode (LwPlot *pl, const LwPlotInput *in, bool w_plane)
       t->plate = true;
     }
 
+  /* a plant family's members, under every variant's curves */
+  size_t fv = lwp_family_key (pl, in);
+  if (fv != SIZE_MAX)
+    {
+      const LwPlotFamily *fam = in->variants[fv].family;
+      const LwPlotFreqCurve *curves = w_plane ? fam->w : fam->z;
+      for (size_t i = 0; curves != NULL && i < fam->n; i++)
+        {
+          const LwPlotFreqCurve *c = &curves[i];
+          if (i == fam->worst_pm)
+            continue;
+          lwp_family_line (mag, fv, c->n, c->freq_rad_s, c->mag_db, false);
+          if (wrapped)
+            {
+              double *wf, *wp;
+              size_t wn;
+              wrap_curve (c, &wf, &wp, &wn);
+              lwp_family_line (ph, fv, wn, wf, wp, false);
+              g_free (wf);
+              g_free (wp);
+            }
+          else
+            lwp_family_line (ph, fv, c->n, c->freq_rad_s, c->phase_deg, false);
+        }
+      if (curves != NULL && fam->worst_pm < fam->n)
+        {
+          const LwPlotFreqCurve *c = &curves[fam->worst_pm];
+          lwp_family_line (mag, fv, c->n, c->freq_rad_s, c->mag_db, true);
+          double *wf = NULL, *wp = NULL;
+          size_t wn = c->n;
+          if (wrapped)
+            wrap_curve (c, &wf, &wp, &wn);
+          lwp_family_line (ph, fv, wn, wrapped ? wf : c->freq_rad_s,
+                           wrapped ? wp : c->phase_deg, true);
+          g_free (wf);
+          g_free (wp);
+          /* labelled at its governing gain crossover (the smallest margin) */
+          const LwPlotCrossover *g = NULL;
+          for (size_t i = 0; i < c->n_gain_crossovers; i++)
+            if (g == NULL || fabs (c->gain_crossovers[i].margin) < fabs (g->margin))
+              g = &c->gain_crossovers[i];
+          if (g != NULL)
+            lwp_family_worst_label (ph, fv, g->freq_rad_s, PH (g->phase_deg), fam->worst_pm_deg);
+        }
+    }
+
   /* curves, asymptotes */
   for (size_t v = 0; v < in->n_variants; v++)
     {

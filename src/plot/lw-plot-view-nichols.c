@@ -50,6 +50,17 @@ lwp_build_nichols (LwPlot *pl, const LwPlotInput *in)
         snprintf (buf, sizeof buf, "required PM \u2265 %.0f\u00b0", in->req.min_phase_margin_deg);
         lwp_add_text_uv (pn, mx (pn, lim), 1.0, buf, 4, 3, 0.0, 0.0)->colour = COL_REF;
       }
+  /* a plant family's members, under every variant's curves (the worst member last) */
+  size_t fv = lwp_family_key (pl, in);
+  const LwPlotFamily *fam = fv != SIZE_MAX ? in->variants[fv].family : NULL;
+  for (size_t i = 0; fam != NULL && fam->z != NULL && i < fam->n; i++)
+    if (i != fam->worst_pm)
+      lwp_family_line (pn, fv, fam->z[i].n, fam->z[i].phase_deg, fam->z[i].mag_db, false);
+  if (fam != NULL && fam->z != NULL && fam->worst_pm < fam->n)
+    {
+      const LwPlotFreqCurve *c = &fam->z[fam->worst_pm];
+      lwp_family_line (pn, fv, c->n, c->phase_deg, c->mag_db, true);
+    }
   for (size_t v = 0; v < in->n_variants; v++)
     {
       const LwPlotFreqCurve *c = &in->variants[v].z;

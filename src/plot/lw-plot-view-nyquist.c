@@ -28,6 +28,23 @@ compress (double re, double im, double *cre, double *cim)
   *cim = im * k;
 }
 
+/* One member's curve of a plant family (on the compressed scale when cz). */
+static void
+family_member (Panel *pn, size_t v, const LwPlotComplexCurve *c, bool cz, bool worst)
+{
+  double *re = g_new (double, c->n > 0 ? c->n : 1), *im = g_new (double, c->n > 0 ? c->n : 1);
+  for (size_t j = 0; j < c->n; j++)
+    {
+      re[j] = c->re[j];
+      im[j] = c->im[j];
+      if (cz)
+        compress (c->re[j], c->im[j], &re[j], &im[j]);
+    }
+  lwp_family_line (pn, v, c->n, re, im, worst);
+  g_free (re);
+  g_free (im);
+}
+
 void
 lwp_build_nyquist (LwPlot *pl, const LwPlotInput *in)
 {
@@ -93,6 +110,16 @@ lwp_build_nyquist (LwPlot *pl, const LwPlotInput *in)
       t->colour = COL_REF;
       t->optional = true;
     }
+
+  /* a plant family's members (positive ω only), under every variant's curves, the worst
+   * member last */
+  size_t fv = lwp_family_key (pl, in);
+  const LwPlotFamily *fam = fv != SIZE_MAX ? in->variants[fv].family : NULL;
+  for (size_t i = 0; fam != NULL && fam->nyquist != NULL && i < fam->n; i++)
+    if (i != fam->worst_pm)
+      family_member (pn, fv, &fam->nyquist[i], cz, false);
+  if (fam != NULL && fam->nyquist != NULL && fam->worst_pm < fam->n)
+    family_member (pn, fv, &fam->nyquist[fam->worst_pm], cz, true);
 
   for (size_t v = 0; v < in->n_variants; v++)
     {

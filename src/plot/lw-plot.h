@@ -50,6 +50,10 @@ extern "C" {
 /* Line width of every curve of a variant (and its legend sample): no other stroke uses it, so
  * exported SVG curves can be told apart from grid and annotations. */
 #define LW_PLOT_CURVE_WIDTH 1.75
+/* Line widths of a plant family's member curves and of its worst phase margin's member
+ * (dashed), and of the family's key sample: no other stroke of the frequency views uses them. */
+#define LW_PLOT_FAMILY_WIDTH 0.85
+#define LW_PLOT_FAMILY_WORST_WIDTH 1.35
 
 typedef enum {
   LW_PLOT_THEME_LIGHT = 0,
@@ -112,6 +116,21 @@ typedef struct {
   size_t n_loop_zeros;   const double *zero_re; const double *zero_im;
 } LwPlotPoleData;
 
+/* The members of a plant family drawn with a variant (docs/families.md): each member's loop
+ * over the same axes as the variant's own curves, drawn thin and light in the variant's colour
+ * under it (Bode in z and w, Nyquist, Nichols); the member of the worst phase margin dashed,
+ * with a small label. Arrays of n; a member's curve may be empty (n = 0). */
+typedef struct {
+  size_t n_members;                   /* members evaluated, for the key "family (N members)" */
+  size_t n;                           /* members drawn */
+  const LwPlotFreqCurve *z;           /* n, or NULL */
+  const LwPlotFreqCurve *w;           /* n, or NULL */
+  const LwPlotComplexCurve *nyquist;  /* n, or NULL */
+  size_t worst_pm;                    /* the drawn member of the worst phase margin, or
+                                         SIZE_MAX; labelled with worst_pm_deg */
+  double worst_pm_deg;
+} LwPlotFamily;
+
 /* One variant of the design: what each view needs (a view ignores the rest). */
 typedef struct {
   const char *name;            /* legend text (UTF-8); NULL: no legend entry */
@@ -132,6 +151,9 @@ typedef struct {
    * document, say, so that a variant keeps its look whichever others are drawn with it);
    * 0: its position in this figure's list. */
   unsigned style;
+  /* optional (NULL: none): a plant family drawn under this variant's curves; at most one
+   * variant of a figure has one (the first with it is drawn) */
+  const LwPlotFamily *family;
 } LwPlotVariant;
 
 /* Requirement marks, drawn where they apply. */

@@ -405,9 +405,13 @@ lw_report_build (const char *path, const LwDesign *d, const size_t *which, size_
   g_return_val_if_fail (error == NULL || *error == NULL, NULL);
   RVar rv[LW_PLOT_MAX_VARIANTS];
   memset (rv, 0, sizeof rv);
+  RFamily rf;
+  memset (&rf, 0, sizeof rf);
   gboolean ok = TRUE;
   for (size_t k = 0; k < n && ok; k++)
     ok = rvar_compute (path, d, which[k], &rv[k], error);
+  if (ok)
+    ok = lwr_family_compute (d, rv, n, &rf, error);
   LwReport *r = g_new0 (LwReport, 1);
   r->title = g_strdup (d->title[0] ? d->title : "Untitled design");
   r->author = g_strdup (d->author);
@@ -421,7 +425,8 @@ lw_report_build (const char *path, const LwDesign *d, const size_t *which, size_
   lwr_section_measured (r, d, &rv[0]);
   for (size_t k = 0; k < n; k++)
     section_variant (r, d, &rv[k], k);
-  ok = lwr_add_figures (r, d, rv, n, error);
+  lwr_section_family (r, d, rv, &rf);
+  ok = lwr_add_figures (r, d, rv, n, &rf, error);
   if (!ok)
     goto out;
   lwr_add_comparison (r, d, rv, n);
@@ -430,6 +435,7 @@ lw_report_build (const char *path, const LwDesign *d, const size_t *which, size_
   lwr_para (r, "Written by " LW_REPORT_GENERATOR " from %s.", d->title[0] ? d->title
                                                                      : "an untitled design");
 out:
+  lwr_family_clear (&rf);
   for (size_t k = 0; k < n; k++)
     lwr_rvar_clear (&rv[k]);
   if (!ok)

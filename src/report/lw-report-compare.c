@@ -23,11 +23,17 @@ G_STATIC_ASSERT (LW_FIGURE_SHOW_ALL == LW_DESIGN_RESPONSES_ALL);
 /* ---- figures ---------------------------------------------------------------------------- */
 
 gboolean
-lwr_add_figures (LwReport *r, const LwDesign *d, RVar *rv, size_t n, GError **error)
+lwr_add_figures (LwReport *r, const LwDesign *d, RVar *rv, size_t n, const RFamily *rf,
+                 GError **error)
 {
   lwr_heading (r, 2, "figures", "Figures");
   lwr_para (r, "Every variant of the report overlaid, each in its colour and dash; drawn by the "
         "same renderer as `loopwright-cli plot`.");
+  if (rf->family != NULL && rf->loops->n > 0)
+    lwr_para (r, "The plant family of “%s” is drawn under its curves in the frequency figures: "
+              "%zu of its %zu members as thin light curves (the worst of each figure and "
+              "others spread over the rest), the member of the worst phase margin dashed and "
+              "labelled.", rv[rf->of].v->name, rf->loops->n, rf->family->n_members);
   LwFigureVariant fv[LW_PLOT_MAX_VARIANTS];
   LwPlotVariant pv[LW_PLOT_MAX_VARIANTS];
   size_t filled = 0, n_model = 0;
@@ -55,6 +61,8 @@ lwr_add_figures (LwReport *r, const LwDesign *d, RVar *rv, size_t n, GError **er
           goto out;
         }
       pv[n_model] = fv[n_model].v;
+      if (rf->family != NULL && filled == rf->of)
+        pv[n_model].family = &rf->fig.f;
       /* a variant keeps the colour of its place in the document, as in the window; one
        * variant alone has the first colour */
       pv[n_model].style = n > 1 ? (unsigned) ((size_t) (rv[filled].v - d->variants)

@@ -10,6 +10,8 @@
 #include <stdbool.h>
 
 #include "lw-engine.h"
+#include "lw-family.h"
+#include "lw-figure-data.h"
 #include "lw-implement.h"
 #include "lw-report.h"
 
@@ -60,8 +62,26 @@ void lwr_table_end (TableFill *t);
 char *lwr_num6 (bool has, double v);
 char *lwr_complex_text (double complex z);
 
-/* the figures of the variants overlaid, and the comparison table (lw-report-compare.c) */
-gboolean lwr_add_figures (LwReport *r, const LwDesign *d, RVar *rv, size_t n, GError **error);
+/* A design's plant family (lw-report-family.c): evaluated for one reported variant (rv[of])
+ * when the design has ranged parameters, else all NULL; its members' loops for the figures. */
+typedef struct
+{
+  LwFamily *family;
+  size_t of;
+  LwFamilyLoops *loops;
+  LwFigureFamily fig;
+} RFamily;
+
+gboolean lwr_family_compute (const LwDesign *d, const RVar *rv, size_t n, RFamily *rf,
+                             GError **error);
+void lwr_family_clear (RFamily *rf);
+/* the "Plant family" section (nothing without a family) */
+void lwr_section_family (LwReport *r, const LwDesign *d, const RVar *rv, const RFamily *rf);
+
+/* the figures of the variants overlaid (a family drawn under its variant's curves in the
+ * frequency figures), and the comparison table (lw-report-compare.c) */
+gboolean lwr_add_figures (LwReport *r, const LwDesign *d, RVar *rv, size_t n,
+                          const RFamily *rf, GError **error);
 void lwr_add_comparison (LwReport *r, const LwDesign *d, const RVar *rv, size_t n);
 
 /* the measured response (lw-report-measured.c; nothing when the design holds none): its
