@@ -21,6 +21,7 @@
 #include "lw-figure-measured.h"
 #include "lw-figure-data.h"
 #include "lw-cli-family.h"
+#include "lw-cli-family-plot.h"
 #include "lw-plot-export.h"
 #include "lw-plot.h"
 
@@ -418,46 +419,6 @@ plot_doc_measured (const char *path, const LwDesign *d, const LwVariantEval *e,
   return LW_EXIT_OK;
 }
 
-/* The views a plant family is drawn in (its members' loop frequency responses). */
-static bool
-plot_family_view (LwPlotView v)
-{
-  return v == LW_PLOT_VIEW_BODE_Z || v == LW_PLOT_VIEW_BODE_W || v == LW_PLOT_VIEW_NYQUIST
-         || v == LW_PLOT_VIEW_NICHOLS;
-}
-
-/* The family of variant `variant` of d (--members, --seed) and the loops of the members
- * drawn, into *ff for the figure. */
-static int
-plot_family (const char *path, const LwDesign *d, size_t variant, const LwCliFamilyArgs *fa,
-             LwFamily **family, LwFamilyLoops **loops, LwFigureFamily *ff)
-{
-  if (fa->ranges != NULL && fa->ranges[0] != NULL)
-    {
-      lw_cli_bad_input ("--range", "not with a design document: its <parameters> give the "
-                        "ranges");
-      return LW_EXIT_BAD_INPUT;
-    }
-  LwFamilyOptions fo;
-  int status = lw_cli_family_options (fa, &fo);
-  if (status != LW_EXIT_OK)
-    return status;
-  g_autoptr (GError) error = NULL;
-  *family = lw_family_evaluate (d, variant, &fo, &error);
-  if (*family == NULL)
-    {
-      lw_cli_bad_input (path, "the plant family: %s", error->message);
-      return LW_EXIT_BAD_INPUT;
-    }
-  const LwFamily *f = *family;
-  *loops = lw_family_loops (d, variant, f, LW_FAMILY_LOOPS_OTHERS, 0);
-  const LwFamilyLoops *l = *loops;
-  size_t w = f->worst[LW_FAMILY_PHASE_MARGIN];
-  lw_figure_family_fill (ff, f->n_members, l->n, l->plant, l->ev,
-                         l->worst_pm != G_MAXSIZE ? l->worst_pm : SIZE_MAX,
-                         w != G_MAXSIZE ? f->members[w].figure[LW_FAMILY_PHASE_MARGIN] : NAN);
-  return LW_EXIT_OK;
-}
 
 /* The variants of a design document, overlaid. */
 static int
@@ -547,7 +508,7 @@ plot_run_document (const PlotArgs *a)
                                              + 1, e[built] };
     }
   /* a plant family: the members' loops drawn under the first model variant's curves */
-  if (n_model > 0 && plot_family_view (spec.view) && lw_cli_family_wanted (&a->family, d))
+  if (n_model > 0 && lw_cli_family_plot_view (spec.view) && lw_cli_family_wanted (&a->family, d))
     {
       size_t variant = which[0];
       for (size_t i = 0; i < n; i++)
@@ -556,7 +517,7 @@ plot_run_document (const PlotArgs *a)
             variant = which[i];
             break;
           }
-      status = plot_family (path, d, variant, &a->family, &family, &loops, &ffam);
+      status = lw_cli_family_plot (path, d, variant, &a->family, &family, &loops, &ffam);
       if (status != LW_EXIT_OK)
         goto out;
       spec.family = &ffam.f;

@@ -9,6 +9,7 @@
 
 #include "lw-gui-util.h"
 #include "lw-number-field.h"
+#include "lw-family-summary.h"
 #include "lw-requirements-panel.h"
 
 struct _LwRequirementsPanel
@@ -584,24 +585,6 @@ lw_requirements_panel_show_eval (LwRequirementsPanel *self, LwVariantEval *eval)
   show_figures (self, eval);
 }
 
-/* "K = 150, wn = 225" of a member (the parameters with a range only) */
-static void
-append_member (GString *t, const LwFamily *f, const LwDesign *d, size_t index)
-{
-  if (index >= f->n_members)
-    return;
-  gboolean first = TRUE;
-  for (size_t i = 0; i < f->n_params && i < d->n_params; i++)
-    if (d->params[i].ranged)
-      {
-        g_string_append_printf (t, "%s%s = %.4g", first ? " (" : ", ", f->names[i],
-                                f->members[index].values[i]);
-        first = FALSE;
-      }
-  if (!first)
-    g_string_append_c (t, ')');
-}
-
 void
 lw_requirements_panel_show_family (LwRequirementsPanel *self, const LwFamily *family,
                                    const LwDesign *d, const GError *error, gboolean stale)
@@ -621,40 +604,8 @@ lw_requirements_panel_show_family (LwRequirementsPanel *self, const LwFamily *fa
       gtk_widget_set_visible (label, FALSE);
       return;
     }
-  g_autoptr (GString) t = g_string_new (NULL);
-  if (family == NULL)
-    g_string_append_printf (t, _("Plant family: not evaluated: %s"), error->message);
-  else
-    {
-      g_string_append_printf (t, _("Plant family: %zu members"), family->n_members);
-      if (family->n_unstable > 0)
-        g_string_append_printf (t, _(", %zu with the loop NOT stable"), family->n_unstable);
-      const LwFamilyFigure shown[] = { LW_FAMILY_PHASE_MARGIN, LW_FAMILY_GAIN_MARGIN,
-                                       LW_FAMILY_SENSITIVITY };
-      for (size_t k = 0; k < G_N_ELEMENTS (shown); k++)
-        {
-          size_t w = family->worst[shown[k]];
-          if (w == G_MAXSIZE)
-            continue;
-          double v = family->members[w].figure[shown[k]];
-          g_string_append_c (t, '\n');
-          if (shown[k] == LW_FAMILY_PHASE_MARGIN)
-            g_string_append_printf (t, _("worst phase margin %.4g°"), v);
-          else if (shown[k] == LW_FAMILY_GAIN_MARGIN)
-            g_string_append_printf (t, _("worst gain margin %.4g dB"), v);
-          else
-            g_string_append_printf (t, _("worst sensitivity peak %.4g"), v);
-          append_member (t, family, d, w);
-        }
-      if (family->n_requirements > 0)
-        {
-          g_string_append_c (t, '\n');
-          g_string_append_printf (t, _("%zu of %zu requirements pass on every member"),
-                                  family->n_requirements - family->n_not_passing,
-                                  family->n_requirements);
-        }
-    }
-  gtk_label_set_text (self->family_label, t->str);
+  g_autofree char *text = lw_family_summary (family, d, error);
+  gtk_label_set_text (self->family_label, text);
   gtk_widget_set_visible (label, TRUE);
 }
 

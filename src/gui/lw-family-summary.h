@@ -1,0 +1,13 @@
+/* lw-family-summary.h — a plant family in words (the window's requirements panel).
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ */
+#pragma once
+
+#include <glib.h>
+
+#include "lw-family.h"
+
+/* A few lines: "Plant family: N members", the worst phase and gain margin and sensitivity
+ * peak, each with its member's ranged parameters, "k of n requirements pass on every
+ * member"; or "not evaluated" with error's message when family is NULL. g_free it. */
+char *lw_family_summary (const LwFamily *family, const LwDesign *d, const GError *error);
