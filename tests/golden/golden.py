@@ -31,6 +31,7 @@ DOCUMENTS = [
     'data/examples/kiln.lwd',
     'data/examples/pump-pressure.lwd',
     'data/examples/belt-conveyor.lwd',
+    'data/examples/camera-slider-fleet.lwd',
     'tests/gui/four-variants.lwd',
 ]
 VIEWS = ['bode-z', 'bode-w', 'nyquist', 'nichols', 'step', 'poles']
