@@ -349,20 +349,29 @@ verdict_worse (const LwReqResult *a, const LwReqResult *b)
   return isfinite (a->slack) && (!isfinite (b->slack) || a->slack < b->slack);
 }
 
+/* Variant `variant`'s compensator in z at its period, or NULL with an error naming it. */
+static LwModel *
+variant_controller (const LwDesign *d, size_t variant, GError **error)
+{
+  const LwDesignVariant *v = &d->variants[variant];
+  LwModel *cz = NULL;
+  LwError err;
+  lw_error_clear (&err);
+  if (lw_compensator_z (v->stages, v->n_stages, lw_design_variant_period_s (d, variant), &cz,
+                        &err) == LW_OK)
+    return cz;
+  g_set_error (error, LW_ENGINE_ERROR, err.code, "variant '%s': %s", v->name, err.message);
+  return NULL;
+}
+
 LwFamily *
 lw_family_evaluate (const LwDesign *d, size_t variant, const LwFamilyOptions *o, GError **error)
 {
   g_return_val_if_fail (d != NULL && variant < d->n_variants, NULL);
-  const LwDesignVariant *v = &d->variants[variant];
   double period_s = lw_design_variant_period_s (d, variant);
-  LwModel *cz = NULL;
-  LwError err;
-  lw_error_clear (&err);
-  if (lw_compensator_z (v->stages, v->n_stages, period_s, &cz, &err) != LW_OK)
-    {
-      g_set_error (error, LW_ENGINE_ERROR, err.code, "variant '%s': %s", v->name, err.message);
-      return NULL;
-    }
+  LwModel *cz = variant_controller (d, variant, error);
+  if (cz == NULL)
+    return NULL;
   LwFamily *f = lw_family_evaluate_controller (d, period_s, cz, o, error);
   lw_model_free (cz);
   return f;
@@ -522,12 +531,9 @@ lw_family_loops (const LwDesign *d, size_t variant, const LwFamily *f, size_t ma
                  size_t n_points)
 {
   g_return_val_if_fail (d != NULL && variant < d->n_variants && f != NULL, NULL);
-  const LwDesignVariant *v = &d->variants[variant];
   double period_s = lw_design_variant_period_s (d, variant);
-  LwModel *cz = NULL;
-  LwError err;
-  lw_error_clear (&err);
-  if (lw_compensator_z (v->stages, v->n_stages, period_s, &cz, &err) != LW_OK)
+  LwModel *cz = variant_controller (d, variant, NULL);
+  if (cz == NULL)
     return g_new0 (LwFamilyLoops, 1);   /* the family itself could not have been evaluated */
   LwFamilyLoops *l = lw_family_loops_controller (d, period_s, cz, f, max_others, n_points);
   lw_model_free (cz);
