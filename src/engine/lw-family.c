@@ -8,6 +8,7 @@
 #include <string.h>
 
 #include "lw-family.h"
+#include "lw-family-private.h"
 
 #include "lw-analysis.h"
 #include "lw-expr.h"
@@ -349,9 +350,8 @@ verdict_worse (const LwReqResult *a, const LwReqResult *b)
   return isfinite (a->slack) && (!isfinite (b->slack) || a->slack < b->slack);
 }
 
-/* Variant `variant`'s compensator in z at its period, or NULL with an error naming it. */
-static LwModel *
-variant_controller (const LwDesign *d, size_t variant, GError **error)
+LwModel *
+lw_family_variant_controller (const LwDesign *d, size_t variant, GError **error)
 {
   const LwDesignVariant *v = &d->variants[variant];
   LwModel *cz = NULL;
@@ -369,7 +369,7 @@ lw_family_evaluate (const LwDesign *d, size_t variant, const LwFamilyOptions *o,
 {
   g_return_val_if_fail (d != NULL && variant < d->n_variants, NULL);
   double period_s = lw_design_variant_period_s (d, variant);
-  LwModel *cz = variant_controller (d, variant, error);
+  LwModel *cz = lw_family_variant_controller (d, variant, error);
   if (cz == NULL)
     return NULL;
   LwFamily *f = lw_family_evaluate_controller (d, period_s, cz, o, error);
@@ -532,7 +532,7 @@ lw_family_loops (const LwDesign *d, size_t variant, const LwFamily *f, size_t ma
 {
   g_return_val_if_fail (d != NULL && variant < d->n_variants && f != NULL, NULL);
   double period_s = lw_design_variant_period_s (d, variant);
-  LwModel *cz = variant_controller (d, variant, NULL);
+  LwModel *cz = lw_family_variant_controller (d, variant, NULL);
   if (cz == NULL)
     return g_new0 (LwFamilyLoops, 1);   /* the family itself could not have been evaluated */
   LwFamilyLoops *l = lw_family_loops_controller (d, period_s, cz, f, max_others, n_points);
@@ -568,6 +568,7 @@ lw_family_loops_controller (const LwDesign *d, double period_s, const LwModel *c
           if (pick[i] == w)
             l->worst_pm = i;
     }
+  l->n_worst = n;
   size_t rest = 0;
   for (size_t i = 0; i < f->n_members; i++)
     rest += !taken[i];
@@ -615,7 +616,8 @@ lw_family_loops_free (LwFamilyLoops *l)
     return;
   for (size_t i = 0; i < l->n; i++)
     {
-      lw_sampled_plant_free (l->plant[i]);
+      if (!l->plants_borrowed)
+        lw_sampled_plant_free (l->plant[i]);
       if (l->ev[i] != NULL)
         lw_evaluation_free (l->ev[i]);
     }

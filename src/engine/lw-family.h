@@ -127,7 +127,10 @@ typedef struct
   LwEvaluation **ev;            /* n; NULL where the member could not be evaluated */
   size_t worst_pm;              /* which of the n gives the family's worst phase margin, or
                                    G_MAXSIZE */
+  size_t n_worst;               /* the first n_worst are the worst of some figure */
   size_t n_members;             /* members of the family */
+  gboolean plants_borrowed;     /* plant[] belongs to another LwFamilyLoops
+                                   (lw_family_loops_again) */
 } LwFamilyLoops;
 
 #define LW_FAMILY_LOOPS_POINTS 300
@@ -141,6 +144,16 @@ LwFamilyLoops *lw_family_loops (const LwDesign *d, size_t variant, const LwFamil
 LwFamilyLoops *lw_family_loops_controller (const LwDesign *d, double period_s,
                                            const LwModel *controller_z, const LwFamily *f,
                                            size_t max_others, size_t n_points);
+/* The same members' loops again with another controller — the variant `variant` of d as it
+ * stands now (a dragged stage) — on n_points (0: LW_FAMILY_LOOPS_POINTS, else >= 16), their
+ * sampled plants borrowed from `from` (not sampled again: the plants of a family do not change
+ * when its controller does), so `from` must outlive the result. worst_pm is the drawn member
+ * of the smallest phase margin among those drawn (the family's own worst is known only after
+ * a whole evaluation). Never NULL; a member whose loop fails is left without one. */
+LwFamilyLoops *lw_family_loops_again (const LwFamilyLoops *from, const LwDesign *d,
+                                      size_t variant, size_t n_points);
+/* The phase margin of the drawn member worst_pm (NAN without one). */
+double lw_family_loops_worst_pm_deg (const LwFamilyLoops *l);
 void lw_family_loops_free (LwFamilyLoops *l);
 G_DEFINE_AUTOPTR_CLEANUP_FUNC (LwFamilyLoops, lw_family_loops_free)
 

@@ -380,6 +380,7 @@ lw_plot_area_show_variants (LwPlotArea *self, const LwAreaVariant *vs, guint n, 
         }
       vars[nv] = fv->v;
       vars[nv].style = vs[i].style;
+      vars[nv].family = vs[i].family;
       if (i != active && other == NULL)
         other = &vars[nv];
       nv++;
@@ -545,6 +546,7 @@ lw_plot_area_build_plot (LwPlotArea *area, const LwAreaVariant *vs, guint n,
                                        eval->sim_in, eval->sim_out, eval->responses);
       pv[filled] = fv[filled].v;
       pv[filled].style = n > 1 ? vs[filled].style : 0;   /* one variant: the first colour */
+      pv[filled].family = vs[filled].family;
     }
   LwPlotInput in = {
     .view = view,

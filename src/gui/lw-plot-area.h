@@ -39,13 +39,15 @@ void lw_plot_area_show_eval (LwPlotArea *self, LwVariantEval *eval, const LwPlot
                              int sel_stage, int sel_corner);
 
 /* One variant to show: its evaluation (eval->sampled valid when the area has not shown this
- * evaluation before), its legend name (NULL: none) and its colour and dash (LwPlotVariant.style:
- * 1 … LW_PLOT_MAX_VARIANTS, 0 its position in the list). */
+ * evaluation before), its legend name (NULL: none), its colour and dash (LwPlotVariant.style:
+ * 1 … LW_PLOT_MAX_VARIANTS, 0 its position in the list) and its plant family (NULL: none). */
 typedef struct
 {
   LwVariantEval *eval;
   const char *name;
   guint style;
+  /* a plant family's members drawn with it (borrowed until the call returns), or NULL */
+  const LwPlotFamily *family;
 } LwAreaVariant;
 
 /* Shows several variants overlaid in every view (compare), in the order given (their styles set

@@ -40,7 +40,9 @@ lw_window_build_export_plot (LwPlotView view, gpointer user_data, GError **error
       if (e == NULL || e->ev == NULL)
         continue;
       vs[n++] = (LwAreaVariant) { .eval = e, .name = name,
-                                  .style = i % LW_PLOT_MAX_VARIANTS + 1 };
+                                  .style = i % LW_PLOT_MAX_VARIANTS + 1,
+                                  .family = i == d->active ? lw_window_family_drawn (self)
+                                                           : NULL };
     }
   if (n == 0)
     {

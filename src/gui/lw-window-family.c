@@ -1,6 +1,16 @@
 /* lw-window-family.c — the designer window's plant family: evaluated on a task of its own
- * after the nominal evaluation is on show, one at a time with only the newest waiting, shown
- * under the loop figures unless a newer evaluation is on show (docs/families.md).
+ * after the nominal evaluation is on show, one at a time with only the newest waiting; its
+ * worst cases shown under the loop figures and its members drawn in the loop views
+ * (docs/families.md, "In the window").
+ *
+ * A family's picture (FamilyPicture) is the members' loops drawn with the active variant:
+ * after an edit, the whole family is evaluated and up to LW_FAMILY_LOOPS_OTHERS members
+ * besides the worst of each figure are drawn on LW_FAMILY_LOOPS_POINTS points. During a drag
+ * the same members' loops follow the dragged controller on DRAG_FAMILY_POINTS points, on a
+ * worker thread, their sampled plants taken from the last whole picture (the plants do not
+ * change with the controller); one such job at a time, the newest waiting, an older result
+ * than the one on show dropped. The whole family is evaluated again when the drag ends.
+ *
  * SPDX-License-Identifier: GPL-3.0-or-later
  */
 #include "config.h"
@@ -9,7 +19,13 @@
 #include <stdio.h>
 
 #include "lw-family.h"
+#include "lw-figure-data.h"
 #include "lw-window-private.h"
+
+/* Points per member's loop during a drag (the whole picture has LW_FAMILY_LOOPS_POINTS). */
+#define DRAG_FAMILY_POINTS 120
+/* Points of the band of the members drawn during a drag. */
+#define DRAG_BAND_POINTS 200
 
 gboolean
 lw_window_has_ranges (const LwDesign *d)
@@ -20,6 +36,102 @@ lw_window_has_ranges (const LwDesign *d)
   return FALSE;
 }
 
+/* ---- the picture ------------------------------------------------------------------------- */
+
+struct _LwFamilyPicture
+{
+  gatomicrefcount ref;
+  guint64 generation;           /* of the evaluation it was made for */
+  char *variant;                /* the variant's name */
+  LwFamilyLoops *loops;
+  LwFigureFamily ff;            /* points into loops' evaluations */
+  LwFamilyPicture *plants_of;   /* the picture whose loops own the plants, or NULL: its own */
+};
+
+static LwFamilyPicture *
+picture_ref (LwFamilyPicture *p)
+{
+  g_atomic_ref_count_inc (&p->ref);
+  return p;
+}
+
+void
+lw_family_picture_unref (LwFamilyPicture *p)
+{
+  if (p == NULL || !g_atomic_ref_count_dec (&p->ref))
+    return;
+  lw_figure_family_clear (&p->ff);
+  lw_family_loops_free (p->loops);
+  g_clear_pointer (&p->plants_of, lw_family_picture_unref);
+  g_free (p->variant);
+  g_free (p);
+}
+
+/* A picture of loops (taken): its figure data filled (on the worker thread). */
+static LwFamilyPicture *
+picture_new (LwFamilyLoops *loops, const char *variant, guint64 generation, double worst_pm_deg)
+{
+  LwFamilyPicture *p = g_new0 (LwFamilyPicture, 1);
+  g_atomic_ref_count_init (&p->ref);
+  p->generation = generation;
+  p->variant = g_strdup (variant);
+  p->loops = loops;
+  lw_figure_family_fill (&p->ff, loops->n_members, loops->n, loops->plant, loops->ev,
+                         loops->worst_pm != G_MAXSIZE ? loops->worst_pm : SIZE_MAX,
+                         worst_pm_deg);
+  return p;
+}
+
+const LwPlotFamily *
+lw_window_family_drawn (LwWindow *self)
+{
+  LwFamilyPicture *p = self->family_picture;
+  if (p == NULL || p->ff.f.n == 0)
+    return NULL;
+  const LwDesign *d = lw_design_model_get_design (self->model);
+  if (!lw_window_has_ranges (d) || g_strcmp0 (p->variant, d->variants[d->active].name) != 0)
+    return NULL;
+  return &p->ff.f;
+}
+
+/* The picture on show replaced by p (taken), the figures drawn again at the next frame unless
+ * an evaluation shows them first. */
+static gboolean
+redraw_tick (GtkWidget *widget, GdkFrameClock *clock, gpointer user_data)
+{
+  LwWindow *self = LW_WINDOW (widget);
+  self->family_tick = 0;
+  if (self->family_redraw)
+    lw_window_show_plots (self);
+  return G_SOURCE_REMOVE;
+}
+
+static void
+show_picture (LwWindow *self, LwFamilyPicture *p)
+{
+  g_clear_pointer (&self->family_picture, lw_family_picture_unref);
+  self->family_picture = p;
+  self->family_redraw = TRUE;
+  /* the drag benchmark shows every frame itself */
+  if (self->family_tick == 0 && self->bench_frames == 0)
+    self->family_tick = gtk_widget_add_tick_callback (GTK_WIDGET (self), redraw_tick, NULL,
+                                                      NULL);
+}
+
+void
+lw_window_clear_family_picture (LwWindow *self)
+{
+  if (self->family_picture == NULL)
+    return;
+  g_clear_pointer (&self->family_picture, lw_family_picture_unref);
+  self->family_redraw = TRUE;
+  if (self->family_tick == 0)
+    self->family_tick = gtk_widget_add_tick_callback (GTK_WIDGET (self), redraw_tick, NULL,
+                                                      NULL);
+}
+
+/* ---- the whole family -------------------------------------------------------------------- */
+
 /* A plant family evaluated for the evaluation of one generation. */
 typedef struct
 {
@@ -27,6 +139,7 @@ typedef struct
   size_t variant;
   guint64 generation;
   LwFamily *family;
+  LwFamilyPicture *picture;
   GError *error;
 } FamilyJob;
 
@@ -36,6 +149,7 @@ family_job_free (gpointer data)
   FamilyJob *fj = data;
   lw_design_free (fj->doc);
   g_clear_pointer (&fj->family, lw_family_free);
+  g_clear_pointer (&fj->picture, lw_family_picture_unref);
   g_clear_error (&fj->error);
   g_free (fj);
 }
@@ -45,6 +159,15 @@ family_thread (GTask *task, gpointer source, gpointer task_data, GCancellable *c
 {
   FamilyJob *fj = task_data;
   fj->family = lw_family_evaluate (fj->doc, fj->variant, NULL, &fj->error);
+  if (fj->family != NULL)
+    {
+      const LwFamily *f = fj->family;
+      size_t w = f->worst[LW_FAMILY_PHASE_MARGIN];
+      LwFamilyLoops *l = lw_family_loops (fj->doc, fj->variant, f, LW_FAMILY_LOOPS_OTHERS, 0);
+      fj->picture = picture_new (l, fj->doc->variants[fj->variant].name, fj->generation,
+                                 w != G_MAXSIZE ? f->members[w].figure[LW_FAMILY_PHASE_MARGIN]
+                                                : NAN);
+    }
   g_task_return_boolean (task, TRUE);
 }
 
@@ -66,13 +189,19 @@ family_done (GObject *source, GAsyncResult *result, gpointer user_data)
     return;
   lw_requirements_panel_show_family (self->requirements_panel, fj->family, fj->doc, fj->error,
                                      FALSE);
+  if (fj->picture != NULL)
+    show_picture (self, g_steal_pointer (&fj->picture));
+  else
+    lw_window_clear_family_picture (self);
   if (self->debug && fj->family != NULL)
     {
       const LwFamily *f = fj->family;
       size_t w = f->worst[LW_FAMILY_PHASE_MARGIN];
-      printf ("LW-FAMILY members=%zu failing=%zu worst_pm=%.17g\n", f->n_members,
+      const LwPlotFamily *pf = lw_window_family_drawn (self);
+      printf ("LW-FAMILY members=%zu failing=%zu worst_pm=%.17g drawn=%zu\n", f->n_members,
               f->n_not_passing,
-              w != G_MAXSIZE ? f->members[w].figure[LW_FAMILY_PHASE_MARGIN] : NAN);
+              w != G_MAXSIZE ? f->members[w].figure[LW_FAMILY_PHASE_MARGIN] : NAN,
+              pf != NULL ? pf->n : 0);
       fflush (stdout);
     }
 }
@@ -105,8 +234,96 @@ run_family (LwWindow *self, FamilyJob *fj)
   g_task_run_in_thread (task, family_thread);
 }
 
+/* ---- during a drag ----------------------------------------------------------------------- */
+
+typedef struct
+{
+  LwDesign *doc;
+  size_t variant;
+  guint64 generation;
+  LwFamilyPicture *base;        /* owns the plants */
+  LwFamilyPicture *picture;     /* the result */
+} DragJob;
+
+static void
+drag_job_free (gpointer data)
+{
+  DragJob *dj = data;
+  lw_design_free (dj->doc);
+  g_clear_pointer (&dj->base, lw_family_picture_unref);
+  g_clear_pointer (&dj->picture, lw_family_picture_unref);
+  g_free (dj);
+}
+
+static void
+drag_thread (GTask *task, gpointer source, gpointer task_data, GCancellable *cancellable)
+{
+  DragJob *dj = task_data;
+  LwFamilyLoops *l = lw_family_loops_again (dj->base->loops, dj->doc, dj->variant,
+                                            DRAG_FAMILY_POINTS);
+  double worst = lw_family_loops_worst_pm_deg (l);
+  dj->picture = picture_new (l, dj->doc->variants[dj->variant].name, dj->generation, worst);
+  dj->picture->plants_of = picture_ref (dj->base);
+  /* drawn: the band of every member and the lines of the worst ones */
+  lw_figure_family_band (&dj->picture->ff, DRAG_BAND_POINTS, l->n_worst);
+  g_task_return_boolean (task, TRUE);
+}
+
+static void run_drag (LwWindow *self, DragJob *dj);
+
+static void
+drag_done (GObject *source, GAsyncResult *result, gpointer user_data)
+{
+  GTask *task = G_TASK (result);
+  if (g_cancellable_is_cancelled (g_task_get_cancellable (task)))
+    return;
+  LwWindow *self = LW_WINDOW (source);
+  DragJob *dj = g_task_get_task_data (task);
+  self->family_drag_running = FALSE;
+  if (self->family_drag_pending != NULL)
+    run_drag (self, g_steal_pointer (&self->family_drag_pending));
+  /* stale: a newer picture (a later drag step, or the whole family after the drag) is on
+   * show, or the family went */
+  if (self->family_picture == NULL || dj->generation <= self->family_picture->generation)
+    return;
+  show_picture (self, g_steal_pointer (&dj->picture));
+}
+
+static void
+run_drag (LwWindow *self, DragJob *dj)
+{
+  self->family_drag_running = TRUE;
+  g_autoptr (GTask) task = g_task_new (self, self->eval_cancel, drag_done, NULL);
+  g_task_set_source_tag (task, lw_window_follow_family);
+  g_task_set_task_data (task, dj, drag_job_free);
+  g_task_run_in_thread (task, drag_thread);
+}
+
+void
+lw_window_follow_family (LwWindow *self, const LwDesign *doc, size_t variant,
+                         guint64 generation)
+{
+  LwFamilyPicture *p = self->family_picture;
+  if (p == NULL || g_strcmp0 (p->variant, doc->variants[variant].name) != 0)
+    return;
+  DragJob *dj = g_new0 (DragJob, 1);
+  dj->doc = lw_design_copy (doc);
+  dj->variant = variant;
+  dj->generation = generation;
+  dj->base = picture_ref (p->plants_of != NULL ? p->plants_of : p);
+  if (self->family_drag_running)
+    {
+      g_clear_pointer (&self->family_drag_pending, drag_job_free);
+      self->family_drag_pending = dj;
+      return;
+    }
+  run_drag (self, dj);
+}
+
 void
 lw_window_drop_family (LwWindow *self)
 {
   g_clear_pointer (&self->family_pending, family_job_free);
+  g_clear_pointer (&self->family_drag_pending, drag_job_free);
+  g_clear_pointer (&self->family_picture, lw_family_picture_unref);
 }

@@ -34,6 +34,9 @@
 
 G_BEGIN_DECLS
 
+/* A plant family's members drawn in the loop views (lw-window-family.c). */
+typedef struct _LwFamilyPicture LwFamilyPicture;
+
 struct _LwWindow
 {
   GtkApplicationWindow parent_instance;
@@ -63,6 +66,11 @@ struct _LwWindow
   GCancellable *eval_cancel;    /* cancelled when the window goes */
   gboolean family_running;      /* a plant family is being evaluated (lw-window.c) */
   gpointer family_pending;      /* the newest family asked for meanwhile (FamilyJob), or NULL */
+  LwFamilyPicture *family_picture; /* the family's members drawn with the active variant */
+  gboolean family_drag_running; /* its members follow a drag on a worker (lw-window-family.c) */
+  gpointer family_drag_pending; /* the newest drag step waiting for it (DragJob), or NULL */
+  gboolean family_redraw;       /* a new picture: the figures are drawn again at the next frame */
+  guint family_tick;            /* … by this tick callback, or 0 */
   gboolean one_column;
 
   /* file and unsaved state */
@@ -173,5 +181,16 @@ gboolean lw_window_has_ranges (const LwDesign *d);
 void lw_window_start_family (LwWindow *self, const LwDesign *doc, size_t variant,
                              guint64 generation);
 void lw_window_drop_family (LwWindow *self);
+/* During a drag: the family's drawn members follow the controller of `variant` of doc (the
+ * evaluation of `generation`), on a worker, shown when done unless a newer picture is. */
+void lw_window_follow_family (LwWindow *self, const LwDesign *doc, size_t variant,
+                              guint64 generation);
+/* The family's members to draw with the active variant, or NULL (none, or another
+ * variant's); its picture dropped (the design has no family any more). */
+const LwPlotFamily *lw_window_family_drawn (LwWindow *self);
+void lw_window_clear_family_picture (LwWindow *self);
+void lw_family_picture_unref (LwFamilyPicture *p);
+/* lw-window.c: the figures drawn again from the evaluation on show (not the panels). */
+void lw_window_show_plots (LwWindow *self);
 
 G_END_DECLS

@@ -168,7 +168,9 @@ show_handles_and_plots (LwWindow *self, gboolean panels)
         continue;
       /* a variant keeps the colour of its place in the document, whichever are compared */
       vs[n] = (LwAreaVariant) { .eval = e, .name = name,
-                                .style = i % LW_PLOT_MAX_VARIANTS + 1 };
+                                .style = i % LW_PLOT_MAX_VARIANTS + 1,
+                                .family = i == d->active ? lw_window_family_drawn (self)
+                                                         : NULL };
       names[n] = name;
       evals[n] = e;
       n++;
@@ -181,6 +183,7 @@ show_handles_and_plots (LwWindow *self, gboolean panels)
       vs[0].style = 0;
     }
 
+  self->family_redraw = FALSE;
   /* the document's arrangement of the panes (its <view shows="…">) */
   lw_plot_area_set_views (self->plot_area, (const char *const *) d->views);
   lw_plot_area_show_variants (self->plot_area, vs, n, active, &req, v->stages,
@@ -328,13 +331,21 @@ eval_job_show (LwWindow *self, EvalJob *job)
   show_eval (self, g_steal_pointer (&job->result[0]));
   gboolean nominal_ok = self->eval != NULL && self->eval->ev != NULL;
   /* the family, after the nominal is on show: on a worker thread of its own (docs/
-   * families.md: the default members); during a drag the last one stays, dimmed */
+   * families.md: the default members); during a drag its drawn members follow the
+   * controller (lw_window_follow_family) and its summary stays, dimmed */
+  gboolean ranges = lw_window_has_ranges (lw_design_model_get_design (self->model));
+  if (!ranges)
+    lw_window_clear_family_picture (self);
   if (job->want_family && nominal_ok)
     lw_window_start_family (self, job->doc, job->index[0], job->generation);
-  else if (job->want_family || !lw_window_has_ranges (lw_design_model_get_design (self->model)))
+  else if (job->want_family || !ranges)
     lw_requirements_panel_show_family (self->requirements_panel, NULL, NULL, NULL, FALSE);
   else
-    lw_requirements_panel_show_family (self->requirements_panel, NULL, NULL, NULL, TRUE);
+    {
+      lw_requirements_panel_show_family (self->requirements_panel, NULL, NULL, NULL, TRUE);
+      if (job->n_points == DRAG_POINTS && nominal_ok)
+        lw_window_follow_family (self, job->doc, job->index[0], job->generation);
+    }
 }
 
 static void
@@ -413,6 +424,13 @@ schedule_eval (LwWindow *self)
 
 /* What the other parts of the window call of the evaluation above (kept as it is, under the
  * names it has). */
+
+void
+lw_window_show_plots (LwWindow *self)
+{
+  if (self->eval != NULL)
+    show_handles_and_plots (self, FALSE);
+}
 
 void
 lw_window_show_variants (LwWindow *self)

@@ -472,6 +472,7 @@ lw_figure_family_fill (LwFigureFamily *ff, size_t n_members, size_t n,
     }
   ff->f.n_members = n_members;
   ff->f.n = n;
+  ff->n_filled = n;
   ff->f.z = ff->z;
   ff->f.w = ff->w;
   ff->f.nyquist = ff->nyquist;
@@ -479,13 +480,99 @@ lw_figure_family_fill (LwFigureFamily *ff, size_t n_members, size_t n,
   ff->f.worst_pm_deg = worst_pm_deg;
 }
 
+/* The envelope of curves[0 … n−1] on the grid g (m points) into lo/hi arrays. */
+static void
+band_of (const LwPlotFreqCurve *curves, size_t n, const double *g, size_t m, double *mag_lo,
+         double *mag_hi, double *ph_lo, double *ph_hi)
+{
+  for (size_t j = 0; j < m; j++)
+    mag_lo[j] = mag_hi[j] = ph_lo[j] = ph_hi[j] = NAN;
+  for (size_t i = 0; i < n; i++)
+    {
+      const LwPlotFreqCurve *c = &curves[i];
+      size_t k = 0;
+      for (size_t j = 0; j < m && c->n >= 2; j++)
+        {
+          while (k + 1 < c->n && c->freq_rad_s[k + 1] < g[j])
+            k++;
+          if (k + 1 >= c->n || g[j] < c->freq_rad_s[k] || !(c->freq_rad_s[k] > 0.0))
+            continue;
+          double f0 = c->freq_rad_s[k], f1 = c->freq_rad_s[k + 1];
+          double t = f1 > f0 ? log (g[j] / f0) / log (f1 / f0) : 0.0;
+          double mg = c->mag_db[k] + t * (c->mag_db[k + 1] - c->mag_db[k]);
+          double ph = c->phase_deg[k] + t * (c->phase_deg[k + 1] - c->phase_deg[k]);
+          if (!isfinite (mg) || !isfinite (ph))
+            continue;
+          if (!(mg >= mag_lo[j]))
+            mag_lo[j] = mg;
+          if (!(mg <= mag_hi[j]))
+            mag_hi[j] = mg;
+          if (!(ph >= ph_lo[j]))
+            ph_lo[j] = ph;
+          if (!(ph <= ph_hi[j]))
+            ph_hi[j] = ph;
+        }
+    }
+}
+
+/* One band: the grid over the members' frequencies, then the envelope. */
+static void
+fill_band (LwPlotBand *b, const LwPlotFreqCurve *curves, size_t n, size_t m, double *data)
+{
+  double lo = INFINITY, hi = 0.0;
+  for (size_t i = 0; i < n; i++)
+    for (size_t k = 0; k < curves[i].n; k++)
+      {
+        double f = curves[i].freq_rad_s[k];
+        if (f > 0.0 && isfinite (f))
+          {
+            lo = fmin (lo, f);
+            hi = fmax (hi, f);
+          }
+      }
+  *b = (LwPlotBand) { 0 };
+  if (!(hi > lo))
+    return;
+  double *g = data, *mlo = data + m, *mhi = data + 2 * m, *plo = data + 3 * m,
+         *phi = data + 4 * m;
+  for (size_t j = 0; j < m; j++)
+    g[j] = j + 1 == m ? hi : lo * pow (hi / lo, (double) j / (double) (m - 1));
+  band_of (curves, n, g, m, mlo, mhi, plo, phi);
+  *b = (LwPlotBand) { .n = m, .freq_rad_s = g, .mag_lo_db = mlo, .mag_hi_db = mhi,
+                      .phase_lo_deg = plo, .phase_hi_deg = phi };
+}
+
+void
+lw_figure_family_band (LwFigureFamily *ff, size_t n_grid, size_t n_lines)
+{
+  size_t m = MAX (n_grid, 2);
+  g_free (ff->band_data);
+  ff->band_data = g_new (double, 10 * m);
+  fill_band (&ff->band_z, ff->z, ff->n_filled, m, ff->band_data);
+  fill_band (&ff->band_w, ff->w, ff->n_filled, m, ff->band_data + 5 * m);
+  ff->f.band_z = ff->band_z.n > 0 ? &ff->band_z : NULL;
+  ff->f.band_w = ff->band_w.n > 0 ? &ff->band_w : NULL;
+  size_t n = MIN (n_lines, ff->n_filled), w = ff->f.worst_pm;
+  if (w != SIZE_MAX && w >= n && w < ff->n_filled)
+    {
+      /* the worst member's line is drawn too: its curves moved to the place after the lines */
+      LwPlotFreqCurve tz = ff->z[n], tw = ff->w[n];
+      LwPlotComplexCurve tq = ff->nyquist[n];
+      ff->z[n] = ff->z[w], ff->w[n] = ff->w[w], ff->nyquist[n] = ff->nyquist[w];
+      ff->z[w] = tz, ff->w[w] = tw, ff->nyquist[w] = tq;
+      ff->f.worst_pm = n++;
+    }
+  ff->f.n = n;
+}
+
 void
 lw_figure_family_clear (LwFigureFamily *ff)
 {
   if (ff == NULL)
     return;
-  for (size_t i = 0; i < ff->f.n; i++)
+  for (size_t i = 0; i < ff->n_filled; i++)
     lw_figure_variant_clear (&ff->members[i]);
+  g_free (ff->band_data);
   g_free (ff->members);
   g_free (ff->z);
   g_free (ff->w);

@@ -55,6 +55,9 @@ typedef struct {
   LwFigureVariant *members;   /* f.n */
   LwPlotFreqCurve *z, *w;
   LwPlotComplexCurve *nyquist;
+  size_t n_filled;            /* members filled (f.n may be set lower: fewer lines drawn) */
+  LwPlotBand band_z, band_w;  /* lw_figure_family_band */
+  double *band_data;
 } LwFigureFamily;
 
 /* Fills ff from n members' sampled plants and loops (plants[i], evs[i]; a NULL evaluation
@@ -64,6 +67,13 @@ typedef struct {
 void lw_figure_family_fill (LwFigureFamily *ff, size_t n_members, size_t n,
                             LwSampledPlant *const *plants, LwEvaluation *const *evs,
                             size_t worst_pm, double worst_pm_deg);
+/* The envelope of every filled member (in z and in w) on n_grid points spaced evenly in
+ * log ω between the lowest frequency any member has and the highest (each member's curve
+ * read linearly in log ω between its own points; a band may miss the top of a resonance
+ * narrower than the grid's spacing), set as ff->f.band_z and band_w; then only the first
+ * n_lines members are drawn as lines (the worst ones come first), and the one of the worst
+ * phase margin (f.worst_pm) when it is not among them. Call it once, after the fill. */
+void lw_figure_family_band (LwFigureFamily *ff, size_t n_grid, size_t n_lines);
 void lw_figure_family_clear (LwFigureFamily *ff);
 
 /* Which time responses a variant shows: the same bits as a design variant's responses

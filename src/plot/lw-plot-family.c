@@ -35,6 +35,45 @@ lwp_family_line (Panel *pn, size_t v, size_t n, const double *x, const double *y
   return p;
 }
 
+Prim *
+lwp_family_band (Panel *pn, size_t v, size_t n, const double *x, const double *lo,
+                 const double *hi)
+{
+  /* each run of covered points: along hi forward, back along lo, then a NaN */
+  size_t m = 0;
+  double *u = g_new (double, 3 * n + 1), *w = g_new (double, 3 * n + 1);
+  for (size_t i = 0; i < n;)
+    {
+      size_t a = i;
+      while (a < n && !(isfinite (x[a]) && isfinite (lo[a]) && isfinite (hi[a])))
+        a++;
+      size_t b = a;
+      while (b < n && isfinite (x[b]) && isfinite (lo[b]) && isfinite (hi[b]))
+        b++;
+      if (b - a >= 2)
+        {
+          for (size_t k = a; k < b; k++, m++)
+            u[m] = x[k], w[m] = hi[k];
+          for (size_t k = b; k-- > a; m++)
+            u[m] = x[k], w[m] = lo[k];
+          u[m] = w[m] = NAN;
+          m++;
+        }
+      i = b > a ? b : a + 1;
+    }
+  Prim *p = NULL;
+  if (m > 0)
+    {
+      p = lwp_add_line (pn, m, u, w);   /* mapped as a line's points are, then filled */
+      p->kind = PRIM_AREA;
+      lwp_style_variant (p, v, 0.0);
+      p->alpha = FAMILY_BAND_ALPHA;
+    }
+  g_free (u);
+  g_free (w);
+  return p;
+}
+
 void
 lwp_family_worst_label (Panel *pn, size_t v, double x, double y, double pm_deg)
 {

@@ -65,7 +65,8 @@ typedef enum {
   PRIM_TEXT,      /* text at (u[0], v[0]) + pixel offset */
   PRIM_HBAND,     /* band between v[0] and v[1] across the panel */
   PRIM_CIRCLE,    /* circle centre (u[0], v[0]), radius r_units of the x axis (equal aspect) */
-  PRIM_ARC        /* arc of the circle from angle a0 to a1 (degrees, data space) */
+  PRIM_ARC,       /* arc of the circle from angle a0 to a1 (degrees, data space) */
+  PRIM_AREA       /* filled polygon(s) u[], v[]; NaN closes one and starts the next */
 } PrimKind;
 typedef enum { MARK_CIRCLE, MARK_DISC, MARK_DIAMOND, MARK_CROSS, MARK_PLUS } MarkShape;
 
@@ -263,6 +264,7 @@ void lwp_add_phase_references (Panel *pn, const LwPlotAxis *a, bool vertical);
 #define FAMILY_ALPHA 0.28
 #define FAMILY_WORST_WIDTH LW_PLOT_FAMILY_WORST_WIDTH
 #define FAMILY_WORST_ALPHA 0.85
+#define FAMILY_BAND_ALPHA 0.16
 
 /* The variant of `in` whose family is drawn (the first with one of at least one member), or
  * SIZE_MAX; sets the figure's key entry "family (N members)" for it. */
@@ -273,6 +275,10 @@ Prim *lwp_family_line (Panel *pn, size_t v, size_t n, const double *x, const dou
                        bool worst);
 /* The worst member marked at (x, y) in data units of pn (its crossover) and labelled. */
 void lwp_family_worst_label (Panel *pn, size_t v, double x, double y, double pm_deg);
+/* A family's band between lo[] and hi[] over x[] (n points; NaN: not covered) as a filled
+ * area in variant v's colour; NULL when it has no two covered points in a row. */
+Prim *lwp_family_band (Panel *pn, size_t v, size_t n, const double *x, const double *lo,
+                       const double *hi);
 
 /* ---- the view table (lw-plot-view.c) and the builders (lw-plot-view-NAME.c) ----------- */
 

@@ -261,6 +261,14 @@ build_bode (LwPlot *pl, const LwPlotInput *in, bool w_plane)
     {
       const LwPlotFamily *fam = in->variants[fv].family;
       const LwPlotFreqCurve *curves = w_plane ? fam->w : fam->z;
+      const LwPlotBand *band = w_plane ? fam->band_w : fam->band_z;
+      if (band != NULL && band->n >= 2)
+        {
+          lwp_family_band (mag, fv, band->n, band->freq_rad_s, band->mag_lo_db, band->mag_hi_db);
+          if (!wrapped)
+            lwp_family_band (ph, fv, band->n, band->freq_rad_s, band->phase_lo_deg,
+                             band->phase_hi_deg);
+        }
       for (size_t i = 0; curves != NULL && i < fam->n; i++)
         {
           const LwPlotFreqCurve *c = &curves[i];

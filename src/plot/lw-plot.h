@@ -116,6 +116,16 @@ typedef struct {
   size_t n_loop_zeros;   const double *zero_re; const double *zero_im;
 } LwPlotPoleData;
 
+/* The envelope of a plant family's members over a common frequency grid (ω or ν): at each
+ * frequency the lowest and highest magnitude and phase of the members covering it (NaN where
+ * none does). Drawn as a light filled band under the member lines. */
+typedef struct {
+  size_t n;
+  const double *freq_rad_s;
+  const double *mag_lo_db, *mag_hi_db;
+  const double *phase_lo_deg, *phase_hi_deg;
+} LwPlotBand;
+
 /* The members of a plant family drawn with a variant (docs/families.md): each member's loop
  * over the same axes as the variant's own curves, drawn thin and light in the variant's colour
  * under it (Bode in z and w, Nyquist, Nichols); the member of the worst phase margin dashed,
@@ -129,6 +139,9 @@ typedef struct {
   size_t worst_pm;                    /* the drawn member of the worst phase margin, or
                                          SIZE_MAX; labelled with worst_pm_deg */
   double worst_pm_deg;
+  /* optional: the envelope of more members than those drawn (the window during a drag draws
+   * the band and the worst members' lines); not drawn with a wrapped phase axis */
+  const LwPlotBand *band_z, *band_w;
 } LwPlotFamily;
 
 /* One variant of the design: what each view needs (a view ignores the rest). */

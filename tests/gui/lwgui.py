@@ -206,3 +206,10 @@ def kill_window(proc):
     if proc.poll() is None:
         proc.kill()
         proc.wait()
+
+
+def without_surface_ids(path):
+    """An SVG's bytes with cairo's surface numbers taken out (they count the surfaces the
+    process made before)."""
+    with open(path, 'rb') as f:
+        return re.sub(rb'surface\d+', b'surface', f.read())

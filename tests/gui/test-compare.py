@@ -38,7 +38,8 @@ import numpy as np
 
 sys.path.insert(0, os.path.dirname(os.path.abspath(__file__)))
 from lwgui import (debug_lines, fail, key, kill_window, lsan_options, outer,  # noqa: E402
-                   quit_window, run, start_window, wait_for, window_env)
+                   quit_window, run, start_window, wait_for, window_env,
+                   without_surface_ids)
 
 # The first two variant colours of the light theme (PALETTE_LIGHT in src/plot/lw-plot-draw.c);
 # tolerance as in test-variants.py. Only the magnitude panel of a pane is counted (its
@@ -98,11 +99,6 @@ def colour_counts(png, box):
 
 def close(a, b):
     return abs(a - b) <= 1e-9 * max(abs(a), abs(b))
-
-
-def without_surface_ids(path):
-    with open(path, 'rb') as f:
-        return re.sub(rb'surface\d+', b'surface', f.read())
 
 
 def inner(app, cli, schema_dir, design, artefacts):

@@ -5,7 +5,11 @@ opens with the family evaluated on the worker thread, and its debug line LW-FAMI
 members, the requirements failing on some member and the worst phase margin — equal to
 `loopwright-cli analyze FILE --json`'s family (the same engine function, the same default
 members and seed: the worst phase margin to 1e-9°, the counts exactly). The robust variant passes on
-every member. A screenshot of the panel goes to ARTEFACT_DIR/family.png.
+every member. The family is drawn in the loop views: Export Figure of the Bode view in z
+(through the test hook LW_TEST_FIGURE_PATH, 800 × 600) is byte for byte `plot FILE
+--all-variants --view bode-z --size 800x600` (the same members drawn by the same code), with
+one thin path per member drawn (LW-FAMILY drawn=N) in each panel and one for the key. A
+screenshot of the panel goes to ARTEFACT_DIR/family.png.
 
 Usage: test-family.py LOOPWRIGHT CLI SCHEMA_DIR EXAMPLE ARTEFACT_DIR
 Re-runs itself on an Xvfb server of its own (lwgui.outer; exit 77, skipped, when Xvfb or
@@ -19,8 +23,11 @@ import sys
 import tempfile
 
 sys.path.insert(0, os.path.dirname(os.path.abspath(__file__)))
-from lwgui import (debug_lines, fail, kill_window, outer, quit_window,  # noqa: E402
-                   settle, start_window, wait_for, window_env)
+from lwgui import (debug_lines, fail, key, kill_window, lsan_options,  # noqa: E402
+                   outer, quit_window, settle, start_window, wait_for, window_env,
+                   without_surface_ids)
+
+FAMILY_WIDTH = b'stroke-width:0.85;'   # LW_PLOT_FAMILY_WIDTH: no other stroke of the view
 
 
 def family_lines(log_path):
@@ -40,8 +47,15 @@ def inner(app, cli, schema_dir, example, artefacts):
         fam = json.loads(r.stdout)['family']
         failing = sum(1 for q in fam['requirements'] if q['status'] != 'pass')
         log_path = os.path.join(artefacts, 'family.log')
+        fig_win = os.path.join(artefacts, 'family-window.svg')
+        fig_cli = os.path.join(artefacts, 'family-cli.svg')
+        for f in (fig_win, fig_cli):
+            if os.path.exists(f):
+                os.remove(f)
+        env = window_env(schema_dir, tmp, LW_TEST_FIGURE_PATH=fig_win,
+                         LW_TEST_FIGURE_VIEW='bode-z')
         with open(log_path, 'w') as log_file:
-            proc, wid = start_window(app, doc, window_env(schema_dir, tmp), log_file)
+            proc, wid = start_window(app, doc, env, log_file)
             try:
                 wait_for(lambda: len(family_lines(log_path)) > 0, 'the family evaluated')
                 settle(log_path)
@@ -56,6 +70,23 @@ def inner(app, cli, schema_dir, example, artefacts):
                          % (got, fam['worst_phase_margin_deg']))
                 if failing != 0:
                     fail('the robust variant fails on some member: %d' % failing)
+                key(wid, 'ctrl+e')
+                wait_for(lambda: os.path.exists(fig_win) and os.path.getsize(fig_win) > 0,
+                         'the exported figure')
+                r = subprocess.run([cli, 'plot', doc, '--all-variants', '--view', 'bode-z',
+                                    '--size', '800x600', '--out', fig_cli], capture_output=True,
+                                   text=True, timeout=120,
+                                   env=dict(os.environ, LSAN_OPTIONS=lsan_options()))
+                if r.returncode != 0:
+                    fail('plot: exit %d: %s' % (r.returncode, r.stderr))
+                drawn = int(line['drawn'])
+                thin = without_surface_ids(fig_win).count(FAMILY_WIDTH)
+                print('members drawn %d, thin paths in the exported figure %d' % (drawn, thin))
+                if drawn < 2 or thin != 2 * (drawn - 1) + 1:
+                    fail('the window\'s figure has %d thin paths for %d members drawn'
+                         % (thin, drawn))
+                if without_surface_ids(fig_win) != without_surface_ids(fig_cli):
+                    fail('the exported figure differs from plot\'s (%s, %s)' % (fig_win, fig_cli))
                 subprocess.run(['xdotool', 'mousemove', '--window', str(wid), '250', '700'],
                                check=False)
                 for _ in range(30):
@@ -67,7 +98,7 @@ def inner(app, cli, schema_dir, example, artefacts):
                 kill_window(proc)
     finally:
         shutil.rmtree(tmp, ignore_errors=True)
-    print('ok: the window\'s family equals analyze\'s')
+    print('ok: the window\'s family equals analyze\'s, its figure plot\'s')
 
 
 def main():
