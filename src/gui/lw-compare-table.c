@@ -9,7 +9,22 @@
 #include <glib/gi18n.h>
 
 #include "lw-compare-table.h"
+#include "lw-family-summary.h"
 #include "lw-gui-util.h"
+
+/* The worst case of the active variant's plant family, as its column shows it. */
+typedef struct
+{
+  char *variant;                /* the variant whose family it is */
+  size_t n_members;
+  gboolean stale;               /* from before a drag */
+  double value[14];             /* per row (N_ROWS), NaN: not a figure of the family */
+  char *member[14];             /* the member giving it, in words, or NULL */
+  double crossover_lo, crossover_hi;
+  guint n_req;
+  LwReqStatus *req_status;
+  char **req_member;
+} FamilyColumn;
 
 struct _LwCompareTable
 {
@@ -21,6 +36,7 @@ struct _LwCompareTable
   gboolean debug;
   char *debug_last;
   LwPlotTheme theme;
+  FamilyColumn *family;         /* NULL: no family shown */
 };
 
 G_DEFINE_FINAL_TYPE (LwCompareTable, lw_compare_table, GTK_TYPE_WIDGET)
@@ -45,6 +61,38 @@ enum
   ROW_PERIOD, ROW_PM, ROW_GM, ROW_WC, ROW_DM, ROW_MS, ROW_OS, ROW_RISE, ROW_SETTLE, ROW_IAE,
   ROW_ISE, ROW_ITAE, ROW_EFFORT, ROW_UPEAK, N_ROWS
 };
+G_STATIC_ASSERT (N_ROWS == G_N_ELEMENTS (((FamilyColumn *) NULL)->value));
+
+/* The family's figure of a row, or −1 (lw-family.h: the figures over the members). */
+static int
+family_figure (int row)
+{
+  switch (row)
+    {
+    case ROW_PM: return LW_FAMILY_PHASE_MARGIN;
+    case ROW_GM: return LW_FAMILY_GAIN_MARGIN;
+    case ROW_DM: return LW_FAMILY_DELAY_MARGIN;
+    case ROW_MS: return LW_FAMILY_SENSITIVITY;
+    case ROW_OS: return LW_FAMILY_OVERSHOOT;
+    case ROW_SETTLE: return LW_FAMILY_SETTLING;
+    default: return -1;
+    }
+}
+
+static void
+family_column_free (FamilyColumn *fc)
+{
+  if (fc == NULL)
+    return;
+  g_free (fc->variant);
+  for (int r = 0; r < N_ROWS; r++)
+    g_free (fc->member[r]);
+  g_free (fc->req_status);
+  for (guint i = 0; i < fc->n_req; i++)
+    g_free (fc->req_member[i]);
+  g_free (fc->req_member);
+  g_free (fc);
+}
 
 /* Units of the time-domain indices: for a reference step of 1, the error is in units of the
  * step (lw-simulate.h): IAE = T Σ|e| in s, ISE = T Σe² in s, ITAE = T Σ kT|e| in s²; the
@@ -195,6 +243,79 @@ put (LwCompareTable *self, int col, int row, const char *markup, float xalign, g
   return l;
 }
 
+/* The family's cell of a figure's row: its worst value (the crossover: its range), the member
+ * in the tooltip; dimmed when from before a drag. */
+static void
+family_cell (LwCompareTable *self, const FamilyColumn *fam, int col, int r, int row,
+             GString *dbg)
+{
+  g_autofree char *text = NULL;
+  if (row == ROW_WC && isfinite (fam->crossover_lo))
+    text = g_strdup_printf ("%.4g … %.4g", fam->crossover_lo, fam->crossover_hi);
+  else if (isfinite (fam->value[row]))
+    text = g_strdup_printf ("%.4g", fam->value[row]);
+  else
+    text = g_strdup ("—");
+  g_autofree char *markup = fam->stale ? g_strdup_printf ("<span alpha=\"55%%\">%s</span>", text)
+                                       : g_strdup (text);
+  GtkWidget *c = put (self, col, r, markup, 1, FALSE);
+  lw_gui_set_tooltip (c, fam->member[row]);
+  g_string_append_printf (dbg, " family=%.17g", row == ROW_WC ? fam->crossover_lo
+                                                             : fam->value[row]);
+}
+
+void
+lw_compare_table_set_family (LwCompareTable *self, const LwFamily *f, const LwDesign *d,
+                             size_t variant)
+{
+  g_return_if_fail (LW_IS_COMPARE_TABLE (self));
+  g_clear_pointer (&self->family, family_column_free);
+  if (f == NULL || d == NULL || variant >= d->n_variants)
+    return;
+  FamilyColumn *fc = g_new0 (FamilyColumn, 1);
+  fc->variant = g_strdup (d->variants[variant].name);
+  fc->n_members = f->n_members;
+  for (int row = 0; row < N_ROWS; row++)
+    {
+      fc->value[row] = NAN;
+      int k = family_figure (row);
+      size_t w = k >= 0 ? f->worst[k] : G_MAXSIZE;
+      if (w == G_MAXSIZE || w >= f->n_members)
+        continue;
+      fc->value[row] = f->members[w].figure[k];
+      g_autofree char *who = lw_family_member_words (f, d, w);
+      /* TRANSLATORS: the member of a plant family giving a worst value */
+      fc->member[row] = g_strdup_printf (_("Worst on the member %s"), who);
+    }
+  fc->crossover_lo = f->crossover_min_rad_s;
+  fc->crossover_hi = f->crossover_max_rad_s;
+  if (!(isfinite (fc->crossover_lo) && isfinite (fc->crossover_hi)))
+    fc->crossover_lo = fc->crossover_hi = NAN;
+  fc->member[ROW_WC] = g_strdup (_("The gain crossover's range over the members"));
+  fc->n_req = (guint) f->n_requirements;
+  fc->req_status = g_new0 (LwReqStatus, fc->n_req + 1);
+  fc->req_member = g_new0 (char *, fc->n_req + 1);
+  for (guint i = 0; i < fc->n_req; i++)
+    {
+      fc->req_status[i] = f->requirements[i].status;
+      size_t m = f->requirement_member[i];
+      if (m != G_MAXSIZE && m < f->n_members)
+        {
+          g_autofree char *who = lw_family_member_words (f, d, m);
+          fc->req_member[i] = g_strdup_printf (_("Worst on the member %s"), who);
+        }
+    }
+  self->family = fc;
+}
+
+void
+lw_compare_table_family_stale (LwCompareTable *self, gboolean stale)
+{
+  g_return_if_fail (LW_IS_COMPARE_TABLE (self));
+  if (self->family != NULL)
+    self->family->stale = stale;
+}
+
 void
 lw_compare_table_show (LwCompareTable *self, const char *const *names,
                        LwVariantEval *const *evals, const guint *styles, guint n, guint active,
@@ -202,16 +323,20 @@ lw_compare_table_show (LwCompareTable *self, const char *const *names,
 {
   g_return_if_fail (LW_IS_COMPARE_TABLE (self));
   g_return_if_fail (n == 0 || (names != NULL && evals != NULL && active < n));
-  gtk_widget_set_visible (GTK_WIDGET (self), n >= 2);
-  if (n < 2)
+  /* the active variant's plant family: a column of its worst cases */
+  const FamilyColumn *fam = self->family != NULL && n >= 1
+                            && g_strcmp0 (self->family->variant, names[active]) == 0
+                            ? self->family : NULL;
+  gtk_widget_set_visible (GTK_WIDGET (self), n >= 2 || (n >= 1 && fam != NULL));
+  if (n < 2 && fam == NULL)
     {
       clear (self);
       g_clear_pointer (&self->shape, g_free);
       return;
     }
   g_autoptr (GString) shape = g_string_new (NULL);
-  g_string_append_printf (shape, "%u %u %u %d %d", n, active, n_req, (int) self->theme,
-                          on_data);
+  g_string_append_printf (shape, "%u %u %u %d %d %d", n, active, n_req, (int) self->theme,
+                          on_data, fam != NULL);
   for (guint j = 0; j < n; j++)
     g_string_append_printf (shape, "\x1f%s", names[j]);
   for (guint i = 0; i < n_req; i++)
@@ -245,6 +370,20 @@ lw_compare_table_show (LwCompareTable *self, const char *const *names,
                                 ? g_strdup_printf (_("%s (active)"), name)
                                 : g_strdup (name);
       put (self, (int) j + 1, 0, head, 1, FALSE);
+    }
+  const int fcol = (int) n + 1;   /* the family's column */
+  if (fam != NULL)
+    {
+      /* TRANSLATORS: the column of a plant family's worst cases; %zu its members */
+      g_autofree char *head = g_strdup_printf (_("<b>Worst of the family</b>\n(%zu members)"),
+                                               fam->n_members);
+      GtkWidget *h = put (self, fcol, 0, head, 1, FALSE);
+      lw_gui_set_tooltip (h, fam->stale
+                               ? _("From before the drag: the family is evaluated again when "
+                                   "it ends.")
+                               : _("The worst value over the plant family's members, with the "
+                                   "active variant's controller (docs/families.md); the member "
+                                   "giving it is in each value's tooltip."));
     }
 
   int r = 1;
@@ -297,6 +436,8 @@ lw_compare_table_show (LwCompareTable *self, const char *const *names,
                                     "difference");
           lw_gui_set_tooltip (c, tip);
         }
+      if (fam != NULL)
+        family_cell (self, fam, fcol, r, row, dbg);
       g_string_append_c (dbg, '\n');
     }
 
@@ -324,6 +465,16 @@ lw_compare_table_show (LwCompareTable *self, const char *const *names,
           g_string_append_printf (dbg, "%s%s", j > 0 ? "," : "", d);
           put (self, (int) j + 1, r, t, 1, FALSE);
         }
+      if (fam != NULL && fam->n_req == n_req)
+        {
+          LwReqStatus st = fam->req_status[i];
+          const char *t = st == LW_REQ_PASS ? _("pass on every member")
+                          : st == LW_REQ_FAIL ? _("<b>fails on a member</b>") : "—";
+          GtkWidget *c = put (self, fcol, r, t, 1, FALSE);
+          lw_gui_set_tooltip (c, fam->req_member[i]);
+          g_string_append_printf (dbg, " family=%s", st == LW_REQ_PASS ? "pass"
+                                                     : st == LW_REQ_FAIL ? "fail" : "n/a");
+        }
       g_string_append_c (dbg, '\n');
     }
 
@@ -340,6 +491,7 @@ static void
 lw_compare_table_dispose (GObject *object)
 {
   LwCompareTable *self = LW_COMPARE_TABLE (object);
+  g_clear_pointer (&self->family, family_column_free);
   if (self->grid != NULL)
     {
       gtk_widget_unparent (GTK_WIDGET (self->grid));

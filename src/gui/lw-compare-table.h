@@ -21,6 +21,7 @@
 #include <gtk/gtk.h>
 
 #include "lw-design-model.h"
+#include "lw-family.h"
 #include "lw-plot.h"
 
 G_BEGIN_DECLS
@@ -38,6 +39,17 @@ void lw_compare_table_show (LwCompareTable *self, const char *const *names,
                             LwVariantEval *const *evals, const guint *styles, guint n,
                             guint active, const LwDesignRequirement *reqs, guint n_req,
                             gboolean on_data);
+
+/* The plant family of variant `variant` of d (lw-family.h), shown by the next
+ * lw_compare_table_show as one more column while that variant is the active one: the worst
+ * phase, gain and delay margin, sensitivity peak, overshoot and settling time over the
+ * members (the member giving each in its tooltip), the crossover's range, and each
+ * requirement judged on every member. NULL: no family column. With LW_DEBUG_HANDLES=1 each
+ * LW-METRIC line ends with family=VALUE (the crossover's low end; a requirement's verdict).
+ * _stale: the column is from before a drag (dimmed). */
+void lw_compare_table_set_family (LwCompareTable *self, const LwFamily *f, const LwDesign *d,
+                                  size_t variant);
+void lw_compare_table_family_stale (LwCompareTable *self, gboolean stale);
 
 /* The theme of the colour samples (as the plots'). */
 void lw_compare_table_set_theme (LwCompareTable *self, LwPlotTheme theme);

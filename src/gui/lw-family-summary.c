@@ -65,3 +65,19 @@ lw_family_summary (const LwFamily *family, const LwDesign *d, const GError *erro
     }
   return g_string_free (t, FALSE);
 }
+
+char *
+lw_family_member_words (const LwFamily *f, const LwDesign *d, size_t index)
+{
+  GString *t = g_string_new (NULL);
+  append_member (t, f, d, index);
+  /* without the parentheses the summary puts it in */
+  if (t->len >= 3 && t->str[0] == ' ' && t->str[1] == '(')
+    {
+      g_string_erase (t, 0, 2);
+      g_string_truncate (t, t->len - 1);
+    }
+  else if (index == 0)
+    g_string_assign (t, _("nominal"));
+  return g_string_free (t, FALSE);
+}

@@ -11,3 +11,6 @@
  * peak, each with its member's ranged parameters, "k of n requirements pass on every
  * member"; or "not evaluated" with error's message when family is NULL. g_free it. */
 char *lw_family_summary (const LwFamily *family, const LwDesign *d, const GError *error);
+/* A member in words: "K = 150, wn = 225" (its ranged parameters), "nominal" for the nominal
+ * without any. g_free it. */
+char *lw_family_member_words (const LwFamily *f, const LwDesign *d, size_t index);

@@ -121,6 +121,7 @@ show_picture (LwWindow *self, LwFamilyPicture *p)
 void
 lw_window_clear_family_picture (LwWindow *self)
 {
+  lw_compare_table_set_family (self->compare_table, NULL, NULL, 0);
   if (self->family_picture == NULL)
     return;
   g_clear_pointer (&self->family_picture, lw_family_picture_unref);
@@ -189,10 +190,11 @@ family_done (GObject *source, GAsyncResult *result, gpointer user_data)
     return;
   lw_requirements_panel_show_family (self->requirements_panel, fj->family, fj->doc, fj->error,
                                      FALSE);
-  if (fj->picture != NULL)
-    show_picture (self, g_steal_pointer (&fj->picture));
-  else
-    lw_window_clear_family_picture (self);
+  lw_compare_table_set_family (self->compare_table, fj->family, fj->doc, fj->variant);
+  g_clear_pointer (&self->family_picture, lw_family_picture_unref);
+  self->family_picture = g_steal_pointer (&fj->picture);
+  /* the figures and the metrics table with it */
+  lw_window_show_variants (self);
   if (self->debug && fj->family != NULL)
     {
       const LwFamily *f = fj->family;

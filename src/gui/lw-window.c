@@ -343,6 +343,7 @@ eval_job_show (LwWindow *self, EvalJob *job)
   else
     {
       lw_requirements_panel_show_family (self->requirements_panel, NULL, NULL, NULL, TRUE);
+      lw_compare_table_family_stale (self->compare_table, TRUE);
       if (job->n_points == DRAG_POINTS && nominal_ok)
         lw_window_follow_family (self, job->doc, job->index[0], job->generation);
     }

@@ -8,8 +8,11 @@ members and seed: the worst phase margin to 1e-9°, the counts exactly). The rob
 every member. The family is drawn in the loop views: Export Figure of the Bode view in z
 (through the test hook LW_TEST_FIGURE_PATH, 800 × 600) is byte for byte `plot FILE
 --all-variants --view bode-z --size 800x600` (the same members drawn by the same code), with
-one thin path per member drawn (LW-FAMILY drawn=N) in each panel and one for the key. A
-screenshot of the panel goes to ARTEFACT_DIR/family.png.
+one thin path per member drawn (LW-FAMILY drawn=N) in each panel and one for the key. The
+metrics table's family column (LW-METRIC … family=) holds analyze's worst phase and gain
+margin, sensitivity peak, overshoot and settling time (1e-9 relative: the same numbers
+printed with 17 digits) and each requirement's verdict over the family. A screenshot of the
+panel goes to ARTEFACT_DIR/family.png.
 
 Usage: test-family.py LOOPWRIGHT CLI SCHEMA_DIR EXAMPLE ARTEFACT_DIR
 Re-runs itself on an Xvfb server of its own (lwgui.outer; exit 77, skipped, when Xvfb or
@@ -70,6 +73,22 @@ def inner(app, cli, schema_dir, example, artefacts):
                          % (got, fam['worst_phase_margin_deg']))
                 if failing != 0:
                     fail('the robust variant fails on some member: %d' % failing)
+                metric = {}
+                for m in debug_lines(log_path, 'LW-METRIC'):
+                    metric[m['row']] = m.get('family')
+                for row, k in (('phase-margin', 'worst_phase_margin_deg'),
+                               ('gain-margin', 'worst_gain_margin_db'),
+                               ('sensitivity-peak', 'worst_sensitivity_peak'),
+                               ('overshoot', 'worst_overshoot_pct'),
+                               ('settling-time', 'worst_settling_time_s')):
+                    got_v, want = float(metric.get(row) or 'nan'), fam[k]
+                    if not abs(got_v - want) <= 1e-9 * abs(want):
+                        fail('metrics table, family column, %s: %r, analyze %r'
+                             % (row, metric.get(row), want))
+                for i, q in enumerate(fam['requirements']):
+                    if metric.get('req-%d' % i) != q['status']:
+                        fail('metrics table, family column, requirement %d: %s, analyze %s'
+                             % (i, metric.get('req-%d' % i), q['status']))
                 key(wid, 'ctrl+e')
                 wait_for(lambda: os.path.exists(fig_win) and os.path.getsize(fig_win) > 0,
                          'the exported figure')
