@@ -5,6 +5,11 @@
  * Prints the wall-clock seconds of the evaluation (best of 3), the members evaluated and the
  * milliseconds per member. A benchmark, not a test: the goal (issue 15) is a 1000-member
  * family in at most 1 s on 2 cores.
+ * Then, on one thread, the cost per member of the loops drawn in the figures (the worst
+ * members and 40 others): sampled afresh on 300 and on 120 points (lw_family_loops), and on
+ * 120 points with the sampled plants reused (lw_family_loops_again: the window's drag), each
+ * against one single evaluation of the variant by the engine (lw_engine_evaluate_variant,
+ * the nominal plant, the engine's default grid and the step).
  *   lw-bench-family [MEMBERS [THREADS]]
  * SPDX-License-Identifier: GPL-3.0-or-later
  */
@@ -13,7 +18,49 @@
 
 #include <glib.h>
 
+#include "lw-engine.h"
 #include "lw-family.h"
+
+/* Best of 5 of the wall-clock milliseconds of fn (data). */
+typedef struct
+{
+  const LwDesign *d;
+  const LwFamily *f;
+  const LwFamilyLoops *base;
+  size_t points;
+  size_t n;
+} LoopsJob;
+
+static double
+per_member_ms (LoopsJob *j, int mode)
+{
+  double best = 1e300;
+  for (int round = 0; round < 5; round++)
+    {
+      gint64 t0 = g_get_monotonic_time ();
+      LwFamilyLoops *l = NULL;
+      LwVariantEval *e = NULL;
+      if (mode == 0)
+        l = lw_family_loops (j->d, 0, j->f, 40, j->points);
+      else if (mode == 1)
+        l = lw_family_loops_again (j->base, j->d, 0, j->points);
+      else
+        {
+          LwEngineOptions eo;
+          lw_engine_options_init (&eo);
+          e = lw_engine_evaluate_variant (j->d, 0, &eo, NULL);
+        }
+      double ms = (double) (g_get_monotonic_time () - t0) / 1e3;
+      size_t n = l != NULL ? l->n : 1;
+      j->n = n;
+      lw_family_loops_free (l);
+      if (e != NULL)
+        lw_variant_eval_unref (e);
+      if (ms / (double) n < best)
+        best = ms / (double) n;
+    }
+  return best;
+}
 
 static const char doc[] =
   "<?xml version=\"1.0\" encoding=\"UTF-8\"?>\n"
@@ -76,6 +123,25 @@ main (int argc, char **argv)
   printf ("members %zu (threads %u): %.3f s, %.3f ms per member; worst phase margin %.3f deg\n",
           n, threads > 0 ? threads : g_get_num_processors (), best, 1e3 * best / (double) n,
           worst_pm);
+
+  /* the drawn members' loops, one thread */
+  o.threads = 1;
+  o.members = 100;
+  LwFamily *f = lw_family_evaluate (d, 0, &o, &error);
+  LwFamilyLoops *base = lw_family_loops (d, 0, f, 40, 120);
+  LoopsJob j = { .d = d, .f = f, .base = base, .points = 300 };
+  double single = per_member_ms (&j, 2);
+  double fresh300 = per_member_ms (&j, 0);
+  j.points = 120;
+  double fresh120 = per_member_ms (&j, 0);
+  double again120 = per_member_ms (&j, 1);
+  printf ("one evaluation of the variant (engine, default grid, step): %.3f ms\n", single);
+  printf ("drawn members (%zu), per member: sampled afresh, 300 points %.3f ms (%.1fx faster); "
+          "120 points %.3f ms (%.1fx); plants reused, 120 points %.3f ms (%.1fx)\n",
+          j.n, fresh300, single / fresh300, fresh120, single / fresh120, again120,
+          single / again120);
+  lw_family_loops_free (base);
+  lw_family_free (f);
   lw_design_free (d);
   return 0;
 }
