@@ -9,12 +9,12 @@
 
 #include "lw-cli-family-plot.h"
 
-/* The views a plant family is drawn in (its members' loop frequency responses). */
+/* The views a plant family is drawn in (its members' loops, |S|, steps and closed-loop
+ * poles; not the disturbance steps). */
 bool
 lw_cli_family_plot_view (LwPlotView v)
 {
-  return v == LW_PLOT_VIEW_BODE_Z || v == LW_PLOT_VIEW_BODE_W || v == LW_PLOT_VIEW_NYQUIST
-         || v == LW_PLOT_VIEW_NICHOLS;
+  return v != LW_PLOT_VIEW_DISTURBANCE;
 }
 
 /* The family of variant `variant` of d (--members, --seed) and the loops of the members

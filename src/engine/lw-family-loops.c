@@ -29,7 +29,7 @@ lw_family_loops_again (const LwFamilyLoops *from, const LwDesign *d, size_t vari
   lw_analysis_options_init (&ao);
   ao.compute_delay = d->compute_delay;
   ao.n_points = n_points > 0 ? MAX (n_points, 16) : LW_FAMILY_LOOPS_POINTS;
-  ao.n_steps = 2;   /* only the frequency responses are read */
+  ao.n_steps = LW_FAMILY_LOOPS_STEPS;
   double worst = INFINITY;
   for (size_t i = 0; i < l->n; i++)
     {

@@ -591,7 +591,7 @@ lw_family_loops_controller (const LwDesign *d, double period_s, const LwModel *c
   lw_analysis_options_init (&ao);
   ao.compute_delay = d->compute_delay;
   ao.n_points = n_points > 0 ? MAX (n_points, 16) : LW_FAMILY_LOOPS_POINTS;
-  ao.n_steps = 2;
+  ao.n_steps = LW_FAMILY_LOOPS_STEPS;
   for (size_t i = 0; i < n; i++)
     {
       const LwFamilyMember *m = &f->members[pick[i]];

@@ -116,7 +116,7 @@ G_DEFINE_AUTOPTR_CLEANUP_FUNC (LwFamily, lw_family_free)
 
 /* The loops of some members of a family, for figures: each member's sampled plant and its
  * loop evaluated with the controller (lw_evaluate on a grid of n_points up to π/T, the step
- * left short: only the frequency responses, margins and crossovers are meant to be read).
+ * over LW_FAMILY_LOOPS_STEPS samples, for the figures).
  * Members: the worst of each figure (distinct), then up to max_others more spread evenly over
  * the rest, the nominal left out (the variant's own curve is it). */
 typedef struct
@@ -134,6 +134,7 @@ typedef struct
 } LwFamilyLoops;
 
 #define LW_FAMILY_LOOPS_POINTS 300
+#define LW_FAMILY_LOOPS_STEPS 500   /* samples of each drawn member's step */
 #define LW_FAMILY_LOOPS_OTHERS 40
 
 /* The loops of f's members for variant `variant` of d (the design f was evaluated from),

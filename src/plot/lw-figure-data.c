@@ -459,6 +459,8 @@ lw_figure_family_fill (LwFigureFamily *ff, size_t n_members, size_t n,
   ff->z = g_new0 (LwPlotFreqCurve, n + 1);
   ff->w = g_new0 (LwPlotFreqCurve, n + 1);
   ff->nyquist = g_new0 (LwPlotComplexCurve, n + 1);
+  ff->step = g_new0 (LwPlotStepData, n + 1);
+  ff->poles = g_new0 (LwPlotPoleData, n + 1);
   for (size_t i = 0; i < n; i++)
     {
       LwError err;
@@ -469,6 +471,8 @@ lw_figure_family_fill (LwFigureFamily *ff, size_t n_members, size_t n,
       ff->z[i] = ff->members[i].v.z;
       ff->w[i] = ff->members[i].v.w;
       ff->nyquist[i] = ff->members[i].v.nyquist;
+      ff->step[i] = ff->members[i].v.step;
+      ff->poles[i] = ff->members[i].v.poles;
     }
   ff->f.n_members = n_members;
   ff->f.n = n;
@@ -476,6 +480,8 @@ lw_figure_family_fill (LwFigureFamily *ff, size_t n_members, size_t n,
   ff->f.z = ff->z;
   ff->f.w = ff->w;
   ff->f.nyquist = ff->nyquist;
+  ff->f.step = ff->step;
+  ff->f.poles = ff->poles;
   ff->f.worst_pm = worst_pm < n ? worst_pm : SIZE_MAX;
   ff->f.worst_pm_deg = worst_pm_deg;
 }
@@ -558,8 +564,11 @@ lw_figure_family_band (LwFigureFamily *ff, size_t n_grid, size_t n_lines)
       /* the worst member's line is drawn too: its curves moved to the place after the lines */
       LwPlotFreqCurve tz = ff->z[n], tw = ff->w[n];
       LwPlotComplexCurve tq = ff->nyquist[n];
+      LwPlotStepData ts = ff->step[n];
+      LwPlotPoleData tp = ff->poles[n];
       ff->z[n] = ff->z[w], ff->w[n] = ff->w[w], ff->nyquist[n] = ff->nyquist[w];
-      ff->z[w] = tz, ff->w[w] = tw, ff->nyquist[w] = tq;
+      ff->step[n] = ff->step[w], ff->poles[n] = ff->poles[w];
+      ff->z[w] = tz, ff->w[w] = tw, ff->nyquist[w] = tq, ff->step[w] = ts, ff->poles[w] = tp;
       ff->f.worst_pm = n++;
     }
   ff->f.n = n;
@@ -577,5 +586,7 @@ lw_figure_family_clear (LwFigureFamily *ff)
   g_free (ff->z);
   g_free (ff->w);
   g_free (ff->nyquist);
+  g_free (ff->step);
+  g_free (ff->poles);
   memset (ff, 0, sizeof *ff);
 }

@@ -55,6 +55,8 @@ typedef struct {
   LwFigureVariant *members;   /* f.n */
   LwPlotFreqCurve *z, *w;
   LwPlotComplexCurve *nyquist;
+  LwPlotStepData *step;
+  LwPlotPoleData *poles;
   size_t n_filled;            /* members filled (f.n may be set lower: fewer lines drawn) */
   LwPlotBand band_z, band_w;  /* lw_figure_family_band */
   double *band_data;

@@ -62,6 +62,23 @@ label_multiplicities (Panel *pn, size_t v, size_t n, const double *re, const dou
 static void
 add_roots (Panel *pn, const LwPlotInput *in)
 {
+  /* a plant family's members' closed-loop poles: small light dots, under every variant's
+   * marks (lwp_family_key has set the key) */
+  for (size_t v = 0; v < in->n_variants; v++)
+    {
+      const LwPlotFamily *fam = in->variants[v].family;
+      if (fam == NULL || fam->poles == NULL || fam->n == 0)
+        continue;
+      for (size_t i = 0; i < fam->n; i++)
+        for (size_t k = 0; k < fam->poles[i].n_closed_loop; k++)
+          {
+            Prim *p = lwp_style_variant (lwp_add_mark (pn, fam->poles[i].cl_re[k],
+                                                       fam->poles[i].cl_im[k], MARK_DISC, 3),
+                                         v, 1.0);
+            p->alpha = 2.0 * FAMILY_ALPHA;
+          }
+      break;   /* one variant's family */
+    }
   for (size_t v = 0; v < in->n_variants; v++)
     {
       const LwPlotPoleData *d = &in->variants[v].poles;
@@ -178,6 +195,7 @@ lwp_build_poles (LwPlot *pl, const LwPlotInput *in)
   Panel *pn = &pl->panels[0];
   pl->n_panels = 1;
   pn->equal_aspect = true;
+  lwp_family_key (pl, in);   /* a plant family's members' poles are drawn: its key */
   Extent ex = { 0 }, ey = { 0 };
   lwp_extent_add (&ex, -1.2);
   lwp_extent_add (&ex, 1.2);

@@ -80,6 +80,21 @@ lwp_build_sensitivity (LwPlot *pl, const LwPlotInput *in)
                 bound);
       lwp_add_text_uv (pn, 0.0, my (pn, bound), buf, 4, -2, 0.0, 1.0)->colour = COL_REF;
     }
+  /* a plant family's members' |S|, under every variant's curves (the worst member last) */
+  size_t fv = lwp_family_key (pl, in);
+  const LwPlotFamily *fam = fv != SIZE_MAX ? in->variants[fv].family : NULL;
+  for (size_t i = 0; fam != NULL && fam->z != NULL && i <= fam->n; i++)
+    {
+      size_t m = i < fam->n ? i : fam->worst_pm;
+      const LwPlotFreqCurve *c = m < fam->n ? &fam->z[m] : NULL;
+      if (c == NULL || c->n < 2 || (i < fam->n && i == fam->worst_pm))
+        continue;
+      double *s = g_new (double, c->n), *t = g_new (double, c->n);
+      sensitivities (c, s, t);
+      lwp_family_line (pn, fv, c->n, c->freq_rad_s, s, i == fam->n);
+      g_free (s);
+      g_free (t);
+    }
   for (size_t v = 0; v < in->n_variants; v++)
     {
       const LwPlotFreqCurve *c = &in->variants[v].z;

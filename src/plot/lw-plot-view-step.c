@@ -34,6 +34,30 @@ add_staircase (LwPlot *pl, Panel *pn, size_t v, size_t n, const double *s, doubl
   return p;
 }
 
+/* A family member's output as a staircase, thin and light (no reuse key: its arrays change
+ * from one figure to the next). */
+static void
+family_staircase (Panel *pn, size_t v, const LwPlotStepData *s, bool worst)
+{
+  if (s->n < 2 || s->y == NULL)
+    return;
+  size_t m = 2 * s->n - 1;
+  double *x = g_new (double, m), *y = g_new (double, m);
+  for (size_t k = 0; k < s->n; k++)
+    {
+      x[2 * k] = (double) k * s->period_s;
+      y[2 * k] = s->y[k];
+      if (k + 1 < s->n)
+        {
+          x[2 * k + 1] = (double) (k + 1) * s->period_s;
+          y[2 * k + 1] = s->y[k];
+        }
+    }
+  lwp_family_line (pn, v, m, x, y, worst);
+  g_free (x);
+  g_free (y);
+}
+
 /* Compared variants with very different horizons (their own sample periods, a slow and a
  * fast loop): the time axis ends at TIME_CUT_RATIO times the shortest horizon, so the fast
  * one keeps a quarter of the width instead of a sliver, and each variant cut there says how
@@ -150,6 +174,17 @@ lwp_build_step (LwPlot *pl, const LwPlotInput *in)
     lwp_add_hline (act, 0.0);
   lwp_add_hline (out, 0.0);
   note_cut (out, horizon, in->n_variants, in);
+  /* a plant family's members' outputs, under every variant's */
+  size_t fv = lwp_family_key (pl, in);
+  const LwPlotFamily *fam = fv != SIZE_MAX ? in->variants[fv].family : NULL;
+  for (size_t i = 0; fam != NULL && fam->step != NULL && i <= fam->n; i++)
+    {
+      /* the worst member last, over the others */
+      size_t m = i < fam->n ? i : fam->worst_pm;
+      if (m >= fam->n || (i < fam->n && i == fam->worst_pm))
+        continue;
+      family_staircase (out, fv, &fam->step[m], i == fam->n);
+    }
   for (size_t v = 0; v < in->n_variants; v++)
     {
       const LwPlotStepData *s = &in->variants[v].step;

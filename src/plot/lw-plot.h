@@ -128,8 +128,9 @@ typedef struct {
 
 /* The members of a plant family drawn with a variant (docs/families.md): each member's loop
  * over the same axes as the variant's own curves, drawn thin and light in the variant's colour
- * under it (Bode in z and w, Nyquist, Nichols); the member of the worst phase margin dashed,
- * with a small label. Arrays of n; a member's curve may be empty (n = 0). */
+ * under it (Bode in z and w, Nyquist, Nichols, |S| in the sensitivity view, the step's output,
+ * the closed-loop poles as small dots); the member of the worst phase margin dashed, with a
+ * small label in the Bode views. Arrays of n; a member's curve may be empty (n = 0). */
 typedef struct {
   size_t n_members;                   /* members evaluated, for the key "family (N members)" */
   size_t n;                           /* members drawn */
@@ -142,6 +143,8 @@ typedef struct {
   /* optional: the envelope of more members than those drawn (the window during a drag draws
    * the band and the worst members' lines); not drawn with a wrapped phase axis */
   const LwPlotBand *band_z, *band_w;
+  const LwPlotStepData *step;         /* n, or NULL: each member's reference step (y only) */
+  const LwPlotPoleData *poles;        /* n, or NULL: each member's closed-loop poles */
 } LwPlotFamily;
 
 /* One variant of the design: what each view needs (a view ignores the rest). */

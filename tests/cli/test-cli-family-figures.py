@@ -12,7 +12,8 @@ document (the family's own numbers, computed by the code `check` uses):
   the members drawn are the distinct worst members (the nominal left out: it is the variant's
   own curve) and up to 40 others;
 - with `--members 10` every member but the nominal is drawn (fewer than 40 + the worst);
-- Nyquist and Nichols draw one path per member; the step view none;
+- Nyquist, Nichols, the sensitivity view (|S|) and the step view (the output) draw one path
+  per member; the pole map the members' closed-loop poles as dots; the disturbance view none;
 - the key says "family (N members)" with N = analyze's family.members, and the worst member
   is labelled "worst PM" (read from a PDF with pdftotext, when poppler is installed);
 - a design without ranged parameters draws no family path (its bytes are tests/golden's);
@@ -95,13 +96,19 @@ def main():
                                                                      n - 1))
     check(svg.count(WORST_WIDTH) == 2, 'bode-z: the worst member in both panels (%d)'
           % svg.count(WORST_WIDTH))
-    for view in ('nyquist', 'nichols'):
+    # one path per member: the loop (Nyquist, Nichols), |S| (sensitivity), the output of the
+    # reference step (step: the actuator panel draws none)
+    for view in ('nyquist', 'nichols', 'sensitivity', 'step'):
         s = svg_of(cli, doc, view)
         check(s.count(FAMILY_WIDTH) == (n - 1) + 1 and s.count(WORST_WIDTH) == 1,
               '%s: %d thin, %d worst paths for %d members' % (view, s.count(FAMILY_WIDTH),
                                                                s.count(WORST_WIDTH), n))
-    s = svg_of(cli, doc, 'step')
-    check(FAMILY_WIDTH not in s, 'the step view draws no family')
+    s = svg_of(cli, doc, 'poles')
+    check(s.count(FAMILY_WIDTH) == 1 and WORST_WIDTH not in s,
+          'poles: the members\' closed-loop poles are dots, the key\'s sample the one line (%d)'
+          % s.count(FAMILY_WIDTH))
+    s = svg_of(cli, doc, 'disturbance')
+    check(FAMILY_WIDTH not in s, 'the disturbance view draws no family')
 
     small = json_of(cli, 'analyze', doc, '--json', '--members', '10')['family']
     check(small['members'] - 1 < OTHERS, 'a family of 10 drawn members is smaller than 40')
