@@ -288,6 +288,14 @@ drag_done (GObject *source, GAsyncResult *result, gpointer user_data)
    * show, or the family went */
   if (self->family_picture == NULL || dj->generation <= self->family_picture->generation)
     return;
+  if (self->debug)
+    {
+      const LwPlotFamily *pf = &dj->picture->ff.f;
+      printf ("LW-FAMILY-DRAG generation=%" G_GUINT64_FORMAT " lines=%zu band=%d "
+              "worst_pm=%.17g\n", dj->generation, pf->n, pf->band_z != NULL,
+              pf->worst_pm_deg);
+      fflush (stdout);
+    }
   show_picture (self, g_steal_pointer (&dj->picture));
 }
 

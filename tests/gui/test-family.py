@@ -8,7 +8,12 @@ members and seed: the worst phase margin to 1e-9°, the counts exactly). The rob
 every member. The family is drawn in the loop views: Export Figure of the Bode view in z
 (through the test hook LW_TEST_FIGURE_PATH, 800 × 600) is byte for byte `plot FILE
 --all-variants --view bode-z --size 800x600` (the same members drawn by the same code), with
-one thin path per member drawn (LW-FAMILY drawn=N) in each panel and one for the key. The
+one thin path per member drawn (LW-FAMILY drawn=N) in each panel and one for the key.
+Dragging the lead's pole handle in the Bode w view: the drawn members follow the drag
+(LW-FAMILY-DRAG lines: a band and the worst members' lines, their smallest phase margin no
+smaller than the whole family's after the drag, less 1e-6° — a subset's minimum, the same
+engine), and when the drag ends the whole family is evaluated again and equals `analyze` of the
+saved document (1e-9°). The
 metrics table's family column (LW-METRIC … family=) holds analyze's worst phase and gain
 margin, sensitivity peak, overshoot and settling time (1e-9 relative: the same numbers
 printed with 17 digits) and each requirement's verdict over the family. A screenshot of the
@@ -24,17 +29,57 @@ import shutil
 import subprocess
 import sys
 import tempfile
+import time
 
 sys.path.insert(0, os.path.dirname(os.path.abspath(__file__)))
-from lwgui import (debug_lines, fail, key, kill_window, lsan_options,  # noqa: E402
-                   outer, quit_window, settle, start_window, wait_for, window_env,
-                   without_surface_ids)
+from lwgui import (debug_lines, fail, key, kill_window, last_line, lsan_options,  # noqa: E402
+                   outer, quit_window, run, saved_after, settle, start_window, wait_for,
+                   window_env, window_origin, without_surface_ids)
 
 FAMILY_WIDTH = b'stroke-width:0.85;'   # LW_PLOT_FAMILY_WIDTH: no other stroke of the view
 
 
 def family_lines(log_path):
     return list(debug_lines(log_path, 'LW-FAMILY'))
+
+
+def drag_and_check(cli, wid, log_path, doc):
+    """Drags the lead's pole (stage 1, corner 1) in the Bode w view down by a third of a
+    decade and checks the family's drag lines and the family after it."""
+    h = wait_for(lambda: last_line(log_path, 'LW-HANDLE', view='bode-w', stage=1, corner=1),
+                 'the lead pole\'s handle')
+    x0, y0 = window_origin(wid)
+    x, y = x0 + round(float(h['sx'])), y0 + round(float(h['sy']))
+    before = len(family_lines(log_path))
+    run('xdotool', 'mousemove', '--sync', str(x), str(y))
+    time.sleep(0.3)
+    run('xdotool', 'mousedown', '1')
+    for i in range(1, 16):
+        run('xdotool', 'mousemove', '--sync', str(x - 2 * i), str(y))
+        time.sleep(0.08)
+    wait_for(lambda: len(list(debug_lines(log_path, 'LW-FAMILY-DRAG'))) > 0,
+             'the drawn members following the drag')
+    time.sleep(0.5)
+    run('xdotool', 'mouseup', '1')
+    wait_for(lambda: len(family_lines(log_path)) > before, 'the family after the drag')
+    settle(log_path)
+    drags = list(debug_lines(log_path, 'LW-FAMILY-DRAG'))
+    after = family_lines(log_path)[-1]
+    last = drags[-1]
+    print('drag: %d pictures, the last %s; family after it %s' % (len(drags), last, after))
+    if last['band'] != '1' or int(last['lines']) < 1:
+        fail('the drag draws no band or no member line: %s' % last)
+    if not float(last['worst_pm']) >= float(after['worst_pm']) - 1e-6:
+        fail('the drawn members\' smallest phase margin %s is below the family\'s %s'
+             % (last['worst_pm'], after['worst_pm']))
+    saved_after(wid, doc)
+    r = subprocess.run([cli, 'analyze', doc, '--json'], capture_output=True, text=True)
+    if r.returncode != 0:
+        fail('analyze after the drag: %s' % r.stderr)
+    want = json.loads(r.stdout)['family']['worst_phase_margin_deg']
+    if abs(float(after['worst_pm']) - want) > 1e-9:
+        fail('after the drag: the window\'s worst phase margin %s, analyze %.12f'
+             % (after['worst_pm'], want))
 
 
 def inner(app, cli, schema_dir, example, artefacts):
@@ -106,6 +151,7 @@ def inner(app, cli, schema_dir, example, artefacts):
                          % (thin, drawn))
                 if without_surface_ids(fig_win) != without_surface_ids(fig_cli):
                     fail('the exported figure differs from plot\'s (%s, %s)' % (fig_win, fig_cli))
+                drag_and_check(cli, wid, log_path, doc)
                 subprocess.run(['xdotool', 'mousemove', '--window', str(wid), '250', '700'],
                                check=False)
                 for _ in range(30):
