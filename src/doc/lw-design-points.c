@@ -146,6 +146,14 @@ lw_design_points_problem (const LwDesign *d, char *buf, size_t size, size_t *whi
                   "them");
       return buf;
     }
+  for (size_t i = 0; i < d->n_params && d->n_points > 0; i++)
+    if (strcmp (d->params[i].name, "point") == 0)
+      {
+        g_snprintf (buf, size, "a parameter called 'point' and operating points cannot go "
+                    "together (the outputs name a member's point with that word); rename the "
+                    "parameter");
+        return buf;
+      }
   for (size_t i = 0; i < d->n_points; i++)
     {
       const LwDesignPoint *p = &d->points[i];

@@ -299,7 +299,8 @@ gssize lw_design_find_point (const LwDesign *d, const char *name);
 
 /* NULL when the operating points are acceptable: at most LW_DESIGN_MAX_POINTS, names valid and
  * unique, each value naming a parameter of the design once and finite, a dead time among them
- * not negative nor beyond 1e6 sample periods, and the plant proper and non-zero at each point
+ * not negative nor beyond 1e6 sample periods, no parameter called "point" (the outputs use
+ * the word for the point's name), and the plant proper and non-zero at each point
  * (outside the ranges too); else a sentence (written into buf) naming the point, its index in
  * *which when which is not NULL (G_MAXSIZE: not one point's). */
 const char *lw_design_points_problem (const LwDesign *d, char *buf, size_t size, size_t *which);
