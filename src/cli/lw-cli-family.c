@@ -46,6 +46,17 @@ lw_cli_family_refuse_doc (const LwCliFamilyArgs *a)
   return LW_EXIT_BAD_INPUT;
 }
 
+int
+lw_cli_family_refuse_measured (const LwCliFamilyArgs *a)
+{
+  const char *option = lw_cli_family_doc_refused (a);
+  if (option == NULL && a->members == NULL)
+    return LW_EXIT_OK;
+  lw_cli_bad_input (option != NULL ? option : "--members", "a plant family needs a model; "
+                    "measured data are one machine");
+  return LW_EXIT_BAD_INPUT;
+}
+
 /* The parameter called name of d, made from --dead-time when it is the dead time's and not
  * yet one (its nominal is the loop's dead time); NULL when there is none. */
 static LwDesignParam *

@@ -31,6 +31,9 @@ const char *lw_cli_family_doc_refused (const LwCliFamilyArgs *a);
 /* With a design document: prints why --range or --point is refused and returns the exit
  * status, or LW_EXIT_OK when neither is given. */
 int lw_cli_family_refuse_doc (const LwCliFamilyArgs *a);
+/* With measured data as the plant: prints why --range, --point or --members is refused and
+ * returns the exit status, or LW_EXIT_OK when none is given. */
+int lw_cli_family_refuse_measured (const LwCliFamilyArgs *a);
 
 #define LW_CLI_FAMILY_HELP                                                                \
   "  --range NAME=LOW:HIGH    the range of a --param over a plant family (repeat for\n"    \

@@ -348,14 +348,8 @@ analyze_run (void *data)
                         "<measured open_loop_unstable_poles>)");
       return LW_EXIT_BAD_INPUT;
     }
-  if (a->measured.file != NULL
-      && (lw_cli_family_doc_refused (&a->family) != NULL || a->family.members != NULL))
-    {
-      const char *option = lw_cli_family_doc_refused (&a->family);
-      lw_cli_bad_input (option != NULL ? option : "--members", "a plant family "
-                        "needs a model; measured data are one machine");
-      return LW_EXIT_BAD_INPUT;
-    }
+  if (a->measured.file != NULL && lw_cli_family_refuse_measured (&a->family) != LW_EXIT_OK)
+    return LW_EXIT_BAD_INPUT;
   if (a->measured.file != NULL && (a->files == NULL || a->files[0] == NULL))
     {
       const char *model_only = model_only_option (a);

@@ -61,10 +61,9 @@ static const char plot_help_tail[] =
   "                           --param a=8)\n"
   LW_CLI_MEASURED_HELP
   LW_CLI_FAMILY_HELP
-  "                           A plant family (these options, or a document's ranges and\n"
-  "                           points): the worst member of each figure, the operating\n"
-  "                           points and up to 40 others are drawn under the loop's curve\n"
-  "                           (Bode, Nyquist, Nichols)\n"
+  "                           A family (these options or a document's) is drawn under the\n"
+  "                           loop's curve: its worst members, operating points and up to\n"
+  "                           40 others (Bode, Nyquist, Nichols)\n"
   "  --variant NAME           the variant of FILE.lwd to draw (default: the active one)\n"
   "  --all-variants           every variant of FILE.lwd, overlaid\n"
   "  --compared               the active variant of FILE.lwd and those marked compared\n"
@@ -516,8 +515,7 @@ plot_run_document (const PlotArgs *a)
       status = lw_cli_family_plot (path, d, first_model, &a->family, &family, &loops, &ffam);
       if (status != LW_EXIT_OK)
         goto out;
-      spec.family = &ffam.f;
-      spec.family_of = 0;
+      spec.family = &ffam.f;   /* of the first variant drawn: family_of 0 */
     }
   /* the document's measurement, closed by the loop of the active variant when it is drawn
    * (else the first drawn), in the frequency views, as the window draws it */
@@ -602,7 +600,8 @@ plot_run (void *data)
   if (a->files != NULL && a->files[0] != NULL)
     return plot_run_document (a);
   if (a->measured.file != NULL)
-    return plot_run_measured (a);
+    return lw_cli_family_refuse_measured (&a->family) != LW_EXIT_OK ? LW_EXIT_BAD_INPUT
+                                                                    : plot_run_measured (a);
   if (a->variant != NULL || a->all || a->compared)
     {
       lw_cli_bad_input (a->all ? "--all-variants" : a->compared ? "--compared" : "--variant",

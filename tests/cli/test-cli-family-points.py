@@ -223,6 +223,11 @@ def main():
         r = run(cli, *cmd, '--point', 'a:K=1')
         check(r.returncode == 2 and '--point' in r.stderr, '%s --point refused: %s'
               % (cmd[0], r.stderr.strip()))
+    for cmd in (['analyze'], ['plot', '--view', 'bode-z', '--out', svg]):
+        r = run(cli, *cmd, '--measured', os.devnull, '--measured-kind', 'sampled', '--period',
+                '0.1', '--point', 'a:K=1')
+        check(r.returncode == 2 and '--point' in r.stderr and 'measured data' in r.stderr,
+              '%s: --point with measured data refused: %s' % (cmd[0], r.stderr.strip()))
     r = run(cli, 'analyze', '--plant', 'point/(s+1)', '--param', 'point=2', '--period', '0.1',
             '--point', 'a:point=3')
     check(r.returncode == 2 and "parameter called 'point'" in r.stderr,
