@@ -207,7 +207,10 @@ read_point (Reader *r, const xmlNode *e, const LwDesign *d, GArray *points)
   LwDesignPoint p = { 0 };
   if (!lw_load_check_attributes (r, e, "", point_attrs)
       || !lw_load_text_attr (r, e, "", "name", true, &p.name))
-    return false;
+    {
+      g_free (p.name);   /* a name that is not text is read before it is refused */
+      return false;
+    }
   const char *bad = lw_design_point_name_problem (p.name);
   bool ok = bad == NULL ? true
                         : lw_load_fail (r, e, LW_DESIGN_ERROR_VALUE, ": attribute 'name' '%s': %s",
