@@ -15,6 +15,7 @@ void
 lw_cli_family_args_clear (LwCliFamilyArgs *a)
 {
   g_strfreev (a->ranges);
+  g_strfreev (a->points);
   g_free (a->members);
   g_free (a->seed);
   memset (a, 0, sizeof *a);
@@ -23,12 +24,117 @@ lw_cli_family_args_clear (LwCliFamilyArgs *a)
 gboolean
 lw_cli_family_wanted (const LwCliFamilyArgs *a, const LwDesign *d)
 {
-  if (a->ranges != NULL && a->ranges[0] != NULL)
+  if ((a->ranges != NULL && a->ranges[0] != NULL) || (a->points != NULL && a->points[0] != NULL))
     return TRUE;
-  for (size_t i = 0; d != NULL && i < d->n_params; i++)
-    if (d->params[i].ranged)
-      return TRUE;
-  return FALSE;
+  return lw_family_wanted (d);
+}
+
+const char *
+lw_cli_family_doc_refused (const LwCliFamilyArgs *a)
+{
+  return a->ranges != NULL ? "--range" : a->points != NULL ? "--point" : NULL;
+}
+
+int
+lw_cli_family_refuse_doc (const LwCliFamilyArgs *a)
+{
+  const char *refused = lw_cli_family_doc_refused (a);
+  if (refused == NULL)
+    return LW_EXIT_OK;
+  lw_cli_bad_input (refused, "not with a design document: its <parameters> give the ranges "
+                    "and operating points (%s is for the loop options)", refused);
+  return LW_EXIT_BAD_INPUT;
+}
+
+int
+lw_cli_family_refuse_measured (const LwCliFamilyArgs *a)
+{
+  const char *option = lw_cli_family_doc_refused (a);
+  if (option == NULL && a->members == NULL)
+    return LW_EXIT_OK;
+  lw_cli_bad_input (option != NULL ? option : "--members", "a plant family needs a model; "
+                    "measured data are one machine");
+  return LW_EXIT_BAD_INPUT;
+}
+
+/* The parameter called name of d, made from --dead-time when it is the dead time's and not
+ * yet one (its nominal is the loop's dead time); NULL when there is none. */
+static LwDesignParam *
+find_or_dead_time (LwDesign *d, const char *name)
+{
+  for (size_t i = 0; i < d->n_params; i++)
+    if (strcmp (d->params[i].name, name) == 0)
+      return &d->params[i];
+  if (strcmp (name, LW_DESIGN_DEAD_TIME_PARAM) != 0)
+    return NULL;
+  d->params = g_renew (LwDesignParam, d->params, d->n_params + 1);
+  LwDesignParam *p = &d->params[d->n_params++];
+  memset (p, 0, sizeof *p);
+  p->name = g_strdup (name);
+  p->nominal = d->dead_time_s;
+  return p;
+}
+
+/* --point NAME:P=V,P=V,… into d's operating points (checked with the plant after). */
+static int
+add_point (LwDesign *d, const char *text)
+{
+  g_autofree char *shown = g_utf8_make_valid (text, -1);
+  const char *colon = strchr (text, ':');
+  if (colon == NULL || colon == text)
+    {
+      lw_cli_bad_input ("--point", "'%s' is not NAME:PARAM=VALUE,… (e.g. --point full:m=2.5)",
+                        shown);
+      return LW_EXIT_BAD_INPUT;
+    }
+  g_autofree char *name = g_strndup (text, (gsize) (colon - text));
+  const char *bad = lw_design_point_name_problem (name);
+  if (bad == NULL && lw_design_find_point (d, name) >= 0)
+    bad = "it is given twice";
+  if (bad != NULL)
+    {
+      lw_cli_bad_input ("--point", "'%s': the name '%s': %s", shown, name, bad);
+      return LW_EXIT_BAD_INPUT;
+    }
+  if (d->n_points >= LW_DESIGN_MAX_POINTS)
+    {
+      lw_cli_bad_input ("--point", "more than %d operating points", LW_DESIGN_MAX_POINTS);
+      return LW_EXIT_BAD_INPUT;
+    }
+  d->points = g_renew (LwDesignPoint, d->points, d->n_points + 1);
+  LwDesignPoint *p = &d->points[d->n_points++];
+  memset (p, 0, sizeof *p);
+  p->name = g_steal_pointer (&name);
+  g_auto (GStrv) items = colon[1] != '\0' ? g_strsplit (colon + 1, ",", -1) : g_new0 (char *, 1);
+  g_autofree char *option = g_strdup_printf ("--point %s", shown);
+  for (size_t k = 0; items[k] != NULL; k++)
+    {
+      const char *eq = strchr (items[k], '=');
+      if (eq == NULL || eq == items[k])
+        {
+          lw_cli_bad_input ("--point", "'%s': '%s' is not PARAM=VALUE", shown, items[k]);
+          return LW_EXIT_BAD_INPUT;
+        }
+      g_autofree char *param = g_strndup (items[k], (gsize) (eq - items[k]));
+      if (find_or_dead_time (d, param) == NULL)
+        {
+          lw_cli_bad_input ("--point", "'%s': '%s' names no --param; give its nominal value "
+                            "with --param %s=VALUE", shown, param, param);
+          return LW_EXIT_BAD_INPUT;
+        }
+      for (size_t v = 0; v < p->n_values; v++)
+        if (strcmp (p->values[v].parameter, param) == 0)
+          {
+            lw_cli_bad_input ("--point", "'%s': parameter '%s' is given twice", shown, param);
+            return LW_EXIT_BAD_INPUT;
+          }
+      double value;
+      if (!lw_cli_parse_double (option, eq + 1, &value))
+        return LW_EXIT_BAD_INPUT;
+      p->values = g_renew (LwDesignPointValue, p->values, p->n_values + 1);
+      p->values[p->n_values++] = (LwDesignPointValue) { g_steal_pointer (&param), value };
+    }
+  return LW_EXIT_OK;
 }
 
 int
@@ -86,20 +192,9 @@ lw_cli_family_design (const LwCliLoopArgs *loop, const LwCliFamilyArgs *a, const
         }
       g_autofree char *name = g_strndup (text, (gsize) (eq - text));
       g_autofree char *low = g_strndup (eq + 1, (gsize) (colon - eq - 1));
-      LwDesignParam *p = NULL;
-      for (size_t i = 0; i < d->n_params; i++)
-        if (strcmp (d->params[i].name, name) == 0)
-          p = &d->params[i];
       g_autofree char *option = g_strdup_printf ("--range %s", shown);
-      if (p == NULL && strcmp (name, LW_DESIGN_DEAD_TIME_PARAM) == 0)
-        {
-          /* the dead time's range: its nominal is --dead-time */
-          d->params = g_renew (LwDesignParam, d->params, d->n_params + 1);
-          p = &d->params[d->n_params++];
-          memset (p, 0, sizeof *p);
-          p->name = g_strdup (name);
-          p->nominal = d->dead_time_s;
-        }
+      /* the dead time's range: its nominal is --dead-time */
+      LwDesignParam *p = find_or_dead_time (d, name);
       if (p == NULL)
         {
           lw_cli_bad_input ("--range", "'%s' names no --param; give its nominal value with "
@@ -128,6 +223,14 @@ lw_cli_family_design (const LwCliLoopArgs *loop, const LwCliFamilyArgs *a, const
       lw_cli_bad_input ("--range", "%s", why);
       return LW_EXIT_BAD_INPUT;
     }
+  for (size_t k = 0; a->points != NULL && a->points[k] != NULL; k++)
+    if ((status = add_point (d, a->points[k])) != LW_EXIT_OK)
+      return status;
+  if (lw_design_points_problem (d, why, sizeof why, NULL) != NULL)
+    {
+      lw_cli_bad_input ("--point", "%s", why);
+      return LW_EXIT_BAD_INPUT;
+    }
   *out = g_steal_pointer (&d);
   return LW_EXIT_OK;
 }
@@ -146,6 +249,13 @@ add_member (JsonBuilder *b, const LwFamily *f, size_t index)
     {
       json_builder_set_member_name (b, f->names[i]);
       lw_cli_json_add_number (b, f->members[index].values[i]);
+    }
+  if (f->members[index].point != NULL)
+    {
+      /* an operating point: its name (a design with points has no parameter called "point":
+         lw_design_points_problem) */
+      json_builder_set_member_name (b, "point");
+      json_builder_add_string_value (b, f->members[index].point);
     }
   json_builder_end_object (b);
 }
@@ -166,6 +276,8 @@ lw_cli_family_json (JsonObject *root, const LwFamily *f, const LwDesign *d)
   json_builder_begin_object (b);
   json_builder_set_member_name (b, "members");
   json_builder_add_int_value (b, (gint64) f->n_members);
+  json_builder_set_member_name (b, "points");
+  json_builder_add_int_value (b, (gint64) f->n_points);
   json_builder_set_member_name (b, "corners");
   json_builder_add_int_value (b, (gint64) f->n_corners);
   json_builder_set_member_name (b, "failed_members");
@@ -226,16 +338,29 @@ print_member (const LwFamily *f, size_t index)
 {
   if (index >= f->n_members)
     return;
-  printf (" at");
+  if (f->members[index].point != NULL)
+    printf (" at point '%s' (", f->members[index].point);
+  else
+    printf (" at");
   for (size_t i = 0; i < f->n_params; i++)
-    printf ("%s %s = %.6g", i > 0 ? "," : "", f->names[i], f->members[index].values[i]);
+    printf ("%s%s = %.6g", i > 0 ? ", " : f->members[index].point != NULL ? "" : " ",
+            f->names[i], f->members[index].values[i]);
+  if (f->members[index].point != NULL)
+    printf (")");
 }
 
 void
 lw_cli_family_print (const LwFamily *f, const LwDesign *d)
 {
-  printf ("\nPlant family: %zu members (the nominal, %zu corners, the drawn and the searched)",
-          f->n_members, f->n_corners);
+  if (f->n_points > 0 && f->n_members == f->n_points + 1)
+    printf ("\nPlant family: %zu members (the nominal and %zu operating point(s))",
+            f->n_members, f->n_points);
+  else if (f->n_points > 0)
+    printf ("\nPlant family: %zu members (the nominal, %zu operating point(s), %zu corners, the "
+            "drawn and the searched)", f->n_members, f->n_points, f->n_corners);
+  else
+    printf ("\nPlant family: %zu members (the nominal, %zu corners, the drawn and the "
+            "searched)", f->n_members, f->n_corners);
   if (f->n_failed > 0)
     printf (", %zu not evaluated", f->n_failed);
   printf ("\n");

@@ -14,25 +14,41 @@
 typedef struct
 {
   char **ranges;          /* --range NAME=LOW:HIGH, repeated */
+  char **points;          /* --point NAME:P=V,P=V, repeated */
   char *members;          /* --members N */
   char *seed;             /* --seed N */
 } LwCliFamilyArgs;
 
 #define LW_CLI_FAMILY_ENTRIES(a)                                                          \
   { "range", 0, 0, G_OPTION_ARG_FILENAME_ARRAY, &(a)->ranges, NULL, NULL },               \
+  { "point", 0, 0, G_OPTION_ARG_FILENAME_ARRAY, &(a)->points, NULL, NULL },               \
   { "members", 0, 0, G_OPTION_ARG_FILENAME, &(a)->members, NULL, NULL },                  \
   { "seed", 0, 0, G_OPTION_ARG_FILENAME, &(a)->seed, NULL, NULL }
+
+/* The option of a family refused with a design document (it gives its own ranges and
+ * points), or NULL: "--range" or "--point". */
+const char *lw_cli_family_doc_refused (const LwCliFamilyArgs *a);
+/* With a design document: prints why --range or --point is refused and returns the exit
+ * status, or LW_EXIT_OK when neither is given. */
+int lw_cli_family_refuse_doc (const LwCliFamilyArgs *a);
+/* With measured data as the plant: prints why --range, --point or --members is refused and
+ * returns the exit status, or LW_EXIT_OK when none is given. */
+int lw_cli_family_refuse_measured (const LwCliFamilyArgs *a);
 
 #define LW_CLI_FAMILY_HELP                                                                \
   "  --range NAME=LOW:HIGH    the range of a --param over a plant family (repeat for\n"    \
   "                           each); the margins are then given for every member too\n"    \
+  "  --point NAME:P=V,...     an operating point of the family: a name and some --param\n"   \
+  "                           values (the others nominal), e.g. --point full:m=2.5; a\n"     \
+  "                           member of its own, named where it is the worst (repeat)\n"    \
   "  --members N              members drawn over the ranges, 0 to 100000 (default 100),\n"  \
   "                           besides the nominal and the corners\n"                       \
   "  --seed N                 seed of the drawn members, a whole number (default 1)\n"
 
 void lw_cli_family_args_clear (LwCliFamilyArgs *a);
 
-/* Whether a family is asked for: a --range, or a document with a ranged parameter. */
+/* Whether a family is asked for: a --range or --point, or a document with a ranged
+ * parameter or an operating point. */
 gboolean lw_cli_family_wanted (const LwCliFamilyArgs *a, const LwDesign *d);
 
 /* --members and --seed into *o (lw_family_options_init first). Prints and returns the exit
@@ -40,8 +56,8 @@ gboolean lw_cli_family_wanted (const LwCliFamilyArgs *a, const LwDesign *d);
 int lw_cli_family_options (const LwCliFamilyArgs *a, LwFamilyOptions *o);
 
 /* A design holding the loop options' plant, its --param values with their --range, the
- * period, dead time and computation delay (no requirements, one empty variant). Prints and
- * returns the exit status on a bad --range. */
+ * --point operating points, the period, dead time and computation delay (no requirements,
+ * one empty variant). Prints and returns the exit status on a bad --range or --point. */
 int lw_cli_family_design (const LwCliLoopArgs *loop, const LwCliFamilyArgs *a,
                           const LwCliLoop *lp, LwDesign **out);
 

@@ -348,12 +348,8 @@ analyze_run (void *data)
                         "<measured open_loop_unstable_poles>)");
       return LW_EXIT_BAD_INPUT;
     }
-  if (a->measured.file != NULL && (a->family.ranges != NULL || a->family.members != NULL))
-    {
-      lw_cli_bad_input (a->family.ranges != NULL ? "--range" : "--members", "a plant family "
-                        "needs a model; measured data are one machine");
-      return LW_EXIT_BAD_INPUT;
-    }
+  if (a->measured.file != NULL && lw_cli_family_refuse_measured (&a->family) != LW_EXIT_OK)
+    return LW_EXIT_BAD_INPUT;
   if (a->measured.file != NULL && (a->files == NULL || a->files[0] == NULL))
     {
       const char *model_only = model_only_option (a);
@@ -410,12 +406,8 @@ analyze_run (void *data)
   int status = lw_cli_doc_refuse_loop_options ("analyze", a->files[0], &a->loop);
   if (status != LW_EXIT_OK)
     return status;
-  if (a->family.ranges != NULL)
-    {
-      lw_cli_bad_input ("--range", "a design document gives its parameters' ranges in "
-                        "<parameters>; --range is for the loop options");
-      return LW_EXIT_BAD_INPUT;
-    }
+  if ((status = lw_cli_family_refuse_doc (&a->family)) != LW_EXIT_OK)
+    return status;
   g_autoptr (LwDesign) design = NULL;
   status = lw_cli_doc_load (a->files[0], &design);
   if (status != LW_EXIT_OK)

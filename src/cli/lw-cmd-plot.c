@@ -60,11 +60,10 @@ static const char plot_help_tail[] =
   "                           (repeat for each; e.g. --plant 'K/(s*(s+a))' --param K=40\n"
   "                           --param a=8)\n"
   LW_CLI_MEASURED_HELP
-  "  --members N              a document with ranged parameters: members drawn over the\n"
-  "                           ranges, 0 to 100000 (default 100), besides the nominal and\n"
-  "                           the corners; the worst of each margin and up to 40 others\n"
-  "                           are drawn under the variant's curve (Bode, Nyquist, Nichols)\n"
-  "  --seed N                 seed of the drawn members, a whole number (default 1)\n"
+  LW_CLI_FAMILY_HELP
+  "                           A family (these options or a document's) is drawn under the\n"
+  "                           loop's curve: its worst members, operating points and up to\n"
+  "                           40 others (Bode, Nyquist, Nichols)\n"
   "  --variant NAME           the variant of FILE.lwd to draw (default: the active one)\n"
   "  --all-variants           every variant of FILE.lwd, overlaid\n"
   "  --compared               the active variant of FILE.lwd and those marked compared\n"
@@ -431,6 +430,8 @@ plot_run_document (const PlotArgs *a)
   status = lw_cli_doc_refuse_loop_options ("plot", path, &a->loop);
   if (status != LW_EXIT_OK)
     return status;
+  if ((status = lw_cli_family_refuse_doc (&a->family)) != LW_EXIT_OK)
+    return status;
   if (a->name != NULL)
     {
       lw_cli_bad_input ("--name", "not with a design document: the legend shows the variants' "
@@ -488,7 +489,7 @@ plot_run_document (const PlotArgs *a)
   eo.disturbances = (lw_plot_view_info (spec.view)->needs & LW_PLOT_NEEDS_DISTURBANCE) != 0;
   LwVariantEval *e[LW_PLOT_MAX_VARIANTS] = { NULL };
   PlotVariantSource src[LW_PLOT_MAX_VARIANTS] = { { 0 } };
-  size_t built = 0, n_model = 0, with_data = 0;
+  size_t built = 0, n_model = 0, with_data = 0, first_model = 0;
   LwFamily *family = NULL;
   LwFamilyLoops *loops = NULL;
   LwFigureFamily ffam = { 0 };
@@ -502,6 +503,7 @@ plot_run_document (const PlotArgs *a)
         with_data = built;
       if (e[built]->ev == NULL)
         continue;   /* no model loop: only its data are drawn */
+      first_model = n_model == 0 ? which[built] : first_model;
       src[n_model++] = (PlotVariantSource) { d->variants[which[built]].name, e[built]->sampled,
                                              e[built]->ev,
                                              (unsigned) (which[built] % LW_PLOT_MAX_VARIANTS)
@@ -510,18 +512,10 @@ plot_run_document (const PlotArgs *a)
   /* a plant family: the members' loops drawn under the first model variant's curves */
   if (n_model > 0 && lw_cli_family_plot_view (spec.view) && lw_cli_family_wanted (&a->family, d))
     {
-      size_t variant = which[0];
-      for (size_t i = 0; i < n; i++)
-        if (e[i]->ev != NULL)
-          {
-            variant = which[i];
-            break;
-          }
-      status = lw_cli_family_plot (path, d, variant, &a->family, &family, &loops, &ffam);
+      status = lw_cli_family_plot (path, d, first_model, &a->family, &family, &loops, &ffam);
       if (status != LW_EXIT_OK)
         goto out;
-      spec.family = &ffam.f;
-      spec.family_of = 0;
+      spec.family = &ffam.f;   /* of the first variant drawn: family_of 0 */
     }
   /* the document's measurement, closed by the loop of the active variant when it is drawn
    * (else the first drawn), in the frequency views, as the window draws it */
@@ -606,7 +600,8 @@ plot_run (void *data)
   if (a->files != NULL && a->files[0] != NULL)
     return plot_run_document (a);
   if (a->measured.file != NULL)
-    return plot_run_measured (a);
+    return lw_cli_family_refuse_measured (&a->family) != LW_EXIT_OK ? LW_EXIT_BAD_INPUT
+                                                                    : plot_run_measured (a);
   if (a->variant != NULL || a->all || a->compared)
     {
       lw_cli_bad_input (a->all ? "--all-variants" : a->compared ? "--compared" : "--variant",
@@ -620,6 +615,9 @@ plot_run (void *data)
   PlotSpec spec;
   LwVariantEval *e = NULL;
   LwAnalysisOptions opts;
+  LwFamily *family = NULL;
+  LwFamilyLoops *loops = NULL;
+  LwFigureFamily ffam = { 0 };
   status = plot_options_check (a, &spec);
   if (status != LW_EXIT_OK)
     goto out;
@@ -634,9 +632,18 @@ plot_run (void *data)
   status = lw_cli_loop_evaluate ("plot", &lp, &eo, FALSE, &e);
   if (status != LW_EXIT_OK)
     goto out;
+  /* a plant family of the loop options: the members drawn under the loop's curve */
+  status = lw_cli_family_plot_loop (&a->loop, &a->family, &lp, lw_cli_family_plot_view (spec.view),
+                                    &family, &loops, &ffam);
+  if (status != LW_EXIT_OK)
+    goto out;
+  spec.family = family != NULL ? &ffam.f : NULL;
   PlotVariantSource src = { a->name ? a->name : "loop", lp.sampled, e->ev, 0, e };
   status = plot_write (&spec, &src, 1, NULL, e->ev->period_s);
 out:
+  lw_figure_family_clear (&ffam);
+  lw_family_loops_free (loops);
+  lw_family_free (family);
   lw_variant_eval_unref (e);
   lw_cli_loop_clear (&lp);
   return status;

@@ -80,6 +80,12 @@ lw_design_validate (const LwDesign *d, GError **error)
                    why);
       return FALSE;
     }
+  if (lw_design_points_problem (d, why, sizeof why, NULL) != NULL)
+    {
+      g_set_error (error, LW_DESIGN_ERROR, LW_DESIGN_ERROR_VALUE, "the operating points: %s",
+                   why);
+      return FALSE;
+    }
   LwModel *m = NULL;
   LwError err;
   lw_error_clear (&err);

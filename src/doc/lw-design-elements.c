@@ -122,7 +122,8 @@ read_unit (Reader *r, const xmlNode *e, const char *name, char **out)
 }
 
 /* <parameters><parameter name="…" nominal="…" [low="…" high="…"] [spread="…"]/>…
- * </parameters>: the plant's named parameters (lw_design_params_problem's rules; the plant
+ * [<point name="…">…</point>…]</parameters>: the plant's named parameters, then the family's
+ * operating points (lw-design-points.c) (lw_design_params_problem's rules; the plant
  * itself is checked with them by the caller) */
 static bool
 read_parameters (Reader *r, const xmlNode *e, LwDesign *d)
@@ -133,9 +134,11 @@ read_parameters (Reader *r, const xmlNode *e, LwDesign *d)
     return false;
   GArray *ps = g_array_new (FALSE, TRUE, sizeof (LwDesignParam));
   bool ok = true;
-  for (const xmlNode *c = lw_load_next_element (r, e, e->children); ok && c != NULL;
-       c = lw_load_next_element (r, e, c->next))
+  const xmlNode *c = lw_load_next_element (r, e, e->children);
+  for (; ok && c != NULL; c = lw_load_next_element (r, e, c->next))
     {
+      if (lw_load_is_element (c, "point"))
+        break;   /* the operating points follow the parameters */
       if (!lw_load_is_element (c, "parameter"))
         {
           ok = lw_load_fail (r, c, LW_DESIGN_ERROR_SCHEMA, ": unexpected here; <parameters> "
@@ -203,6 +206,8 @@ read_parameters (Reader *r, const xmlNode *e, LwDesign *d)
     ok = false;
   d->n_params = ps->len;
   d->params = (LwDesignParam *) (void *) g_array_free (ps, FALSE);
+  if (ok && c != NULL)
+    ok = lw_load_read_points (r, e, c, d);
   return ok;
 }
 
@@ -531,8 +536,10 @@ lw_load_read_design (Reader *r, const xmlNode *root)
     return NULL;
 
   /* <parameters> of the plant expression; the plant is read with them */
+  const xmlNode *parameters_el = NULL;
   if (lw_load_is_element (c, "parameters"))
     {
+      parameters_el = c;
       if (!read_parameters (r, c, d))
         return NULL;
       c = lw_load_next_element (r, root, c->next);
@@ -572,7 +579,8 @@ lw_load_read_design (Reader *r, const xmlNode *root)
     }
   /* the parameters' ranges, now that the period is known (a dead time's range is counted in
    * sample periods) */
-  if (!check_parameter_ranges (r, plant_el, d))
+  if (!check_parameter_ranges (r, plant_el, d)
+      || (parameters_el != NULL && !lw_load_check_points (r, parameters_el, d)))
     return NULL;
   c = lw_load_next_element (r, root, c->next);
   if (r->error != NULL)

@@ -85,6 +85,14 @@ lw_load_missing (Reader *r, const xmlNode *parent, const xmlNode *at, const char
 bool
 lw_load_read_measured (Reader *r, const xmlNode *e, LwDesign *d);
 
+/* The <point> elements of <parameters> from first on into d (lw-design-points.c); the
+ * plant at each point is checked by lw_load_check_points once the period is known, the
+ * failing point named at its line. */
+bool
+lw_load_read_points (Reader *r, const xmlNode *parent, const xmlNode *first, LwDesign *d);
+bool
+lw_load_check_points (Reader *r, const xmlNode *parameters_el, const LwDesign *d);
+
 LwDesign *
 lw_load_read_design (Reader *r, const xmlNode *root);
 

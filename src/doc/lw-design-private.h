@@ -54,3 +54,8 @@ const char *lw_doc_schema_text (size_t *len);
 gboolean lw_design_check_measured (const LwDesign *d, GError **error);
 void lw_design_write_measured (GString *o, const LwDesign *d,
                                void (*attr_text) (GString *, const char *, const char *));
+
+/* The operating points copied from `from` into `to` (whose own are not freed) / compared
+ * (lw-design-points.c). */
+void lw_design_copy_points (LwDesign *to, const LwDesign *from);
+bool lw_design_points_equal (const LwDesign *a, const LwDesign *b);

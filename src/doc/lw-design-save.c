@@ -150,6 +150,27 @@ lw_design_to_text (const LwDesign *d, size_t *len_out, GError **error)
             }
           g_string_append (o, "/>\n");
         }
+      for (size_t i = 0; i < d->n_points; i++)
+        {
+          const LwDesignPoint *p = &d->points[i];
+          indent (o, 2);
+          g_string_append (o, "<point");
+          attr_text (o, "name", p->name);
+          g_string_append (o, p->n_values > 0 ? ">\n" : "/>\n");
+          for (size_t v = 0; v < p->n_values; v++)
+            {
+              indent (o, 3);
+              g_string_append (o, "<value");
+              attr_text (o, "parameter", p->values[v].parameter);
+              attr_number (o, "value", p->values[v].value);
+              g_string_append (o, "/>\n");
+            }
+          if (p->n_values > 0)
+            {
+              indent (o, 2);
+              g_string_append (o, "</point>\n");
+            }
+        }
       indent (o, 1);
       g_string_append (o, "</parameters>\n");
     }

@@ -195,6 +195,7 @@ lw_design_free (LwDesign *d)
   for (size_t i = 0; i < d->n_params; i++)
     g_free (d->params[i].name);
   g_free (d->params);
+  lw_design_clear_points (d);
   g_free (d->input_unit);
   g_free (d->output_unit);
   for (size_t i = 0; i < d->n_requirements; i++)
@@ -225,6 +226,7 @@ lw_design_copy (const LwDesign *d)
       c->params[i] = d->params[i];
       c->params[i].name = g_strdup (d->params[i].name);
     }
+  lw_design_copy_points (c, d);
   c->input_unit = g_strdup (d->input_unit);
   c->output_unit = g_strdup (d->output_unit);
   c->views = g_strdupv (d->views);
@@ -520,7 +522,7 @@ lw_design_equal (const LwDesign *a, const LwDesign *b)
 {
   if (a == NULL || b == NULL)
     return a == b;
-  if (!measured_equal (a, b) || a->n_params != b->n_params)
+  if (!measured_equal (a, b) || a->n_params != b->n_params || !lw_design_points_equal (a, b))
     return false;
   for (size_t i = 0; i < a->n_params; i++)
     {

@@ -141,6 +141,26 @@ typedef struct
   LwParamSpread spread;
 } LwDesignParam;
 
+/* An operating point of a plant family (<point> in <parameters>, docs/families.md): a named
+ * set of parameter values the engineer knows (a pump at "empty", "half", "full" tank); the
+ * parameters it does not give take their nominal. A point may lie outside the ranges, but the
+ * plant must be proper and non-zero there. */
+#define LW_DESIGN_MAX_POINTS 1000
+#define LW_DESIGN_POINT_NAME_MAX 64
+
+typedef struct
+{
+  char *parameter;            /* the name of one of the design's parameters */
+  double value;               /* finite */
+} LwDesignPointValue;
+
+typedef struct
+{
+  char *name;                 /* lw_design_point_name_problem; unique within the design */
+  size_t n_values;            /* each parameter at most once */
+  LwDesignPointValue *values;
+} LwDesignPoint;
+
 /* Longest view name a document holds, in bytes. */
 #define LW_DESIGN_VIEW_NAME_MAX 32
 
@@ -188,6 +208,10 @@ typedef struct
    * for a plant family; n_params 0: none */
   size_t n_params;
   LwDesignParam *params;
+  /* the operating points of a plant family (<point> after the <parameter> elements), in the
+   * document's order; n_points 0: none */
+  size_t n_points;
+  LwDesignPoint *points;
   /* the units of the plant's input (the actuator's, u) and output (the measured quantity,
    * y), as short free texts ("V", "mm"); NULL: not given (lw_design_unit_problem) */
   char *input_unit;
@@ -260,6 +284,29 @@ const char *lw_design_param_problem (const LwDesignParam *p);
  * parameters) must parse proper and non-zero: a corner where it does not is named with its
  * values. */
 const char *lw_design_params_problem (const LwDesign *d, char *buf, size_t size);
+
+/* NULL when name can be an operating point's name: 1 … LW_DESIGN_POINT_NAME_MAX bytes of
+ * text (lw_design_text_problem) without line breaks, tabs or ':' and without spaces at either
+ * end; else a sentence (a static string). */
+const char *lw_design_point_name_problem (const char *name);
+
+/* The parameters' values at operating point `point` (d->n_params of them, in the document's
+ * order): the point's own values, the nominal for the others. */
+void lw_design_point_values (const LwDesign *d, size_t point, double *values);
+
+/* Index of the operating point called name, or -1. */
+gssize lw_design_find_point (const LwDesign *d, const char *name);
+
+/* NULL when the operating points are acceptable: at most LW_DESIGN_MAX_POINTS, names valid and
+ * unique, each value naming a parameter of the design once and finite, a dead time among them
+ * not negative nor beyond 1e6 sample periods, no parameter called "point" (the outputs use
+ * the word for the point's name), and the plant proper and non-zero at each point
+ * (outside the ranges too); else a sentence (written into buf) naming the point, its index in
+ * *which when which is not NULL (G_MAXSIZE: not one point's). */
+const char *lw_design_points_problem (const LwDesign *d, char *buf, size_t size, size_t *which);
+
+/* Frees the operating points of d and sets none. */
+void lw_design_clear_points (LwDesign *d);
 
 /* True when every field is equal (numbers compared with ==, strings byte for byte, absent
  * strings equal only to absent ones). */

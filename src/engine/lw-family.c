@@ -232,6 +232,7 @@ member_free (gpointer data)
   Member *mb = data;
   g_free (mb->m.values);
   g_free (mb->m.error);
+  g_free (mb->m.point);
   g_free (mb);
 }
 
@@ -256,20 +257,51 @@ fraction_of (const LwDesignParam *p, double v)
   return (v - p->low) / (p->high - p->low);
 }
 
-/* The worst evaluated member of figure f among n, or G_MAXSIZE. */
+/* The operating points of d as members (origin LW_FAMILY_POINT, named), appended to ms. */
+static void
+add_points (const LwDesign *d, GPtrArray *ms)
+{
+  for (size_t i = 0; i < d->n_points; i++)
+    {
+      Member *mb = member_new (d, LW_FAMILY_POINT);
+      lw_design_point_values (d, i, mb->m.values);
+      mb->m.point = g_strdup (d->points[i].name);
+      g_ptr_array_add (ms, mb);
+    }
+}
+
+gboolean
+lw_family_wanted (const LwDesign *d)
+{
+  for (size_t i = 0; d != NULL && i < d->n_params; i++)
+    if (d->params[i].ranged)
+      return TRUE;
+  return d != NULL && d->n_points > 0;
+}
+
+/* The worst evaluated member of figure f among n, or G_MAXSIZE; with in_box, operating points
+ * are left out (a search starts in the ranges). */
 static size_t
-worst_of (Member *const *ms, size_t n, LwFamilyFigure f)
+worst_among (Member *const *ms, size_t n, LwFamilyFigure f, gboolean in_box)
 {
   size_t w = G_MAXSIZE;
   for (size_t i = 0; i < n; i++)
     {
       const LwFamilyMember *m = &ms[i]->m;
+      if (in_box && m->origin == LW_FAMILY_POINT)
+        continue;
       if (!m->evaluated || !m->has[f] || isnan (m->figure[f]))
         continue;
       if (w == G_MAXSIZE || lw_family_worse (f, m->figure[f], ms[w]->m.figure[f]))
         w = i;
     }
   return w;
+}
+
+static size_t
+worst_of (Member *const *ms, size_t n, LwFamilyFigure f)
+{
+  return worst_among (ms, n, f, FALSE);
 }
 
 /* A compass search for the worst member of figure f from `start`: all 2k neighbours at the
@@ -406,9 +438,10 @@ lw_family_evaluate_controller (const LwDesign *d, double period_s, const LwModel
       c.ranged[c.n_ranged++] = i;
   guint threads = o->threads > 0 ? o->threads : MAX (g_get_num_processors (), 1);
 
-  /* nominal, corners, sample */
+  /* nominal, operating points, corners, sample */
   GPtrArray *ms = g_ptr_array_new_with_free_func (member_free);
   g_ptr_array_add (ms, member_new (d, LW_FAMILY_NOMINAL));
+  add_points (d, ms);
   size_t n_corners = 0;
   if (c.n_ranged > 0 && c.n_ranged <= LW_DESIGN_MAX_CORNER_PARAMS)
     {
@@ -456,7 +489,7 @@ lw_family_evaluate_controller (const LwDesign *d, double period_s, const LwModel
                                           LW_FAMILY_SENSITIVITY };
       for (size_t s = 0; s < G_N_ELEMENTS (searched); s++)
         {
-          size_t w = worst_of ((Member **) ms->pdata, ms->len, searched[s]);
+          size_t w = worst_among ((Member **) ms->pdata, ms->len, searched[s], TRUE);
           if (w == G_MAXSIZE)
             continue;
           Member *found = search_worst (&c, ms->pdata[w], searched[s], threads);
@@ -471,6 +504,7 @@ lw_family_evaluate_controller (const LwDesign *d, double period_s, const LwModel
   f->names = g_new0 (char *, d->n_params + 1);
   for (size_t i = 0; i < d->n_params; i++)
     f->names[i] = g_strdup (d->params[i].name);
+  f->n_points = d->n_points;
   f->n_corners = n_corners;
   f->n_members = ms->len;
   f->members = g_new0 (LwFamilyMember, ms->len);
@@ -519,6 +553,7 @@ lw_family_evaluate_controller (const LwDesign *d, double period_s, const LwModel
       f->members[i] = mb->m;
       mb->m.values = NULL;
       mb->m.error = NULL;
+      mb->m.point = NULL;
     }
   g_ptr_array_unref (ms);
   return f;
@@ -569,6 +604,14 @@ lw_family_loops_controller (const LwDesign *d, double period_s, const LwModel *c
             l->worst_pm = i;
     }
   l->n_worst = n;
+  /* the operating points, each (named machines), as far as max_others goes */
+  for (size_t i = 1; i <= f->n_points && i < f->n_members && max_others > 0; i++)
+    if (!taken[i])
+      {
+        taken[i] = TRUE;
+        pick[n++] = i;
+        max_others--;
+      }
   size_t rest = 0;
   for (size_t i = 0; i < f->n_members; i++)
     rest += !taken[i];
@@ -636,6 +679,7 @@ lw_family_free (LwFamily *f)
     {
       g_free (f->members[i].values);
       g_free (f->members[i].error);
+      g_free (f->members[i].point);
     }
   g_free (f->members);
   g_strfreev (f->names);

@@ -1,11 +1,13 @@
 /* lw-family.h — a plant family: the margins of one controller over every machine a design's
  * parameter ranges describe (<parameters> with low/high, docs/families.md).
  *
- * Members: the nominal plant first, then every corner of the range box (up to 2^10), then a
+ * Members: the nominal plant first, then the design's operating points (each a named set of
+ * parameter values, <point>; they may lie outside the ranges), then every corner of the range box (up to 2^10), then a
  * seeded sample drawn over the ranges (each parameter uniformly, or uniformly in log(value)
  * with spread "log") until the number of members asked for is reached; then, for each of the
  * phase margin, gain margin and sensitivity peak, a search for the worst member starting from
- * the worst one found so far (a compass search in the box scaled to [0, 1]^k, steps halved
+ * the worst one found so far in the box (an operating point outside it is not a start: the
+ * search stays in the ranges; a compass search in the box scaled to [0, 1]^k, steps halved
  * from 1/4 down to LW_FAMILY_SEARCH_STEP; the worst is often not a corner, e.g. a resonance
  * moving beside a notch). Each member is evaluated as a single plant would be (lw_evaluate:
  * the sampled plant, every crossover and margin, closed-loop poles, the step), so a member's
@@ -51,7 +53,8 @@ typedef enum
   LW_FAMILY_NOMINAL = 0,
   LW_FAMILY_CORNER,
   LW_FAMILY_SAMPLE,
-  LW_FAMILY_SEARCH
+  LW_FAMILY_SEARCH,
+  LW_FAMILY_POINT           /* an operating point of the design (LwFamilyMember.point) */
 } LwFamilyOrigin;
 
 /* The figures compared over the family; "worst" is the smallest margin, the largest peak,
@@ -71,6 +74,8 @@ typedef struct
 {
   double *values;               /* the parameters' values, in the design's order */
   LwFamilyOrigin origin;
+  char *point;                  /* the operating point's name (origin LW_FAMILY_POINT), else
+                                   NULL */
   gboolean evaluated;           /* FALSE: the plant or the loop failed (error says why) */
   char *error;
   gboolean stable;
@@ -86,7 +91,8 @@ typedef struct
   char **names;                 /* n_params */
   size_t n_members;
   LwFamilyMember *members;      /* [0] the nominal */
-  size_t n_corners;             /* members 1 … n_corners are the corners */
+  size_t n_points;              /* members 1 … n_points are the operating points */
+  size_t n_corners;             /* then n_corners corners (members n_points + 1 …) */
   size_t n_failed;              /* members not evaluated */
   size_t n_unstable;            /* evaluated members whose loop is not stable */
   /* per figure, the member giving the worst value (G_MAXSIZE: none has it) */
@@ -100,8 +106,11 @@ typedef struct
   size_t n_not_passing;
 } LwFamily;
 
-/* The family of variant `variant` of d (its ranged parameters; a design without any gives
- * a family of the nominal alone). NULL with an error (LW_ENGINE_ERROR) when the nominal
+/* TRUE when d describes a family: a ranged parameter or an operating point. */
+gboolean lw_family_wanted (const LwDesign *d);
+
+/* The family of variant `variant` of d (its ranged parameters and operating points; a design
+ * without any gives a family of the nominal alone). NULL with an error (LW_ENGINE_ERROR) when the nominal
  * itself cannot be evaluated or the options are out of range. */
 LwFamily *lw_family_evaluate (const LwDesign *d, size_t variant, const LwFamilyOptions *o,
                               GError **error);
@@ -117,8 +126,9 @@ G_DEFINE_AUTOPTR_CLEANUP_FUNC (LwFamily, lw_family_free)
 /* The loops of some members of a family, for figures: each member's sampled plant and its
  * loop evaluated with the controller (lw_evaluate on a grid of n_points up to π/T, the step
  * over LW_FAMILY_LOOPS_STEPS samples, for the figures).
- * Members: the worst of each figure (distinct), then up to max_others more spread evenly over
- * the rest, the nominal left out (the variant's own curve is it). */
+ * Members: the worst of each figure (distinct), then up to max_others more: the operating
+ * points first, then spread evenly over the rest; the nominal left out (the variant's own
+ * curve is it). */
 typedef struct
 {
   size_t n;                     /* members drawn */

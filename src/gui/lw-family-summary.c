@@ -1,6 +1,6 @@
 /* lw-family-summary.c — a plant family in words for the window's panel: its members, the
- * worst phase and gain margin and sensitivity peak with the members giving them, and the
- * requirements passing on every member (lw-family-summary.h).
+ * worst phase and gain margin and sensitivity peak with the members giving them (an operating
+ * point by its name), and the requirements passing on every member (lw-family-summary.h).
  * SPDX-License-Identifier: GPL-3.0-or-later
  */
 #include "config.h"
@@ -9,12 +9,15 @@
 
 #include "lw-family-summary.h"
 
-/* "K = 150, wn = 225" of a member (the parameters with a range only) */
+/* " (K = 150, wn = 225)" of a member (the parameters with a range only); an operating point
+ * by its name: " at “full” (K = 150, wn = 225)" */
 static void
 append_member (GString *t, const LwFamily *f, const LwDesign *d, size_t index)
 {
   if (index >= f->n_members)
     return;
+  if (f->members[index].point != NULL)
+    g_string_append_printf (t, _(" at “%s”"), f->members[index].point);
   gboolean first = TRUE;
   for (size_t i = 0; i < f->n_params && i < d->n_params; i++)
     if (d->params[i].ranged)

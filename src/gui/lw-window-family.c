@@ -27,15 +27,6 @@
 /* Points of the band of the members drawn during a drag. */
 #define DRAG_BAND_POINTS 200
 
-gboolean
-lw_window_has_ranges (const LwDesign *d)
-{
-  for (size_t k = 0; k < d->n_params; k++)
-    if (d->params[k].ranged)
-      return TRUE;
-  return FALSE;
-}
-
 /* ---- the picture ------------------------------------------------------------------------- */
 
 struct _LwFamilyPicture
@@ -89,7 +80,7 @@ lw_window_family_drawn (LwWindow *self)
   if (p == NULL || p->ff.f.n == 0)
     return NULL;
   const LwDesign *d = lw_design_model_get_design (self->model);
-  if (!lw_window_has_ranges (d) || g_strcmp0 (p->variant, d->variants[d->active].name) != 0)
+  if (!lw_family_wanted (d) || g_strcmp0 (p->variant, d->variants[d->active].name) != 0)
     return NULL;
   return &p->ff.f;
 }

@@ -244,6 +244,7 @@ fit_used (LwWindow *self, const char *expression)
     g_free (d->params[i].name);
   g_clear_pointer (&d->params, g_free);
   d->n_params = 0;
+  lw_design_clear_points (d);   /* they give values of the parameters gone */
   lw_design_model_replace (self->model, d);
   lw_history_commit (self->history);
   if (self->debug)

@@ -174,10 +174,9 @@ void lw_window_finish_theme (LwWindow *self);
 /* With LW_TEST_FIGURE_PATH set: writes the figure there and returns TRUE. */
 gboolean lw_window_export_figure_for_test (LwWindow *self);
 
-/* lw-window-family.c: whether d has ranged parameters (a plant family); the family of
+/* lw-window-family.c: the family (lw_family_wanted: ranged parameters or operating points) of
  * `variant` of doc evaluated for the evaluation of `generation` and shown when that one is
  * still on show; the waiting one dropped (the window goes) */
-gboolean lw_window_has_ranges (const LwDesign *d);
 void lw_window_start_family (LwWindow *self, const LwDesign *doc, size_t variant,
                              guint64 generation);
 void lw_window_drop_family (LwWindow *self);

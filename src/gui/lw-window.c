@@ -281,8 +281,7 @@ eval_job_new (LwWindow *self)
   job->generation = ++self->eval_generation;
   /* during a drag: about as many frequency points as a plot has pixels across */
   job->n_points = self->dragging ? DRAG_POINTS : 0;
-  for (size_t k = 0; k < d->n_params && !self->dragging; k++)
-    job->want_family = job->want_family || d->params[k].ranged;
+  job->want_family = !self->dragging && lw_family_wanted (d);
   job->index[job->n++] = (guint) d->active;
   for (guint i = 0; i < d->n_variants && job->n < LW_PLOT_MAX_VARIANTS; i++)
     {
@@ -333,7 +332,7 @@ eval_job_show (LwWindow *self, EvalJob *job)
   /* the family, after the nominal is on show: on a worker thread of its own (docs/
    * families.md: the default members); during a drag its drawn members follow the
    * controller (lw_window_follow_family) and its summary stays, dimmed */
-  gboolean ranges = lw_window_has_ranges (lw_design_model_get_design (self->model));
+  gboolean ranges = lw_family_wanted (lw_design_model_get_design (self->model));   /* or points */
   if (!ranges)
     lw_window_clear_family_picture (self);
   if (job->want_family && nominal_ok)

@@ -31,9 +31,11 @@ lwr_add_figures (LwReport *r, const LwDesign *d, RVar *rv, size_t n, const RFami
         "same renderer as `loopwright-cli plot`.");
   if (rf->family != NULL && rf->loops->n > 0)
     lwr_para (r, "The plant family of “%s” is drawn under its curves: %zu of its %zu members "
-              "as thin light curves (the worst of each figure and others spread over the "
-              "rest; their closed-loop poles as small dots), the member of the worst phase "
-              "margin dashed and labelled.", rv[rf->of].v->name, rf->loops->n, rf->family->n_members);
+              "as thin light curves (the worst of each figure%s others spread over the rest; "
+              "their closed-loop poles as small dots), the member of the worst phase margin "
+              "dashed and labelled.", rv[rf->of].v->name, rf->loops->n,
+              rf->family->n_members,
+              rf->family->n_points > 0 ? ", the operating points and" : " and");
   LwFigureVariant fv[LW_PLOT_MAX_VARIANTS];
   LwPlotVariant pv[LW_PLOT_MAX_VARIANTS];
   size_t filled = 0, n_model = 0;

@@ -1,6 +1,7 @@
 /* lw-report-family.c — the report's "Plant family" section: a design with ranged parameters
- * has its family evaluated for one reported variant (lw_family_evaluate, the members `check`
- * and `analyze` evaluate by default), the worst of each figure with the member giving it,
+ * or operating points has its family evaluated for one reported variant (lw_family_evaluate, the members `check`
+ * and `analyze` evaluate by default), each figure's nominal value beside its worst with the
+ * member giving it (an operating point by its name),
  * every requirement judged on every member, and the members' loops for the figures
  * (docs/report.md, docs/families.md).
  *
@@ -21,13 +22,16 @@ lwr_family_clear (RFamily *rf)
   g_clear_pointer (&rf->family, lw_family_free);
 }
 
-/* The member's parameter values, "K = 180, wr = 203" (the ranged ones and the others). */
+/* The member's parameter values, "K = 180, wr = 203" (the ranged ones and the others), after
+ * its name when it is an operating point: "point “full”: K = 180, wr = 203". */
 static char *
 member_text (const LwFamily *f, size_t index)
 {
   if (index >= f->n_members)
     return g_strdup ("");
   GString *s = g_string_new (NULL);
+  if (f->members[index].point != NULL)
+    g_string_append_printf (s, "point “%s”: ", f->members[index].point);
   for (size_t i = 0; i < f->n_params; i++)
     g_string_append_printf (s, "%s%s = %.6g", i > 0 ? ", " : "", f->names[i],
                             f->members[index].values[i]);
@@ -38,10 +42,7 @@ gboolean
 lwr_family_compute (const LwDesign *d, const RVar *rv, size_t n, RFamily *rf, GError **error)
 {
   memset (rf, 0, sizeof *rf);
-  gboolean ranged = FALSE;
-  for (size_t i = 0; i < d->n_params; i++)
-    ranged = ranged || d->params[i].ranged;
-  if (!ranged || !lw_design_has_model (d))
+  if (!lw_family_wanted (d) || !lw_design_has_model (d))
     return TRUE;
   /* the active variant when it is reported, else the first with a model loop */
   size_t of = SIZE_MAX;
@@ -83,29 +84,54 @@ lwr_section_family (LwReport *r, const LwDesign *d, const RVar *rv, const RFamil
       g_string_append_printf (ranges, "%s%s from %.6g to %.6g%s", ranges->len > 0 ? ", " : "",
                               d->params[i].name, d->params[i].low, d->params[i].high,
                               d->params[i].spread == LW_SPREAD_LOG ? " (log)" : "");
-  lwr_para (r, "The controller of “%s” on every machine the parameter ranges describe (%s): "
-            "%zu members evaluated — the nominal, %zu corners, a seeded sample and a search "
-            "for the worst member of each margin — each exactly as the nominal plant is, "
-            "linear (the actuator limits are not simulated for the members).", name,
-            ranges->str, f->n_members, f->n_corners);
+  GString *points = g_string_new (NULL);
+  for (size_t i = 0; i < d->n_points; i++)
+    g_string_append_printf (points, "%s“%s”", i > 0 ? ", " : "", d->points[i].name);
+  if (d->n_points == 0)
+    lwr_para (r, "The controller of “%s” on every machine the parameter ranges describe (%s): "
+              "%zu members evaluated — the nominal, %zu corners, a seeded sample and a search "
+              "for the worst member of each margin — each exactly as the nominal plant is, "
+              "linear (the actuator limits are not simulated for the members).", name,
+              ranges->str, f->n_members, f->n_corners);
+  else if (ranges->len == 0)
+    lwr_para (r, "The controller of “%s” at the nominal plant and at the %zu operating "
+              "point(s) of the design (%s), each evaluated exactly as the nominal plant is, "
+              "linear (the actuator limits are not simulated for the members).", name,
+              f->n_points, points->str);
+  else
+    lwr_para (r, "The controller of “%s” at the %zu operating point(s) of the design (%s) and "
+              "on every machine the parameter ranges describe (%s): %zu members evaluated — "
+              "the nominal, the points, %zu corners, a seeded sample and a search for the "
+              "worst member of each margin within the ranges — each exactly as the nominal "
+              "plant is, linear (the actuator limits are not simulated for the members).",
+              name, f->n_points, points->str, ranges->str, f->n_members, f->n_corners);
   g_string_free (ranges, TRUE);
+  g_string_free (points, TRUE);
   if (f->n_unstable > 0 || f->n_failed > 0)
     lwr_para (r, "%zu member(s) with a loop that is NOT stable, %zu that could not be "
               "evaluated; their figures are included (a negative margin is the worst).",
               f->n_unstable, f->n_failed);
-  TableFill t = lwr_table_begin (r, "family-worst", name, 3,
-                                 (const char *const[]) { "figure", "worst", "member" });
+  TableFill t = lwr_table_begin (r, "family-worst", name, 4,
+                                 (const char *const[]) { "figure", "nominal", "worst",
+                                                         "member" });
+  const LwFamilyMember *nominal = &f->members[0];
   for (int k = 0; k < LW_FAMILY_N_FIGURES; k++)
     {
       size_t w = f->worst[k];
       const char *unit = lw_family_figure_unit ((LwFamilyFigure) k);
       lwr_cellf (&t, "%s%s%s%s", lw_family_figure_name ((LwFamilyFigure) k),
                  unit[0] ? " (" : "", unit, unit[0] ? ")" : "");
+      gboolean has = nominal->evaluated && nominal->has[k] && !isnan (nominal->figure[k]);
+      lwr_cell_take (&t, lwr_num6 (has, has ? nominal->figure[k] : NAN), false);
       lwr_cell_take (&t, lwr_num6 (w != G_MAXSIZE, w != G_MAXSIZE ? f->members[w].figure[k]
                                                                   : NAN), false);
       lwr_cell_take (&t, member_text (f, w), false);
     }
   lwr_cellf (&t, "crossover (rad/s)");
+  if (nominal->evaluated && nominal->has_crossover)
+    lwr_cell_take (&t, lwr_num6 (true, nominal->crossover_rad_s), false);
+  else
+    lwr_cellf (&t, "n/a");
   if (isnan (f->crossover_min_rad_s))
     lwr_cellf (&t, "n/a");
   else

@@ -19,8 +19,14 @@ document (the family's own numbers, computed by the code `check` uses):
 - a design without ranged parameters draws no family path (its bytes are tests/golden's);
 - `--range` with a document is refused naming the option;
 - the report has a "Plant family" section whose worst phase margin equals
-  family.worst_phase_margin_deg (to the report's 6 significant digits), with the member's
-  parameter values, and its Bode figure holds the family's paths.
+  family.worst_phase_margin_deg (to the report's 6 significant digits), its nominal the
+  nominal loop's phase margin, with the member's parameter values, and its Bode figure holds
+  the family's paths;
+- the loop options without a document (--plant, --param, --range, --point, as `analyze` takes
+  them; the plant K/(s(s+a)) and controller of test-cli-family.py) draw the family as a
+  document does: the same count of member paths from `analyze`'s family with the same options,
+  the operating points among them, and the label "worst PM" with analyze's worst phase margin
+  to the label's one decimal; without --range or --point no family is drawn.
 
 Usage: test-cli-family-figures.py CLI EXAMPLES_DIR
 """
@@ -64,18 +70,19 @@ NOMINAL = (180.0, 200.0)
 
 
 def svg_of(cli, doc, view, *extra):
+    """The SVG of a view of doc, or of the loop options in extra when doc is None."""
     out = os.path.join(TMP, 'fig-%s.svg' % view)
-    r = run(cli, 'plot', doc, '--view', view, '--out', out, *extra)
+    r = run(cli, 'plot', *([doc] if doc else []), '--view', view, '--out', out, *extra)
     check(r.returncode == 0, 'plot %s %s: %s' % (view, ' '.join(extra), r.stderr))
     with open(out, encoding='utf-8') as f:
         return f.read()
 
 
-def drawn_members(fam):
+def drawn_members(fam, keys=('K', 'wr'), nominal=NOMINAL):
     """The members the figures draw: the distinct worst ones but the nominal, and up to
-    OTHERS of the rest."""
-    worst = {tuple(m[k] for k in ('K', 'wr')) for m in fam['worst_members'].values()}
-    worst.discard(NOMINAL)
+    OTHERS of the rest (the operating points first)."""
+    worst = {tuple(m[k] for k in keys) for m in fam['worst_members'].values()}
+    worst.discard(nominal)
     rest = fam['members'] - 1 - len(worst)
     return len(worst) + min(OTHERS, rest)
 
@@ -147,19 +154,76 @@ def main():
         html = f.read()
     check('Plant family' in html, 'the report has the family section')
     m = re.search(r'<table data-table="family-worst"[^>]*>.*?<td>phase margin \(deg\)</td>'
-                  r'<td>([^<]*)</td><td>([^<]*)</td>', html, re.S)
+                  r'<td>([^<]*)</td><td>([^<]*)</td><td>([^<]*)</td>', html, re.S)
     check(m is not None, 'the family table has the worst phase margin')
     if m:
         # the report writes 6 significant digits: a relative 1e-5 holds them
-        got, want = float(m.group(1)), fam['worst_phase_margin_deg']
+        got, want = float(m.group(2)), fam['worst_phase_margin_deg']
         check(abs(got - want) <= 1e-5 * abs(want), 'report worst PM %s, analyze %.9g'
-              % (m.group(1), want))
+              % (m.group(2), want))
+        nominal = json_of(cli, 'analyze', doc, '--json')['loop']['phase_margin_deg']
+        check(abs(float(m.group(1)) - nominal) <= 1e-5 * abs(nominal),
+              'report nominal PM %s, analyze %.9g' % (m.group(1), nominal))
         wm = fam['worst_member']
-        check(m.group(2) == 'K = %.6g, wr = %.6g' % (wm['K'], wm['wr']),
-              'the worst member\'s values: ' + m.group(2))
+        check(m.group(3) == 'K = %.6g, wr = %.6g' % (wm['K'], wm['wr']),
+              'the worst member\'s values: ' + m.group(3))
     check('data-table="family-requirements"' in html, 'requirements judged on the members')
     check(FAMILY_WIDTH in html or 'stroke-width:0.85' in html,
           'the report\'s figures draw the family')
+
+    loop_options(cli)
+
+
+# test-cli-family.py's loop: K/(s(s+a)), K 800 … 6400, a 9 … 14, a lag and a lead in w
+LOOP = ['--plant', 'K/(s*(s+a))', '--param', 'K=2000', '--param', 'a=10', '--period', '0.002',
+        '--controller', '(1+w/80)/(1+w/20)*(1+w/50)/(1+w/500)']
+RANGES = ['--range', 'K=800:6400', '--range', 'a=9:14', '--members', '60']
+
+
+def loop_options(cli):
+    """plot with the loop options draws the family analyze evaluates with them."""
+    for extra in ([], ['--point', 'cold:K=1200,a=16', '--point', 'hot:K=7000,a=8.5']):
+        fam = json_of(cli, 'analyze', *LOOP, *RANGES, *extra, '--json')['family']
+        n = drawn_members(fam, ('K', 'a'), (2000.0, 10.0))
+        print('loop options%s: members %d, drawn %d, worst PM %.6g deg'
+              % (' with points' if extra else '', fam['members'], n,
+                 fam['worst_phase_margin_deg']))
+        svg = svg_of(cli, None, 'bode-z', *LOOP, *RANGES, *extra)
+        check(svg.count(FAMILY_WIDTH) == 2 * (n - 1) + 1 and svg.count(WORST_WIDTH) == 2,
+              'loop options bode-z: %d thin, %d worst paths; expected 2 x %d + 1, 2'
+              % (svg.count(FAMILY_WIDTH), svg.count(WORST_WIDTH), n - 1))
+        s = svg_of(cli, None, 'nichols', *LOOP, *RANGES, *extra)
+        check(s.count(FAMILY_WIDTH) == (n - 1) + 1 and s.count(WORST_WIDTH) == 1,
+              'loop options nichols: %d thin, %d worst for %d members'
+              % (s.count(FAMILY_WIDTH), s.count(WORST_WIDTH), n))
+        if shutil.which('pdftotext'):
+            pdf = os.path.join(TMP, 'loop.pdf')
+            r = run(cli, 'plot', *LOOP, *RANGES, *extra, '--view', 'bode-z', '--out', pdf)
+            check(r.returncode == 0, 'plot loop options to PDF: ' + r.stderr)
+            text = subprocess.run(['pdftotext', pdf, '-'], capture_output=True, text=True,
+                                  timeout=60).stdout
+            label = 'worst PM %.1f' % fam['worst_phase_margin_deg']
+            check(label in text, 'the label %r in %r' % (label, text[:300]))
+            check('family (%d members)' % fam['members'] in text, 'the key names the family')
+    # only points, no range: the nominal and the points, every point drawn
+    pfam = json_of(cli, 'analyze', *LOOP, '--point', 'cold:K=1700,a=9', '--point',
+                   'hot:K=7000,a=8.5', '--json')['family']
+    check(pfam['members'] == 3 and pfam['worst_member'].get('point') == 'cold',
+          'a family of two points: %d members, the worst PM at %r' % (pfam['members'],
+                                                                      pfam['worst_member']))
+    s = svg_of(cli, None, 'nyquist', *LOOP, '--point', 'cold:K=1700,a=9', '--point',
+               'hot:K=7000,a=8.5')
+    # the worst phase margin's member dashed, unless it is the nominal (the loop's own curve)
+    dashed = 1 if 'point' in pfam['worst_member'] else 0
+    check(s.count(FAMILY_WIDTH) == 2 - dashed + 1 and s.count(WORST_WIDTH) == dashed,
+          'two points drawn: %d thin, %d worst (the worst PM at %r)'
+          % (s.count(FAMILY_WIDTH), s.count(WORST_WIDTH), pfam['worst_member']))
+    s = svg_of(cli, None, 'bode-z', *LOOP)
+    check(FAMILY_WIDTH not in s and WORST_WIDTH not in s, 'no --range: no family drawn')
+    r = run(cli, 'plot', *LOOP, '--range', 'K=0:10', '--view', 'step', '--out',
+            os.path.join(TMP, 'x.svg'))
+    check(r.returncode == 2 and '--range' in r.stderr, 'a bad --range refused in any view: '
+          + r.stderr.strip())
 
 
 TMP = tempfile.mkdtemp(prefix='lw-family-fig-')

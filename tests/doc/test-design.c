@@ -121,6 +121,80 @@ test_round_trip (void **state)
     }
 }
 
+/* Operating points (<point> in <parameters>): a literal document in canonical form reads
+ * back to its bytes, the values at each point are the point's own and the nominals, copies
+ * and comparisons see the points, and a point the API breaks is refused on save. */
+static void
+test_round_trip_points (void **state)
+{
+  (void) state;
+  static const char text[] =
+    "<?xml version=\"1.0\" encoding=\"UTF-8\"?>\n"
+    "<design xmlns=\"urn:loopwright:design\" version=\"1\">\n"
+    "  <title>pump over tank level</title>\n"
+    "  <plant dead_time_s=\"0.02\">K/((0.3*s+1)*(tau*s+1))</plant>\n"
+    "  <parameters>\n"
+    "    <parameter name=\"K\" nominal=\"0.8\" low=\"0.7\" high=\"0.9\"/>\n"
+    "    <parameter name=\"tau\" nominal=\"0.05\"/>\n"
+    "    <parameter name=\"dead_time_s\" nominal=\"0.02\"/>\n"
+    "    <point name=\"empty tank\">\n"
+    "      <value parameter=\"tau\" value=\"0.03\"/>\n"
+    "      <value parameter=\"K\" value=\"1.1\"/>\n"
+    "    </point>\n"
+    "    <point name=\"half\"/>\n"
+    "    <point name=\"full\">\n"
+    "      <value parameter=\"dead_time_s\" value=\"0.05\"/>\n"
+    "    </point>\n"
+    "  </parameters>\n"
+    "  <sampling period_s=\"0.01\" hold=\"zero-order\" compute_delay_samples=\"1\"/>\n"
+    "  <variants active=\"a\">\n"
+    "    <variant name=\"a\"/>\n"
+    "  </variants>\n"
+    "</design>\n";
+  GError *error = NULL;
+  g_autoptr (LwDesign) d = lw_design_load_data (text, strlen (text), "points", &error);
+  if (d == NULL)
+    fail_msg ("did not load: %s", error->message);
+  assert_int_equal (d->n_points, 3);
+  assert_string_equal (d->points[0].name, "empty tank");
+  assert_int_equal (d->points[0].n_values, 2);
+  assert_int_equal (d->points[1].n_values, 0);
+  assert_int_equal (lw_design_find_point (d, "full"), 2);
+  assert_int_equal (lw_design_find_point (d, "overflow"), -1);
+  /* a point outside K's range is allowed: the engineer knows it */
+  double v[3];
+  lw_design_point_values (d, 0, v);
+  assert_true (v[0] == 1.1 && v[1] == 0.03 && v[2] == 0.02);
+  lw_design_point_values (d, 1, v);
+  assert_true (v[0] == 0.8 && v[1] == 0.05 && v[2] == 0.02);
+  lw_design_point_values (d, 2, v);
+  assert_true (lw_design_dead_time_at (d, v) == 0.05);
+  size_t len = 0;
+  g_autofree char *t = text_ok (d, &len);
+  assert_int_equal (len, strlen (text));
+  assert_memory_equal (t, text, len);
+  g_autoptr (LwDesign) c = lw_design_copy (d);
+  assert_true (lw_design_equal (d, c));
+  c->points[0].values[1].value = 1.2;
+  assert_false (lw_design_equal (d, c));
+  c->points[0].values[1].value = 1.1;
+  assert_true (lw_design_equal (d, c));
+  /* broken through the API: refused on save, naming the point */
+  lw_design_set_string (&c->points[2].values[0].parameter, "m");
+  assert_null (lw_design_to_text (c, NULL, &error));
+  assert_non_null (strstr (error->message, "point 'full': unknown parameter 'm'"));
+  g_clear_error (&error);
+  lw_design_set_string (&c->points[2].values[0].parameter, "K");
+  c->points[2].values[0].value = 0.0;
+  assert_null (lw_design_to_text (c, NULL, &error));
+  assert_non_null (strstr (error->message, "at operating point 'full'"));
+  g_clear_error (&error);
+  lw_design_clear_points (c);
+  assert_int_equal (c->n_points, 0);
+  g_autofree char *t2 = text_ok (c, NULL);
+  assert_null (strstr (t2, "<point"));
+}
+
 /* A design built through the API, with every stage kind, every requirement kind, awkward
  * strings and numbers, survives save → load unchanged. */
 static void
@@ -1012,6 +1086,7 @@ main (int argc, char **argv)
     cmocka_unit_test (test_examples_load),
     cmocka_unit_test (test_round_trip),
     cmocka_unit_test (test_round_trip_everything),
+    cmocka_unit_test (test_round_trip_points),
     cmocka_unit_test (test_literal_document),
     cmocka_unit_test (test_round_trip_variant_period),
     cmocka_unit_test (test_round_trip_actuator),
