@@ -13,6 +13,7 @@
 #include "lw-cli-doc.h"
 #include "lw-cli-json.h"
 #include "lw-cli-family.h"
+#include "lw-cli-family-members.h"
 #include "lw-cli-measured.h"
 #include "lw-cli-analyze-text.h"
 #include "lw-simulate.h"
@@ -49,6 +50,8 @@ static const char analyze_help[] =
   "  --param NAME=VALUE       a named parameter of the plant expression and its value\n"
   "                           (repeat for each; e.g. --plant 'K/(s*(s+a))' --param K=40\n"
   "                           --param a=8)\n"  LW_CLI_FAMILY_HELP
+  "  --each-member            with a plant family: every member's values, where it comes\n"
+  "                           from, whether its loop is stable and its figures\n"
   LW_CLI_MEASURED_HELP
   LW_CLI_MEASURED_POLES_HELP
   "  --points N               frequency points up to pi/T, 16 to 100000 (default 2000)\n"
@@ -77,6 +80,7 @@ typedef struct
   char *saturation;
   char *substeps;
   gboolean anti_windup;
+  gboolean each_member;         /* --each-member: every member of a family */
   gboolean all;
   gboolean json;
   gboolean help;
@@ -320,10 +324,27 @@ analyze_family (const AnalyzeArgs *a, const LwDesign *fd, double period_s,
       return status;
     }
   if (root != NULL)
-    lw_cli_family_json (json_node_get_object (root), f, fd);
+    {
+      lw_cli_family_json (json_node_get_object (root), f, fd);
+      if (a->each_member)
+        lw_cli_family_members_json (json_object_get_object_member (json_node_get_object (root),
+                                                                    "family"), f);
+    }
   else if (!a->json)
-    lw_cli_family_print (f, fd);
+    {
+      lw_cli_family_print (f, fd);
+      if (a->each_member)
+        lw_cli_family_members_print (f);
+    }
   return LW_EXIT_OK;
+}
+
+static int
+each_member_refused (void)
+{
+  lw_cli_bad_input ("--each-member", "needs a plant family: --range or --point with the loop "
+                    "options, or a document with ranged parameters or operating points");
+  return LW_EXIT_BAD_INPUT;
 }
 
 /* The first option given that only a model can serve, or NULL. */
@@ -369,6 +390,8 @@ analyze_run (void *data)
                             "needs a design document (FILE.lwd) to pick from");
           return LW_EXIT_BAD_INPUT;
         }
+      if (a->each_member && !lw_cli_family_wanted (&a->family, NULL))
+        return each_member_refused ();
       int status = lw_cli_loop_build ("analyze", &a->loop, &lp);
       if (status != LW_EXIT_OK)
         return status;
@@ -431,6 +454,8 @@ analyze_run (void *data)
                         "are a model's); %s holds only measured data", a->files[0]);
       return LW_EXIT_BAD_INPUT;
     }
+  if (a->each_member && !lw_cli_family_wanted (&a->family, design))
+    return each_member_refused ();
   JsonBuilder *b = NULL;
   if (a->json && a->all)
     {
@@ -494,6 +519,7 @@ lw_cmd_analyze (int argc, char **argv)
     { "steps", 0, 0, G_OPTION_ARG_STRING, &a.steps, NULL, NULL },
     { "saturation", 0, 0, G_OPTION_ARG_STRING, &a.saturation, NULL, NULL },
     { "anti-windup", 0, 0, G_OPTION_ARG_NONE, &a.anti_windup, NULL, NULL },
+    { "each-member", 0, 0, G_OPTION_ARG_NONE, &a.each_member, NULL, NULL },
     { "substeps", 0, 0, G_OPTION_ARG_STRING, &a.substeps, NULL, NULL },
     { "json", 0, 0, G_OPTION_ARG_NONE, &a.json, NULL, NULL },
     { "help", 'h', 0, G_OPTION_ARG_NONE, &a.help, NULL, NULL },

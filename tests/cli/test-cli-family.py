@@ -104,6 +104,36 @@ def main():
     check(fam['members'] >= 1 + 4 + 60 and fam['corners'] == 4, 'members and corners: %s'
           % {k: fam[k] for k in ('members', 'corners')})
 
+    # every member (--each-member): each one's phase margin against scipy's for its K and a
+    # (within 1e-6 deg: both refine the crossover to ~1e-13, the margin is read from the same
+    # loop), the family's worst the smallest of them, the origins in the family's order
+    each = json_of(cli, 'analyze', *loop, '--range', 'K=%g:%g' % K_RANGE,
+                   '--range', 'a=%g:%g' % A_RANGE, '--members', '8', '--json',
+                   '--each-member')['family']
+    rows = each['each_member']
+    check(len(rows) == each['members'], '--each-member: %d rows for %d members'
+          % (len(rows), each['members']))
+    check([r['origin'] for r in rows[:5]] == ['nominal'] + ['corner'] * 4
+          and all(r['origin'] in ('sample', 'search') for r in rows[5:]),
+          '--each-member: origins %s' % [r['origin'] for r in rows])
+    worst_each = min(r['phase_margin_deg'] for r in rows if r['evaluated'])
+    check(worst_each == each['worst_phase_margin_deg'],
+          '--each-member: the smallest margin %r is the family\'s worst %r'
+          % (worst_each, each['worst_phase_margin_deg']))
+    off = max(abs(r['phase_margin_deg'] - phase_margin(r['values']['K'], r['values']['a']))
+              for r in rows)
+    print('--each-member: %d members, largest difference to scipy %.2e deg' % (len(rows), off))
+    check(off <= 1e-6, '--each-member: a member\'s phase margin differs from scipy by %.3g deg'
+          % off)
+    text = run(cli, 'analyze', *loop, '--range', 'K=%g:%g' % K_RANGE, '--members', '3',
+               '--each-member')
+    check(text.returncode == 0 and 'Every member (' in text.stdout
+          and text.stdout.count(' corner ') == 2, '--each-member as text: %s'
+          % text.stdout[-400:])
+    r = run(cli, 'analyze', *loop, '--each-member')
+    check(r.returncode == 2 and '--each-member' in r.stderr and 'plant family' in r.stderr,
+          '--each-member without a family refused: %s' % r.stderr.strip())
+
     # the dead time as a family's parameter: its nominal is --dead-time; the worst member
     # analyzed alone with that dead time gives the same phase margin (the kiln-like loop of
     # the golden tests, an invented one)
