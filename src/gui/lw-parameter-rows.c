@@ -37,10 +37,9 @@ struct _LwParameterRows
   GtkWidget parent_instance;
 
   GtkWidget *box;
-  GtkWidget *dead_time_button;  /* "Vary Dead Time": the dead time made a parameter */
+  GtkWidget *dead_time_button;  /* the panel's "Vary" beside the dead time, or NULL */
   GtkGrid *grid;
   GtkLabel *problem;            /* a refusal, under the rows */
-  GtkLabel *note;               /* what the rows are for, when there are none */
   GtkSizeGroup *label_group;    /* the panel's column of names (NULL) */
 
   LwDesignModel *model;
@@ -49,6 +48,8 @@ struct _LwParameterRows
   char *shape;                  /* what the rows were built for (rows_shape) */
   guint rebuild_id;
   gboolean filling;             /* showing the model: do not write back */
+  char *refocus;                /* a parameter just added from its empty row: the focus goes
+                                   on to the next empty row, else to its kind */
 };
 
 G_DEFINE_FINAL_TYPE (LwParameterRows, lw_parameter_rows, GTK_TYPE_WIDGET)
@@ -262,9 +263,12 @@ take_missing (LwParameterRows *self, GtkEntry *entry)
   if (lw_number_field_parse (text, -G_MAXDOUBLE, G_MAXDOUBLE, FALSE, &v, &why))
     {
       LwDesignParam p = { .name = (char *) name, .nominal = v };
+      g_autofree char *added = g_strdup (name);   /* name is the entry's, gone on a rebuild */
       if (apply (self, &p, &why))
         {
           show_problem (self, NULL, NULL);
+          g_free (self->refocus);
+          self->refocus = g_steal_pointer (&added);
           return;
         }
     }
@@ -468,6 +472,12 @@ static void
 rebuild (LwParameterRows *self)
 {
   GtkWidget *child;
+  /* after a value typed into an empty row, the focus goes on through the rows when it is
+   * still in them (Enter, Tab) or was lost with them; a click elsewhere keeps it there */
+  GtkRoot *root = gtk_widget_get_root (GTK_WIDGET (self));
+  GtkWidget *focus = root != NULL ? gtk_root_get_focus (root) : NULL;
+  gboolean go_on = self->refocus != NULL
+                   && (focus == NULL || gtk_widget_is_ancestor (focus, GTK_WIDGET (self->grid)));
   self->filling = TRUE;
   while ((child = gtk_widget_get_first_child (GTK_WIDGET (self->grid))) != NULL)
     {
@@ -483,14 +493,32 @@ rebuild (LwParameterRows *self)
   g_auto (GStrv) missing = lw_design_model_missing_params (self->model);
   for (char **m = missing; *m != NULL; m++)
     row = add_missing_row (self, *m, row);
-  gboolean model = lw_design_has_model (d);
+  /* without parameters (and no name to give) the panel is as it was: nothing shown */
+  gtk_widget_set_visible (self->box, row > 0);
   LwDesignParam dead;
-  gtk_widget_set_visible (self->box, model || d->n_params > 0);
-  gtk_widget_set_visible (self->dead_time_button,
-                          model && !current_param (self, LW_DESIGN_DEAD_TIME_PARAM, &dead));
-  gtk_widget_set_visible (GTK_WIDGET (self->grid), row > 0);
-  gtk_widget_set_visible (GTK_WIDGET (self->note), row == 0);
+  if (self->dead_time_button != NULL)
+    gtk_widget_set_visible (self->dead_time_button,
+                            lw_design_has_model (d)
+                            && !current_param (self, LW_DESIGN_DEAD_TIME_PARAM, &dead));
   self->filling = FALSE;
+  if (go_on)
+    {
+      /* the next empty row (they come after every parameter), else the kind of the one added */
+      GtkWidget *next = NULL;
+      for (child = gtk_widget_get_first_child (GTK_WIDGET (self->grid)); child != NULL;
+           child = gtk_widget_get_next_sibling (child))
+        if (GTK_IS_ENTRY (child))
+          {
+            next = child;
+            break;
+          }
+        else if (next == NULL && GTK_IS_DROP_DOWN (child)
+                 && g_strcmp0 (name_of (child), self->refocus) == 0)
+          next = child;
+      if (next != NULL)
+        gtk_widget_grab_focus (next);
+    }
+  g_clear_pointer (&self->refocus, g_free);
   lw_number_field_watch_positions ();
 }
 
@@ -560,6 +588,18 @@ lw_parameter_rows_set_model (LwParameterRows *self, LwDesignModel *model)
 }
 
 void
+lw_parameter_rows_set_dead_time_button (LwParameterRows *self, GtkWidget *button)
+{
+  g_return_if_fail (LW_IS_PARAMETER_ROWS (self));
+  g_return_if_fail (GTK_IS_BUTTON (button));
+  g_return_if_fail (self->dead_time_button == NULL);
+  self->dead_time_button = button;   /* the panel's: it outlives the rows' use of it */
+  g_signal_connect_object (button, "clicked", G_CALLBACK (vary_dead_time_clicked), self,
+                           G_CONNECT_SWAPPED);
+  lw_number_field_watch_widget (button, "Vary dead time");
+}
+
+void
 lw_parameter_rows_set_label_group (LwParameterRows *self, GtkSizeGroup *group)
 {
   g_return_if_fail (LW_IS_PARAMETER_ROWS (self));
@@ -579,6 +619,7 @@ lw_parameter_rows_dispose (GObject *object)
   g_clear_object (&self->label_group);
   g_clear_pointer (&self->rows, g_ptr_array_unref);
   g_clear_pointer (&self->shape, g_free);
+  g_clear_pointer (&self->refocus, g_free);
   G_OBJECT_CLASS (lw_parameter_rows_parent_class)->dispose (object);
 }
 
@@ -596,35 +637,16 @@ lw_parameter_rows_init (LwParameterRows *self)
   self->box = gtk_box_new (GTK_ORIENTATION_VERTICAL, 6);
   gtk_widget_set_parent (self->box, GTK_WIDGET (self));
 
-  GtkWidget *header = gtk_box_new (GTK_ORIENTATION_HORIZONTAL, 6);
   GtkWidget *title = gtk_label_new (_("Parameters"));
   gtk_label_set_xalign (GTK_LABEL (title), 0.0f);
-  gtk_widget_set_hexpand (title, TRUE);
   gtk_widget_add_css_class (title, "heading");
-  gtk_box_append (GTK_BOX (header), title);
-  self->dead_time_button = gtk_button_new_with_mnemonic (_("Vary Dead _Time"));
-  gtk_widget_set_tooltip_text (self->dead_time_button,
-                               _("Give the dead time a range over the plant family (its "
-                                 "nominal stays the dead-time field's)"));
-  g_signal_connect_object (self->dead_time_button, "clicked",
-                           G_CALLBACK (vary_dead_time_clicked), self, G_CONNECT_SWAPPED);
-  gtk_box_append (GTK_BOX (header), self->dead_time_button);
-  lw_number_field_watch_widget (self->dead_time_button, "Vary dead time");
-  gtk_box_append (GTK_BOX (self->box), header);
+  gtk_box_append (GTK_BOX (self->box), title);
 
   self->grid = GTK_GRID (gtk_grid_new ());
   gtk_grid_set_row_spacing (self->grid, 6);
   gtk_grid_set_column_spacing (self->grid, 8);
   gtk_box_append (GTK_BOX (self->box), GTK_WIDGET (self->grid));
 
-  self->note = GTK_LABEL (gtk_label_new (_("A name in P(s), such as K in K/(s*(s+a)), gets a "
-                                           "row here: its value, and a range for a family of "
-                                           "plants.")));
-  gtk_label_set_xalign (self->note, 0.0f);
-  gtk_label_set_wrap (self->note, TRUE);
-  gtk_label_set_max_width_chars (self->note, 40);
-  gtk_widget_add_css_class (GTK_WIDGET (self->note), "dim-label");
-  gtk_box_append (GTK_BOX (self->box), GTK_WIDGET (self->note));
 
   self->problem = GTK_LABEL (gtk_label_new (NULL));
   gtk_label_set_xalign (self->problem, 0.0f);

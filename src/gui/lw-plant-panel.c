@@ -31,6 +31,7 @@ struct _LwPlantPanel
   GtkEntry *output_unit_entry;
   LwParameterRows *param_rows;   /* the plant's named parameters */
   GtkSizeGroup *name_group;      /* the column of field names, the parameters' too */
+  GtkWidget *vary_dead_time_button;
 
   LwDesignModel *model;
   gboolean filling;             /* showing the model: do not write back */
@@ -329,6 +330,7 @@ lw_plant_panel_class_init (LwPlantPanelClass *klass)
   gtk_widget_class_bind_template_callback (widget_class, units_changed);
   gtk_widget_class_bind_template_child (widget_class, LwPlantPanel, param_rows);
   gtk_widget_class_bind_template_child (widget_class, LwPlantPanel, name_group);
+  gtk_widget_class_bind_template_child (widget_class, LwPlantPanel, vary_dead_time_button);
   gtk_widget_class_set_layout_manager_type (widget_class, GTK_TYPE_BIN_LAYOUT);
 }
 
@@ -337,6 +339,7 @@ lw_plant_panel_init (LwPlantPanel *self)
 {
   gtk_widget_init_template (GTK_WIDGET (self));
   lw_parameter_rows_set_label_group (self->param_rows, self->name_group);
+  lw_parameter_rows_set_dead_time_button (self->param_rows, self->vary_dead_time_button);
   lw_gui_spin_wheel_off (self->dead_time_spin);
   lw_gui_spin_wheel_off (self->period_spin);
   lw_gui_spin_wheel_off (self->delay_spin);

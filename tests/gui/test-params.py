@@ -10,8 +10,10 @@ function with the same default members and seed, so the numbers must be identica
 as the doubles both print, no tolerance). A backward range (100 as the high end) and a nominal
 outside the range (190 as the low end) are refused at their fields, named in
 LW-FIELD-REFUSED, and the document saved after them is byte for byte the one before; one
-Ctrl+Z then gives the document before the high end was typed, byte for byte. A screenshot of
-the rows goes to ARTEFACT_DIR/params.png.
+Ctrl+Z then gives the document before the high end was typed, byte for byte. "Vary" beside
+the dead-time field adds <parameter name="dead_time_s" nominal="0" low="0" high="0.002"/> (a
+sample period of range), undone by one Ctrl+Z. A screenshot of the rows goes to
+ARTEFACT_DIR/params.png.
 
 Usage: test-params.py LOOPWRIGHT CLI SCHEMA_DIR EXAMPLE ARTEFACT_DIR
 Re-runs itself on an Xvfb server of its own (lwgui.outer; exit 77, skipped, when Xvfb or
@@ -135,6 +137,20 @@ def inner(app, cli, schema_dir, example, artefacts):
                 if undone != doc_low:
                     fail('one undo did not give the document before the high end back: %s'
                          % params_of(undone))
+
+                # the dead time as a parameter: "Vary" beside its field gives it a range of a
+                # sample period (2 ms) above its nominal 0 s, one step
+                click_field(wid, log_path, 'Vary-dead-time')
+                wait_for(lambda: last_line(log_path, 'LW-FIELD', name='dead_time_s-high'),
+                         'the range row of the dead time')
+                varied = saved_after(wid, design)
+                want_dead = '<parameter name="dead_time_s" nominal="0" low="0" high="0.002"/>'
+                if params_of(varied) != params_of(doc_low) + [want_dead]:
+                    fail('after Vary: %s' % params_of(varied))
+                key(wid, 'ctrl+z')
+                time.sleep(0.5)
+                if saved_after(wid, design) != doc_low:
+                    fail('one undo did not take the dead time\'s range back')
                 quit_window(proc, wid)
             finally:
                 kill_window(proc)
