@@ -156,6 +156,29 @@ void lw_design_model_set_measured_analysis (LwDesignModel *self, gboolean on_dat
 gboolean lw_design_model_judged_on_data (LwDesignModel *self);
 gboolean lw_design_model_set_units (LwDesignModel *self, const char *input_unit,
                                     const char *output_unit);
+/* The plant's named parameters (the document's <parameters>, in order; docs/families.md).
+ * The pointer is valid until the next edit. */
+guint lw_design_model_get_n_params (LwDesignModel *self);
+const LwDesignParam *lw_design_model_get_param (LwDesignModel *self, guint i);
+/* Whether the plant's text uses name as a parameter. */
+gboolean lw_design_model_plant_uses (LwDesignModel *self, const char *name);
+/* The names the plant's text uses that no parameter gives, in order of first use (NULL-
+ * terminated; g_strfreev). The dead time's name is never among them (it is not written in
+ * the plant). */
+char **lw_design_model_missing_params (LwDesignModel *self);
+/* NULL when p can be set (replacing the parameter of its name, or added after the others),
+ * else what lw_design_params_problem says of the design with it (g_free): a value not finite,
+ * an empty or backward range, a nominal outside it, a log spread reaching zero, the dead
+ * time's nominal not the plant's dead time, a corner of the ranges where the plant is
+ * improper or zero. A plant that does not parse at the nominals (a name still to be given)
+ * is the plant's error, shown at the plant, not p's. */
+char *lw_design_model_param_problem (LwDesignModel *self, const LwDesignParam *p);
+/* Sets p as lw_design_model_param_problem allows it: one "changed" (one undo step); a fixed
+ * parameter keeps no range. FALSE with *why (may be NULL; g_free) and nothing changed when
+ * refused. */
+gboolean lw_design_model_set_param (LwDesignModel *self, const LwDesignParam *p, char **why);
+/* Removes the parameter called name (one "changed"); FALSE when there is none. */
+gboolean lw_design_model_remove_param (LwDesignModel *self, const char *name);
 /* Removes variant i; FALSE for the last one left. The active index follows its variant, or
  * moves to the neighbour when the active one goes. */
 gboolean lw_design_model_remove_variant (LwDesignModel *self, guint i);

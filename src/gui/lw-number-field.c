@@ -24,6 +24,8 @@ typedef struct
   guint debug_same;
   GtkWidget *spin;        /* weak */
   guint debug_tick_id;    /* 0 when the position has settled */
+  LwNumberFieldCheck check;   /* the owner's own refusal of a value, or NULL */
+  gpointer check_data;
 } Field;
 
 /* LW_DEBUG_HANDLES: every field, so a refusal shown above some can start their position
@@ -279,6 +281,14 @@ on_input (GtkSpinButton *spin, double *new_value, gpointer data)
       debug_refusal (f);
       return GTK_INPUT_ERROR;
     }
+  if (f->check != NULL && (why = f->check (spin, v, f->check_data)) != NULL)
+    {
+      f->why = why;
+      f->refusing = TRUE;
+      show (spin, f);
+      debug_refusal (f);
+      return GTK_INPUT_ERROR;
+    }
   *new_value = v;
   return TRUE;
 }
@@ -334,4 +344,51 @@ lw_number_field_get_problem (GtkSpinButton *spin)
 {
   Field *f = field_of (spin);
   return f != NULL ? f->why : NULL;
+}
+
+void
+lw_number_field_set_check (GtkSpinButton *spin, LwNumberFieldCheck check, gpointer data)
+{
+  Field *f = field_of (spin);
+  g_return_if_fail (f != NULL);
+  f->check = check;
+  f->check_data = data;
+}
+
+void
+lw_number_field_refuse (GtkSpinButton *spin, double keep, const char *why)
+{
+  Field *f = field_of (spin);
+  g_return_if_fail (f != NULL && why != NULL);
+  g_free (f->why);
+  f->why = g_strdup (why);
+  f->refusing = TRUE;          /* the refused text stays in view */
+  gtk_spin_button_set_value (spin, keep);
+  f->refusing = FALSE;
+  show (spin, f);
+  debug_refusal (f);
+}
+
+void
+lw_number_field_watch_widget (GtkWidget *widget, const char *name)
+{
+  g_return_if_fail (GTK_IS_WIDGET (widget));
+  if (!debugging ())
+    return;
+  Field *f = g_new0 (Field, 1);
+  f->name = g_strdup (name);
+  f->spin = widget;
+  g_object_set_data_full (G_OBJECT (widget), "lw-number-field-watch", f, field_free);
+  debug_fields = g_list_prepend (debug_fields, f);
+  f->debug_tick_id = gtk_widget_add_tick_callback (widget, debug_tick, f, NULL);
+}
+
+void
+lw_number_field_debug_refusal (const char *name, const char *why)
+{
+  if (debugging ())
+    {
+      printf ("LW-FIELD-REFUSED %s: %s\n", name, why);
+      fflush (stdout);
+    }
 }

@@ -39,4 +39,20 @@ gboolean lw_number_field_parse (const char *text, double lo, double hi, gboolean
 /* value for display: up to 7 significant digits, no trailing zeros; g_free it. */
 char *lw_number_field_format (double value);
 
+/* The owner's own rule on a value the field takes (a range's low end below its high end):
+ * NULL to take value, else why not (g_free'd by the field), refused like a number outside
+ * the field's range — at the field, the text kept, the design keeping its last good value. */
+typedef char *(*LwNumberFieldCheck) (GtkSpinButton *spin, double value, gpointer data);
+void lw_number_field_set_check (GtkSpinButton *spin, LwNumberFieldCheck check, gpointer data);
+
+/* Refuses the value the field shows now (one its +/− buttons stepped to, which no check
+ * sees) with why: the field shows keep again as its value, its text stays, marked. */
+void lw_number_field_refuse (GtkSpinButton *spin, double keep, const char *why);
+
+/* LW_DEBUG_HANDLES=1: prints widget's position as a field's ("LW-FIELD name=…") for the
+ * window tests (a text entry taking a number, not a spin button); else nothing. */
+void lw_number_field_watch_widget (GtkWidget *widget, const char *name);
+/* LW_DEBUG_HANDLES=1: the line a refusal prints ("LW-FIELD-REFUSED name: why"). */
+void lw_number_field_debug_refusal (const char *name, const char *why);
+
 G_END_DECLS

@@ -12,6 +12,7 @@
 #include "lw-gui-util.h"
 #include "lw-number-field.h"
 #include "lw-number.h"
+#include "lw-parameter-rows.h"
 #include "lw-plant-panel.h"
 
 struct _LwPlantPanel
@@ -28,6 +29,9 @@ struct _LwPlantPanel
   GtkLabel *field_problem;       /* a refused number in one of the fields */
   GtkEntry *input_unit_entry;
   GtkEntry *output_unit_entry;
+  LwParameterRows *param_rows;   /* the plant's named parameters */
+  GtkSizeGroup *name_group;      /* the column of field names, the parameters' too */
+  GtkWidget *vary_dead_time_button;
 
   LwDesignModel *model;
   gboolean filling;             /* showing the model: do not write back */
@@ -119,6 +123,7 @@ lw_plant_panel_set_model (LwPlantPanel *self, LwDesignModel *model)
                          d->input_unit != NULL ? d->input_unit : "");
   gtk_editable_set_text (GTK_EDITABLE (self->output_unit_entry),
                          d->output_unit != NULL ? d->output_unit : "");
+  lw_parameter_rows_set_model (self->param_rows, model);
   self->filling = FALSE;
 }
 
@@ -307,6 +312,7 @@ lw_plant_panel_class_init (LwPlantPanelClass *klass)
   GtkWidgetClass *widget_class = GTK_WIDGET_CLASS (klass);
 
   G_OBJECT_CLASS (klass)->dispose = lw_plant_panel_dispose;
+  g_type_ensure (LW_TYPE_PARAMETER_ROWS);
   gtk_widget_class_set_template_from_resource (widget_class,
                                                "/org/loopwright/Designer/ui/lw-plant-panel.ui");
   gtk_widget_class_bind_template_child (widget_class, LwPlantPanel, plant_entry);
@@ -322,6 +328,9 @@ lw_plant_panel_class_init (LwPlantPanelClass *klass)
   gtk_widget_class_bind_template_child (widget_class, LwPlantPanel, input_unit_entry);
   gtk_widget_class_bind_template_child (widget_class, LwPlantPanel, output_unit_entry);
   gtk_widget_class_bind_template_callback (widget_class, units_changed);
+  gtk_widget_class_bind_template_child (widget_class, LwPlantPanel, param_rows);
+  gtk_widget_class_bind_template_child (widget_class, LwPlantPanel, name_group);
+  gtk_widget_class_bind_template_child (widget_class, LwPlantPanel, vary_dead_time_button);
   gtk_widget_class_set_layout_manager_type (widget_class, GTK_TYPE_BIN_LAYOUT);
 }
 
@@ -329,6 +338,8 @@ static void
 lw_plant_panel_init (LwPlantPanel *self)
 {
   gtk_widget_init_template (GTK_WIDGET (self));
+  lw_parameter_rows_set_label_group (self->param_rows, self->name_group);
+  lw_parameter_rows_set_dead_time_button (self->param_rows, self->vary_dead_time_button);
   lw_gui_spin_wheel_off (self->dead_time_spin);
   lw_gui_spin_wheel_off (self->period_spin);
   lw_gui_spin_wheel_off (self->delay_spin);

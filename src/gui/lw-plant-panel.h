@@ -1,5 +1,6 @@
 /* lw-plant-panel.h — plant and sampling: the plant expression (with its error marked at the
- * character), dead time, period and computation delay; beneath, the discretized plant in z and
+ * character), dead time, period and computation delay, the units; the plant's named
+ * parameters and their ranges (lw-parameter-rows.h); beneath, the discretized plant in z and
  * in w, and a note when the period is far from the usual range for the closed-loop rise time.
  *
  * SPDX-License-Identifier: GPL-3.0-or-later

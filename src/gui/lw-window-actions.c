@@ -48,6 +48,16 @@ undo_activated (GtkWidget *widget, const char *action, GVariant *param)
     self->sel_stage = -1;
 }
 
+/* window.history-commit: what was edited so far becomes a step now (a panel's edit that is a
+ * step of its own calls it before and after; nothing during a drag, which commits itself) */
+static void
+history_commit_activated (GtkWidget *widget, const char *action, GVariant *param)
+{
+  LwWindow *self = LW_WINDOW (widget);
+  if (!self->dragging)
+    lw_history_commit (self->history);
+}
+
 static void
 redo_activated (GtkWidget *widget, const char *action, GVariant *param)
 {
@@ -225,6 +235,8 @@ lw_window_class_init_actions (GtkWidgetClass *widget_class)
   gtk_widget_class_install_action (widget_class, "window.add-stage", NULL, add_stage_activated);
   gtk_widget_class_install_action (widget_class, "window.undo", NULL, undo_activated);
   gtk_widget_class_install_action (widget_class, "window.redo", NULL, redo_activated);
+  gtk_widget_class_install_action (widget_class, "window.history-commit", NULL,
+                                   history_commit_activated);
   gtk_widget_class_install_action (widget_class, "window.reset-view", NULL,
                                    reset_view_activated);
   gtk_widget_class_install_property_action (widget_class, "window.one-column", "one-column");

@@ -1,0 +1,220 @@
+/* lw-design-model-params.c — the plant's named parameters in the window's model: the names
+ * the plant's text uses, setting and removing a parameter (each one "changed", so one undo
+ * step), and what would be wrong with a parameter before it is set (docs/families.md).
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ */
+#include "config.h"
+
+#include <string.h>
+
+#include "lw-design-model-private.h"
+#include "lw-expr.h"
+
+guint
+lw_design_model_get_n_params (LwDesignModel *self)
+{
+  g_return_val_if_fail (LW_IS_DESIGN_MODEL (self), 0);
+  return (guint) self->doc->n_params;
+}
+
+const LwDesignParam *
+lw_design_model_get_param (LwDesignModel *self, guint i)
+{
+  g_return_val_if_fail (LW_IS_DESIGN_MODEL (self), NULL);
+  g_return_val_if_fail (i < self->doc->n_params, NULL);
+  return &self->doc->params[i];
+}
+
+static gssize
+find_param (const LwDesign *d, const char *name)
+{
+  for (size_t i = 0; i < d->n_params; i++)
+    if (strcmp (d->params[i].name, name) == 0)
+      return (gssize) i;
+  return -1;
+}
+
+/* The names in text as the expression parser reads them (lw-expr.h): a letter or '_', then
+ * letters, digits and '_'; numbers (with their exponent letter) skipped. Those that cannot
+ * name a parameter (the variable s, the letters w and z, a name too long) are left out: the
+ * plant's own error names them. Each name once, in order of first use. */
+static GPtrArray *
+plant_names (const char *text)
+{
+  GPtrArray *names = g_ptr_array_new_with_free_func (g_free);
+  const char *c = text != NULL ? text : "";
+  while (*c != '\0')
+    {
+      if (g_ascii_isdigit (*c) || *c == '.')
+        {
+          while (g_ascii_isdigit (*c) || *c == '.')
+            c++;
+          if ((*c == 'e' || *c == 'E')
+              && (g_ascii_isdigit (c[1])
+                  || ((c[1] == '+' || c[1] == '-') && g_ascii_isdigit (c[2]))))
+            {
+              c += 2;
+              while (g_ascii_isdigit (*c))
+                c++;
+            }
+          continue;
+        }
+      if (g_ascii_isalpha (*c) || *c == '_')
+        {
+          const char *start = c;
+          while (g_ascii_isalnum (*c) || *c == '_')
+            c++;
+          g_autofree char *name = g_strndup (start, (gsize) (c - start));
+          gboolean seen = FALSE;
+          for (guint i = 0; i < names->len && !seen; i++)
+            seen = strcmp (g_ptr_array_index (names, i), name) == 0;
+          if (!seen && lw_expr_param_name_problem (name) == NULL)
+            g_ptr_array_add (names, g_steal_pointer (&name));
+          continue;
+        }
+      c++;
+    }
+  return names;
+}
+
+gboolean
+lw_design_model_plant_uses (LwDesignModel *self, const char *name)
+{
+  g_return_val_if_fail (LW_IS_DESIGN_MODEL (self), FALSE);
+  g_autoptr (GPtrArray) names = plant_names (self->doc->plant);
+  for (guint i = 0; i < names->len; i++)
+    if (strcmp (g_ptr_array_index (names, i), name) == 0)
+      return TRUE;
+  return FALSE;
+}
+
+char **
+lw_design_model_missing_params (LwDesignModel *self)
+{
+  g_return_val_if_fail (LW_IS_DESIGN_MODEL (self), NULL);
+  g_autoptr (GPtrArray) names = plant_names (self->doc->plant);
+  GPtrArray *missing = g_ptr_array_new ();
+  for (guint i = 0; i < names->len; i++)
+    {
+      const char *n = g_ptr_array_index (names, i);
+      /* the dead time's parameter is not written in the plant: its name there is the
+       * plant's error to say */
+      if (find_param (self->doc, n) < 0 && strcmp (n, LW_DESIGN_DEAD_TIME_PARAM) != 0
+          && missing->len < LW_DESIGN_MAX_PARAMS)
+        g_ptr_array_add (missing, g_strdup (n));
+    }
+  g_ptr_array_add (missing, NULL);
+  return (char **) g_ptr_array_free (missing, FALSE);
+}
+
+/* The design's parameters with p in place of the one of its name (appended when new); the
+ * array is a shallow copy: the names are the document's and p's. */
+static LwDesignParam *
+params_with (const LwDesign *d, const LwDesignParam *p, size_t *n_out)
+{
+  gssize at = find_param (d, p->name);
+  size_t n = d->n_params + (at < 0);
+  LwDesignParam *ps = g_new (LwDesignParam, n);
+  if (d->n_params > 0)
+    memcpy (ps, d->params, d->n_params * sizeof *ps);
+  ps[at < 0 ? (gssize) d->n_params : at] = *p;
+  *n_out = n;
+  return ps;
+}
+
+/* What lw_design_params_problem says of the document with params in place of its own, or
+ * NULL. A plant that does not parse at the nominals is not the parameter's fault (a name not
+ * given yet, an expression half typed): the plant's own error says it, so that one is let
+ * through; a parameter refused on its own or a corner where the plant fails is not. */
+static char *
+params_problem (const LwDesign *d, LwDesignParam *params, size_t n)
+{
+  LwDesign view = *d;   /* shallow: only read, never freed */
+  view.params = params;
+  view.n_params = n;
+  char buf[512];
+  const char *problem = lw_design_params_problem (&view, buf, sizeof buf);
+  if (problem == NULL)
+    return NULL;
+  if (lw_design_has_model (&view))
+    {
+      LwModel *m = NULL;
+      LwError err;
+      lw_error_clear (&err);
+      LwStatus st = lw_design_plant_parse (&view, NULL, &m, &err);
+      lw_model_free (m);
+      if (st != LW_OK && strcmp (problem, err.message) == 0)
+        return NULL;
+    }
+  return g_strdup (problem);
+}
+
+char *
+lw_design_model_param_problem (LwDesignModel *self, const LwDesignParam *p)
+{
+  g_return_val_if_fail (LW_IS_DESIGN_MODEL (self), NULL);
+  g_return_val_if_fail (p != NULL && p->name != NULL, NULL);
+  if (find_param (self->doc, p->name) < 0 && self->doc->n_params >= LW_DESIGN_MAX_PARAMS)
+    return g_strdup_printf ("a design takes at most %d parameters", LW_DESIGN_MAX_PARAMS);
+  size_t n;
+  g_autofree LwDesignParam *ps = params_with (self->doc, p, &n);
+  return params_problem (self->doc, ps, n);
+}
+
+gboolean
+lw_design_model_set_param (LwDesignModel *self, const LwDesignParam *p, char **why)
+{
+  g_return_val_if_fail (LW_IS_DESIGN_MODEL (self), FALSE);
+  g_return_val_if_fail (p != NULL && p->name != NULL, FALSE);
+  char *problem = lw_design_model_param_problem (self, p);
+  if (problem != NULL)
+    {
+      if (why != NULL)
+        *why = problem;
+      else
+        g_free (problem);
+      return FALSE;
+    }
+  LwDesign *d = self->doc;
+  gssize at = find_param (d, p->name);
+  LwDesignParam *t;
+  if (at < 0)
+    {
+      d->params = g_renew (LwDesignParam, d->params, d->n_params + 1);
+      t = &d->params[d->n_params++];
+      t->name = g_strdup (p->name);
+    }
+  else
+    {
+      t = &d->params[at];
+      if (t->nominal == p->nominal && t->ranged == p->ranged && t->spread == p->spread
+          && (!p->ranged || (t->low == p->low && t->high == p->high)))
+        return TRUE;   /* nothing to change */
+    }
+  t->nominal = p->nominal;
+  t->ranged = p->ranged;
+  /* a fixed value keeps no range (the document writes none) */
+  t->low = p->ranged ? p->low : 0.0;
+  t->high = p->ranged ? p->high : 0.0;
+  t->spread = p->ranged ? p->spread : LW_SPREAD_UNIFORM;
+  lw_design_model_emit_changed (self);
+  return TRUE;
+}
+
+gboolean
+lw_design_model_remove_param (LwDesignModel *self, const char *name)
+{
+  g_return_val_if_fail (LW_IS_DESIGN_MODEL (self), FALSE);
+  g_return_val_if_fail (name != NULL, FALSE);
+  LwDesign *d = self->doc;
+  gssize at = find_param (d, name);
+  if (at < 0)
+    return FALSE;
+  g_free (d->params[at].name);
+  memmove (&d->params[at], &d->params[at + 1],
+           (d->n_params - (size_t) at - 1) * sizeof *d->params);
+  if (--d->n_params == 0)
+    g_clear_pointer (&d->params, g_free);
+  lw_design_model_emit_changed (self);
+  return TRUE;
+}
