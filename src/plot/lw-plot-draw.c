@@ -316,31 +316,9 @@ draw_prim (const LwPlot *p, const Panel *pn, cairo_t *cr, const Prim *q)
         break;
       }
     case PRIM_AREA:
-      {
-        /* a plant family's band: each polygon closed at a NaN, all filled at once */
-        bool pen = false;
-        cairo_new_path (cr);
-        for (size_t i = 0; i < q->n; i++)
-          {
-            if (!isfinite (q->u[i]) || !isfinite (q->v[i]))
-              {
-                if (pen)
-                  cairo_close_path (cr);
-                pen = false;
-                continue;
-              }
-            double x = px_of (pn, q->u[i]), y = py_of (pn, q->v[i]);
-            if (pen)
-              cairo_line_to (cr, x, y);
-            else
-              cairo_move_to (cr, x, y);
-            pen = true;
-          }
-        if (pen)
-          cairo_close_path (cr);
-        cairo_fill (cr);
-        break;
-      }
+      lwp_area_path (pn, cr, q);
+      cairo_fill (cr);
+      break;
     case PRIM_CIRCLE:
     case PRIM_ARC:
       {

@@ -134,3 +134,28 @@ lwp_polyline_decimated (const Panel *pn, cairo_t *cr, const Prim *q)
       idx[3] = i, xs[3] = x, ys[3] = y;
     }
 }
+
+void
+lwp_area_path (const Panel *pn, cairo_t *cr, const Prim *q)
+{
+  bool pen = false;
+  cairo_new_path (cr);
+  for (size_t i = 0; i < q->n; i++)
+    {
+      if (!isfinite (q->u[i]) || !isfinite (q->v[i]))
+        {
+          if (pen)
+            cairo_close_path (cr);
+          pen = false;
+          continue;
+        }
+      double x = px_of (pn, q->u[i]), y = py_of (pn, q->v[i]);
+      if (pen)
+        cairo_line_to (cr, x, y);
+      else
+        cairo_move_to (cr, x, y);
+      pen = true;
+    }
+  if (pen)
+    cairo_close_path (cr);
+}
