@@ -85,6 +85,11 @@ lw_load_missing (Reader *r, const xmlNode *parent, const xmlNode *at, const char
 bool
 lw_load_read_measured (Reader *r, const xmlNode *e, LwDesign *d);
 
+/* A further <measured> of a measured family (first: the first one's element, for the line
+ * of a refusal about it). */
+bool
+lw_load_read_more_measured (Reader *r, const xmlNode *e, LwDesign *d, const xmlNode *first);
+
 LwDesign *
 lw_load_read_design (Reader *r, const xmlNode *root);
 

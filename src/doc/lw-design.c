@@ -144,6 +144,12 @@ lw_design_source_problem (const char *s)
 }
 
 const char *
+lw_design_measured_name_problem (const char *s)
+{
+  return label_problem (s, LW_DESIGN_MEASURED_NAME_MAX, "it is longer than 64 bytes");
+}
+
+const char *
 lw_design_response_name (unsigned i)
 {
   static const char *const names[LW_DESIGN_N_RESPONSES] = {
@@ -206,6 +212,8 @@ lw_design_free (LwDesign *d)
   g_strfreev (d->views);
   lw_measured_free (d->measured);
   g_free (d->measured_source);
+  g_free (d->measured_name);
+  lw_design_measured_sets_free (d->more_measured, d->n_more_measured);
   g_free (d);
 }
 
@@ -232,6 +240,8 @@ lw_design_copy (const LwDesign *d)
   c->measured = lw_measured_copy (d->measured);
   if (d->measured != NULL && c->measured == NULL)
     g_error ("out of memory copying the measured table of a design");
+  c->measured_name = g_strdup (d->measured_name);
+  c->more_measured = lw_design_measured_sets_copy (d->more_measured, d->n_more_measured);
   c->requirements = g_new0 (LwDesignRequirement, d->n_requirements);
   for (size_t i = 0; i < d->n_requirements; i++)
     {
@@ -348,7 +358,9 @@ measured_equal (const LwDesign *a, const LwDesign *b)
         || cimag (x->h[i]) != cimag (y->h[i])
         || (x->coherence != NULL && x->coherence[i] != y->coherence[i]))
       return false;
-  return true;
+  return str_equal (a->measured_name, b->measured_name)
+         && lw_design_measured_sets_equal (a->more_measured, a->n_more_measured,
+                                           b->more_measured, b->n_more_measured);
 }
 
 LwStatus
