@@ -13,6 +13,7 @@
 #include "lw-cli-doc.h"
 #include "lw-cli-json.h"
 #include "lw-cli-family.h"
+#include "lw-cli-family-measured.h"
 #include "lw-cli-measured.h"
 #include "lw-cli-analyze-text.h"
 #include "lw-simulate.h"
@@ -340,7 +341,7 @@ analyze_run (void *data)
   const AnalyzeArgs *a = data;
   AnalyzeSpec spec;
   LwCliLoop lp;
-  if (a->measured.file == NULL && (a->measured.kind != NULL || a->measured.unstable_poles))
+  if (lw_cli_measured_file (&a->measured) == NULL && (a->measured.kind != NULL || a->measured.unstable_poles))
     {
       lw_cli_bad_input (a->measured.kind != NULL ? "--measured-kind"
                         : "--measured-unstable-poles", "needs --measured FILE.csv%s",
@@ -348,13 +349,13 @@ analyze_run (void *data)
                         "<measured open_loop_unstable_poles>)");
       return LW_EXIT_BAD_INPUT;
     }
-  if (a->measured.file != NULL && (a->family.ranges != NULL || a->family.members != NULL))
+  if (lw_cli_measured_file (&a->measured) != NULL && (a->family.ranges != NULL || a->family.members != NULL))
     {
       lw_cli_bad_input (a->family.ranges != NULL ? "--range" : "--members", "a plant family "
                         "needs a model; measured data are one machine");
       return LW_EXIT_BAD_INPUT;
     }
-  if (a->measured.file != NULL && (a->files == NULL || a->files[0] == NULL))
+  if (lw_cli_measured_file (&a->measured) != NULL && (a->files == NULL || a->files[0] == NULL))
     {
       const char *model_only = model_only_option (a);
       if (model_only != NULL)
@@ -363,6 +364,10 @@ analyze_run (void *data)
                             "grid are a model's); the data are analysed at their own points");
           return LW_EXIT_BAD_INPUT;
         }
+      if (lw_cli_measured_one (&a->measured, "several tables make a measured family, judged "
+                               "with a design document's variants and requirements (analyze "
+                               "FILE.lwd --measured A.csv --measured B.csv)") != LW_EXIT_OK)
+        return LW_EXIT_BAD_INPUT;
       return lw_cli_measured_analyze ("analyze", &a->loop, &a->measured, a->json);
     }
   if (a->files == NULL || a->files[0] == NULL)
@@ -461,6 +466,11 @@ analyze_run (void *data)
       status = analyze_loop_run (a, &spec, e, design, which[k], &root);
       if (status == LW_EXIT_OK && e->ev != NULL && lw_cli_family_wanted (&a->family, design))
         status = analyze_family (a, design, 0.0, NULL, which[k], root);
+      /* several measured responses: the worst margins over them */
+      if (status == LW_EXIT_OK && (root != NULL || !a->json))
+        status = lw_cli_measured_family_run (design, e,
+                                             root != NULL ? json_node_get_object (root) : NULL,
+                                             NULL);
       if (root == NULL)
         continue;
       if (b != NULL)

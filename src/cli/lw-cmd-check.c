@@ -11,6 +11,7 @@
 #include "lw-cli-common.h"
 #include "lw-cli-doc.h"
 #include "lw-cli-family.h"
+#include "lw-cli-family-measured.h"
 #include "lw-cli-measured.h"
 
 static const char check_help[] =
@@ -68,6 +69,15 @@ check_variant (const char *path, const LwDesign *d, size_t index)
     printf ("  %zu of %zu requirement(s) pass\n", d->n_requirements - failing,
             d->n_requirements);
   lw_cli_measured_doc_check_lines (d, e);
+  /* several measured responses: every requirement on the data judged on each */
+  size_t family_failing = 0;
+  status = lw_cli_measured_family_run (d, e, NULL, &family_failing);
+  if (status != LW_EXIT_OK)
+    {
+      lw_variant_eval_unref (e);
+      return status;
+    }
+  failing += family_failing;
   if (ev != NULL && lw_cli_family_wanted (&(LwCliFamilyArgs) { 0 }, d))
     {
       /* a plant family: every requirement judged on its worst member too */
@@ -123,7 +133,7 @@ check_run (void *data)
   printf ("Design '%s' (%s): plant %s, T = %.6g s, computation delay %d, dead time %.6g s\n",
           d->title, path, lw_design_has_model (d) ? d->plant : "(none: measured data)",
           d->period_s, d->compute_delay, d->dead_time_s);
-  lw_cli_measured_doc_header (d, a->measured.file);
+  lw_cli_measured_doc_header (d, lw_cli_measured_file (&a->measured));
   int worst = LW_EXIT_OK;
   for (size_t i = first; i <= last; i++)
     {

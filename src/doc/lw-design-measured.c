@@ -240,6 +240,14 @@ lw_design_measured_set_name (const LwDesign *d, size_t i)
 }
 
 void
+lw_design_clear_more_measured (LwDesign *d)
+{
+  lw_design_measured_sets_free (d->more_measured, d->n_more_measured);
+  d->more_measured = NULL;
+  d->n_more_measured = 0;
+}
+
+void
 lw_design_measured_sets_free (LwDesignMeasuredSet *s, size_t n)
 {
   for (size_t i = 0; i < n; i++)

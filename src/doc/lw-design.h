@@ -259,6 +259,9 @@ G_DEFINE_AUTOPTR_CLEANUP_FUNC (LwDesign, lw_design_free)
  * ones of a measured family). */
 size_t lw_design_n_measured (const LwDesign *d);
 
+/* Drops the further responses of d's measured family (the first stays). */
+void lw_design_clear_more_measured (LwDesign *d);
+
 /* The name of measured response i of d's measured family (0: the first, d->measured; then
  * d->more_measured[i − 1]); "measured" for a first without a name. */
 const char *lw_design_measured_set_name (const LwDesign *d, size_t i);
