@@ -278,8 +278,8 @@ lw_design_measured_sets_copy (const LwDesignMeasuredSet *s, size_t n)
   return c;
 }
 
-static bool
-table_equal (const LwMeasured *x, const LwMeasured *y)
+bool
+lw_design_table_equal (const LwMeasured *x, const LwMeasured *y)
 {
   if (x == NULL || y == NULL)
     return x == y;
@@ -302,7 +302,7 @@ lw_design_measured_sets_equal (const LwDesignMeasuredSet *a, size_t na,
   for (size_t i = 0; i < na; i++)
     if (g_strcmp0 (a[i].name, b[i].name) != 0 || g_strcmp0 (a[i].source, b[i].source) != 0
         || a[i].kind != b[i].kind || a[i].unstable_poles != b[i].unstable_poles
-        || !table_equal (a[i].data, b[i].data))
+        || !lw_design_table_equal (a[i].data, b[i].data))
       return false;
   return true;
 }

@@ -341,26 +341,20 @@ stage_equal (const LwStage *a, const LwStage *b)
   return true;
 }
 
-/* Equal tables and attributes of <measured> (numbers compared with ==). */
+/* Equal tables and attributes of the <measured> responses (numbers compared with ==). */
 static bool
 measured_equal (const LwDesign *a, const LwDesign *b)
 {
-  const LwMeasured *x = a->measured, *y = b->measured;
-  if (x == NULL || y == NULL)
-    return x == y;
-  if (a->measured_kind != b->measured_kind || a->measured_analysis != b->measured_analysis
-      || !str_equal (a->measured_source, b->measured_source)
-      || a->measured_unstable_poles != b->measured_unstable_poles || x->n != y->n
-      || (x->coherence == NULL) != (y->coherence == NULL))
+  if (!str_equal (a->measured_name, b->measured_name)
+      || !lw_design_measured_sets_equal (a->more_measured, a->n_more_measured,
+                                         b->more_measured, b->n_more_measured))
     return false;
-  for (size_t i = 0; i < x->n; i++)
-    if (x->omega_rad_s[i] != y->omega_rad_s[i] || creal (x->h[i]) != creal (y->h[i])
-        || cimag (x->h[i]) != cimag (y->h[i])
-        || (x->coherence != NULL && x->coherence[i] != y->coherence[i]))
-      return false;
-  return str_equal (a->measured_name, b->measured_name)
-         && lw_design_measured_sets_equal (a->more_measured, a->n_more_measured,
-                                           b->more_measured, b->n_more_measured);
+  if (a->measured == NULL || b->measured == NULL)
+    return a->measured == b->measured;
+  return a->measured_kind == b->measured_kind && a->measured_analysis == b->measured_analysis
+         && str_equal (a->measured_source, b->measured_source)
+         && a->measured_unstable_poles == b->measured_unstable_poles
+         && lw_design_table_equal (a->measured, b->measured);
 }
 
 LwStatus
