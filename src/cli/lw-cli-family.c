@@ -329,6 +329,14 @@ lw_cli_family_json (JsonObject *root, const LwFamily *f, const LwDesign *d)
       json_builder_end_object (b);
     }
   json_builder_end_array (b);
+  if (lw_design_analysis_on_data (d))
+    {
+      /* the design is judged on measured data, its family on the model's members: say so */
+      json_builder_set_member_name (b, "analysis");
+      json_builder_add_string_value (b, "model");
+      json_builder_set_member_name (b, "note");
+      json_builder_add_string_value (b, LW_CLI_FAMILY_ON_MODEL_NOTE);
+    }
   json_builder_end_object (b);
   json_object_set_member (root, "family", json_builder_get_root (b));
 }
@@ -364,6 +372,8 @@ lw_cli_family_print (const LwFamily *f, const LwDesign *d)
   if (f->n_failed > 0)
     printf (", %zu not evaluated", f->n_failed);
   printf ("\n");
+  if (lw_design_analysis_on_data (d))
+    printf ("  %s\n", LW_CLI_FAMILY_ON_MODEL_NOTE);
   if (f->n_unstable > 0)
     printf ("  %zu member(s) with a loop that is NOT stable\n", f->n_unstable);
   for (int k = 0; k < LW_FAMILY_N_FIGURES; k++)

@@ -61,7 +61,14 @@ int lw_cli_family_options (const LwCliFamilyArgs *a, LwFamilyOptions *o);
 int lw_cli_family_design (const LwCliLoopArgs *loop, const LwCliFamilyArgs *a,
                           const LwCliLoop *lp, LwDesign **out);
 
-/* The family as the "family" member of root (docs/cli.md). */
+/* What a family's numbers are when the design is judged on measured data (analysis="data"):
+ * its members are the plant model's; the data are one machine. */
+#define LW_CLI_FAMILY_ON_MODEL_NOTE                                                        \
+  "these are the plant model's members (the family is on the plant model; the design is "  \
+  "judged on the measured data)"
+
+/* The family as the "family" member of root (docs/cli.md); with analysis="data" it says its
+ * figures are the model's ("analysis": "model", "note"). */
 void lw_cli_family_json (JsonObject *root, const LwFamily *f, const LwDesign *d);
 
 /* The family as text. */

@@ -13,10 +13,53 @@
 
 #include "lw-cli-measured.h"
 
+/* A file's base name without its extension ("rig/m1.csv": "m1"; the base name when that
+ * leaves nothing). */
+static char *
+stem (const char *file)
+{
+  char *base = g_path_get_basename (file);
+  char *dot = strrchr (base, '.');
+  if (dot != NULL && dot != base)
+    *dot = '\0';
+  return base;
+}
+
+/* The name of table i of several given by --measured: its base name without the extension,
+ * or the path as given
+ * when another table has the same base name (or the base name is no name a document takes);
+ * NULL (and the message printed) when neither will do. */
+static char *
+set_name (char **files, size_t i)
+{
+  g_autofree char *base = stem (files[i]);
+  char *shown = g_filename_display_name (base);
+  gboolean clash = lw_design_measured_name_problem (shown) != NULL;
+  for (size_t j = 0; !clash && files[j] != NULL; j++)
+    {
+      g_autofree char *other = stem (files[j]);
+      clash = j != i && strcmp (other, base) == 0;
+    }
+  if (!clash)
+    return shown;
+  g_free (shown);
+  shown = g_filename_display_name (files[i]);
+  const char *problem = lw_design_measured_name_problem (shown);
+  for (size_t j = 0; problem == NULL && j < i; j++)
+    if (strcmp (files[j], files[i]) == 0)
+      problem = "the same file is given twice";
+  if (problem == NULL)
+    return shown;
+  lw_cli_bad_input ("--measured", "'%s' cannot name a response of the measured family: %s",
+                    shown, problem);
+  g_free (shown);
+  return NULL;
+}
+
 int
 lw_cli_measured_doc_set (LwDesign *d, const LwCliMeasuredArgs *m, LwDesignAnalysis analysis)
 {
-  if (m->file == NULL)
+  if (lw_cli_measured_file (m) == NULL)
     {
       if (m->kind == NULL)
         return LW_EXIT_OK;
@@ -27,24 +70,69 @@ lw_cli_measured_doc_set (LwDesign *d, const LwCliMeasuredArgs *m, LwDesignAnalys
   int kind_status = lw_cli_measured_kind (m, &kind);
   if (kind_status != LW_EXIT_OK)
     return kind_status;
-  char note[256];
-  LwMeasured *data = NULL;
-  int status = lw_cli_measured_read (m->file, &data, note, sizeof note);
+  size_t n = g_strv_length (m->files);
+  if (n > LW_DESIGN_MAX_MEASURED)
+    {
+      lw_cli_bad_input ("--measured", "given %zu times; a measured family holds at most %d "
+                        "responses", n, LW_DESIGN_MAX_MEASURED);
+      return LW_EXIT_BAD_INPUT;
+    }
+  /* every table read and named before the document is changed */
+  LwMeasured **data = g_new0 (LwMeasured *, n);
+  char **names = g_new0 (char *, n + 1);
+  int status = LW_EXIT_OK;
+  for (size_t i = 0; i < n && status == LW_EXIT_OK; i++)
+    {
+      char note[256];
+      status = lw_cli_measured_read (m->files[i], &data[i], note, sizeof note);
+      if (status == LW_EXIT_OK && note[0] != '\0')
+        fprintf (stderr, "%s: %s: %s (not kept)\n", LW_CLI_PROG, m->files[i], note);
+      if (status == LW_EXIT_OK && n > 1 && (names[i] = set_name (m->files, i)) == NULL)
+        status = LW_EXIT_BAD_INPUT;
+    }
   if (status != LW_EXIT_OK)
-    return status;
+    {
+      for (size_t i = 0; i < n; i++)
+        lw_measured_free (data[i]);
+      g_free (data);
+      g_strfreev (names);
+      return status;
+    }
+  /* the tables given take the place of every measured response the document holds */
   lw_measured_free (d->measured);
-  d->measured = data;
+  d->measured = data[0];
   d->measured_kind = kind;
   /* without a model the analysis can only be the data's; the count of open-loop unstable
-   * poles is the plant's: a document's stays */
+   * poles is the plant's: a document's stays, for every response */
   d->measured_analysis = lw_design_has_model (d) ? analysis : LW_DESIGN_ANALYSIS_DATA;
   /* the file's base name as the source, when it is a text the document can hold */
-  g_autofree char *base = g_path_get_basename (m->file);
-  g_autofree char *shown = g_filename_display_name (base);
-  lw_design_set_string (&d->measured_source,
-                        lw_design_source_problem (shown) == NULL ? shown : NULL);
-  if (note[0] != '\0')
-    fprintf (stderr, "%s: %s: %s (not kept)\n", LW_CLI_PROG, m->file, note);
+  for (size_t i = 0; i < n; i++)
+    {
+      g_autofree char *base = g_path_get_basename (m->files[i]);
+      g_autofree char *shown = g_filename_display_name (base);
+      const char *source = lw_design_source_problem (shown) == NULL ? shown : NULL;
+      if (i == 0)
+        {
+          lw_design_set_string (&d->measured_source, source);
+          continue;
+        }
+      if (i == 1)
+        {
+          lw_design_clear_more_measured (d);
+          d->more_measured = g_new0 (LwDesignMeasuredSet, n - 1);
+        }
+      LwDesignMeasuredSet *s = &d->more_measured[d->n_more_measured++];
+      s->name = g_steal_pointer (&names[i]);
+      s->data = data[i];
+      s->kind = kind;
+      s->source = g_strdup (source);
+      s->unstable_poles = d->measured_unstable_poles;
+    }
+  if (n == 1)
+    lw_design_clear_more_measured (d);
+  lw_design_set_string (&d->measured_name, names[0]);
+  g_free (data);
+  g_strfreev (names);
   return LW_EXIT_OK;
 }
 
@@ -116,6 +204,13 @@ lw_cli_measured_doc_header (const LwDesign *d, const char *given)
           lw_design_measured_kind_name (d->measured_kind), m->n, m->omega_rad_s[0],
           m->omega_rad_s[m->n - 1], m->coherence != NULL ? ", with coherence" : "",
           shown != NULL ? ", given by --measured in place of the document's" : "");
+  if (d->n_more_measured > 0)
+    {
+      printf ("  a measured family of %zu responses:", d->n_more_measured + 1);
+      for (size_t i = 0; i <= d->n_more_measured; i++)
+        printf ("%s \"%s\"", i > 0 ? "," : "", lw_design_measured_set_name (d, i));
+      printf (" (the first above; each variant's loop closed on every one)\n");
+    }
   if (d->measured_analysis == LW_DESIGN_ANALYSIS_DATA)
     printf ("  judged on the data (analysis=\"data\"): the phase margin, gain margin, crossover "
             "and sensitivity requirements (marked \"on data\"); the others %s\n",

@@ -16,7 +16,7 @@
 void
 lw_cli_measured_args_clear (LwCliMeasuredArgs *a)
 {
-  g_clear_pointer (&a->file, g_free);
+  g_clear_pointer (&a->files, g_strfreev);
   g_clear_pointer (&a->kind, g_free);
   g_clear_pointer (&a->unstable_poles, g_free);
 }
@@ -259,6 +259,15 @@ lw_cli_measured_loop_clear (LwCliMeasuredLoop *ml)
 }
 
 int
+lw_cli_measured_one (const LwCliMeasuredArgs *a, const char *what)
+{
+  if (a->files == NULL || a->files[0] == NULL || a->files[1] == NULL)
+    return LW_EXIT_OK;
+  lw_cli_bad_input ("--measured", "given more than once: %s", what);
+  return LW_EXIT_BAD_INPUT;
+}
+
+int
 lw_cli_measured_kind (const LwCliMeasuredArgs *m, LwMeasuredKind *kind)
 {
   if (m->kind == NULL)
@@ -305,7 +314,7 @@ lw_cli_measured_loop_build (const char *cmd, const LwCliLoopArgs *loop,
   int status = lw_cli_loop_build (cmd, &la, &ml->lp);
   if (status != LW_EXIT_OK)
     return status;
-  status = lw_cli_measured_read (m->file, &ml->data, ml->note, sizeof ml->note);
+  status = lw_cli_measured_read (lw_cli_measured_file (m), &ml->data, ml->note, sizeof ml->note);
   if (status != LW_EXIT_OK)
     {
       lw_cli_loop_clear (&ml->lp);
@@ -322,7 +331,7 @@ lw_cli_measured_loop_build (const char *cmd, const LwCliLoopArgs *loop,
                                         &ml->loop, &err);
   if (st != LW_OK)
     {
-      fprintf (stderr, "%s: %s\n", m->file, err.message);
+      fprintf (stderr, "%s: %s\n", lw_cli_measured_file (m), err.message);
       lw_cli_measured_loop_clear (ml);
       return st == LW_ERR_NOMEM ? LW_EXIT_INTERNAL : LW_EXIT_BAD_INPUT;
     }
@@ -375,7 +384,7 @@ lw_cli_measured_analyze (const char *cmd, const LwCliLoopArgs *loop, const LwCli
   if (status != LW_EXIT_OK)
     return status;
   if (!json)
-    lw_cli_measured_print (&ml, m->file, TRUE);
+    lw_cli_measured_print (&ml, lw_cli_measured_file (m), TRUE);
   else
     {
       g_autoptr (JsonBuilder) b = json_builder_new ();
@@ -384,7 +393,7 @@ lw_cli_measured_analyze (const char *cmd, const LwCliLoopArgs *loop, const LwCli
       json_builder_set_member_name (b, "loop");
       lw_cli_measured_json_loop (b, &ml);
       json_builder_set_member_name (b, "measured");
-      lw_cli_measured_json (b, &ml, m->file);
+      lw_cli_measured_json (b, &ml, lw_cli_measured_file (m));
       json_builder_end_object (b);
       lw_cli_json_print_builder (b);
     }

@@ -20,14 +20,14 @@ G_BEGIN_DECLS
 
 typedef struct
 {
-  char *file;
+  char **files;               /* --measured, repeated: more than one is a measured family */
   char *kind;
   char *unstable_poles;       /* --measured-unstable-poles, where a command takes it */
 } LwCliMeasuredArgs;
 
 /* GOptionEntry rows for the two options (bytes, like the loop options). */
 #define LW_CLI_MEASURED_ENTRIES(a)                                                        \
-  { "measured", 0, 0, G_OPTION_ARG_FILENAME, &(a)->file, NULL, NULL },                     \
+  { "measured", 0, 0, G_OPTION_ARG_FILENAME_ARRAY, &(a)->files, NULL, NULL },              \
   { "measured-kind", 0, 0, G_OPTION_ARG_FILENAME, &(a)->kind, NULL, NULL }
 
 /* --measured-unstable-poles N: the loop's open-loop poles outside the unit circle, for the
@@ -48,6 +48,17 @@ typedef struct
   "                           --measured\n"
 
 void lw_cli_measured_args_clear (LwCliMeasuredArgs *a);
+
+/* The first --measured FILE, or NULL. */
+static inline const char *
+lw_cli_measured_file (const LwCliMeasuredArgs *a)
+{
+  return a->files != NULL ? a->files[0] : NULL;
+}
+
+/* Refuses a second --measured where a command takes one table (what: why, e.g. "a fit is
+ * made to one table"). Returns the exit status (the message printed). */
+int lw_cli_measured_one (const LwCliMeasuredArgs *a, const char *what);
 
 /* --measured-kind checked (required with --measured): its kind, or the exit status after the
  * message. */

@@ -14,6 +14,7 @@
 #include "lw-cli-json.h"
 #include "lw-cli-family.h"
 #include "lw-cli-family-members.h"
+#include "lw-cli-family-measured.h"
 #include "lw-cli-measured.h"
 #include "lw-cli-analyze-text.h"
 #include "lw-simulate.h"
@@ -35,7 +36,9 @@ static const char analyze_help[] =
   "Given a design document (FILE.lwd), the plant, sampling and controller (the stages of\n"
   "the active variant, or of --variant NAME) come from it, and its requirements are\n"
   "checked too; the loop options below are then not accepted. --measured with a document\n"
-  "takes the place of the measurement it holds, judged on as analysis=\"data\".\n"
+  "takes the place of the measurement it holds, judged on as analysis=\"data\"; given more\n"
+  "than once (or a document with several <measured>), a measured family: the worst\n"
+  "margins over the responses (docs/families.md).\n"
   "\n"
   "Options:\n"
   "  --variant NAME           the variant of FILE.lwd to analyze (default: the active one)\n"
@@ -361,7 +364,7 @@ analyze_run (void *data)
   const AnalyzeArgs *a = data;
   AnalyzeSpec spec;
   LwCliLoop lp;
-  if (a->measured.file == NULL && (a->measured.kind != NULL || a->measured.unstable_poles))
+  if (lw_cli_measured_file (&a->measured) == NULL && (a->measured.kind != NULL || a->measured.unstable_poles))
     {
       lw_cli_bad_input (a->measured.kind != NULL ? "--measured-kind"
                         : "--measured-unstable-poles", "needs --measured FILE.csv%s",
@@ -369,9 +372,10 @@ analyze_run (void *data)
                         "<measured open_loop_unstable_poles>)");
       return LW_EXIT_BAD_INPUT;
     }
-  if (a->measured.file != NULL && lw_cli_family_refuse_measured (&a->family) != LW_EXIT_OK)
+  if (lw_cli_measured_file (&a->measured) != NULL
+      && lw_cli_family_refuse_measured (&a->family) != LW_EXIT_OK)
     return LW_EXIT_BAD_INPUT;
-  if (a->measured.file != NULL && (a->files == NULL || a->files[0] == NULL))
+  if (lw_cli_measured_file (&a->measured) != NULL && (a->files == NULL || a->files[0] == NULL))
     {
       const char *model_only = model_only_option (a);
       if (model_only != NULL)
@@ -380,6 +384,10 @@ analyze_run (void *data)
                             "grid are a model's); the data are analysed at their own points");
           return LW_EXIT_BAD_INPUT;
         }
+      if (lw_cli_measured_one (&a->measured, "several tables make a measured family, judged "
+                               "with a design document's variants and requirements (analyze "
+                               "FILE.lwd --measured A.csv --measured B.csv)") != LW_EXIT_OK)
+        return LW_EXIT_BAD_INPUT;
       return lw_cli_measured_analyze ("analyze", &a->loop, &a->measured, a->json);
     }
   if (a->files == NULL || a->files[0] == NULL)
@@ -478,6 +486,11 @@ analyze_run (void *data)
       status = analyze_loop_run (a, &spec, e, design, which[k], &root);
       if (status == LW_EXIT_OK && e->ev != NULL && lw_cli_family_wanted (&a->family, design))
         status = analyze_family (a, design, 0.0, NULL, which[k], root);
+      /* several measured responses: the worst margins over them */
+      if (status == LW_EXIT_OK && (root != NULL || !a->json))
+        status = lw_cli_measured_family_run (design, e,
+                                             root != NULL ? json_node_get_object (root) : NULL,
+                                             NULL);
       if (root == NULL)
         continue;
       if (b != NULL)

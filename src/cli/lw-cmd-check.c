@@ -11,6 +11,7 @@
 #include "lw-cli-common.h"
 #include "lw-cli-doc.h"
 #include "lw-cli-family.h"
+#include "lw-cli-family-measured.h"
 #include "lw-cli-measured.h"
 
 static const char check_help[] =
@@ -21,13 +22,16 @@ static const char check_help[] =
   "the document states: a table of target, achieved value and result per requirement.\n"
   "A document that holds a measured response with analysis=\"data\" has its phase margin,\n"
   "gain margin, crossover and sensitivity requirements judged on the loop closed on the\n"
-  "data (marked \"on data\"; docs/measured-data.md).\n"
+  "data (marked \"on data\"; docs/measured-data.md); with several measured responses (a\n"
+  "measured family) on every one of them, and the check fails when one fails.\n"
   "\n"
   "Options:\n"
   "  --variant NAME           check this variant (default: the document's active variant)\n"
   "  --all-variants           check every variant in the document\n"
   "  --measured FILE.csv      judge on this measured response (as analysis=\"data\"), in\n"
-  "                           place of the one the document holds; the file is unchanged\n"
+  "                           place of the one the document holds; the file is unchanged;\n"
+  "                           more than once: a measured family, every requirement on\n"
+  "                           the data judged on each response\n"
   "  --measured-kind KIND     sampled or continuous (required with --measured)\n"
   "  -h, --help               show this help\n"
   "\n"
@@ -68,6 +72,15 @@ check_variant (const char *path, const LwDesign *d, size_t index)
     printf ("  %zu of %zu requirement(s) pass\n", d->n_requirements - failing,
             d->n_requirements);
   lw_cli_measured_doc_check_lines (d, e);
+  /* several measured responses: every requirement on the data judged on each */
+  size_t family_failing = 0;
+  status = lw_cli_measured_family_run (d, e, NULL, &family_failing);
+  if (status != LW_EXIT_OK)
+    {
+      lw_variant_eval_unref (e);
+      return status;
+    }
+  failing += family_failing;
   if (ev != NULL && lw_cli_family_wanted (&(LwCliFamilyArgs) { 0 }, d))
     {
       /* a plant family: every requirement judged on its worst member too */
@@ -123,7 +136,7 @@ check_run (void *data)
   printf ("Design '%s' (%s): plant %s, T = %.6g s, computation delay %d, dead time %.6g s\n",
           d->title, path, lw_design_has_model (d) ? d->plant : "(none: measured data)",
           d->period_s, d->compute_delay, d->dead_time_s);
-  lw_cli_measured_doc_header (d, a->measured.file);
+  lw_cli_measured_doc_header (d, lw_cli_measured_file (&a->measured));
   int worst = LW_EXIT_OK;
   for (size_t i = first; i <= last; i++)
     {

@@ -47,12 +47,14 @@ static int
 fit_run (void *arg)
 {
   const FitArgs *a = arg;
-  if (a->measured.file == NULL)
+  if (lw_cli_measured_file (&a->measured) == NULL)
     {
       lw_cli_bad_input ("fit", "--measured FILE.csv is required (see '" LW_CLI_PROG
                         " fit --help')");
       return LW_EXIT_BAD_INPUT;
     }
+  if (lw_cli_measured_one (&a->measured, "a model is fitted to one table") != LW_EXIT_OK)
+    return LW_EXIT_BAD_INPUT;
   if (a->measured.kind == NULL || strcmp (a->measured.kind, "continuous") != 0)
     {
       lw_cli_bad_input ("--measured-kind", "fit takes continuous data (a model in s); a fit of "
@@ -75,7 +77,7 @@ fit_run (void *arg)
     return LW_EXIT_BAD_INPUT;
   LwMeasured *data = NULL;
   char note[256] = "";
-  int status = lw_cli_measured_read (a->measured.file, &data, note, sizeof note);
+  int status = lw_cli_measured_read (lw_cli_measured_file (&a->measured), &data, note, sizeof note);
   if (status != LW_EXIT_OK)
     return status;
   LwModel *model = NULL;
@@ -86,7 +88,7 @@ fit_run (void *arg)
                                  (int) reldeg, (int) iters, &model, &worst, &err);
   if (st != LW_OK)
     {
-      fprintf (stderr, "%s: %s\n", a->measured.file, err.message);
+      fprintf (stderr, "%s: %s\n", lw_cli_measured_file (&a->measured), err.message);
       lw_measured_free (data);
       return st == LW_ERR_INVALID ? LW_EXIT_BAD_INPUT : LW_EXIT_INTERNAL;
     }

@@ -54,7 +54,7 @@ new_run (void *data)
   /* with a measurement and no --plant, a design on the data alone (an empty plant; the
    * loop options are checked with a plant of 1) */
   LwCliLoopArgs la = a->loop;
-  gboolean no_model = a->loop.plant == NULL && a->measured.file != NULL;
+  gboolean no_model = a->loop.plant == NULL && lw_cli_measured_file (&a->measured) != NULL;
   if (no_model)
     la.plant = (char *) "1";
   LwCliLoop lp;

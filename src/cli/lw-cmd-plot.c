@@ -472,7 +472,7 @@ plot_run_document (const PlotArgs *a)
     return status;
 
   /* a measurement given here takes the place of the document's (as check and report do) */
-  if (a->measured.file != NULL && !lw_figure_measured_view_ok (spec.view))
+  if (lw_cli_measured_file (&a->measured) != NULL && !lw_figure_measured_view_ok (spec.view))
     {
       lw_cli_bad_input ("--view", "%s is a model's (time responses or poles); measured data "
                         "draw in the frequency views", a->view);
@@ -592,14 +592,17 @@ static int
 plot_run (void *data)
 {
   const PlotArgs *a = data;
-  if (a->measured.file == NULL && a->measured.kind != NULL)
+  if (lw_cli_measured_file (&a->measured) == NULL && a->measured.kind != NULL)
     {
       lw_cli_bad_input ("--measured-kind", "needs --measured FILE.csv");
       return LW_EXIT_BAD_INPUT;
     }
+  if (lw_cli_measured_one (&a->measured, "plot draws one measured response (a measured "
+                           "family's worst margins: analyze, check, report)") != LW_EXIT_OK)
+    return LW_EXIT_BAD_INPUT;
   if (a->files != NULL && a->files[0] != NULL)
     return plot_run_document (a);
-  if (a->measured.file != NULL)
+  if (lw_cli_measured_file (&a->measured) != NULL)
     return lw_cli_family_refuse_measured (&a->family) != LW_EXIT_OK ? LW_EXIT_BAD_INPUT
                                                                     : plot_run_measured (a);
   if (a->variant != NULL || a->all || a->compared)

@@ -470,8 +470,8 @@ lw_load_missing (Reader *r, const xmlNode *parent, const xmlNode *at, const char
 static bool
 misplaced_measured (Reader *r, const xmlNode *c)
 {
-  return lw_load_fail (r, c, LW_DESIGN_ERROR_SCHEMA, ": unexpected here; a design holds at most "
-                       "one <measured>, right after <sampling>");
+  return lw_load_fail (r, c, LW_DESIGN_ERROR_SCHEMA, ": unexpected here; a design's <measured> "
+                       "responses come together, right after <sampling>");
 }
 
 LwDesign *
@@ -595,7 +595,13 @@ lw_load_read_design (Reader *r, const xmlNode *root)
         return lw_load_fail (r, c, LW_DESIGN_ERROR_VALUE, ": attribute 'analysis' is \"model\" "
                              "but <plant> (line %ld) holds no model; write analysis=\"data\"",
                              (long) xmlGetLineNo (plant_el)), NULL;
+      const xmlNode *first = c;
       c = lw_load_next_element (r, root, c->next);
+      /* a measured family: further named responses right after the first */
+      for (; r->error == NULL && lw_load_is_element (c, "measured");
+           c = lw_load_next_element (r, root, c->next))
+        if (!lw_load_read_more_measured (r, c, d, first))
+          return NULL;
       if (r->error != NULL)
         return NULL;
     }

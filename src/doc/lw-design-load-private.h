@@ -93,6 +93,11 @@ lw_load_read_points (Reader *r, const xmlNode *parent, const xmlNode *first, LwD
 bool
 lw_load_check_points (Reader *r, const xmlNode *parameters_el, const LwDesign *d);
 
+/* A further <measured> of a measured family (first: the first one's element, for the line
+ * of a refusal about it). */
+bool
+lw_load_read_more_measured (Reader *r, const xmlNode *e, LwDesign *d, const xmlNode *first);
+
 LwDesign *
 lw_load_read_design (Reader *r, const xmlNode *root);
 

@@ -52,6 +52,14 @@ const char *lw_doc_schema_text (size_t *len);
  * canonical form (nothing when the design holds no measurement; attr_text writes one escaped
  * attribute). */
 gboolean lw_design_check_measured (const LwDesign *d, GError **error);
+/* the further responses of a measured family (lw-design-measured.c): freed, copied (a copy of
+ * n sets; NULL for none), compared (numbers with ==) */
+void lw_design_measured_sets_free (LwDesignMeasuredSet *s, size_t n);
+LwDesignMeasuredSet *lw_design_measured_sets_copy (const LwDesignMeasuredSet *s, size_t n);
+bool lw_design_measured_sets_equal (const LwDesignMeasuredSet *a, size_t na,
+                                    const LwDesignMeasuredSet *b, size_t nb);
+/* two measured tables equal point for point (NULL equal only to NULL) */
+bool lw_design_table_equal (const LwMeasured *x, const LwMeasured *y);
 void lw_design_write_measured (GString *o, const LwDesign *d,
                                void (*attr_text) (GString *, const char *, const char *));
 

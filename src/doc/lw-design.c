@@ -144,6 +144,12 @@ lw_design_source_problem (const char *s)
 }
 
 const char *
+lw_design_measured_name_problem (const char *s)
+{
+  return label_problem (s, LW_DESIGN_MEASURED_NAME_MAX, "it is longer than 64 bytes");
+}
+
+const char *
 lw_design_response_name (unsigned i)
 {
   static const char *const names[LW_DESIGN_N_RESPONSES] = {
@@ -207,6 +213,8 @@ lw_design_free (LwDesign *d)
   g_strfreev (d->views);
   lw_measured_free (d->measured);
   g_free (d->measured_source);
+  g_free (d->measured_name);
+  lw_design_measured_sets_free (d->more_measured, d->n_more_measured);
   g_free (d);
 }
 
@@ -234,6 +242,8 @@ lw_design_copy (const LwDesign *d)
   c->measured = lw_measured_copy (d->measured);
   if (d->measured != NULL && c->measured == NULL)
     g_error ("out of memory copying the measured table of a design");
+  c->measured_name = g_strdup (d->measured_name);
+  c->more_measured = lw_design_measured_sets_copy (d->more_measured, d->n_more_measured);
   c->requirements = g_new0 (LwDesignRequirement, d->n_requirements);
   for (size_t i = 0; i < d->n_requirements; i++)
     {
@@ -333,24 +343,20 @@ stage_equal (const LwStage *a, const LwStage *b)
   return true;
 }
 
-/* Equal tables and attributes of <measured> (numbers compared with ==). */
+/* Equal tables and attributes of the <measured> responses (numbers compared with ==). */
 static bool
 measured_equal (const LwDesign *a, const LwDesign *b)
 {
-  const LwMeasured *x = a->measured, *y = b->measured;
-  if (x == NULL || y == NULL)
-    return x == y;
-  if (a->measured_kind != b->measured_kind || a->measured_analysis != b->measured_analysis
-      || !str_equal (a->measured_source, b->measured_source)
-      || a->measured_unstable_poles != b->measured_unstable_poles || x->n != y->n
-      || (x->coherence == NULL) != (y->coherence == NULL))
+  if (!str_equal (a->measured_name, b->measured_name)
+      || !lw_design_measured_sets_equal (a->more_measured, a->n_more_measured,
+                                         b->more_measured, b->n_more_measured))
     return false;
-  for (size_t i = 0; i < x->n; i++)
-    if (x->omega_rad_s[i] != y->omega_rad_s[i] || creal (x->h[i]) != creal (y->h[i])
-        || cimag (x->h[i]) != cimag (y->h[i])
-        || (x->coherence != NULL && x->coherence[i] != y->coherence[i]))
-      return false;
-  return true;
+  if (a->measured == NULL || b->measured == NULL)
+    return a->measured == b->measured;
+  return a->measured_kind == b->measured_kind && a->measured_analysis == b->measured_analysis
+         && str_equal (a->measured_source, b->measured_source)
+         && a->measured_unstable_poles == b->measured_unstable_poles
+         && lw_design_table_equal (a->measured, b->measured);
 }
 
 LwStatus

@@ -120,6 +120,27 @@ const char *lw_design_source_problem (const char *s);
 const char *lw_design_measured_kind_name (LwMeasuredKind kind);
 const char *lw_design_analysis_name (LwDesignAnalysis a);
 
+/* Longest name of a measured response in a measured family, in bytes; most responses a
+ * document holds (the first and the further ones). */
+#define LW_DESIGN_MEASURED_NAME_MAX 64
+#define LW_DESIGN_MAX_MEASURED 100
+
+/* NULL when s can name a measured response: the rules of lw_design_unit_problem with
+ * 1 … LW_DESIGN_MEASURED_NAME_MAX bytes; else a sentence saying what is wrong (static). */
+const char *lw_design_measured_name_problem (const char *s);
+
+/* A further measured response of a measured family (<measured name=…> after the first): one
+ * more machine's sweep, with its own kind, source and count of open-loop unstable poles; the
+ * analysis choice is the first <measured>'s. */
+typedef struct
+{
+  char *name;                 /* lw_design_measured_name_problem; unique in the design */
+  LwMeasured *data;           /* as LwDesign.measured */
+  LwMeasuredKind kind;
+  char *source;               /* NULL: not given */
+  int unstable_poles;         /* 0 … LW_DESIGN_MAX_UNSTABLE_POLES */
+} LwDesignMeasuredSet;
+
 /* A named parameter of the plant expression (<parameters>, docs/file-format.md): its nominal
  * value and, for a plant family, the range it spans. */
 typedef enum
@@ -227,6 +248,13 @@ typedef struct
   LwDesignAnalysis measured_analysis;
   char *measured_source;      /* where the data came from (lw_design_source_problem); NULL */
   int measured_unstable_poles;/* open-loop poles outside the unit circle, 0 … 1000 */
+  /* a measured family (docs/families.md, "Measured families"): the first measurement's name
+   * (<measured name>; NULL: none, allowed only when it is alone) and the further measured
+   * responses after it (<measured name=…> each), all judged with the variant's controller;
+   * n_more_measured 0: the first is the only one */
+  char *measured_name;
+  size_t n_more_measured;
+  LwDesignMeasuredSet *more_measured;
   size_t n_requirements;
   LwDesignRequirement *requirements;
   size_t n_variants;          /* >= 1 in a valid design */
@@ -250,6 +278,17 @@ LwDesign *lw_design_new (const char *plant, double period_s);
 void lw_design_free (LwDesign *d);
 LwDesign *lw_design_copy (const LwDesign *d);
 G_DEFINE_AUTOPTR_CLEANUP_FUNC (LwDesign, lw_design_free)
+
+/* The number of measured responses d holds (0 without a measurement; 1 + the further
+ * ones of a measured family). */
+size_t lw_design_n_measured (const LwDesign *d);
+
+/* Drops the further responses of d's measured family (the first stays). */
+void lw_design_clear_more_measured (LwDesign *d);
+
+/* The name of measured response i of d's measured family (0: the first, d->measured; then
+ * d->more_measured[i − 1]); "measured" for a first without a name. */
+const char *lw_design_measured_set_name (const LwDesign *d, size_t i);
 
 /* True when the design has a plant model: its plant text is not blank. A design without one
  * holds a measured response (<measured>, analysis "data"): the loop is closed on the data

@@ -432,6 +432,21 @@ achieved_from_data (LwAchieved *a, const LwMeasuredLoop *ml)
   a->sensitivity_peak = m->sensitivity_peak;
 }
 
+void
+lw_engine_achieved_on_data (LwAchieved *a, const LwMeasuredLoop *ml, gboolean has_model)
+{
+  if (has_model)
+    {
+      achieved_from_data (a, ml);
+      return;
+    }
+  /* without a model, stability is the data's alone: undecided leaves every figure out */
+  memset (a, 0, sizeof *a);
+  a->stable = ml != NULL && ml->stability.verdict == LW_MEASURED_STABLE;
+  if (ml != NULL && ml->stability.verdict != LW_MEASURED_UNDECIDED)
+    achieved_from_data (a, ml);
+}
+
 /* The plant's text with its parameters' nominal values (exactly, as hexadecimal doubles):
  * what the sampled-plant cache knows a plant by. */
 static char *
@@ -550,15 +565,10 @@ evaluate_on_data_alone (EvalPrivate *p, const LwDesign *d, const LwDesignVariant
                                   "margins after quantization) is not available; fit a model "
                                   "to the data or type one");
   close_on_data (e, d);
-  memset (&e->achieved, 0, sizeof e->achieved);
   e->has_achieved = TRUE;
-  /* without a model, stability is the data's alone: undecided leaves every figure out */
+  lw_engine_achieved_on_data (&e->achieved, e->measured, FALSE);
   gboolean decided = e->measured != NULL
                      && e->measured->stability.verdict != LW_MEASURED_UNDECIDED;
-  e->achieved.stable = e->measured != NULL
-                       && e->measured->stability.verdict == LW_MEASURED_STABLE;
-  if (decided)
-    achieved_from_data (&e->achieved, e->measured);
   judge (e, d);
   for (size_t i = 0; i < e->n_requirements; i++)
     if (e->requirements[i].status == LW_REQ_NOT_AVAILABLE)

@@ -221,6 +221,15 @@ LwVariantEval *lw_engine_evaluate_loop (const LwEngineLoop *loop, const LwEngine
 const LwMeasuredCrossing *lw_engine_measured_governing (const LwMeasuredMargins *m,
                                                         gboolean gain);
 
+/* The figures requirements are judged on when the analysis is on measured data, as the
+ * engine judges a variant's loop on the design's first measured response (and a measured
+ * family each of its responses, lw-family-measured.h): with a model (has_model), a holds the
+ * model's achieved figures and its phase margin, gain margin, crossover and sensitivity peak
+ * are replaced by the data's (not available where the data cannot tell them), stability
+ * cleared when the data call the loop unstable; without one, a is the data's alone and empty
+ * when the data leave stability undecided. ml NULL: the loop could not be closed. */
+void lw_engine_achieved_on_data (LwAchieved *a, const LwMeasuredLoop *ml, gboolean has_model);
+
 /* TRUE when e evaluated, else FALSE with a copy of its error in *error. */
 gboolean lw_variant_eval_ok (const LwVariantEval *e, GError **error);
 

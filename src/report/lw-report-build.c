@@ -426,6 +426,7 @@ lw_report_build (const char *path, const LwDesign *d, const size_t *which, size_
   for (size_t k = 0; k < n; k++)
     section_variant (r, d, &rv[k], k);
   lwr_section_family (r, d, rv, &rf);
+  lwr_section_measured_family (r, d, rv, n);
   ok = lwr_add_figures (r, d, rv, n, &rf, error);
   if (!ok)
     goto out;

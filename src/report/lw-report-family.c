@@ -107,6 +107,9 @@ lwr_section_family (LwReport *r, const LwDesign *d, const RVar *rv, const RFamil
               name, f->n_points, points->str, ranges->str, f->n_members, f->n_corners);
   g_string_free (ranges, TRUE);
   g_string_free (points, TRUE);
+  if (lw_design_analysis_on_data (d))
+    lwr_para (r, "These are the plant model's members: the family is on the plant model, "
+              "while the design is judged on the measured data (analysis=\"data\").");
   if (f->n_unstable > 0 || f->n_failed > 0)
     lwr_para (r, "%zu member(s) with a loop that is NOT stable, %zu that could not be "
               "evaluated; their figures are included (a negative margin is the worst).",

@@ -78,6 +78,10 @@ void lwr_family_clear (RFamily *rf);
 /* the "Plant family" section (nothing without a family) */
 void lwr_section_family (LwReport *r, const LwDesign *d, const RVar *rv, const RFamily *rf);
 
+/* the "Measured family" section (lw-report-family-measured.c; nothing unless the design
+ * holds several measured responses): each reported variant's worst margins over them */
+void lwr_section_measured_family (LwReport *r, const LwDesign *d, const RVar *rv, size_t n);
+
 /* the figures of the variants overlaid (a family drawn under its variant's curves in the
  * frequency figures), and the comparison table (lw-report-compare.c) */
 gboolean lwr_add_figures (LwReport *r, const LwDesign *d, RVar *rv, size_t n,

@@ -247,6 +247,103 @@ test_copy_equal (void **state)
     }
 }
 
+/* ---- a measured family: further named responses ------------------------------------------ */
+
+/* d (the pump example) made a measured family of three: the first named, two more copies of
+ * its table with their own kind, source and count. */
+static void
+make_family (LwDesign *d)
+{
+  lw_design_set_string (&d->measured_name, "pump A");
+  d->more_measured = g_new0 (LwDesignMeasuredSet, 2);
+  d->n_more_measured = 2;
+  static const char *const names[] = { "pump B", "pump «C» & <D>" };
+  for (size_t i = 0; i < 2; i++)
+    {
+      LwDesignMeasuredSet *s = &d->more_measured[i];
+      s->name = g_strdup (names[i]);
+      s->data = lw_measured_copy (d->measured);
+      s->data->h[3] *= 1.5 + (double) i;
+      s->kind = i == 0 ? LW_MEASURED_SAMPLED : LW_MEASURED_CONTINUOUS;
+      s->source = i == 0 ? g_strdup ("rig 2.csv") : NULL;
+      s->unstable_poles = (int) i;
+    }
+}
+
+static void
+test_family (void **state)
+{
+  (void) state;
+  g_autofree char *path = g_build_filename (source_root, "tests", "doc", "measured-pump.lwd",
+                                            NULL);
+  g_autofree char *file = NULL;
+  gsize len = 0;
+  assert_true (g_file_get_contents (path, &file, &len, NULL));
+  g_autoptr (LwDesign) d = load_text (file, len);
+  make_family (d);
+  assert_int_equal (lw_design_n_measured (d), 3);
+  assert_string_equal (lw_design_measured_set_name (d, 2), "pump «C» & <D>");
+
+  /* saved and read back equal; the second save is the first byte for byte */
+  size_t len1 = 0, len2 = 0;
+  g_autofree char *t1 = text_ok (d, &len1);
+  g_autoptr (LwDesign) back = load_text (t1, len1);
+  assert_int_equal (back->n_more_measured, 2);
+  assert_true (lw_design_equal (d, back));
+  g_autofree char *t2 = text_ok (back, &len2);
+  assert_int_equal (len1, len2);
+  assert_memory_equal (t1, t2, len1);
+  /* the analysis choice written on the first only */
+  assert_non_null (strstr (t1, "<measured name=\"pump B\" kind=\"sampled\" source=\"rig 2.csv\" "
+                                "open_loop_unstable_poles=\"0\">"));
+
+  /* every change of a further response is seen */
+  for (int change = 0; change < 7; change++)
+    {
+      g_autoptr (LwDesign) c = lw_design_copy (d);
+      assert_true (lw_design_equal (d, c));
+      LwDesignMeasuredSet *s = &c->more_measured[1];
+      switch (change)
+        {
+        case 0: lw_design_set_string (&s->name, "pump E"); break;
+        case 1: s->kind = LW_MEASURED_SAMPLED; break;
+        case 2: lw_design_set_string (&s->source, "x"); break;
+        case 3: s->unstable_poles = 2; break;
+        case 4: s->data->h[0] = CMPLX (nextafter (creal (s->data->h[0]), 0.0),
+                                       cimag (s->data->h[0])); break;
+        case 5: lw_design_set_string (&c->measured_name, "pump Z"); break;
+        default: lw_design_clear_more_measured (c); break;
+        }
+      if (lw_design_equal (d, c) || lw_design_equal (c, d))
+        fail_msg ("change %d of the measured family not seen by lw_design_equal", change);
+    }
+
+  /* not saved: a name twice, a further response without one, the first without one */
+  g_autoptr (LwDesign) twice = lw_design_copy (d);
+  lw_design_set_string (&twice->more_measured[1].name, "pump A");
+  GError *error = NULL;
+  assert_null (lw_design_to_text (twice, NULL, &error));
+  assert_non_null (strstr (error->message, "an earlier measured response has it too"));
+  g_clear_error (&error);
+  g_autoptr (LwDesign) unnamed = lw_design_copy (d);
+  lw_design_set_string (&unnamed->measured_name, NULL);
+  assert_null (lw_design_to_text (unnamed, NULL, &error));
+  assert_non_null (strstr (error->message, "each response of a measured family needs one"));
+  g_clear_error (&error);
+
+  /* the first taken away (the window's Remove): the next is written first, with the
+   * analysis choice */
+  g_autoptr (LwDesign) gone = lw_design_copy (d);
+  g_clear_pointer (&gone->measured, lw_measured_free);
+  size_t len3 = 0;
+  g_autofree char *t3 = text_ok (gone, &len3);
+  g_autoptr (LwDesign) next = load_text (t3, len3);
+  assert_string_equal (next->measured_name, "pump B");
+  assert_int_equal (next->measured_kind, LW_MEASURED_SAMPLED);
+  assert_int_equal (next->n_more_measured, 1);
+  assert_string_equal (next->more_measured[0].name, "pump «C» & <D>");
+}
+
 /* ---- places of refusals, checks before saving, the size limit ------------------------------- */
 
 static void
@@ -471,6 +568,7 @@ main (int argc, char **argv)
     cmocka_unit_test (test_literal),
     cmocka_unit_test (test_round_trip),
     cmocka_unit_test (test_copy_equal),
+    cmocka_unit_test (test_family),
     cmocka_unit_test (test_places),
     cmocka_unit_test (test_checks_before_save),
     cmocka_unit_test (test_size_limit),
