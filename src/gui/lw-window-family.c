@@ -236,6 +236,7 @@ typedef struct
   guint64 generation;
   LwFamilyPicture *base;        /* owns the plants */
   LwFamilyPicture *picture;     /* the result */
+  double ms;                    /* the worker's time on it */
 } DragJob;
 
 static void
@@ -252,13 +253,21 @@ static void
 drag_thread (GTask *task, gpointer source, gpointer task_data, GCancellable *cancellable)
 {
   DragJob *dj = task_data;
+  gint64 t0 = g_get_monotonic_time ();
   LwFamilyLoops *l = lw_family_loops_again (dj->base->loops, dj->doc, dj->variant,
                                             DRAG_FAMILY_POINTS);
-  double worst = lw_family_loops_worst_pm_deg (l);
-  dj->picture = picture_new (l, dj->doc->variants[dj->variant].name, dj->generation, worst);
-  dj->picture->plants_of = picture_ref (dj->base);
+  LwFamilyPicture *p = g_new0 (LwFamilyPicture, 1);
+  g_atomic_ref_count_init (&p->ref);
+  p->generation = dj->generation;
+  p->variant = g_strdup (dj->doc->variants[dj->variant].name);
+  p->loops = l;
+  p->plants_of = picture_ref (dj->base);
   /* drawn: the band of every member and the lines of the worst ones */
-  lw_figure_family_band (&dj->picture->ff, DRAG_BAND_POINTS, l->n_worst);
+  lw_figure_family_fill_lines (&p->ff, l->n_members, l->n, l->plant, l->ev, l->n_worst,
+                               l->worst_pm != G_MAXSIZE ? l->worst_pm : SIZE_MAX,
+                               lw_family_loops_worst_pm_deg (l), DRAG_BAND_POINTS);
+  dj->picture = p;
+  dj->ms = (double) (g_get_monotonic_time () - t0) / 1e3;
   g_task_return_boolean (task, TRUE);
 }
 
@@ -283,8 +292,8 @@ drag_done (GObject *source, GAsyncResult *result, gpointer user_data)
     {
       const LwPlotFamily *pf = &dj->picture->ff.f;
       printf ("LW-FAMILY-DRAG generation=%" G_GUINT64_FORMAT " lines=%zu band=%d "
-              "worst_pm=%.17g\n", dj->generation, pf->n, pf->band_z != NULL,
-              pf->worst_pm_deg);
+              "worst_pm=%.17g ms=%.2f\n", dj->generation, pf->n, pf->band_z != NULL,
+              pf->worst_pm_deg, dj->ms);
       fflush (stdout);
     }
   show_picture (self, g_steal_pointer (&dj->picture));

@@ -549,29 +549,58 @@ fill_band (LwPlotBand *b, const LwPlotFreqCurve *curves, size_t n, size_t m, dou
 }
 
 void
-lw_figure_family_band (LwFigureFamily *ff, size_t n_grid, size_t n_lines)
+lw_figure_family_fill_lines (LwFigureFamily *ff, size_t n_members, size_t n,
+                             LwSampledPlant *const *plants, LwEvaluation *const *evs,
+                             size_t n_lines, size_t worst_pm, double worst_pm_deg,
+                             size_t n_grid)
 {
+  /* the members drawn as lines: the first n_lines, and the worst one when it is not */
+  size_t nl = MIN (n_lines, n);
+  LwSampledPlant **lp = g_new0 (LwSampledPlant *, nl + 2);
+  LwEvaluation **le = g_new0 (LwEvaluation *, nl + 2);
+  for (size_t i = 0; i < nl; i++)
+    lp[i] = plants[i], le[i] = evs[i];
+  size_t w = worst_pm < n ? worst_pm : SIZE_MAX;
+  if (w != SIZE_MAX && w >= nl)
+    {
+      lp[nl] = plants[w], le[nl] = evs[w];
+      w = nl++;
+    }
+  lw_figure_family_fill (ff, n_members, nl, lp, le, w, worst_pm_deg);
+  g_free (lp);
+  g_free (le);
+
+  /* the band over every member, from their loops on the evaluation grid: in z as evaluated,
+   * in w at ν = (2/T)·tan(ωT/2) (the same values: L on the w-plane's axis is L(e^{jωT})),
+   * below π/T only */
   size_t m = MAX (n_grid, 2);
-  g_free (ff->band_data);
+  LwPlotFreqCurve *cz = g_new0 (LwPlotFreqCurve, n + 1), *cw = g_new0 (LwPlotFreqCurve, n + 1);
+  for (size_t i = 0; i < n; i++)
+    {
+      const LwEvaluation *ev = evs[i];
+      if (ev == NULL || ev->n_points < 2)
+        continue;
+      cz[i] = (LwPlotFreqCurve) { .n = ev->n_points, .freq_rad_s = ev->omega_rad_s,
+                                  .mag_db = ev->loop_mag_db, .phase_deg = ev->loop_phase_deg };
+      double t = ev->period_s, *nu = g_new (double, ev->n_points);
+      size_t k = 0;
+      while (k < ev->n_points && ev->omega_rad_s[k] * t < 0.999 * G_PI)
+        {
+          nu[k] = 2.0 / t * tan (0.5 * ev->omega_rad_s[k] * t);
+          k++;
+        }
+      cw[i] = (LwPlotFreqCurve) { .n = k, .freq_rad_s = nu, .mag_db = ev->loop_mag_db,
+                                  .phase_deg = ev->loop_phase_deg };
+    }
   ff->band_data = g_new (double, 10 * m);
-  fill_band (&ff->band_z, ff->z, ff->n_filled, m, ff->band_data);
-  fill_band (&ff->band_w, ff->w, ff->n_filled, m, ff->band_data + 5 * m);
+  fill_band (&ff->band_z, cz, n, m, ff->band_data);
+  fill_band (&ff->band_w, cw, n, m, ff->band_data + 5 * m);
   ff->f.band_z = ff->band_z.n > 0 ? &ff->band_z : NULL;
   ff->f.band_w = ff->band_w.n > 0 ? &ff->band_w : NULL;
-  size_t n = MIN (n_lines, ff->n_filled), w = ff->f.worst_pm;
-  if (w != SIZE_MAX && w >= n && w < ff->n_filled)
-    {
-      /* the worst member's line is drawn too: its curves moved to the place after the lines */
-      LwPlotFreqCurve tz = ff->z[n], tw = ff->w[n];
-      LwPlotComplexCurve tq = ff->nyquist[n];
-      LwPlotStepData ts = ff->step[n];
-      LwPlotPoleData tp = ff->poles[n];
-      ff->z[n] = ff->z[w], ff->w[n] = ff->w[w], ff->nyquist[n] = ff->nyquist[w];
-      ff->step[n] = ff->step[w], ff->poles[n] = ff->poles[w];
-      ff->z[w] = tz, ff->w[w] = tw, ff->nyquist[w] = tq, ff->step[w] = ts, ff->poles[w] = tp;
-      ff->f.worst_pm = n++;
-    }
-  ff->f.n = n;
+  for (size_t i = 0; i < n; i++)
+    g_free ((double *) cw[i].freq_rad_s);
+  g_free (cz);
+  g_free (cw);
 }
 
 void

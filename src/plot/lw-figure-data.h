@@ -58,7 +58,7 @@ typedef struct {
   LwPlotStepData *step;
   LwPlotPoleData *poles;
   size_t n_filled;            /* members filled (f.n may be set lower: fewer lines drawn) */
-  LwPlotBand band_z, band_w;  /* lw_figure_family_band */
+  LwPlotBand band_z, band_w;  /* lw_figure_family_fill_lines */
   double *band_data;
 } LwFigureFamily;
 
@@ -69,13 +69,18 @@ typedef struct {
 void lw_figure_family_fill (LwFigureFamily *ff, size_t n_members, size_t n,
                             LwSampledPlant *const *plants, LwEvaluation *const *evs,
                             size_t worst_pm, double worst_pm_deg);
-/* The envelope of every filled member (in z and in w) on n_grid points spaced evenly in
- * log ω between the lowest frequency any member has and the highest (each member's curve
- * read linearly in log ω between its own points; a band may miss the top of a resonance
- * narrower than the grid's spacing), set as ff->f.band_z and band_w; then only the first
- * n_lines members are drawn as lines (the worst ones come first), and the one of the worst
- * phase margin (f.worst_pm) when it is not among them. Call it once, after the fill. */
-void lw_figure_family_band (LwFigureFamily *ff, size_t n_grid, size_t n_lines);
+/* The same for a drag's picture: of the n members, only the first n_lines and the one of
+ * the worst phase margin (worst_pm, when it is not among them; it comes last) are filled as
+ * lines (their figure data: the w-plane curve from the sampled plant costs most), and the
+ * band (ff->f.band_z, band_w) is the envelope of all n: on n_grid points spaced evenly in
+ * log ω between the lowest and the highest frequency any member has, each member's loop read
+ * linearly in log ω between the points of its evaluation (a band may miss the top of a
+ * resonance narrower than the grid's spacing); in w the same values at ν = (2/T)·tan(ωT/2),
+ * ω below 0.999 π/T. */
+void lw_figure_family_fill_lines (LwFigureFamily *ff, size_t n_members, size_t n,
+                                  LwSampledPlant *const *plants, LwEvaluation *const *evs,
+                                  size_t n_lines, size_t worst_pm, double worst_pm_deg,
+                                  size_t n_grid);
 void lw_figure_family_clear (LwFigureFamily *ff);
 
 /* Which time responses a variant shows: the same bits as a design variant's responses

@@ -34,28 +34,19 @@ add_staircase (LwPlot *pl, Panel *pn, size_t v, size_t n, const double *s, doubl
   return p;
 }
 
-/* A family member's output as a staircase, thin and light (no reuse key: its arrays change
- * from one figure to the next). */
+/* A family member's output, thin and light: its samples joined by straight lines (not held:
+ * a staircase has twice the vertices, and at a pixel or two per sample the light line reads
+ * the same), no reuse key (its arrays change from one figure to the next). */
 static void
-family_staircase (Panel *pn, size_t v, const LwPlotStepData *s, bool worst)
+family_output (Panel *pn, size_t v, const LwPlotStepData *s, bool worst)
 {
   if (s->n < 2 || s->y == NULL)
     return;
-  size_t m = 2 * s->n - 1;
-  double *x = g_new (double, m), *y = g_new (double, m);
+  double *x = g_new (double, s->n);
   for (size_t k = 0; k < s->n; k++)
-    {
-      x[2 * k] = (double) k * s->period_s;
-      y[2 * k] = s->y[k];
-      if (k + 1 < s->n)
-        {
-          x[2 * k + 1] = (double) (k + 1) * s->period_s;
-          y[2 * k + 1] = s->y[k];
-        }
-    }
-  lwp_family_line (pn, v, m, x, y, worst);
+    x[k] = (double) k * s->period_s;
+  lwp_family_line (pn, v, s->n, x, s->y, worst);
   g_free (x);
-  g_free (y);
 }
 
 /* Compared variants with very different horizons (their own sample periods, a slow and a
@@ -183,7 +174,7 @@ lwp_build_step (LwPlot *pl, const LwPlotInput *in)
       size_t m = i < fam->n ? i : fam->worst_pm;
       if (m >= fam->n || (i < fam->n && i == fam->worst_pm))
         continue;
-      family_staircase (out, fv, &fam->step[m], i == fam->n);
+      family_output (out, fv, &fam->step[m], i == fam->n);
     }
   for (size_t v = 0; v < in->n_variants; v++)
     {
