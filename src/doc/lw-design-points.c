@@ -67,8 +67,8 @@ lw_design_clear_points (LwDesign *d)
   d->n_points = 0;
 }
 
-static gssize
-find_param (const LwDesign *d, const char *name)
+gssize
+lw_design_param_index (const LwDesign *d, const char *name)
 {
   for (size_t i = 0; i < d->n_params; i++)
     if (strcmp (d->params[i].name, name) == 0)
@@ -97,7 +97,7 @@ point_values_problem (const LwDesign *d, size_t i, char *buf, size_t size)
   for (size_t v = 0; v < p->n_values; v++)
     {
       const LwDesignPointValue *pv = &p->values[v];
-      if (pv->parameter == NULL || find_param (d, pv->parameter) < 0)
+      if (pv->parameter == NULL || lw_design_param_index (d, pv->parameter) < 0)
         {
           g_autofree char *names = param_names (d);
           g_snprintf (buf, size, "point '%s': unknown parameter '%.32s' (the parameters are %s)",
@@ -240,7 +240,7 @@ read_point (Reader *r, const xmlNode *e, const LwDesign *d, GArray *points)
       ok = lw_load_check_attributes (r, c, where, value_attrs)
            && lw_load_no_children (r, c, where)
            && lw_load_text_attr (r, c, where, "parameter", true, &v.parameter);
-      if (ok && find_param (d, v.parameter) < 0)
+      if (ok && lw_design_param_index (d, v.parameter) < 0)
         {
           g_autofree char *names = param_names (d);
           ok = lw_load_fail (r, c, LW_DESIGN_ERROR_VALUE, "%s: unknown parameter '%s' (the "

@@ -346,6 +346,8 @@ const char *lw_design_points_problem (const LwDesign *d, char *buf, size_t size,
 
 /* Frees the operating points of d and sets none. */
 void lw_design_clear_points (LwDesign *d);
+/* The index of the parameter called name in d->params, or −1. */
+gssize lw_design_param_index (const LwDesign *d, const char *name);
 
 /* True when every field is equal (numbers compared with ==, strings byte for byte, absent
  * strings equal only to absent ones). */

@@ -8,6 +8,7 @@
 #include <string.h>
 
 #include "lw-family-measured.h"
+#include "lw-family.h"
 
 gboolean
 lw_measured_family_wanted (const LwDesign *d)
@@ -27,17 +28,6 @@ lw_measured_family_figure_unit (LwMeasuredFamilyFigure f)
 {
   static const char *const units[] = { "deg", "dB", "" };
   return (unsigned) f < G_N_ELEMENTS (units) ? units[f] : "";
-}
-
-/* The same order of verdicts as a plant family's: a fail before "not available" before a
- * pass, then the smallest slack. */
-static gboolean
-verdict_worse (const LwReqResult *a, const LwReqResult *b)
-{
-  static const int rank[] = { [LW_REQ_PASS] = 2, [LW_REQ_FAIL] = 0, [LW_REQ_NOT_AVAILABLE] = 1 };
-  if (rank[a->status] != rank[b->status])
-    return rank[a->status] < rank[b->status];
-  return isfinite (a->slack) && (!isfinite (b->slack) || a->slack < b->slack);
 }
 
 /* Response i of d's measured family as (table, kind, count of unstable poles). */
@@ -181,7 +171,7 @@ lw_measured_family_evaluate (const LwDesign *d, const LwVariantEval *e, GError *
       for (size_t i = 0; i < f->n_sets; i++)
         {
           const LwReqResult *v = &f->sets[i].requirements[r];
-          if (f->requirement_set[r] == G_MAXSIZE || verdict_worse (v, &f->requirements[r]))
+          if (f->requirement_set[r] == G_MAXSIZE || lw_family_verdict_worse (v, &f->requirements[r]))
             {
               f->requirements[r] = *v;
               f->requirement_set[r] = i;

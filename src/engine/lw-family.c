@@ -373,8 +373,8 @@ judge_member (const LwRequirement *r, const Member *mb)
 }
 
 /* a is a worse verdict than b: fail < not available < pass, then the smaller slack */
-static gboolean
-verdict_worse (const LwReqResult *a, const LwReqResult *b)
+gboolean
+lw_family_verdict_worse (const LwReqResult *a, const LwReqResult *b)
 {
   static const int rank[] = { [LW_REQ_PASS] = 2, [LW_REQ_FAIL] = 0, [LW_REQ_NOT_AVAILABLE] = 1 };
   if (rank[a->status] != rank[b->status])
@@ -537,7 +537,7 @@ lw_family_evaluate_controller (const LwDesign *d, double period_s, const LwModel
       for (size_t i = 0; i < ms->len; i++)
         {
           LwReqResult v1 = judge_member (&d->requirements[r].req, ms->pdata[i]);
-          if (f->requirement_member[r] == G_MAXSIZE || verdict_worse (&v1, &f->requirements[r]))
+          if (f->requirement_member[r] == G_MAXSIZE || lw_family_verdict_worse (&v1, &f->requirements[r]))
             {
               f->requirements[r] = v1;
               f->requirement_member[r] = i;

@@ -172,6 +172,11 @@ G_DEFINE_AUTOPTR_CLEANUP_FUNC (LwFamilyLoops, lw_family_loops_free)
 const char *lw_family_figure_name (LwFamilyFigure f);
 const char *lw_family_figure_unit (LwFamilyFigure f);
 
+/* TRUE when verdict a is worse than b (the one reported over a family of plants or of
+ * measured responses): a fail before "not available" before a pass, then the smaller
+ * slack. */
+gboolean lw_family_verdict_worse (const LwReqResult *a, const LwReqResult *b);
+
 /* TRUE when a is worse than b for figure f (smaller margins, larger peak/overshoot/time). */
 gboolean lw_family_worse (LwFamilyFigure f, double a, double b);
 

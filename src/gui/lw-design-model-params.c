@@ -25,15 +25,6 @@ lw_design_model_get_param (LwDesignModel *self, guint i)
   return &self->doc->params[i];
 }
 
-static gssize
-find_param (const LwDesign *d, const char *name)
-{
-  for (size_t i = 0; i < d->n_params; i++)
-    if (strcmp (d->params[i].name, name) == 0)
-      return (gssize) i;
-  return -1;
-}
-
 /* The names in text as the expression parser reads them (lw-expr.h): a letter or '_', then
  * letters, digits and '_'; numbers (with their exponent letter) skipped. Those that cannot
  * name a parameter (the variable s, the letters w and z, a name too long) are left out: the
@@ -99,7 +90,7 @@ lw_design_model_missing_params (LwDesignModel *self)
       const char *n = g_ptr_array_index (names, i);
       /* the dead time's parameter is not written in the plant: its name there is the
        * plant's error to say */
-      if (find_param (self->doc, n) < 0 && strcmp (n, LW_DESIGN_DEAD_TIME_PARAM) != 0
+      if (lw_design_param_index (self->doc, n) < 0 && strcmp (n, LW_DESIGN_DEAD_TIME_PARAM) != 0
           && missing->len < LW_DESIGN_MAX_PARAMS)
         g_ptr_array_add (missing, g_strdup (n));
     }
@@ -112,7 +103,7 @@ lw_design_model_missing_params (LwDesignModel *self)
 static LwDesignParam *
 params_with (const LwDesign *d, const LwDesignParam *p, size_t *n_out)
 {
-  gssize at = find_param (d, p->name);
+  gssize at = lw_design_param_index (d, p->name);
   size_t n = d->n_params + (at < 0);
   LwDesignParam *ps = g_new (LwDesignParam, n);
   if (d->n_params > 0)
@@ -154,7 +145,7 @@ lw_design_model_param_problem (LwDesignModel *self, const LwDesignParam *p)
 {
   g_return_val_if_fail (LW_IS_DESIGN_MODEL (self), NULL);
   g_return_val_if_fail (p != NULL && p->name != NULL, NULL);
-  if (find_param (self->doc, p->name) < 0 && self->doc->n_params >= LW_DESIGN_MAX_PARAMS)
+  if (lw_design_param_index (self->doc, p->name) < 0 && self->doc->n_params >= LW_DESIGN_MAX_PARAMS)
     return g_strdup_printf ("a design takes at most %d parameters", LW_DESIGN_MAX_PARAMS);
   size_t n;
   g_autofree LwDesignParam *ps = params_with (self->doc, p, &n);
@@ -176,7 +167,7 @@ lw_design_model_set_param (LwDesignModel *self, const LwDesignParam *p, char **w
       return FALSE;
     }
   LwDesign *d = self->doc;
-  gssize at = find_param (d, p->name);
+  gssize at = lw_design_param_index (d, p->name);
   LwDesignParam *t;
   if (at < 0)
     {
@@ -207,7 +198,7 @@ lw_design_model_remove_param (LwDesignModel *self, const char *name)
   g_return_val_if_fail (LW_IS_DESIGN_MODEL (self), FALSE);
   g_return_val_if_fail (name != NULL, FALSE);
   LwDesign *d = self->doc;
-  gssize at = find_param (d, name);
+  gssize at = lw_design_param_index (d, name);
   if (at < 0)
     return FALSE;
   g_free (d->params[at].name);

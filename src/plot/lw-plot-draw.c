@@ -236,24 +236,7 @@ draw_prim (const LwPlot *p, const Panel *pn, cairo_t *cr, const Prim *q)
       if (p->decimate)
         lwp_polyline_decimated (pn, cr, q);
       else
-        {
-          bool pen = false;
-          cairo_new_path (cr);
-          for (size_t i = 0; i < q->n; i++)
-            {
-              if (!isfinite (q->u[i]) || !isfinite (q->v[i]))
-                {
-                  pen = false;
-                  continue;
-                }
-              double x = px_of (pn, q->u[i]), y = py_of (pn, q->v[i]);
-              if (pen)
-                cairo_line_to (cr, x, y);
-              else
-                cairo_move_to (cr, x, y);
-              pen = true;
-            }
-        }
+        lwp_points_path (pn, cr, q, false);
       cairo_stroke (cr);
       if (q->arrows && q->n == 2 && isfinite (q->u[0]) && isfinite (q->v[0])
           && isfinite (q->u[1]) && isfinite (q->v[1]))
@@ -318,7 +301,7 @@ draw_prim (const LwPlot *p, const Panel *pn, cairo_t *cr, const Prim *q)
     case PRIM_AREA:
       /* a light band: its edges without antialiasing cost less and look the same */
       cairo_set_antialias (cr, CAIRO_ANTIALIAS_NONE);
-      lwp_area_path (pn, cr, q);
+      lwp_points_path (pn, cr, q, true);
       cairo_fill (cr);
       break;
     case PRIM_CIRCLE:

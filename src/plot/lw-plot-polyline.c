@@ -136,7 +136,7 @@ lwp_polyline_decimated (const Panel *pn, cairo_t *cr, const Prim *q)
 }
 
 void
-lwp_area_path (const Panel *pn, cairo_t *cr, const Prim *q)
+lwp_points_path (const Panel *pn, cairo_t *cr, const Prim *q, bool closed)
 {
   bool pen = false;
   cairo_new_path (cr);
@@ -144,7 +144,7 @@ lwp_area_path (const Panel *pn, cairo_t *cr, const Prim *q)
     {
       if (!isfinite (q->u[i]) || !isfinite (q->v[i]))
         {
-          if (pen)
+          if (pen && closed)
             cairo_close_path (cr);
           pen = false;
           continue;
@@ -156,6 +156,6 @@ lwp_area_path (const Panel *pn, cairo_t *cr, const Prim *q)
         cairo_move_to (cr, x, y);
       pen = true;
     }
-  if (pen)
+  if (pen && closed)
     cairo_close_path (cr);
 }

@@ -216,8 +216,9 @@ py_of (const Panel *pn, double v)
 /* lw-plot-polyline.c: a polyline prim q of panel pn as a path of at most four vertices per
  * pixel column, vertices within 0.2 px of a straight segment left out (NaN breaks it) */
 void lwp_polyline_decimated (const Panel *pn, cairo_t *cr, const Prim *q);
-/* The path of a PRIM_AREA (each polygon closed at a NaN; the caller fills it). */
-void lwp_area_path (const Panel *pn, cairo_t *cr, const Prim *q);
+/* The path through every point of q (NaN breaks it), each piece closed when closed (a
+ * PRIM_AREA's polygons, filled by the caller). */
+void lwp_points_path (const Panel *pn, cairo_t *cr, const Prim *q, bool closed);
 Prim *lwp_prim_add (Panel *pn, PrimKind kind, size_t n);
 Prim *lwp_add_line (Panel *pn, size_t n, const double *x, const double *y);
 Prim *lwp_add_segment (Panel *pn, double x0, double y0, double x1, double y1);
