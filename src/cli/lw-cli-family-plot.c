@@ -36,7 +36,7 @@ lw_cli_family_plot (const char *path, const LwDesign *d, size_t variant, const L
              LwFamily **family, LwFamilyLoops **loops, LwFigureFamily *ff)
 {
   LwFamilyOptions fo;
-  int status = lw_cli_family_options (fa, &fo);
+  int status = lw_cli_family_options (fa, d, &fo);
   if (status != LW_EXIT_OK)
     return status;
   g_autoptr (GError) error = NULL;
@@ -61,7 +61,7 @@ lw_cli_family_plot_loop (const LwCliLoopArgs *loop, const LwCliFamilyArgs *fa,
   if (!lw_cli_family_wanted (fa, NULL))
     return LW_EXIT_OK;
   LwFamilyOptions fo;
-  int status = lw_cli_family_options (fa, &fo);
+  int status = lw_cli_family_options (fa, NULL, &fo);
   if (status != LW_EXIT_OK)
     return status;
   g_autoptr (LwDesign) fd = NULL;

@@ -138,9 +138,9 @@ add_point (LwDesign *d, const char *text)
 }
 
 int
-lw_cli_family_options (const LwCliFamilyArgs *a, LwFamilyOptions *o)
+lw_cli_family_options (const LwCliFamilyArgs *a, const LwDesign *d, LwFamilyOptions *o)
 {
-  lw_family_options_init (o);
+  lw_family_options_for (o, d);   /* the document's members and seed, unless given here */
   gint64 v;
   if (a->members != NULL)
     {

@@ -51,9 +51,9 @@ void lw_cli_family_args_clear (LwCliFamilyArgs *a);
  * parameter or an operating point. */
 gboolean lw_cli_family_wanted (const LwCliFamilyArgs *a, const LwDesign *d);
 
-/* --members and --seed into *o (lw_family_options_init first). Prints and returns the exit
- * status on a bad value. */
-int lw_cli_family_options (const LwCliFamilyArgs *a, LwFamilyOptions *o);
+/* --members and --seed into *o, over the design d's own (lw_family_options_for; d may be
+ * NULL). Prints and returns the exit status on a bad value. */
+int lw_cli_family_options (const LwCliFamilyArgs *a, const LwDesign *d, LwFamilyOptions *o);
 
 /* A design holding the loop options' plant, its --param values with their --range, the
  * --point operating points, the period, dead time and computation delay (no requirements,

@@ -313,7 +313,7 @@ analyze_family (const AnalyzeArgs *a, const LwDesign *fd, double period_s,
                 const LwModel *controller_z, size_t index, JsonNode *root)
 {
   LwFamilyOptions fo;
-  int status = lw_cli_family_options (&a->family, &fo);
+  int status = lw_cli_family_options (&a->family, fd, &fo);
   if (status != LW_EXIT_OK)
     return status;
   GError *error = NULL;

@@ -128,10 +128,31 @@ read_unit (Reader *r, const xmlNode *e, const char *name, char **out)
 static bool
 read_parameters (Reader *r, const xmlNode *e, LwDesign *d)
 {
-  static const char *const none[] = { NULL };
+  static const char *const own[] = { "members", "seed", NULL };
   static const char *const allowed[] = { "name", "nominal", "low", "high", "spread", NULL };
-  if (!lw_load_check_attributes (r, e, "", none))
+  if (!lw_load_check_attributes (r, e, "", own))
     return false;
+  /* the family's drawn members and their seed: whole numbers, as --members and --seed */
+  g_autofree char *members = lw_load_attribute (e, "members");
+  g_autofree char *seed = lw_load_attribute (e, "seed");
+  long long v = -1;
+  if (members != NULL)
+    {
+      if (!lw_load_parse_whole_text (members, 0, LW_DESIGN_MAX_FAMILY_MEMBERS, &v))
+        return lw_load_fail (r, e, LW_DESIGN_ERROR_VALUE, ": attribute 'members' must be a whole "
+                             "number from 0 to %d, got '%s'", LW_DESIGN_MAX_FAMILY_MEMBERS,
+                             members);
+      d->has_family_members = true;
+      d->family_members = (size_t) v;
+    }
+  if (seed != NULL)
+    {
+      if (!lw_load_parse_whole_text (seed, 0, G_MAXINT64, &v))
+        return lw_load_fail (r, e, LW_DESIGN_ERROR_VALUE, ": attribute 'seed' must be a whole "
+                             "number from 0 to %" G_GINT64_FORMAT ", got '%s'", G_MAXINT64, seed);
+      d->has_family_seed = true;
+      d->family_seed = (guint64) v;
+    }
   GArray *ps = g_array_new (FALSE, TRUE, sizeof (LwDesignParam));
   bool ok = true;
   const xmlNode *c = lw_load_next_element (r, e, e->children);

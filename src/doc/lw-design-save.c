@@ -133,7 +133,12 @@ lw_design_to_text (const LwDesign *d, size_t *len_out, GError **error)
   if (d->n_params > 0)
     {
       indent (o, 1);
-      g_string_append (o, "<parameters>\n");
+      g_string_append (o, "<parameters");
+      if (d->has_family_members)
+        g_string_append_printf (o, " members=\"%zu\"", d->family_members);
+      if (d->has_family_seed)
+        g_string_append_printf (o, " seed=\"%" G_GUINT64_FORMAT "\"", d->family_seed);
+      g_string_append (o, ">\n");
       for (size_t i = 0; i < d->n_params; i++)
         {
           const LwDesignParam *p = &d->params[i];

@@ -528,7 +528,10 @@ lw_design_equal (const LwDesign *a, const LwDesign *b)
 {
   if (a == NULL || b == NULL)
     return a == b;
-  if (!measured_equal (a, b) || a->n_params != b->n_params || !lw_design_points_equal (a, b))
+  if (!measured_equal (a, b) || a->n_params != b->n_params || !lw_design_points_equal (a, b)
+      || a->has_family_members != b->has_family_members
+      || a->family_members != b->family_members || a->has_family_seed != b->has_family_seed
+      || a->family_seed != b->family_seed)
     return false;
   for (size_t i = 0; i < a->n_params; i++)
     {

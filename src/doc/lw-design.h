@@ -150,6 +150,7 @@ typedef enum
 } LwParamSpread;
 
 #define LW_DESIGN_MAX_PARAMS 64     /* LW_EXPR_PARAMS_MAX */
+#define LW_DESIGN_MAX_FAMILY_MEMBERS 100000   /* LW_FAMILY_MAX_MEMBERS */
 /* Corners of the range box checked for a plant that is improper or zero there (2^10) */
 #define LW_DESIGN_MAX_CORNER_PARAMS 10
 
@@ -233,6 +234,13 @@ typedef struct
    * document's order; n_points 0: none */
   size_t n_points;
   LwDesignPoint *points;
+  /* how many members a plant family draws over its ranges and their seed (<parameters
+   * members="…" seed="…">; docs/families.md): given or not (then the engine's defaults,
+   * 100 and 1); members 0 … LW_DESIGN_MAX_FAMILY_MEMBERS, the seed a whole number >= 0 */
+  bool has_family_members;
+  size_t family_members;
+  bool has_family_seed;
+  guint64 family_seed;
   /* the units of the plant's input (the actuator's, u) and output (the measured quantity,
    * y), as short free texts ("V", "mm"); NULL: not given (lw_design_unit_problem) */
   char *input_unit;

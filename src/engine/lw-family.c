@@ -27,6 +27,16 @@ lw_family_options_init (LwFamilyOptions *o)
   o->search = TRUE;
 }
 
+void
+lw_family_options_for (LwFamilyOptions *o, const LwDesign *d)
+{
+  lw_family_options_init (o);
+  if (d != NULL && d->has_family_members)
+    o->members = d->family_members;
+  if (d != NULL && d->has_family_seed)
+    o->seed = d->family_seed;
+}
+
 const char *
 lw_family_figure_name (LwFamilyFigure f)
 {
@@ -417,7 +427,7 @@ lw_family_evaluate_controller (const LwDesign *d, double period_s, const LwModel
   LwFamilyOptions defaults;
   if (o == NULL)
     {
-      lw_family_options_init (&defaults);
+      lw_family_options_for (&defaults, d);
       o = &defaults;
     }
   if (o->members > LW_FAMILY_MAX_MEMBERS || (o->n_points != 0 && o->n_points < 16))

@@ -47,6 +47,9 @@ typedef struct
 #define LW_FAMILY_DEFAULT_MEMBERS 100
 
 void lw_family_options_init (LwFamilyOptions *o);
+/* The defaults with d's own members and seed when it gives them (<parameters members seed>);
+ * d may be NULL. What lw_family_evaluate takes for o NULL. */
+void lw_family_options_for (LwFamilyOptions *o, const LwDesign *d);
 
 typedef enum
 {

@@ -26,6 +26,7 @@ Usage: test-cli-family.py CLI
 import math
 import os
 import sys
+import tempfile
 
 import numpy as np
 from scipy import optimize, signal
@@ -150,6 +151,39 @@ def main():
     r = run(cli, 'analyze', *kiln, '--param', 'dead_time_s=3')
     check(r.returncode == 2 and 'given with --dead-time' in r.stderr,
           '--param dead_time_s refused: %s' % r.stderr.strip())
+
+    # the document's own members and seed (<parameters members seed>): the same family as
+    # --members and --seed give a document without them; the options override them
+    doc = '''<?xml version="1.0" encoding="UTF-8"?>
+<design xmlns="urn:loopwright:design" version="1">
+  <title>slider family</title>
+  <plant dead_time_s="0">K/(s*(s+a))</plant>
+  <parameters%s>
+    <parameter name="K" nominal="2000" low="%g" high="%g"/>
+    <parameter name="a" nominal="10" low="%g" high="%g"/>
+  </parameters>
+  <sampling period_s="%r" hold="zero-order" compute_delay_samples="1"/>
+  <variants active="a">
+    <variant name="a">
+      <gain ratio="1"/>
+    </variant>
+  </variants>
+</design>
+'''
+    with tempfile.TemporaryDirectory() as tmp:
+        own, plain = os.path.join(tmp, 'own.lwd'), os.path.join(tmp, 'plain.lwd')
+        for path, attrs in ((own, ' members="12" seed="5"'), (plain, '')):
+            with open(path, 'w', encoding='utf-8') as f:
+                f.write(doc % ((attrs,) + K_RANGE + A_RANGE + (T,)))
+        a = json_of(cli, 'analyze', own, '--json')['family']
+        b = json_of(cli, 'analyze', plain, '--json', '--members', '12', '--seed', '5')['family']
+        c = json_of(cli, 'analyze', plain, '--json')['family']
+        check(a == b and a != c, 'the document\'s members="12" seed="5" are --members 12 '
+              '--seed 5 (%d, %d, default %d members)' % (a['members'], b['members'],
+                                                        c['members']))
+        a = json_of(cli, 'analyze', own, '--json', '--members', '7')['family']
+        b = json_of(cli, 'analyze', plain, '--json', '--members', '7', '--seed', '5')['family']
+        check(a == b, '--members over the document\'s members, its seed kept')
 
     # refusals
     for args, words in ((['--range', 'b=1:2'], "'b=1:2' names no --param"),

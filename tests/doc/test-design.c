@@ -121,9 +121,10 @@ test_round_trip (void **state)
     }
 }
 
-/* Operating points (<point> in <parameters>): a literal document in canonical form reads
- * back to its bytes, the values at each point are the point's own and the nominals, copies
- * and comparisons see the points, and a point the API breaks is refused on save. */
+/* Operating points (<point> in <parameters>) and the family's members and seed: a literal
+ * document in canonical form reads back to its bytes, the values at each point are the
+ * point's own and the nominals, copies and comparisons see the points and the members and
+ * seed, and a point the API breaks is refused on save. */
 static void
 test_round_trip_points (void **state)
 {
@@ -133,7 +134,7 @@ test_round_trip_points (void **state)
     "<design xmlns=\"urn:loopwright:design\" version=\"1\">\n"
     "  <title>pump over tank level</title>\n"
     "  <plant dead_time_s=\"0.02\">K/((0.3*s+1)*(tau*s+1))</plant>\n"
-    "  <parameters>\n"
+    "  <parameters members=\"250\" seed=\"18446744\">\n"
     "    <parameter name=\"K\" nominal=\"0.8\" low=\"0.7\" high=\"0.9\"/>\n"
     "    <parameter name=\"tau\" nominal=\"0.05\"/>\n"
     "    <parameter name=\"dead_time_s\" nominal=\"0.02\"/>\n"
@@ -156,6 +157,8 @@ test_round_trip_points (void **state)
   if (d == NULL)
     fail_msg ("did not load: %s", error->message);
   assert_int_equal (d->n_points, 3);
+  assert_true (d->has_family_members && d->family_members == 250);
+  assert_true (d->has_family_seed && d->family_seed == 18446744);
   assert_string_equal (d->points[0].name, "empty tank");
   assert_int_equal (d->points[0].n_values, 2);
   assert_int_equal (d->points[1].n_values, 0);
@@ -178,6 +181,13 @@ test_round_trip_points (void **state)
   c->points[0].values[1].value = 1.2;
   assert_false (lw_design_equal (d, c));
   c->points[0].values[1].value = 1.1;
+  assert_true (lw_design_equal (d, c));
+  c->family_seed = 2;
+  assert_false (lw_design_equal (d, c));
+  c->family_seed = d->family_seed;
+  c->has_family_members = false;
+  assert_false (lw_design_equal (d, c));
+  c->has_family_members = true;
   assert_true (lw_design_equal (d, c));
   /* broken through the API: refused on save, naming the point */
   lw_design_set_string (&c->points[2].values[0].parameter, "m");
