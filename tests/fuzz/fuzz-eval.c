@@ -22,6 +22,7 @@
 #include "lw-design.h"
 #include "lw-engine.h"
 #include "lw-family.h"
+#include "lw-family-measured.h"
 
 int LLVMFuzzerTestOneInput (const uint8_t *data, size_t size);
 
@@ -78,16 +79,15 @@ check_eval (const LwVariantEval *e)
         bad ("a stable loop's simulated step not finite", (double) k, e->sim_ref->y[k]);
 }
 
-/* A design with ranged parameters: a small family (the nominal, the corners, 3 drawn, the
- * search on) evaluates without a crash, its worst figures are figures of its members, and the
- * nominal is its first member. */
+/* A design with ranged parameters or operating points: a small family (the nominal, the
+ * points, the corners, 3 drawn, the search on) evaluates without a crash, its worst figures
+ * are figures of its members, and the nominal is its first member; the loops drawn for its
+ * figures are made, and again with the variant's controller from their plants (the window's
+ * drag). */
 static void
 check_family (const LwDesign *d)
 {
-  gboolean ranged = FALSE;
-  for (size_t i = 0; i < d->n_params; i++)
-    ranged = ranged || d->params[i].ranged;
-  if (!ranged || !lw_design_has_model (d))
+  if (!lw_family_wanted (d) || !lw_design_has_model (d))
     return;
   LwFamilyOptions o;
   lw_family_options_init (&o);
@@ -119,7 +119,35 @@ check_family (const LwDesign *d)
           bad ("a member worse than the worst", f->members[i].figure[k],
                f->members[w].figure[k]);
     }
+  LwFamilyLoops *l = lw_family_loops (d, d->active, f, 4, 64);
+  LwFamilyLoops *again = lw_family_loops_again (l, d, d->active, 32);
+  if (again->n != l->n || again->n_worst > again->n)
+    bad ("the drag's loops are not the drawn members", (double) again->n, (double) l->n);
+  lw_family_loops_free (again);
+  lw_family_loops_free (l);
   lw_family_free (f);
+}
+
+/* A design holding several measured responses: each closed with the variant's loop, the
+ * worst figures those of a response. */
+static void
+check_measured_family (const LwDesign *d, const LwVariantEval *e)
+{
+  if (!lw_measured_family_wanted (d))
+    return;
+  GError *error = NULL;
+  LwMeasuredFamily *f = lw_measured_family_evaluate (d, e, &error);
+  if (f == NULL)
+    {
+      if (error == NULL || error->message[0] == '\0')
+        bad ("a measured family refused without a message", 0, 0);
+      g_clear_error (&error);
+      return;
+    }
+  for (int k = 0; k < LW_MEASURED_FAMILY_N_FIGURES; k++)
+    if (f->worst[k] != G_MAXSIZE && f->worst[k] >= f->n_sets)
+      bad ("a measured family's worst from no response", (double) f->worst[k], k);
+  lw_measured_family_free (f);
 }
 
 int
@@ -139,6 +167,8 @@ LLVMFuzzerTestOneInput (const uint8_t *data, size_t size)
     {
       LwVariantEval *e = lw_engine_evaluate_variant (d, i, NULL, cache);
       check_eval (e);
+      if (i == d->active)
+        check_measured_family (d, e);
       lw_variant_eval_unref (e);
     }
   lw_plant_cache_unref (cache);
