@@ -41,6 +41,13 @@ lw_family_summary (const LwFamily *family, const LwDesign *d, const GError *erro
       g_string_append_printf (t, _("Plant family: %zu members"), family->n_members);
       if (family->n_unstable > 0)
         g_string_append_printf (t, _(", %zu with the loop NOT stable"), family->n_unstable);
+      /* judged on the data: the members are the model's (the CLI's words,
+       * LW_CLI_FAMILY_ON_MODEL_NOTE; docs/families.md) */
+      if (lw_design_analysis_on_data (d))
+        {
+          g_string_append_c (t, '\n');
+          g_string_append (t, lw_family_on_model_note ());
+        }
       const LwFamilyFigure shown[] = { LW_FAMILY_PHASE_MARGIN, LW_FAMILY_GAIN_MARGIN,
                                        LW_FAMILY_SENSITIVITY };
       for (size_t k = 0; k < G_N_ELEMENTS (shown); k++)
@@ -67,6 +74,13 @@ lw_family_summary (const LwFamily *family, const LwDesign *d, const GError *erro
         }
     }
   return g_string_free (t, FALSE);
+}
+
+const char *
+lw_family_on_model_note (void)
+{
+  return _("these are the plant model's members (the family is on the plant model; the design "
+           "is judged on the measured data)");
 }
 
 char *

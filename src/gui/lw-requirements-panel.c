@@ -10,6 +10,7 @@
 #include "lw-gui-util.h"
 #include "lw-number-field.h"
 #include "lw-family-summary.h"
+#include "lw-measured-family-summary.h"
 #include "lw-requirements-panel.h"
 
 struct _LwRequirementsPanel
@@ -19,6 +20,7 @@ struct _LwRequirementsPanel
   GtkGrid *req_grid;
   GtkGrid *figure_grid;
   GtkLabel *family_label;
+  GtkLabel *measured_label;     /* the measured family's worst cases */
 
   LwDesignModel *model;
   GSignalGroup *model_signals;   /* the model's signals, following self->model */
@@ -585,28 +587,43 @@ lw_requirements_panel_show_eval (LwRequirementsPanel *self, LwVariantEval *eval)
   show_figures (self, eval);
 }
 
+/* A family's summary in label: text (taken; NULL: hidden); stale: a drag is on, the last one
+ * stays, dimmed (the family is evaluated again when it ends). */
+static void
+show_summary (GtkLabel *label, char *text, gboolean stale)
+{
+  g_autofree char *owned = text;
+  GtkWidget *w = GTK_WIDGET (label);
+  if (stale)
+    {
+      if (gtk_widget_get_visible (w))
+        gtk_widget_add_css_class (w, "dim-label");
+      return;
+    }
+  gtk_widget_remove_css_class (w, "dim-label");
+  if (text != NULL)
+    gtk_label_set_text (label, text);
+  gtk_widget_set_visible (w, text != NULL);
+}
+
 void
 lw_requirements_panel_show_family (LwRequirementsPanel *self, const LwFamily *family,
                                    const LwDesign *d, const GError *error, gboolean stale)
 {
   g_return_if_fail (LW_IS_REQUIREMENTS_PANEL (self));
-  GtkWidget *label = GTK_WIDGET (self->family_label);
-  if (stale)
-    {
-      /* a drag: the family is evaluated again when it ends */
-      if (gtk_widget_get_visible (label))
-        gtk_widget_add_css_class (label, "dim-label");
-      return;
-    }
-  gtk_widget_remove_css_class (label, "dim-label");
-  if (family == NULL && error == NULL)
-    {
-      gtk_widget_set_visible (label, FALSE);
-      return;
-    }
-  g_autofree char *text = lw_family_summary (family, d, error);
-  gtk_label_set_text (self->family_label, text);
-  gtk_widget_set_visible (label, TRUE);
+  show_summary (self->family_label, !stale && (family != NULL || error != NULL)
+                                      ? lw_family_summary (family, d, error) : NULL, stale);
+}
+
+void
+lw_requirements_panel_show_measured_family (LwRequirementsPanel *self,
+                                            const LwMeasuredFamily *family,
+                                            const GError *error, gboolean stale)
+{
+  g_return_if_fail (LW_IS_REQUIREMENTS_PANEL (self));
+  show_summary (self->measured_label, !stale && (family != NULL || error != NULL)
+                                        ? lw_measured_family_summary (family, error) : NULL,
+                stale);
 }
 
 static void
@@ -652,6 +669,7 @@ lw_requirements_panel_class_init (LwRequirementsPanelClass *klass)
   gtk_widget_class_bind_template_child (widget_class, LwRequirementsPanel, req_grid);
   gtk_widget_class_bind_template_child (widget_class, LwRequirementsPanel, figure_grid);
   gtk_widget_class_bind_template_child (widget_class, LwRequirementsPanel, family_label);
+  gtk_widget_class_bind_template_child (widget_class, LwRequirementsPanel, measured_label);
   gtk_widget_class_install_action (widget_class, "requirements.add", "s", add_activated);
   gtk_widget_class_set_layout_manager_type (widget_class, GTK_TYPE_BIN_LAYOUT);
 }

@@ -10,6 +10,7 @@
 #include <gtk/gtk.h>
 
 #include "lw-family.h"
+#include "lw-family-measured.h"
 
 #include "lw-design-model.h"
 
@@ -31,5 +32,12 @@ void lw_requirements_panel_show_eval (LwRequirementsPanel *self, LwVariantEval *
 void lw_requirements_panel_show_family (LwRequirementsPanel *self, const LwFamily *family,
                                         const LwDesign *d, const GError *error,
                                         gboolean stale);
+/* The measured family of the active variant (lw-family-measured.h: the design holds more than
+ * one measured response) under the plant family's summary, the same way: its responses, the
+ * worst margins and sensitivity peak with the responses giving them, the requirements judged
+ * on the data passing on every response (or that it is not judged: analysis="model"). */
+void lw_requirements_panel_show_measured_family (LwRequirementsPanel *self,
+                                                 const LwMeasuredFamily *family,
+                                                 const GError *error, gboolean stale);
 
 G_END_DECLS

@@ -19,6 +19,7 @@
 #include <stdio.h>
 
 #include "lw-family.h"
+#include "lw-family-summary.h"
 #include "lw-figure-data.h"
 #include "lw-window-private.h"
 
@@ -195,6 +196,8 @@ family_done (GObject *source, GAsyncResult *result, gpointer user_data)
               f->n_not_passing,
               w != G_MAXSIZE ? f->members[w].figure[LW_FAMILY_PHASE_MARGIN] : NAN,
               pf != NULL ? pf->n : 0);
+      if (lw_design_analysis_on_data (fj->doc))
+        printf ("LW-FAMILY-NOTE %s\n", lw_family_on_model_note ());
       fflush (stdout);
     }
 }

@@ -13,6 +13,9 @@
  *   lw-window-helpers.c  the formula helpers (lw-helper-dialog) applied as one undo step
  *   lw-window-measured.c a measured response: import, judge on it, fit a model to it
  *                        (lw-fit-dialog, "Use as Plant" one undo step), remove it
+ *   lw-window-family.c   the plant family: evaluated on a worker, summarised, drawn
+ *   lw-window-measured-family.c  the measured family (several measured responses):
+ *                        evaluated on a worker, summarised under the loop figures
  *   lw-window-theme.c    the plots' colours following the dark style
  *   lw-window-testing.c  the drag benchmark and the test hook of Export Figure
  *
@@ -71,6 +74,9 @@ struct _LwWindow
   gpointer family_drag_pending; /* the newest drag step waiting for it (DragJob), or NULL */
   gboolean family_redraw;       /* a new picture: the figures are drawn again at the next frame */
   guint family_tick;            /* … by this tick callback, or 0 */
+  gboolean measured_family_running; /* a measured family is being evaluated
+                                       (lw-window-measured-family.c) */
+  gpointer measured_family_pending; /* the newest one asked for meanwhile, or NULL */
   gboolean one_column;
 
   /* file and unsaved state */
@@ -189,6 +195,15 @@ void lw_window_follow_family (LwWindow *self, const LwDesign *doc, size_t varian
 const LwPlotFamily *lw_window_family_drawn (LwWindow *self);
 void lw_window_clear_family_picture (LwWindow *self);
 void lw_family_picture_unref (LwFamilyPicture *p);
+/* lw-window-measured-family.c: the measured family (lw_measured_family_wanted: more than one
+ * measured response) of doc closed with the loop of eval (the active variant's evaluation of
+ * `generation`, just put on show) on a worker, shown under the loop figures when that
+ * evaluation is still on show; one at a time, the newest waiting. Without a measured family
+ * its summary is hidden; during a drag (an evaluation on fewer points) the last one stays,
+ * dimmed. drop: the waiting one dropped (the window goes). */
+void lw_window_show_measured_family (LwWindow *self, const LwDesign *doc, LwVariantEval *eval,
+                                     guint64 generation, gboolean dragging);
+void lw_window_drop_measured_family (LwWindow *self);
 /* lw-window.c: the figures drawn again from the evaluation on show (not the panels). */
 void lw_window_show_plots (LwWindow *self);
 

@@ -346,6 +346,9 @@ eval_job_show (LwWindow *self, EvalJob *job)
       if (job->n_points == DRAG_POINTS && nominal_ok)
         lw_window_follow_family (self, job->doc, job->index[0], job->generation);
     }
+  /* several measured responses: the measured family, the same way (not during a drag) */
+  lw_window_show_measured_family (self, job->doc, self->eval, job->generation,
+                                  job->n_points == DRAG_POINTS);
 }
 
 static void
@@ -578,6 +581,7 @@ lw_window_dispose (GObject *object)
   g_clear_pointer (&self->bench_paint, g_array_unref);
   g_clear_pointer (&self->ref_evals, g_hash_table_unref);
   lw_window_drop_family (self);
+  lw_window_drop_measured_family (self);
   if (self->eval_cancel != NULL)
     g_cancellable_cancel (self->eval_cancel);
   g_clear_object (&self->eval_cancel);
