@@ -3,7 +3,7 @@
  * worst cases shown under the loop figures and its members drawn in the loop views
  * (docs/families.md, "In the window").
  *
- * A family's picture (FamilyPicture) is the members' loops drawn with the active variant:
+ * A family's picture (LwFamilyPicture) is the members' loops drawn with the active variant:
  * after an edit, the whole family is evaluated and up to LW_FAMILY_LOOPS_OTHERS members
  * besides the worst of each figure are drawn on LW_FAMILY_LOOPS_POINTS points. During a drag
  * the same members' loops follow the dragged controller on DRAG_FAMILY_POINTS points, on a
@@ -86,8 +86,7 @@ lw_window_family_drawn (LwWindow *self)
   return &p->ff.f;
 }
 
-/* The picture on show replaced by p (taken), the figures drawn again at the next frame unless
- * an evaluation shows them first. */
+/* The figures drawn again with the picture on show, unless an evaluation showed them first. */
 static gboolean
 redraw_tick (GtkWidget *widget, GdkFrameClock *clock, gpointer user_data)
 {
@@ -98,6 +97,7 @@ redraw_tick (GtkWidget *widget, GdkFrameClock *clock, gpointer user_data)
   return G_SOURCE_REMOVE;
 }
 
+/* The picture on show replaced by p (taken), the figures drawn again at the next frame. */
 static void
 show_picture (LwWindow *self, LwFamilyPicture *p)
 {
