@@ -1,6 +1,8 @@
 /* lw-design-model-params.c — the plant's named parameters in the window's model: the names
  * the plant's text uses, setting and removing a parameter (each one "changed", so one undo
- * step), and what would be wrong with a parameter before it is set (docs/families.md).
+ * step; a parameter removed takes its values in the operating points with it), and what
+ * would be wrong with a parameter before it is set, the operating points' rules included
+ * (docs/families.md).
  * SPDX-License-Identifier: GPL-3.0-or-later
  */
 #include "config.h"
@@ -126,7 +128,7 @@ params_problem (const LwDesign *d, LwDesignParam *params, size_t n)
   char buf[512];
   const char *problem = lw_design_params_problem (&view, buf, sizeof buf);
   if (problem == NULL)
-    return NULL;
+    return lw_design_model_points_problem (&view);   /* the points with these parameters */
   if (lw_design_has_model (&view))
     {
       LwModel *m = NULL;
@@ -201,11 +203,29 @@ lw_design_model_remove_param (LwDesignModel *self, const char *name)
   gssize at = lw_design_param_index (d, name);
   if (at < 0)
     return FALSE;
+  g_autofree char *gone = g_strdup (name);   /* name may be one of the strings freed below */
+  name = gone;
+  /* the points' values of it go with it (a point names only parameters the design has) */
+  for (size_t i = 0; i < d->n_points; i++)
+    {
+      LwDesignPoint *p = &d->points[i];
+      size_t kept = 0;
+      for (size_t v = 0; v < p->n_values; v++)
+        if (strcmp (p->values[v].parameter, name) == 0)
+          g_free (p->values[v].parameter);
+        else
+          p->values[kept++] = p->values[v];
+      p->n_values = kept;
+    }
   g_free (d->params[at].name);
   memmove (&d->params[at], &d->params[at + 1],
            (d->n_params - (size_t) at - 1) * sizeof *d->params);
   if (--d->n_params == 0)
-    g_clear_pointer (&d->params, g_free);
+    {
+      /* no parameter, no point: a document writes them inside <parameters> */
+      g_clear_pointer (&d->params, g_free);
+      lw_design_clear_points (d);
+    }
   lw_design_model_emit_changed (self);
   return TRUE;
 }
