@@ -118,7 +118,8 @@ params_with (const LwDesign *d, const LwDesignParam *p, size_t *n_out)
 /* What lw_design_params_problem says of the document with params in place of its own, or
  * NULL. A plant that does not parse at the nominals is not the parameter's fault (a name not
  * given yet, an expression half typed): the plant's own error says it, so that one is let
- * through; a parameter refused on its own or a corner where the plant fails is not. */
+ * through; a parameter refused on its own or a corner where the plant fails is not. Then the
+ * operating points with these parameters (lw_design_model_points_problem). */
 static char *
 params_problem (const LwDesign *d, LwDesignParam *params, size_t n)
 {
@@ -137,7 +138,7 @@ params_problem (const LwDesign *d, LwDesignParam *params, size_t n)
       LwStatus st = lw_design_plant_parse (&view, NULL, &m, &err);
       lw_model_free (m);
       if (st != LW_OK && strcmp (problem, err.message) == 0)
-        return NULL;
+        return lw_design_model_points_problem (&view);
     }
   return g_strdup (problem);
 }
