@@ -98,6 +98,7 @@ mark (LwPointRows *self, GtkWidget *entry, const char *why)
 {
   if (why == NULL)
     {
+      set_data (entry, "lw-point-refused", NULL);
       if (gtk_widget_has_css_class (entry, "error"))
         {
           gtk_widget_remove_css_class (entry, "error");
@@ -107,6 +108,7 @@ mark (LwPointRows *self, GtkWidget *entry, const char *why)
       return;
     }
   g_autofree char *tip = g_strdup_printf (_("%s: %s; not taken."), field_of (entry), why);
+  set_data (entry, "lw-point-refused", gtk_editable_get_text (GTK_EDITABLE (entry)));
   gtk_widget_add_css_class (entry, "error");
   lw_gui_set_tooltip (entry, tip);
   show_problem (self, field_of (entry), why);
@@ -172,6 +174,10 @@ take (LwPointRows *self, GtkEntry *entry)
 {
   if (self->filling || self->model == NULL || gtk_widget_get_parent (GTK_WIDGET (entry)) == NULL
       || lw_design_find_point (lw_design_model_get_design (self->model), point_of (entry)) < 0)
+    return;
+  /* a text refused already stays refused, marked, until it is edited */
+  if (g_strcmp0 (gtk_editable_get_text (GTK_EDITABLE (entry)),
+                 g_object_get_data (G_OBJECT (entry), "lw-point-refused")) == 0)
     return;
   if (param_of (entry) != NULL)
     take_value (self, entry);
@@ -294,6 +300,8 @@ add_point_row (LwPointRows *self, const LwDesignPoint *p, int row)
   gtk_widget_set_tooltip_text (b, tip);
   set_data (b, "lw-point-name", p->name);
   g_signal_connect_object (b, "clicked", G_CALLBACK (remove_clicked), self, 0);
+  g_autofree char *field = g_strdup_printf ("Remove %s", p->name);   /* for the window tests */
+  lw_number_field_watch_widget (b, field);
   gtk_grid_attach (self->grid, b, 1 + (int) d->n_params, row, 1, 1);
 }
 
