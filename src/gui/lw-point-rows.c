@@ -254,8 +254,7 @@ point_entry (LwPointRows *self, const char *point, const char *param, int col, i
       gtk_editable_set_text (GTK_EDITABLE (entry), text);
       gtk_editable_set_width_chars (GTK_EDITABLE (entry), 5);
       gtk_widget_set_hexpand (entry, TRUE);
-      /* TRANSLATORS: the field of a parameter's value at an operating point, e.g. "K at
-       * point 1" */
+      /* TRANSLATORS: a parameter's value at an operating point, e.g. "K at point 1" */
       field = g_strdup_printf (_("%s at %s"), param, point);
       tip = g_strdup_printf (_("The value of %s at this point; empty: its nominal value"),
                              param);
@@ -344,9 +343,8 @@ rebuild (LwPointRows *self)
   while ((child = gtk_widget_get_first_child (GTK_WIDGET (self->grid))) != NULL)
     gtk_grid_remove (self->grid, child);
   const LwDesign *d = lw_design_model_get_design (self->model);
-  if (d->n_points > 0)
+  if (d->n_points > 0)   /* a heading over each column: the points' names, the parameters */
     {
-      /* a heading over each column: the names of the points, then of the parameters */
       GtkWidget *h = gtk_label_new (_("Name"));
       gtk_label_set_xalign (GTK_LABEL (h), 0.0f);
       gtk_widget_add_css_class (h, "dim-label");
