@@ -107,6 +107,13 @@ lw_design_model_points_problem (const LwDesign *d)
   return NULL;
 }
 
+char *
+lw_design_model_get_points_problem (LwDesignModel *self)
+{
+  g_return_val_if_fail (LW_IS_DESIGN_MODEL (self), NULL);
+  return lw_design_model_points_problem (self->doc);
+}
+
 /* What the points would be with point `at` replaced by p (appended when at is the number of
  * points): NULL when acceptable. */
 static char *

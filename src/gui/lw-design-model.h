@@ -208,6 +208,10 @@ gboolean lw_design_model_rename_point (LwDesignModel *self, const char *point,
  * the point's. */
 gboolean lw_design_model_set_point_value (LwDesignModel *self, const char *point,
                                           const char *param, const double *value, char **why);
+/* What is wrong with the design's operating points as they are (a plant typed since that is
+ * improper or zero at one), or NULL (g_free); a plant failing at a point as at the nominals
+ * is the plant's error, not the point's. */
+char *lw_design_model_get_points_problem (LwDesignModel *self);
 /* Removes point `point` (one "changed"); FALSE when there is none. */
 gboolean lw_design_model_remove_point (LwDesignModel *self, const char *point);
 

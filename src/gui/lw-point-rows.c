@@ -31,6 +31,8 @@ struct _LwPointRows
   GtkGrid *grid;
   GtkWidget *add_button;
   GtkLabel *problem;            /* a refusal, under the rows */
+  GtkLabel *state;              /* what is wrong with the points as they are (a plant typed
+                                   since that fails at one), over the button */
 
   LwDesignModel *model;
   GSignalGroup *model_signals;
@@ -408,11 +410,25 @@ update_values (LwPointRows *self)
   self->filling = FALSE;
 }
 
+/* A plant typed since a point was made may be improper or zero there: said over the button
+ * (the document is not saved so). */
+static void
+update_state (LwPointRows *self)
+{
+  g_autofree char *problem = lw_design_model_get_points_problem (self->model);
+  /* TRANSLATORS: what is wrong with the points ("at operating point 'full': …") */
+  g_autofree char *msg = problem != NULL ? g_strdup_printf (_("Operating points: %s"), problem)
+                                         : NULL;
+  gtk_label_set_text (self->state, msg);
+  gtk_widget_set_visible (GTK_WIDGET (self->state), msg != NULL);
+}
+
 static void
 model_changed (LwPointRows *self)
 {
   if (self->model == NULL)
     return;
+  update_state (self);
   g_autofree char *shape = rows_shape (self);
   if (g_strcmp0 (shape, self->shape) == 0)
     {
@@ -436,6 +452,7 @@ lw_point_rows_set_model (LwPointRows *self, LwDesignModel *model)
   g_free (self->shape);
   self->shape = rows_shape (self);
   show_problem (self, NULL, NULL);
+  update_state (self);
   rebuild (self);
 }
 
@@ -478,6 +495,16 @@ lw_point_rows_init (LwPointRows *self)
   gtk_grid_set_row_spacing (self->grid, 6);
   gtk_grid_set_column_spacing (self->grid, 6);
   gtk_box_append (GTK_BOX (self->box), GTK_WIDGET (self->grid));
+
+  self->state = GTK_LABEL (gtk_label_new (NULL));
+  gtk_label_set_xalign (self->state, 0.0f);
+  gtk_label_set_wrap (self->state, TRUE);
+  gtk_label_set_wrap_mode (self->state, PANGO_WRAP_WORD_CHAR);
+  gtk_label_set_width_chars (self->state, 20);
+  gtk_label_set_max_width_chars (self->state, 40);
+  gtk_widget_add_css_class (GTK_WIDGET (self->state), "error");
+  gtk_widget_set_visible (GTK_WIDGET (self->state), FALSE);
+  gtk_box_append (GTK_BOX (self->box), GTK_WIDGET (self->state));
 
   self->add_button = gtk_button_new_with_label (_("Add operating point"));
   gtk_widget_set_halign (self->add_button, GTK_ALIGN_START);

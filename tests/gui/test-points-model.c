@@ -258,9 +258,17 @@ test_remove_param (void **state)
 
   /* a plant that does not parse at the nominals: a point is not blamed for it */
   lw_design_model_set_plant_text (m, "K/(s*(s+a+b))");
+  assert_null (lw_design_model_get_points_problem (m));
   assert_true (lw_design_model_add_point (m, NULL));
   assert_true (lw_design_model_set_point_value (m, "point 2", "K", &k, NULL));
+  /* a plant typed that is zero at a point (K = 200 there): said, not hidden */
+  lw_design_model_set_plant_text (m, "(K-200)/(s*(s+a))");
+  char *now = lw_design_model_get_points_problem (m);
+  assert_non_null (now);
+  assert_string_equal (now, "at operating point 'point 1': the expression is identically zero");
+  g_free (now);
   lw_design_model_set_plant_text (m, "K/(s*(s+a))");
+  assert_null (lw_design_model_get_points_problem (m));
   assert_valid (m);
   lw_history_commit (h);
 
