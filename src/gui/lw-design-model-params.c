@@ -1,6 +1,8 @@
 /* lw-design-model-params.c — the plant's named parameters in the window's model: the names
  * the plant's text uses, setting and removing a parameter (each one "changed", so one undo
- * step), and what would be wrong with a parameter before it is set (docs/families.md).
+ * step; a parameter removed takes its values in the operating points with it), and what
+ * would be wrong with a parameter before it is set, the operating points' rules included
+ * (docs/families.md).
  * SPDX-License-Identifier: GPL-3.0-or-later
  */
 #include "config.h"
@@ -116,7 +118,8 @@ params_with (const LwDesign *d, const LwDesignParam *p, size_t *n_out)
 /* What lw_design_params_problem says of the document with params in place of its own, or
  * NULL. A plant that does not parse at the nominals is not the parameter's fault (a name not
  * given yet, an expression half typed): the plant's own error says it, so that one is let
- * through; a parameter refused on its own or a corner where the plant fails is not. */
+ * through; a parameter refused on its own or a corner where the plant fails is not. Then the
+ * operating points with these parameters (lw_design_model_points_problem). */
 static char *
 params_problem (const LwDesign *d, LwDesignParam *params, size_t n)
 {
@@ -126,7 +129,7 @@ params_problem (const LwDesign *d, LwDesignParam *params, size_t n)
   char buf[512];
   const char *problem = lw_design_params_problem (&view, buf, sizeof buf);
   if (problem == NULL)
-    return NULL;
+    return lw_design_model_points_problem (&view);   /* the points with these parameters */
   if (lw_design_has_model (&view))
     {
       LwModel *m = NULL;
@@ -135,7 +138,7 @@ params_problem (const LwDesign *d, LwDesignParam *params, size_t n)
       LwStatus st = lw_design_plant_parse (&view, NULL, &m, &err);
       lw_model_free (m);
       if (st != LW_OK && strcmp (problem, err.message) == 0)
-        return NULL;
+        return lw_design_model_points_problem (&view);
     }
   return g_strdup (problem);
 }
@@ -201,11 +204,29 @@ lw_design_model_remove_param (LwDesignModel *self, const char *name)
   gssize at = lw_design_param_index (d, name);
   if (at < 0)
     return FALSE;
+  g_autofree char *gone = g_strdup (name);   /* name may be one of the strings freed below */
+  name = gone;
+  /* the points' values of it go with it (a point names only parameters the design has) */
+  for (size_t i = 0; i < d->n_points; i++)
+    {
+      LwDesignPoint *p = &d->points[i];
+      size_t kept = 0;
+      for (size_t v = 0; v < p->n_values; v++)
+        if (strcmp (p->values[v].parameter, name) == 0)
+          g_free (p->values[v].parameter);
+        else
+          p->values[kept++] = p->values[v];
+      p->n_values = kept;
+    }
   g_free (d->params[at].name);
   memmove (&d->params[at], &d->params[at + 1],
            (d->n_params - (size_t) at - 1) * sizeof *d->params);
   if (--d->n_params == 0)
-    g_clear_pointer (&d->params, g_free);
+    {
+      /* no parameter, no point: a document writes them inside <parameters> */
+      g_clear_pointer (&d->params, g_free);
+      lw_design_clear_points (d);
+    }
   lw_design_model_emit_changed (self);
   return TRUE;
 }

@@ -21,3 +21,9 @@ struct _LwDesignModel
 void lw_design_model_emit_changed (LwDesignModel *self);
 /* "variants-changed" (and "stages-changed" when stages_too), then "changed". */
 void lw_design_model_emit_variants_changed (LwDesignModel *self, gboolean stages_too);
+
+/* What would be wrong with the operating points of d (a view of the document with some
+ * parameters or points in place of its own), or NULL (g_free): lw_design_points_problem's
+ * rules, except that a plant failing at a point as it fails at the nominals (a name still to
+ * be given) is the plant's error, not the point's. lw-design-model-points.c. */
+char *lw_design_model_points_problem (const LwDesign *d);

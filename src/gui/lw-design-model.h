@@ -177,8 +177,44 @@ char *lw_design_model_param_problem (LwDesignModel *self, const LwDesignParam *p
  * parameter keeps no range. FALSE with *why (may be NULL; g_free) and nothing changed when
  * refused. */
 gboolean lw_design_model_set_param (LwDesignModel *self, const LwDesignParam *p, char **why);
-/* Removes the parameter called name (one "changed"); FALSE when there is none. */
+/* Removes the parameter called name (one "changed"); FALSE when there is none. The points'
+ * values of it go with it, and the points themselves with the last parameter (a document
+ * writes points inside <parameters>). */
 gboolean lw_design_model_remove_param (LwDesignModel *self, const char *name);
+/* The operating points of the plant family (the document's <point> elements, in order;
+ * docs/families.md), found by their names (unique). The pointer is valid until the next edit.
+ * lw-design-model-points.c. */
+guint lw_design_model_get_n_points (LwDesignModel *self);
+const LwDesignPoint *lw_design_model_get_point (LwDesignModel *self, guint i);
+/* Whether point gives a value for parameter param (*value), or takes its nominal. */
+gboolean lw_design_model_get_point_value (LwDesignModel *self, const char *point,
+                                          const char *param, double *value);
+/* Appends a point with no values (the nominal plant until values are given), named "point N"
+ * (the first N from the number of points + 1 that no point has): one "changed". FALSE with
+ * *why (may be NULL; g_free) when the design would refuse it (no parameters, a parameter
+ * called "point", LW_DESIGN_MAX_POINTS reached). */
+gboolean lw_design_model_add_point (LwDesignModel *self, char **why);
+/* Renames point `point` to name: one "changed" (none when it has that name already). FALSE
+ * with *why, nothing changed, when lw_design_points_problem would refuse it (a name empty,
+ * over 64 bytes, with ':' or a tab, a space at either end, or another point's). */
+gboolean lw_design_model_rename_point (LwDesignModel *self, const char *point,
+                                       const char *name, char **why);
+/* Gives point `point` the value *value of parameter param, or (value NULL) takes the value
+ * away so that the point takes the nominal: one "changed" (none when nothing changes). The
+ * values stay in the order of the parameters. FALSE with *why, nothing changed, when the
+ * design would refuse it: a value not finite, a parameter the design does not have, a dead
+ * time negative or over 1e6 sample periods, a plant improper or zero at the point. A plant
+ * that does not parse at the nominals (a name still to be given) is the plant's error, not
+ * the point's. */
+gboolean lw_design_model_set_point_value (LwDesignModel *self, const char *point,
+                                          const char *param, const double *value, char **why);
+/* What is wrong with the design's operating points as they are (a plant typed since that is
+ * improper or zero at one), or NULL (g_free); a plant failing at a point as at the nominals
+ * is the plant's error, not the point's. */
+char *lw_design_model_get_points_problem (LwDesignModel *self);
+/* Removes point `point` (one "changed"); FALSE when there is none. */
+gboolean lw_design_model_remove_point (LwDesignModel *self, const char *point);
+
 /* Removes variant i; FALSE for the last one left. The active index follows its variant, or
  * moves to the neighbour when the active one goes. */
 gboolean lw_design_model_remove_variant (LwDesignModel *self, guint i);
