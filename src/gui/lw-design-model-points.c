@@ -281,3 +281,26 @@ lw_design_model_remove_point (LwDesignModel *self, const char *point)
   lw_design_model_emit_changed (self);
   return TRUE;
 }
+
+char *
+lw_design_model_params_key (LwDesignModel *self)
+{
+  g_return_val_if_fail (LW_IS_DESIGN_MODEL (self), NULL);
+  const LwDesign *d = lw_design_model_get_design (self);
+  GString *k = g_string_new (d->plant);
+  g_string_append_printf (k, "\x1f%.17g\x1f%.17g", d->dead_time_s, d->period_s);
+  for (size_t i = 0; i < d->n_params; i++)
+    {
+      const LwDesignParam *p = &d->params[i];
+      g_string_append_printf (k, "\x1e%s %.17g %d %.17g %.17g %d", p->name, p->nominal,
+                              p->ranged, p->low, p->high, (int) p->spread);
+    }
+  for (size_t i = 0; i < d->n_points; i++)
+    {
+      const LwDesignPoint *pt = &d->points[i];
+      g_string_append_printf (k, "\x1d%s", pt->name);
+      for (size_t j = 0; j < pt->n_values; j++)
+        g_string_append_printf (k, " %s=%.17g", pt->values[j].parameter, pt->values[j].value);
+    }
+  return g_string_free (k, FALSE);
+}

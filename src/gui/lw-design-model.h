@@ -212,6 +212,10 @@ gboolean lw_design_model_set_point_value (LwDesignModel *self, const char *point
  * improper or zero at one), or NULL (g_free); a plant failing at a point as at the nominals
  * is the plant's error, not the point's. */
 char *lw_design_model_get_points_problem (LwDesignModel *self);
+/* What the parameter and point rows show, as text: the plant, its dead time and period, the
+ * parameters and the points with every number to 17 digits. Equal texts: nothing they show
+ * changed (a stage dragged), so they need not be touched. g_free it. */
+char *lw_design_model_params_key (LwDesignModel *self);
 /* Removes point `point` (one "changed"); FALSE when there is none. */
 gboolean lw_design_model_remove_point (LwDesignModel *self, const char *point);
 

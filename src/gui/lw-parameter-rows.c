@@ -46,6 +46,7 @@ struct _LwParameterRows
   GSignalGroup *model_signals;
   GPtrArray *rows;              /* of Row *, the parameters shown */
   char *shape;                  /* what the rows were built for (rows_shape) */
+  char *key;                    /* what they show (lw_design_model_params_key) */
   guint rebuild_id;
   gboolean filling;             /* showing the model: do not write back */
   char *refocus;                /* a parameter just added from its empty row: the focus goes
@@ -561,6 +562,12 @@ model_changed (LwParameterRows *self)
 {
   if (self->model == NULL)
     return;
+  /* a change they do not show (a stage dragged, every frame): nothing to do */
+  g_autofree char *key = lw_design_model_params_key (self->model);
+  if (g_strcmp0 (key, self->key) == 0)
+    return;
+  g_free (self->key);
+  self->key = g_steal_pointer (&key);
   g_autofree char *shape = rows_shape (self);
   if (g_strcmp0 (shape, self->shape) == 0)
     {
@@ -619,6 +626,7 @@ lw_parameter_rows_dispose (GObject *object)
   g_clear_object (&self->label_group);
   g_clear_pointer (&self->rows, g_ptr_array_unref);
   g_clear_pointer (&self->shape, g_free);
+  g_clear_pointer (&self->key, g_free);
   g_clear_pointer (&self->refocus, g_free);
   G_OBJECT_CLASS (lw_parameter_rows_parent_class)->dispose (object);
 }

@@ -37,6 +37,7 @@ struct _LwPointRows
   LwDesignModel *model;
   GSignalGroup *model_signals;
   char *shape;                  /* what the rows were built for (rows_shape) */
+  char *key;                    /* what they show (lw_design_model_params_key) */
   guint rebuild_id;
   gboolean filling;             /* showing the model: do not write back */
   gboolean focus_added;         /* after a rebuild, the focus to the last point's name */
@@ -428,6 +429,12 @@ model_changed (LwPointRows *self)
 {
   if (self->model == NULL)
     return;
+  /* a change they do not show (a stage dragged, every frame): nothing to do */
+  g_autofree char *key = lw_design_model_params_key (self->model);
+  if (g_strcmp0 (key, self->key) == 0)
+    return;
+  g_free (self->key);
+  self->key = g_steal_pointer (&key);
   update_state (self);
   g_autofree char *shape = rows_shape (self);
   if (g_strcmp0 (shape, self->shape) == 0)
@@ -467,6 +474,7 @@ lw_point_rows_dispose (GObject *object)
   g_clear_object (&self->model);
   g_clear_pointer (&self->box, gtk_widget_unparent);
   g_clear_pointer (&self->shape, g_free);
+  g_clear_pointer (&self->key, g_free);
   G_OBJECT_CLASS (lw_point_rows_parent_class)->dispose (object);
 }
 

@@ -72,6 +72,8 @@ struct _LwWindow
   LwFamilyPicture *family_picture; /* the family's members drawn with the active variant */
   gboolean family_drag_running; /* its members follow a drag on a worker (lw-window-family.c) */
   gpointer family_drag_pending; /* the newest drag step waiting for it (DragJob), or NULL */
+  gint64 family_drag_started;   /* when the last one started (monotonic µs) */
+  guint family_drag_timer;      /* the waiting one's start, or 0 */
   gboolean family_redraw;       /* a new picture: the figures are drawn again at the next frame */
   guint family_tick;            /* … by this tick callback, or 0 */
   gboolean measured_family_running; /* a measured family is being evaluated
