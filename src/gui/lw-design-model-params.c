@@ -2,7 +2,7 @@
  * the plant's text uses, setting and removing a parameter (each one "changed", so one undo
  * step; a parameter removed takes its values in the operating points with it), and what
  * would be wrong with a parameter before it is set, the operating points' rules included
- * (docs/families.md).
+ * (docs/families.md); the family's drawn members and their seed.
  * SPDX-License-Identifier: GPL-3.0-or-later
  */
 #include "config.h"
@@ -11,6 +11,7 @@
 
 #include "lw-design-model-private.h"
 #include "lw-expr.h"
+#include "lw-family.h"
 
 guint
 lw_design_model_get_n_params (LwDesignModel *self)
@@ -226,7 +227,63 @@ lw_design_model_remove_param (LwDesignModel *self, const char *name)
       /* no parameter, no point: a document writes them inside <parameters> */
       g_clear_pointer (&d->params, g_free);
       lw_design_clear_points (d);
+      d->has_family_members = d->has_family_seed = false;   /* written there too */
     }
   lw_design_model_emit_changed (self);
+  return TRUE;
+}
+
+void
+lw_design_model_get_family_sampling (LwDesignModel *self, gsize *members, guint64 *seed)
+{
+  g_return_if_fail (LW_IS_DESIGN_MODEL (self));
+  LwFamilyOptions o;
+  lw_family_options_for (&o, self->doc);
+  if (members != NULL)
+    *members = o.members;
+  if (seed != NULL)
+    *seed = o.seed;
+}
+
+gboolean
+lw_design_model_set_family_sampling (LwDesignModel *self, gsize members, guint64 seed,
+                                     char **why)
+{
+  g_return_val_if_fail (LW_IS_DESIGN_MODEL (self), FALSE);
+  LwDesign *d = self->doc;
+  char *problem = NULL;
+  if (d->n_params == 0)
+    problem = g_strdup ("a design without parameters has no family to draw");
+  else if (members > LW_DESIGN_MAX_FAMILY_MEMBERS)
+    problem = g_strdup_printf ("a family draws at most %d members", LW_DESIGN_MAX_FAMILY_MEMBERS);
+  else if (seed > (guint64) G_MAXINT64)
+    problem = g_strdup_printf ("a seed is at most %" G_GINT64_FORMAT, G_MAXINT64);
+  if (problem != NULL)
+    {
+      if (why != NULL)
+        *why = problem;
+      else
+        g_free (problem);
+      return FALSE;
+    }
+  gsize had_members = 0;
+  guint64 had_seed = 0;
+  lw_design_model_get_family_sampling (self, &had_members, &had_seed);
+  /* a value as it is stays as the document gives it (written, or the default left out) */
+  gboolean changed = FALSE;
+  if (members != had_members)
+    {
+      d->has_family_members = true;
+      d->family_members = members;
+      changed = TRUE;
+    }
+  if (seed != had_seed)
+    {
+      d->has_family_seed = true;
+      d->family_seed = seed;
+      changed = TRUE;
+    }
+  if (changed)
+    lw_design_model_emit_changed (self);
   return TRUE;
 }

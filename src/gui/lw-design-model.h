@@ -178,8 +178,8 @@ char *lw_design_model_param_problem (LwDesignModel *self, const LwDesignParam *p
  * refused. */
 gboolean lw_design_model_set_param (LwDesignModel *self, const LwDesignParam *p, char **why);
 /* Removes the parameter called name (one "changed"); FALSE when there is none. The points'
- * values of it go with it, and the points themselves with the last parameter (a document
- * writes points inside <parameters>). */
+ * values of it go with it, and the points themselves with the last parameter, and the
+ * family's members and seed (a document writes them inside <parameters>). */
 gboolean lw_design_model_remove_param (LwDesignModel *self, const char *name);
 /* The operating points of the plant family (the document's <point> elements, in order;
  * docs/families.md), found by their names (unique). The pointer is valid until the next edit.
@@ -216,6 +216,16 @@ char *lw_design_model_get_points_problem (LwDesignModel *self);
  * parameters and the points with every number to 17 digits. Equal texts: nothing they show
  * changed (a stage dragged), so they need not be touched. g_free it. */
 char *lw_design_model_params_key (LwDesignModel *self);
+/* The plant family's drawn members and their seed as the engine takes them
+ * (lw_family_options_for): the document's <parameters members seed>, else the defaults. */
+void lw_design_model_get_family_sampling (LwDesignModel *self, gsize *members, guint64 *seed);
+/* Sets them: one "changed" (one undo step), none when both are as they are; a value as it is
+ * stays as the document gives it (written or left out), one that changes is written. FALSE
+ * with *why (may be NULL; g_free), nothing changed, for a design without parameters (a
+ * document writes them in <parameters>), members over LW_DESIGN_MAX_FAMILY_MEMBERS or a seed
+ * over G_MAXINT64. lw-design-model-params.c. */
+gboolean lw_design_model_set_family_sampling (LwDesignModel *self, gsize members, guint64 seed,
+                                              char **why);
 /* Removes point `point` (one "changed"); FALSE when there is none. */
 gboolean lw_design_model_remove_point (LwDesignModel *self, const char *point);
 

@@ -142,6 +142,22 @@ lw_number_field_format (double value)
   return g_strdup (buf);
 }
 
+/* value as a field shows it: a whole-number field's every digit (a seed of 12345678 is not
+ * 1.234568e+07), any other's lw_number_field_format */
+static char *
+format_for (double value, gboolean whole)
+{
+  if (whole && fabs (value) < 1e16)
+    return g_strdup_printf ("%.0f", value);
+  return lw_number_field_format (value);
+}
+
+static char *
+spin_text (GtkSpinButton *spin)
+{
+  return format_for (gtk_spin_button_get_value (spin), gtk_spin_button_get_digits (spin) == 0);
+}
+
 gboolean
 lw_number_field_parse (const char *text, double lo, double hi, gboolean whole, double *out,
                        char **why)
@@ -206,8 +222,8 @@ lw_number_field_parse (const char *text, double lo, double hi, gboolean whole, d
     }
   if (v < lo || v > hi)
     {
-      g_autofree char *l = lw_number_field_format (lo);
-      g_autofree char *h = lw_number_field_format (hi);
+      g_autofree char *l = format_for (lo, whole);
+      g_autofree char *h = format_for (hi, whole);
       *why = g_strdup_printf (_("%s is outside what this field takes, %s to %s"), t, l, h);
       return FALSE;
     }
@@ -221,7 +237,7 @@ show (GtkSpinButton *spin, Field *f)
   GtkWidget *w = GTK_WIDGET (spin);
   if (f->why != NULL)
     {
-      g_autofree char *kept = lw_number_field_format (gtk_spin_button_get_value (spin));
+      g_autofree char *kept = spin_text (spin);
       /* TRANSLATORS: field name, the reason, the value the design keeps */
       g_autofree char *msg = g_strdup_printf (_("%s: %s. The design keeps %s."), f->name, f->why,
                                               kept);
@@ -263,7 +279,7 @@ on_input (GtkSpinButton *spin, double *new_value, gpointer data)
   g_clear_pointer (&f->why, g_free);
   /* the text as shown for the current value, untouched: the value itself, not the 7 digits
    * on display (reading them back would change the design by a rounding) */
-  g_autofree char *shown = lw_number_field_format (gtk_spin_button_get_value (spin));
+  g_autofree char *shown = spin_text (spin);
   if (strcmp (shown, gtk_editable_get_text (GTK_EDITABLE (spin))) == 0)
     {
       *new_value = gtk_spin_button_get_value (spin);
@@ -303,7 +319,7 @@ on_output (GtkSpinButton *spin, gpointer data)
       f->refusing = FALSE;
       return TRUE;
     }
-  g_autofree char *text = lw_number_field_format (gtk_spin_button_get_value (spin));
+  g_autofree char *text = spin_text (spin);
   if (strcmp (text, gtk_editable_get_text (GTK_EDITABLE (spin))) != 0)
     gtk_editable_set_text (GTK_EDITABLE (spin), text);
   if (f->why != NULL)

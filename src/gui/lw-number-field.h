@@ -8,7 +8,7 @@
  * field a new value; the spin button's value, and so the design, keep the last good value.
  * The decimal comma is taken where the user's locale writes numbers with one ("0,5" in a
  * German locale); elsewhere it is refused with the reason. Whole-number fields (digits 0)
- * take whole numbers only.
+ * take whole numbers only, and show every digit of them.
  *
  * SPDX-License-Identifier: GPL-3.0-or-later
  */

@@ -15,6 +15,7 @@
 #include "lw-parameter-rows.h"
 #include "lw-plant-panel.h"
 #include "lw-point-rows.h"
+#include "lw-family-sampling.h"
 
 struct _LwPlantPanel
 {
@@ -32,6 +33,7 @@ struct _LwPlantPanel
   GtkEntry *output_unit_entry;
   LwParameterRows *param_rows;   /* the plant's named parameters */
   LwPointRows *point_rows;       /* the plant family's operating points */
+  LwFamilySampling *family_sampling;   /* its drawn members and seed */
   GtkSizeGroup *name_group;      /* the column of field names, the parameters' too */
   GtkWidget *vary_dead_time_button;
 
@@ -127,6 +129,7 @@ lw_plant_panel_set_model (LwPlantPanel *self, LwDesignModel *model)
                          d->output_unit != NULL ? d->output_unit : "");
   lw_parameter_rows_set_model (self->param_rows, model);
   lw_point_rows_set_model (self->point_rows, model);
+  lw_family_sampling_set_model (self->family_sampling, model);
   self->filling = FALSE;
 }
 
@@ -317,6 +320,7 @@ lw_plant_panel_class_init (LwPlantPanelClass *klass)
   G_OBJECT_CLASS (klass)->dispose = lw_plant_panel_dispose;
   g_type_ensure (LW_TYPE_PARAMETER_ROWS);
   g_type_ensure (LW_TYPE_POINT_ROWS);
+  g_type_ensure (LW_TYPE_FAMILY_SAMPLING);
   gtk_widget_class_set_template_from_resource (widget_class,
                                                "/org/loopwright/Designer/ui/lw-plant-panel.ui");
   gtk_widget_class_bind_template_child (widget_class, LwPlantPanel, plant_entry);
@@ -334,6 +338,7 @@ lw_plant_panel_class_init (LwPlantPanelClass *klass)
   gtk_widget_class_bind_template_callback (widget_class, units_changed);
   gtk_widget_class_bind_template_child (widget_class, LwPlantPanel, param_rows);
   gtk_widget_class_bind_template_child (widget_class, LwPlantPanel, point_rows);
+  gtk_widget_class_bind_template_child (widget_class, LwPlantPanel, family_sampling);
   gtk_widget_class_bind_template_child (widget_class, LwPlantPanel, name_group);
   gtk_widget_class_bind_template_child (widget_class, LwPlantPanel, vary_dead_time_button);
   gtk_widget_class_set_layout_manager_type (widget_class, GTK_TYPE_BIN_LAYOUT);

@@ -2,7 +2,8 @@
  * (src/gui/lw-design-model-params.c) without a window: the names the plant's text uses and
  * those no parameter gives; setting, ranging, fixing and removing a parameter, each one
  * "changed" (so one undo step, undone byte for byte); every refusal of docs/families.md
- * leaving the document and its signals untouched; the dead time as a parameter.
+ * leaving the document and its signals untouched; the dead time as a parameter; the
+ * family's members and seed.
  *
  * SPDX-License-Identifier: GPL-3.0-or-later
  */
@@ -220,6 +221,77 @@ test_dead_time (void **state)
   g_object_unref (m);
 }
 
+/* The family's members and seed: the defaults (100 and 1, lw_family_options_init) until set;
+ * a change is one "changed" and one undo step, undone byte for byte; a value left as it is
+ * stays out of the document; over the limits or without parameters refused, nothing changed;
+ * the last parameter removed takes them with it. */
+static void
+test_family_sampling (void **state)
+{
+  (void) state;
+  guint changes = 0;
+  LwDesignModel *m = model_on ("K/(s*(s+12))", &changes);
+  gsize members = 0;
+  guint64 seed = 0;
+  assert_false (lw_design_model_set_family_sampling (m, 20, 4, NULL));   /* no parameters */
+  assert_int_equal (changes, 0);
+  LwDesignParam k = { .name = (char *) "K", .nominal = 180.0, .ranged = true, .low = 150.0,
+                      .high = 220.0 };
+  assert_true (lw_design_model_set_param (m, &k, NULL));
+  LwHistory *h = lw_history_new (m, 200, 1000000);
+  lw_history_commit (h);
+  char *t0 = text_of (m);
+  lw_design_model_get_family_sampling (m, &members, &seed);
+  assert_int_equal (members, 100);
+  assert_int_equal (seed, 1);
+  changes = 0;
+  assert_true (lw_design_model_set_family_sampling (m, 100, 1, NULL));   /* as it is */
+  assert_int_equal (changes, 0);
+
+  assert_true (lw_design_model_set_family_sampling (m, 20, 1, NULL));
+  assert_int_equal (changes, 1);
+  lw_history_commit (h);
+  char *t1 = text_of (m);
+  assert_non_null (strstr (t1, "<parameters members=\"20\">"));   /* the seed left out */
+  assert_true (lw_design_model_set_family_sampling (m, 20, 4, NULL));
+  assert_int_equal (changes, 2);
+  lw_history_commit (h);
+  char *t2 = text_of (m);
+  assert_non_null (strstr (t2, "<parameters members=\"20\" seed=\"4\">"));
+  lw_design_model_get_family_sampling (m, &members, &seed);
+  assert_int_equal (members, 20);
+  assert_int_equal (seed, 4);
+
+  char *why = NULL;
+  assert_false (lw_design_model_set_family_sampling (m, LW_DESIGN_MAX_FAMILY_MEMBERS + 1, 4,
+                                                     &why));
+  assert_non_null (why);
+  g_clear_pointer (&why, g_free);
+  assert_false (lw_design_model_set_family_sampling (m, 20, (guint64) G_MAXINT64 + 1, &why));
+  assert_non_null (why);
+  g_clear_pointer (&why, g_free);
+  assert_int_equal (changes, 2);
+  char *t_refused = text_of (m);
+  assert_string_equal (t_refused, t2);
+
+  assert_true (lw_history_undo (h));
+  char *u1 = text_of (m);
+  assert_string_equal (u1, t1);
+  assert_true (lw_history_undo (h));
+  char *u0 = text_of (m);
+  assert_string_equal (u0, t0);
+
+  assert_true (lw_design_model_set_family_sampling (m, 0, (guint64) G_MAXINT64, NULL));
+  assert_true (lw_design_model_remove_param (m, "K"));
+  lw_design_model_get_family_sampling (m, &members, &seed);
+  assert_int_equal (members, 100);
+  assert_int_equal (seed, 1);
+
+  g_free (t0); g_free (t1); g_free (t2); g_free (t_refused); g_free (u1); g_free (u0);
+  g_object_unref (h);
+  g_object_unref (m);
+}
+
 int
 main (void)
 {
@@ -228,6 +300,7 @@ main (void)
     cmocka_unit_test (test_set_range_fix_remove),
     cmocka_unit_test (test_refusals),
     cmocka_unit_test (test_dead_time),
+    cmocka_unit_test (test_family_sampling),
   };
   return cmocka_run_group_tests (tests, NULL, NULL);
 }

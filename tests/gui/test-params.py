@@ -12,8 +12,9 @@ outside the range (190 as the low end) are refused at their fields, named in
 LW-FIELD-REFUSED, and the document saved after them is byte for byte the one before; one
 Ctrl+Z then gives the document before the high end was typed, byte for byte. "Vary" beside
 the dead-time field adds <parameter name="dead_time_s" nominal="0" low="0" high="0.002"/> (a
-sample period of range), undone by one Ctrl+Z. A screenshot of the rows goes to
-ARTEFACT_DIR/params.png.
+sample period of range), undone by one Ctrl+Z. The family's members and seed fields
+(lw-family-sampling.c) are not shown while K is fixed, and are once it has a range. A
+screenshot of the rows goes to ARTEFACT_DIR/params.png.
 
 Usage: test-params.py LOOPWRIGHT CLI SCHEMA_DIR EXAMPLE ARTEFACT_DIR
 Re-runs itself on an Xvfb server of its own (lwgui.outer; exit 77, skipped, when Xvfb or
@@ -69,6 +70,9 @@ def inner(app, cli, schema_dir, example, artefacts):
                 doc_fixed = saved_after(wid, design)
                 if params_of(doc_fixed) != ['<parameter name="K" nominal="180"/>']:
                     fail('after the value: %s' % params_of(doc_fixed))
+                # a fixed parameter is no family: the members and seed fields are not shown
+                if last_line(log_path, 'LW-FIELD', name='Members-drawn') is not None:
+                    fail('the family\'s members field is shown without a family')
                 # "range" from the drop-down, by the keyboard in its list
                 click_field(wid, log_path, 'K-range')
                 time.sleep(0.5)
@@ -76,6 +80,8 @@ def inner(app, cli, schema_dir, example, artefacts):
                 run('xdotool', 'key', '--clearmodifiers', 'Return')
                 wait_for(lambda: last_line(log_path, 'LW-FIELD', name='K-low'),
                          'the range row of K')
+                wait_for(lambda: last_line(log_path, 'LW-FIELD', name='Members-drawn'),
+                         'the family\'s members field, shown with the range')
                 time.sleep(1.0)
                 type_field(wid, log_path, 'K-low', '150')
                 doc_low = saved_after(wid, design)
