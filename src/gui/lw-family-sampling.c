@@ -196,14 +196,7 @@ lw_family_sampling_init (LwFamilySampling *self)
                                             "ranges, besides the operating points and the "
                                             "corners of the ranges"));
 
-  self->problem = GTK_LABEL (gtk_label_new (NULL));
-  gtk_label_set_xalign (self->problem, 0.0f);
-  gtk_label_set_wrap (self->problem, TRUE);
-  gtk_label_set_wrap_mode (self->problem, PANGO_WRAP_WORD_CHAR);
-  gtk_label_set_width_chars (self->problem, 20);
-  gtk_label_set_max_width_chars (self->problem, 40);
-  gtk_widget_add_css_class (GTK_WIDGET (self->problem), "error");
-  gtk_widget_set_visible (GTK_WIDGET (self->problem), FALSE);
+  self->problem = lw_gui_problem_label_new ();
 
   GtkWidget *row = gtk_box_new (GTK_ORIENTATION_HORIZONTAL, 6);
   GtkWidget *title = words (_("Family:"));

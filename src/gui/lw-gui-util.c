@@ -98,3 +98,17 @@ lw_gui_row_label (float xalign, float yalign, const char *mnemonic, GtkWidget *t
   gtk_label_set_mnemonic_widget (GTK_LABEL (l), target);
   return l;
 }
+
+GtkLabel *
+lw_gui_problem_label_new (void)
+{
+  GtkLabel *l = GTK_LABEL (gtk_label_new (NULL));
+  gtk_label_set_xalign (l, 0.0f);
+  gtk_label_set_wrap (l, TRUE);
+  gtk_label_set_wrap_mode (l, PANGO_WRAP_WORD_CHAR);
+  gtk_label_set_width_chars (l, 20);
+  gtk_label_set_max_width_chars (l, 40);
+  gtk_widget_add_css_class (GTK_WIDGET (l), "error");
+  gtk_widget_set_visible (GTK_WIDGET (l), FALSE);
+  return l;
+}

@@ -23,6 +23,10 @@ void lw_gui_set_tooltip (GtkWidget *widget, const char *text);
  * field's − and + buttons still step it. */
 void lw_gui_spin_wheel_off (GtkSpinButton *spin);
 
+/* A hidden label for why a typed value was refused, under a part's fields: wrapped, in the
+ * error style (the parameter and point rows, the family's members and seed). */
+GtkLabel *lw_gui_problem_label_new (void);
+
 /* A requirement in words for the window: its name when it has one, else its kind and target
  * ("Phase margin at least 45 deg"). g_free it. */
 char *lw_gui_requirement_title (const LwDesignRequirement *r);

@@ -522,14 +522,7 @@ lw_point_rows_init (LwPointRows *self)
   lw_number_field_watch_widget (self->add_button, "Add operating point");
   gtk_box_append (GTK_BOX (self->box), self->add_button);
 
-  self->problem = GTK_LABEL (gtk_label_new (NULL));
-  gtk_label_set_xalign (self->problem, 0.0f);
-  gtk_label_set_wrap (self->problem, TRUE);
-  gtk_label_set_wrap_mode (self->problem, PANGO_WRAP_WORD_CHAR);
-  gtk_label_set_width_chars (self->problem, 20);
-  gtk_label_set_max_width_chars (self->problem, 40);
-  gtk_widget_add_css_class (GTK_WIDGET (self->problem), "error");
-  gtk_widget_set_visible (GTK_WIDGET (self->problem), FALSE);
+  self->problem = lw_gui_problem_label_new ();
   gtk_box_append (GTK_BOX (self->box), GTK_WIDGET (self->problem));
 
   self->model_signals = g_signal_group_new (LW_TYPE_DESIGN_MODEL);
