@@ -54,9 +54,9 @@ field_changed (GtkSpinButton *spin, LwFamilySampling *self)
     seed = (guint64) gtk_spin_button_get_value (spin);
   g_autofree char *why = NULL;
   /* one edit, one undo step: what was edited before is a step of its own, and so is this */
-  gtk_widget_activate_action (GTK_WIDGET (self), "window.history-commit", NULL);
+  lw_gui_history_step (GTK_WIDGET (self));
   gboolean ok = lw_design_model_set_family_sampling (self->model, members, seed, &why);
-  gtk_widget_activate_action (GTK_WIDGET (self), "window.history-commit", NULL);
+  lw_gui_history_step (GTK_WIDGET (self));
   if (!ok)
     {
       self->filling = TRUE;
@@ -123,11 +123,8 @@ model_changed (LwFamilySampling *self)
   if (self->model == NULL)
     return;
   /* a change they do not show (a stage dragged, every frame): nothing to do */
-  g_autofree char *key = shown_key (self);
-  if (g_strcmp0 (key, self->key) == 0)
+  if (!lw_gui_take_if_changed (&self->key, shown_key (self)))
     return;
-  g_free (self->key);
-  self->key = g_steal_pointer (&key);
   update (self);
 }
 

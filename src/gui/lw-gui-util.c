@@ -7,6 +7,7 @@
 
 #include "lw-engine.h"
 #include "lw-gui-util.h"
+#include "lw-number-field.h"
 
 void
 lw_gui_label_show_model (GtkLabel *label, const char *prefix, const LwModel *m)
@@ -111,4 +112,38 @@ lw_gui_problem_label_new (void)
   gtk_widget_add_css_class (GTK_WIDGET (l), "error");
   gtk_widget_set_visible (GTK_WIDGET (l), FALSE);
   return l;
+}
+
+void
+lw_gui_show_refusal (GtkLabel *problem, const char *field, const char *why)
+{
+  if (why == NULL)
+    {
+      gtk_widget_set_visible (GTK_WIDGET (problem), FALSE);
+      return;
+    }
+  /* TRANSLATORS: the field (e.g. "K range"), then why its value is refused */
+  g_autofree char *msg = g_strdup_printf (_("%s: %s; not taken."), field, why);
+  gtk_label_set_text (problem, msg);
+  gtk_widget_set_visible (GTK_WIDGET (problem), TRUE);
+  lw_number_field_debug_refusal (field, why);
+}
+
+gboolean
+lw_gui_take_if_changed (char **last, char *now)
+{
+  if (g_strcmp0 (now, *last) == 0)
+    {
+      g_free (now);
+      return FALSE;
+    }
+  g_free (*last);
+  *last = now;
+  return TRUE;
+}
+
+void
+lw_gui_history_step (GtkWidget *widget)
+{
+  gtk_widget_activate_action (widget, "window.history-commit", NULL);
 }

@@ -26,6 +26,14 @@ void lw_gui_spin_wheel_off (GtkSpinButton *spin);
 /* A hidden label for why a typed value was refused, under a part's fields: wrapped, in the
  * error style (the parameter and point rows, the family's members and seed). */
 GtkLabel *lw_gui_problem_label_new (void);
+/* Shows "FIELD: WHY; not taken." in such a label (why NULL: hides it), and the refusal's
+ * debug line (lw_number_field_debug_refusal). */
+void lw_gui_show_refusal (GtkLabel *problem, const char *field, const char *why);
+/* now (taken) in place of *last when they differ: TRUE then (what a widget shows changed). */
+gboolean lw_gui_take_if_changed (char **last, char *now);
+/* Marks an undo step in widget's window (the window.history-commit action): before an edit
+ * and after it, so the edit is one step of its own. */
+void lw_gui_history_step (GtkWidget *widget);
 
 /* A requirement in words for the window: its name when it has one, else its kind and target
  * ("Phase margin at least 45 deg"). g_free it. */

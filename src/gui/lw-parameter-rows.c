@@ -104,25 +104,16 @@ current_param (LwParameterRows *self, const char *name, LwDesignParam *out)
 static void
 show_problem (LwParameterRows *self, const char *field, const char *why)
 {
-  if (why == NULL)
-    {
-      gtk_widget_set_visible (GTK_WIDGET (self->problem), FALSE);
-      return;
-    }
-  /* TRANSLATORS: the field (e.g. "K range"), then why its value is refused */
-  g_autofree char *msg = g_strdup_printf (_("%s: %s; not taken."), field, why);
-  gtk_label_set_text (self->problem, msg);
-  gtk_widget_set_visible (GTK_WIDGET (self->problem), TRUE);
-  lw_number_field_debug_refusal (field, why);
+  lw_gui_show_refusal (self->problem, field, why);
 }
 
 /* One edit, one undo step: what was edited before is a step of its own, and so is this. */
 static gboolean
 apply (LwParameterRows *self, const LwDesignParam *p, char **why)
 {
-  gtk_widget_activate_action (GTK_WIDGET (self), "window.history-commit", NULL);
+  lw_gui_history_step (GTK_WIDGET (self));
   gboolean ok = lw_design_model_set_param (self->model, p, why);
-  gtk_widget_activate_action (GTK_WIDGET (self), "window.history-commit", NULL);
+  lw_gui_history_step (GTK_WIDGET (self));
   return ok;
 }
 
@@ -238,9 +229,9 @@ remove_clicked (GtkButton *button, LwParameterRows *self)
 {
   if (self->model == NULL)
     return;
-  gtk_widget_activate_action (GTK_WIDGET (self), "window.history-commit", NULL);
+  lw_gui_history_step (GTK_WIDGET (self));
   lw_design_model_remove_param (self->model, name_of (button));
-  gtk_widget_activate_action (GTK_WIDGET (self), "window.history-commit", NULL);
+  lw_gui_history_step (GTK_WIDGET (self));
 }
 
 /* A value typed for a name the plant uses that no parameter gives: the parameter is added
@@ -563,11 +554,8 @@ model_changed (LwParameterRows *self)
   if (self->model == NULL)
     return;
   /* a change they do not show (a stage dragged, every frame): nothing to do */
-  g_autofree char *key = lw_design_model_params_key (self->model);
-  if (g_strcmp0 (key, self->key) == 0)
+  if (!lw_gui_take_if_changed (&self->key, lw_design_model_params_key (self->model)))
     return;
-  g_free (self->key);
-  self->key = g_steal_pointer (&key);
   g_autofree char *shape = rows_shape (self);
   if (g_strcmp0 (shape, self->shape) == 0)
     {

@@ -83,16 +83,7 @@ value_text (LwPointRows *self, const char *point, const char *param)
 static void
 show_problem (LwPointRows *self, const char *field, const char *why)
 {
-  if (why == NULL)
-    {
-      gtk_widget_set_visible (GTK_WIDGET (self->problem), FALSE);
-      return;
-    }
-  /* TRANSLATORS: the field (e.g. "K at point 1"), then why its value is refused */
-  g_autofree char *msg = g_strdup_printf (_("%s: %s; not taken."), field, why);
-  gtk_label_set_text (self->problem, msg);
-  gtk_widget_set_visible (GTK_WIDGET (self->problem), TRUE);
-  lw_number_field_debug_refusal (field, why);
+  lw_gui_show_refusal (self->problem, field, why);
 }
 
 /* The field's text taken (clear) or refused with why (the text stays, marked). */
@@ -120,7 +111,7 @@ mark (LwPointRows *self, GtkWidget *entry, const char *why)
 static void
 commit (LwPointRows *self)
 {
-  gtk_widget_activate_action (GTK_WIDGET (self), "window.history-commit", NULL);
+  lw_gui_history_step (GTK_WIDGET (self));
 }
 
 /* A value field left or activated: an empty text takes the nominal, a number is the point's
@@ -430,11 +421,8 @@ model_changed (LwPointRows *self)
   if (self->model == NULL)
     return;
   /* a change they do not show (a stage dragged, every frame): nothing to do */
-  g_autofree char *key = lw_design_model_params_key (self->model);
-  if (g_strcmp0 (key, self->key) == 0)
+  if (!lw_gui_take_if_changed (&self->key, lw_design_model_params_key (self->model)))
     return;
-  g_free (self->key);
-  self->key = g_steal_pointer (&key);
   update_state (self);
   g_autofree char *shape = rows_shape (self);
   if (g_strcmp0 (shape, self->shape) == 0)
