@@ -213,3 +213,19 @@ def without_surface_ids(path):
     process made before)."""
     with open(path, 'rb') as f:
         return re.sub(rb'surface\d+', b'surface', f.read())
+
+
+def refusals(log_path):
+    """Every LW-FIELD-REFUSED line of log_path (a number field's refusal, lw-number-field.c)."""
+    with open(log_path, encoding='utf-8', errors='replace') as f:
+        return [line for line in f.read().splitlines() if line.startswith('LW-FIELD-REFUSED ')]
+
+
+def undo_outside_fields(wid, log_path):
+    """Ctrl+Z with the focus on the K range's drop-down, out of any text field (in a field,
+    Ctrl+Z undoes the typing of its text, not the design's last edit)."""
+    click_field(wid, log_path, 'K-range')
+    run('xdotool', 'key', '--clearmodifiers', 'Escape')
+    time.sleep(0.3)
+    key(wid, 'ctrl+z')
+    time.sleep(0.5)

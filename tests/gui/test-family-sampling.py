@@ -27,14 +27,10 @@ import tempfile
 import time
 
 sys.path.insert(0, os.path.dirname(os.path.abspath(__file__)))
-from lwgui import (click_field, debug_lines, fail, key, kill_window, last_line,  # noqa: E402
+from lwgui import (refusals, undo_outside_fields,  # noqa: E402
+                   click_field, debug_lines, fail, key, kill_window, last_line,  # noqa: E402
                    outer, quit_window, run, saved_after, settle, start_window, type_field,
                    wait_for, window_env)
-
-
-def refusals(log_path):
-    with open(log_path, encoding='utf-8', errors='replace') as f:
-        return [line for line in f.read().splitlines() if line.startswith('LW-FIELD-REFUSED ')]
 
 
 def parameters_tag(doc):
@@ -121,11 +117,7 @@ def inner(app, cli, schema_dir, example, artefacts):
 
                 # one undo step: the seed typed is taken back, byte for byte (the focus first
                 # on a drop-down: in a field, Ctrl+Z undoes the typing of its text)
-                click_field(wid, log_path, 'K-range')
-                run('xdotool', 'key', '--clearmodifiers', 'Escape')
-                time.sleep(0.3)
-                key(wid, 'ctrl+z')
-                time.sleep(0.5)
+                undo_outside_fields(wid, log_path)
                 undone = saved_after(wid, design)
                 if undone != doc_members:
                     fail('one undo did not give the document before the seed back: %s'

@@ -25,14 +25,10 @@ import tempfile
 import time
 
 sys.path.insert(0, os.path.dirname(os.path.abspath(__file__)))
-from lwgui import (click_field, fail, key, kill_window, last_line, outer,  # noqa: E402
+from lwgui import (refusals,  # noqa: E402
+                   click_field, fail, key, kill_window, last_line, outer,  # noqa: E402
                    quit_window, run, saved_after, settle, start_window, type_field, wait_for,
                    window_env)
-
-
-def refusals(log_path):
-    with open(log_path, encoding='utf-8', errors='replace') as f:
-        return [line for line in f.read().splitlines() if line.startswith('LW-FIELD-REFUSED ')]
 
 
 # field (as the debug line names it), text typed, words the refusal must hold
