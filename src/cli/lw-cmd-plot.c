@@ -22,6 +22,7 @@
 #include "lw-figure-data.h"
 #include "lw-cli-family.h"
 #include "lw-cli-family-plot.h"
+#include "lw-cli-figure-options.h"
 #include "lw-plot-export.h"
 #include "lw-plot.h"
 
@@ -137,39 +138,6 @@ typedef struct
   size_t family_of;
 } PlotSpec;
 
-static bool
-parse_size (const char *text, double *w, double *h)
-{
-  const char *x = strchr (text, 'x');
-  if (x == NULL)
-    {
-      lw_cli_bad_input ("--size", "'%s' is not WIDTHxHEIGHT, e.g. 800x600", text);
-      return false;
-    }
-  g_autofree char *ws = g_strndup (text, (gsize) (x - text));
-  gint64 a, b;
-  if (!lw_cli_parse_integer ("--size (width)", ws, 16, LW_PLOT_MAX_SIDE, &a)
-      || !lw_cli_parse_integer ("--size (height)", x + 1, 16, LW_PLOT_MAX_SIDE, &b))
-    return false;
-  *w = (double) a;
-  *h = (double) b;
-  return true;
-}
-
-/* A date of the form YYYY-MM-DDThh:mm:ss with an optional zone (Z or ±hh:mm). */
-static bool
-check_pdf_date (const char *text)
-{
-  g_autoptr (GTimeZone) utc = g_time_zone_new_utc ();
-  g_autoptr (GDateTime) dt = g_date_time_new_from_iso8601 (text, utc);
-  if (dt == NULL || strlen (text) < 19)
-    {
-      lw_cli_bad_input ("--pdf-date", "'%s' is not a date YYYY-MM-DDThh:mm:ss", text);
-      return false;
-    }
-  return true;
-}
-
 static int
 plot_options_check (const PlotArgs *a, PlotSpec *s)
 {
@@ -203,7 +171,7 @@ plot_options_check (const PlotArgs *a, PlotSpec *s)
     }
   s->format = (LwPlotFormat) f;
   s->out = a->out;
-  if (a->size && !parse_size (a->size, &s->width, &s->height))
+  if (a->size && !lw_cli_parse_figure_size (a->size, &s->width, &s->height))
     return LW_EXIT_BAD_INPUT;
   if (s->format == LW_PLOT_FORMAT_PNG && s->width * s->height > LW_PLOT_MAX_PNG_PIXELS)
     {
@@ -260,7 +228,7 @@ plot_options_check (const PlotArgs *a, PlotSpec *s)
     }
   if (a->pdf_date)
     {
-      if (!check_pdf_date (a->pdf_date))
+      if (!lw_cli_check_pdf_date (a->pdf_date))
         return LW_EXIT_BAD_INPUT;
       s->pdf_date = a->pdf_date;
     }
